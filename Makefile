@@ -1,0 +1,102 @@
+# Makefile - build, test, demo, bench and install sinkrate.
+# `make check` and `make demo` install missing Debian packages first (scripts/deps.sh).
+
+PREFIX  ?= /usr/local
+DESTDIR ?=
+BINDIR   = $(PREFIX)/bin
+DATADIR  = $(PREFIX)/share/sinkrate
+MANDIR   = $(PREFIX)/share/man/man1
+
+CC      ?= cc
+CSTD     = -std=c11 -D_POSIX_C_SOURCE=200809L
+WARN     = -Wall -Wextra -Werror -Wno-unused-parameter -Wno-format-truncation
+OPT     ?= -O2 -g
+PKGS     = yaml-0.1 gsl jansson
+PKG_CFLAGS := $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
+PKG_LIBS   := $(shell pkg-config --libs $(PKGS) 2>/dev/null)
+TEST_LIBS  := $(shell pkg-config --libs cmocka udunits 2>/dev/null)
+OMP      = -fopenmp
+CFLAGS_ALL = $(CSTD) $(WARN) $(OPT) $(OMP) $(PKG_CFLAGS) -Isrc -DSR_DATADIR='"$(DATADIR)"' $(CFLAGS)
+LDLIBS_ALL = $(PKG_LIBS) -lcsv -lm $(OMP) $(LDFLAGS)
+
+B        ?= build
+LIB_SRC  := $(sort $(wildcard src/*.c))
+CLI_SRC  := $(sort $(wildcard src/cli/*.c))
+LIB_OBJ  := $(LIB_SRC:src/%.c=$(B)/obj/%.o)
+CLI_OBJ  := $(CLI_SRC:src/cli/%.c=$(B)/obj/cli/%.o)
+CLI_LIBOBJ := $(filter-out $(B)/obj/cli/main.o,$(CLI_OBJ))
+TEST_SRC := $(sort $(wildcard tests/test_*.c))
+TESTS    := $(TEST_SRC:tests/%.c=$(B)/tests/%)
+DEPS_OK  := $(B)/.deps-ok
+
+.SECONDARY:
+.PHONY: all deps check unit demo bench install uninstall clean plots validation sanitize valgrind fuzz
+all: $(B)/sinkrate
+
+deps: $(DEPS_OK)
+$(DEPS_OK): scripts/deps.sh
+	@sh scripts/deps.sh
+	@mkdir -p $(B) && touch $@
+
+$(B)/obj/%.o: src/%.c | $(DEPS_OK)
+	@mkdir -p $(dir $@)
+	$(CC) $(CFLAGS_ALL) -MMD -MP -c $< -o $@
+
+$(B)/libsinkrate.a: $(LIB_OBJ)
+	@rm -f $@
+	ar rcs $@ $^
+
+$(B)/libsinkrate-cli.a: $(CLI_LIBOBJ)
+	@rm -f $@
+	ar rcs $@ $^
+
+$(B)/sinkrate: $(B)/obj/cli/main.o $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
+	$(CC) $(CFLAGS_ALL) -o $@ $^ $(LDLIBS_ALL)
+
+$(B)/obj/tests/%.o: tests/%.c | $(DEPS_OK)
+	@mkdir -p $(dir $@)
+	$(CC) $(CFLAGS_ALL) -Itests -MMD -MP -c $< -o $@
+
+$(B)/tests/test_%: $(B)/obj/tests/test_%.o $(B)/obj/tests/testutil.o $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
+	@mkdir -p $(dir $@)
+	$(CC) $(CFLAGS_ALL) -o $@ $^ $(TEST_LIBS) $(LDLIBS_ALL)
+
+# Unit and CLI tests; each test binary appends its outside checks to the
+# validation log, from which docs/validation.md is written.
+unit: $(TESTS) $(B)/sinkrate
+	@rm -f $(B)/validation.tsv
+	@fail=0; for t in $(TESTS); do \
+	  SINKRATE_DATA=$(CURDIR) SR_VALIDATION_LOG=$(CURDIR)/$(B)/validation.tsv SR_ROOT=$(CURDIR) \
+	    CMOCKA_MESSAGE_OUTPUT=stdout $$t || fail=1; \
+	done; exit $$fail
+
+check: unit
+	@sh scripts/validation.sh $(B)/validation.tsv > docs/validation.md.tmp && mv docs/validation.md.tmp docs/validation.md
+	@echo "docs/validation.md: $$(grep -c '^| ' docs/validation.md) lines of outside checks"
+
+validation: check
+
+demo: $(B)/sinkrate
+	@sh scripts/demo.sh $(B)/sinkrate
+
+$(B)/bench: bench/bench.c $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
+	$(CC) $(CFLAGS_ALL) -o $@ $^ $(LDLIBS_ALL)
+
+bench: $(B)/bench $(B)/sinkrate
+	@SINKRATE_DATA=$(CURDIR) $(B)/bench $(B)/sinkrate
+
+install: $(B)/sinkrate
+	install -d $(DESTDIR)$(BINDIR) $(DESTDIR)$(DATADIR)/canopies $(DESTDIR)$(DATADIR)/plots $(DESTDIR)$(MANDIR)
+	install -m 755 $(B)/sinkrate $(DESTDIR)$(BINDIR)/sinkrate
+	install -m 644 canopies/*.yaml $(DESTDIR)$(DATADIR)/canopies/
+	install -m 644 plots/*.gp $(DESTDIR)$(DATADIR)/plots/ 2>/dev/null || true
+	install -m 644 docs/sinkrate.1 $(DESTDIR)$(MANDIR)/sinkrate.1
+
+uninstall:
+	rm -f $(DESTDIR)$(BINDIR)/sinkrate $(DESTDIR)$(MANDIR)/sinkrate.1
+	rm -rf $(DESTDIR)$(DATADIR)
+
+clean:
+	rm -rf $(B) build-*
+
+-include $(LIB_OBJ:.o=.d) $(CLI_OBJ:.o=.d) $(TEST_SRC:tests/%.c=$(B)/obj/tests/%.d)

@@ -1,0 +1,38 @@
+/* testutil.h - shared test helpers: outside checks that are asserted and
+ * logged for docs/validation.md, and running the CLI in-process. */
+#ifndef SR_TESTUTIL_H
+#define SR_TESTUTIL_H
+
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <cmocka.h>
+
+/* Assert |got - expected| <= rtol * |expected| and log the check with its
+ * source (a publication, "from memory", or "common practice"). */
+#define CHECK_REL(quantity, source, expected, got, rtol) \
+    sr_test_check(__FILE__, __LINE__, (quantity), (source), (expected), (got), (rtol), 0)
+/* Same with an absolute tolerance. */
+#define CHECK_ABS(quantity, source, expected, got, atol) \
+    sr_test_check(__FILE__, __LINE__, (quantity), (source), (expected), (got), (atol), 1)
+
+void sr_test_check(const char *file, int line, const char *quantity, const char *source, double expected,
+                   double got, double tol, int absolute);
+
+/* Run the CLI in-process with a NULL-terminated argument list; returns the
+ * exit code and fills *out / *err with malloc'd text (caller frees). */
+int sr_test_cli(char **out, char **err, ...);
+/* Same with an argv array. */
+int sr_test_cli_argv(char **out, char **err, int argc, char **argv);
+
+/* Path under the source tree (SR_ROOT), in a static buffer. */
+const char *sr_test_path(const char *rel);
+
+/* Write text to a fresh temporary file; returns its path (static buffer ring). */
+const char *sr_test_tmpfile(const char *suffix, const char *text);
+
+/* Count newline-terminated lines of s. */
+int sr_test_lines(const char *s);
+
+#endif
