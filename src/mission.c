@@ -22,7 +22,8 @@ static const char *const STAGE_REQ[] = {"name", NULL};
 static const char *const DEPLOY_KEYS[] = {"height", "delay", NULL};
 static const char *const START_KEYS[] = {"height", "speed", "path-angle", "heading", "east", "north", NULL};
 static const char *const START_REQ[] = {"height", NULL};
-static const char *const LIMIT_KEYS[] = {"touchdown-speed", "landing-energy", "descent-time", "drift", NULL};
+static const char *const LIMIT_KEYS[] = {"touchdown-speed", "landing-energy", "descent-time", "drift",
+                                        "deployment-pressure", NULL};
 
 void sr_mission_relative_path(char *out, size_t len, const char *base, const char *file)
 {
@@ -397,7 +398,8 @@ static int parse_limits(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *e
     } L[] = {{"touchdown-speed", SR_Q_SPEED, &m->limit_speed},
              {"landing-energy", SR_Q_ENERGY, &m->limit_energy},
              {"descent-time", SR_Q_TIME, &m->limit_time},
-             {"drift", SR_Q_LENGTH, &m->limit_drift}};
+             {"drift", SR_Q_LENGTH, &m->limit_drift},
+             {"deployment-pressure", SR_Q_PRESSURE, &m->limit_deploy_q}};
     for (size_t i = 0; i < sizeof L / sizeof L[0]; i++) {
         yaml_node_t *n = sr_yaml_get(y, lim, L[i].key);
         if (!n)
@@ -415,6 +417,7 @@ int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error 
     int rc;
     /* defaults of the keys this reader owns (callers may have zeroed the struct) */
     m->start_heading = NAN;
+    m->limit_deploy_q = NAN;
     yaml_node_t *root = sr_yaml_root(y);
     if ((rc = sr_yaml_check_map(y, root, "the mission file", TOP_KEYS, TOP_REQ, err)))
         return rc;
@@ -454,7 +457,7 @@ int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_e
     memset(m, 0, sizeof *m);
     sr_atmos_init_standard(&m->atmos);
     sr_wind_init_calm(&m->wind);
-    m->limit_speed = m->limit_energy = m->limit_time = m->limit_drift = NAN;
+    m->limit_speed = m->limit_energy = m->limit_time = m->limit_drift = m->limit_deploy_q = NAN;
     snprintf(m->path, sizeof m->path, "%s", path);
     sr_yaml y;
     int rc = sr_yaml_load_file(&y, path, err);

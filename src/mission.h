@@ -70,6 +70,7 @@ typedef struct sr_mission {
     double limit_energy;     /* kinetic energy per section, J */
     double limit_time;       /* descent time, s */
     double limit_drift;      /* drift distance, m */
+    double limit_deploy_q;   /* dynamic pressure at any deployment, Pa */
 } sr_mission;
 
 /* Load and validate; relative file names inside (sounding, canopy files) are
