@@ -80,6 +80,15 @@ static inline void cum_of(const run *R, double h, double *I, double *Je, double 
     *Jn = R->wp.k * (-R->wp.s * e + R->wp.c * n) + R->wp.dn * *I;
 }
 
+/* perturbed shear-lag integrals (a uniform added wind has no shear) */
+static inline void lag_of(const run *R, double h, double *Le, double *Ln)
+{
+    double e, n;
+    ctx_lag(R->c, h, &e, &n);
+    *Le = R->wp.k * (R->wp.c * e + R->wp.s * n);
+    *Ln = R->wp.k * (-R->wp.s * e + R->wp.c * n);
+}
+
 static double body_cd_full(const run *R, const body *b)
 {
     double C = b->cd_sec;
@@ -387,8 +396,16 @@ static int is_steady(const run *R, const body *b)
         return 0;
     double V, ue, un;
     airspeed(R, b->y, &V, &ue, &un);
-    double dz = b->y[5] + vt;
-    return sqrt(ue * ue + un * un + dz * dz) <= tol * vt;
+    /* falling through wind shear the body lags the air by (vt^2/g) dw/dh
+     * (linearised horizontal drag rate g/vt): that lag is part of the
+     * equilibrium, not of the transient */
+    double h = b->y[2], d = 0.5, e1, n1, e0, n0, rho, g;
+    wind_of(R, h + d, &e1, &n1);
+    wind_of(R, h > d ? h - d : 0.0, &e0, &n0);
+    ctx_air(R->c, h, &rho, NULL, &g);
+    double k = vt * vt / g / (h > d ? 2 * d : h + d);
+    double lx = ue - k * (e1 - e0), ly = un - k * (n1 - n0), dz = b->y[5] + vt;
+    return sqrt(lx * lx + ly * ly + dz * dz) <= tol * vt;
 }
 
 /* Line stretch of canopies whose time has come: fix their filling time. */
@@ -531,25 +548,32 @@ static int ode_segment(run *R, body *b, double h_stop, double t_stop, int *why)
 
 typedef struct quad_par {
     const sr_profile_ctx *c;
-    int which; /* 0: f, 1: we f, 2: wn f */
+    int which; /* 0: f, 1: we f, 2: wn f, 3: we phi', 4: wn phi' */
     int bad;
 } quad_par;
 
 static double integrand(double h, void *params)
 {
     quad_par *q = params;
-    double f, we, wn;
-    if (ctx_direct(q->c, h, &f, &we, &wn)) {
+    double f, we, wn, phi, dphi = 0.0;
+    if (ctx_direct(q->c, h, &f, &we, &wn) || (q->which >= 3 && ctx_phi(q->c, h, &phi, &dphi))) {
         q->bad = 1;
         return 0.0;
     }
-    return q->which == 0 ? f : q->which == 1 ? we * f : wn * f;
+    switch (q->which) {
+    case 0: return f;
+    case 1: return we * f;
+    case 2: return wn * f;
+    case 3: return we * dphi;
+    default: return wn * dphi;
+    }
 }
 
-/* Integrals of f, we f, wn f (unperturbed) from lo to hi by GSL QAG. */
-static int quad3(run *R, double lo, double hi, double out[3])
+/* Integrals from lo to hi by GSL QAG (unperturbed wind): of f, we f, wn f,
+ * and the shear lag integrals of phi dw (by parts: [phi w] - w phi' dh). */
+static int quad5(run *R, double lo, double hi, double out[5])
 {
-    for (int i = 0; i < 3; i++) {
+    for (int i = 0; i < 5; i++) {
         out[i] = 0.0;
         if (i > 0 && R->c->wind.kind == SR_WIND_CALM)
             continue;
@@ -562,6 +586,15 @@ static int quad3(run *R, double lo, double hi, double out[3])
             return sr_error_set(R->err, SR_EDOMAIN, "the descent leaves the atmosphere model");
         if (st != GSL_SUCCESS && st != GSL_EROUND)
             return sr_error_set(R->err, SR_ENUMERIC, "the descent-time quadrature failed (%s)", gsl_strerror(st));
+    }
+    if (R->c->wind.kind != SR_WIND_CALM) {
+        double pa, pb, ea, na, eb, nb;
+        if (ctx_phi(R->c, lo, &pa, NULL) || ctx_phi(R->c, hi, &pb, NULL))
+            return sr_error_set(R->err, SR_EDOMAIN, "the descent leaves the atmosphere model");
+        sr_wind_at(&R->c->wind, lo, &ea, &na);
+        sr_wind_at(&R->c->wind, hi, &eb, &nb);
+        out[3] = pb * eb - pa * ea - out[3];
+        out[4] = pb * nb - pa * na - out[4];
     }
     return SR_OK;
 }
@@ -582,10 +615,14 @@ static int qs_segment(run *R, body *b, double h_stop, double t_stop, int *why)
             h1 = h_stop;
         cum_of(R, h1, &I1, &E1, &N1);
     }
-    double dI = I0 - I1, dE = E0 - E1, dN = N0 - N1;
+    double La0, Ln0, La1, Ln1;
+    lag_of(R, h0, &La0, &Ln0);
+    lag_of(R, h1, &La1, &Ln1);
+    /* drift: the wind, plus the lag of a body falling through shear, (v/g) dw */
+    double dI = I0 - I1, dE = E0 - E1 + (La0 - La1) / (s * s), dN = N0 - N1 + (Ln0 - Ln1) / (s * s);
     if (R->mode == SR_PROFILE_FULL && h0 > h1) {
-        double q[3];
-        int rc = quad3(R, h1, h0, q);
+        double q[5];
+        int rc = quad5(R, h1, h0, q);
         if (rc)
             return rc;
         if (*why == 2) {
@@ -598,25 +635,28 @@ static int qs_segment(run *R, body *b, double h_stop, double t_stop, int *why)
                 h1 += F / (s * f); /* dF/dh1 = -s f */
                 if (h1 > h0)
                     h1 = h0;
-                if ((rc = quad3(R, h1, h0, q)))
+                if ((rc = quad5(R, h1, h0, q)))
                     return rc;
             }
         }
         dI = q[0];
         dE = R->wp.k * (R->wp.c * q[1] + R->wp.s * q[2]) + R->wp.de * q[0];
         dN = R->wp.k * (-R->wp.s * q[1] + R->wp.c * q[2]) + R->wp.dn * q[0];
+        dE += R->wp.k * (R->wp.c * q[3] + R->wp.s * q[4]) / (s * s);
+        dN += R->wp.k * (-R->wp.s * q[3] + R->wp.c * q[4]) / (s * s);
     }
     if (R->track && h0 > h1) {
         /* points for plots from the tables (1e-6 of the quadrature) */
         double span_t = s * dI, dt = R->track->dt > 0 ? R->track->dt : 1.0;
         int np = (int)fmin(400.0, ceil(span_t / dt));
         for (int i = 1; i < np; i++) {
-            double h = h0 - (h0 - h1) * i / np, I, E, N;
+            double h = h0 - (h0 - h1) * i / np, I, E, N, La, Ln;
             cum_of(R, h, &I, &E, &N);
+            lag_of(R, h, &La, &Ln);
             body tmp = *b;
             tmp.t = b->t + s * (I0 - I);
-            tmp.y[0] = b->y[0] + s * (E0 - E);
-            tmp.y[1] = b->y[1] + s * (N0 - N);
+            tmp.y[0] = b->y[0] + s * (E0 - E) + (La0 - La) / s;
+            tmp.y[1] = b->y[1] + s * (N0 - N) + (Ln0 - Ln) / s;
             tmp.y[2] = h;
             set_steady_state(R, &tmp);
             add_point(R, &tmp);
@@ -661,14 +701,19 @@ static int fast_jump(run *R, body *b, double h_stop, double t_stop, int *why)
             h1 = h_stop;
         cum_of(R, h1, &I1, &E1, &N1);
     }
-    if (h0 - h1 < span)
+    /* reuse only a transient that is a small part of the segment: where it takes
+     * a large part (a low drop) the first-order shift is not good enough */
+    if (h0 - h1 < span || span > 0.25 * (h0 - h_stop))
         return 0;
     for (size_t j = 0; j < c->nstg; j++)
         if (((b->open >> j) & 1u) && isnan(R->t_f[j]))
             R->t_f[j] = R->r->stage[j].t_fill; /* filled within the jump: the estimate from the deployment speed */
+    double La0, Ln0, La1, Ln1;
+    lag_of(R, h0, &La0, &Ln0);
+    lag_of(R, h1, &La1, &Ln1);
     b->t += s * (I0 - I1) + dt;
-    b->y[0] += s * (E0 - E1) + dx;
-    b->y[1] += s * (N0 - N1) + dy;
+    b->y[0] += s * (E0 - E1) + (La0 - La1) / s + dx;
+    b->y[1] += s * (N0 - N1) + (Ln0 - Ln1) / s + dy;
     b->y[2] = h1;
     set_steady_state(R, b);
     return 1;
@@ -688,8 +733,11 @@ static void record_cache(run *R, const body *b)
     airspeed(R, b->o_y, &V, &ue, &un);
     k->valid = 1;
     k->dt = (b->t - b->o_t) - s * (I0 - I1);
-    k->dx = (b->y[0] - b->o_y[0]) - s * (E0 - E1);
-    k->dy = (b->y[1] - b->o_y[1]) - s * (N0 - N1);
+    double La0, Ln0, La1, Ln1;
+    lag_of(R, b->o_y[2], &La0, &Ln0);
+    lag_of(R, b->y[2], &La1, &Ln1);
+    k->dx = (b->y[0] - b->o_y[0]) - s * (E0 - E1) - (La0 - La1) / s;
+    k->dy = (b->y[1] - b->o_y[1]) - s * (N0 - N1) - (Ln0 - Ln1) / s;
     k->span = b->o_y[2] - b->y[2];
     k->vt = sqrt(2.0 * b->mass * g / (rho * C));
     k->g = g;

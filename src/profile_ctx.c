@@ -98,8 +98,31 @@ int ctx_direct(const sr_profile_ctx *c, double h, double *f, double *we, double 
     return SR_OK;
 }
 
+int ctx_phi(const sr_profile_ctx *c, double h, double *phi, double *dphi)
+{
+    double z = c->ground + h, rho, dlnrho = 0.0;
+    if (!isnan(c->o.uniform_density)) {
+        rho = c->o.uniform_density;
+    } else {
+        sr_error e;
+        double lo, hi, d = 0.5, r0, r1;
+        sr_atmos_range(&c->atmos, &lo, &hi);
+        double za = z - d < lo ? lo : z - d, zb = z + d > hi ? hi : z + d;
+        if (sr_atmos_density(&c->atmos, z, &rho, &e) || sr_atmos_density(&c->atmos, za, &r0, &e) ||
+            sr_atmos_density(&c->atmos, zb, &r1, &e))
+            return SR_EDOMAIN;
+        /* d ln(rho)/dh by a central difference: ln(rho) is smooth on this scale */
+        dlnrho = (log(r1) - log(r0)) / (zb - za);
+    }
+    double g = sr_atmos_gravity(z);
+    *phi = 1.0 / sqrt(rho * g);
+    if (dphi)
+        *dphi = -0.5 * *phi * (dlnrho - 2.0 / (SR_ATMOS_R0 + z));
+    return SR_OK;
+}
+
 static int cell_integrals(const sr_profile_ctx *c, const gsl_integration_glfixed_table *gl, double lo, double hi,
-                          double out[3])
+                          double out[5])
 {
     /* split at wind-table rows inside the cell: the wind has kinks there */
     double cuts[34];
@@ -111,16 +134,26 @@ static int cell_integrals(const sr_profile_ctx *c, const gsl_integration_glfixed
         if (k[i] > lo && k[i] < hi)
             cuts[nc++] = k[i];
     cuts[nc++] = hi;
-    out[0] = out[1] = out[2] = 0.0;
+    out[0] = out[1] = out[2] = out[3] = out[4] = 0.0;
     for (size_t s = 0; s + 1 < nc; s++) {
+        double pa, pb, ea, na, eb, nb;
+        if (ctx_phi(c, cuts[s], &pa, NULL) || ctx_phi(c, cuts[s + 1], &pb, NULL))
+            return SR_EDOMAIN;
+        sr_wind_at(&c->wind, cuts[s], &ea, &na);
+        sr_wind_at(&c->wind, cuts[s + 1], &eb, &nb);
+        /* the shear lag, integral of phi dw, by parts: [phi w] - integral of w phi' dh (w has kinks, phi not) */
+        out[3] += pb * eb - pa * ea;
+        out[4] += pb * nb - pa * na;
         for (size_t j = 0; j < GL_POINTS; j++) {
-            double x, w, f, we, wn;
+            double x, w, f, we, wn, phi, dphi;
             gsl_integration_glfixed_point(cuts[s], cuts[s + 1], j, &x, &w, gl);
-            if (ctx_direct(c, x, &f, &we, &wn))
+            if (ctx_direct(c, x, &f, &we, &wn) || ctx_phi(c, x, &phi, &dphi))
                 return SR_EDOMAIN;
             out[0] += w * f;
             out[1] += w * we * f;
             out[2] += w * wn * f;
+            out[3] -= w * we * dphi;
+            out[4] -= w * wn * dphi;
         }
     }
     return SR_OK;
@@ -142,7 +175,7 @@ int ctx_build_tables(sr_profile_ctx *c, sr_error *err)
     c->n = n;
     c->top = top;
     c->dh = top / (double)n;
-    c->block = malloc(10 * m * sizeof(double));
+    c->block = malloc(11 * m * sizeof(double));
     if (!c->block)
         return sr_error_set(err, SR_ENOMEM, "out of memory for the profile tables");
     double *b = c->block;
@@ -155,6 +188,8 @@ int ctx_build_tables(sr_profile_ctx *c, sr_error *err)
     c->I = b + 6 * m;
     c->Je = b + 7 * m;
     c->Jn = b + 8 * m;
+    c->Le = b + 9 * m;
+    c->Ln = b + 10 * m;
     for (size_t i = 0; i < m; i++) {
         double h = c->dh * (double)i;
         sr_air air;
@@ -171,9 +206,9 @@ int ctx_build_tables(sr_profile_ctx *c, sr_error *err)
     gsl_integration_glfixed_table *gl = gsl_integration_glfixed_table_alloc(GL_POINTS);
     if (!gl)
         return sr_error_set(err, SR_ENOMEM, "out of memory for the quadrature table");
-    c->I[0] = c->Je[0] = c->Jn[0] = 0.0;
+    c->I[0] = c->Je[0] = c->Jn[0] = c->Le[0] = c->Ln[0] = 0.0;
     for (size_t i = 0; i < n; i++) {
-        double q[3];
+        double q[5];
         if (cell_integrals(c, gl, c->dh * (double)i, c->dh * (double)(i + 1), q)) {
             gsl_integration_glfixed_table_free(gl);
             return sr_error_set(err, SR_EDOMAIN, "the atmosphere is undefined within the descent");
@@ -181,6 +216,8 @@ int ctx_build_tables(sr_profile_ctx *c, sr_error *err)
         c->I[i + 1] = c->I[i] + q[0];
         c->Je[i + 1] = c->Je[i] + q[1];
         c->Jn[i + 1] = c->Jn[i] + q[2];
+        c->Le[i + 1] = c->Le[i] + q[3];
+        c->Ln[i + 1] = c->Ln[i] + q[4];
     }
     gsl_integration_glfixed_table_free(gl);
     return SR_OK;
@@ -240,6 +277,16 @@ void ctx_cumulative(const sr_profile_ctx *c, double h, double *I, double *Je, do
         *Je = hermite(c->Je[i], c->Je[i + 1], c->we[i] * c->f[i], c->we[i + 1] * c->f[i + 1], c->dh, t);
         *Jn = hermite(c->Jn[i], c->Jn[i + 1], c->wn[i] * c->f[i], c->wn[i + 1] * c->f[i + 1], c->dh, t);
     }
+}
+
+void ctx_lag(const sr_profile_ctx *c, double h, double *Le, double *Ln)
+{
+    double t;
+    size_t i = cell_of(c, h, &t);
+    /* a correction of about 1%: linear between nodes (the slope is singular at the
+     * ground for the power law and jumps at table rows) */
+    *Le = c->Le[i] + t * (c->Le[i + 1] - c->Le[i]);
+    *Ln = c->Ln[i] + t * (c->Ln[i + 1] - c->Ln[i]);
 }
 
 double ctx_height_for_I(const sr_profile_ctx *c, double target)

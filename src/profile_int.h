@@ -63,6 +63,7 @@ struct sr_profile_ctx {
     double *we, *wn;           /* wind, east and north */
     double *f;                 /* sqrt(rho / g): dt/dh of a unit steady descent */
     double *I, *Je, *Jn;       /* integrals of f, we f, wn f from 0 to h_i */
+    double *Le, *Ln;           /* shear lag: integrals of dw / sqrt(rho g) from 0 to h_i */
     double *block;             /* one allocation behind the arrays */
     seg_cache cache[NKEYS];
     sr_profile_result nominal;
@@ -79,12 +80,15 @@ struct sr_profile_work {
 /* Table look-ups (profile_ctx.c). Heights outside [0, top] clamp. */
 void ctx_air(const sr_profile_ctx *c, double h, double *rho, double *a, double *g);
 void ctx_cumulative(const sr_profile_ctx *c, double h, double *I, double *Je, double *Jn);
+void ctx_lag(const sr_profile_ctx *c, double h, double *Le, double *Ln);
 /* Height where I(h) = target (I increases with h); clamps to [0, top]. */
 double ctx_height_for_I(const sr_profile_ctx *c, double target);
 int ctx_build_tables(sr_profile_ctx *c, sr_error *err);
 
-/* The full-mode integrands at h (profile_ctx.c): f = sqrt(rho/g), the wind. */
+/* The full-mode integrands at h (profile_ctx.c): f = sqrt(rho/g), the wind,
+ * and (when dphi is not NULL) the height derivative of phi = 1/sqrt(rho g). */
 int ctx_direct(const sr_profile_ctx *c, double h, double *f, double *we, double *wn);
+int ctx_phi(const sr_profile_ctx *c, double h, double *phi, double *dphi);
 
 int profile_work_init(sr_profile_work *w, double tol, sr_error *err);
 void profile_work_release(sr_profile_work *w);
