@@ -331,7 +331,8 @@ void sr_atmos_describe(const sr_atmos *m, char *buf, size_t len)
                  m->site_T, m->dT, m->site_p);
         break;
     case SR_ATMOS_SOUNDING:
-        snprintf(buf, len, "sounding %s (%zu rows, %.0f m .. %.0f m)", m->source, m->n, m->sz[0], m->sz[m->n - 1]);
+        snprintf(buf, len, "sounding %s (%zu rows, %.0f m .. %.0f m)", m->source[0] ? m->source : "table", m->n,
+                 m->sz[0], m->sz[m->n - 1]);
         break;
     }
 }

@@ -228,7 +228,13 @@ static int parse(const char *text, sr_quantity q, double *si, int need_unit, sr_
     memcpy(numbuf, s, n);
     numbuf[n] = '\0';
     errno = 0;
-    double v = strtod(numbuf, NULL);
+    char *end;
+    double v = strtod(numbuf, &end);
+    /* strtod follows LC_NUMERIC: under a decimal-comma locale it would stop
+     * at the '.' and return a wrong number silently */
+    if (end != numbuf + n)
+        return sr_error_set(err, SR_EINVAL, "'%s': cannot read the number (is LC_NUMERIC set to a non-C locale?)",
+                            text);
     if (errno == ERANGE || !isfinite(v))
         return sr_error_set(err, SR_EINVAL, "'%s' is out of the range of a number", text);
     const char *u = s + n;

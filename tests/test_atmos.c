@@ -67,7 +67,7 @@ static const printed_row PRINTED[] = {
     {10, SRC_USSA3, 0, 0, 0, 0, 0, 0, 299.53, 5e-3, 1.4577e-5, 5e-10},
     {50, SRC_USSA3, 0, 0, 0, 0, 0, 0, 329.80, 5e-3, 1.7037e-5, 5e-10},
     /* PDAS 2-km table, 5 digits, T to 0.01 K (T_M above 80 km). */
-    {0, SRC_PDAS, 288.15, 5e-3, 101320, 1e-4, 1.225, 5e-4, 340.29, 5e-3, 1.7894e-5, 5e-10},
+    {0, SRC_PDAS, 288.15, 5e-3, 101320, 1e-4, 1.2250, 5e-5, 340.29, 5e-3, 1.7894e-5, 5e-10},
     {10, SRC_PDAS, 223.25, 5e-3, 26500, 1e-4, 0.41351, 5e-6, 299.53, 5e-3, 1.4577e-5, 5e-10},
     {20, SRC_PDAS, 216.65, 5e-3, 5529.3, 1e-4, 0.08891, 5e-6, 295.07, 5e-3, 1.4216e-5, 5e-10},
     {30, SRC_PDAS, 226.51, 5e-3, 1197.0, 1e-4, 0.01841, 5e-6, 301.71, 5e-3, 1.4753e-5, 5e-10},
@@ -449,6 +449,14 @@ static void test_site(void **state)
         assert_true(fabs(x.p - y.p) <= 1e-12 * y.p && fabs(x.T - y.T) <= 1e-12);
     }
 
+    char d[256];
+    assert_int_equal(sr_atmos_init_site(&m, zs, Ts, ps, &e), SR_OK);
+    sr_atmos_describe(&m, d, sizeof d);
+    assert_non_null(strstr(d, "site at 1400 m"));
+    sr_atmos_init_standard(&m);
+    sr_atmos_describe(&m, d, sizeof d);
+    assert_string_equal(d, "U.S. Standard Atmosphere 1976");
+
     /* bad input */
     assert_int_equal(sr_atmos_init_site(&m, 25000.0, NAN, NAN, &e), SR_EDOMAIN);
     assert_non_null(strstr(e.msg, "site elevation"));
@@ -598,6 +606,9 @@ static void test_sounding_errors(void **state)
     assert_int_equal(sr_atmos_init_sounding(&m, z, T, p, 1, &e), SR_EINVAL);
     assert_int_equal(sr_atmos_init_sounding(&m, z, T, p, 2, &e), SR_OK);
     assert_int_equal(m.kind, SR_ATMOS_SOUNDING);
+    char d[128];
+    sr_atmos_describe(&m, d, sizeof d);
+    assert_string_equal(d, "sounding table (2 rows, 0 m .. 100 m)");
     sr_atmos_free(&m);
 }
 

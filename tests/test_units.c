@@ -249,8 +249,13 @@ static void test_udunits(void **state)
                 assert_true(got == 0.0);
                 continue;
             }
-            snprintf(q, sizeof q, "%s in SI (%s)", text, sr_units_quantity_name(c->q));
-            CHECK_REL(q, UDUNITS, want, got, c->ud_rtol);
+            /* logged once per unit (at every value for offset units); asserted everywhere */
+            if (k == 0 || c->offset != 0.0) {
+                snprintf(q, sizeof q, "%s in SI (%s)", text, sr_units_quantity_name(c->q));
+                CHECK_REL(q, UDUNITS, want, got, c->ud_rtol);
+            } else if (!(fabs(got - want) <= c->ud_rtol * fabs(want))) {
+                fail_msg("'%s': %.17g, udunits2 says %.17g", text, got, want);
+            }
         }
         cv_free(cv);
         ut_free(a);
@@ -300,11 +305,16 @@ static void test_format_round_trip(void **state)
             for (size_t k = 0; k < sizeof SI / sizeof SI[0]; k++) {
                 double shown = sr_units_from_si(SI[k], l->q, sys);
                 double want = cv_convert_double(cv, SI[k]);
-                snprintf(q, sizeof q, "%g SI %s shown in %s", SI[k], sr_units_quantity_name(l->q),
-                         sr_units_label(l->q, sys));
                 /* udunits' slug and ounce are rounded to 7 digits */
                 double tol = (l->q == SR_Q_DENSITY || l->q == SR_Q_AREAL_MASS) && sys ? 1e-6 : 1e-14;
-                CHECK_REL(q, UDUNITS, want, shown, tol);
+                if (k == 1) { /* logged once per label; asserted at every value */
+                    snprintf(q, sizeof q, "%g SI %s shown in %s", SI[k], sr_units_quantity_name(l->q),
+                             sr_units_label(l->q, sys));
+                    CHECK_REL(q, UDUNITS, want, shown, tol);
+                } else if (!(fabs(shown - want) <= tol * fabs(want))) {
+                    fail_msg("%.17g SI %s shown as %.17g %s, udunits2 says %.17g", SI[k], l->si, shown,
+                             sr_units_label(l->q, sys), want);
+                }
                 /* and the shown value, printed with its label, parses back */
                 snprintf(text, sizeof text, "%.17g %s", shown, sr_units_label(l->q, sys));
                 double back;
@@ -505,6 +515,9 @@ static void test_accepted_forms(void **state)
         if (sr_units_parse(OK[i].text, OK[i].q, &v, &e) != SR_OK)
             fail_msg("'%s': %s", OK[i].text, e.msg);
         snprintf(q, sizeof q, "'%s' in SI (%s)", OK[i].text, sr_units_quantity_name(OK[i].q));
+        for (char *c = q; *c; c++) /* the validation log is one tab-separated line per check */
+            if (*c == '\n' || *c == '\t')
+                *c = ' ';
         CHECK_REL(q, OK[i].src, OK[i].si, v, 2e-8);
     }
     /* every unit the messages list is accepted */
