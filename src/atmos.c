@@ -144,26 +144,40 @@ void sr_atmos_free(sr_atmos *m)
     m->n = 0;
 }
 
+/* The rules a sounding must meet. On failure *bad is the offending row
+ * (0-based) and the message names no row: callers say where it is. */
+static int check_sounding(const double *z, const double *T, const double *p, size_t n, size_t *bad,
+                          sr_error *err)
+{
+    *bad = 0;
+    if (n < 2)
+        return sr_error_set(err, SR_EINVAL, "a sounding needs at least two rows");
+    for (size_t i = 0; i < n; i++) {
+        *bad = i;
+        if (!(z[i] >= SR_ATMOS_Z_MIN && z[i] <= SR_ATMOS_Z_MAX))
+            return sr_error_set(err, SR_EDOMAIN, "altitude %g m is outside -1000 m .. 86000 m", z[i]);
+        if (i > 0 && !(z[i] > z[i - 1]))
+            return sr_error_set(err, SR_EINVAL, "altitude must increase from row to row");
+        if (!(T[i] > 100.0 && T[i] < 400.0))
+            return sr_error_set(err, SR_EINVAL, "temperature %g K is outside 100 K .. 400 K", T[i]);
+        if (!(p[i] > 0.0 && p[i] < 2e5))
+            return sr_error_set(err, SR_EINVAL, "pressure %g Pa is outside 0 .. 200000 Pa", p[i]);
+        if (i > 0 && !(p[i] < p[i - 1]))
+            return sr_error_set(err, SR_EINVAL, "pressure must fall as altitude rises");
+    }
+    return SR_OK;
+}
+
 int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
                            sr_error *err)
 {
     sr_atmos_init_standard(m);
-    if (n < 2)
-        return sr_error_set(err, SR_EINVAL, "a sounding needs at least two rows");
-    for (size_t i = 0; i < n; i++) {
-        if (!(z[i] >= SR_ATMOS_Z_MIN && z[i] <= SR_ATMOS_Z_MAX))
-            return sr_error_set(err, SR_EDOMAIN, "sounding row %zu: altitude %g m is outside -1000 m .. 86000 m",
-                                i + 1, z[i]);
-        if (i > 0 && !(z[i] > z[i - 1]))
-            return sr_error_set(err, SR_EINVAL, "sounding row %zu: altitude must increase from row to row", i + 1);
-        if (!(T[i] > 100.0 && T[i] < 400.0))
-            return sr_error_set(err, SR_EINVAL, "sounding row %zu: temperature %g K is outside 100 K .. 400 K",
-                                i + 1, T[i]);
-        if (!(p[i] > 0.0 && p[i] < 2e5))
-            return sr_error_set(err, SR_EINVAL, "sounding row %zu: pressure %g Pa is outside 0 .. 200000 Pa", i + 1,
-                                p[i]);
-        if (i > 0 && !(p[i] < p[i - 1]))
-            return sr_error_set(err, SR_EINVAL, "sounding row %zu: pressure must fall as altitude rises", i + 1);
+    size_t bad;
+    int rc = check_sounding(z, T, p, n, &bad, err);
+    if (rc) {
+        if (n >= 2)
+            sr_error_prefix(err, "sounding row %zu: ", bad + 1);
+        return rc;
     }
     m->sz = malloc(n * sizeof *m->sz);
     m->sT = malloc(n * sizeof *m->sT);
@@ -197,13 +211,15 @@ int sr_atmos_load_sounding(sr_atmos *m, const char *path, sr_error *err)
     int rc = sr_csvtable_load(&t, path, SOUNDING_COLS, sizeof SOUNDING_COLS / sizeof SOUNDING_COLS[0], err);
     if (rc)
         return rc;
-    rc = sr_atmos_init_sounding(m, t.col[0], t.col[1], t.col[2], t.nrows, err);
-    if (rc) {
-        /* point at the file; row numbers in the message are data rows */
-        sr_error_prefix(err, "%s: ", path);
-    } else {
+    /* check first so a bad row is reported as file:line:column of the CSV */
+    size_t bad;
+    rc = check_sounding(t.col[0], t.col[1], t.col[2], t.nrows, &bad, err);
+    if (rc)
+        sr_error_prefix(err, "%s:%zu:1: ", path, t.row_line[bad]);
+    else
+        rc = sr_atmos_init_sounding(m, t.col[0], t.col[1], t.col[2], t.nrows, err);
+    if (!rc)
         snprintf(m->source, sizeof m->source, "%s", path);
-    }
     sr_csvtable_free(&t);
     return rc;
 }
@@ -319,7 +335,8 @@ void sr_atmos_describe(const sr_atmos *m, char *buf, size_t len)
                  m->site_T, m->dT, m->site_p);
         break;
     case SR_ATMOS_SOUNDING:
-        snprintf(buf, len, "sounding %s (%zu rows, %.0f m .. %.0f m)", m->source, m->n, m->sz[0], m->sz[m->n - 1]);
+        snprintf(buf, len, "sounding %s (%zu rows, %.0f m .. %.0f m)", m->source[0] ? m->source : "table", m->n,
+                 m->sz[0], m->sz[m->n - 1]);
         break;
     }
 }
