@@ -107,7 +107,7 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
     optind = 0; /* GNU: full re-initialisation, so in-process calls can repeat */
     opterr = 0;
     int code;
-    while ((code = getopt_long(argc, argv, "+ho:n:", opts, NULL)) != -1) {
+    while ((code = getopt_long(argc, argv, "ho:n:", opts, NULL)) != -1) {
         switch (code) {
         case 'h':
             sr_cli_help(c, help);
