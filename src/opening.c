@@ -36,7 +36,7 @@ void sr_opening_input_init(sr_opening_input *in)
     in->cds0 = in->d0 = in->mass = in->v1 = NAN;
     in->rho = in->a = in->n_fill = in->cx = NAN;
     in->count = 1;
-    in->gamma1 = -M_PI / 2;
+    in->path_angle = M_PI / 2;
     in->g = SR_G0;
     in->exponent = 2.0;
 }
@@ -273,8 +273,8 @@ static int refine_peak(refine_ctx *c, double tb, double *tp, double *fp, double 
  * maximum during filling, the kink at t_f, and - with gravity - the weight,
  * which the force approaches when the canopy is full below terminal speed.
  * After t_f no other maximum can exceed both: there dF/dt = 0 needs
- * (rho S / 2m) v^2 = -g sin(gamma) <= g, so F <= m g. */
-static int ode_peak(const ode_par *p, double v1, double gamma1, sr_opening_peak *pk, sr_error *err)
+ * (rho S / 2m) v^2 = g sin(path angle) <= g, so F <= m g. */
+static int ode_peak(const ode_par *p, double v1, double path_angle, sr_opening_peak *pk, sr_error *err)
 {
     gsl_odeiv2_system sys = {rhs, NULL, 2, (void *)p};
     double epsabs = ODE_EPS_REL * v1;
@@ -290,7 +290,7 @@ static int ode_peak(const ode_par *p, double v1, double gamma1, sr_opening_peak 
     }
     gsl_odeiv2_driver_set_nmax(drv, ODE_MAX_STEPS);
 
-    double y[2] = {v1 * cos(gamma1), v1 * sin(gamma1)};
+    double y[2] = {v1 * cos(path_angle), -v1 * sin(path_angle)};
     double t = 0, h = p->tf * 1e-3;
     double best_f = -1, best_t = NAN, best_v = NAN;
     int best_kind = SR_PEAK_INTERIOR;
@@ -370,7 +370,7 @@ static int validate(const sr_opening_input *in, sr_error *err)
         (rc = need(in->mass, "payload mass", err)) || (rc = need(in->v1, "deployment speed", err)) ||
         (rc = need(in->rho, "air density", err)) || (rc = need(in->a, "speed of sound", err)) ||
         (rc = need(in->n_fill, "filling constant", err)) || (rc = need(in->cx, "opening-load factor", err)) ||
-        (rc = need(in->gamma1, "flight-path angle", err)) || (rc = need(in->g, "gravity", err)) ||
+        (rc = need(in->path_angle, "flight-path angle", err)) || (rc = need(in->g, "gravity", err)) ||
         (rc = need(in->exponent, "growth exponent", err)) || (rc = need(in->design_factor, "design factor", err)) ||
         (rc = need(in->cluster_allowance, "cluster allowance", err)) ||
         (rc = need(in->mach_envelope, "Mach envelope", err)))
@@ -399,9 +399,9 @@ static int validate(const sr_opening_input *in, sr_error *err)
         return sr_error_set(err, SR_EINVAL, "opening-load factor must lie in (0, 5] (got %g)", in->cx);
     if (in->count < 1 || in->count > 1000)
         return sr_error_set(err, SR_EINVAL, "canopy count must be 1 to 1000 (got %d)", in->count);
-    if (fabs(in->gamma1) > M_PI / 2 + 1e-12)
+    if (fabs(in->path_angle) > M_PI / 2 + 1e-12)
         return sr_error_set(err, SR_EINVAL, "flight-path angle must lie within -90..90 degrees (got %g)",
-                            in->gamma1 * 180 / M_PI);
+                            in->path_angle * 180 / M_PI);
     if (in->g < 0 || in->g > 50)
         return sr_error_set(err, SR_EINVAL, "gravity must lie within 0..50 m/s2 (got %g)", in->g);
     if (in->exponent <= 0 || in->exponent > 10)
@@ -467,7 +467,7 @@ static int three_methods(const sr_opening_input *in, double tf, double q1, int n
     s->regime = tau < 1 ? SR_OPENING_FINITE_MASS : SR_OPENING_INFINITE_MASS;
 
     ode_par p = {.S = s->S, .m = m, .rho = in->rho, .g = in->g, .tf = tf, .n = in->exponent};
-    if ((rc = ode_peak(&p, in->v1, in->gamma1, &s->ode, err)) != SR_OK)
+    if ((rc = ode_peak(&p, in->v1, in->path_angle, &s->ode, err)) != SR_OK)
         return rc;
     set_peak(&s->ode, in->cx * s->ode.force, f_inf, m);
 
@@ -562,7 +562,7 @@ int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double 
     if (!drv)
         return sr_error_set(err, SR_ENOMEM, "inflation ODE: out of memory");
     gsl_odeiv2_driver_set_nmax(drv, ODE_MAX_STEPS);
-    double y[2] = {in->v1 * cos(in->gamma1), in->v1 * sin(in->gamma1)};
+    double y[2] = {in->v1 * cos(in->path_angle), -in->v1 * sin(in->path_angle)};
     double tt = 0;
     for (size_t i = 0; i < n && rc == SR_OK; i++) {
         double ti = t_end * (double)i / (double)(n - 1);

@@ -50,8 +50,9 @@ typedef struct sr_opening_input {
     double cx;       /* the family's opening-load factor at infinite mass */
     /* optional */
     int count;       /* canopies in the cluster, >= 1 (default 1) */
-    double gamma1;   /* flight-path angle at line stretch, rad, positive above the horizontal
-                      * (-pi/2 = straight down; default -pi/2) */
+    double path_angle; /* flight-path angle at line stretch, rad, positive BELOW the horizontal
+                        * as in mission files (pi/2 = straight down, the default; 0 = level,
+                        * as at apogee; negative = climbing) */
     double g;        /* gravity for the ODE, m/s2 (default 9.80665; 0 switches it off) */
     double exponent; /* Pflanz growth exponent n; default 2 (solid cloth) */
     double design_factor;     /* >= 1 to get required rated strengths; 0 = none (default) */

@@ -168,7 +168,7 @@ static void test_infinite_mass(void **state)
     sr_opening_result r;
     sr_error e;
     table_input(&in, 1e9, 2);
-    in.gamma1 = -M_PI / 2;
+    in.path_angle = M_PI / 2;
     assert_int_equal(sr_opening_solve(&in, &r, &e), SR_OK);
     assert_int_equal(r.ode.kind, SR_PEAK_STEADY);
     assert_true(r.slow_deployment);
@@ -188,7 +188,7 @@ static void test_light_payload(void **state)
         sr_opening_result r;
         sr_error e;
         table_input(&in, 0.05, exps[j]);
-        in.gamma1 = 0; /* apogee: horizontal */
+        in.path_angle = 0; /* apogee: level */
         assert_int_equal(sr_opening_solve(&in, &r, &e), SR_OK);
         assert_int_equal(r.regime, SR_OPENING_FINITE_MASS);
         assert_int_equal(r.ode.kind, SR_PEAK_INTERIOR);
@@ -222,10 +222,10 @@ static void test_steady_and_path_angle(void **state)
 
     /* Ordering by path angle: down > horizontal > up. */
     double f[3];
-    const double gam[3] = {-M_PI / 2, 0, M_PI / 2};
+    const double gam[3] = {M_PI / 2, 0, -M_PI / 2};
     for (int i = 0; i < 3; i++) {
         table_input(&in, 5, 2);
-        in.gamma1 = gam[i];
+        in.path_angle = gam[i];
         assert_int_equal(sr_opening_solve(&in, &r, &e), SR_OK);
         f[i] = r.ode.force;
     }
@@ -392,7 +392,7 @@ static void test_bad_input(void **state)
         case 3: in.cds0 = cases[i].value; break;
         case 4: in.design_factor = cases[i].value; break;
         case 5: in.exponent = cases[i].value; break;
-        case 6: in.gamma1 = cases[i].value; break;
+        case 6: in.path_angle = cases[i].value; break;
         }
         int rc = sr_opening_solve(&in, &r, &e);
         if (rc != cases[i].code || !strstr(e.msg, cases[i].msg))
