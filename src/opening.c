@@ -269,12 +269,14 @@ static int refine_peak(refine_ctx *c, double tb, double *tp, double *fp, double 
     return SR_OK;
 }
 
-/* Largest force (without CX) of the ODE from line stretch: every local
- * maximum during filling, the kink at t_f, and - with gravity - the weight,
- * which the force approaches when the canopy is full below terminal speed.
+/* Largest force of the ODE from line stretch: every local maximum during
+ * filling and the kink at t_f (times CX), and - with gravity - the weight,
+ * which the force approaches when the canopy is full below terminal speed
+ * (no CX there: a steady canopy does not over-inflate).
  * After t_f no other maximum can exceed both: there dF/dt = 0 needs
  * (rho S / 2m) v^2 = g sin(path angle) <= g, so F <= m g. */
-static int ode_peak(const ode_par *p, double v1, double path_angle, sr_opening_peak *pk, sr_error *err)
+static int ode_peak(const ode_par *p, double v1, double path_angle, double cx, sr_opening_peak *pk,
+                    sr_error *err)
 {
     gsl_odeiv2_system sys = {rhs, NULL, 2, (void *)p};
     double epsabs = ODE_EPS_REL * v1;
@@ -330,6 +332,7 @@ static int ode_peak(const ode_par *p, double v1, double path_angle, sr_opening_p
         best_v = hypot(y[0], y[1]);
         best_kind = SR_PEAK_FULL;
     }
+    best_f *= cx;
     if (p->g > 0 && p->m * p->g > best_f) {
         best_f = p->m * p->g;
         best_t = NAN;
@@ -467,9 +470,9 @@ static int three_methods(const sr_opening_input *in, double tf, double q1, int n
     s->regime = tau < 1 ? SR_OPENING_FINITE_MASS : SR_OPENING_INFINITE_MASS;
 
     ode_par p = {.S = s->S, .m = m, .rho = in->rho, .g = in->g, .tf = tf, .n = in->exponent};
-    if ((rc = ode_peak(&p, in->v1, in->path_angle, &s->ode, err)) != SR_OK)
+    if ((rc = ode_peak(&p, in->v1, in->path_angle, in->cx, &s->ode, err)) != SR_OK)
         return rc;
-    set_peak(&s->ode, in->cx * s->ode.force, f_inf, m);
+    set_peak(&s->ode, s->ode.force, f_inf, m);
 
     s->f_low = fmin(s->olf.force, fmin(s->pflanz.force, s->ode.force));
     s->f_high = fmax(s->olf.force, fmax(s->pflanz.force, s->ode.force));

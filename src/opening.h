@@ -63,7 +63,7 @@ typedef struct sr_opening_input {
 
 /* One method's peak. Forces are totals on the payload (all canopies). */
 typedef struct sr_opening_peak {
-    double force;   /* peak opening force, N (includes CX) */
+    double force;   /* peak opening force, N (includes CX, except a steady peak: the weight) */
     double x1;      /* force-reduction factor: force / (CX * CD0S0_total * q1) */
     double time;    /* time of peak after line stretch, s (NaN when the method has none) */
     double speed;   /* speed at the peak, m/s (NaN when the method has none) */
