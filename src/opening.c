@@ -575,7 +575,7 @@ int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double 
         if (rc == SR_OK && ti > tt && gsl_odeiv2_driver_apply(drv, &tt, ti, y) != GSL_SUCCESS)
             rc = SR_ENUMERIC;
         t[i] = ti;
-        force[i] = in->cx * force_of(&p, ti, y);
+        force[i] = force_of(&p, ti, y);
     }
     gsl_odeiv2_driver_free(drv);
     if (rc != SR_OK)

@@ -136,9 +136,10 @@ int sr_opening_olf_x1(double mass_ratio, double cds, double d0, double n_fill, d
 /* All three estimates, the cluster split and the design strengths. */
 int sr_opening_solve(const sr_opening_input *in, sr_opening_result *out, sr_error *err);
 
-/* The inflation ODE's total force (CX included) at n times evenly spread
- * over [0, t_end] (t_end <= 0: three filling times), for plotting only.
- * t and force hold n values each. */
+/* The inflation ODE's drag force of the growth model, all canopies, WITHOUT
+ * CX (the over-inflation factor belongs to the peak, not to the steady drag
+ * that follows), at n times evenly spread over [0, t_end] (t_end <= 0: three
+ * filling times), for plotting only. t and force hold n values each. */
 int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double *t, double *force, sr_error *err);
 
 #endif

@@ -401,7 +401,6 @@ static int write_plot(sr_cli *c, const deploy *d, const char *prefix)
         free(ts);
         return sr_cli_fail(c, "--plot: %s", e.msg);
     }
-    int us = c->units == SR_UNITS_US;
     const char *fu = sr_units_label(SR_Q_FORCE, c->units);
     char *dat = NULL, *gp = NULL;
     size_t dl = 0, gl = 0;
@@ -417,18 +416,20 @@ static int write_plot(sr_cli *c, const deploy *d, const char *prefix)
         free(ts);
         return sr_cli_fail(c, "out of memory");
     }
-    fprintf(f, "# sinkrate loads: inflation ODE force vs time, typical band end\n# %s\n", sr_report_caution());
+    fprintf(f, "# sinkrate loads: inflation ODE drag force vs time (growth model, without CX), typical band "
+               "end\n# %s\n", sr_report_caution());
     fprintf(f, "# time [s]\tforce [%s]\n", fu);
     for (int i = 0; i < N; i++)
         fprintf(f, "%.6g\t%.6g\n", ts[i], sr_units_from_si(fs[i], SR_Q_FORCE, c->units));
     fclose(f);
-    free(ts);
 
     const char *fmt = c->plot_format ? c->plot_format : "png";
     const char *base = strrchr(prefix, '/');
     base = base ? base + 1 : prefix;
     double fp = sr_units_from_si(t->pflanz.force, SR_Q_FORCE, c->units);
     double fo = sr_units_from_si(t->olf.force, SR_Q_FORCE, c->units);
+    double fe = sr_units_from_si(t->ode.force, SR_Q_FORCE, c->units);
+    int steady = t->ode.kind == SR_PEAK_STEADY;
     fprintf(g, "# sinkrate loads: opening force figure (gnuplot)\n# %s\n", sr_report_caution());
     if (strcmp(fmt, "svg") == 0)
         fprintf(g, "set terminal svg size 900,560 dynamic enhanced font 'sans,11'\n");
@@ -438,20 +439,25 @@ static int write_plot(sr_cli *c, const deploy *d, const char *prefix)
     fprintf(g, "set title 'Opening force%s%s: inflation ODE with closed-form peaks' noenhanced\n",
             d->name[0] ? ", " : "", d->name);
     fprintf(g, "set xlabel 'time after line stretch [s]'\nset ylabel 'force, all canopies [%s]'\n", fu);
-    fprintf(g, "set grid\nset key top right\nset yrange [0:*]\n");
+    double ymax = fmax(fe, fmax(fp, fo));
+    for (int i = 0; i < N; i++)
+        ymax = fmax(ymax, sr_units_from_si(fs[i], SR_Q_FORCE, c->units));
+    fprintf(g, "set grid\nset key top right box opaque\nset yrange [0:%.6g]\n", 1.3 * ymax);
     fprintf(g, "set arrow from %.6g, graph 0 to %.6g, graph 1 nohead dashtype 3 lc rgb '#777777'\n", t->t_fill,
             t->t_fill);
-    fprintf(g, "set label 'full inflation' at %.6g, graph 0.04 offset 0.5,0 tc rgb '#555555'\n", t->t_fill);
+    fprintf(g, "set label 2 'full inflation' at %.6g, graph 0.04 offset 0.5,0 tc rgb '#555555'\n", t->t_fill);
     fprintf(g, "set bmargin 6\nset label 1 \"%s\" at screen 0.02, screen 0.03 font ',7' noenhanced\n",
             "Preliminary estimates only; not for parachutes that carry people. See the caution in the output.");
     fprintf(g,
-            "plot '%s.dat' using 1:2 with lines lw 2 lc rgb '#1f5fa8' title 'inflation ODE', \\\n"
+            "plot '%s.dat' using 1:2 with lines lw 2 lc rgb '#1f5fa8' title 'inflation ODE drag (without CX)', \\\n"
             "     %.6g with lines dashtype 2 lc rgb '#c0392b' title 'Pflanz peak (no gravity)', \\\n"
             "     %.6g with lines dashtype 4 lc rgb '#2e8b57' title 'opening-load-factor peak', \\\n"
+            "     %.6g with lines dashtype 1 lw 1 lc rgb '#7d3c98' title '%s', \\\n"
             "     '-' using 1:2 with points pt 7 ps 1.2 lc rgb '#c0392b' notitle\n%.6g %.6g\ne\n",
-            base, fp, fo, t->pflanz.time, fp);
+            base, fp, fo, fe, steady ? "ODE peak: steady drag = weight" : "ODE peak (with CX)", t->pflanz.time,
+            fp);
     fclose(g);
-    (void)us;
+    free(ts);
 
     char path[4096];
     int rc = 0;
