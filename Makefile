@@ -40,26 +40,26 @@ $(DEPS_OK): scripts/deps.sh
 
 $(B)/obj/%.o: src/%.c | $(DEPS_OK)
 	@mkdir -p $(dir $@)
-	$(CC) $(CFLAGS_ALL) -MMD -MP -c $< -o $@
+	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) -MMD -MP -c $< -o $@
 
 $(B)/libsinkrate.a: $(LIB_OBJ)
 	@rm -f $@
-	ar rcs $@ $^
+	@ar rcs $@ $^
 
 $(B)/libsinkrate-cli.a: $(CLI_LIBOBJ)
 	@rm -f $@
-	ar rcs $@ $^
+	@ar rcs $@ $^
 
 $(B)/sinkrate: $(B)/obj/cli/main.o $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
-	$(CC) $(CFLAGS_ALL) -o $@ $^ $(LDLIBS_ALL)
+	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) -o $@ $^ $(LDLIBS_ALL)
 
 $(B)/obj/tests/%.o: tests/%.c | $(DEPS_OK)
 	@mkdir -p $(dir $@)
-	$(CC) $(CFLAGS_ALL) -Itests -MMD -MP -c $< -o $@
+	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) -Itests -MMD -MP -c $< -o $@
 
 $(B)/tests/test_%: $(B)/obj/tests/test_%.o $(B)/obj/tests/testutil.o $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
 	@mkdir -p $(dir $@)
-	$(CC) $(CFLAGS_ALL) -o $@ $^ $(TEST_LIBS) $(LDLIBS_ALL)
+	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) -o $@ $^ $(TEST_LIBS) $(LDLIBS_ALL)
 
 # Unit and CLI tests; each test binary appends its outside checks to the
 # validation log, from which docs/validation.md is written.
@@ -80,7 +80,7 @@ demo: $(B)/sinkrate
 	@sh scripts/demo.sh $(B)/sinkrate
 
 $(B)/bench: bench/bench.c $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
-	$(CC) $(CFLAGS_ALL) -o $@ $^ $(LDLIBS_ALL)
+	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) -o $@ $^ $(LDLIBS_ALL)
 
 bench: $(B)/bench $(B)/sinkrate
 	@SINKRATE_DATA=$(CURDIR) $(B)/bench $(B)/sinkrate

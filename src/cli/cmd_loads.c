@@ -1,0 +1,10 @@
+/* cmd_loads.c - placeholder until `sinkrate loads` lands. */
+#include "cli/commands.h"
+#include "cli/common.h"
+
+int sr_cmd_loads(sr_cli *c, int argc, char **argv)
+{
+    (void)argc;
+    (void)argv;
+    return sr_cli_fail(c, "not available in this build yet");
+}

@@ -1,0 +1,211 @@
+/* cmd_rate.c - `sinkrate rate`: descent rate of a given canopy (or cluster)
+ * at one or more altitudes, with dynamic pressure, equivalent drop height and
+ * touchdown kinetic energy. */
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli/commands.h"
+#include "cli/common.h"
+#include "descent.h"
+#include "mission.h"
+
+enum { OPT_MASS = OPT_COMMAND_BASE, OPT_ALTITUDE, OPT_BODY_DRAG, OPT_MISSION };
+
+static const struct option OPTS[] = {
+    {"mass", required_argument, NULL, OPT_MASS},
+    {"altitude", required_argument, NULL, OPT_ALTITUDE},
+    {"body-drag-area", required_argument, NULL, OPT_BODY_DRAG},
+    {"mission", required_argument, NULL, OPT_MISSION},
+    SR_OPTS_CANOPY,
+    SR_OPTS_ATMOS,
+    SR_OPTS_OUTPUT,
+    {NULL, 0, NULL, 0}};
+
+static const char HELP[] =
+    "usage: sinkrate rate --mass M --family ID --nominal-diameter D [--altitude Z,...] [options]\n"
+    "       sinkrate rate --mass M --canopy FILE [options]\n"
+    "       sinkrate rate --mission FILE [options]\n\n"
+    "Equilibrium descent rate of a canopy or cluster carrying mass M, at each altitude,\n"
+    "as a band from the drag-coefficient range (or exact for a measured coefficient\n"
+    "on the reference the size is given on), with dynamic pressure, the equivalent\n"
+    "drop height v^2/2g and the kinetic energy at that speed.\n\n"
+    "  --mass M                 descending mass (payload; the canopy's own mass is added\n"
+    "                           when --areal-mass is given)\n"
+    "  --altitude Z[,Z...]      altitudes above sea level (default: the site elevation, or 0)\n"
+    "  --body-drag-area A       payload drag area CdA added to the canopy's (\"0.02 m2\")\n"
+    "  --mission FILE           mass (all sections), site and the last stage's canopy from a\n"
+    "                           mission file\n\n";
+
+typedef struct rate_opts {
+    const char *mass, *altitude, *body, *mission;
+    sr_canopy_opts canopy;
+    sr_atmos_opts atmos;
+} rate_opts;
+
+static int take(sr_cli *c, int code, const char *arg, void *ud)
+{
+    rate_opts *o = ud;
+    switch (code) {
+    case OPT_MASS: o->mass = arg; return 0;
+    case OPT_ALTITUDE: o->altitude = arg; return 0;
+    case OPT_BODY_DRAG: o->body = arg; return 0;
+    case OPT_MISSION: o->mission = arg; return 0;
+    }
+    if (sr_cli_take_canopy(&o->canopy, code, arg) || sr_cli_take_atmos(&o->atmos, code, arg))
+        return 0;
+    return 1;
+}
+
+#define MAX_ALT 256
+
+int sr_cmd_rate(sr_cli *c, int argc, char **argv)
+{
+    rate_opts o;
+    memset(&o, 0, sizeof o);
+    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    if (rc)
+        return rc;
+    if (first < argc)
+        return sr_cli_fail(c, "unexpected argument '%s' (rate takes options only)", argv[first]);
+    sr_catalog *cat = NULL;
+    sr_mission *mis = NULL;
+    sr_atmos atm;
+    sr_atmos_init_standard(&atm);
+    sr_report *r = NULL;
+    sr_error e;
+    double mass = NAN, ground = 0.0, body = 0.0;
+    double *alt = NULL;
+    sr_canopy cp;
+    if ((rc = sr_cli_catalog(c, &cat)))
+        goto out;
+    if (o.mission) {
+        mis = calloc(1, sizeof *mis);
+        if (!mis || sr_mission_load(mis, o.mission, cat, &e)) {
+            rc = mis ? sr_cli_fail(c, "--mission: %s", e.msg) : sr_cli_fail(c, "out of memory");
+            free(mis);
+            mis = NULL;
+            goto out;
+        }
+        mass = sr_mission_total_mass(mis);
+        ground = mis->ground;
+        const sr_stage *last = &mis->stages[mis->nstages - 1];
+        cp = last->canopy;
+        if (!last->has_size && !sr_cli_canopy_given(&o.canopy)) {
+            rc = sr_cli_fail(c, "--mission: stage '%s' has no size; give one in the file, or run `sinkrate size "
+                                "--mission` first", last->name);
+            goto out;
+        }
+        if (o.atmos.temp_offset || o.atmos.site_elevation || o.atmos.surface_temp || o.atmos.surface_pressure ||
+            o.atmos.sounding) {
+            if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
+                goto out;
+        } else {
+            atm = mis->atmos;
+            memset(&mis->atmos, 0, sizeof mis->atmos);
+        }
+    } else if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground))) {
+        goto out;
+    }
+    if (sr_cli_canopy_given(&o.canopy) || !mis) {
+        if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
+            goto out;
+    }
+    if (o.mass && (rc = sr_cli_quantity(c, "--mass", o.mass, SR_Q_MASS, 1, &mass)))
+        goto out;
+    if (isnan(mass)) {
+        rc = sr_cli_fail(c, "--mass: the descending mass is required");
+        goto out;
+    }
+    if (mass > 1e5) {
+        rc = sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", mass);
+        goto out;
+    }
+    if (o.body && (rc = sr_cli_quantity(c, "--body-drag-area", o.body, SR_Q_AREA, 0, &body)))
+        goto out;
+    if (body < 0) {
+        rc = sr_cli_fail(c, "--body-drag-area: must be zero or positive");
+        goto out;
+    }
+    alt = malloc(MAX_ALT * sizeof *alt);
+    size_t nalt = 1;
+    if (!alt) {
+        rc = sr_cli_fail(c, "out of memory");
+        goto out;
+    }
+    alt[0] = ground;
+    if (o.altitude && (rc = sr_cli_quantity_list(c, "--altitude", o.altitude, SR_Q_LENGTH, alt, MAX_ALT, &nalt)))
+        goto out;
+    r = sr_report_new("rate", "descent rate of a canopy");
+    sr_report_section(r, "Inputs");
+    if (mis)
+        sr_report_text(r, "mission", "mission", mis->name);
+    sr_report_value(r, "mass", "descending mass", mass, SR_Q_MASS, 4);
+    sr_cli_report_atmos(r, &atm);
+    sr_cli_report_canopy(r, &cp);
+    char buf[256];
+    snprintf(buf, sizeof buf, "%s", sr_size_kind_name(cp.size_kind));
+    sr_report_text(r, "size_given_as", "size given as", buf);
+    sr_report_band(r, "nominal_area", "nominal area S0 (each)", cp.s0.lo, cp.s0.typ, cp.s0.hi, SR_Q_AREA, 4);
+    sr_report_band(r, "nominal_diameter", "nominal diameter D0", cp.d0.lo, cp.d0.typ, cp.d0.hi, SR_Q_LENGTH, 4);
+    sr_band cds = sr_canopy_total_cds(&cp);
+    sr_report_band(r, "drag_area", "drag area CdS (all canopies)", cds.lo, cds.typ, cds.hi, SR_Q_AREA, 4);
+    if (body > 0)
+        sr_report_value(r, "body_drag_area", "payload drag area", body, SR_Q_AREA, 4);
+    if (cp.areal_mass > 0)
+        sr_report_band(r, "canopy_mass", "canopy fabric mass (added)", cp.count * cp.areal_mass * cp.s0.lo,
+                       cp.count * cp.areal_mass * cp.s0.typ, cp.count * cp.areal_mass * cp.s0.hi, SR_Q_MASS, 3);
+
+    sr_rtable *t = sr_report_table(r, "rates", "Descent rate (band from the drag range)");
+    sr_rtable_column(t, "altitude", "altitude", SR_Q_LENGTH, SR_FIXED(0));
+    sr_rtable_column(t, "density", "density", SR_Q_DENSITY, 4);
+    sr_rtable_column(t, "rate_low", "rate low", SR_Q_SPEED, 3);
+    sr_rtable_column(t, "rate_typical", "typical", SR_Q_SPEED, 3);
+    sr_rtable_column(t, "rate_high", "high", SR_Q_SPEED, 3);
+    sr_rtable_column(t, "dynamic_pressure", "q typ", SR_Q_PRESSURE, 3);
+    sr_rtable_column(t, "drop_height", "drop height typ", SR_Q_LENGTH, 3);
+    sr_rtable_column(t, "energy_low", "energy low", SR_Q_ENERGY, 3);
+    sr_rtable_column(t, "energy_typical", "typical", SR_Q_ENERGY, 3);
+    sr_rtable_column(t, "energy_high", "high", SR_Q_ENERGY, 3);
+    double mt = mass + (cp.areal_mass > 0 ? cp.count * cp.areal_mass * cp.s0.typ : 0.0);
+    for (size_t i = 0; i < nalt; i++) {
+        sr_air a;
+        if (sr_atmos_at(&atm, alt[i], &a, &e)) {
+            rc = sr_cli_fail(c, "--altitude: %s", e.msg);
+            goto out;
+        }
+        sr_band v;
+        if (sr_descent_rate(&cp, mass, body, &a, &v, &e)) {
+            rc = sr_cli_fail_err(c, &e);
+            goto out;
+        }
+        double row[] = {alt[i],
+                        a.rho,
+                        v.lo,
+                        v.typ,
+                        v.hi,
+                        0.5 * a.rho * v.typ * v.typ,
+                        sr_descent_drop_height(v.typ, a.g),
+                        0.5 * mt * v.lo * v.lo,
+                        0.5 * mt * v.typ * v.typ,
+                        0.5 * mt * v.hi * v.hi};
+        sr_rtable_row(t, row, NULL);
+    }
+    sr_report_note(r, "Equilibrium rate where drag equals weight: v = sqrt(2 m g / (rho CdS)). The energy "
+                      "columns are the kinetic energy of the whole descending mass at that speed; per-section "
+                      "energies are in `sinkrate profile`.");
+    if (!cp.measured && strstr(cp.fam.cd0_source, "memory"))
+        sr_report_warning(r, "The family's drag data are recalled handbook values, not checked against the printed "
+                             "table: confirm with a drop test.");
+    rc = sr_cli_emit(c, r);
+out:
+    free(alt);
+    sr_report_free(r);
+    sr_atmos_free(&atm);
+    if (mis) {
+        sr_mission_free(mis);
+        free(mis);
+    }
+    free(cat);
+    return rc;
+}

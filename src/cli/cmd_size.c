@@ -1,0 +1,275 @@
+/* cmd_size.c - `sinkrate size`: the nominal area and diameters a canopy
+ * family needs to bring a payload down at a target speed. */
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli/commands.h"
+#include "cli/common.h"
+#include "descent.h"
+#include "mission.h"
+
+enum { OPT_MASS = OPT_COMMAND_BASE, OPT_SPEED, OPT_ALTITUDE, OPT_BODY_DRAG, OPT_MISSION };
+
+static const struct option OPTS[] = {
+    {"mass", required_argument, NULL, OPT_MASS},
+    {"speed", required_argument, NULL, OPT_SPEED},
+    {"altitude", required_argument, NULL, OPT_ALTITUDE},
+    {"body-drag-area", required_argument, NULL, OPT_BODY_DRAG},
+    {"mission", required_argument, NULL, OPT_MISSION},
+    SR_OPTS_CANOPY,
+    SR_OPTS_ATMOS,
+    SR_OPTS_OUTPUT,
+    {NULL, 0, NULL, 0}};
+
+static const char HELP[] =
+    "usage: sinkrate size --mass M --speed V --family ID [options]\n"
+    "       sinkrate size --mission FILE [options]\n\n"
+    "Nominal area S0 and nominal, projected and flat diameters a canopy family needs\n"
+    "so that a payload of mass M descends at V at the touchdown altitude. The band\n"
+    "(low / typical / high) comes from the family's drag-coefficient range: the high\n"
+    "drag coefficient gives the smallest canopy.\n\n"
+    "  --mass M                 payload mass, without the canopy (\"4.2 kg\", \"9 lb\")\n"
+    "  --speed V                target touchdown speed (\"5.5 m/s\", \"18 ft/s\")\n"
+    "  --altitude Z             touchdown altitude above sea level (default: the site\n"
+    "                           elevation, or 0)\n"
+    "  --body-drag-area A       payload drag area CdA to count with the canopy (\"0.02 m2\")\n"
+    "  --mission FILE           take mass (all sections), touchdown-speed limit, site and\n"
+    "                           the last stage's family from a mission file; options given\n"
+    "                           as well override it\n\n";
+
+typedef struct size_opts {
+    const char *mass, *speed, *altitude, *body, *mission;
+    sr_canopy_opts canopy;
+    sr_atmos_opts atmos;
+} size_opts;
+
+static int take(sr_cli *c, int code, const char *arg, void *ud)
+{
+    size_opts *o = ud;
+    switch (code) {
+    case OPT_MASS: o->mass = arg; return 0;
+    case OPT_SPEED: o->speed = arg; return 0;
+    case OPT_ALTITUDE: o->altitude = arg; return 0;
+    case OPT_BODY_DRAG: o->body = arg; return 0;
+    case OPT_MISSION: o->mission = arg; return 0;
+    }
+    if (sr_cli_take_canopy(&o->canopy, code, arg) || sr_cli_take_atmos(&o->atmos, code, arg))
+        return 0;
+    return 1;
+}
+
+int sr_cmd_size(sr_cli *c, int argc, char **argv)
+{
+    size_opts o;
+    memset(&o, 0, sizeof o);
+    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    if (rc)
+        return rc;
+    if (first < argc)
+        return sr_cli_fail(c, "unexpected argument '%s' (size takes options only)", argv[first]);
+    if (o.canopy.nominal_diameter || o.canopy.projected_diameter || o.canopy.flat_diameter || o.canopy.nominal_area)
+        return sr_cli_fail(c, "size finds the canopy size; drop the size option (use `sinkrate rate` for a given size)");
+
+    sr_catalog *cat = NULL;
+    sr_mission *mis = NULL;
+    sr_atmos atm;
+    sr_atmos_init_standard(&atm);
+    sr_report *r = NULL;
+    sr_error e;
+    double mass = NAN, speed = NAN, ground = 0.0, z, body = 0.0;
+    sr_canopy cp;
+    if ((rc = sr_cli_catalog(c, &cat)))
+        goto out;
+    if (o.mission) {
+        mis = calloc(1, sizeof *mis);
+        if (!mis || sr_mission_load(mis, o.mission, cat, &e)) {
+            rc = mis ? sr_cli_fail(c, "--mission: %s", e.msg) : sr_cli_fail(c, "out of memory");
+            free(mis);
+            mis = NULL;
+            goto out;
+        }
+        mass = sr_mission_total_mass(mis);
+        speed = mis->limit_speed;
+        ground = mis->ground;
+        cp = mis->stages[mis->nstages - 1].canopy;
+        if (o.atmos.temp_offset || o.atmos.site_elevation || o.atmos.surface_temp || o.atmos.surface_pressure ||
+            o.atmos.sounding) {
+            if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
+                goto out;
+        } else {
+            atm = mis->atmos;
+            memset(&mis->atmos, 0, sizeof mis->atmos); /* ownership moves to atm */
+        }
+    } else {
+        if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
+            goto out;
+    }
+    if (sr_cli_canopy_given(&o.canopy) || !mis) {
+        if ((rc = sr_cli_canopy(c, cat, &o.canopy, 0, &cp)))
+            goto out;
+    } else if (o.canopy.cluster || o.canopy.cluster_factor || o.canopy.areal_mass) {
+        rc = sr_cli_fail(c, "with --mission, give --family too when changing cluster or areal mass");
+        goto out;
+    }
+    if (o.mass && (rc = sr_cli_quantity(c, "--mass", o.mass, SR_Q_MASS, 1, &mass)))
+        goto out;
+    if (o.speed && (rc = sr_cli_quantity(c, "--speed", o.speed, SR_Q_SPEED, 1, &speed)))
+        goto out;
+    if (isnan(mass)) {
+        rc = sr_cli_fail(c, "--mass: the payload mass is required");
+        goto out;
+    }
+    if (isnan(speed)) {
+        rc = sr_cli_fail(c, "--speed: the target touchdown speed is required%s",
+                         mis ? " (the mission file has no touchdown-speed limit)" : "");
+        goto out;
+    }
+    if (mass > 1e5) {
+        rc = sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", mass);
+        goto out;
+    }
+    if (speed > 300.0) {
+        rc = sr_cli_fail(c, "--speed: %g m/s is not a touchdown speed a canopy is sized for", speed);
+        goto out;
+    }
+    if (o.body && (rc = sr_cli_quantity(c, "--body-drag-area", o.body, SR_Q_AREA, 0, &body)))
+        goto out;
+    if (body < 0) {
+        rc = sr_cli_fail(c, "--body-drag-area: must be zero or positive");
+        goto out;
+    }
+    z = ground;
+    if (o.altitude && (rc = sr_cli_quantity(c, "--altitude", o.altitude, SR_Q_LENGTH, 0, &z)))
+        goto out;
+    sr_air air;
+    if (sr_atmos_at(&atm, z, &air, &e)) {
+        rc = sr_cli_fail(c, "--altitude: %s", e.msg);
+        goto out;
+    }
+    /* the drag band on nominal area: from the family, or a measured value converted */
+    sr_band cd0 = cp.fam.cd0.v;
+    if (cp.measured) {
+        sr_band ratio = {1, 1, 1};
+        if (cp.cd.ref == SR_REF_PROJECTED)
+            ratio = cp.fam.dp_d0;
+        else if (cp.cd.ref == SR_REF_CONSTRUCTED)
+            ratio = cp.fam.dc_d0;
+        double v = cp.cd.v.typ;
+        cd0.lo = v * ratio.lo * ratio.lo;
+        cd0.typ = v * ratio.typ * ratio.typ;
+        cd0.hi = v * ratio.hi * ratio.hi;
+    }
+    sr_size_request req = {.mass = mass,
+                           .speed = speed,
+                           .rho = air.rho,
+                           .g = air.g,
+                           .count = cp.count,
+                           .cluster_factor = cp.cluster_factor,
+                           .areal_mass = cp.areal_mass > 0 ? cp.areal_mass : 0.0,
+                           .body_cds = body,
+                           .cd0 = cd0};
+    sr_size_result res;
+    if (sr_descent_size(&req, &res, &e)) {
+        rc = sr_cli_fail_err(c, &e);
+        goto out;
+    }
+
+    r = sr_report_new("size", "canopy size for a target touchdown speed");
+    sr_report_section(r, "Inputs");
+    if (mis)
+        sr_report_text(r, "mission", "mission", mis->name);
+    sr_report_value(r, "mass", "payload mass (without canopy)", mass, SR_Q_MASS, 4);
+    sr_report_value(r, "target_speed", "target touchdown speed", speed, SR_Q_SPEED, 4);
+    sr_report_value(r, "altitude", "touchdown altitude (above sea level)", z, SR_Q_LENGTH, SR_FIXED(0));
+    sr_cli_report_atmos(r, &atm);
+    sr_report_value(r, "density", "air density there", air.rho, SR_Q_DENSITY, 5);
+    sr_cli_report_canopy(r, &cp);
+    if (body > 0)
+        sr_report_value(r, "body_drag_area", "payload drag area", body, SR_Q_AREA, 4);
+    if (req.areal_mass > 0)
+        sr_report_value(r, "areal_mass", "canopy areal mass", req.areal_mass, SR_Q_AREAL_MASS, 3);
+
+    sr_report_section(r, cp.count > 1 ? "Result (each canopy of the cluster)" : "Result");
+    sr_report_band(r, "nominal_area", "nominal area S0", res.s0.lo, res.s0.typ, res.s0.hi, SR_Q_AREA, 4);
+    sr_report_band(r, "nominal_diameter", "nominal diameter D0", res.d0.lo, res.d0.typ, res.d0.hi, SR_Q_LENGTH, 4);
+    sr_band dp = cp.fam.dp_d0, dc = cp.fam.dc_d0;
+    sr_report_band(r, "projected_diameter", "projected diameter Dp", res.d0.lo * dp.lo, res.d0.typ * dp.typ,
+                   res.d0.hi * dp.hi, SR_Q_LENGTH, 4);
+    sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", res.d0.lo * dc.lo, res.d0.typ * dc.typ,
+                   res.d0.hi * dc.hi, SR_Q_LENGTH, 4);
+    if (req.areal_mass > 0)
+        sr_report_band(r, "canopy_mass", "canopy fabric mass (all canopies)", res.canopy_mass.lo,
+                       res.canopy_mass.typ, res.canopy_mass.hi, SR_Q_MASS, 3);
+    sr_report_value(r, "drag_area", "drag area needed (total, typical)", res.cds_total, SR_Q_AREA, 4);
+    sr_report_value(r, "touchdown_energy", "touchdown kinetic energy", 0.5 * (mass + res.canopy_mass.typ) * speed * speed,
+                    SR_Q_ENERGY, 4);
+
+    if (mis && mis->stages[mis->nstages - 1].has_size && !sr_cli_canopy_given(&o.canopy)) {
+        const sr_stage *st = &mis->stages[mis->nstages - 1];
+        sr_report_section(r, "Against the mission file");
+        char buf[300];
+        snprintf(buf, sizeof buf, "stage '%s': %s %.4g %s", st->name, sr_size_kind_name(st->canopy.size_kind),
+                 st->canopy.size_value, st->canopy.size_kind == SR_SIZE_NOMINAL_AREA ? "m2" : "m");
+        sr_report_text(r, "file_size", "size in the file", buf);
+        sr_report_band(r, "file_nominal_area", "its nominal area S0", st->canopy.s0.lo, st->canopy.s0.typ,
+                       st->canopy.s0.hi, SR_Q_AREA, 4);
+        if (st->canopy.s0.lo >= res.s0.hi)
+            sr_report_note(r, "The file's canopy is at least as large as the high end of the band: it meets the "
+                              "target speed over the whole drag range.");
+        else if (st->canopy.s0.typ >= res.s0.typ)
+            sr_report_warning(r, "The file's canopy meets the target with the typical drag coefficient but not over "
+                                 "the whole range: it needs S0 = %.3g m2 to be sure.", res.s0.hi);
+        else
+            sr_report_warning(r, "The file's canopy is smaller than the typical size needed (%.3g m2): it lands "
+                                 "faster than the target.", res.s0.typ);
+    }
+    /* how the typical canopy behaves higher up */
+    sr_canopy typ;
+    sr_canopy_from_size(&typ, &cp.fam, SR_SIZE_NOMINAL_AREA, res.s0.typ, &e);
+    typ.cd.v = cd0;
+    typ.cds.lo = cd0.lo * res.s0.typ;
+    typ.cds.typ = cd0.typ * res.s0.typ;
+    typ.cds.hi = cd0.hi * res.s0.typ;
+    typ.count = cp.count;
+    typ.cluster_factor = cp.cluster_factor;
+    typ.areal_mass = req.areal_mass;
+    sr_rtable *t = sr_report_table(r, "rate_of_typical_size", "Descent rate of the typical size at altitude");
+    sr_rtable_column(t, "altitude", "altitude", SR_Q_LENGTH, SR_FIXED(0));
+    sr_rtable_column(t, "density", "density", SR_Q_DENSITY, 4);
+    sr_rtable_column(t, "rate_low", "rate low", SR_Q_SPEED, 3);
+    sr_rtable_column(t, "rate_typical", "rate typical", SR_Q_SPEED, 3);
+    sr_rtable_column(t, "rate_high", "rate high", SR_Q_SPEED, 3);
+    static const double DZ[] = {0, 500, 1000, 2000, 3000, 5000};
+    for (size_t i = 0; i < sizeof DZ / sizeof DZ[0]; i++) {
+        sr_air a;
+        if (sr_atmos_at(&atm, z + DZ[i], &a, NULL))
+            break;
+        sr_band v;
+        if (sr_descent_rate(&typ, mass, body, &a, &v, NULL))
+            break;
+        double row[] = {z + DZ[i], a.rho, v.lo, v.typ, v.hi};
+        sr_rtable_row(t, row, NULL);
+    }
+    sr_report_note(r, "Sizes are on nominal area S0 (total canopy surface, vent included), D0 = sqrt(4 S0/pi). "
+                      "Projected and flat diameters use the family's Dp/D0 and Dc/D0 ratios.");
+    sr_report_note(r, "The band comes from the drag-coefficient range of the family: the high coefficient gives "
+                      "the small canopy, the low one the large. Choose from the large end to meet the speed with "
+                      "margin.");
+    if (cp.measured)
+        sr_report_note(r, "A measured drag coefficient on %s area was converted to nominal area through the family "
+                          "ratio.", sr_ref_name(cp.cd.ref));
+    if (cp.fam.cd0_source[0] && strstr(cp.fam.cd0_source, "memory"))
+        sr_report_warning(r, "The family's drag data are recalled handbook values, not checked against the printed "
+                             "table: confirm with a drop test before relying on the size.");
+    rc = sr_cli_emit(c, r);
+out:
+    sr_report_free(r);
+    sr_atmos_free(&atm);
+    if (mis) {
+        sr_mission_free(mis);
+        free(mis);
+    }
+    free(cat);
+    return rc;
+}

@@ -1,0 +1,532 @@
+/* common.c - option groups, quantity options, catalog lookup and report
+ * output shared by every subcommand. */
+#define _DEFAULT_SOURCE
+#include "cli/common.h"
+
+#include <limits.h>
+#include <math.h>
+#include <stdarg.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "fileio.h"
+#include "yamldoc.h"
+
+const char SR_HELP_OUTPUT[] =
+    "Output:\n"
+    "  --format text|csv|json   output format (default text)\n"
+    "  --units si|us            SI (default) or US customary units (ft, lb, ft/s, lbf)\n"
+    "  -o, --output FILE        write to FILE (atomically) instead of standard output\n"
+    "  --data DIR               directory holding canopies/ (default: found next to the\n"
+    "                           program, $SINKRATE_DATA, or the installed share directory)\n"
+    "  -h, --help               this help\n";
+
+const char SR_HELP_ATMOS[] =
+    "Atmosphere (default: U.S. Standard Atmosphere 1976):\n"
+    "  --temp-offset DT         hot or cold day: temperature + DT at standard pressure (\"15 C\")\n"
+    "  --site-elevation Z       site model: ground elevation above sea level\n"
+    "  --surface-temp T         site model: measured surface temperature (\"35 C\", \"95 F\")\n"
+    "  --surface-pressure P     site model: measured surface (station) pressure (\"850 hPa\")\n"
+    "  --sounding FILE          CSV sounding: altitude, temperature, pressure columns with units\n";
+
+const char SR_HELP_CANOPY[] =
+    "Canopy:\n"
+    "  --family ID              catalog family (sinkrate canopies lists them)\n"
+    "  --nominal-diameter D     size as nominal diameter D0 (from S0, vent included)\n"
+    "  --projected-diameter D   size as inflated projected diameter Dp (converted by Dp/D0)\n"
+    "  --flat-diameter D        size as flat (constructed) diameter Dc (converted by Dc/D0)\n"
+    "  --nominal-area S         size as nominal area S0\n"
+    "  --drag-coefficient CD    measured drag coefficient instead of the family range;\n"
+    "  --drag-reference REF     ... and its reference area: nominal, projected or constructed\n"
+    "  --canopy FILE            a canopy file (family, size, measured drag) instead of the above\n"
+    "  --cluster N              N identical canopies (default 1)\n"
+    "  --cluster-factor K       drag per canopy in the cluster over single (default by N, from memory)\n"
+    "  --areal-mass W           canopy mass per nominal area (\"40 g/m2\"); its weight then counts\n";
+
+int sr_cli_fail(sr_cli *c, const char *fmt, ...)
+{
+    char msg[1024];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    va_end(ap);
+    fprintf(c->err, "sinkrate%s%s: %s\n", c->cmd ? " " : "", c->cmd ? c->cmd : "", msg);
+    return SR_EXIT_USAGE;
+}
+
+int sr_cli_fail_err(sr_cli *c, const sr_error *e)
+{
+    sr_cli_fail(c, "%s", e->msg);
+    return e->code == SR_EIMPOSSIBLE ? SR_EXIT_LIMIT : SR_EXIT_USAGE;
+}
+
+void sr_cli_help(sr_cli *c, const char *text)
+{
+    fputs(text, c->out);
+    fputc('\n', c->out);
+    fputs("Quantities take a unit (\"2.5 kg\", \"36in\", \"18 ft/s\", \"31 C\"); a bare number is SI\n"
+          "(kg, m, m/s, K, Pa), except angles, which are degrees.\n\n",
+          c->out);
+    /* the caution belongs in every help text */
+    const char *p = sr_report_caution();
+    size_t col = 0;
+    while (*p) {
+        const char *w = p;
+        while (*w && *w != ' ')
+            w++;
+        size_t wl = (size_t)(w - p);
+        if (col + wl + 1 > 78) {
+            fputc('\n', c->out);
+            col = 0;
+        } else if (col) {
+            fputc(' ', c->out);
+            col++;
+        }
+        fwrite(p, 1, wl, c->out);
+        col += wl;
+        p = *w ? w + 1 : w;
+    }
+    fputc('\n', c->out);
+}
+
+static const char *option_suggestion(const struct option *opts, const char *bad)
+{
+    const char *names[256];
+    size_t n = 0;
+    for (const struct option *o = opts; o->name && n < 255; o++)
+        names[n++] = o->name;
+    names[n] = NULL;
+    return sr_yaml_suggest(bad, names);
+}
+
+int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
+                 const char *help, int *first_arg)
+{
+    optind = 0; /* GNU: full re-initialisation, so in-process calls can repeat */
+    opterr = 0;
+    int code;
+    while ((code = getopt_long(argc, argv, "+ho:n:", opts, NULL)) != -1) {
+        switch (code) {
+        case 'h':
+            sr_cli_help(c, help);
+            return -1;
+        case 'o':
+            c->output = optarg;
+            break;
+        case OPT_FORMAT:
+            if (strcmp(optarg, "text") == 0)
+                c->format = SR_FMT_TEXT;
+            else if (strcmp(optarg, "csv") == 0)
+                c->format = SR_FMT_CSV;
+            else if (strcmp(optarg, "json") == 0)
+                c->format = SR_FMT_JSON;
+            else
+                return sr_cli_fail(c, "--format: '%s' is not one of text, csv, json", optarg);
+            break;
+        case OPT_UNITS:
+            if (strcmp(optarg, "si") == 0)
+                c->units = SR_UNITS_SI;
+            else if (strcmp(optarg, "us") == 0)
+                c->units = SR_UNITS_US;
+            else
+                return sr_cli_fail(c, "--units: '%s' is not one of si, us", optarg);
+            break;
+        case OPT_DATA:
+            c->data_dir = optarg;
+            break;
+        case OPT_PLOT:
+            if (!*optarg)
+                return sr_cli_fail(c, "--plot: empty file prefix");
+            c->plot_prefix = optarg;
+            break;
+        case OPT_PLOT_FORMAT:
+            if (strcmp(optarg, "png") != 0 && strcmp(optarg, "svg") != 0)
+                return sr_cli_fail(c, "--plot-format: '%s' is not one of png, svg", optarg);
+            c->plot_format = optarg;
+            break;
+        case OPT_THREADS: {
+            long t;
+            int rc = sr_cli_count(c, "--threads", optarg, 0, 256, &t);
+            if (rc)
+                return rc;
+            c->threads = (int)t;
+            break;
+        }
+        case OPT_SEED: {
+            char *end;
+            if (!optarg[0] || optarg[0] == '-')
+                return sr_cli_fail(c, "--seed: '%s' is not a whole number >= 0", optarg);
+            unsigned long long s = strtoull(optarg, &end, 10);
+            if (*end || s > 0xffffffffULL)
+                return sr_cli_fail(c, "--seed: '%s' is not a whole number from 0 to 4294967295", optarg);
+            c->seed = (unsigned long)s;
+            c->seed_set = 1;
+            break;
+        }
+        case '?': {
+            const char *bad = argv[optind - 1];
+            if (optopt && optopt < 256 && bad[0] == '-' && bad[1] != '-')
+                return sr_cli_fail(c, "unknown option '-%c' (see --help)", optopt);
+            if (optopt) {
+                /* a known option missing its argument */
+                for (const struct option *o = opts; o->name; o++)
+                    if (o->val == optopt)
+                        return sr_cli_fail(c, "--%s needs a value", o->name);
+                return sr_cli_fail(c, "option '%s' needs a value", bad);
+            }
+            char name[128];
+            snprintf(name, sizeof name, "%s", bad + (bad[0] == '-' ? (bad[1] == '-' ? 2 : 1) : 0));
+            char *eq = strchr(name, '=');
+            if (eq)
+                *eq = '\0';
+            const char *s = option_suggestion(opts, name);
+            if (s)
+                return sr_cli_fail(c, "unknown option '%s'; did you mean '--%s'?", bad, s);
+            return sr_cli_fail(c, "unknown option '%s' (see --help)", bad);
+        }
+        case ':':
+            return sr_cli_fail(c, "option '%s' needs a value", argv[optind - 1]);
+        default: {
+            int rc = handle ? handle(c, code, optarg, ud) : 1;
+            if (rc == 1) {
+                for (const struct option *o = opts; o->name; o++)
+                    if (o->val == code)
+                        return sr_cli_fail(c, "--%s is not used by this command", o->name);
+                return sr_cli_fail(c, "unexpected option");
+            }
+            if (rc)
+                return rc;
+        }
+        }
+    }
+    *first_arg = optind;
+    return 0;
+}
+
+int sr_cli_take_atmos(sr_atmos_opts *a, int code, const char *arg)
+{
+    switch (code) {
+    case OPT_TEMP_OFFSET: a->temp_offset = arg; return 1;
+    case OPT_SITE_ELEVATION: a->site_elevation = arg; return 1;
+    case OPT_SURFACE_TEMP: a->surface_temp = arg; return 1;
+    case OPT_SURFACE_PRESSURE: a->surface_pressure = arg; return 1;
+    case OPT_SOUNDING: a->sounding = arg; return 1;
+    }
+    return 0;
+}
+
+int sr_cli_take_canopy(sr_canopy_opts *o, int code, const char *arg)
+{
+    switch (code) {
+    case OPT_FAMILY: o->family = arg; return 1;
+    case OPT_CANOPY: o->canopy = arg; return 1;
+    case OPT_NOMINAL_DIAMETER: o->nominal_diameter = arg; return 1;
+    case OPT_PROJECTED_DIAMETER: o->projected_diameter = arg; return 1;
+    case OPT_FLAT_DIAMETER: o->flat_diameter = arg; return 1;
+    case OPT_NOMINAL_AREA: o->nominal_area = arg; return 1;
+    case OPT_CLUSTER: o->cluster = arg; return 1;
+    case OPT_CLUSTER_FACTOR: o->cluster_factor = arg; return 1;
+    case OPT_AREAL_MASS: o->areal_mass = arg; return 1;
+    case OPT_DRAG_COEFFICIENT: o->drag_coefficient = arg; return 1;
+    case OPT_DRAG_REFERENCE: o->drag_reference = arg; return 1;
+    }
+    return 0;
+}
+
+int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q, int positive, double *out)
+{
+    sr_error e;
+    if (sr_units_parse(text, q, out, &e) != SR_OK)
+        return sr_cli_fail(c, "%s: %s", opt, e.msg);
+    if (positive && !(*out > 0.0))
+        return sr_cli_fail(c, "%s: must be greater than zero (got '%s')", opt, text);
+    return 0;
+}
+
+int sr_cli_quantity_list(sr_cli *c, const char *opt, const char *text, sr_quantity q, double *out, size_t max,
+                         size_t *n)
+{
+    *n = 0;
+    char buf[4096];
+    if (strlen(text) >= sizeof buf)
+        return sr_cli_fail(c, "%s: list too long", opt);
+    snprintf(buf, sizeof buf, "%s", text);
+    char *save = NULL;
+    for (char *tok = strtok_r(buf, ",", &save); tok; tok = strtok_r(NULL, ",", &save)) {
+        if (*n >= max)
+            return sr_cli_fail(c, "%s: more than %zu values", opt, max);
+        int rc = sr_cli_quantity(c, opt, tok, q, 0, &out[*n]);
+        if (rc)
+            return rc;
+        (*n)++;
+    }
+    if (*n == 0)
+        return sr_cli_fail(c, "%s: empty list", opt);
+    return 0;
+}
+
+int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi, long *out)
+{
+    char *end;
+    long v = strtol(text, &end, 10);
+    if (!text[0] || *end || v < lo || v > hi)
+        return sr_cli_fail(c, "%s: '%s' is not a whole number from %ld to %ld", opt, text, lo, hi);
+    *out = v;
+    return 0;
+}
+
+int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground)
+{
+    sr_error e;
+    *ground = 0.0;
+    sr_atmos_init_standard(m);
+    int site = a->site_elevation || a->surface_temp || a->surface_pressure;
+    if (a->sounding) {
+        if (site || a->temp_offset)
+            return sr_cli_fail(c, "--sounding: give either a sounding or the other atmosphere options, not both");
+        if (sr_atmos_load_sounding(m, a->sounding, &e))
+            return sr_cli_fail(c, "--sounding: %s", e.msg);
+        double lo, hi;
+        sr_atmos_range(m, &lo, &hi);
+        *ground = lo;
+        return 0;
+    }
+    if (site && a->temp_offset)
+        return sr_cli_fail(c, "--temp-offset: use either a temperature offset or the site options "
+                              "(--surface-temp sets the site's temperature), not both");
+    if (a->temp_offset) {
+        double dT;
+        int rc = sr_cli_quantity(c, "--temp-offset", a->temp_offset, SR_Q_TEMP_DIFF, 0, &dT);
+        if (rc)
+            return rc;
+        if (sr_atmos_init_offset(m, dT, &e))
+            return sr_cli_fail(c, "--temp-offset: %s", e.msg);
+        return 0;
+    }
+    if (site) {
+        double z = 0, T = NAN, p = NAN;
+        int rc;
+        if (a->site_elevation && (rc = sr_cli_quantity(c, "--site-elevation", a->site_elevation, SR_Q_LENGTH, 0, &z)))
+            return rc;
+        if (a->surface_temp && (rc = sr_cli_quantity(c, "--surface-temp", a->surface_temp, SR_Q_TEMP, 1, &T)))
+            return rc;
+        if (a->surface_pressure &&
+            (rc = sr_cli_quantity(c, "--surface-pressure", a->surface_pressure, SR_Q_PRESSURE, 1, &p)))
+            return rc;
+        if (sr_atmos_init_site(m, z, T, p, &e))
+            return sr_cli_fail(c, "%s: %s",
+                               e.code == SR_EDOMAIN ? "--site-elevation"
+                               : isnan(p) || (!isnan(T) && strstr(e.msg, "temperature")) ? "--surface-temp"
+                                                                                           : "--surface-pressure",
+                               e.msg);
+        *ground = z;
+    }
+    return 0;
+}
+
+static int has_canopies(const char *dir)
+{
+    char p[PATH_MAX];
+    struct stat st;
+    snprintf(p, sizeof p, "%s/canopies", dir);
+    return stat(p, &st) == 0 && S_ISDIR(st.st_mode);
+}
+
+int sr_cli_data_dir(sr_cli *c, char *buf, size_t len)
+{
+    if (c->data_dir) {
+        if (!has_canopies(c->data_dir))
+            return sr_cli_fail(c, "--data: %s holds no canopies/ directory", c->data_dir);
+        snprintf(buf, len, "%s", c->data_dir);
+        return 0;
+    }
+    const char *env = getenv("SINKRATE_DATA");
+    if (env && *env) {
+        if (!has_canopies(env))
+            return sr_cli_fail(c, "SINKRATE_DATA=%s holds no canopies/ directory", env);
+        snprintf(buf, len, "%s", env);
+        return 0;
+    }
+    /* next to the executable: the build tree (build/sinkrate -> ./canopies) or an install prefix */
+    char exe[PATH_MAX];
+    ssize_t n = readlink("/proc/self/exe", exe, sizeof exe - 1);
+    if (n > 0) {
+        exe[n] = '\0';
+        char *slash = strrchr(exe, '/');
+        if (slash) {
+            *slash = '\0';
+            const char *rel[] = {"", "/..", "/../..", "/../share/sinkrate"};
+            for (size_t i = 0; i < sizeof rel / sizeof rel[0]; i++) {
+                char cand[PATH_MAX + 32];
+                snprintf(cand, sizeof cand, "%s%s", exe, rel[i]);
+                char real[PATH_MAX];
+                if (has_canopies(cand) && realpath(cand, real)) {
+                    snprintf(buf, len, "%s", real);
+                    return 0;
+                }
+            }
+        }
+    }
+    if (has_canopies(SR_DATADIR)) {
+        snprintf(buf, len, "%s", SR_DATADIR);
+        return 0;
+    }
+    return sr_cli_fail(c, "cannot find the canopy catalog; pass --data DIR (the directory holding canopies/) "
+                          "or set SINKRATE_DATA");
+}
+
+int sr_cli_catalog(sr_cli *c, sr_catalog **cat)
+{
+    char dir[PATH_MAX];
+    int rc = sr_cli_data_dir(c, dir, sizeof dir - 16);
+    if (rc)
+        return rc;
+    *cat = malloc(sizeof **cat);
+    if (!*cat)
+        return sr_cli_fail(c, "out of memory");
+    char cdir[PATH_MAX + 16];
+    snprintf(cdir, sizeof cdir, "%s/canopies", dir);
+    sr_error e;
+    if (sr_catalog_open(*cat, cdir, &e)) {
+        free(*cat);
+        *cat = NULL;
+        return sr_cli_fail(c, "%s", e.msg);
+    }
+    return 0;
+}
+
+int sr_cli_canopy_given(const sr_canopy_opts *o)
+{
+    return o->family || o->canopy;
+}
+
+int sr_cli_canopy(sr_cli *c, const sr_catalog *cat, const sr_canopy_opts *o, int size_required, sr_canopy *out)
+{
+    sr_error e;
+    int rc;
+    if (o->canopy) {
+        if (o->family || o->nominal_diameter || o->projected_diameter || o->flat_diameter || o->nominal_area ||
+            o->drag_coefficient)
+            return sr_cli_fail(c, "--canopy: the canopy file already gives family, size and drag; drop the "
+                                  "--family / size / --drag-coefficient options");
+        if (sr_catalog_load_canopy(out, cat, o->canopy, &e))
+            return sr_cli_fail(c, "--canopy: %s", e.msg);
+    } else {
+        if (!o->family)
+            return sr_cli_fail(c, "--family: a canopy family is required (or --canopy FILE); sinkrate canopies "
+                                  "lists the families");
+        const sr_family *fam = sr_catalog_find(cat, o->family, &e);
+        if (!fam)
+            return sr_cli_fail(c, "--family: %s", e.msg);
+        const char *names[4] = {"--nominal-diameter", "--projected-diameter", "--flat-diameter", "--nominal-area"};
+        const char *vals[4] = {o->nominal_diameter, o->projected_diameter, o->flat_diameter, o->nominal_area};
+        int which = -1;
+        for (int i = 0; i < 4; i++) {
+            if (!vals[i])
+                continue;
+            if (which >= 0)
+                return sr_cli_fail(c, "%s: give one size only (%s is also set)", names[i], names[which]);
+            which = i;
+        }
+        if (which < 0) {
+            if (size_required)
+                return sr_cli_fail(c, "the canopy needs a size: --nominal-diameter, --projected-diameter, "
+                                      "--flat-diameter or --nominal-area");
+            sr_canopy_from_size(out, fam, SR_SIZE_NOMINAL_AREA, 1.0, &e);
+        } else {
+            double v;
+            if ((rc = sr_cli_quantity(c, names[which], vals[which], which == 3 ? SR_Q_AREA : SR_Q_LENGTH, 1, &v)))
+                return rc;
+            if (sr_canopy_from_size(out, fam, (sr_size_kind)which, v, &e))
+                return sr_cli_fail(c, "%s: %s", names[which], e.msg);
+        }
+        if (o->drag_coefficient || o->drag_reference) {
+            if (!o->drag_coefficient || !o->drag_reference)
+                return sr_cli_fail(c, "--drag-coefficient and --drag-reference go together: a drag coefficient "
+                                      "means nothing without its reference area");
+            double cd;
+            sr_ref ref;
+            if ((rc = sr_cli_quantity(c, "--drag-coefficient", o->drag_coefficient, SR_Q_NONE, 1, &cd)))
+                return rc;
+            if (sr_ref_parse(o->drag_reference, &ref))
+                return sr_cli_fail(c, "--drag-reference: '%s' is not one of nominal, projected, constructed",
+                                   o->drag_reference);
+            if (sr_canopy_set_measured_cd(out, cd, ref, "given with --drag-coefficient", &e))
+                return sr_cli_fail(c, "--drag-coefficient: %s", e.msg);
+        }
+    }
+    if (o->cluster || o->cluster_factor) {
+        long n = out->count;
+        double k = NAN;
+        if (o->cluster && (rc = sr_cli_count(c, "--cluster", o->cluster, 1, 16, &n)))
+            return rc;
+        if (o->cluster_factor && (rc = sr_cli_quantity(c, "--cluster-factor", o->cluster_factor, SR_Q_NONE, 1, &k)))
+            return rc;
+        if (sr_canopy_set_cluster(out, (int)n, k, &e))
+            return sr_cli_fail(c, "%s: %s", o->cluster_factor ? "--cluster-factor" : "--cluster", e.msg);
+    }
+    if (o->areal_mass) {
+        double w;
+        if ((rc = sr_cli_quantity(c, "--areal-mass", o->areal_mass, SR_Q_AREAL_MASS, 1, &w)))
+            return rc;
+        if (w > 2.0)
+            return sr_cli_fail(c, "--areal-mass: %g kg/m2 is heavier than any canopy cloth; check the unit", w);
+        out->areal_mass = w;
+    }
+    return 0;
+}
+
+void sr_cli_report_canopy(sr_report *r, const sr_canopy *cp)
+{
+    char buf[512];
+    snprintf(buf, sizeof buf, "%s (%s)", cp->fam.name, cp->fam.id);
+    sr_report_text(r, "family", "canopy family", buf);
+    if (cp->measured) {
+        snprintf(buf, sizeof buf, "%.4g on %s area (%s)", cp->cd.v.typ, sr_ref_name(cp->cd.ref), cp->cd_source);
+        sr_report_text(r, "drag_coefficient", "drag coefficient", buf);
+    } else {
+        snprintf(buf, sizeof buf, "%.3g / %.3g / %.3g on nominal area S0", cp->fam.cd0.v.lo, cp->fam.cd0.v.typ,
+                 cp->fam.cd0.v.hi);
+        sr_report_text(r, "drag_coefficient", "drag coefficient CD0", buf);
+    }
+    if (cp->count > 1) {
+        snprintf(buf, sizeof buf, "%d canopies, drag factor %.2f each", cp->count, cp->cluster_factor);
+        sr_report_text(r, "cluster", "cluster", buf);
+    }
+}
+
+void sr_cli_report_atmos(sr_report *r, const sr_atmos *m)
+{
+    char buf[512];
+    sr_atmos_describe(m, buf, sizeof buf);
+    sr_report_text(r, "atmosphere", "atmosphere", buf);
+}
+
+int sr_cli_emit(sr_cli *c, const sr_report *r)
+{
+    char *buf = NULL;
+    size_t len = 0;
+    FILE *mem = open_memstream(&buf, &len);
+    if (!mem)
+        return sr_cli_fail(c, "out of memory");
+    sr_error e;
+    static const sr_report_format F[] = {SR_REPORT_TEXT, SR_REPORT_CSV, SR_REPORT_JSON};
+    int rc = sr_report_write(r, mem, F[c->format], c->units, &e);
+    fclose(mem);
+    if (rc) {
+        free(buf);
+        return sr_cli_fail(c, "%s", e.msg);
+    }
+    if (c->output) {
+        rc = sr_file_write_atomic(c->output, buf, len, &e);
+        free(buf);
+        if (rc)
+            return sr_cli_fail(c, "-o: %s", e.msg);
+        return 0;
+    }
+    fwrite(buf, 1, len, c->out);
+    free(buf);
+    return 0;
+}

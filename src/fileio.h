@@ -1,0 +1,15 @@
+/* fileio.h - writing files atomically: a temporary file in the same
+ * directory, then rename, so a failed run never leaves half a file. */
+#ifndef SR_FILEIO_H
+#define SR_FILEIO_H
+
+#include <stddef.h>
+
+#include "error.h"
+
+int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err);
+
+/* Read a whole file (at most max bytes) into a malloc'd NUL-terminated buffer. */
+int sr_file_read(const char *path, size_t max, char **data, size_t *len, sr_error *err);
+
+#endif
