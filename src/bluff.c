@@ -586,14 +586,14 @@ int sr_bluff_equilibria_find(const sr_bluff_body *b, const sr_air *air, sr_bluff
     double f0 = force_balance(grid[0] * vscale, &p), fn = force_balance(grid[n - 1] * vscale, &p);
     if (!(f0 < 0)) {
         free(grid);
-        return sr_error_set(err, SR_EDOMAIN,
+        return sr_error_set(err, SR_EIMPOSSIBLE,
                             "drag exceeds the weight already at Re %g (%.3g m/s): the body is too light for "
                             "these drag curves",
                             RE_SCAN_LO, RE_SCAN_LO * vscale);
     }
     if (!(fn > 0)) {
         free(grid);
-        return sr_error_set(err, SR_EDOMAIN,
+        return sr_error_set(err, SR_EIMPOSSIBLE,
                             "drag stays below the weight up to Re %g (%.3g m/s): no equilibrium speed", RE_SCAN_HI,
                             RE_SCAN_HI * vscale);
     }
