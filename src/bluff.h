@@ -70,7 +70,9 @@ typedef struct sr_bluff_curve {
     double *lnre, *lncd;
     gsl_interp *interp;
     sr_bluff_interp kind;
-    char path[256];           /* user table: file name, `source` points here */
+    char path[256];           /* user table: file name */
+    char info[512];           /* user table: file name and the source it names; `source` points here */
+    double table_area;        /* user table: reference area the file states, m2 (0: none) */
 } sr_bluff_curve;
 
 /* Built-in curve by id (not SR_CURVE_TABLE). */
@@ -80,8 +82,12 @@ int sr_bluff_curve_init(sr_bluff_curve *c, sr_bluff_curve_id id, sr_error *err);
  * (3 for Steffen). */
 int sr_bluff_curve_table(sr_bluff_curve *c, const double *re, const double *cd, size_t n,
                          sr_bluff_interp kind, const char *name, sr_error *err);
-/* User curve from CSV with the columns "Re" and "Cd" (no units). Errors name
- * file:line:column. */
+/* User curve from a file, errors at file:line:column. CSV: the columns "Re"
+ * and "Cd" (no units). YAML (.yaml, .yml): the keys
+ *   name: "..."                optional description
+ *   source: "..."              optional: where the numbers come from
+ *   reference-area: "0.02 m2"  optional: the area the Cd values are based on
+ *   points: [[Re, Cd], ...]    required, Re increasing */
 int sr_bluff_curve_load(sr_bluff_curve *c, const char *path, sr_bluff_interp kind, sr_error *err);
 void sr_bluff_curve_free(sr_bluff_curve *c);
 
@@ -114,8 +120,9 @@ typedef struct sr_bluff_body {
 } sr_bluff_body;
 
 /* Sphere and disk: area pi d^2/4. Cylinder: length > 0 required, area d L
- * (projected). Table: area pi d^2/4 unless `area` > 0 is given (NaN or 0:
- * default). The curve must belong to the shape (a table body takes any). */
+ * (projected). Table: `area` when > 0, else the area the table file states,
+ * else pi d^2/4 (NaN or 0: not given). The curve must belong to the shape (a
+ * table body takes any). */
 int sr_bluff_body_init(sr_bluff_body *b, sr_bluff_shape shape, const sr_bluff_curve *curve, double d,
                        double length, double mass, double area, sr_error *err);
 

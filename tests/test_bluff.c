@@ -378,6 +378,49 @@ static void test_bad_tables(void **state)
     assert_non_null(strstr(e.msg, "sphere-morrison"));
 }
 
+static const bad_table BAD_YAML[] = {
+    {"points:\n  - [100, 1.0]\n  - [100, 0.9]\n", SR_BLUFF_LOGLOG, {":3:5:", "does not increase"}},
+    {"points:\n  - [100, 1.0]\n  - [1000, -0.5]\n", SR_BLUFF_LOGLOG, {":3:5:", "drag coefficient -0.5 must be positive"}},
+    {"points:\n  - [100, 1.0]\n", SR_BLUFF_LOGLOG, {"at least 2 rows", "has 1"}},
+    {"points:\n  - [100, 1.0, 3]\n  - [1000, 0.5]\n", SR_BLUFF_LOGLOG, {":2:5:", "pair [Re, Cd]"}},
+    {"points: []\n", SR_BLUFF_LOGLOG, {":1:9:", "points must have"}},
+    {"pointz:\n  - [100, 1.0]\n", SR_BLUFF_LOGLOG, {":1:1:", "pointz"}},
+    {"reference-area: 0.02\npoints:\n  - [100, 1]\n  - [200, 1]\n", SR_BLUFF_LOGLOG, {":1:17:", "m2"}},
+    {"points:\n  - [100, abc]\n  - [200, 1]\n", SR_BLUFF_LOGLOG, {":2:11:", ""}},
+};
+
+static void test_yaml_tables(void **state)
+{
+    (void)state;
+    sr_error e = {0};
+    const char *path = sr_test_tmpfile(".yaml", "# invented demo body\nname: \"demo cone\"\nsource: \"invented\"\n"
+                                                 "reference-area: \"120 cm2\"\npoints:\n  - [1.0e3, 1.0]\n"
+                                                 "  - [1.0e4, 1.2]\n  - [1.0e5, 0.4]\n");
+    assert_non_null(path);
+    sr_bluff_curve c;
+    if (sr_bluff_curve_load(&c, path, SR_BLUFF_STEFFEN, &e) != SR_OK)
+        fail_msg("%s", e.msg);
+    assert_int_equal(c.n, 3);
+    assert_non_null(strstr(c.source, "demo cone; invented"));
+    CHECK_REL("YAML drag table reference area 120 cm2", "NIST SP 811 (2008): 1 cm2 = 1e-4 m2 exactly", 0.012,
+              c.table_area, 1e-12);
+    sr_bluff_body b;
+    assert_int_equal(sr_bluff_body_init(&b, SR_BLUFF_TABLE, &c, 0.1, 0, 1, NAN, &e), SR_OK);
+    assert_true(b.area == c.table_area);
+    assert_int_equal(sr_bluff_body_init(&b, SR_BLUFF_TABLE, &c, 0.1, 0, 1, 0.5, &e), SR_OK);
+    assert_true(b.area == 0.5);
+    sr_bluff_curve_free(&c);
+    remove(path);
+    for (size_t i = 0; i < sizeof BAD_YAML / sizeof BAD_YAML[0]; i++) {
+        path = sr_test_tmpfile(".yaml", BAD_YAML[i].text);
+        int rc = sr_bluff_curve_load(&c, path, BAD_YAML[i].kind, &e);
+        if (rc == SR_OK || !strstr(e.msg, BAD_YAML[i].expect[0]) || !strstr(e.msg, BAD_YAML[i].expect[1]) ||
+            !strstr(e.msg, path))
+            fail_msg("bad YAML table %zu: rc %d, message '%s'", i, rc, e.msg);
+        remove(path);
+    }
+}
+
 static void test_body_init(void **state)
 {
     (void)state;
@@ -719,6 +762,7 @@ int main(void)
         cmocka_unit_test(test_disk),
         cmocka_unit_test(test_table_interpolation),
         cmocka_unit_test(test_bad_tables),
+        cmocka_unit_test(test_yaml_tables),
         cmocka_unit_test(test_body_init),
         cmocka_unit_test(test_stokes_and_newton),
         cmocka_unit_test(test_root_equals_fixed_point),

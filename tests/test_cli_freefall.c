@@ -114,6 +114,37 @@ static void test_person(void **state)
     remove(path);
 }
 
+static void test_yaml_table(void **state)
+{
+    (void)state;
+    /* the same person model as a YAML drag table that states its area */
+    const char *path = sr_test_tmpfile(".yaml", "name: \"belly-down person\"\nsource: \"test_bluff.c body model\"\n"
+                                                 "reference-area: \"0.56 m2\"\npoints:\n  - [1.0e4, 0.73]\n"
+                                                 "  - [1.0e7, 0.73]\n");
+    char *out, *err;
+    char *a[] = {"freefall", "--cd-table", (char *)path, "--diameter", "0.32 m", "--mass", "80 kg", "--format", "json",
+                 NULL};
+    assert_int_equal(run(&out, &err, a), 0);
+    assert_non_null(strstr(out, "reference area stated in the table file"));
+    assert_non_null(strstr(out, "belly-down person; test_bluff.c body model"));
+    double v[4];
+    int ns;
+    assert_int_equal(json_speeds(out, v, 4, &ns), 1);
+    CHECK_REL("freefall, YAML table: belly-down person at sea level, m/s", "common practice: about 200 km/h belly down",
+              200.0 / 3.6, v[0], 0.15);
+    free(out);
+    free(err);
+    remove(path);
+    /* a bad point is reported at its line and column, exit 2 */
+    path = sr_test_tmpfile(".yaml", "points:\n  - [1.0e4, 0.73]\n  - [1.0e3, 0.73]\n");
+    char *b[] = {"freefall", "--cd-table", (char *)path, "--diameter", "0.32 m", "--mass", "80 kg", NULL};
+    assert_int_equal(run(&out, &err, b), 2);
+    assert_non_null(strstr(err, ":3:5: Reynolds number 1000 does not increase"));
+    free(out);
+    free(err);
+    remove(path);
+}
+
 static void test_units_and_csv(void **state)
 {
     (void)state;
@@ -226,7 +257,7 @@ typedef struct bad_case {
 static const bad_case BAD[] = {
     {"Re,Cd\n100,1.0\n100,0.9\n", {"--diameter", "0.1", "--mass", "1"}, 2, ":3:1: Reynolds number 100 does not increase"},
     {"Re,Cd\n100,1.0\n1000,-0.5\n", {"--diameter", "0.1", "--mass", "1"}, 2, ":3:1: drag coefficient -0.5 must be positive"},
-    {"Re,Cd\n100,1.0\n", {"--diameter", "0.1", "--mass", "1"}, 2, "at least 2 rows"},
+    {"Re,Cd\n100,1.0\n", {"--diameter", "0.1", "--mass", "1"}, 2, "at least 2 rows, this one has 1"},
     {"Re,Cd\n100,1.0\n200,1.0\n", {"--diameter", "0.1", "--mass", "1", "--interp", "steffen"}, 2, "at least 3 rows"},
     {"Re,Cd\n100,1.0\n200,1.0\n", {"--diameter", "0.1", "--mass", "1", "--interp", "cubic"}, 2, "--interp"},
     {NULL, {"--body", "sphere", "--mass", "1"}, 2, "--diameter"},
@@ -293,7 +324,7 @@ static void test_help(void **state)
 int main(void)
 {
     const struct CMUnitTest tests[] = {
-        cmocka_unit_test(test_three_equilibria), cmocka_unit_test(test_person), cmocka_unit_test(test_units_and_csv),
+        cmocka_unit_test(test_three_equilibria), cmocka_unit_test(test_person), cmocka_unit_test(test_yaml_table), cmocka_unit_test(test_units_and_csv),
         cmocka_unit_test(test_trace),            cmocka_unit_test(test_plot),   cmocka_unit_test(test_bad_input),
         cmocka_unit_test(test_help),
     };
