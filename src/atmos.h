@@ -49,6 +49,7 @@ typedef struct sr_atmos {
     double site_z;    /* site elevation (m), 0 when not a site model */
     double site_T;    /* measured surface temperature, K (site) */
     double site_p;    /* surface pressure, Pa (site) */
+    double pb[7];     /* site: layer base pressures of the offset model, Pa */
     /* sounding */
     size_t n;
     double *sz, *sT, *slnp; /* altitude (m), temperature (K), ln pressure */
