@@ -66,7 +66,8 @@ static const char HELP[] =
     "  --mission FILE           mass, site and stages from a mission file: the first stage\n"
     "                           deploys at the start state, later ones at the previous\n"
     "                           stage's steady descent rate, straight down\n"
-    "  --stage NAME             only this stage of the mission\n"
+    "  --stage NAME             only this stage of the mission (then --speed and --path-angle\n"
+    "                           may replace its deployment state)\n"
     "  --plot PREFIX            force vs time from the ODE with the closed-form peaks marked:\n"
     "                           PREFIX.dat, PREFIX.gp and, with gnuplot, PREFIX.png (or .svg)\n"
     "  --plot-format png|svg    figure format (default png)\n\n";
@@ -713,6 +714,18 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
             goto out;
         }
         d->z = ground;
+        if (mis) {
+            /* the stage's own deployment height, when the file fixes one */
+            for (size_t k = 0; k < mis->nstages; k++) {
+                const sr_stage *st = &mis->stages[k];
+                if (strcmp(st->name, o.stage) != 0)
+                    continue;
+                if (st->deploy == SR_DEPLOY_ALTITUDE)
+                    d->z = mis->ground + st->deploy_value;
+                else if (st->deploy == SR_DEPLOY_APOGEE && mis->has_start)
+                    d->z = mis->ground + mis->start_height;
+            }
+        }
         if (o.altitude && (rc = sr_cli_quantity(c, "--altitude", o.altitude, SR_Q_LENGTH, 0, &d->z)))
             goto out;
         if (sr_atmos_at(&atm, d->z, &d->air, &e) != SR_OK) {
