@@ -7,6 +7,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "opening.h"
 #include "profile_int.h"
 
 #define PI 3.14159265358979323846
@@ -408,6 +409,38 @@ static int is_steady(const run *R, const body *b)
     return sqrt(lx * lx + ly * ly + dz * dz) <= tol * vt;
 }
 
+/* The opening load at line stretch (opening.h); left NaN when the module has
+ * no answer, e.g. a canopy that opens from rest. */
+static void opening_load(run *R, const body *b, size_t k, double V, double ue, double un)
+{
+    const stage_c *st = &R->c->st[k];
+    sr_profile_stage *s = &R->r->stage[k];
+    sr_opening_input in;
+    sr_opening_input_init(&in);
+    double rho, a, g;
+    ctx_air(R->c, b->y[2], &rho, &a, &g);
+    in.cds0 = R->cds[k] / st->count;
+    in.d0 = st->d0;
+    in.mass = b->mass;
+    in.v1 = V;
+    in.rho = rho;
+    in.a = a;
+    in.n_fill = st->fill_n;
+    in.cx = st->cx;
+    in.count = st->count;
+    in.path_angle = atan2(-b->y[5], hypot(ue, un));
+    in.g = g;
+    in.exponent = st->growth;
+    in.mach_envelope = st->mach_max;
+    sr_opening_result out;
+    sr_error e;
+    if (!(V > 0.1) || sr_opening_solve(&in, &out, &e) != SR_OK)
+        return;
+    s->opening_force = out.f_high;
+    s->opening_force_low = out.f_low;
+    s->opening_decel = out.decel_g_max;
+}
+
 /* Line stretch of canopies whose time has come: fix their filling time. */
 static void line_stretch(run *R, body *b)
 {
@@ -426,6 +459,7 @@ static void line_stretch(run *R, body *b)
         s->t_fill = R->t_f[k];
         if (st->line_stretch > 0.0)
             add_event(R, SR_EVENT_LINE_STRETCH, (int)k, b);
+        opening_load(R, b, k, V, ue, un);
     }
 }
 
@@ -930,7 +964,7 @@ int profile_run(const sr_profile_ctx *c, const sr_profile_perturb *p, sr_profile
         s->t_deploy = s->h_deploy = s->speed_deploy = s->q_deploy = s->mach_deploy = s->rho_deploy = NAN;
         s->t_line = s->speed_line = s->t_fill = s->t_full = s->h_full = s->t_steady = s->h_steady = NAN;
         s->t_end = s->h_end = s->rate_top = s->rate_bottom = s->cds = s->mass = NAN;
-        s->opening_force = s->opening_decel = NAN;
+        s->opening_force = s->opening_force_low = s->opening_decel = NAN;
     }
     /* the start: airspeed along the heading and path angle, carried by the wind */
     body *b = &R.b[0];

@@ -104,10 +104,12 @@ typedef struct sr_profile_stage {
     double rate_top, rate_bottom; /* steady descent rate with this stage open at h_deploy and h_end, m/s */
     double cds;             /* drag area of the body with this stage fully open, m2 */
     double mass;            /* mass of the body under it, kg */
-    /* Opening load at this deployment: filled when the opening-load module is
-     * linked in (full mode); NaN otherwise. */
-    double opening_force;   /* N */
-    double opening_decel;   /* peak deceleration, standard g */
+    /* Opening load at line stretch by the opening module's three methods
+     * (opening-load factor, Pflanz, inflation ODE): full mode only, NaN in the
+     * fast mode or when it has no answer (a release at rest). */
+    double opening_force;   /* highest of the three, N */
+    double opening_force_low; /* lowest of the three, N */
+    double opening_decel;   /* highest peak deceleration, standard g */
     int warn_q;             /* dynamic pressure at deployment above the limit or the warning level */
     int warn_mach;          /* Mach at deployment above the family's application limit */
 } sr_profile_stage;

@@ -402,6 +402,8 @@ static int copy_mission(sr_profile_ctx *c, const sr_mission *m, sr_error *err)
          * memory, canopy-handbook.md section 4.2) */
         t->growth = strcmp(s->canopy.fam.cls, SR_CANOPY_CLASS_SLOTTED) == 0 ? 1.0 : 2.0;
         t->mach_max = s->canopy.fam.mach_max;
+        t->cx = s->canopy.fam.cx.typ;
+        t->count = s->canopy.count;
         t->fabric = s->canopy.areal_mass > 0.0 ? s->canopy.count * s->canopy.areal_mass * s->canopy.s0.typ : 0.0;
         t->fabric_owner = 0;
         while (t->fabric_owner < (int)NSEC - 1 && !((s->carries >> t->fabric_owner) & 1u))

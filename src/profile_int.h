@@ -23,6 +23,8 @@ typedef struct stage_c {
     double fill_n;       /* filling constant */
     double growth;       /* exponent of drag-area growth during filling */
     double mach_max;
+    double cx;           /* opening-load factor, typical */
+    int count;           /* canopies in the cluster */
     double fabric;       /* canopy mass, kg (0 without an areal mass) */
     int fabric_owner;    /* section the packed canopy travels with */
     sr_deploy_kind kind;

@@ -275,13 +275,16 @@ static void report_stages(sr_report *r, const sr_mission *m, const sr_profile_re
     sr_rtable_column(t, "rate_top", "rate at top", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_bottom", "at bottom", SR_Q_SPEED, 3);
     sr_rtable_column(t, "time_in_stage", "time in stage", SR_Q_TIME, SR_FIXED(1));
-    sr_rtable_column(t, "opening_load", "opening load", SR_Q_FORCE, 3);
+    sr_rtable_column(t, "opening_load_low", "opening load low", SR_Q_FORCE, 3);
+    sr_rtable_column(t, "opening_load_high", "high", SR_Q_FORCE, 3);
+    sr_rtable_column(t, "opening_decel", "peak decel [g]", SR_Q_NONE, 3);
     for (size_t k = 0; k < m->nstages; k++) {
         const sr_profile_stage *s = &p->stage[k];
         double row[] = {s->h_deploy,  s->speed_deploy, s->q_deploy,    s->mach_deploy,
                         s->deployed ? s->t_fill : NAN,
                         s->deployed ? s->rate_top : NAN, s->deployed ? s->rate_bottom : NAN,
-                        s->deployed ? s->t_end - s->t_deploy : NAN, s->opening_force};
+                        s->deployed ? s->t_end - s->t_deploy : NAN, s->opening_force_low, s->opening_force,
+                        s->opening_decel};
         char name[96];
         snprintf(name, sizeof name, "%s%s", m->stages[k].name,
                  !s->deployed ? (isnan(s->t_deploy) ? " (not reached)" : " (fails)") : "");
@@ -468,8 +471,10 @@ static void report_notes(sr_report *r, int fast)
     sr_report_note(r, "Canopies already open stay on the line and keep their drag unless the stage says "
                       "'previous: release'. The start airspeed is relative to the moving air. Landing energy "
                       "uses the descent rate, as landing-energy limits usually do.");
-    sr_report_note(r, "Opening loads at each deployment: `sinkrate loads` (shown here once that module is "
-                      "linked in).");
+    sr_report_note(r, "Opening load: lowest and highest of the opening-load-factor, Pflanz and inflation-ODE "
+                      "estimates at the airspeed, density and path angle of line stretch, typical drag, with the "
+                      "mass of the sections under the canopy; `sinkrate loads --mission FILE` shows the methods "
+                      "in detail.");
     if (fast)
         sr_report_note(r, "Fast mode: steady stages from the precomputed tables, transients from the nominal ODE "
                           "solution; no transient events are listed.");
