@@ -11,7 +11,10 @@
 
 #include "atmos.h"
 #include "bluff.h"
+#include "catalog.h"
+#include "mission.h"
 #include "opening.h"
+#include "profile.h"
 
 static double now(void)
 {
@@ -115,6 +118,76 @@ static double per_call_equilibria(const sr_bluff_body *b, const sr_air *air, siz
     return best;
 }
 
+/* The staged descent of the demo mission: context build, one full profile
+ * (ODE transients, quadrature stages, opening loads), one fast profile, and
+ * perturbed fast samples; best of 5 runs each. */
+static void bench_profile(void)
+{
+    const char *data = getenv("SINKRATE_DATA");
+    char dir[1024], path[1024];
+    snprintf(dir, sizeof dir, "%s/canopies", data ? data : ".");
+    snprintf(path, sizeof path, "%s/payloads/desert-club-rocket.yaml", data ? data : ".");
+    sr_catalog *cat = malloc(sizeof *cat);
+    sr_mission *m = calloc(1, sizeof *m);
+    sr_error e;
+    if (!cat || !m || sr_catalog_open(cat, dir, &e) || sr_mission_load(m, path, cat, &e)) {
+        printf("staged descent: cannot load the demo mission (%s)\n\n", cat && m ? e.msg : "out of memory");
+        free(cat);
+        free(m);
+        return;
+    }
+    sr_profile_ctx *ctx = NULL;
+    sr_profile_work *w = NULL;
+    double best_ctx = 1e9;
+    for (int rep = 0; rep < 5; rep++) {
+        double t0 = now();
+        sr_profile_ctx_free(ctx);
+        if (sr_profile_ctx_new(&ctx, m, NULL, &e)) {
+            printf("staged descent: %s\n\n", e.msg);
+            return;
+        }
+        best_ctx = fmin(best_ctx, now() - t0);
+    }
+    sr_profile_work_new(&w, &e);
+    sr_profile_result r;
+    double best[3] = {1e9, 1e9, 1e9};
+    size_t reps[3] = {400, 200000, 200000};
+    for (int mode = 0; mode < 3; mode++) {
+        for (int rep = 0; rep < 5; rep++) {
+            double s = 0, t0 = now();
+            for (size_t i = 0; i < reps[mode]; i++) {
+                sr_profile_perturb p;
+                sr_profile_perturb_init(&p);
+                if (mode == 2) {
+                    /* a dispersion-like sample: every input moved */
+                    double u = (double)(i % 1000) / 1000.0;
+                    p.drag_scale[0] = 0.9 + 0.2 * u;
+                    p.drag_scale[1] = 1.1 - 0.2 * u;
+                    p.mass_scale = 0.97 + 0.06 * u;
+                    p.wind_scale = 0.7 + 0.6 * u;
+                    p.wind_turn = -0.3 + 0.6 * u;
+                    p.deploy_height[1] = -20 + 40 * u;
+                }
+                sr_profile_run(ctx, &p, mode == 0 ? SR_PROFILE_FULL : SR_PROFILE_FAST, w, &r, NULL, NULL);
+                s += r.descent_time;
+            }
+            sink = s;
+            best[mode] = fmin(best[mode], (now() - t0) / (double)reps[mode]);
+        }
+    }
+    printf("staged descent, demo mission: context   %7.1f us/build  (air and wind tables, nominal transients)\n",
+           best_ctx * 1e6);
+    printf("staged descent, full (ODE transients)   %7.1f us/profile               (goal < 1 ms)\n", best[0] * 1e6);
+    printf("staged descent, fast (quadrature only)  %7.2f us/profile               (goal < 20 us)\n", best[1] * 1e6);
+    printf("staged descent, fast, perturbed sample  %7.2f us/sample  = %.0f samples/s on one thread\n\n",
+           best[2] * 1e6, 1.0 / best[2]);
+    sr_profile_work_free(w);
+    sr_profile_ctx_free(ctx);
+    sr_mission_free(m);
+    free(m);
+    free(cat);
+}
+
 static double process_time(const char *bin, char *const argv[], int reps)
 {
     double best = 1e9;
@@ -175,6 +248,8 @@ int main(int argc, char **argv)
 
     double t_open = per_opening_solve(2000);
     printf("opening loads, one ODE solve            %7.1f us/solve                 (goal < 50 us)\n\n", t_open * 1e6);
+
+    bench_profile();
 
     char *size_argv[] = {(char *)"sinkrate", (char *)"size",   (char *)"--mass",   (char *)"5.3 kg",
                          (char *)"--speed",  (char *)"6 m/s",  (char *)"--family", (char *)"conical",

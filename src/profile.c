@@ -614,8 +614,10 @@ static int quad5(run *R, double lo, double hi, double out[5])
         quad_par qp = {R->c, i, 0};
         gsl_function F = {integrand, &qp};
         double err;
-        int st = gsl_integration_qag(&F, lo, hi, 1e-12, R->c->o.quad_tol, 256, GSL_INTEG_GAUSS21, R->w->quad, &out[i],
-                                     &err);
+        /* QAGS: its extrapolation copes with the power law's infinite slope at the ground */
+        int st = i == 0 ? gsl_integration_qag(&F, lo, hi, 1e-12, R->c->o.quad_tol, 256, GSL_INTEG_GAUSS21, R->w->quad,
+                                              &out[i], &err)
+                        : gsl_integration_qags(&F, lo, hi, 1e-12, R->c->o.quad_tol, 256, R->w->quad, &out[i], &err);
         if (qp.bad)
             return sr_error_set(R->err, SR_EDOMAIN, "the descent leaves the atmosphere model");
         if (st != GSL_SUCCESS && st != GSL_EROUND)

@@ -37,7 +37,7 @@ typedef struct sr_profile_opts {
     double steady_tol;      /* a transient ends when |v_air - v_steady| <= steady_tol * v_steady (vector
                              * difference; default 0.01). 0: integrate the ODE all the way down */
     double ode_tol;         /* relative and absolute tolerance of the ODE (default 1e-9) */
-    double quad_tol;        /* relative tolerance of the steady-stage quadrature (default 1e-10) */
+    double quad_tol;        /* relative tolerance of the steady-stage quadrature (default 1e-9) */
     double uniform_density; /* NaN (default): the mission's atmosphere; > 0: air of this density at every
                              * height (checks against closed forms) */
     unsigned failed;        /* failure case: bit i set = stage i does not deploy (all bits: no canopy) */

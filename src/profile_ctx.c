@@ -20,7 +20,7 @@ void sr_profile_opts_init(sr_profile_opts *o)
     memset(o, 0, sizeof *o);
     o->steady_tol = 0.01;
     o->ode_tol = 1e-9;
-    o->quad_tol = 1e-10;
+    o->quad_tol = 1e-9;
     o->uniform_density = NAN;
     o->failed = 0;
     o->grid_cells = 1024;

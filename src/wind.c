@@ -62,6 +62,7 @@ int sr_wind_init_constant(sr_wind *w, double speed, double from, sr_error *err)
     w->kind = SR_WIND_CONSTANT;
     w->speed = speed;
     w->from = wrap_bearing(from);
+    sr_wind_components(1.0, w->from, &w->ue, &w->un);
     return SR_OK;
 }
 
@@ -79,6 +80,7 @@ int sr_wind_init_power(sr_wind *w, double speed_ref, double from, double h_ref, 
     w->kind = SR_WIND_POWER;
     w->speed = speed_ref;
     w->from = wrap_bearing(from);
+    sr_wind_components(1.0, w->from, &w->ue, &w->un);
     w->h_ref = h_ref;
     w->alpha = alpha;
     return SR_OK;
@@ -103,6 +105,7 @@ int sr_wind_init_log(sr_wind *w, double speed_ref, double from, double h_ref, do
     w->kind = SR_WIND_LOG;
     w->speed = speed_ref;
     w->from = wrap_bearing(from);
+    sr_wind_components(1.0, w->from, &w->ue, &w->un);
     w->h_ref = h_ref;
     w->z0 = z0;
     w->d = d;
@@ -242,15 +245,18 @@ void sr_wind_at(const sr_wind *w, double h, double *east, double *north)
     double s;
     switch (w->kind) {
     case SR_WIND_CONSTANT:
-        sr_wind_components(w->speed, w->from, east, north);
+        *east = w->speed * w->ue;
+        *north = w->speed * w->un;
         return;
     case SR_WIND_POWER:
         s = h > 0.0 ? w->speed * pow(h / w->h_ref, w->alpha) : 0.0;
-        sr_wind_components(s, w->from, east, north);
+        *east = s * w->ue;
+        *north = s * w->un;
         return;
     case SR_WIND_LOG:
         s = h - w->d > w->z0 ? w->speed * log((h - w->d) / w->z0) / log((w->h_ref - w->d) / w->z0) : 0.0;
-        sr_wind_components(s, w->from, east, north);
+        *east = s * w->ue;
+        *north = s * w->un;
         return;
     case SR_WIND_TABLE: {
         if (h <= w->h[0] || w->n == 1) {

@@ -32,6 +32,7 @@ typedef struct sr_wind {
     sr_wind_kind kind;
     double speed;     /* constant: the speed; power/log: the speed at h_ref, m/s */
     double from;      /* direction it blows from, rad clockwise from north */
+    double ue, un;    /* unit vector of the air's motion for `from` (set by the init calls) */
     double h_ref;     /* power/log: reference height above ground, m */
     double alpha;     /* power law exponent */
     double z0;        /* log law: roughness length, m */
