@@ -10,6 +10,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
 #include "atmos.h"
 #include "catalog.h"
@@ -506,6 +507,42 @@ static void test_cli(void **state)
     free(err);
 }
 
+static void test_plot(void **state)
+{
+    (void)state;
+    char prefix[] = "/tmp/sinkrate-test-plot-XXXXXX";
+    int fd = mkstemp(prefix);
+    assert_true(fd >= 0);
+    close(fd);
+    unlink(prefix);
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "profile", "--plot", prefix, "--units", "us",
+                         sr_test_path("payloads/desert-club-rocket.yaml"), NULL);
+    assert_int_equal(rc, 0);
+    free(out);
+    free(err);
+    const char *ext[] = {".dat", ".gp"};
+    for (int i = 0; i < 2; i++) {
+        char path[256];
+        snprintf(path, sizeof path, "%s%s", prefix, ext[i]);
+        FILE *f = fopen(path, "r");
+        assert_non_null(f);
+        char buf[8192];
+        size_t n = fread(buf, 1, sizeof buf - 1, f);
+        buf[n] = '\0';
+        fclose(f);
+        assert_non_null(strstr(buf, "CAUTION"));
+        if (i == 0)
+            assert_non_null(strstr(buf, "height [ft]"));
+        unlink(path);
+    }
+    char png[256];
+    snprintf(png, sizeof png, "%s.png", prefix);
+    if (access("/usr/bin/gnuplot", X_OK) == 0)
+        assert_int_equal(access(png, R_OK), 0);
+    unlink(png);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -513,7 +550,7 @@ int main(void)
         cmocka_unit_test(test_lag_closed_forms),       cmocka_unit_test(test_landing_energy_table),
         cmocka_unit_test(test_energy_per_section),     cmocka_unit_test(test_separation),
         cmocka_unit_test(test_fast_bound),             cmocka_unit_test(test_threads),
-        cmocka_unit_test(test_cli),
+        cmocka_unit_test(test_cli),                    cmocka_unit_test(test_plot),
     };
     return cmocka_run_group_tests_name("profile", tests, setup, teardown);
 }

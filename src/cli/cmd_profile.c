@@ -7,6 +7,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/profile_plot.h"
 #include "mission.h"
 #include "profile.h"
 
@@ -615,10 +616,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     report_notes(r, o.fast);
     if ((rc = sr_cli_emit(c, r)))
         goto out;
-    if (c->plot_prefix) {
-        rc = sr_cli_fail(c, "--plot: not available in this build yet");
+    if (c->plot_prefix && (rc = sr_profile_plot(c, m, ctx, &R->typ, &track)))
         goto out;
-    }
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
     free(pts);
