@@ -339,7 +339,7 @@ static void report_touchdown(sr_report *r, const sr_mission *m, const runs *R)
 {
     const sr_profile_result *p = &R->typ;
     sr_rtable *t = sr_report_table(r, "touchdown",
-                                   "Touchdown (band: every canopy at the high / typical / low end of its drag range)");
+                                   "Touchdown (rates over the canopies' drag-coefficient range)");
     sr_rtable_text_column(t, "body", "sections");
     sr_rtable_column(t, "time", "time", SR_Q_TIME, SR_FIXED(1));
     sr_rtable_column(t, "rate_low", "rate low", SR_Q_SPEED, 3);
@@ -506,10 +506,10 @@ static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, 
 static void report_notes(sr_report *r, int fast)
 {
     sr_report_note(r, "Steady stages: quadrature (GSL QAG) of dt = dh/v(h) and of the drift w(h)/v(h) dh, with "
-                      "v = sqrt(2 m g / (rho CdS)) in the mission's air. After each deployment the motion is "
-                      "integrated (GSL rk8pd) with the drag area growing as (t/t_f)^n over the filling time "
-                      "t_f = n_fill D0 / v (n = 2 solid cloth, 1 slotted; Knacke 1991, from memory) until the "
-                      "airspeed is within 1%% of the steady one.");
+                      "v = sqrt(2 m g / (rho CdS)) in the mission's air, plus the lag (v/g) dw of a body falling "
+                      "through wind shear. After each deployment the motion is integrated (GSL rk8pd) with the drag "
+                      "area growing as (t/t_f)^n over the filling time t_f = n_fill D0 / v (n = 2 solid cloth, 1 "
+                      "slotted; Knacke 1991, from memory) until the airspeed is within 1%% of the steady one.");
     sr_report_note(r, "Canopies already open stay on the line and keep their drag unless the stage says "
                       "'previous: release'. The start airspeed is relative to the moving air. Landing energy "
                       "uses the descent rate, as landing-energy limits usually do.");
@@ -599,15 +599,15 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         goto out;
     }
     report_inputs(r, c, m, po.failed);
-    sr_report_section(r, "Result (low / typical / high: every canopy at the high / typical / low drag)");
-    sr_report_band(r, "descent_time", "descent time (last touchdown)", R->hi.descent_time, R->typ.descent_time,
-                   R->lo.descent_time, SR_Q_TIME, SR_FIXED(1));
+    sr_report_section(r, "Result (low / typical / high over the canopies' drag-coefficient range)");
+    sr_report_band(r, "descent_time", "descent time (last touchdown)", fmin(R->lo.descent_time, R->hi.descent_time),
+                   R->typ.descent_time, fmax(R->lo.descent_time, R->hi.descent_time), SR_Q_TIME, SR_FIXED(1));
     sr_report_band(r, "touchdown_rate", "highest touchdown descent rate", R->hi.max_rate, R->typ.max_rate,
                    R->lo.max_rate, SR_Q_SPEED, 3);
     sr_report_band(r, "landing_energy", "highest section landing energy", R->hi.max_energy, R->typ.max_energy,
                    R->lo.max_energy, SR_Q_ENERGY, 3);
-    sr_report_band(r, "drift", "farthest landing point from launch", R->lo.max_drift, R->typ.max_drift,
-                   R->hi.max_drift, SR_Q_LENGTH, SR_FIXED(0));
+    sr_report_band(r, "drift", "farthest landing point from launch", fmin(R->lo.max_drift, R->hi.max_drift),
+                   R->typ.max_drift, fmax(R->lo.max_drift, R->hi.max_drift), SR_Q_LENGTH, SR_FIXED(0));
     report_timeline(r, m, &R->typ);
     report_stages(r, m, &R->typ);
     report_touchdown(r, m, R);
