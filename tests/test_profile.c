@@ -464,7 +464,17 @@ static void test_cli(void **state)
 {
     (void)state;
     char *out, *err;
+    /* the demo as first drawn comes down too slowly and drifts too far: exit 1, one line per limit */
     int rc = sr_test_cli(&out, &err, "profile", sr_test_path("payloads/desert-club-rocket.yaml"), NULL);
+    assert_int_equal(rc, 1);
+    assert_non_null(strstr(err, "limit exceeded: descent time"));
+    assert_non_null(strstr(err, "limit exceeded: drift"));
+    assert_int_equal(sr_test_lines(err), 2);
+    assert_non_null(strstr(out, "EXCEEDED"));
+    free(out);
+    free(err);
+    /* the revised design meets them */
+    rc = sr_test_cli(&out, &err, "profile", sr_test_path("payloads/desert-club-rocket-revised.yaml"), NULL);
     assert_int_equal(rc, 0);
     assert_non_null(strstr(out, "CAUTION"));
     assert_non_null(strstr(out, "Event timeline"));
@@ -472,7 +482,8 @@ static void test_cli(void **state)
     assert_non_null(strstr(out, "Limits"));
     free(out);
     free(err);
-    rc = sr_test_cli(&out, &err, "profile", "--format", "json", sr_test_path("payloads/desert-club-rocket.yaml"), NULL);
+    rc = sr_test_cli(&out, &err, "profile", "--format", "json", sr_test_path("payloads/desert-club-rocket-revised.yaml"),
+                     NULL);
     assert_int_equal(rc, 0);
     assert_non_null(strstr(out, "\"caution\""));
     assert_non_null(strstr(out, "\"timeline\""));
@@ -517,7 +528,7 @@ static void test_plot(void **state)
     unlink(prefix);
     char *out, *err;
     int rc = sr_test_cli(&out, &err, "profile", "--plot", prefix, "--units", "us",
-                         sr_test_path("payloads/desert-club-rocket.yaml"), NULL);
+                         sr_test_path("payloads/desert-club-rocket-revised.yaml"), NULL);
     assert_int_equal(rc, 0);
     free(out);
     free(err);
