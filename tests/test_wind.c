@@ -4,6 +4,7 @@
 #include "testutil.h"
 
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -78,8 +79,11 @@ static void test_direction_convention(void **state)
         assert_int_equal(sr_wind_init_constant(&w, 10.0, DIRS[i].from_deg * DEG, &e), SR_OK);
         double east, north;
         sr_wind_at(&w, 1234.0, &east, &north);
-        CHECK_ABS("east component of a 10 m/s wind", SRC_MET, 10 * DIRS[i].east, east, 1e-6);
-        CHECK_ABS("north component of a 10 m/s wind", SRC_MET, 10 * DIRS[i].north, north, 1e-6);
+        char what[96];
+        snprintf(what, sizeof what, "east component of 10 m/s from %.0f deg", DIRS[i].from_deg);
+        CHECK_ABS(what, SRC_MET, 10 * DIRS[i].east, east, 1e-6);
+        snprintf(what, sizeof what, "north component of 10 m/s from %.0f deg", DIRS[i].from_deg);
+        CHECK_ABS(what, SRC_MET, 10 * DIRS[i].north, north, 1e-6);
         double s, from;
         sr_wind_polar(east, north, &s, &from);
         assert_true(fabs(s - 10.0) < 1e-12);
