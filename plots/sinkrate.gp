@@ -61,6 +61,8 @@ set style line 100 lc rgb '#a3262a' lw 1.5 dt (10,5)
 set style line 101 lc rgb '#6b5a3a' lw 1.3 dt (3,4)
 set style arrow 100 nohead ls 100 back
 set style arrow 101 nohead ls 101 back
+# marker labels sit on a patch of paper so lines under them do not hide them
+set style textbox opaque noborder margins 1.5,1
 
 # ---- histograms and landing ellipses ----
 set style ellipse units xy

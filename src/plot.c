@@ -43,7 +43,7 @@ typedef struct pmarker {
 
 typedef struct paxes {
     char *title, *xlabel, *ylabel;
-    int xlog, ylog, equal;
+    int xlog, ylog, equal, xtight, ytight;
     double xmin, xmax, ymin, ymax;
     sr_plot_key key;
 } paxes;
@@ -147,6 +147,8 @@ int sr_plot_set_axes(sr_plot *p, int panel, const sr_plot_axes *a)
     x->xlog = a->xlog;
     x->ylog = a->ylog;
     x->equal = a->equal;
+    x->xtight = a->xtight;
+    x->ytight = a->ytight;
     x->xmin = a->xmin;
     x->xmax = a->xmax;
     x->ymin = a->ymin;
@@ -461,8 +463,64 @@ static int kind_order(sr_plot_kind k)
     }
 }
 
+static void grow(double *lo, double *hi, double v)
+{
+    if (isfinite(v)) {
+        if (v < *lo)
+            *lo = v;
+        if (v > *hi)
+            *hi = v;
+    }
+}
+
+/* Extent of the data of a panel along one axis: the columns each series
+ * draws there. */
+static void data_extent(const sr_plot *p, int panel, char axis, double *lo, double *hi)
+{
+    *lo = INFINITY;
+    *hi = -INFINITY;
+    for (size_t i = 0; i < p->nseries; i++) {
+        const sr_plot_series *s = &p->series[i].s;
+        if (s->panel != panel)
+            continue;
+        int cols[3] = {0, 0, 0};
+        int along_x = axis == 'x';
+        switch (s->kind) {
+        case SR_PLOT_BAND:
+            cols[0] = along_x ? s->x : s->lo;
+            cols[1] = along_x ? 0 : s->hi;
+            break;
+        case SR_PLOT_BAND_X:
+            cols[0] = along_x ? s->lo : s->y;
+            cols[1] = along_x ? s->hi : 0;
+            break;
+        default:
+            cols[0] = along_x ? s->x : s->y;
+        }
+        const pblock *b = &p->blocks[s->block];
+        for (size_t r = 0; r < b->nrows; r++)
+            for (int k = 0; k < 3; k++)
+                if (cols[k])
+                    grow(lo, hi, b->v[r * b->ncols + cols[k] - 1]);
+    }
+}
+
 static void write_range(FILE *f, const sr_plot *p, int panel, char axis, double lo, double hi)
 {
+    const paxes *a = &p->axes[panel];
+    if ((axis == 'x' ? a->xtight : a->ytight) && (isnan(lo) || isnan(hi))) {
+        double dlo, dhi;
+        data_extent(p, panel, axis, &dlo, &dhi);
+        for (size_t i = 0; i < p->nmarkers; i++)
+            if (p->markers[i].panel == panel && p->markers[i].axis == axis)
+                grow(&dlo, &dhi, p->markers[i].value);
+        if (isfinite(dlo) && dhi > dlo) {
+            if (isnan(lo))
+                lo = dlo;
+            if (isnan(hi))
+                hi = dhi;
+        }
+    }
     /* autoscaled ends stretch to include every marker on this axis */
     double mlo = INFINITY, mhi = -INFINITY;
     for (size_t i = 0; i < p->nmarkers; i++)
@@ -487,6 +545,23 @@ static void write_range(FILE *f, const sr_plot *p, int panel, char axis, double 
     else
         fputc('*', f);
     fputs("]\n", f);
+}
+
+static size_t titled_series(const sr_plot *p)
+{
+    size_t n = 0;
+    for (size_t i = 0; i < p->nseries; i++)
+        if (p->series[i].title)
+            n++;
+    return n;
+}
+
+static int strip_legend(const sr_plot *p)
+{
+    for (int k = 0; k < p->panels; k++)
+        if (p->axes[k].key == SR_PLOT_KEY_ABOVE)
+            return 1;
+    return 0;
 }
 
 static void write_panel(FILE *f, const sr_plot *p, int panel)
@@ -519,8 +594,8 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
     fputs(a->equal ? "set size ratio -1\n" : "set size noratio\n", f);
     write_range(f, p, panel, 'x', a->xmin, a->xmax);
     write_range(f, p, panel, 'y', a->ymin, a->ymax);
-    static const char *KEY[] = {"top right", "top left", "top right", "bottom left", "bottom right", NULL};
-    if (a->key == SR_PLOT_KEY_NONE)
+    static const char *KEY[] = {"top right", "top left", "top right", "bottom left", "bottom right", NULL, NULL};
+    if (a->key == SR_PLOT_KEY_NONE || strip_legend(p))
         fputs("unset key\n", f);
     else
         fprintf(f, "set key on %s\n", KEY[a->key]);
@@ -546,7 +621,7 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
             if (m->label) {
                 fprintf(f, "set label %d ", tag);
                 gpq(f, m->label);
-                fprintf(f, " at first %.9g, graph 0.98 right rotate by 90 offset -0.6,0 front noenhanced textcolor "
+                fprintf(f, " at first %.9g, graph 1 left offset -0.4,0.75 front noenhanced textcolor "
                            "ls %d font sprintf('%%s,%%d', sr_font, sr_small + 1)\n",
                         m->value, st);
             }
@@ -611,6 +686,91 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
         fprintf(f, "unset arrow %d\nunset label %d\n", t, t);
 }
 
+/* The legend as a strip of columns under the titles: a sample (a line over
+ * a patch of band colour, a point or a box) and the text for every titled
+ * series. gnuplot's own key does not wrap into columns inside a narrow
+ * panel, so the strip is laid out here, in the script, from the width. */
+static void write_strip_legend(FILE *f, const sr_plot *p)
+{
+    size_t n = 0, longest = 1;
+    for (size_t i = 0; i < p->nseries; i++)
+        if (p->series[i].title) {
+            n++;
+            size_t l = strlen(p->series[i].title);
+            if (l > longest)
+                longest = l;
+        }
+    if (n == 0)
+        return;
+    fprintf(f, "\n# the legend: a strip of columns under the titles\narray sr_key_text[%zu] = [", n);
+    size_t k = 0;
+    for (size_t i = 0; i < p->nseries; i++)
+        if (p->series[i].title) {
+            fputs(k++ ? ", " : "", f);
+            gpq(f, p->series[i].title);
+        }
+    fprintf(f, "]\narray sr_key_lt[%zu] = [", n);
+    k = 0;
+    for (size_t i = 0; i < p->nseries; i++)
+        if (p->series[i].title)
+            fprintf(f, "%s%d", k++ ? ", " : "", p->series[i].s.color);
+    fprintf(f, "]\narray sr_key_dt[%zu] = [", n);
+    k = 0;
+    for (size_t i = 0; i < p->nseries; i++)
+        if (p->series[i].title)
+            fprintf(f, "%s%d", k++ ? ", " : "", p->series[i].s.dash + 1);
+    /* 0 line, 1 line over a band patch, 2 point, 3 box */
+    fprintf(f, "]\narray sr_key_kind[%zu] = [", n);
+    k = 0;
+    for (size_t i = 0; i < p->nseries; i++) {
+        const sr_plot_series *s = &p->series[i].s;
+        if (!p->series[i].title)
+            continue;
+        int kind = 0;
+        if (s->kind == SR_PLOT_POINTS)
+            kind = 2;
+        else if (s->kind == SR_PLOT_BOXES || s->kind == SR_PLOT_ELLIPSES || s->kind == SR_PLOT_BAND ||
+                 s->kind == SR_PLOT_BAND_X)
+            kind = 3;
+        else
+            for (size_t j = 0; j < p->nseries; j++) {
+                const sr_plot_series *b = &p->series[j].s;
+                if ((b->kind == SR_PLOT_BAND || b->kind == SR_PLOT_BAND_X) && b->color == s->color &&
+                    b->block == s->block)
+                    kind = 1;
+            }
+        fprintf(f, "%s%d", k++ ? ", " : "", kind);
+    }
+    fprintf(f, "]\n"
+               "sr_key_w = %zu * sr_fontsize * 0.68 + 76     # one column, px\n"
+               "sr_key_h = sr_fontsize * 1.9                 # one row, px\n"
+               "sr_key_cols = floor((width - sr_ml - sr_mr) / sr_key_w)\n"
+               "if (sr_key_cols < 1) sr_key_cols = 1\n"
+               "if (sr_key_cols > %zu) sr_key_cols = %zu\n"
+               "sr_key_top = sr_mt + 4\n"
+               "sr_mt = sr_mt + ceil(%zu.0 / sr_key_cols) * sr_key_h + 12\n",
+            longest, n, n, n);
+    fprintf(f, "do for [i = 1:%zu] {\n"
+               "    sr_x = sr_ml + ((i - 1) %% sr_key_cols) * sr_key_w\n"
+               "    sr_y = height - sr_key_top - ((i - 1) / sr_key_cols + 0.5) * sr_key_h\n"
+               "    if (sr_key_kind[i] == 1 || sr_key_kind[i] == 3) {\n"
+               "        set object 200 + i rect from screen sr_x / width, screen (sr_y - 6) / height "
+               "to screen (sr_x + 28) / width, screen (sr_y + 6) / height fc lt sr_key_lt[i] "
+               "fs transparent solid (sr_key_kind[i] == 3 ? 0.55 : sr_band_opacity) noborder\n"
+               "    }\n"
+               "    if (sr_key_kind[i] <= 1) {\n"
+               "        set arrow 200 + i from screen sr_x / width, screen sr_y / height "
+               "to screen (sr_x + 28) / width, screen sr_y / height nohead lt sr_key_lt[i] dt sr_key_dt[i]\n"
+               "    }\n"
+               "    if (sr_key_kind[i] == 2) {\n"
+               "        set label 300 + i '' at screen (sr_x + 14) / width, screen sr_y / height point lt sr_key_lt[i]\n"
+               "    }\n"
+               "    set label 200 + i sr_key_text[i] at screen (sr_x + 36) / width, screen sr_y / height left "
+               "noenhanced textcolor rgb sr_ink\n"
+               "}\n",
+            n);
+}
+
 static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const char *name, int style_ok)
 {
     fputs("# ", f);
@@ -655,7 +815,8 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
     fputs("# plain defaults; the shared style below sets the real look\n"
           "sr_font = 'Sans'; sr_fontsize = 11; sr_titlesize = 14; sr_small = 8\n"
           "sr_paper = '#ffffff'; sr_ink = '#000000'; sr_muted = '#555555'; sr_band_opacity = 0.2\n"
-          "sr_ml = 90; sr_mr = 30; sr_mt = 80; sr_mb = 100; sr_gap = 80\n",
+          "sr_ml = 90; sr_mr = 30; sr_mt = 80; sr_mb = 100; sr_gap = 80\n"
+          "set style textbox opaque noborder\n",
           f);
     if (style_ok) {
         char dir[4096];
@@ -691,12 +852,20 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
           "}\n"
           "set output outfile\n",
           f);
+    if (strip_legend(p))
+        write_strip_legend(f, p);
     int titled = 0;
     for (int k = 0; k < p->panels; k++)
         if (p->axes[k].title && p->axes[k].title[0])
             titled = 1;
     if (titled)
         fputs("sr_mt = sr_mt + 26   # room for the panel titles\n", f);
+    int vlabels = 0;
+    for (size_t i = 0; i < p->nmarkers; i++)
+        if (p->markers[i].axis == 'x' && p->markers[i].label)
+            vlabels = 1;
+    if (vlabels)
+        fputs("sr_mt = sr_mt + 18   # room for the labels of vertical marker lines, above the frame\n", f);
     fputs("sr_l = sr_ml * 1.0 / width; sr_r = 1 - sr_mr * 1.0 / width\n"
           "sr_b = sr_mb * 1.0 / height; sr_t = 1 - sr_mt * 1.0 / height\n",
           f);
@@ -716,10 +885,15 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
         fputs("set multiplot\n", f);
     for (int k = 0; k < p->panels; k++) {
         write_panel(f, p, k);
-        if (k == 0 && p->panels > 1)
-            fputs("# the title and footnote once, not on every panel\n"
+        if (k == 0 && p->panels > 1) {
+            fputs("# the title, legend and footnote once, not on every panel\n"
                   "unset label 100\nunset label 101\nunset label 102\n",
                   f);
+            if (strip_legend(p) && titled_series(p))
+                fputs("do for [i = 1:|sr_key_text|] { unset object 200 + i; unset arrow 200 + i; "
+                      "unset label 200 + i; unset label 300 + i }\n",
+                      f);
+        }
     }
     if (p->panels > 1)
         fputs("unset multiplot\n", f);

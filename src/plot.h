@@ -43,7 +43,10 @@ typedef enum sr_plot_key {
     SR_PLOT_KEY_TOP_RIGHT,
     SR_PLOT_KEY_BOTTOM_LEFT,
     SR_PLOT_KEY_BOTTOM_RIGHT,
-    SR_PLOT_KEY_NONE
+    SR_PLOT_KEY_NONE,
+    SR_PLOT_KEY_ABOVE      /* a legend strip under the titles, above all panels, laid out in
+                              columns that fit the width; never covers data. Any panel asking
+                              for it puts every titled series of the figure there. */
 } sr_plot_key;
 
 /* One panel's axes. Labels are plain text and should carry the unit
@@ -53,6 +56,7 @@ typedef struct sr_plot_axes {
     const char *xlabel, *ylabel;
     int xlog, ylog;        /* logarithmic axis */
     int equal;             /* same scale on both axes (maps, landing scatter) */
+    int xtight, ytight;    /* autoscaled ends at the data (and markers), not the next tic */
     double xmin, xmax, ymin, ymax;
     sr_plot_key key;
 } sr_plot_axes;
