@@ -205,10 +205,12 @@ static void canopy_label(char *buf, size_t len, const sr_canopy *cp, const char 
         size_label(size, sizeof size, cp, sys);
     if (cp->count > 1)
         snprintf(cl, sizeof cl, "%d x ", cp->count);
+    char out[256];
     if (stage)
-        snprintf(buf, len, "%s (%s%s%s%s)", stage, cl, cp->fam.id, size[0] ? ", " : "", size);
+        snprintf(out, sizeof out, "%s (%s%s%s%s)", stage, cl, cp->fam.id, size[0] ? ", " : "", size);
     else
-        snprintf(buf, len, "%s%s%s%s", cl, cp->fam.id, size[0] ? ", " : "", size);
+        snprintf(out, sizeof out, "%s%s%s%s", cl, cp->fam.id, size[0] ? ", " : "", size);
+    snprintf(buf, len, "%s", out);
 }
 
 static void var_value_label(char *buf, size_t len, sr_sweep_var v, double x, sr_unit_system sys)
