@@ -49,6 +49,14 @@ typedef struct sr_atmos {
     double site_z;    /* site elevation (m), 0 when not a site model */
     double site_T;    /* measured surface temperature, K (site) */
     double site_p;    /* surface pressure, Pa (site) */
+    /* ln p on nodes every SR_ATMOS_NODE_STEP m' of geopotential height, with
+     * its exact slope -g0 M0/(R* T), for cubic Hermite evaluation */
+#define SR_ATMOS_NODE_H0 (-1500.0)
+#define SR_ATMOS_NODE_STEP 500.0
+#define SR_ATMOS_NODES 174
+    double lnp[SR_ATMOS_NODES];
+    double slope[SR_ATMOS_NODES]; /* d ln p / dH times the node step */
+    signed char layer[SR_ATMOS_NODES];
     /* sounding */
     size_t n;
     double *sz, *sT, *slnp; /* altitude (m), temperature (K), ln pressure */

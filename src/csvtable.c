@@ -44,14 +44,19 @@ static size_t field_column(const parse_state *s, size_t k)
     return i + 1;
 }
 
-static void fail(parse_state *s, size_t field, const char *fmt, const char *a, const char *b)
+static void fail_at(parse_state *s, size_t column, const char *fmt, const char *a, const char *b)
 {
     if (s->failed)
         return;
     s->failed = 1;
     char msg[SR_ERROR_MSG_MAX];
     snprintf(msg, sizeof msg, fmt, a, b);
-    sr_error_set(s->err, SR_EINVAL, "%s:%zu:%zu: %s", s->name, s->line, field_column(s, field), msg);
+    sr_error_set(s->err, SR_EINVAL, "%s:%zu:%zu: %s", s->name, s->line, column, msg);
+}
+
+static void fail(parse_state *s, size_t field, const char *fmt, const char *a, const char *b)
+{
+    fail_at(s, field_column(s, field), fmt, a, b);
 }
 
 static void trim(char *c)
@@ -93,6 +98,10 @@ static void header_cell(parse_state *s, char *cell)
     }
     trim(name);
     s->map[k] = -1;
+    if (name[0] == '\0') {
+        fail(s, k, "empty column name in the header%s%s", "", "");
+        return;
+    }
     for (size_t j = 0; j < s->nspecs; j++) {
         if (strcmp(s->specs[j].name, name) == 0) {
             for (size_t i = 0; i < k; i++)
@@ -189,7 +198,9 @@ static void on_field(void *data, size_t len, void *ctx_)
         return;
     }
     if (s->field >= s->nfilecols) {
-        fail(s, s->field, "more cells than the header's %s columns%s", "", "");
+        char n[24];
+        snprintf(n, sizeof n, "%zu", s->nfilecols);
+        fail(s, s->field, "row has more cells than the header's %s columns%s", n, "");
         return;
     }
     int j = s->map[s->field];
@@ -231,7 +242,10 @@ static void on_record(int ch, void *ctx_)
         return;
     }
     if (s->field < s->nfilecols) {
-        fail(s, s->field, "row has %s cells, the header has more%s", "too few", "");
+        char have[24], want[24];
+        snprintf(have, sizeof have, "%zu", s->field);
+        snprintf(want, sizeof want, "%zu", s->nfilecols);
+        fail(s, s->field, "row has %s of the header's %s cells", have, want);
         return;
     }
     if (s->t->nrows >= SR_CSVTABLE_MAX_ROWS) {
@@ -294,19 +308,25 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
         return sr_error_set(err, SR_ENOMEM, "%s: cannot start the CSV parser", name);
     }
     size_t pos = 0;
+    /* a UTF-8 byte-order mark, as spreadsheets write it, is not part of the header */
+    if (len >= 3 && memcmp(buf, "\xEF\xBB\xBF", 3) == 0)
+        pos = 3;
     while (pos < len && !s->failed) {
+        /* a line ends at LF (also CRLF) or at a lone CR (old spreadsheet exports) */
         size_t end = pos;
-        while (end < len && buf[end] != '\n')
+        while (end < len && buf[end] != '\n' && !(buf[end] == '\r' && (end + 1 == len || buf[end + 1] != '\n')))
             end++;
         s->line++;
         s->linebuf = buf + pos;
         s->linelen = end - pos;
+        if (s->linelen > 0 && s->linebuf[s->linelen - 1] == '\r')
+            s->linelen--;
         size_t i = pos;
         while (i < end && (buf[i] == ' ' || buf[i] == '\t' || buf[i] == '\r'))
             i++;
-        if (memchr(buf + pos, '\0', end - pos)) {
-            s->field = 0;
-            fail(s, 0, "binary data (a NUL byte) in a text table%s%s", "", "");
+        const char *nul = memchr(buf + pos, '\0', end - pos);
+        if (nul) {
+            fail_at(s, (size_t)(nul - (buf + pos)) + 1, "binary data (a NUL byte) in a text table%s%s", "", "");
             break;
         }
         int skip = (i == end) || buf[i] == '#';
@@ -315,13 +335,13 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
             if (csv_parse(&p, buf + pos, chunk, on_field, on_record, c) != chunk && !s->failed) {
                 fail(s, s->field, "malformed CSV: %s%s", csv_strerror(csv_error(&p)), "");
             }
-            if (end == len && !s->failed)
-                csv_fini(&p, on_field, on_record, c);
         }
         pos = end + 1;
     }
-    if (!s->failed && pos >= len && len > 0 && buf[len - 1] == '\n')
-        csv_fini(&p, on_field, on_record, c);
+    /* the last record may lack a line end; an open quote there must not
+     * silently drop the row */
+    if (!s->failed && csv_fini(&p, on_field, on_record, c) != 0 && !s->failed)
+        fail_at(s, s->linelen + 1, "the file ends inside a quoted cell (a '\"' is not closed)%s%s", "", "");
     csv_free(&p);
     int failed = s->failed;
     if (!failed && !s->header_done) {

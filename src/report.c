@@ -399,9 +399,12 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
                     u[0] ? " " : "", u);
             break;
         }
-        case IT_TEXT:
-            fprintf(f, "  %-*s  %s\n", (int)lw, it->label, it->text);
+        case IT_TEXT: {
+            char prefix[128];
+            snprintf(prefix, sizeof prefix, "  %-*s  ", (int)lw, it->label);
+            wrap(f, prefix, it->text, lw + 4 + 40 > 78 ? lw + 4 + 40 : 78);
             break;
+        }
         }
     }
     for (size_t k = 0; k < r->ntables; k++) {

@@ -211,17 +211,30 @@ static int parse(const char *text, sr_quantity q, double *si, int need_unit, sr_
         s++;
     if (*s == '\0')
         return sr_error_set(err, SR_EINVAL, "empty %s", what);
+    const char *h = s + (*s == '+' || *s == '-');
+    if (h[0] == '0' && (h[1] == 'x' || h[1] == 'X'))
+        return sr_error_set(err, SR_EINVAL, "'%s' is a hexadecimal number; write it in decimal", text);
     size_t n = scan_decimal(s);
-    if (n == 0)
-        return sr_error_set(err, SR_EINVAL, "'%s' is not a number (expected a %s such as \"%s\")",
-                            text, what, q == SR_Q_NONE ? "2" : q == SR_Q_TEMP ? "15 C" : "1.5 m");
+    if (n == 0) {
+        if (q == SR_Q_NONE)
+            return sr_error_set(err, SR_EINVAL, "'%s' is not a number", text);
+        return sr_error_set(err, SR_EINVAL, "'%s' is not a number (%s %s is written like \"%s %s\")", text,
+                            strchr("aeiou", what[0]) ? "an" : "a", what, q == SR_Q_TEMP || q == SR_Q_TEMP_DIFF ? "15" : "1.5",
+                            q == SR_Q_TEMP || q == SR_Q_TEMP_DIFF ? "C" : DISPLAY[q].si);
+    }
     char numbuf[64];
     if (n >= sizeof numbuf)
         return sr_error_set(err, SR_EINVAL, "'%.40s...' is too long for a number", text);
     memcpy(numbuf, s, n);
     numbuf[n] = '\0';
     errno = 0;
-    double v = strtod(numbuf, NULL);
+    char *end;
+    double v = strtod(numbuf, &end);
+    /* strtod follows LC_NUMERIC: under a decimal-comma locale it would stop
+     * at the '.' and return a wrong number silently */
+    if (end != numbuf + n)
+        return sr_error_set(err, SR_EINVAL, "'%s': cannot read the number (is LC_NUMERIC set to a non-C locale?)",
+                            text);
     if (errno == ERANGE || !isfinite(v))
         return sr_error_set(err, SR_EINVAL, "'%s' is out of the range of a number", text);
     const char *u = s + n;
@@ -243,8 +256,10 @@ static int parse(const char *text, sr_quantity q, double *si, int need_unit, sr_
             return SR_OK;
         }
         if (need_unit)
-            return sr_error_set(err, SR_EINVAL, "'%s' needs a unit (a %s in %s)", text, what,
+            return sr_error_set(err, SR_EINVAL, "'%s' needs a unit (%s in %s)", text, what,
                                 DISPLAY[q].accepted);
+        if (q == SR_Q_TEMP && v < 0.0)
+            return sr_error_set(err, SR_EINVAL, "'%s' is below absolute zero (a bare temperature is in K)", text);
         /* a bare angle is degrees: see units.h */
         *si = q == SR_Q_ANGLE ? v * PI / 180.0 : v;
         return SR_OK;
@@ -258,6 +273,8 @@ static int parse(const char *text, sr_quantity q, double *si, int need_unit, sr_
     double r = (v + off) * f;
     if (!isfinite(r))
         return sr_error_set(err, SR_EINVAL, "'%s' is out of the range of a number", text);
+    if (q == SR_Q_TEMP && r < 0.0)
+        return sr_error_set(err, SR_EINVAL, "'%s' is below absolute zero", text);
     *si = r;
     return SR_OK;
 }

@@ -30,9 +30,9 @@ typedef enum sr_unit_system { SR_UNITS_SI = 0, SR_UNITS_US = 1 } sr_unit_system;
 
 /* Parse a number with an optional unit. A bare number is SI for the
  * quantity (radians excepted: a bare angle is degrees, since nobody writes
- * flight-path angles in radians; the help says so). NaN, inf, hex floats and
- * trailing junk are errors; an unknown unit is an error listing the accepted
- * ones. */
+ * flight-path angles in radians; the help says so). NaN, inf, hex floats,
+ * trailing junk and an absolute temperature below 0 K are errors; an unknown
+ * unit is an error listing the accepted ones. */
 int sr_units_parse(const char *text, sr_quantity q, double *si, sr_error *err);
 
 /* As sr_units_parse, but a unit is required (YAML files insist on one). */

@@ -148,6 +148,7 @@ static const char *scalar_of(const yaml_node_t *n)
     return n && n->type == YAML_SCALAR_NODE ? (const char *)n->data.scalar.value : NULL;
 }
 
+/* Damerau-Levenshtein (optimal string alignment) distance. */
 static size_t edit_distance(const char *a, const char *b)
 {
     size_t la = strlen(a), lb = strlen(b);
@@ -165,6 +166,9 @@ static size_t edit_distance(const char *a, const char *b)
                 c = d[i - 1][j] + 1;
             if (d[i][j - 1] + 1 < c)
                 c = d[i][j - 1] + 1;
+            /* a swapped pair of letters is one typo, not two */
+            if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1] && d[i - 2][j - 2] + 1 < c)
+                c = d[i - 2][j - 2] + 1;
             d[i][j] = c;
         }
     return d[la][lb];

@@ -107,7 +107,7 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
     optind = 0; /* GNU: full re-initialisation, so in-process calls can repeat */
     opterr = 0;
     int code;
-    while ((code = getopt_long(argc, argv, "+ho:n:", opts, NULL)) != -1) {
+    while ((code = getopt_long(argc, argv, "ho:n:", opts, NULL)) != -1) {
         switch (code) {
         case 'h':
             sr_cli_help(c, help);
@@ -510,8 +510,25 @@ void sr_cli_report_canopy(sr_report *r, const sr_canopy *cp)
 void sr_cli_report_atmos(sr_report *r, const sr_atmos *m)
 {
     char buf[512];
-    sr_atmos_describe(m, buf, sizeof buf);
-    sr_report_text(r, "atmosphere", "atmosphere", buf);
+    switch (m->kind) {
+    case SR_ATMOS_SITE:
+        /* as values, so they follow --units */
+        sr_report_text(r, "atmosphere", "atmosphere",
+                       "site model: measured surface values, 1976 standard lapse above, hydrostatic pressure");
+        sr_report_value(r, "site_elevation", "site elevation", m->site_z, SR_Q_LENGTH, SR_FIXED(0));
+        sr_report_value(r, "surface_temperature", "surface temperature", m->site_T, SR_Q_TEMP, SR_FIXED(1));
+        sr_report_value(r, "temperature_offset", "difference to standard", m->dT, SR_Q_TEMP_DIFF, 3);
+        sr_report_value(r, "surface_pressure", "surface pressure", m->site_p, SR_Q_PRESSURE, 5);
+        break;
+    case SR_ATMOS_OFFSET:
+        sr_report_text(r, "atmosphere", "atmosphere", "U.S. Standard Atmosphere 1976, offset temperature at "
+                                                      "standard pressure");
+        sr_report_value(r, "temperature_offset", "temperature offset", m->dT, SR_Q_TEMP_DIFF, 3);
+        break;
+    default:
+        sr_atmos_describe(m, buf, sizeof buf);
+        sr_report_text(r, "atmosphere", "atmosphere", buf);
+    }
 }
 
 int sr_cli_emit(sr_cli *c, const sr_report *r)

@@ -1,0 +1,193 @@
+/* bench.c - `make bench`: speed figures as ratios measured in one run.
+ * Not a test: it prints, it never fails on a number. */
+#define _DEFAULT_SOURCE
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/wait.h>
+#include <time.h>
+#include <unistd.h>
+
+#include "atmos.h"
+#include "bluff.h"
+#include "opening.h"
+
+static double now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+/* keeps the optimiser from dropping the loops */
+static volatile double sink;
+
+/* Cost per call of f over n altitudes spread across the model, best of 5 runs. */
+static double per_call_exp(size_t n)
+{
+    double best = 1e9;
+    for (int rep = 0; rep < 5; rep++) {
+        double s = 0, t0 = now();
+        for (size_t i = 0; i < n; i++)
+            s += exp(-1e-4 * (double)(i % 86000));
+        double t = (now() - t0) / (double)n;
+        sink = s;
+        if (t < best)
+            best = t;
+    }
+    return best;
+}
+
+static double per_call_atmos(const sr_atmos *m, size_t n, int density_only)
+{
+    double best = 1e9;
+    for (int rep = 0; rep < 5; rep++) {
+        double s = 0, t0 = now();
+        for (size_t i = 0; i < n; i++) {
+            double z = (double)(i % 86000);
+            if (density_only) {
+                double rho;
+                sr_atmos_density(m, z, &rho, NULL);
+                s += rho;
+            } else {
+                sr_air a;
+                sr_atmos_at(m, z, &a, NULL);
+                s += a.rho;
+            }
+        }
+        double t = (now() - t0) / (double)n;
+        sink = s;
+        if (t < best)
+            best = t;
+    }
+    return best;
+}
+
+/* One opening-load solve (all three methods; the inflation ODE dominates),
+ * a finite-mass case whose peak comes during filling, best of 5 runs. */
+static double per_opening_solve(size_t n)
+{
+    sr_opening_input in;
+    sr_opening_input_init(&in);
+    in.d0 = 1.5;
+    in.cds0 = 0.80 * 1.76714586764; /* CD0 0.80 on S0 of a 1.5 m canopy */
+    in.mass = 5;
+    in.v1 = 30;
+    in.rho = 1.225;
+    in.a = 340.294;
+    in.n_fill = 8;
+    in.cx = 1.7;
+    in.path_angle = 0;
+    double best = 1e9;
+    for (int rep = 0; rep < 5; rep++) {
+        double s = 0, t0 = now();
+        for (size_t i = 0; i < n; i++) {
+            sr_opening_result r;
+            in.mass = 5 + 1e-6 * (double)(i % 7);
+            sr_opening_solve(&in, &r, NULL);
+            s += r.ode.force;
+        }
+        double t = (now() - t0) / (double)n;
+        sink = s;
+        if (t < best)
+            best = t;
+    }
+    return best;
+}
+
+/* Cost of finding every equilibrium of a body (one altitude), best of 5. */
+static double per_call_equilibria(const sr_bluff_body *b, const sr_air *air, size_t n)
+{
+    double best = 1e9;
+    for (int rep = 0; rep < 5; rep++) {
+        double s = 0, t0 = now();
+        for (size_t i = 0; i < n; i++) {
+            sr_bluff_equilibria q;
+            sr_bluff_equilibria_find(b, air, &q, NULL);
+            s += q.root[0].v;
+        }
+        double t = (now() - t0) / (double)n;
+        sink = s;
+        if (t < best)
+            best = t;
+    }
+    return best;
+}
+
+static double process_time(const char *bin, char *const argv[], int reps)
+{
+    double best = 1e9;
+    for (int r = 0; r < reps; r++) {
+        fflush(stdout); /* or the child's freopen flushes our buffered lines a second time */
+        double t0 = now();
+        pid_t p = fork();
+        if (p == 0) {
+            if (!freopen("/dev/null", "w", stdout))
+                _exit(127);
+            execv(bin, argv);
+            _exit(127);
+        }
+        int st;
+        waitpid(p, &st, 0);
+        double t = now() - t0;
+        if (t < best)
+            best = t;
+    }
+    return best;
+}
+
+int main(int argc, char **argv)
+{
+    const char *bin = argc > 1 ? argv[1] : "build/sinkrate";
+    printf("sinkrate bench (one run; ratios are within this run)\n\n");
+
+    size_t n = 2000000;
+    double t_exp = per_call_exp(n);
+    sr_atmos std;
+    sr_atmos_init_standard(&std);
+    double t_at = per_call_atmos(&std, n, 0);
+    double t_rho = per_call_atmos(&std, n, 1);
+    sr_atmos site;
+    sr_atmos_init_site(&site, 1380.0, 311.15, 85800.0, NULL);
+    double t_site = per_call_atmos(&site, n / 4, 0);
+    printf("atmosphere (1976 standard), full state  %7.1f ns/call  = %.2fx exp()   (goal <= 3x)\n", t_at * 1e9,
+           t_at / t_exp);
+    printf("atmosphere (1976 standard), density     %7.1f ns/call  = %.2fx exp()\n", t_rho * 1e9, t_rho / t_exp);
+    printf("atmosphere (site model), full state     %7.1f ns/call  = %.2fx exp()\n", t_site * 1e9, t_site / t_exp);
+    printf("libm exp()                              %7.1f ns/call\n\n", t_exp * 1e9);
+
+    /* free fall: the whole Re scan (1e-6 .. 1e10) and Brent on each sign change */
+    sr_air air;
+    sr_atmos_at(&std, 0.0, &air, NULL);
+    sr_bluff_curve cgw, cyl;
+    sr_bluff_curve_init(&cgw, SR_CURVE_SPHERE_CGW, NULL);
+    sr_bluff_curve_init(&cyl, SR_CURVE_CYL_COMPOSITE, NULL);
+    sr_bluff_body sph, cy;
+    sr_bluff_body_init(&sph, SR_BLUFF_SPHERE, &cgw, 0.2, 0, 0.5, NAN, NULL);
+    sr_bluff_body_init(&cy, SR_BLUFF_CYLINDER, &cyl, 0.2, 2.0, 9.1, NAN, NULL);
+    double t_sph = per_call_equilibria(&sph, &air, 200), t_cyl = per_call_equilibria(&cy, &air, 200);
+    printf("all equilibria, sphere (3 roots)        %7.1f us/call  = %.0fx exp()   (goal: 256 altitudes < 0.1 s)\n",
+           t_sph * 1e6, t_sph / t_exp);
+    printf("all equilibria, finite cylinder (3)     %7.1f us/call  = %.0fx exp()\n\n", t_cyl * 1e6, t_cyl / t_exp);
+    sr_bluff_curve_free(&cgw);
+    sr_bluff_curve_free(&cyl);
+
+    double t_open = per_opening_solve(2000);
+    printf("opening loads, one ODE solve            %7.1f us/solve                 (goal < 50 us)\n\n", t_open * 1e6);
+
+    char *size_argv[] = {(char *)"sinkrate", (char *)"size",   (char *)"--mass",   (char *)"5.3 kg",
+                         (char *)"--speed",  (char *)"6 m/s",  (char *)"--family", (char *)"conical",
+                         NULL};
+    char *ver_argv[] = {(char *)"sinkrate", (char *)"--version", NULL};
+    double t_size = process_time(bin, size_argv, 20);
+    double t_ver = process_time(bin, ver_argv, 20);
+    char *ff_argv[] = {(char *)"sinkrate", (char *)"freefall", (char *)"--diameter", (char *)"0.2",
+                       (char *)"--mass",   (char *)"0.5",      (char *)"--trace",    NULL};
+    double t_ff = process_time(bin, ff_argv, 20);
+    printf("whole process: sinkrate freefall --trace %6.2f ms  = %.2fx `sinkrate --version`\n", t_ff * 1e3,
+           t_ff / t_ver);
+    printf("whole process: sinkrate size ...        %7.2f ms  = %.2fx `sinkrate --version` (%.2f ms)\n",
+           t_size * 1e3, t_size / t_ver, t_ver * 1e3);
+    return 0;
+}

@@ -1,0 +1,161 @@
+/* test_catalog.c - the shipped canopy catalog and the strict YAML readers. */
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "catalog.h"
+#include "testutil.h"
+
+static sr_catalog *load(void)
+{
+    sr_catalog *c = malloc(sizeof *c);
+    sr_error e;
+    int rc = sr_catalog_open(c, sr_test_path("canopies"), &e);
+    if (rc)
+        print_error("%s\n", e.msg);
+    assert_int_equal(rc, 0);
+    return c;
+}
+
+/* The families the catalog must hold (issue list) with the handbook ranges
+ * of CD0 on nominal area, Knacke 1991 Tables 5-1 / 5-2, from memory. */
+static const struct {
+    const char *id;
+    double lo, hi;
+} FAMILIES[] = {
+    {"flat-circular", 0.75, 0.80}, {"conical", 0.75, 0.90},       {"biconical", 0.75, 0.92},
+    {"triconical", 0.80, 0.96},    {"extended-skirt", 0.78, 0.87}, {"hemispherical", 0.62, 0.77},
+    {"guide-surface", 0.28, 0.42}, {"annular", 0.85, 0.95},        {"cross", 0.60, 0.85},
+    {"flat-ribbon", 0.45, 0.50},   {"conical-ribbon", 0.50, 0.55}, {"ringslot", 0.56, 0.65},
+    {"ringsail", 0.75, 0.90},      {"disk-gap-band", 0.52, 0.58},
+};
+
+static void test_catalog_complete_and_sourced(void **state)
+{
+    (void)state;
+    sr_catalog *c = load();
+    for (size_t i = 0; i < sizeof FAMILIES / sizeof FAMILIES[0]; i++) {
+        sr_error e;
+        const sr_family *f = sr_catalog_find(c, FAMILIES[i].id, &e);
+        assert_non_null(f);
+        CHECK_ABS("CD0 low (nominal area)", "Knacke 1991, NWC TP 6575, Tables 5-1/5-2 (from memory)", FAMILIES[i].lo,
+                  f->cd0.v.lo, 1e-12);
+        CHECK_ABS("CD0 high (nominal area)", "Knacke 1991, NWC TP 6575, Tables 5-1/5-2 (from memory)",
+                  FAMILIES[i].hi, f->cd0.v.hi, 1e-12);
+        assert_int_equal(f->cd0.ref, SR_REF_NOMINAL);
+        const char *srcs[] = {f->cd0_source, f->dp_source, f->dc_source, f->cx_source,
+                              f->fill_source, f->osc_source, f->mach_source};
+        for (size_t k = 0; k < 7; k++) {
+            assert_true(strlen(srcs[k]) > 10);
+            /* every recalled value must say so */
+            assert_non_null(strstr(srcs[k], "memory"));
+        }
+    }
+    free(c);
+}
+
+static void test_unknown_family_suggests(void **state)
+{
+    (void)state;
+    sr_catalog *c = load();
+    sr_error e;
+    assert_null(sr_catalog_find(c, "conicl", &e));
+    assert_non_null(strstr(e.msg, "did you mean 'conical'"));
+    free(c);
+}
+
+/* Bad family files: each gives one positioned message. */
+static const struct {
+    const char *what, *yaml, *expect;
+} BAD[] = {
+    {"malformed YAML", "id: x\nname: [unclosed\n", "malformed YAML"},
+    {"unknown key with suggestion", "id: x\nnmae: y\n", "did you mean 'name'"},
+    {"duplicate key", "id: a\nid: b\n", "duplicate key 'id'"},
+    {"not a mapping", "- a\n- b\n", "must be a mapping"},
+    {"empty", "", "empty"},
+};
+
+static void test_bad_family_files(void **state)
+{
+    (void)state;
+    for (size_t i = 0; i < sizeof BAD / sizeof BAD[0]; i++) {
+        const char *p = sr_test_tmpfile(".yaml", BAD[i].yaml);
+        sr_family f;
+        sr_error e;
+        assert_int_not_equal(sr_catalog_load_family(&f, p, &e), 0);
+        if (!strstr(e.msg, BAD[i].expect))
+            print_error("%s: got '%s'\n", BAD[i].what, e.msg);
+        assert_non_null(strstr(e.msg, BAD[i].expect));
+        assert_null(strchr(e.msg, '\n'));
+    }
+}
+
+/* A good file with one value broken in turn. */
+static const char GOOD[] = "id: t\nname: T\nclass: solid\n"
+                           "drag-coefficient: {reference: nominal, low: 0.7, high: 0.8, source: s}\n"
+                           "projected-ratio: {low: 0.7, high: 0.7, source: s}\n"
+                           "constructed-ratio: {low: 1, high: 1, source: s}\n"
+                           "opening-factor: {low: 1.7, high: 1.7, source: s}\n"
+                           "filling-constant: {value: 8, source: s}\n"
+                           "oscillation: {low: 10 deg, high: 20 deg, source: s}\n"
+                           "mach-limit: {value: 0.5, source: s}\n";
+
+static void test_value_errors(void **state)
+{
+    (void)state;
+    sr_family f;
+    sr_error e;
+    assert_int_equal(sr_catalog_load_family(&f, sr_test_tmpfile(".yaml", GOOD), &e), 0);
+    assert_true(fabs(f.cd0.v.typ - 0.75) < 1e-12); /* midpoint when typical is absent */
+    static const struct {
+        const char *from, *to, *expect;
+    } MUT[] = {
+        {"reference: nominal", "reference: projected", "must be on nominal area"},
+        {"low: 10 deg", "low: 10", "needs a unit"},
+        {"low: 0.7, high: 0.8", "low: 0.9, high: 0.8", "low <= typical <= high"},
+        {"value: 8", "value: -8", "plausible range"},
+        {"class: solid", "class: mushy", "class must be"},
+        {"source: s}\nfill", "sorce: s}\nfill", "did you mean 'source'"},
+        {"low: 0.7, high: 0.8", "low: nan, high: 0.8", "not a number"},
+    };
+    for (size_t i = 0; i < sizeof MUT / sizeof MUT[0]; i++) {
+        char buf[2048];
+        const char *at = strstr(GOOD, MUT[i].from);
+        assert_non_null(at);
+        snprintf(buf, sizeof buf, "%.*s%s%s", (int)(at - GOOD), GOOD, MUT[i].to, at + strlen(MUT[i].from));
+        int rc = sr_catalog_load_family(&f, sr_test_tmpfile(".yaml", buf), &e);
+        if (rc == 0 || !strstr(e.msg, MUT[i].expect))
+            print_error("mutation %zu: rc %d, '%s'\n", i, rc, e.msg);
+        assert_int_not_equal(rc, 0);
+        assert_non_null(strstr(e.msg, MUT[i].expect));
+    }
+}
+
+static void test_canopy_file(void **state)
+{
+    (void)state;
+    sr_catalog *c = load();
+    sr_canopy cp;
+    sr_error e;
+    const char *ok = "canopy:\n  name: test\n  family: conical\n  projected-diameter: 1.4 m\n"
+                     "  drag-coefficient: {value: 1.5, reference: projected, source: drop test}\n";
+    assert_int_equal(sr_catalog_load_canopy(&cp, c, sr_test_tmpfile(".yaml", ok), &e), 0);
+    assert_true(cp.measured && cp.cd.ref == SR_REF_PROJECTED);
+    const char *two = "canopy:\n  family: conical\n  projected-diameter: 1.4 m\n  nominal-diameter: 2 m\n";
+    assert_int_not_equal(sr_catalog_load_canopy(&cp, c, sr_test_tmpfile(".yaml", two), &e), 0);
+    assert_non_null(strstr(e.msg, "one size only"));
+    const char *noref = "canopy:\n  family: conical\n  nominal-diameter: 2 m\n  drag-coefficient: {value: 1.5}\n";
+    assert_int_not_equal(sr_catalog_load_canopy(&cp, c, sr_test_tmpfile(".yaml", noref), &e), 0);
+    assert_non_null(strstr(e.msg, "reference"));
+    free(c);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_catalog_complete_and_sourced), cmocka_unit_test(test_unknown_family_suggests),
+        cmocka_unit_test(test_bad_family_files), cmocka_unit_test(test_value_errors),
+        cmocka_unit_test(test_canopy_file),
+    };
+    return cmocka_run_group_tests_name("catalog", tests, NULL, NULL);
+}
