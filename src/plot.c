@@ -374,7 +374,7 @@ static size_t polygon_block(const sr_plot *p, size_t k)
 {
     size_t idx = p->nblocks;
     for (size_t i = 0; i < k; i++)
-        if (p->series[i].s.kind == SR_PLOT_BAND_X)
+        if (p->series[i].s.kind == SR_PLOT_BAND_X && !p->series[i].s.outline)
             idx++;
     return idx;
 }
@@ -424,7 +424,7 @@ static void write_data(FILE *f, const sr_plot *p, const char *name)
      * going up, high side coming back */
     for (size_t s = 0; s < p->nseries; s++) {
         const sr_plot_series *se = &p->series[s].s;
-        if (se->kind != SR_PLOT_BAND_X)
+        if (se->kind != SR_PLOT_BAND_X || se->outline)
             continue;
         const pblock *b = &p->blocks[se->block];
         fprintf(f, "\n\n# [%zu] outline of the band of block %zu (for filledcurves closed)\n# 1:x 2:y\n", k++,
@@ -638,7 +638,7 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
                 continue;
             fputs(first ? " \\\n    " : ", \\\n    ", f);
             first = 0;
-            size_t blk = s->kind == SR_PLOT_BAND_X ? polygon_block(p, i) : s->block;
+            size_t blk = s->kind == SR_PLOT_BAND_X && !s->outline ? polygon_block(p, i) : s->block;
             fprintf(f, "datafile index %zu ", blk);
             int lt = s->color, dt = s->dash + 1;
             switch (s->kind) {
@@ -652,12 +652,23 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
                 fprintf(f, "using %d:%d with linespoints lt %d dt %d", s->x, s->y, lt, dt);
                 break;
             case SR_PLOT_BAND:
-                fprintf(f, "using %d:%d:%d with filledcurves lt %d fs transparent solid sr_band_opacity noborder",
-                        s->x, s->lo, s->hi, lt);
+                if (s->outline)
+                    fprintf(f, "using %d:%d with lines lt %d lw 1 dt 3 notitle, \\\n    datafile index %zu using %d:%d "
+                               "with lines lt %d lw 1 dt 3",
+                            s->x, s->lo, lt, blk, s->x, s->hi, lt);
+                else
+                    fprintf(f, "using %d:%d:%d with filledcurves lt %d fs transparent solid sr_band_opacity noborder",
+                            s->x, s->lo, s->hi, lt);
                 break;
             case SR_PLOT_BAND_X:
-                fprintf(f, "using 1:2 with filledcurves closed lt %d fs transparent solid sr_band_opacity noborder",
-                        lt);
+                if (s->outline)
+                    fprintf(f, "using %d:%d with lines lt %d lw 1 dt 3 notitle, \\\n    datafile index %zu using %d:%d "
+                               "with lines lt %d lw 1 dt 3",
+                            s->lo, s->y, lt, blk, s->hi, s->y, lt);
+                else
+                    fprintf(f, "using 1:2 with filledcurves closed lt %d fs transparent solid sr_band_opacity "
+                               "noborder",
+                            lt);
                 break;
             case SR_PLOT_ELLIPSES:
                 fprintf(f, "using %d:%d:%d:%d:%d with ellipses lt %d dt %d fs transparent solid 0.06 border lt %d",
@@ -736,7 +747,7 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
             for (size_t j = 0; j < p->nseries; j++) {
                 const sr_plot_series *b = &p->series[j].s;
                 if ((b->kind == SR_PLOT_BAND || b->kind == SR_PLOT_BAND_X) && b->color == s->color &&
-                    b->block == s->block)
+                    b->block == s->block && !b->outline)
                     kind = 1;
             }
         fprintf(f, "%s%d", k++ ? ", " : "", kind);
@@ -852,6 +863,22 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
           "}\n"
           "set output outfile\n",
           f);
+    fputs("set label 101 ", f);
+    gpq(f, p->title);
+    fputs(" at screen 12.0 / width, screen 1 - 28.0 / height left front noenhanced "
+          "font sprintf('%s,%d', sr_font, sr_titlesize) textcolor rgb sr_ink\n",
+          f);
+    if (p->subtitle) {
+        /* wrapped to the width (10 pt is about 6.3 px a character); each further line pushes the panels down */
+        size_t chars = (size_t)((o->width - 24) / 6.3);
+        fputs("set label 102 ", f);
+        int n = wrap_lines(p->subtitle, chars < 40 ? 40 : chars, emit_gp_piece, f);
+        fputs(" at screen 12.0 / width, screen 1 - 52.0 / height left front noenhanced "
+              "font sprintf('%s,%d', sr_font, sr_small + 2) textcolor rgb sr_muted\n",
+              f);
+        if (n > 1)
+            fprintf(f, "sr_mt = sr_mt + %d * (sr_small + 2) * 1.5   # the subtitle's further lines\n", n - 1);
+    }
     if (strip_legend(p))
         write_strip_legend(f, p);
     int titled = 0;
@@ -869,18 +896,6 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
     fputs("sr_l = sr_ml * 1.0 / width; sr_r = 1 - sr_mr * 1.0 / width\n"
           "sr_b = sr_mb * 1.0 / height; sr_t = 1 - sr_mt * 1.0 / height\n",
           f);
-    fputs("set label 101 ", f);
-    gpq(f, p->title);
-    fputs(" at screen 12.0 / width, screen 1 - 28.0 / height left front noenhanced "
-          "font sprintf('%s,%d', sr_font, sr_titlesize) textcolor rgb sr_ink\n",
-          f);
-    if (p->subtitle) {
-        fputs("set label 102 ", f);
-        gpq(f, p->subtitle);
-        fputs(" at screen 12.0 / width, screen 1 - 52.0 / height left front noenhanced "
-              "font sprintf('%s,%d', sr_font, sr_small + 2) textcolor rgb sr_muted\n",
-              f);
-    }
     if (p->panels > 1)
         fputs("set multiplot\n", f);
     for (int k = 0; k < p->panels; k++) {

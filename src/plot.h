@@ -35,6 +35,8 @@ typedef struct sr_plot_series {
     const char *title;   /* legend text (plain text); NULL: not in the legend */
     int color;           /* 1 .. SR_PLOT_COLORS; 0: the next colour in turn */
     int dash;            /* 0 solid, 1 dashed, 2 dotted */
+    int outline;         /* bands: draw the low and high edges as thin dotted lines instead of a
+                            fill, for figures with many overlapping bands */
 } sr_plot_series;
 
 typedef enum sr_plot_key {

@@ -223,7 +223,13 @@ static void var_value_label(char *buf, size_t len, sr_sweep_var v, double x, sr_
     }
     sr_report_format_value(val, sizeof val, x, sr_sweep_var_quantity(v), sys, sig);
     static const char *WHAT[] = {"altitude", "mass", "D0", "\u0394T", "site", "speed"};
-    snprintf(buf, len, "%s %s%s", WHAT[v], v == SR_SWEEP_TEMP_OFFSET && x >= 0 ? "+" : "", val);
+    /* offsets carry their sign, with a true minus */
+    const char *sign = v == SR_SWEEP_TEMP_OFFSET && x > 0 ? "+" : "";
+    if (v == SR_SWEEP_TEMP_OFFSET && val[0] == '-') {
+        memmove(val, val + 1, strlen(val));
+        sign = "\u2212";
+    }
+    snprintf(buf, len, "%s %s%s", WHAT[v], sign, val);
 }
 
 /* A "nice" step near span/100: 1, 2 or 5 times a power of ten. */
@@ -759,6 +765,9 @@ static void build_report(run *R, sr_report *r)
 
 /* ---- the figure ---- */
 
+/* From this many curves on, bands are drawn as dotted edges: fills would hide each other. */
+#define OUTLINE_CURVES 4
+
 /* The atmosphere in a few words, for the figure's subtitle. */
 static void short_atmos(const run *R, char *buf, size_t len)
 {
@@ -766,7 +775,7 @@ static void short_atmos(const run *R, char *buf, size_t len)
     const sr_atmos *m = &R->atm;
     char z[48], p[48];
     if (uses(R, SR_SWEEP_TEMP_OFFSET) && uses(R, SR_SWEEP_SITE_ELEVATION)) {
-        snprintf(buf, len, "standard atmosphere, temperature and site varied");
+        snprintf(buf, len, "each site at standard pressure; \u0394T: temperature offset from standard");
         return;
     }
     switch (m->kind) {
@@ -793,9 +802,9 @@ static void short_atmos(const run *R, char *buf, size_t len)
     }
     }
     if (uses(R, SR_SWEEP_TEMP_OFFSET) && m->kind != SR_ATMOS_SITE)
-        snprintf(buf, len, "standard atmosphere, temperature varied");
+        snprintf(buf, len, "U.S. Standard Atmosphere 1976; \u0394T: temperature offset from standard");
     else if (uses(R, SR_SWEEP_TEMP_OFFSET))
-        snprintf(buf + strlen(buf), len - strlen(buf), "; temperature varied");
+        snprintf(buf + strlen(buf), len - strlen(buf), "; \u0394T: temperature offset from standard");
     if (uses(R, SR_SWEEP_SITE_ELEVATION))
         snprintf(buf, len, "sites at standard pressure%s",
                  m->dT != 0.0 ? ", same temperature offset" : "");
@@ -812,7 +821,8 @@ static void subtitle(const run *R, char *buf, size_t len)
     short_atmos(R, atm, sizeof atm);
     if (R->ncanopy == 1 && R->has_by)
         snprintf(one, sizeof one, "%s; ", R->labels[0]);
-    snprintf(buf, len, "%s%s%s. Shaded: the family's drag-coefficient range; line: typical.", one, m, atm);
+    snprintf(buf, len, "%s%s%s. %s the family's drag-coefficient range; line: typical.", one, m, atm,
+             R->ncurves >= OUTLINE_CURVES ? "Dotted:" : "Shaded:");
 }
 
 static int figure(run *R, int argc, char **argv)
@@ -889,6 +899,7 @@ static int figure(run *R, int argc, char **argv)
     }
     int rc = 0;
     for (size_t k = 0; k < R->ncurves && !rc; k++) {
+        int outline = R->ncurves >= OUTLINE_CURVES;
         const curve *cv = &R->curves[k];
         char xname[48], n2[48], n3[48], n4[48], n5[48], n6[48], n7[48];
         snprintf(xname, sizeof xname, "%s[%s]", X_KEY[R->var], ux);
@@ -920,27 +931,29 @@ static int figure(run *R, int argc, char **argv)
         int color = (int)(k % SR_PLOT_COLORS) + 1, dash = (int)(k / SR_PLOT_COLORS) % 3;
         if (alt && R->figure != 1) {
             sr_plot_series band = {.kind = SR_PLOT_BAND_X, .panel = 0, .block = b, .y = 1, .lo = 2, .hi = 4,
-                                   .color = color};
+                                   .color = color, .outline = outline};
             sr_plot_series line = {.kind = SR_PLOT_LINES, .panel = 0, .block = b, .x = 3, .y = 1, .color = color,
                                    .dash = dash, .title = cv->label};
             sr_plot_add(p, &band);
             sr_plot_add(p, &line);
             if (panels == 2) {
                 sr_plot_series tb = {.kind = SR_PLOT_BAND_X, .panel = 1, .block = b, .y = 1, .lo = 5, .hi = 7,
-                                     .color = color};
+                                     .color = color, .outline = outline};
                 sr_plot_series tline = {.kind = SR_PLOT_LINES, .panel = 1, .block = b, .x = 6, .y = 1,
                                         .color = color, .dash = dash};
                 sr_plot_add(p, &tb);
                 sr_plot_add(p, &tline);
             }
         } else if (alt) {
-            sr_plot_series band = {.kind = SR_PLOT_BAND, .block = b, .x = 1, .lo = 5, .hi = 7, .color = color};
+            sr_plot_series band = {.kind = SR_PLOT_BAND, .block = b, .x = 1, .lo = 5, .hi = 7, .color = color,
+                                   .outline = outline};
             sr_plot_series line = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 6, .color = color, .dash = dash,
                                    .title = cv->label};
             sr_plot_add(p, &band);
             sr_plot_add(p, &line);
         } else {
-            sr_plot_series band = {.kind = SR_PLOT_BAND, .block = b, .x = 1, .lo = 2, .hi = 4, .color = color};
+            sr_plot_series band = {.kind = SR_PLOT_BAND, .block = b, .x = 1, .lo = 2, .hi = 4, .color = color,
+                                   .outline = outline};
             sr_plot_series line = {.kind = R->nx <= 12 ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .block = b, .x = 1,
                                    .y = 3, .color = color, .dash = dash, .title = cv->label};
             sr_plot_add(p, &band);
@@ -1006,7 +1019,7 @@ static int marks(run *R)
             R->nmark_z++;
         }
     }
-    if (!R->o.mark_speed && R->mis && isfinite(R->mis->limit_speed) && R->var != SR_SWEEP_SPEED)
+    if (!R->o.mark_speed && R->mis && isfinite(R->mis->limit_speed))
         R->marks_v[R->nmark_v++] = R->mis->limit_speed;
     /* the ground, on the altitude axis of the rate figure */
     if (R->var == SR_SWEEP_ALTITUDE && R->figure != 1 && R->ground > 0 &&
