@@ -77,7 +77,7 @@ static const char HELP[] =
     "belong to it; e.g.\n"
     "  --family cross --nominal-diameter 0.9m --family conical --nominal-diameter 2.2m\n"
     "At most 8 canopies and 8 --by values.\n\n"
-    "Figure (with --plot):\n"
+    "What the figure shows (with --plot):\n"
     "  --figure rate|time|both  altitude sweeps: altitude (vertical) against descent rate,\n"
     "                           descent time against deployment altitude, or both side by\n"
     "                           side (default both)\n"
@@ -628,6 +628,8 @@ static void build_report(run *R, sr_report *r)
         char buf[300];
         sr_atmos_describe(&R->atm, buf, sizeof buf);
         sr_report_text(r, "atmosphere_base", "atmosphere (before the sweep)", buf);
+    } else {
+        sr_report_text(r, "atmosphere", "atmosphere", "U.S. Standard Atmosphere 1976, varied row by row");
     }
     if (!uses(R, SR_SWEEP_SITE_ELEVATION))
         sr_report_value(r, "ground", "ground (above sea level)", R->ground, SR_Q_LENGTH, SR_FIXED(0));
