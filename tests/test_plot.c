@@ -179,8 +179,11 @@ static void render_png(const char *name, int width, int height)
     snprintf(png, sizeof png, "%s.png", o.prefix);
     unsigned w = 0, h = 0;
     assert_true(png_size(png, &w, &h));
-    CHECK_ABS("PNG width from IHDR = requested", PNG_SPEC, width, w, 0);
-    CHECK_ABS("PNG height from IHDR = requested", PNG_SPEC, height, h, 0);
+    char q[128];
+    snprintf(q, sizeof q, "PNG width from IHDR, figure of %dx%d px", width, height);
+    CHECK_ABS(q, PNG_SPEC, width, w, 0);
+    snprintf(q, sizeof q, "PNG height from IHDR, figure of %dx%d px", width, height);
+    CHECK_ABS(q, PNG_SPEC, height, h, 0);
     sr_plot_free(p);
 }
 

@@ -597,8 +597,9 @@ static void figure(const char *name, const char *const *args)
     snprintf(png, sizeof png, "%s.png", prefix);
     unsigned w = 0, h = 0;
     assert_true(png_size(png, &w, &h));
-    CHECK_ABS("sweep figure PNG width = --plot-size", PNG_SPEC, 800, w, 0);
-    CHECK_ABS("sweep figure PNG height = --plot-size", PNG_SPEC, 500, h, 0);
+    char q[128];
+    snprintf(q, sizeof q, "PNG width, height of the '%s' sweep figure = --plot-size 800x500", name);
+    CHECK_ABS(q, PNG_SPEC, 800.0 * 10000.0 + 500.0, (double)w * 10000.0 + (double)h, 0);
     free(out);
     free(err);
 }

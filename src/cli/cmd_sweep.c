@@ -578,7 +578,7 @@ static int compute(run *R)
         }
     }
     if (tty)
-        fprintf(c->err, "\rsinkrate sweep: %zu rows computed%*s\n", total, 12, "");
+        fprintf(c->err, "\rsinkrate sweep: %zu rows computed; writing them%*s\n", total, 8, "");
     return 0;
 }
 
