@@ -598,8 +598,10 @@ static void figure(const char *name, const char *const *args)
     unsigned w = 0, h = 0;
     assert_true(png_size(png, &w, &h));
     char q[128];
-    snprintf(q, sizeof q, "PNG width, height of the '%s' sweep figure = --plot-size 800x500", name);
-    CHECK_ABS(q, PNG_SPEC, 800.0 * 10000.0 + 500.0, (double)w * 10000.0 + (double)h, 0);
+    snprintf(q, sizeof q, "PNG width of the '%s' sweep figure (--plot-size 800x500)", name);
+    CHECK_ABS(q, PNG_SPEC, 800, w, 0);
+    snprintf(q, sizeof q, "PNG height of the '%s' sweep figure (--plot-size 800x500)", name);
+    CHECK_ABS(q, PNG_SPEC, 500, h, 0);
     free(out);
     free(err);
 }
