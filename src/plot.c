@@ -514,6 +514,12 @@ static void write_range(FILE *f, const sr_plot *p, int panel, char axis, double 
         for (size_t i = 0; i < p->nmarkers; i++)
             if (p->markers[i].panel == panel && p->markers[i].axis == axis)
                 grow(&dlo, &dhi, p->markers[i].value);
+        if (isfinite(dlo) && dhi == dlo) {
+            /* one value: a small span around it rather than an empty range */
+            double pad = dlo != 0.0 ? 0.05 * fabs(dlo) : 1.0;
+            dlo -= pad;
+            dhi += pad;
+        }
         if (isfinite(dlo) && dhi > dlo) {
             if (isnan(lo))
                 lo = dlo;
@@ -583,9 +589,15 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
         fprintf(f, "set tmargin at screen sr_t - %d * (sr_h + sr_gap * 1.0 / height)\n", panel);
         fprintf(f, "set bmargin at screen sr_t - %d * (sr_h + sr_gap * 1.0 / height) - sr_h\n", panel);
     }
+    /* any panel with labels on vertical marker lines lifts every panel title, so they stay level */
+    int vlabel = 0;
+    for (size_t i = 0; i < p->nmarkers; i++)
+        if (p->markers[i].axis == 'x' && p->markers[i].label)
+            vlabel = 1;
     fputs("set title ", f);
     gpq(f, a->title ? a->title : "");
-    fputs(" noenhanced\nset xlabel ", f);
+    /* above the labels of vertical marker lines, which sit on the frame */
+    fputs(vlabel ? " noenhanced offset 0,1.0\nset xlabel " : " noenhanced offset 0,0\nset xlabel ", f);
     gpq(f, a->xlabel ? a->xlabel : "");
     fputs(" noenhanced\nset ylabel ", f);
     gpq(f, a->ylabel ? a->ylabel : "");
@@ -892,7 +904,7 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
         if (p->markers[i].axis == 'x' && p->markers[i].label)
             vlabels = 1;
     if (vlabels)
-        fputs("sr_mt = sr_mt + 18   # room for the labels of vertical marker lines, above the frame\n", f);
+        fputs("sr_mt = sr_mt + 24   # room for the labels of vertical marker lines, above the frame\n", f);
     fputs("sr_l = sr_ml * 1.0 / width; sr_r = 1 - sr_mr * 1.0 / width\n"
           "sr_b = sr_mb * 1.0 / height; sr_t = 1 - sr_mt * 1.0 / height\n",
           f);

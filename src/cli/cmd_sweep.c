@@ -902,6 +902,7 @@ static int figure(run *R, int argc, char **argv)
     int rc = 0;
     for (size_t k = 0; k < R->ncurves && !rc; k++) {
         int outline = R->ncurves >= OUTLINE_CURVES;
+        int few = R->nx <= 12; /* few values: show them as points on the lines */
         const curve *cv = &R->curves[k];
         char xname[48], n2[48], n3[48], n4[48], n5[48], n6[48], n7[48];
         snprintf(xname, sizeof xname, "%s[%s]", X_KEY[R->var], ux);
@@ -934,14 +935,14 @@ static int figure(run *R, int argc, char **argv)
         if (alt && R->figure != 1) {
             sr_plot_series band = {.kind = SR_PLOT_BAND_X, .panel = 0, .block = b, .y = 1, .lo = 2, .hi = 4,
                                    .color = color, .outline = outline};
-            sr_plot_series line = {.kind = SR_PLOT_LINES, .panel = 0, .block = b, .x = 3, .y = 1, .color = color,
+            sr_plot_series line = {.kind = few ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .panel = 0, .block = b, .x = 3, .y = 1, .color = color,
                                    .dash = dash, .title = cv->label};
             sr_plot_add(p, &band);
             sr_plot_add(p, &line);
             if (panels == 2) {
                 sr_plot_series tb = {.kind = SR_PLOT_BAND_X, .panel = 1, .block = b, .y = 1, .lo = 5, .hi = 7,
                                      .color = color, .outline = outline};
-                sr_plot_series tline = {.kind = SR_PLOT_LINES, .panel = 1, .block = b, .x = 6, .y = 1,
+                sr_plot_series tline = {.kind = few ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .panel = 1, .block = b, .x = 6, .y = 1,
                                         .color = color, .dash = dash};
                 sr_plot_add(p, &tb);
                 sr_plot_add(p, &tline);
@@ -949,14 +950,14 @@ static int figure(run *R, int argc, char **argv)
         } else if (alt) {
             sr_plot_series band = {.kind = SR_PLOT_BAND, .block = b, .x = 1, .lo = 5, .hi = 7, .color = color,
                                    .outline = outline};
-            sr_plot_series line = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 6, .color = color, .dash = dash,
+            sr_plot_series line = {.kind = few ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .block = b, .x = 1, .y = 6, .color = color, .dash = dash,
                                    .title = cv->label};
             sr_plot_add(p, &band);
             sr_plot_add(p, &line);
         } else {
             sr_plot_series band = {.kind = SR_PLOT_BAND, .block = b, .x = 1, .lo = 2, .hi = 4, .color = color,
                                    .outline = outline};
-            sr_plot_series line = {.kind = R->nx <= 12 ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .block = b, .x = 1,
+            sr_plot_series line = {.kind = few ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .block = b, .x = 1,
                                    .y = 3, .color = color, .dash = dash, .title = cv->label};
             sr_plot_add(p, &band);
             sr_plot_add(p, &line);
