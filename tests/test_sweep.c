@@ -627,7 +627,8 @@ static void test_figures_render(void **state)
                           "5kg", "--family", "conical", "--nominal-diameter", "2m", "--temp-offset", "20C", NULL};
     figure("site", site);
     const char *speed[] = {"--vary", "speed", "--from", "3m/s", "--to", "9m/s", "--step", "0.25m/s", "--mass", "5.3kg",
-                           "--family", "conical", "--family", "annular", "--mark-speed", "6.1m/s", NULL};
+                           "--family", "conical", "--family", "annular", "--family", "cross", "--family",
+                           "flat-circular", "--mark-speed", "6.1m/s", NULL}; /* four curves: outlined bands */
     figure("speed", speed);
     const char *temp[] = {"--vary", "temp-offset", "--from", "-30C", "--to", "40C", "--step", "5C", "--mass", "5.3kg",
                           "--family", "conical", "--nominal-diameter", "2.2m", "--altitude", "1400m", NULL};
