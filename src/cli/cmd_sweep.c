@@ -307,27 +307,14 @@ static int load_case(run *R)
     int rc;
     if ((rc = sr_cli_catalog(c, &R->cat)))
         return rc;
-    int atmos_given = o->atmos.temp_offset || o->atmos.site_elevation || o->atmos.surface_temp ||
-                      o->atmos.surface_pressure || o->atmos.sounding;
     R->mass = NAN;
     if (o->mission) {
-        R->mis = calloc(1, sizeof *R->mis);
-        if (!R->mis)
-            return sr_cli_fail(c, "out of memory");
-        if (sr_mission_load(R->mis, o->mission, R->cat, &e)) {
-            free(R->mis);
-            R->mis = NULL;
-            return sr_cli_fail(c, "--mission: %s", e.msg);
-        }
+        if ((rc = sr_cli_mission(c, o->mission, R->cat, &o->atmos, &R->mis, &R->atm, &R->ground)))
+            return rc;
         R->mass = sr_mission_total_mass(R->mis);
-        R->ground = R->mis->ground;
-        if (!atmos_given) {
-            R->atm = R->mis->atmos;
-            memset(&R->mis->atmos, 0, sizeof R->mis->atmos); /* ownership moves to R->atm */
-        }
-    }
-    if ((!o->mission || atmos_given) && (rc = sr_cli_atmos(c, &o->atmos, &R->atm, &R->ground)))
+    } else if ((rc = sr_cli_atmos(c, &o->atmos, &R->atm, &R->ground))) {
         return rc;
+    }
     int sized_by_sweep = uses(R, SR_SWEEP_DIAMETER) || R->var == SR_SWEEP_SPEED;
     if (o->ncanopy > 0) {
         for (int i = 0; i < o->ncanopy; i++) {
@@ -1101,10 +1088,7 @@ out:
     free(R->rows);
     free(R->curves);
     sr_atmos_free(&R->atm);
-    if (R->mis) {
-        sr_mission_free(R->mis);
-        free(R->mis);
-    }
+    sr_cli_mission_free(R->mis);
     free(R->cat);
     free(R);
     return rc;

@@ -12,6 +12,7 @@
 #include <unistd.h>
 
 #include "fileio.h"
+#include "mission.h"
 #include "yamldoc.h"
 
 const char SR_HELP_OUTPUT[] =
@@ -285,6 +286,39 @@ int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi,
         return sr_cli_fail(c, "%s: '%s' is not a whole number from %ld to %ld", opt, text, lo, hi);
     *out = v;
     return 0;
+}
+
+int sr_cli_atmos_given(const sr_atmos_opts *a)
+{
+    return a->temp_offset || a->site_elevation || a->surface_temp || a->surface_pressure || a->sounding;
+}
+
+int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_atmos_opts *a, sr_mission **mis,
+                   sr_atmos *atm, double *ground)
+{
+    sr_error e;
+    *mis = calloc(1, sizeof **mis);
+    if (!*mis)
+        return sr_cli_fail(c, "out of memory");
+    if (sr_mission_load(*mis, path, cat, &e)) {
+        free(*mis);
+        *mis = NULL;
+        return sr_cli_fail(c, "--mission: %s", e.msg);
+    }
+    *ground = (*mis)->ground;
+    if (sr_cli_atmos_given(a))
+        return sr_cli_atmos(c, a, atm, ground);
+    *atm = (*mis)->atmos;
+    memset(&(*mis)->atmos, 0, sizeof (*mis)->atmos); /* ownership moves to *atm */
+    return 0;
+}
+
+void sr_cli_mission_free(sr_mission *mis)
+{
+    if (mis) {
+        sr_mission_free(mis);
+        free(mis);
+    }
 }
 
 int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground)
