@@ -11,6 +11,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "cli/cliplot.h"
 #include "fileio.h"
 #include "mission.h"
 #include "yamldoc.h"
@@ -92,6 +93,43 @@ void sr_cli_help(sr_cli *c, const char *text)
     fputc('\n', c->out);
 }
 
+static int has_option(const struct option *opts, int code)
+{
+    for (const struct option *o = opts; o->name; o++)
+        if (o->val == code)
+            return 1;
+    return 0;
+}
+
+/* A command's own help, then the option groups it accepts (unless its text
+ * already lists the group's first option), so every --help shows every option. */
+static void help_with_groups(sr_cli *c, const char *help, const struct option *opts)
+{
+    size_t len = strlen(help) + sizeof SR_HELP_CANOPY + sizeof SR_HELP_ATMOS + sizeof SR_HELP_OUTPUT + 2048;
+    char *buf = malloc(len);
+    if (!buf) {
+        sr_cli_help(c, help);
+        return;
+    }
+    snprintf(buf, len, "%s", help);
+    struct {
+        int code;
+        const char *text, *heading;
+    } G[] = {{OPT_FAMILY, SR_HELP_CANOPY, "\n  --family"},
+             {OPT_TEMP_OFFSET, SR_HELP_ATMOS, "\n  --temp-offset"},
+             {OPT_PLOT, SR_HELP_PLOT, "\n  --plot "},
+             {OPT_FORMAT, SR_HELP_OUTPUT, "\n  --format"}};
+    for (size_t i = 0; i < sizeof G / sizeof G[0]; i++) {
+        if (!has_option(opts, G[i].code) || strstr(help, G[i].heading))
+            continue;
+        size_t l = strlen(buf);
+        snprintf(buf + l, len - l, "%s%s", l && buf[l - 1] == '\n' && (l < 2 || buf[l - 2] != '\n') ? "\n" : "",
+                 G[i].text);
+    }
+    sr_cli_help(c, buf);
+    free(buf);
+}
+
 static const char *option_suggestion(const struct option *opts, const char *bad)
 {
     const char *names[256];
@@ -111,7 +149,7 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
     while ((code = getopt_long(argc, argv, "ho:n:", opts, NULL)) != -1) {
         switch (code) {
         case 'h':
-            sr_cli_help(c, help);
+            help_with_groups(c, help, opts);
             return -1;
         case 'o':
             c->output = optarg;
