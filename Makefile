@@ -9,7 +9,7 @@ MANDIR   = $(PREFIX)/share/man/man1
 
 CC      ?= cc
 CSTD     = -std=c11 -D_POSIX_C_SOURCE=200809L
-WARN     = -Wall -Wextra -Werror -Wno-unused-parameter -Wno-format-truncation
+WARN     = -Wall -Wextra -Werror -Wno-unused-parameter -Wno-format-truncation -Wno-unknown-warning-option
 OPT     ?= -O2 -g
 PKGS     = yaml-0.1 gsl jansson
 PKG_CFLAGS := $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
@@ -78,6 +78,10 @@ validation: check
 
 demo: $(B)/sinkrate
 	@sh scripts/demo.sh $(B)/sinkrate
+
+# The README's figures from the demo scenario (needs gnuplot): plots/*.png
+plots: $(B)/sinkrate
+	@SINKRATE_DATA=$(CURDIR) sh scripts/plots.sh $(B)/sinkrate
 
 $(B)/bench: bench/bench.c $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
 	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) -o $@ $^ $(LDLIBS_ALL)

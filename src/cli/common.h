@@ -21,6 +21,7 @@ enum {
     /* canopy */
     OPT_FAMILY, OPT_CANOPY, OPT_NOMINAL_DIAMETER, OPT_PROJECTED_DIAMETER, OPT_FLAT_DIAMETER, OPT_NOMINAL_AREA,
     OPT_CLUSTER, OPT_CLUSTER_FACTOR, OPT_AREAL_MASS, OPT_DRAG_COEFFICIENT, OPT_DRAG_REFERENCE,
+    OPT_PLOT_SIZE,
     /* first free code for a command's own options */
     OPT_COMMAND_BASE = 1100
 };
@@ -31,7 +32,8 @@ enum {
         {"help", no_argument, NULL, 'h'}
 
 #define SR_OPTS_PLOT                                                                                          \
-    {"plot", required_argument, NULL, OPT_PLOT}, {"plot-format", required_argument, NULL, OPT_PLOT_FORMAT}
+    {"plot", required_argument, NULL, OPT_PLOT}, {"plot-format", required_argument, NULL, OPT_PLOT_FORMAT},   \
+        {"plot-size", required_argument, NULL, OPT_PLOT_SIZE}
 
 #define SR_OPTS_ATMOS                                                                                         \
     {"temp-offset", required_argument, NULL, OPT_TEMP_OFFSET},                                                \
@@ -92,6 +94,18 @@ int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi,
 /* Build the atmosphere from its options; *ground receives the site elevation
  * (0 without a site). */
 int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground);
+
+/* Whether any atmosphere option was given. */
+int sr_cli_atmos_given(const sr_atmos_opts *a);
+
+/* Load a mission file (heap-allocated into *mis) and its air: the atmosphere
+ * options, when given, replace the file's site weather (*ground then comes
+ * from them); otherwise the mission's atmosphere moves into *atm. Release
+ * with sr_cli_mission_free. */
+struct sr_mission;
+int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_atmos_opts *a,
+                   struct sr_mission **mis, sr_atmos *atm, double *ground);
+void sr_cli_mission_free(struct sr_mission *mis);
 
 /* The catalog, from --data, $SINKRATE_DATA, next to the executable, or the
  * installed share directory. Heap-allocated; free() it. */
