@@ -532,8 +532,8 @@ static void test_plot(void **state)
     assert_int_equal(rc, 0);
     free(out);
     free(err);
-    const char *ext[] = {".dat", ".gp"};
-    for (int i = 0; i < 2; i++) {
+    const char *ext[] = {".dat", ".gp", "-track.dat", "-track.gp"};
+    for (int i = 0; i < 4; i++) {
         char path[256];
         snprintf(path, sizeof path, "%s%s", prefix, ext[i]);
         FILE *f = fopen(path, "r");
@@ -543,15 +543,20 @@ static void test_plot(void **state)
         buf[n] = '\0';
         fclose(f);
         assert_non_null(strstr(buf, "CAUTION"));
-        if (i == 0)
+        if (i == 1)
             assert_non_null(strstr(buf, "height [ft]"));
+        if (i == 3)
+            assert_non_null(strstr(buf, "drift limit"));
         unlink(path);
     }
-    char png[256];
-    snprintf(png, sizeof png, "%s.png", prefix);
-    if (access("/usr/bin/gnuplot", X_OK) == 0)
-        assert_int_equal(access(png, R_OK), 0);
-    unlink(png);
+    const char *img[] = {".png", "-track.png"};
+    for (int i = 0; i < 2; i++) {
+        char png[256];
+        snprintf(png, sizeof png, "%s%s", prefix, img[i]);
+        if (access("/usr/bin/gnuplot", X_OK) == 0)
+            assert_int_equal(access(png, R_OK), 0);
+        unlink(png);
+    }
 }
 
 int main(void)

@@ -32,14 +32,13 @@ static const char HELP[] =
     "canopies' drag-coefficient range, kinetic energy of every section, descent time,\n"
     "drift distance and bearing, and each limit of the file met or exceeded.\n"
     "Exit 1 when a limit is exceeded (at the typical drag; with --worst-case at any\n"
-    "end of the band).\n\n"
+    "end of the band). --plot PREFIX draws two figures: PREFIX (height, descent rate\n"
+    "and airspeed against time) and PREFIX-track (the ground track with the wind and\n"
+    "the drift limit, and the wind profile).\n\n"
     "  --fail STAGE[,STAGE]     failure case: these stages do not deploy ('all': no canopy)\n"
     "  --worst-case             judge limits at the worst end of each band\n"
     "  --fast                   the fast mode used for dispersion (steady stages from\n"
-    "                           tables, transients reused from the nominal descent)\n"
-    "  --plot PREFIX            altitude and speed against time and the ground track with\n"
-    "                           the wind: PREFIX.dat, PREFIX.gp, and a figure with gnuplot\n"
-    "  --plot-format png|svg    figure format (default png)\n\n";
+    "                           tables, transients reused from the nominal descent)\n\n";
 
 typedef struct profile_opts {
     int fast, worst;
@@ -616,7 +615,7 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     report_notes(r, o.fast);
     if ((rc = sr_cli_emit(c, r)))
         goto out;
-    if (c->plot_prefix && (rc = sr_profile_plot(c, m, ctx, &R->typ, &track)))
+    if (c->plot_prefix && (rc = sr_profile_plot(c, m, ctx, &R->typ, &track, argc, argv)))
         goto out;
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:

@@ -1,282 +1,301 @@
-/* profile_plot.c - gnuplot data and script for `sinkrate profile --plot`:
- * height and speeds against time, the ground track with the wind along it,
- * and the wind profile. No plot module on main yet: written here, as the
- * other commands do, in the units of --units. */
-#define _DEFAULT_SOURCE
+/* profile_plot.c - the figures of `sinkrate profile --plot PREFIX` through
+ * the plot module: PREFIX (height and speeds against time, deployments
+ * marked) and PREFIX-track (the ground track with the wind along it and the
+ * drift limit, and the wind profile), in the units of --units. */
 #include "cli/profile_plot.h"
 
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/wait.h>
-#include <unistd.h>
 
+#include "cli/cliplot.h"
 #include "cli/common.h"
-#include "fileio.h"
+#include "plot.h"
 #include "report.h"
 
 #define PI 3.14159265358979323846
 
-static void gp_quote(FILE *f, const char *s)
+typedef struct plot_ctx {
+    sr_cli *c;
+    const sr_mission *m;
+    const sr_profile_ctx *ctx;
+    const sr_profile_result *r;
+    const sr_profile_track *tr;
+    const char *ul, *uv;
+} plot_ctx;
+
+static double L(const plot_ctx *P, double x)
 {
-    fputc('"', f);
-    for (; *s; s++) {
-        if (*s == '\n') {
-            fputs("\\n", f);
+    return sr_units_from_si(x, SR_Q_LENGTH, P->c->units);
+}
+
+static double V(const plot_ctx *P, double x)
+{
+    return sr_units_from_si(x, SR_Q_SPEED, P->c->units);
+}
+
+static int time_figure(const plot_ctx *P, sr_plot *p)
+{
+    const sr_mission *m = P->m;
+    const sr_profile_result *r = P->r;
+    char lab[160];
+    int rc = sr_plot_layout(p, 2, 0);
+    sr_plot_axes a;
+    sr_plot_axes_init(&a);
+    a.title = "height above ground";
+    a.xlabel = "time [s]";
+    snprintf(lab, sizeof lab, "height [%s]", P->ul);
+    a.ylabel = lab;
+    a.ymin = 0;
+    a.xtight = 1;
+    rc = rc ? rc : sr_plot_set_axes(p, 0, &a);
+    char lab2[160];
+    sr_plot_axes_init(&a);
+    a.title = "descent rate and airspeed";
+    a.xlabel = "time [s]";
+    snprintf(lab2, sizeof lab2, "speed [%s]", P->uv);
+    a.ylabel = lab2;
+    a.ymin = 0;
+    a.xtight = 1;
+    rc = rc ? rc : sr_plot_set_axes(p, 1, &a);
+    static const char *const COLS[] = {"time_s", "height", "descent_rate", "airspeed"};
+    for (size_t b = 0; b < r->nbodies && !rc; b++) {
+        char bn[256], t1[300], t2[300];
+        sr_mission_set_name(m, r->body[b].sections, bn, sizeof bn);
+        size_t blk;
+        if ((rc = sr_plot_block(p, bn, 4, COLS, &blk)))
+            break;
+        for (size_t i = 0; i < P->tr->n && !rc; i++) {
+            const sr_profile_point *q = &P->tr->pt[i];
+            if (q->body != (int)b)
+                continue;
+            double row[] = {q->t, L(P, q->h), V(P, q->rate), V(P, q->speed)};
+            rc = sr_plot_row(p, blk, row);
+        }
+        int color = (int)(b % SR_PLOT_COLORS) + 1;
+        sr_plot_series h = {.kind = SR_PLOT_LINES, .panel = 0, .block = blk, .x = 1, .y = 2, .title = bn, .color = color};
+        snprintf(t1, sizeof t1, "descent rate%s%s", r->nbodies > 1 ? ", " : "", r->nbodies > 1 ? bn : "");
+        snprintf(t2, sizeof t2, "airspeed%s%s", r->nbodies > 1 ? ", " : "", r->nbodies > 1 ? bn : "");
+        sr_plot_series d = {.kind = SR_PLOT_LINES, .panel = 1, .block = blk, .x = 1, .y = 3, .title = t1, .color = color};
+        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 1, .block = blk, .x = 1, .y = 4, .title = t2, .color = color,
+                            .dash = 1};
+        if (!rc)
+            rc = sr_plot_add(p, &h);
+        if (!rc)
+            rc = sr_plot_add(p, &d);
+        if (!rc)
+            rc = sr_plot_add(p, &s);
+    }
+    /* the deployments, on both panels */
+    for (size_t i = 0; i < r->nevents && !rc; i++) {
+        const sr_profile_event *e = &r->events[i];
+        if (e->kind != SR_EVENT_DEPLOY || e->stage < 0)
             continue;
+        snprintf(lab, sizeof lab, "%s%s", m->stages[e->stage].name, r->stage[e->stage].deployed ? "" : " (fails)");
+        rc = sr_plot_marker(p, 0, 'x', e->t, lab, 1);
+        if (!rc)
+            rc = sr_plot_marker(p, 1, 'x', e->t, NULL, 1);
+    }
+    if (!rc && !isnan(m->limit_speed))
+        rc = sr_plot_marker(p, 1, 'y', V(P, m->limit_speed), "touchdown limit", 0);
+    return rc;
+}
+
+static int track_figure(const plot_ctx *P, sr_plot *p)
+{
+    const sr_mission *m = P->m;
+    const sr_profile_result *r = P->r;
+    const sr_profile_track *tr = P->tr;
+    char xl[64], yl[64], xl2[64], yl2[64];
+    double reach = 1.0, hmax = m->start_height;
+    double x0 = 0, x1 = 0, y0 = 0, y1 = 0;
+    for (size_t i = 0; i < tr->n; i++) {
+        reach = fmax(reach, hypot(tr->pt[i].east, tr->pt[i].north));
+        hmax = fmax(hmax, tr->pt[i].h);
+        x0 = fmin(x0, tr->pt[i].east);
+        x1 = fmax(x1, tr->pt[i].east);
+        y0 = fmin(y0, tr->pt[i].north);
+        y1 = fmax(y1, tr->pt[i].north);
+    }
+    int circle = !isnan(m->limit_drift) && m->limit_drift < 2.5 * reach;
+    if (circle) {
+        x0 = fmin(x0, -m->limit_drift);
+        x1 = fmax(x1, m->limit_drift);
+        y0 = fmin(y0, -m->limit_drift);
+        y1 = fmax(y1, m->limit_drift);
+    }
+    /* a square box around it all, so the map with equal scales fills its panel */
+    double half = 0.54 * fmax(fmax(x1 - x0, y1 - y0), 1.0), cx = 0.5 * (x0 + x1), cy = 0.5 * (y0 + y1);
+    int rc = sr_plot_layout(p, 2, 0);
+    sr_plot_axes a;
+    sr_plot_axes_init(&a);
+    a.title = "ground track from the launch point";
+    snprintf(xl, sizeof xl, "east [%s]", P->ul);
+    snprintf(yl, sizeof yl, "north [%s]", P->ul);
+    a.xlabel = xl;
+    a.ylabel = yl;
+    a.equal = 1;
+    a.xmin = L(P, cx - half);
+    a.xmax = L(P, cx + half);
+    a.ymin = L(P, cy - half);
+    a.ymax = L(P, cy + half);
+    /* the legend in the corner away from the landing point */
+    const sr_profile_body *b0 = &r->body[0];
+    a.key = b0->north >= cy ? (b0->east >= cx ? SR_PLOT_KEY_BOTTOM_LEFT : SR_PLOT_KEY_BOTTOM_RIGHT)
+                            : (b0->east >= cx ? SR_PLOT_KEY_TOP_LEFT : SR_PLOT_KEY_TOP_RIGHT);
+    rc = rc ? rc : sr_plot_set_axes(p, 0, &a);
+    sr_plot_axes_init(&a);
+    a.title = "wind";
+    snprintf(xl2, sizeof xl2, "wind speed [%s]", P->uv);
+    snprintf(yl2, sizeof yl2, "height [%s]", P->ul);
+    a.xlabel = xl2;
+    a.ylabel = yl2;
+    a.ymin = 0;
+    a.key = SR_PLOT_KEY_TOP_LEFT;
+    rc = rc ? rc : sr_plot_set_axes(p, 1, &a);
+    static const char *const COLS[] = {"east", "north"};
+    for (size_t b = 0; b < r->nbodies && !rc; b++) {
+        char bn[256];
+        sr_mission_set_name(m, r->body[b].sections, bn, sizeof bn);
+        size_t blk;
+        if ((rc = sr_plot_block(p, bn, 2, COLS, &blk)))
+            break;
+        for (size_t i = 0; i < tr->n && !rc; i++)
+            if (tr->pt[i].body == (int)b) {
+                double row[] = {L(P, tr->pt[i].east), L(P, tr->pt[i].north)};
+                rc = sr_plot_row(p, blk, row);
+            }
+        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 0, .block = blk, .x = 1, .y = 2, .title = bn,
+                            .color = (int)(b % SR_PLOT_COLORS) + 1};
+        if (!rc)
+            rc = sr_plot_add(p, &s);
+    }
+    /* the wind at the body's height along the track: a segment from each
+     * point in the direction the air moves, a tenth of the map long at the
+     * strongest wind */
+    double wmax = 0.0;
+    for (int i = 0; i <= 60; i++) {
+        double rho, a_, g, we, wn;
+        sr_profile_air(P->ctx, hmax * i / 60, &rho, &a_, &g, &we, &wn);
+        wmax = fmax(wmax, hypot(we, wn));
+    }
+    size_t wb, pb;
+    if (!rc && wmax > 0 && !(rc = sr_plot_block(p, "wind along the track", 2, COLS, &wb))) {
+        double scale = 0.1 * reach / wmax;
+        for (size_t b = 0; b < r->nbodies && !rc; b++) {
+            size_t n = 0, k = 0;
+            for (size_t i = 0; i < tr->n; i++)
+                n += tr->pt[i].body == (int)b;
+            size_t every = n / 14 + 1;
+            for (size_t i = 0; i < tr->n && !rc; i++) {
+                const sr_profile_point *q = &tr->pt[i];
+                if (q->body != (int)b || (k++ % every) != 0)
+                    continue;
+                double rho, a_, g, we, wn;
+                sr_profile_air(P->ctx, q->h, &rho, &a_, &g, &we, &wn);
+                double r0[] = {L(P, q->east), L(P, q->north)};
+                double r1[] = {L(P, q->east + scale * we), L(P, q->north + scale * wn)};
+                double gap[] = {NAN, NAN};
+                if (!(rc = sr_plot_row(p, wb, r0)) && !(rc = sr_plot_row(p, wb, r1)))
+                    rc = sr_plot_row(p, wb, gap);
+            }
         }
-        if (*s == '"' || *s == '\\' || *s == '@' || *s == '&' || *s == '^' || *s == '_' || *s == '{' || *s == '}')
-            fputc('\\', f); /* no enhanced-text markup from names */
-        fputc(*s, f);
+        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 0, .block = wb, .x = 1, .y = 2,
+                            .title = "wind where the body is", .color = 6, .dash = 2};
+        if (!rc)
+            rc = sr_plot_add(p, &s);
     }
-    fputc('"', f);
-}
-
-static int write_mem(sr_cli *c, const char *path, char *buf, size_t len)
-{
-    sr_error e;
-    int rc = sr_file_write_atomic(path, buf, len, &e);
-    free(buf);
-    return rc ? sr_cli_fail(c, "--plot: %s", e.msg) : 0;
-}
-
-static const char *base_name(const char *p)
-{
-    const char *s = strrchr(p, '/');
-    return s ? s + 1 : p;
-}
-
-/* gnuplot, when on PATH, run in the prefix's directory so the script's
- * plain file names hold; its absence is not an error. */
-static int render(sr_cli *c, const char *prefix, const char *gp)
-{
-    const char *path = getenv("PATH");
-    int found = 0;
-    if (path) {
-        char buf[4096];
-        snprintf(buf, sizeof buf, "%s", path);
-        char *save = NULL;
-        for (char *dir = strtok_r(buf, ":", &save); dir && !found; dir = strtok_r(NULL, ":", &save)) {
-            char cand[4200];
-            snprintf(cand, sizeof cand, "%s/gnuplot", *dir ? dir : ".");
-            found = access(cand, X_OK) == 0;
+    /* launch point and landing points */
+    static const char *const PCOLS[] = {"east", "north"};
+    if (!rc && !(rc = sr_plot_block(p, "launch and landing points", 2, PCOLS, &pb))) {
+        double o[] = {0.0, 0.0};
+        rc = sr_plot_row(p, pb, o);
+        for (size_t b = 0; b < r->nbodies && !rc; b++) {
+            double row[] = {L(P, r->body[b].east), L(P, r->body[b].north)};
+            rc = sr_plot_row(p, pb, row);
         }
+        sr_plot_series s = {.kind = SR_PLOT_POINTS, .panel = 0, .block = pb, .x = 1, .y = 2,
+                            .title = "launch, landing", .color = 6};
+        if (!rc)
+            rc = sr_plot_add(p, &s);
     }
-    if (!found)
-        return 0;
-    char dir[4096];
-    snprintf(dir, sizeof dir, "%s", prefix);
-    char *slash = strrchr(dir, '/');
-    if (slash)
-        *slash = '\0';
-    else
-        snprintf(dir, sizeof dir, ".");
-    fflush(c->out);
-    fflush(c->err);
-    pid_t pid = fork();
-    if (pid < 0)
-        return sr_cli_fail(c, "--plot: cannot start gnuplot");
-    if (pid == 0) {
-        if (chdir(dir) != 0 || !freopen("/dev/null", "w", stdout) || !freopen("/dev/null", "w", stderr))
-            _exit(126);
-        execlp("gnuplot", "gnuplot", base_name(gp), (char *)NULL);
-        _exit(127);
+    /* the drift limit as a circle, when it is within reach of the map */
+    static const char *const ECOLS[] = {"east", "north", "width", "height", "angle_deg"};
+    size_t eb;
+    if (!rc && circle && !(rc = sr_plot_block(p, "drift limit", 5, ECOLS, &eb))) {
+        double row[] = {0.0, 0.0, L(P, 2 * m->limit_drift), L(P, 2 * m->limit_drift), 0.0};
+        rc = sr_plot_row(p, eb, row);
+        sr_plot_series s = {.kind = SR_PLOT_ELLIPSES, .panel = 0, .block = eb, .x = 1, .y = 2, .w = 3, .h = 4,
+                            .angle = 5, .title = "drift limit", .color = 2, .dash = 1};
+        if (!rc)
+            rc = sr_plot_add(p, &s);
     }
-    int st = 0;
-    if (waitpid(pid, &st, 0) < 0 || !WIFEXITED(st) || WEXITSTATUS(st) != 0)
-        return sr_cli_fail(c, "--plot: gnuplot failed on %s", gp);
-    return 0;
+    /* the wind profile */
+    static const char *const WCOLS[] = {"height", "speed", "east", "north"};
+    size_t fb;
+    if (!rc && !(rc = sr_plot_block(p, "wind profile", 4, WCOLS, &fb))) {
+        for (int i = 0; i <= 200 && !rc; i++) {
+            double h = hmax * i / 200, rho, a_, g, we, wn;
+            sr_profile_air(P->ctx, h, &rho, &a_, &g, &we, &wn);
+            double row[] = {L(P, h), V(P, hypot(we, wn)), V(P, we), V(P, wn)};
+            rc = sr_plot_row(p, fb, row);
+        }
+        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 2, .y = 1, .title = "speed",
+                            .color = 1};
+        sr_plot_series e = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 3, .y = 1,
+                            .title = "toward east", .color = 3, .dash = 1};
+        sr_plot_series n = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 4, .y = 1,
+                            .title = "toward north", .color = 4, .dash = 2};
+        if (!rc)
+            rc = sr_plot_add(p, &s);
+        if (!rc)
+            rc = sr_plot_add(p, &e);
+        if (!rc)
+            rc = sr_plot_add(p, &n);
+    }
+    for (size_t k = 0; k < m->nstages && !rc; k++)
+        if (r->stage[k].deployed && m->stages[k].deploy == SR_DEPLOY_ALTITUDE)
+            rc = sr_plot_marker(p, 1, 'y', L(P, m->stages[k].deploy_value), m->stages[k].name, 1);
+    return rc;
 }
 
 int sr_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, const sr_profile_result *r,
-                    const sr_profile_track *tr)
+                    const sr_profile_track *tr, int argc, char **argv)
 {
-    sr_unit_system us = c->units;
-    const char *fmt = c->plot_format && strcmp(c->plot_format, "svg") == 0 ? "svg" : "png";
-    char dat[4096], gp[4096], img[4096];
-    snprintf(dat, sizeof dat, "%s.dat", c->plot_prefix);
-    snprintf(gp, sizeof gp, "%s.gp", c->plot_prefix);
-    snprintf(img, sizeof img, "%s.%s", c->plot_prefix, fmt);
-    const char *ul = sr_units_label(SR_Q_LENGTH, us), *uv = sr_units_label(SR_Q_SPEED, us);
-#define L(x) sr_units_from_si((x), SR_Q_LENGTH, us)
-#define V(x) sr_units_from_si((x), SR_Q_SPEED, us)
-
-    char *buf = NULL;
-    size_t len = 0;
-    FILE *f = open_memstream(&buf, &len);
-    if (!f)
+    plot_ctx P = {c, m, ctx, r, tr, sr_units_label(SR_Q_LENGTH, c->units), sr_units_label(SR_Q_SPEED, c->units)};
+    char sub[512], wind[256];
+    sr_wind_describe(&m->wind, wind, sizeof wind);
+    snprintf(sub, sizeof sub, "typical drag; wind: %s", wind);
+    sr_plot *p = sr_plot_new(m->name);
+    if (!p)
         return sr_cli_fail(c, "out of memory");
-    fprintf(f, "# sinkrate profile: %s\n# ", m->name);
-    fputs(sr_report_caution(), f);
-    fputc('\n', f);
-    /* index 0 .. nbodies-1: the track of each body */
-    double emin = 0, emax = 0, nmin = 0, nmax = 0, hmax = m->start_height;
-    for (size_t b = 0; b < r->nbodies; b++) {
-        char bn[256];
-        sr_mission_set_name(m, r->body[b].sections, bn, sizeof bn);
-        fprintf(f, "%s# index %zu: track of %s: time [s], height [%s], east [%s], north [%s], airspeed [%s], "
-                   "descent rate [%s]\n",
-                b ? "\n\n" : "", b, bn, ul, ul, ul, uv, uv);
-        for (size_t i = 0; i < tr->n; i++) {
-            const sr_profile_point *p = &tr->pt[i];
-            if (p->body != (int)b)
-                continue;
-            fprintf(f, "%.6g %.6g %.6g %.6g %.6g %.6g\n", p->t, L(p->h), L(p->east), L(p->north), V(p->speed),
-                    V(p->rate));
-            emin = fmin(emin, p->east);
-            emax = fmax(emax, p->east);
-            nmin = fmin(nmin, p->north);
-            nmax = fmax(nmax, p->north);
-            hmax = fmax(hmax, p->h);
-        }
+    int rc = sr_plot_subtitle(p, sub);
+    rc = rc ? rc : time_figure(&P, p);
+    if (rc) {
+        sr_plot_free(p);
+        return sr_cli_fail(c, "--plot: out of memory");
     }
-    size_t ib = r->nbodies;
-    fprintf(f, "\n\n# index %zu: events: time [s], height [%s], east [%s], north [%s], label\n", ib, ul, ul, ul);
-    for (size_t i = 0; i < r->nevents; i++) {
-        const sr_profile_event *e = &r->events[i];
-        if (e->kind != SR_EVENT_DEPLOY && e->kind != SR_EVENT_TOUCHDOWN)
-            continue;
-        char lab[160];
-        if (e->kind == SR_EVENT_DEPLOY)
-            snprintf(lab, sizeof lab, "%s", m->stages[e->stage].name);
-        else
-            snprintf(lab, sizeof lab, "touchdown");
-        for (char *q = lab; *q; q++)
-            if (*q == '"')
-                *q = '\'';
-        fprintf(f, "%.6g %.6g %.6g %.6g \"%s\"\n", e->t, L(e->h), L(e->east), L(e->north), lab);
-    }
-    /* the wind along each track: arrows scaled to a tenth of the map */
-    double span = fmax(fmax(emax - emin, nmax - nmin), 1.0), wmax = 0;
-    const int NW = 60;
-    for (int i = 0; i <= NW; i++) {
-        double rho, a, g, we, wn;
-        sr_profile_air(ctx, hmax * i / NW, &rho, &a, &g, &we, &wn);
-        wmax = fmax(wmax, hypot(we, wn));
-    }
-    double scale = wmax > 0 ? 0.1 * span / wmax : 0;
-    fprintf(f, "\n\n# index %zu: wind along the tracks (arrows, %.3g %s per %s): east, north, d east, d north\n",
-            ib + 1, L(scale), ul, uv);
-    for (size_t b = 0; b < r->nbodies; b++) {
-        size_t n = 0, every;
-        for (size_t i = 0; i < tr->n; i++)
-            n += tr->pt[i].body == (int)b;
-        every = n / 12 + 1;
-        for (size_t i = 0, k = 0; i < tr->n; i++) {
-            const sr_profile_point *p = &tr->pt[i];
-            if (p->body != (int)b || (k++ % every) != 0)
-                continue;
-            double rho, a, g, we, wn;
-            sr_profile_air(ctx, p->h, &rho, &a, &g, &we, &wn);
-            fprintf(f, "%.6g %.6g %.6g %.6g\n", L(p->east), L(p->north), L(we * scale), L(wn * scale));
-        }
-    }
-    fprintf(f, "\n\n# index %zu: wind profile: height [%s], speed [%s], from [deg]\n", ib + 2, ul, uv);
-    for (int i = 0; i <= 200; i++) {
-        double h = hmax * i / 200, rho, a, g, we, wn, s, from;
-        sr_profile_air(ctx, h, &rho, &a, &g, &we, &wn);
-        sr_wind_polar(we, wn, &s, &from);
-        fprintf(f, "%.6g %.6g %.6g\n", L(h), V(s), s > 0 ? from * 180 / PI : NAN);
-    }
-    fclose(f);
-    int rc = write_mem(c, dat, buf, len);
+    rc = sr_cli_plot(c, p, argc, argv);
+    sr_plot_free(p);
     if (rc)
         return rc;
-
-    buf = NULL;
-    len = 0;
-    f = open_memstream(&buf, &len);
-    if (!f)
+    /* the second figure: PREFIX-track */
+    const char *prefix = c->plot_prefix;
+    char tprefix[4096];
+    snprintf(tprefix, sizeof tprefix, "%s-track", prefix);
+    p = sr_plot_new(m->name);
+    if (!p)
         return sr_cli_fail(c, "out of memory");
-    const char *d = base_name(dat);
-    fprintf(f, "# sinkrate profile: the staged descent of a mission (gnuplot script; run it in this directory)\n# ");
-    fputs(sr_report_caution(), f);
-    fprintf(f, "\nif (!exists(\"out\")) out = ");
-    gp_quote(f, base_name(img));
-    if (strcmp(fmt, "svg") == 0)
-        fprintf(f, "\nset terminal svg size 1200,900 dynamic font \"sans,11\" background rgb \"white\"\n");
-    else
-        fprintf(f, "\nset terminal pngcairo size 1200,900 font \"sans,10\"\n");
-    fprintf(f, "set output out\nset datafile commentschars \"#\"\nset grid lc rgb \"#dddddd\"\nset key top right\n");
-    fprintf(f, "set multiplot layout 2,2 title ");
-    char title[600];
-    snprintf(title, sizeof title, "%s\n%s", m->name, sr_report_caution());
-    /* the caution wraps onto the title's second line at ~150 characters */
-    char wrapped[800];
-    size_t w = 0, col = 0;
-    for (const char *p = title; *p && w < sizeof wrapped - 2; p++) {
-        if (*p == '\n')
-            col = 0;
-        if (*p == ' ' && col > 140) {
-            wrapped[w++] = '\n';
-            col = 0;
-            continue;
-        }
-        wrapped[w++] = *p;
-        col++;
+    rc = sr_plot_subtitle(p, sub);
+    rc = rc ? rc : track_figure(&P, p);
+    if (rc) {
+        sr_plot_free(p);
+        return sr_cli_fail(c, "--plot: out of memory");
     }
-    wrapped[w] = '\0';
-    gp_quote(f, wrapped);
-    fprintf(f, " font \",10\"\n");
-    /* colours by body */
-    static const char *const COL[] = {"#1f5fa8", "#c0392b", "#2e8b57", "#8e44ad", "#d35400", "#16a085", "#7f8c8d",
-                                      "#b7950b"};
-    fprintf(f, "\nset title \"height above ground\"\nset xlabel \"time [s]\"\nset ylabel \"height [%s]\"\n", ul);
-    fprintf(f, "plot ");
-    for (size_t b = 0; b < r->nbodies; b++) {
-        char bn[256];
-        sr_mission_set_name(m, r->body[b].sections, bn, sizeof bn);
-        fprintf(f, "\"%s\" index %zu using 1:2 with lines lw 2 lc rgb \"%s\" title ", d, b, COL[b % 8]);
-        gp_quote(f, bn);
-        fprintf(f, ", \\\n     ");
-    }
-    fprintf(f, "\"%s\" index %zu using 1:2 with points pt 7 ps 0.8 lc rgb \"black\" notitle, \\\n     "
-               "\"%s\" index %zu using 1:2:5 with labels offset 1,0.6 left font \",8\" notitle\n",
-            d, ib, d, ib);
-    fprintf(f, "\nset title \"speed\"\nset xlabel \"time [s]\"\nset ylabel \"speed [%s]\"\nset yrange [0:*]\nplot ", uv);
-    for (size_t b = 0; b < r->nbodies; b++)
-        fprintf(f, "\"%s\" index %zu using 1:($6>0?$6:1/0) with lines lw 2 lc rgb \"%s\" title \"descent rate%s\", "
-                   "\\\n     \"%s\" index %zu using 1:5 with lines dt 2 lc rgb \"%s\" title \"airspeed%s\", \\\n     ",
-                d, b, COL[b % 8], b ? " (separated)" : "", d, b, COL[b % 8], b ? " (separated)" : "");
-    if (!isnan(m->limit_speed))
-        fprintf(f, "%.6g with lines dt 3 lc rgb \"#c0392b\" title \"touchdown limit\"\n", V(m->limit_speed));
-    else
-        fprintf(f, "1/0 notitle\n");
-    fprintf(f, "set autoscale y\n");
-    fprintf(f, "\nset title \"ground track, with the wind at the body's height\"\nset xlabel \"east [%s]\"\n"
-               "set ylabel \"north [%s]\"\nset size ratio -1\nset key bottom right\n",
-            ul, ul);
-    double reach = fmax(fmax(-emin, emax), fmax(-nmin, nmax));
-    if (!isnan(m->limit_drift) && m->limit_drift < 2.5 * reach) {
-        /* the limit circle around the launch point, and room for it (when it is not far off) */
-        double R = 1.05 * fmax(m->limit_drift, reach);
-        fprintf(f, "set object 1 circle at 0,0 size %.6g fs empty border rgb \"#c0392b\" dt 3\n", L(m->limit_drift));
-        fprintf(f, "set xrange [%.6g:%.6g]\nset yrange [%.6g:%.6g]\n", L(-R), L(R), L(-R), L(R));
-        fprintf(f, "set label 1 \"drift limit\" at first %.6g, first %.6g center textcolor rgb \"#c0392b\" "
-                   "font \",8\"\n",
-                0.0, L(m->limit_drift * 0.92));
-    }
-    fprintf(f, "plot ");
-    for (size_t b = 0; b < r->nbodies; b++)
-        fprintf(f, "\"%s\" index %zu using 3:4 with lines lw 2 lc rgb \"%s\" notitle, \\\n     ", d, b, COL[b % 8]);
-    fprintf(f, "\"%s\" index %zu using 1:2:3:4 with vectors head filled size screen 0.008,20 lc rgb \"#7f8c8d\" "
-               "title \"wind\", \\\n     "
-               "\"%s\" index %zu using 3:4 with points pt 7 ps 0.8 lc rgb \"black\" notitle, \\\n     "
-               "\"+\" using (0):(0) every ::0::0 with points pt 2 ps 2 lc rgb \"black\" title \"launch point\"\n",
-            d, ib + 1, d, ib);
-    fprintf(f, "unset object 1\nunset label 1\nset autoscale xy\n");
-    fprintf(f, "set size noratio\nset key top right\n");
-    fprintf(f, "\nset title \"wind\"\nset xlabel \"speed [%s]\"\nset ylabel \"height [%s]\"\nset x2label "
-               "\"direction it blows from [deg]\"\nset x2tics 0,90,360\nset x2range [0:360]\nplot \"%s\" index %zu "
-               "using 2:1 with lines lw 2 lc rgb \"#1f5fa8\" title \"speed\", \\\n     \"%s\" index %zu using 3:1 "
-               "axes x2y1 with lines dt 2 lc rgb \"#d35400\" title \"from\"\n",
-            uv, ul, d, ib + 2, d, ib + 2);
-    fprintf(f, "unset multiplot\n");
-    fclose(f);
-    if ((rc = write_mem(c, gp, buf, len)))
-        return rc;
-    return render(c, c->plot_prefix, gp);
-#undef L
-#undef V
+    c->plot_prefix = tprefix;
+    rc = sr_cli_plot(c, p, argc, argv);
+    c->plot_prefix = prefix;
+    sr_plot_free(p);
+    return rc;
 }

@@ -6,10 +6,12 @@
 #include "mission.h"
 #include "profile.h"
 
-/* Write PREFIX.dat and PREFIX.gp (height and speed against time, the ground
- * track with the wind along it, the wind profile) and render PREFIX.png or
- * .svg when gnuplot is on PATH. Returns an exit code. */
+/* Two figures through the plot module: PREFIX (height, descent rate and
+ * airspeed against time, deployments marked) and PREFIX-track (the ground
+ * track with the wind along it and the drift limit; the wind profile).
+ * argv is the command's argument list for the scripts' headers. Returns an
+ * exit code. */
 int sr_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, const sr_profile_result *r,
-                    const sr_profile_track *tr);
+                    const sr_profile_track *tr, int argc, char **argv);
 
 #endif
