@@ -162,6 +162,7 @@ static sr_profile_event *add_event(run *R, sr_event_kind kind, int stage, const 
     e->kind = kind;
     e->stage = stage;
     e->body = b->idx;
+    e->sections = b->secs;
     e->t = b->t;
     e->h = b->y[2];
     e->east = b->y[0];

@@ -81,6 +81,7 @@ typedef struct sr_profile_event {
     sr_event_kind kind;
     int stage;           /* stage index, -1 for start and touchdown */
     int body;            /* index into sr_profile_result.body */
+    sr_section_set sections; /* the body's sections at that moment (a separation changes them) */
     double t;            /* s from the start */
     double h;            /* m above ground */
     double east, north;  /* m from the launch / release point */

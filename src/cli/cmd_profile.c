@@ -294,10 +294,10 @@ static void report_timeline(sr_report *r, const sr_mission *m, const sr_profile_
             snprintf(ev, sizeof ev, "deployment FAILS");
         else if (e->kind == SR_EVENT_DEPLOY && e->stage >= 0 && p->stage[e->stage].body != e->body)
             snprintf(ev, sizeof ev, "deployment, separation");
-        body_name(m, p, e->body, bn, sizeof bn);
-        if (e->kind == SR_EVENT_DEPLOY && e->stage >= 0 && p->stage[e->stage].body >= 0 &&
+        sr_mission_set_name(m, e->sections, bn, sizeof bn);
+        if (e->kind == SR_EVENT_DEPLOY && e->stage >= 0 && p->stage[e->stage].deployed &&
             p->stage[e->stage].body != e->body)
-            body_name(m, p, p->stage[e->stage].body, bn, sizeof bn);
+            sr_mission_set_name(m, m->stages[e->stage].carries, bn, sizeof bn); /* the part that separates */
         double row[] = {e->t, e->h, e->speed, e->rate, e->q, e->mach};
         const char *txt[] = {ev, st, bn};
         sr_rtable_row(t, row, txt);
