@@ -3,6 +3,7 @@
  * adaptive ODE, the steady stages by quadrature, touchdown and the results. */
 #include <gsl/gsl_errno.h>
 #include <math.h>
+#include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -958,7 +959,10 @@ int profile_run(const sr_profile_ctx *c, const sr_profile_perturb *p, sr_profile
     }
     for (size_t i = 0; i < c->nsec; i++)
         R.sec_mass[i] = c->sec_mass[i] * R.p.mass_scale;
-    memset(r, 0, sizeof *r);
+    /* everything but the event array, which is filled up to nevents (it is
+     * most of the struct, and the Monte Carlo path runs this per sample) */
+    memset(r, 0, offsetof(sr_profile_result, events));
+    memset((char *)r + offsetof(sr_profile_result, nstages), 0, sizeof *r - offsetof(sr_profile_result, nstages));
     r->mode = mode;
     r->nstages = c->nstg;
     for (size_t k = 0; k < c->nstg; k++) {
