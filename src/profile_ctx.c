@@ -251,7 +251,8 @@ void ctx_air(const sr_profile_ctx *c, double h, double *rho, double *a, double *
         *g = c->g[i] + t * (c->g[i + 1] - c->g[i]);
 }
 
-/* Cubic Hermite on the cumulative integral with the integrand as slope. */
+/* Cubic Hermite on the cumulative integral with the integrand as slope:
+ * GSL's interpolators take no given slopes and want an accelerator. */
 static inline double hermite(double y0, double y1, double d0, double d1, double dh, double t)
 {
     double t2 = t * t, t3 = t2 * t;
@@ -303,7 +304,8 @@ double ctx_height_for_I(const sr_profile_ctx *c, double target)
         else
             hi = mid;
     }
-    /* Newton on the cell's cubic, kept inside the cell by bisection */
+    /* Newton on the cell's cubic, kept inside the cell by bisection (a GSL root
+     * solver would be allocated per call, on the per-sample path) */
     double a = 0.0, b = 1.0, t = (target - c->I[lo]) / (c->I[lo + 1] - c->I[lo]);
     for (int it = 0; it < 30; it++) {
         double v = hermite(c->I[lo], c->I[lo + 1], c->f[lo], c->f[lo + 1], c->dh, t) - target;
