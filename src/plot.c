@@ -41,6 +41,12 @@ typedef struct pmarker {
     int style;
 } pmarker;
 
+typedef struct plabel {
+    int panel;
+    double x, y;
+    char *text;
+} plabel;
+
 typedef struct paxes {
     char *title, *xlabel, *ylabel;
     int xlog, ylog, equal, xtight, ytight;
@@ -58,6 +64,8 @@ struct sr_plot {
     size_t nseries;
     pmarker *markers;
     size_t nmarkers;
+    plabel *labels;
+    size_t nlabels;
     int next_color;
 };
 
@@ -107,6 +115,9 @@ void sr_plot_free(sr_plot *p)
     for (size_t i = 0; i < p->nmarkers; i++)
         free(p->markers[i].label);
     free(p->markers);
+    for (size_t i = 0; i < p->nlabels; i++)
+        free(p->labels[i].text);
+    free(p->labels);
     for (int i = 0; i < SR_PLOT_MAX_PANELS; i++) {
         free(p->axes[i].title);
         free(p->axes[i].xlabel);
@@ -277,6 +288,25 @@ int sr_plot_marker(sr_plot *p, int panel, char axis, double value, const char *l
     if (label && !m->label)
         return SR_ENOMEM;
     p->nmarkers++;
+    return SR_OK;
+}
+
+int sr_plot_label(sr_plot *p, int panel, double x, double y, const char *text)
+{
+    if (panel < 0 || panel >= SR_PLOT_MAX_PANELS || !isfinite(x) || !isfinite(y) || !text || p->nlabels >= 32)
+        return SR_EINVAL;
+    plabel *n = realloc(p->labels, (p->nlabels + 1) * sizeof *n);
+    if (!n)
+        return SR_ENOMEM;
+    p->labels = n;
+    plabel *l = &p->labels[p->nlabels];
+    l->panel = panel;
+    l->x = x;
+    l->y = y;
+    l->text = strdup(text);
+    if (!l->text)
+        return SR_ENOMEM;
+    p->nlabels++;
     return SR_OK;
 }
 
@@ -654,6 +684,16 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
         }
         tag++;
     }
+    for (size_t i = 0; i < p->nlabels; i++) {
+        const plabel *l = &p->labels[i];
+        if (l->panel != panel)
+            continue;
+        fprintf(f, "set label %d ", tag++);
+        gpq(f, l->text);
+        fprintf(f, " at first %.9g, first %.9g left offset 0.8,0.6 front noenhanced textcolor rgb sr_ink "
+                   "font sprintf('%%s,%%d', sr_font, sr_small + 1)\n",
+                l->x, l->y);
+    }
     /* bands under bars under ellipses under lines under points */
     int first = 1;
     fputs("plot", f);
@@ -672,10 +712,10 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
                 fprintf(f, "using %d:%d with lines lt %d dt %d", s->x, s->y, lt, dt);
                 break;
             case SR_PLOT_POINTS:
-                fprintf(f, "using %d:%d with points lt %d", s->x, s->y, lt);
+                fprintf(f, "using %d:%d with points lt %d%s", s->x, s->y, lt, s->open ? " pt 6" : "");
                 break;
             case SR_PLOT_LINESPOINTS:
-                fprintf(f, "using %d:%d with linespoints lt %d dt %d", s->x, s->y, lt, dt);
+                fprintf(f, "using %d:%d with linespoints lt %d dt %d%s", s->x, s->y, lt, dt, s->open ? " pt 6" : "");
                 break;
             case SR_PLOT_BAND:
                 if (s->outline)
@@ -756,7 +796,7 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
     for (size_t i = 0; i < p->nseries; i++)
         if (p->series[i].title)
             fprintf(f, "%s%d", k++ ? ", " : "", p->series[i].s.dash + 1);
-    /* 0 line, 1 line over a band patch, 2 point, 3 box */
+    /* 0 line, 1 line over a band patch, 2 point, 3 box, 4 open point */
     fprintf(f, "]\narray sr_key_kind[%zu] = [", n);
     k = 0;
     for (size_t i = 0; i < p->nseries; i++) {
@@ -765,7 +805,7 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
             continue;
         int kind = 0;
         if (s->kind == SR_PLOT_POINTS)
-            kind = 2;
+            kind = s->open ? 4 : 2;
         else if (s->kind == SR_PLOT_BOXES || s->kind == SR_PLOT_ELLIPSES || s->kind == SR_PLOT_BAND ||
                  s->kind == SR_PLOT_BAND_X)
             kind = 3;
@@ -801,6 +841,10 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
                "    }\n"
                "    if (sr_key_kind[i] == 2) {\n"
                "        set label 300 + i '' at screen (sr_x + 14) / width, screen sr_y / height point lt sr_key_lt[i]\n"
+               "    }\n"
+               "    if (sr_key_kind[i] == 4) {\n"
+               "        set label 300 + i '' at screen (sr_x + 14) / width, screen sr_y / height point lt sr_key_lt[i] "
+               "pt 6\n"
                "    }\n"
                "    set label 200 + i sr_key_text[i] at screen (sr_x + 36) / width, screen sr_y / height left "
                "noenhanced textcolor rgb sr_ink\n"
@@ -895,8 +939,8 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
           "font sprintf('%s,%d', sr_font, sr_titlesize) textcolor rgb sr_ink\n",
           f);
     if (p->subtitle) {
-        /* wrapped to the width (10 pt is about 6.3 px a character); each further line pushes the panels down */
-        size_t chars = (size_t)((o->width - 24) / 6.3);
+        /* wrapped to the width (10 pt is about 6.3 px a character, 6.8 with wide letters); each further line pushes the panels down */
+        size_t chars = (size_t)((o->width - 24) / 6.8);
         fputs("set label 102 ", f);
         int n = wrap_lines(p->subtitle, chars < 40 ? 40 : chars, emit_gp_piece, f);
         fputs(" at screen 12.0 / width, screen 1 - 52.0 / height left front noenhanced "

@@ -109,3 +109,20 @@ int sr_test_lines(const char *s)
             n++;
     return n;
 }
+
+int sr_test_png_size(const char *path, unsigned *w, unsigned *h)
+{
+    FILE *f = fopen(path, "rb");
+    if (!f)
+        return 0;
+    unsigned char b[24];
+    size_t n = fread(b, 1, sizeof b, f);
+    fclose(f);
+    static const unsigned char SIG[8] = {0x89, 'P', 'N', 'G', 0x0d, 0x0a, 0x1a, 0x0a};
+    /* the first chunk is IHDR, 13 bytes long */
+    if (n < 24 || memcmp(b, SIG, 8) != 0 || memcmp(b + 8, "\0\0\0\x0dIHDR", 8) != 0)
+        return 0;
+    *w = (unsigned)b[16] << 24 | (unsigned)b[17] << 16 | (unsigned)b[18] << 8 | b[19];
+    *h = (unsigned)b[20] << 24 | (unsigned)b[21] << 16 | (unsigned)b[22] << 8 | b[23];
+    return 1;
+}

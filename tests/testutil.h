@@ -35,4 +35,10 @@ const char *sr_test_tmpfile(const char *suffix, const char *text);
 /* Count newline-terminated lines of s. */
 int sr_test_lines(const char *s);
 
+/* The source of figure checks: a PNG starts with its signature and the IHDR
+ * chunk, which holds the width and height. */
+#define SR_SRC_PNG "PNG specification (W3C REC / ISO/IEC 15948:2004) sec. 5.2 signature, 11.2.2 IHDR"
+/* Width and height of a PNG file from its IHDR chunk; 0 when it is not a PNG. */
+int sr_test_png_size(const char *path, unsigned *w, unsigned *h);
+
 #endif
