@@ -126,3 +126,41 @@ int sr_test_png_size(const char *path, unsigned *w, unsigned *h)
     *h = (unsigned)b[20] << 24 | (unsigned)b[21] << 16 | (unsigned)b[22] << 8 | b[23];
     return 1;
 }
+
+int sr_test_file_has(const char *path, const char *text)
+{
+    FILE *f = fopen(path, "r");
+    if (!f)
+        return 0;
+    char line[4096];
+    int found = 0;
+    while (!found && fgets(line, sizeof line, f))
+        found = strstr(line, text) != NULL;
+    fclose(f);
+    return found;
+}
+
+int sr_test_dat_rows(const char *path, int block)
+{
+    FILE *f = fopen(path, "r");
+    if (!f)
+        return -1;
+    char head[32], line[4096];
+    snprintf(head, sizeof head, "# [%d] ", block);
+    int in = 0, rows = -1;
+    while (fgets(line, sizeof line, f)) {
+        if (!in) {
+            if (strncmp(line, head, strlen(head)) == 0) {
+                in = 1;
+                rows = 0;
+            }
+            continue;
+        }
+        if (line[0] == '\n')
+            break;
+        if (line[0] != '#')
+            rows++;
+    }
+    fclose(f);
+    return rows;
+}

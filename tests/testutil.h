@@ -41,4 +41,10 @@ int sr_test_lines(const char *s);
 /* Width and height of a PNG file from its IHDR chunk; 0 when it is not a PNG. */
 int sr_test_png_size(const char *path, unsigned *w, unsigned *h);
 
+/* Whether the file at path contains text (0 when it cannot be read). */
+int sr_test_file_has(const char *path, const char *text);
+/* Data rows of block N (headed "# [N]") of a figure's .dat file; -1 when the
+ * file or the block is missing. */
+int sr_test_dat_rows(const char *path, int block);
+
 #endif
