@@ -449,6 +449,11 @@ static void write_data(FILE *f, const sr_plot *p, const char *name)
         }
         fputc('\n', f);
         write_block_rows(f, b);
+        /* gnuplot reads a block without rows as no block at all, which would
+         * shift the index of every later one: one row of gaps holds its place */
+        if (b->nrows == 0)
+            for (size_t c = 0; c < b->ncols; c++)
+                fputs(c + 1 < b->ncols ? "NaN " : "NaN\n", f);
     }
     /* a band with the spread along x is drawn as a closed outline: low side
      * going up, high side coming back */
@@ -597,6 +602,41 @@ static void write_range(FILE *f, const sr_plot *p, int panel, char axis, double 
     fputs("]\n", f);
 }
 
+/* Tics of one axis: a log axis has its minor tics at 2..9 of each decade;
+ * over three decades or more its labels are powers of ten, over fewer it
+ * gets labelled tics at 2 and 5 of each decade too. A linear axis keeps the
+ * style's. Each panel sets its own: panels share gnuplot's state. */
+static void write_log_tics(FILE *f, const sr_plot *p, int panel, char axis, int log, double lo, double hi)
+{
+    fprintf(f, "set %ctics autofreq\n", axis);
+    if (!log) {
+        fprintf(f, "set m%ctics sr_minor\nset format %c sr_format\n", axis, axis);
+        return;
+    }
+    double dlo, dhi;
+    data_extent(p, panel, axis, &dlo, &dhi);
+    if (!isnan(lo))
+        dlo = lo;
+    if (!isnan(hi))
+        dhi = hi;
+    int known = dlo > 0 && dhi > dlo && isfinite(dhi);
+    int wide = known && log10(dhi / dlo) >= 3 - 1e-9;
+    fprintf(f, "set m%ctics default\nset format %c %s\n", axis, axis, wide ? "'10^{%L}'" : "sr_format");
+    if (!known || wide)
+        return;
+    fprintf(f, "set %ctics add (", axis);
+    int first = 1;
+    for (int k = (int)floor(log10(dlo)); k <= (int)ceil(log10(dhi)); k++)
+        for (int m = 2; m <= 5; m += 3) {
+            double t = m * pow(10.0, k);
+            if (t >= dlo * (1 - 1e-9) && t <= dhi * (1 + 1e-9)) {
+                fprintf(f, "%s%.9g", first ? "" : ", ", t);
+                first = 0;
+            }
+        }
+    fputs(first ? "1)\n" : ")\n", f);
+}
+
 static size_t titled_series(const sr_plot *p)
 {
     size_t n = 0;
@@ -647,6 +687,8 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
     gpq(f, a->ylabel ? a->ylabel : "");
     fputs(" noenhanced\n", f);
     fprintf(f, "%s logscale x\n%s logscale y\n", a->xlog ? "set" : "unset", a->ylog ? "set" : "unset");
+    write_log_tics(f, p, panel, 'x', a->xlog, a->xmin, a->xmax);
+    write_log_tics(f, p, panel, 'y', a->ylog, a->ymin, a->ymax);
     fputs(a->equal ? "set size ratio -1\n" : "set size noratio\n", f);
     write_range(f, p, panel, 'x', a->xmin, a->xmax);
     write_range(f, p, panel, 'y', a->ymin, a->ymax);
@@ -690,7 +732,7 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
             continue;
         fprintf(f, "set label %d ", tag++);
         gpq(f, l->text);
-        fprintf(f, " at first %.9g, first %.9g left offset 0.8,0.6 front noenhanced textcolor rgb sr_ink "
+        fprintf(f, " at first %.9g, first %.9g left offset 0.8,0.6 front boxed noenhanced textcolor rgb sr_ink "
                    "font sprintf('%%s,%%d', sr_font, sr_small + 1)\n",
                 l->x, l->y);
     }
@@ -896,7 +938,7 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
     fputs("# plain defaults; the shared style below sets the real look\n"
           "sr_font = 'Sans'; sr_fontsize = 11; sr_titlesize = 14; sr_small = 8\n"
           "sr_paper = '#ffffff'; sr_ink = '#000000'; sr_muted = '#555555'; sr_band_opacity = 0.2\n"
-          "sr_ml = 90; sr_mr = 30; sr_mt = 80; sr_mb = 100; sr_gap = 80\n"
+          "sr_ml = 90; sr_mr = 30; sr_mt = 80; sr_mb = 100; sr_gap = 80; sr_minor = 2; sr_format = '%g'\n"
           "set style textbox opaque noborder\n",
           f);
     if (style_ok) {
@@ -956,7 +998,7 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
         if (p->axes[k].title && p->axes[k].title[0])
             titled = 1;
     if (titled)
-        fputs("sr_mt = sr_mt + 26   # room for the panel titles\n", f);
+        fputs("sr_mt = sr_mt + 32   # room for the panel titles\n", f);
     int vlabels = 0;
     for (size_t i = 0; i < p->nmarkers; i++)
         if (p->markers[i].axis == 'x' && p->markers[i].label)

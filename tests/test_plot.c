@@ -232,7 +232,8 @@ static void test_stacked_outlined(void **state)
 }
 
 /* Log-log axes with a curve, filled and open points and labels beside
- * points: the script asks for what was set, and gnuplot draws it silently. */
+ * points, after a block without rows: the script asks for what was set, and
+ * gnuplot draws it without a warning (a lost index warns of no valid points). */
 static void test_log_axes_open_points_labels(void **state)
 {
     (void)state;
@@ -256,6 +257,8 @@ static void test_log_axes_open_points_labels(void **state)
         sr_plot_row(p, curve, r);
     }
     double f[2] = {1e4, 0.47}, o[2] = {3e5, 0.2};
+    size_t none;
+    assert_int_equal(sr_plot_block(p, "a block without rows keeps its index", 2, n, &none), 0);
     assert_int_equal(sr_plot_block(p, "filled", 2, n, &filled), 0);
     assert_int_equal(sr_plot_row(p, filled, f), 0);
     assert_int_equal(sr_plot_block(p, "open", 2, n, &open), 0);
