@@ -760,36 +760,12 @@ static void build_report(run *R, sr_report *r)
 /* The atmosphere in a few words, for the figure's subtitle. */
 static void short_atmos(const run *R, char *buf, size_t len)
 {
-    sr_unit_system sys = R->c->units;
     const sr_atmos *m = &R->atm;
-    char z[48], p[48];
     if (uses(R, SR_SWEEP_TEMP_OFFSET) && uses(R, SR_SWEEP_SITE_ELEVATION)) {
         snprintf(buf, len, "each site at standard pressure; \u0394T: temperature offset from standard");
         return;
     }
-    switch (m->kind) {
-    case SR_ATMOS_STANDARD:
-        snprintf(buf, len, "U.S. Standard Atmosphere 1976");
-        break;
-    case SR_ATMOS_OFFSET:
-        snprintf(buf, len, "standard atmosphere %+.0f K", m->dT);
-        break;
-    case SR_ATMOS_SITE: {
-        sr_report_format_value(z, sizeof z, m->site_z, SR_Q_LENGTH, sys, SR_FIXED(0));
-        double T = sys == SR_UNITS_US ? (m->site_T - 273.15) * 1.8 + 32.0 : m->site_T - 273.15;
-        if (sys == SR_UNITS_US)
-            snprintf(p, sizeof p, "%.2f inHg", m->site_p / 3386.389);
-        else
-            snprintf(p, sizeof p, "%.0f hPa", m->site_p / 100.0);
-        snprintf(buf, len, "site %s, %.1f %s, %s", z, T, sys == SR_UNITS_US ? "\u00b0F" : "\u00b0C", p);
-        break;
-    }
-    case SR_ATMOS_SOUNDING: {
-        const char *b = strrchr(m->source, '/');
-        snprintf(buf, len, "sounding %s", b ? b + 1 : m->source);
-        break;
-    }
-    }
+    sr_cli_atmos_short(m, R->c->units, buf, len);
     if (uses(R, SR_SWEEP_TEMP_OFFSET) && m->kind != SR_ATMOS_SITE)
         snprintf(buf, len, "U.S. Standard Atmosphere 1976; \u0394T: temperature offset from standard");
     else if (uses(R, SR_SWEEP_TEMP_OFFSET))

@@ -603,6 +603,36 @@ void sr_cli_report_atmos(sr_report *r, const sr_atmos *m)
     }
 }
 
+void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t len)
+{
+    char z[48], p[48];
+    switch (m->kind) {
+    case SR_ATMOS_STANDARD:
+        snprintf(buf, len, "U.S. Standard Atmosphere 1976");
+        break;
+    case SR_ATMOS_OFFSET:
+        snprintf(buf, len, "standard atmosphere %+.0f K", m->dT);
+        break;
+    case SR_ATMOS_SITE: {
+        sr_report_format_value(z, sizeof z, m->site_z, SR_Q_LENGTH, sys, SR_FIXED(0));
+        double T = sys == SR_UNITS_US ? (m->site_T - 273.15) * 1.8 + 32.0 : m->site_T - 273.15;
+        if (sys == SR_UNITS_US)
+            snprintf(p, sizeof p, "%.2f inHg", m->site_p / 3386.389);
+        else
+            snprintf(p, sizeof p, "%.0f hPa", m->site_p / 100.0);
+        snprintf(buf, len, "site %s, %.1f %s, %s", z, T, sys == SR_UNITS_US ? "\u00b0F" : "\u00b0C", p);
+        break;
+    }
+    case SR_ATMOS_SOUNDING: {
+        const char *b = strrchr(m->source, '/');
+        snprintf(buf, len, "sounding %s", b ? b + 1 : m->source);
+        break;
+    }
+    default:
+        snprintf(buf, len, "atmosphere");
+    }
+}
+
 int sr_cli_emit(sr_cli *c, const sr_report *r)
 {
     char *buf = NULL;

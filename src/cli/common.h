@@ -122,6 +122,8 @@ int sr_cli_canopy_given(const sr_canopy_opts *o);
 void sr_cli_report_canopy(sr_report *r, const sr_canopy *cp);
 /* Describe the atmosphere. */
 void sr_cli_report_atmos(sr_report *r, const sr_atmos *m);
+/* The atmosphere in a few words, for a figure's subtitle. */
+void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t len);
 
 /* Render the report in the chosen format to stdout or -o FILE (atomically). */
 int sr_cli_emit(sr_cli *c, const sr_report *r);
