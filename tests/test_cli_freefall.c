@@ -1,14 +1,15 @@
 /* test_cli_freefall.c - `sinkrate freefall` run in-process: every
- * equilibrium in text, CSV and JSON, the trace, the figure files, and the
- * exit codes for bad input and impossible requests. */
+ * equilibrium in text, CSV and JSON, the trace, the figure (PNG, or data and
+ * script without gnuplot), and the exit codes for bad input and impossible
+ * requests. */
 #include <jansson.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <unistd.h>
 
 #include "atmos.h"
+#include "plot.h"
 #include "testutil.h"
 
 #define PI 3.14159265358979323846
@@ -207,44 +208,80 @@ static void test_trace(void **state)
     remove(path);
 }
 
+/* freefall --diameter 0.2 --mass 0.5 at the altitudes given, with --plot
+ * PREFIX (gnuplot hidden when hide); the JSON report's equilibria counted. */
+static void run_plot(const char *prefix, int hide, const char *altitudes, int *n, int *nstable)
+{
+    char *a[] = {"freefall", "--diameter", "0.2", "--mass", "0.5", "--altitude", (char *)altitudes, "--format",
+                 "json", "--plot", (char *)prefix, "--plot-size", "800x500", NULL};
+    char *old = strdup(getenv("PATH") ? getenv("PATH") : "");
+    if (hide)
+        setenv("PATH", "/nonexistent", 1);
+    char *out, *err;
+    int rc = run(&out, &err, a);
+    setenv("PATH", old, 1);
+    free(old);
+    if (rc)
+        fail_msg("exit %d: %s", rc, err);
+    if (hide)
+        assert_non_null(strstr(err, "gnuplot is not on PATH"));
+    else if (strstr(err, "gnuplot:"))
+        fail_msg("gnuplot warned: %s", err);
+    double v[16];
+    *n = (int)json_speeds(out, v, 16, nstable);
+    free(out);
+    free(err);
+}
+
+/* The figure's files: the drag curve and every equilibrium of the report in
+ * the data, the caution in data and script, the PNG when gnuplot ran. */
+static void check_figure(const char *prefix, int rendered, int n, int nstable)
+{
+    char path[600];
+    snprintf(path, sizeof path, "%s.dat", prefix);
+    assert_int_equal(sr_test_dat_rows(path, "Cd(Re)"), 401);
+    assert_int_equal(sr_test_dat_rows(path, "stable equilibria"), nstable);
+    assert_int_equal(sr_test_dat_rows(path, "unstable equilibria"), n - nstable);
+    assert_true(sr_test_file_has(path, "CAUTION"));
+    snprintf(path, sizeof path, "%s.gp", prefix);
+    assert_true(sr_test_file_has(path, "CAUTION"));
+    assert_true(sr_test_file_has(path, "load style"));
+    snprintf(path, sizeof path, "%s.png", prefix);
+    unsigned w = 0, h = 0;
+    if (!rendered) {
+        assert_false(sr_test_png_size(path, &w, &h));
+        return;
+    }
+    assert_true(sr_test_png_size(path, &w, &h));
+    CHECK_ABS("PNG width of the freefall figure (--plot-size 800x500)", SR_SRC_PNG, 800, w, 0);
+    CHECK_ABS("PNG height of the freefall figure (--plot-size 800x500)", SR_SRC_PNG, 500, h, 0);
+}
+
 static void test_plot(void **state)
 {
     (void)state;
-    char prefix[] = "/tmp/sinkrate-ff-plot-XXXXXX";
-    int fd = mkstemp(prefix);
-    assert_true(fd >= 0);
-    close(fd);
-    remove(prefix);
-    char *out, *err;
-    char *a[] = {"freefall", "--diameter", "0.2", "--mass", "0.5", "--altitude", "0,3000", "--plot", prefix, NULL};
-    assert_int_equal(run(&out, &err, a), 0);
-    char p[256];
-    snprintf(p, sizeof p, "%s.dat", prefix);
-    FILE *f = fopen(p, "r");
-    assert_non_null(f);
-    char line[1024];
-    int caution = 0;
-    while (fgets(line, sizeof line, f))
-        caution |= strstr(line, "CAUTION") != NULL;
-    fclose(f);
-    assert_true(caution);
-    remove(p);
-    snprintf(p, sizeof p, "%s.gp", prefix);
-    f = fopen(p, "r");
-    assert_non_null(f);
-    caution = 0;
-    while (fgets(line, sizeof line, f))
-        caution |= strstr(line, "CAUTION") != NULL;
-    fclose(f);
-    assert_true(caution);
-    remove(p);
-    snprintf(p, sizeof p, "%s.png", prefix);
-    if (access(p, F_OK) == 0)
-        remove(p);
-    else
-        assert_non_null(strstr(err, "gnuplot not found"));
-    free(out);
-    free(err);
+    char dir[] = "/tmp/sinkrate-ff-plot-XXXXXX";
+    assert_non_null(mkdtemp(dir));
+    char gnuplot[1024], prefix[300], path[320];
+    int have = sr_plot_find_gnuplot(gnuplot, sizeof gnuplot), n, ns;
+    for (int hide = 0; hide < 2; hide++) {
+        /* two altitudes: the curve and speed vs altitude */
+        snprintf(prefix, sizeof prefix, "%s/%s/two", dir, hide ? "without" : "with");
+        run_plot(prefix, hide, "0,3000", &n, &ns);
+        assert_true(n >= 2 && ns >= 2);
+        check_figure(prefix, have && !hide, n, ns);
+    }
+    /* one altitude: the curve alone, each equilibrium labelled with its speed */
+    snprintf(prefix, sizeof prefix, "%s/one", dir);
+    run_plot(prefix, 0, "0", &n, &ns);
+    assert_int_equal(n, 3);
+    check_figure(prefix, have, n, ns);
+    snprintf(path, sizeof path, "%s.gp", prefix);
+    assert_true(sr_test_file_has(path, " m/s, stable' at first "));
+    assert_true(sr_test_file_has(path, " m/s, unstable' at first "));
+    char cmd[400];
+    snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
+    assert_int_equal(system(cmd), 0);
 }
 
 typedef struct bad_case {

@@ -140,17 +140,17 @@ int sr_test_file_has(const char *path, const char *text)
     return found;
 }
 
-int sr_test_dat_rows(const char *path, int block)
+int sr_test_dat_rows(const char *path, const char *title)
 {
     FILE *f = fopen(path, "r");
     if (!f)
         return -1;
-    char head[32], line[4096];
-    snprintf(head, sizeof head, "# [%d] ", block);
+    char line[4096];
     int in = 0, rows = -1;
     while (fgets(line, sizeof line, f)) {
         if (!in) {
-            if (strncmp(line, head, strlen(head)) == 0) {
+            char *close = strncmp(line, "# [", 3) == 0 ? strstr(line, "] ") : NULL;
+            if (close && strncmp(close + 2, title, strlen(title)) == 0) {
                 in = 1;
                 rows = 0;
             }

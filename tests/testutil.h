@@ -43,8 +43,9 @@ int sr_test_png_size(const char *path, unsigned *w, unsigned *h);
 
 /* Whether the file at path contains text (0 when it cannot be read). */
 int sr_test_file_has(const char *path, const char *text);
-/* Data rows of block N (headed "# [N]") of a figure's .dat file; -1 when the
- * file or the block is missing. */
-int sr_test_dat_rows(const char *path, int block);
+/* Data rows of the first block of a figure's .dat file whose title (its
+ * header "# [N] title") starts with title; -1 when the file or the block is
+ * missing. */
+int sr_test_dat_rows(const char *path, const char *title);
 
 #endif
