@@ -97,16 +97,8 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
         if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
             goto out;
     }
-    if (o.mass && (rc = sr_cli_quantity(c, "--mass", o.mass, SR_Q_MASS, 1, &mass)))
+    if ((rc = sr_cli_mass(c, o.mass, "the descending mass", &mass)))
         goto out;
-    if (isnan(mass)) {
-        rc = sr_cli_fail(c, "--mass: the descending mass is required");
-        goto out;
-    }
-    if (mass > 1e5) {
-        rc = sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", mass);
-        goto out;
-    }
     if (o.body && (rc = sr_cli_quantity(c, "--body-drag-area", o.body, SR_Q_AREA, 0, &body)))
         goto out;
     if (body < 0) {

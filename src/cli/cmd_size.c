@@ -98,21 +98,13 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail(c, "with --mission, give --family too when changing cluster or areal mass");
         goto out;
     }
-    if (o.mass && (rc = sr_cli_quantity(c, "--mass", o.mass, SR_Q_MASS, 1, &mass)))
+    if ((rc = sr_cli_mass(c, o.mass, "the payload mass", &mass)))
         goto out;
     if (o.speed && (rc = sr_cli_quantity(c, "--speed", o.speed, SR_Q_SPEED, 1, &speed)))
         goto out;
-    if (isnan(mass)) {
-        rc = sr_cli_fail(c, "--mass: the payload mass is required");
-        goto out;
-    }
     if (isnan(speed)) {
         rc = sr_cli_fail(c, "--speed: the target touchdown speed is required%s",
                          mis ? " (the mission file has no touchdown-speed limit)" : "");
-        goto out;
-    }
-    if (mass > 1e5) {
-        rc = sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", mass);
         goto out;
     }
     if (speed > 300.0) {

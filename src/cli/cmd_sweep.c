@@ -346,18 +346,13 @@ static int load_case(run *R)
     for (int i = 0; i < R->ncanopy; i++)
         canopy_label(R->labels[i], sizeof R->labels[i], &R->canopies[i], R->stage_names[i], !sized_by_sweep, c->units);
 
-    if (o->mass) {
-        if (uses(R, SR_SWEEP_MASS))
+    if (uses(R, SR_SWEEP_MASS)) {
+        if (o->mass)
             return sr_cli_fail(c, "--mass: the sweep sets the mass; drop --mass");
-        if ((rc = sr_cli_quantity(c, "--mass", o->mass, SR_Q_MASS, 1, &R->mass)))
-            return rc;
-    }
-    if (uses(R, SR_SWEEP_MASS))
         R->mass = 1.0; /* replaced row by row */
-    else if (isnan(R->mass))
-        return sr_cli_fail(c, "--mass: the payload mass is required");
-    if (R->mass > 1e5)
-        return sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", R->mass);
+    } else if ((rc = sr_cli_mass(c, o->mass, "the payload mass", &R->mass))) {
+        return rc;
+    }
     R->body = 0.0;
     if (o->body && (rc = sr_cli_quantity(c, "--body-drag-area", o->body, SR_Q_AREA, 0, &R->body)))
         return rc;

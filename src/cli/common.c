@@ -326,6 +326,18 @@ int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi,
     return 0;
 }
 
+int sr_cli_mass(sr_cli *c, const char *text, const char *what, double *mass)
+{
+    int rc;
+    if (text && (rc = sr_cli_quantity(c, "--mass", text, SR_Q_MASS, 1, mass)))
+        return rc;
+    if (isnan(*mass))
+        return sr_cli_fail(c, "--mass: %s is required", what);
+    if (*mass > 1e5)
+        return sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", *mass);
+    return 0;
+}
+
 int sr_cli_atmos_given(const sr_atmos_opts *a)
 {
     return a->temp_offset || a->site_elevation || a->surface_temp || a->surface_pressure || a->sounding;

@@ -90,6 +90,11 @@ int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q,
 int sr_cli_quantity_list(sr_cli *c, const char *opt, const char *text, sr_quantity q, double *out, size_t max,
                          size_t *n);
 int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi, long *out);
+/* The mass a command works with: --mass (text, NULL when not given) replaces
+ * *mass (a mission's total, or NaN). Missing is an error that says what the
+ * mass is (what: "the payload mass"), and so is more than any payload this
+ * tool is meant for. */
+int sr_cli_mass(sr_cli *c, const char *text, const char *what, double *mass);
 
 /* Build the atmosphere from its options; *ground receives the site elevation
  * (0 without a site). */
