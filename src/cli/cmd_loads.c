@@ -631,18 +631,12 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail(c, "out of memory");
         goto out;
     }
-    if ((rc = sr_cli_catalog(c, &cat)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
-    if (o.mission) {
-        if ((rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
-            goto out;
+    if (mis)
         mass = sr_mission_total_mass(mis);
-    } else {
-        if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
-            goto out;
-        if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
-            goto out;
-    }
+    else if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
+        goto out;
     if ((rc = sr_cli_mass(c, o.mass, "the mass the canopy decelerates", &mass)))
         goto out;
 

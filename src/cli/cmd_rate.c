@@ -77,11 +77,9 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
     double mass = NAN, ground = 0.0, body = 0.0;
     double *alt = NULL;
     sr_canopy cp;
-    if ((rc = sr_cli_catalog(c, &cat)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
-    if (o.mission) {
-        if ((rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
-            goto out;
+    if (mis) {
         mass = sr_mission_total_mass(mis);
         const sr_stage *last = &mis->stages[mis->nstages - 1];
         cp = last->canopy;
@@ -90,8 +88,6 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
                                 "--mission` first", last->name);
             goto out;
         }
-    } else if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground))) {
-        goto out;
     }
     if (sr_cli_canopy_given(&o.canopy) || !mis) {
         if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))

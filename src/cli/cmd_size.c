@@ -79,17 +79,12 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_error e;
     double mass = NAN, speed = NAN, ground = 0.0, z, body = 0.0;
     sr_canopy cp;
-    if ((rc = sr_cli_catalog(c, &cat)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
-    if (o.mission) {
-        if ((rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
-            goto out;
+    if (mis) {
         mass = sr_mission_total_mass(mis);
         speed = mis->limit_speed;
         cp = mis->stages[mis->nstages - 1].canopy;
-    } else {
-        if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
-            goto out;
     }
     if (sr_cli_canopy_given(&o.canopy) || !mis) {
         if ((rc = sr_cli_canopy(c, cat, &o.canopy, 0, &cp)))

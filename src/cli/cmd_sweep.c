@@ -305,16 +305,10 @@ static int load_case(run *R)
     sweep_opts *o = &R->o;
     sr_error e;
     int rc;
-    if ((rc = sr_cli_catalog(c, &R->cat)))
+    if ((rc = sr_cli_catalog(c, &R->cat)) ||
+        (rc = sr_cli_mission(c, o->mission, R->cat, &o->atmos, &R->mis, &R->atm, &R->ground)))
         return rc;
-    R->mass = NAN;
-    if (o->mission) {
-        if ((rc = sr_cli_mission(c, o->mission, R->cat, &o->atmos, &R->mis, &R->atm, &R->ground)))
-            return rc;
-        R->mass = sr_mission_total_mass(R->mis);
-    } else if ((rc = sr_cli_atmos(c, &o->atmos, &R->atm, &R->ground))) {
-        return rc;
-    }
+    R->mass = R->mis ? sr_mission_total_mass(R->mis) : NAN;
     int sized_by_sweep = uses(R, SR_SWEEP_DIAMETER) || R->var == SR_SWEEP_SPEED;
     if (o->ncanopy > 0) {
         for (int i = 0; i < o->ncanopy; i++) {

@@ -347,6 +347,9 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
                    sr_atmos *atm, double *ground)
 {
     sr_error e;
+    *mis = NULL;
+    if (!path)
+        return sr_cli_atmos(c, a, atm, ground);
     *mis = calloc(1, sizeof **mis);
     if (!*mis)
         return sr_cli_fail(c, "out of memory");

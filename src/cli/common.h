@@ -105,8 +105,9 @@ int sr_cli_atmos_given(const sr_atmos_opts *a);
 
 /* Load a mission file (heap-allocated into *mis) and its air: the atmosphere
  * options, when given, replace the file's site weather (*ground then comes
- * from them); otherwise the mission's atmosphere moves into *atm. Release
- * with sr_cli_mission_free. */
+ * from them); otherwise the mission's atmosphere moves into *atm. Without a
+ * file (path NULL) *mis is NULL and the air comes from the options alone.
+ * Release with sr_cli_mission_free. */
 struct sr_mission;
 int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_atmos_opts *a,
                    struct sr_mission **mis, sr_atmos *atm, double *ground);
