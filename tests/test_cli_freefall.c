@@ -212,29 +212,18 @@ static void test_trace(void **state)
  * PREFIX (gnuplot hidden when hide); the JSON report's equilibria counted. */
 static void run_plot(const char *prefix, int hide, const char *altitudes, int *n, int *nstable)
 {
-    char *a[] = {"freefall", "--diameter", "0.2", "--mass", "0.5", "--altitude", (char *)altitudes, "--format",
-                 "json", "--plot", (char *)prefix, "--plot-size", "800x500", NULL};
-    char *old = strdup(getenv("PATH") ? getenv("PATH") : "");
-    if (hide)
-        setenv("PATH", "/nonexistent", 1);
+    char *a[] = {"sinkrate", "freefall", "--diameter", "0.2", "--mass", "0.5", "--altitude", (char *)altitudes,
+                 "--format", "json", "--plot", (char *)prefix, "--plot-size", "800x500", NULL};
     char *out, *err;
-    int rc = run(&out, &err, a);
-    setenv("PATH", old, 1);
-    free(old);
-    if (rc)
-        fail_msg("exit %d: %s", rc, err);
-    if (hide)
-        assert_non_null(strstr(err, "gnuplot is not on PATH"));
-    else if (strstr(err, "gnuplot:"))
-        fail_msg("gnuplot warned: %s", err);
+    sr_test_cli_figure(&out, &err, hide, (int)(sizeof a / sizeof a[0]) - 1, a);
     double v[16];
     *n = (int)json_speeds(out, v, 16, nstable);
     free(out);
     free(err);
 }
 
-/* The figure's files: the drag curve and every equilibrium of the report in
- * the data, the caution in data and script, the PNG when gnuplot ran. */
+/* The figure's files, with the drag curve and every equilibrium of the
+ * report in the data. */
 static void check_figure(const char *prefix, int rendered, int n, int nstable)
 {
     char path[600];
@@ -242,19 +231,7 @@ static void check_figure(const char *prefix, int rendered, int n, int nstable)
     assert_int_equal(sr_test_dat_rows(path, "Cd(Re)"), 401);
     assert_int_equal(sr_test_dat_rows(path, "stable equilibria"), nstable);
     assert_int_equal(sr_test_dat_rows(path, "unstable equilibria"), n - nstable);
-    assert_true(sr_test_file_has(path, "CAUTION"));
-    snprintf(path, sizeof path, "%s.gp", prefix);
-    assert_true(sr_test_file_has(path, "CAUTION"));
-    assert_true(sr_test_file_has(path, "load style"));
-    snprintf(path, sizeof path, "%s.png", prefix);
-    unsigned w = 0, h = 0;
-    if (!rendered) {
-        assert_false(sr_test_png_size(path, &w, &h));
-        return;
-    }
-    assert_true(sr_test_png_size(path, &w, &h));
-    CHECK_ABS("PNG width of the freefall figure (--plot-size 800x500)", SR_SRC_PNG, 800, w, 0);
-    CHECK_ABS("PNG height of the freefall figure (--plot-size 800x500)", SR_SRC_PNG, 500, h, 0);
+    sr_test_check_figure(prefix, rendered, 800, 500, "freefall figure");
 }
 
 static void test_plot(void **state)

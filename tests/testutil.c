@@ -164,3 +164,40 @@ int sr_test_dat_rows(const char *path, const char *title)
     fclose(f);
     return rows;
 }
+
+void sr_test_cli_figure(char **out, char **err, int hide, int argc, char **argv)
+{
+    char *old = strdup(getenv("PATH") ? getenv("PATH") : "");
+    if (hide)
+        setenv("PATH", "/nonexistent", 1);
+    int rc = sr_test_cli_argv(out, err, argc, argv);
+    setenv("PATH", old, 1);
+    free(old);
+    if (rc)
+        fail_msg("exit %d: %s", rc, *err);
+    if (hide && !strstr(*err, "gnuplot is not on PATH"))
+        fail_msg("no note that gnuplot is missing: %s", *err);
+    if (!hide && strstr(*err, "gnuplot:"))
+        fail_msg("gnuplot warned: %s", *err);
+}
+
+void sr_test_check_figure(const char *prefix, int rendered, unsigned w, unsigned h, const char *what)
+{
+    char path[4200], q[256];
+    snprintf(path, sizeof path, "%s.dat", prefix);
+    assert_true(sr_test_file_has(path, "CAUTION"));
+    snprintf(path, sizeof path, "%s.gp", prefix);
+    assert_true(sr_test_file_has(path, "CAUTION"));
+    assert_true(sr_test_file_has(path, "load style"));
+    snprintf(path, sizeof path, "%s.png", prefix);
+    unsigned pw = 0, ph = 0;
+    if (!rendered) {
+        assert_false(sr_test_png_size(path, &pw, &ph));
+        return;
+    }
+    assert_true(sr_test_png_size(path, &pw, &ph));
+    snprintf(q, sizeof q, "PNG width of the %s (--plot-size %ux%u)", what, w, h);
+    CHECK_ABS(q, SR_SRC_PNG, w, pw, 0);
+    snprintf(q, sizeof q, "PNG height of the %s (--plot-size %ux%u)", what, w, h);
+    CHECK_ABS(q, SR_SRC_PNG, h, ph, 0);
+}

@@ -371,7 +371,8 @@ static int peak_series(sr_plot *p, sr_unit_system sys, const char *what, const s
         return rc;
     double at[2] = {pk->time, f};
     sr_plot_series point = {.kind = SR_PLOT_POINTS, .x = 1, .y = 2, .color = color};
-    if ((rc = sr_plot_block(p, "the peak at its time", 2, names, &point.block)) || (rc = sr_plot_row(p, point.block, at)))
+    if ((rc = sr_plot_block(p, "the peak at its time", 2, names, &point.block)) ||
+        (rc = sr_plot_row(p, point.block, at)))
         return rc;
     return sr_plot_add(p, &point);
 }
@@ -454,7 +455,8 @@ static int figure(sr_cli *c, const deploy *d, const char *prefix, int argc, char
     int steady = t->ode.kind == SR_PEAK_STEADY;
     if (!rc)
         rc = sr_plot_add(p, &drag) ||
-             peak_series(p, sys, steady ? "ODE peak, steady drag = weight" : "ODE peak \u00d7 CX", &t->ode, tend, 1, 1) ||
+             peak_series(p, sys, steady ? "ODE peak, steady drag = weight" : "ODE peak \u00d7 CX", &t->ode, tend, 1,
+                         1) ||
              peak_series(p, sys, "Pflanz, no gravity", &t->pflanz, tend, 2, 1) ||
              peak_series(p, sys, "opening-load factor", &t->olf, tend, 3, 2) ||
              sr_plot_marker(p, 0, 'x', t->t_fill, mark, 1);
