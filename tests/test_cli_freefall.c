@@ -289,6 +289,9 @@ static const bad_case BAD[] = {
     {NULL, {"--diameter", "1", "--mass", "1", "--altitude", "5 km:1 km:1 km"}, 2, "--altitude"},
     {NULL, {"--diameter", "1", "--mass", "1", "--trace", "--steps", "0"}, 2, "--steps"},
     {NULL, {"--diameter", "1", "--mass", "1", "--steps", "5"}, 2, "goes with --trace"},
+    {NULL, {"--diameter", "1", "--mass", "1", "stray"}, 2, "unexpected argument 'stray' (freefall takes options only)"},
+    {NULL, {"--diameter", "1", "--mass", "2e5"}, 2, "--mass: 200000 kg is beyond any payload"},
+    {NULL, {"--diameter", "1"}, 2, "--mass: the body's mass is required"},
     {NULL, {"--diameter", "1", "--mass", "1", "--area", "1"}, 2, "--area"},
     {NULL, {"--diameter", "1", "--mass", "1", "--frobnicate"}, 2, "frobnicate"},
     /* valid but impossible: far too light for any speed the curves cover */

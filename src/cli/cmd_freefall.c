@@ -424,11 +424,9 @@ int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
 {
     ff_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
     if (rc)
         return rc;
-    if (first < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (freefall takes options only)", argv[first]);
 
     sr_bluff_shape shape = SR_BLUFF_SPHERE;
     if (o.body) {

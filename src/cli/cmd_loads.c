@@ -603,11 +603,9 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
 {
     loads_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
     if (rc)
         return rc;
-    if (first < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (loads takes options only)", argv[first]);
     tweaks tw;
     if ((rc = parse_tweaks(c, &o, &tw)))
         return rc;

@@ -63,11 +63,9 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
 {
     rate_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
     if (rc)
         return rc;
-    if (first < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (rate takes options only)", argv[first]);
     sr_catalog *cat = NULL;
     sr_mission *mis = NULL;
     sr_atmos atm;

@@ -63,11 +63,9 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
 {
     size_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
     if (rc)
         return rc;
-    if (first < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (size takes options only)", argv[first]);
     if (o.canopy.nominal_diameter || o.canopy.projected_diameter || o.canopy.flat_diameter || o.canopy.nominal_area)
         return sr_cli_fail(c, "size finds the canopy size; drop the size option (use `sinkrate rate` for a given size)");
 

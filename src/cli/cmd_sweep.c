@@ -996,13 +996,9 @@ int sr_cmd_sweep(sr_cli *c, int argc, char **argv)
     sr_report *r = NULL;
     char help[sizeof HELP + 4096];
     snprintf(help, sizeof help, "%s%s\n%s\n%s\n%s", HELP, SR_HELP_CANOPY, SR_HELP_ATMOS, SR_HELP_PLOT, SR_HELP_OUTPUT);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &R->o, help, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &R->o, help, NULL);
     if (rc)
         goto out;
-    if (first < argc) {
-        rc = sr_cli_fail(c, "unexpected argument '%s' (sweep takes options only)", argv[first]);
-        goto out;
-    }
     R->var = SR_SWEEP_ALTITUDE;
     if (R->o.vary && sr_sweep_var_parse(R->o.vary, &R->var)) {
         rc = sr_cli_fail(c, "--vary: '%s' is not one of altitude, mass, diameter, temp-offset, site-elevation, speed",

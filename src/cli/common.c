@@ -250,7 +250,10 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
         }
         }
     }
-    *first_arg = optind;
+    if (first_arg)
+        *first_arg = optind;
+    else if (optind < argc)
+        return sr_cli_fail(c, "unexpected argument '%s' (%s takes options only)", argv[optind], c->cmd);
     return 0;
 }
 

@@ -75,7 +75,8 @@ int sr_cli_fail_err(sr_cli *c, const sr_error *e);
 /* getopt_long over opts; calls handle(c, code, optarg, ud) for every option;
  * the common output options are consumed here. Unknown options get a
  * suggestion. Returns 0 to go on, -1 when help was printed (exit 0), or an
- * exit code. *first_arg receives the index of the first operand. */
+ * exit code. *first_arg receives the index of the first operand; first_arg
+ * NULL: the command takes options only, and an operand is an error. */
 typedef int (*sr_opt_handler)(sr_cli *c, int code, const char *arg, void *ud);
 int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
                  const char *help, int *first_arg);
