@@ -981,9 +981,9 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
           "font sprintf('%s,%d', sr_font, sr_titlesize) textcolor rgb sr_ink\n",
           f);
     if (p->subtitle) {
-        /* wrapped to the width (10 pt is about 6.3 px a character, 6.8 to be safe with wide letters); each
+        /* wrapped to the width (10 pt is about 6.3 px a character, 6.6 to be safe with wide letters); each
          * further line pushes the panels down */
-        size_t chars = (size_t)((o->width - 24) / 6.8);
+        size_t chars = (size_t)((o->width - 24) / 6.6);
         fputs("set label 102 ", f);
         int n = wrap_lines(p->subtitle, chars < 40 ? 40 : chars, emit_gp_piece, f);
         fputs(" at screen 12.0 / width, screen 1 - 52.0 / height left front noenhanced "
