@@ -267,7 +267,7 @@ void sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission 
         sr_profile_free_fall_warnings(r, c, m, p, prefix);
         for (size_t b = 0; b < p->nbodies; b++) {
             const sr_profile_body *pb = &p->body[b];
-            if (pb->free_fall && pb->speed_arrive < 0.99 * pb->v_terminal) {
+            if (pb->free_fall && pb->equilibria == 1 && pb->speed_arrive < 0.99 * pb->v_terminal) {
                 char bn[256], va[64], vt[64];
                 sr_mission_set_name(m, pb->sections, bn, sizeof bn);
                 fmt(va, sizeof va, c, pb->speed_arrive, SR_Q_SPEED, 3);
