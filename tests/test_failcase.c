@@ -390,6 +390,54 @@ static void test_table_body(void **state)
     free(err);
 }
 
+/* ---- one free-fall context, many threads (fast mode, per-thread workspaces) ---- */
+
+static void test_threads(void **state)
+{
+    (void)state;
+    sr_mission *m = calloc(1, sizeof *m);
+    sr_error e;
+    if (sr_mission_load(m, sr_test_path("payloads/desert-club-rocket-revised.yaml"), CAT, &e))
+        fail_msg("mission: %s", e.msg);
+    sr_profile_ctx *c = ctx_failed(m, 3u, NAN);
+    enum { N = 64 };
+    static double serial[N], parallel[N];
+    for (int i = 0; i < N; i++) {
+        sr_profile_perturb p;
+        sr_profile_perturb_init(&p);
+        p.wind_scale = 0.5 + i / (double)N;
+        p.mass_scale = 0.9 + 0.2 * i / N;
+        sr_profile_result r;
+        assert_int_equal(sr_profile_run(c, &p, SR_PROFILE_FAST, NULL, &r, NULL, &e), SR_OK);
+        serial[i] = r.body[0].east + r.descent_time + r.max_rate;
+    }
+    int bad = 0;
+#pragma omp parallel num_threads(2) reduction(+ : bad)
+    {
+        sr_profile_work *w = NULL;
+        sr_error te;
+        if (sr_profile_work_new(&w, &te))
+            bad++;
+#pragma omp for
+        for (int i = 0; i < N; i++) {
+            sr_profile_perturb p;
+            sr_profile_perturb_init(&p);
+            p.wind_scale = 0.5 + i / (double)N;
+            p.mass_scale = 0.9 + 0.2 * i / N;
+            sr_profile_result r;
+            if (!w || sr_profile_run(c, &p, SR_PROFILE_FAST, w, &r, NULL, &te))
+                bad++;
+            else
+                parallel[i] = r.body[0].east + r.descent_time + r.max_rate;
+        }
+        sr_profile_work_free(w);
+    }
+    assert_int_equal(bad, 0);
+    assert_memory_equal(serial, parallel, sizeof serial);
+    sr_profile_ctx_free(c);
+    drop(m);
+}
+
 /* ---- the demo ---- */
 
 static void test_demo(void **state)
@@ -471,7 +519,8 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_terminal_speed), cmocka_unit_test(test_constant_cd_closed_form),
         cmocka_unit_test(test_drag_crisis),    cmocka_unit_test(test_schema_errors),
-        cmocka_unit_test(test_table_body),     cmocka_unit_test(test_demo),
+        cmocka_unit_test(test_table_body),     cmocka_unit_test(test_threads),
+        cmocka_unit_test(test_demo),
     };
     return cmocka_run_group_tests_name("failcase", tests, setup, teardown);
 }
