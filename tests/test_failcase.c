@@ -453,7 +453,7 @@ static void test_demo(void **state)
     assert_non_null(strstr(out, "no canopy    booster"));
     assert_non_null(strstr(out, "no canopy    payload bay"));
     assert_non_null(strstr(out, "drogue only  booster"));
-    assert_non_null(strstr(out, "no canopy: drag curves"));
+    assert_non_null(strstr(out, "no canopy: 'cylinder' Cd(Re) on 0.0877 m2"));
     assert_non_null(strstr(out, "FAR BEYOND the limits"));
     assert_non_null(strstr(out, "projected area d x L"));
     assert_non_null(strstr(out, "Wieselsberger 1922"));

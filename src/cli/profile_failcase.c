@@ -225,13 +225,26 @@ void sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission 
         for (size_t s = 0; s < m->nsections; s++) {
             const sr_profile_body *b = &p->body[p->section_body[s]];
             char under[200], status[256];
-            if (b->canopies)
-                stage_names(m, b->open, under, sizeof under);
-            else if (b->free_fall)
-                snprintf(under, sizeof under, "no canopy: drag curves");
+            const sr_section *sec = &m->sections[s];
+            char area[64];
+            fmt(area, sizeof area, c, sec->has_body ? sec->body_area : sec->drag_area, SR_Q_AREA, 3);
+            if (b->canopies) {
+                double cds = 0.0;
+                for (size_t k = 0; k < m->nstages; k++)
+                    if ((b->open >> k) & 1u)
+                        cds += sr_canopy_total_cds(&m->stages[k].canopy).typ;
+                char names[160], cs[64];
+                stage_names(m, b->open, names, sizeof names);
+                fmt(cs, sizeof cs, c, cds, SR_Q_AREA, 3);
+                snprintf(under, sizeof under, "%s: drag area CdS %s", names, cs);
+            }
+            else if (sec->has_body)
+                snprintf(under, sizeof under, "no canopy: '%s' Cd(Re) on %s",
+                         sec->shape == SR_BLUFF_TABLE ? sec->curve.path : sec->curve.name, area);
+            else if (sec->drag_area > 0)
+                snprintf(under, sizeof under, "no canopy: drag area %s", area);
             else
-                snprintf(under, sizeof under, "no canopy: %s",
-                         m->sections[s].drag_area > 0 ? "constant drag areas" : "no drag given");
+                snprintf(under, sizeof under, "no canopy: no drag of its own");
             double ratio;
             judge(m, run.lo.section_rate[s], run.lo.section_energy[s], b->t_land, b->drift, status, sizeof status,
                   &ratio);
