@@ -296,7 +296,7 @@ void sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission 
                       "descent runs like the nominal one, full integration, typical drag; a body with no canopy "
                       "open falls with its sections' drag curves, integrated to the ground. Impact speed and "
                       "energy use the descent rate, as the landing limits do. These what-if results are judged "
-                      "against the limits (speed and energy at the band end%s) but never change the exit code: only the nominal "
-                      "descent does.",
+                      "against the limits (speed and energy at the band end%s) but never change the exit code: "
+                      "only the nominal descent does.",
                    far ? "; some are far beyond them" : "");
 }
