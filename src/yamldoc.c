@@ -22,21 +22,26 @@ int sr_yaml_fail(const sr_yaml *y, const yaml_node_t *n, sr_error *err, const ch
     return sr_error_set(err, SR_EINVAL, "%s: %s", y->name, msg);
 }
 
-static int depth_ok(yaml_document_t *d, yaml_node_t *n, int depth)
+/* Depth and size of the tree as the schema code walks it. Aliases are
+ * followed, so every use of an anchor counts: a file that repeats one list
+ * through nested aliases ("billion laughs") exhausts the budget instead of
+ * making this walk, and later ones, exponential. */
+static int tree_ok(yaml_document_t *d, yaml_node_t *n, int depth, size_t *budget)
 {
-    if (depth > SR_YAML_MAX_DEPTH)
+    if (depth > SR_YAML_MAX_DEPTH || *budget == 0)
         return 0;
+    (*budget)--;
     if (n->type == YAML_SEQUENCE_NODE) {
         for (yaml_node_item_t *it = n->data.sequence.items.start; it < n->data.sequence.items.top; it++) {
             yaml_node_t *c = yaml_document_get_node(d, *it);
-            if (c && !depth_ok(d, c, depth + 1))
+            if (c && !tree_ok(d, c, depth + 1, budget))
                 return 0;
         }
     } else if (n->type == YAML_MAPPING_NODE) {
         for (yaml_node_pair_t *p = n->data.mapping.pairs.start; p < n->data.mapping.pairs.top; p++) {
             yaml_node_t *k = yaml_document_get_node(d, p->key);
             yaml_node_t *v = yaml_document_get_node(d, p->value);
-            if ((k && !depth_ok(d, k, depth + 1)) || (v && !depth_ok(d, v, depth + 1)))
+            if ((k && !tree_ok(d, k, depth + 1, budget)) || (v && !tree_ok(d, v, depth + 1, budget)))
                 return 0;
         }
     }
@@ -99,10 +104,12 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
         sr_yaml_free(y);
         return sr_error_set(err, SR_EINVAL, "%s: more than one YAML document (---); keep one per file", name);
     }
-    size_t nodes = (size_t)(y->doc.nodes.top - y->doc.nodes.start);
-    if (nodes > SR_YAML_MAX_NODES || !depth_ok(&y->doc, root, 0)) {
+    size_t nodes = (size_t)(y->doc.nodes.top - y->doc.nodes.start), budget = SR_YAML_MAX_NODES;
+    if (nodes > SR_YAML_MAX_NODES || !tree_ok(&y->doc, root, 0, &budget)) {
         sr_yaml_free(y);
-        return sr_error_set(err, SR_EINVAL, "%s: too large or too deeply nested for a sinkrate file", name);
+        return sr_error_set(err, SR_EINVAL,
+                            "%s: too large or too deeply nested for a sinkrate file (aliases count at every use)",
+                            name);
     }
     return SR_OK;
 }
