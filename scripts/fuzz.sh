@@ -6,7 +6,9 @@
 # replays from then on; the run then fails.
 # usage: scripts/fuzz.sh DIR SECONDS NAME...
 set -u
-dir=$1; secs=$2; shift 2
+# absolute paths: a target may change directory in its initialisation
+dir=$(cd "$1" && pwd); secs=$2; shift 2
+src=$(pwd)
 summary="$dir/fuzz-summary.tsv"
 mkdir -p "$dir/logs"
 [ -f "$summary" ] || printf 'target\tseconds\texecutions\texec/s\tcoverage\tfeatures\tcorpus\tfindings\tdate\n' > "$summary"
@@ -20,9 +22,9 @@ for n in "$@"; do
   esac
   mkdir -p "$dir/corpus/$n" "$dir/artifacts/$n"
   dict=""
-  [ -f "tests/fuzz/$n.dict" ] && dict="-dict=tests/fuzz/$n.dict"
-  seeds="tests/fuzz/corpus/$n"
-  [ -d "tests/fuzz/regress/$n" ] && seeds="$seeds tests/fuzz/regress/$n"
+  [ -f "tests/fuzz/$n.dict" ] && dict="-dict=$src/tests/fuzz/$n.dict"
+  seeds="$src/tests/fuzz/corpus/$n"
+  [ -d "tests/fuzz/regress/$n" ] && seeds="$seeds $src/tests/fuzz/regress/$n"
   log="$dir/logs/$n.log"
   echo "fuzz: $n for ${secs} s (log $log)"
   # shellcheck disable=SC2086
@@ -40,7 +42,7 @@ for n in "$@"; do
            "$dir/artifacts/$n"/oom-* "$dir/artifacts/$n"/slow-unit-*; do
     [ -f "$a" ] || continue
     mkdir -p "tests/fuzz/regress/$n"
-    cp "$a" "tests/fuzz/regress/$n/"
+    mv "$a" "tests/fuzz/regress/$n/"
     found=$((found + 1))
     echo "fuzz: $n: $(basename "$a") -> tests/fuzz/regress/$n/"
   done

@@ -261,7 +261,7 @@ static int parse(const char *text, sr_quantity q, double *si, int need_unit, sr_
         if (q == SR_Q_TEMP && v < 0.0)
             return sr_error_set(err, SR_EINVAL, "'%s' is below absolute zero (a bare temperature is in K)", text);
         /* a bare angle is degrees: see units.h */
-        *si = q == SR_Q_ANGLE ? v * PI / 180.0 : v;
+        *si = q == SR_Q_ANGLE ? v * (PI / 180.0) : v;
         return SR_OK;
     }
     if (q == SR_Q_NONE)
