@@ -2,6 +2,8 @@
  * strict schema helpers every YAML reader in sinkrate uses. */
 #include "yamldoc.h"
 
+#include "fileio.h"
+
 #include <errno.h>
 #include <stdarg.h>
 #include <stdio.h>
@@ -93,6 +95,15 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
     yaml_parser_set_input_string(&p, (const unsigned char *)buf, len);
     if (!yaml_parser_load(&p, &y->doc)) {
         size_t line = p.problem_mark.line + 1, col = p.problem_mark.column + 1;
+        if (p.error == YAML_READER_ERROR) {
+            /* libyaml gives a reader error (bad UTF-8, control bytes) as a byte offset only */
+            line = col = 1;
+            for (size_t i = 0; i < p.problem_offset && i < len; i++, col++)
+                if (buf[i] == '\n') {
+                    line++;
+                    col = 0;
+                }
+        }
         if (p.error == YAML_MEMORY_ERROR)
             sr_error_set(err, SR_ENOMEM, "%s: out of memory while reading YAML", name);
         else
@@ -144,22 +155,23 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
 int sr_yaml_load_file(sr_yaml *y, const char *path, sr_error *err)
 {
     memset(y, 0, sizeof *y);
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return sr_error_set(err, SR_EIO, "%s: cannot open: %s", path, strerror(errno));
+    FILE *f;
+    int rc = sr_file_open_read(path, &f, err);
+    if (rc)
+        return rc;
     char *buf = malloc(SR_YAML_MAX_BYTES + 1);
     if (!buf) {
         fclose(f);
         return sr_error_set(err, SR_ENOMEM, "%s: out of memory", path);
     }
     size_t len = fread(buf, 1, SR_YAML_MAX_BYTES + 1, f);
-    int bad = ferror(f);
+    int bad = ferror(f), bad_errno = errno;
     fclose(f);
     if (bad) {
         free(buf);
-        return sr_error_set(err, SR_EIO, "%s: read error (is it a directory?)", path);
+        return sr_error_set(err, SR_EIO, "%s: read error: %s", path, strerror(bad_errno));
     }
-    int rc = sr_yaml_load_string(y, path, buf, len, err);
+    rc = sr_yaml_load_string(y, path, buf, len, err);
     free(buf);
     return rc;
 }
@@ -336,8 +348,9 @@ int sr_yaml_quantity(const sr_yaml *y, yaml_node_t *n, sr_quantity q, double *si
 {
     const char *s = scalar_of(n);
     if (!s)
-        return sr_yaml_fail(y, n, err, "expected a %s with a unit here (e.g. \"%s\")", sr_units_quantity_name(q),
-                            q == SR_Q_TEMP ? "15 C" : "1.5 m");
+        return sr_yaml_fail(y, n, err, "expected a %s with a unit here (e.g. \"%s %s\")", sr_units_quantity_name(q),
+                            q == SR_Q_TEMP || q == SR_Q_TEMP_DIFF ? "15" : "1.5",
+                            q == SR_Q_TEMP || q == SR_Q_TEMP_DIFF ? "C" : sr_units_label(q, SR_UNITS_SI));
     sr_error e;
     if (sr_units_parse_strict(s, q, si, &e) != SR_OK)
         return sr_yaml_fail(y, n, err, "%s", e.msg);

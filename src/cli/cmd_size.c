@@ -69,7 +69,12 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     if (first < argc)
         return sr_cli_fail(c, "unexpected argument '%s' (size takes options only)", argv[first]);
     if (o.canopy.nominal_diameter || o.canopy.projected_diameter || o.canopy.flat_diameter || o.canopy.nominal_area)
-        return sr_cli_fail(c, "size finds the canopy size; drop the size option (use `sinkrate rate` for a given size)");
+        return sr_cli_fail(c, "%s: size finds the canopy size; drop the size option (use `sinkrate rate` for a given "
+                              "size)",
+                           o.canopy.nominal_diameter     ? "--nominal-diameter"
+                           : o.canopy.projected_diameter ? "--projected-diameter"
+                           : o.canopy.flat_diameter      ? "--flat-diameter"
+                                                         : "--nominal-area");
 
     sr_catalog *cat = NULL;
     sr_mission *mis = NULL;
