@@ -5,6 +5,7 @@
 #include "fileio.h"
 
 #include <errno.h>
+#include <math.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -337,7 +338,8 @@ int sr_yaml_int(const sr_yaml *y, yaml_node_t *n, long lo, long hi, long *v, sr_
     int rc = sr_yaml_number(y, n, &d, err);
     if (rc)
         return rc;
-    if (d != (double)(long)d || d < (double)lo || d > (double)hi)
+    /* range first: converting a double beyond long's range is undefined */
+    if (!(d >= (double)lo && d <= (double)hi) || d != floor(d))
         return sr_yaml_fail(y, n, err, "expected a whole number from %ld to %ld, got '%s'", lo, hi,
                             scalar_of(n));
     *v = (long)d;

@@ -275,6 +275,8 @@ static const bad_case BAD[] = {
      "must be a positive number"},
     {{SIZE_MISSION}, MISSION "    count: 0\n", NULL, 0, "@IN@:9:12", "whole number from 1 to 16"},
     {{SIZE_MISSION}, MISSION "    count: 1.5\n", NULL, 0, "@IN@:9:12", "whole number from 1 to 16"},
+    {{SIZE_MISSION}, MISSION "    count: 222222222222222222222222222222222220\n", NULL, 0, "@IN@:9:12",
+     "whole number from 1 to 16"},
     {{SIZE_MISSION}, MISSION "    count: 2\n    cluster-factor: 0\n", NULL, 0, "@IN@:10:21", "outside 0.5 .. 1"},
     {{SIZE_MISSION}, "mission: m\nsite: {temperature: -300 C}\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:21",
      "below absolute zero"},

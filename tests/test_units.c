@@ -430,7 +430,7 @@ static const bad_case BAD[] = {
     {"1 averyveryverylongunitnamethatgoeson", SR_Q_MASS, 0, "accepted: kg"},
     {"2 kg junk", SR_Q_MASS, 0, "unknown mass unit 'kg junk'"},
     {"2.5.1 m", SR_Q_LENGTH, 0, "unknown length unit '.1 m'"},
-    {"1,5 m", SR_Q_LENGTH, 0, "unknown length unit ',5 m'"},
+    {"1,5 m", SR_Q_LENGTH, 0, "decimals with a point (1.5...)"},
     {"1.5e m", SR_Q_LENGTH, 0, "unknown length unit 'e m'"},
     {"- 2 m", SR_Q_LENGTH, 0, "not a number"},
     {"abc", SR_Q_AREA, 0, "written like \"1.5 m2\""},
