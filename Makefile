@@ -85,17 +85,20 @@ SAN_OPT      = -O1 -g -fsanitize=address,undefined -fno-sanitize-recover=all -fn
 FUZZ_OPT     = $(SAN_OPT) -fsanitize=fuzzer-no-link -Wno-unknown-warning-option
 FUZZ_SECONDS ?= 60
 FUZZ_NAMES  := $(sort $(patsubst tests/fuzz/fuzz_%.c,%,$(wildcard tests/fuzz/fuzz_*.c)))
-FUZZ_FLAGS   = -Itests/fuzz -DSR_SOURCE_ROOT='"$(CURDIR)"' -Wl,--wrap=sr_file_write_atomic
+FUZZ_FLAGS   = -Itests/fuzz -DSR_SOURCE_ROOT='"$(CURDIR)"'
+# the command-line target must never write files: its stub replaces the writer
+FUZZ_WRAP_cli = -Wl,--wrap=sr_file_write_atomic
 
 # Each fuzz target as a plain program replaying its seed corpus and the
 # regression inputs (crashes the fuzzer once found) ...
 $(B)/fuzz/replay_%: tests/fuzz/fuzz_%.c tests/fuzz/replay.c tests/fuzz/fuzz.h $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
 	@mkdir -p $(dir $@)
-	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) $(FUZZ_FLAGS) -o $@ $(filter %.c %.a,$^) $(LDLIBS_ALL)
+	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) $(FUZZ_FLAGS) $(FUZZ_WRAP_$*) -o $@ $(filter %.c %.a,$^) $(LDLIBS_ALL)
 # ... and as a libFuzzer program (built by `make fuzz` with clang).
 $(B)/fuzz/fuzz_%: tests/fuzz/fuzz_%.c tests/fuzz/fuzz.h $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
 	@mkdir -p $(dir $@)
-	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) $(FUZZ_FLAGS) -fsanitize=fuzzer -o $@ $(filter %.c %.a,$^) $(LDLIBS_ALL)
+	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) $(FUZZ_FLAGS) $(FUZZ_WRAP_$*) -fsanitize=fuzzer -o $@ $(filter %.c %.a,$^) \
+	  $(LDLIBS_ALL)
 
 fuzz-regress: $(FUZZ_NAMES:%=$(B)/fuzz/replay_%)
 	@for n in $(FUZZ_NAMES); do $(B)/fuzz/replay_$$n tests/fuzz/corpus/$$n tests/fuzz/regress/$$n || exit 1; done
