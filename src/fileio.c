@@ -1,13 +1,30 @@
-/* fileio.c - atomic file output (mkstemp + rename) and bounded reads. */
+/* fileio.c - atomic file output (mkstemp, fsync, rename) and bounded reads. */
 #define _DEFAULT_SOURCE
 #include "fileio.h"
 
 #include <errno.h>
+#include <fcntl.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
 #include <unistd.h>
+
+/* Write all of data to fd; 0 or an errno value. */
+static int write_all(int fd, const char *p, size_t left)
+{
+    while (left > 0) {
+        ssize_t w = write(fd, p, left);
+        if (w < 0) {
+            if (errno == EINTR)
+                continue;
+            return errno;
+        }
+        p += w;
+        left -= (size_t)w;
+    }
+    return 0;
+}
 
 int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err)
 {
@@ -17,50 +34,68 @@ int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_erro
     if (path[pl - 1] == '/')
         return sr_error_set(err, SR_EINVAL, "%s: is a directory name, not a file", path);
     struct stat st;
-    if (stat(path, &st) == 0 && S_ISDIR(st.st_mode))
-        return sr_error_set(err, SR_EIO, "%s: is a directory", path);
-    char *tmp = malloc(pl + 16);
-    if (!tmp)
+    if (stat(path, &st) == 0) {
+        if (S_ISDIR(st.st_mode))
+            return sr_error_set(err, SR_EIO, "%s: is a directory", path);
+        if (!S_ISREG(st.st_mode)) {
+            /* a device or a pipe (/dev/stdout, a FIFO) is written to, never replaced */
+            int fd = open(path, O_WRONLY);
+            int e = fd < 0 ? errno : write_all(fd, data, len);
+            if (fd >= 0 && close(fd) != 0 && !e)
+                e = errno;
+            if (e)
+                return sr_error_set(err, SR_EIO, "%s: cannot write: %s", path, strerror(e));
+            return SR_OK;
+        }
+    }
+    /* through a symbolic link, replace the file it names and keep the link */
+    char *real = realpath(path, NULL);
+    const char *target = real ? real : path;
+    size_t tl = strlen(target);
+    char *tmp = malloc(tl + 16);
+    if (!tmp) {
+        free(real);
         return sr_error_set(err, SR_ENOMEM, "out of memory");
-    snprintf(tmp, pl + 16, "%s.tmp.XXXXXX", path);
+    }
+    snprintf(tmp, tl + 16, "%s.tmp.XXXXXX", target);
     int fd = mkstemp(tmp);
     if (fd < 0) {
         int e = errno;
         free(tmp);
+        free(real);
         return sr_error_set(err, SR_EIO, "%s: cannot write: %s", path, strerror(e));
     }
-    const char *p = data;
-    size_t left = len;
-    while (left > 0) {
-        ssize_t w = write(fd, p, left);
-        if (w < 0) {
-            if (errno == EINTR)
-                continue;
-            int e = errno;
-            close(fd);
-            unlink(tmp);
-            free(tmp);
-            return sr_error_set(err, SR_EIO, "%s: write failed: %s", path, strerror(e));
-        }
-        p += w;
-        left -= (size_t)w;
+    int e = write_all(fd, data, len);
+    if (e) {
+        close(fd);
+        unlink(tmp);
+        free(tmp);
+        free(real);
+        return sr_error_set(err, SR_EIO, "%s: write failed: %s", path, strerror(e));
     }
-    /* files we write are for people and tools to read: the usual 0644 under umask */
+    /* files we write are for people and tools to read: the usual 0644 under umask;
+     * on disk before the rename, so a crash leaves the old file or the new one */
     mode_t um = umask(0);
     umask(um);
-    if (fchmod(fd, 0666 & ~um) != 0 || close(fd) != 0) {
-        int e = errno;
+    if (fchmod(fd, 0666 & ~um) != 0 || fsync(fd) != 0)
+        e = errno;
+    if (close(fd) != 0 && !e)
+        e = errno;
+    if (e) {
         unlink(tmp);
         free(tmp);
+        free(real);
         return sr_error_set(err, SR_EIO, "%s: cannot finish writing: %s", path, strerror(e));
     }
-    if (rename(tmp, path) != 0) {
-        int e = errno;
+    if (rename(tmp, target) != 0) {
+        e = errno;
         unlink(tmp);
         free(tmp);
+        free(real);
         return sr_error_set(err, SR_EIO, "%s: cannot write: %s", path, strerror(e));
     }
     free(tmp);
+    free(real);
     return SR_OK;
 }
 
