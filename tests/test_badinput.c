@@ -627,6 +627,40 @@ static int run_case(size_t i, const bad_case *c, int show)
     return ok;
 }
 
+/* Valid requests with no answer: exit 1 and one line saying why. */
+static const struct {
+    const char *args[16];
+    const char *expect;
+} IMPOSSIBLE[] = {
+    {{"size", "--mass", "1e-6 kg", "--speed", "5 m/s", "--family", "conical"}, "no canopy fits"},
+    {{"size", "--mass", "9e4 kg", "--speed", "0.5 m/s", "--family", "conical"}, "no canopy fits"},
+    {{"size", "--mass", "0.1 kg", "--speed", "0.5 m/s", "--family", "conical", "--areal-mass", "1500 g/m2"},
+     "no canopy size"},
+};
+
+static void test_impossible(void **state)
+{
+    (void)state;
+    for (size_t i = 0; i < sizeof IMPOSSIBLE / sizeof IMPOSSIBLE[0]; i++) {
+        char *argv[20];
+        int argc = 0;
+        argv[argc++] = "sinkrate";
+        for (size_t k = 0; k < 16 && IMPOSSIBLE[i].args[k]; k++)
+            argv[argc++] = (char *)IMPOSSIBLE[i].args[k];
+        argv[argc] = NULL;
+        char *out, *err;
+        int rc = sr_test_cli_argv(&out, &err, argc, argv);
+        if (rc != 1 || sr_test_lines(err) != 1 || !strstr(err, IMPOSSIBLE[i].expect))
+            print_error("impossible row %zu: rc %d, stderr '%s'\n", i, rc, err);
+        assert_int_equal(rc, 1);
+        assert_int_equal(sr_test_lines(err), 1);
+        assert_non_null(strstr(err, IMPOSSIBLE[i].expect));
+        assert_string_equal(out, "");
+        free(out);
+        free(err);
+    }
+}
+
 static void test_bad_input_catalogue(void **state)
 {
     (void)state;
@@ -644,6 +678,7 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_bad_input_catalogue),
+        cmocka_unit_test(test_impossible),
     };
     return cmocka_run_group_tests_name("badinput", tests, NULL, NULL);
 }

@@ -179,6 +179,15 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
+    /* the same bounds a given size must meet (sr_canopy_from_size): outside them
+     * the answer is no canopy at all, usually a unit slip in mass or speed */
+    if (res.d0.lo < 0.01 || res.d0.hi > 200.0) {
+        sr_cli_fail(c, "no canopy fits: the nominal diameter needed, %.3g m .. %.3g m, is outside any canopy built "
+                       "(1 cm .. 200 m); check --mass and --speed",
+                    res.d0.lo, res.d0.hi);
+        rc = SR_EXIT_LIMIT;
+        goto out;
+    }
 
     r = sr_report_new("size", "canopy size for a target touchdown speed");
     sr_report_section(r, "Inputs");
