@@ -60,19 +60,25 @@ static int cmp(const void *a, const void *b)
 
 int main(int argc, char **argv)
 {
+    /* absolute names first: a target may change directory when it starts */
+    char **paths = calloc((size_t)argc + 1, sizeof *paths);
+    if (!paths)
+        return 1;
+    for (int i = 1; i < argc; i++)
+        paths[i] = realpath(argv[i], NULL); /* NULL: an empty regress/ may not exist in a fresh clone */
     LLVMFuzzerInitialize(&argc, &argv);
     int bad = 0;
     size_t count = 0;
     for (int i = 1; i < argc; i++) {
         struct stat st;
-        if (stat(argv[i], &st) != 0)
-            continue; /* an empty regress/ directory may not exist in a fresh clone */
+        if (!paths[i] || stat(paths[i], &st) != 0)
+            continue;
         if (!S_ISDIR(st.st_mode)) {
-            bad |= run_file(argv[i]);
+            bad |= run_file(paths[i]);
             count++;
             continue;
         }
-        DIR *d = opendir(argv[i]);
+        DIR *d = opendir(paths[i]);
         if (!d)
             continue;
         char **names = NULL;
@@ -94,13 +100,16 @@ int main(int argc, char **argv)
         qsort(names, n, sizeof *names, cmp);
         for (size_t k = 0; k < n; k++) {
             char path[4096];
-            snprintf(path, sizeof path, "%s/%s", argv[i], names[k]);
+            snprintf(path, sizeof path, "%s/%s", paths[i], names[k]);
             bad |= run_file(path);
             count++;
             free(names[k]);
         }
         free(names);
     }
+    for (int i = 1; i < argc; i++)
+        free(paths[i]);
+    free(paths);
     fprintf(stderr, "%s: %zu input(s) replayed\n", argv[0], count);
     return bad;
 }
