@@ -30,7 +30,8 @@ TESTS    := $(TEST_SRC:tests/%.c=$(B)/tests/%)
 DEPS_OK  := $(B)/.deps-ok
 
 .SECONDARY:
-.PHONY: all deps check unit demo bench install uninstall clean plots validation sanitize valgrind fuzz
+.PHONY: all deps check unit demo bench install uninstall clean plots validation sanitize valgrind fuzz \
+        fuzz-build fuzz-regress
 all: $(B)/sinkrate
 
 deps: $(DEPS_OK)
@@ -70,11 +71,58 @@ unit: $(TESTS) $(B)/sinkrate
 	    CMOCKA_MESSAGE_OUTPUT=stdout $$t || fail=1; \
 	done; exit $$fail
 
+# check = the suite, the suite and fuzz regressions under ASan+UBSan, the CLI
+# examples under valgrind, then docs/validation.md.
 check: unit
+	@$(MAKE) --no-print-directory sanitize valgrind
 	@sh scripts/validation.sh $(B)/validation.tsv > docs/validation.md.tmp && mv docs/validation.md.tmp docs/validation.md
 	@echo "docs/validation.md: $$(grep -c '^| ' docs/validation.md) lines of outside checks"
 
 validation: check
+
+# ---- hardening: sanitizers, valgrind, fuzzing (tests/fuzz/README.md) ----
+SAN_OPT      = -O1 -g -fsanitize=address,undefined -fno-sanitize-recover=all -fno-omit-frame-pointer
+FUZZ_OPT     = $(SAN_OPT) -fsanitize=fuzzer-no-link -Wno-unknown-warning-option
+FUZZ_SECONDS ?= 60
+FUZZ_NAMES  := $(sort $(patsubst tests/fuzz/fuzz_%.c,%,$(wildcard tests/fuzz/fuzz_*.c)))
+FUZZ_FLAGS   = -Itests/fuzz -DSR_SOURCE_ROOT='"$(CURDIR)"'
+# the command-line target must never write files: its stub replaces the writer
+FUZZ_WRAP_cli = -Wl,--wrap=sr_file_write_atomic
+
+# Each fuzz target as a plain program replaying its seed corpus and the
+# regression inputs (crashes the fuzzer once found) ...
+$(B)/fuzz/replay_%: tests/fuzz/fuzz_%.c tests/fuzz/replay.c tests/fuzz/fuzz.h $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
+	@mkdir -p $(dir $@)
+	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) $(FUZZ_FLAGS) $(FUZZ_WRAP_$*) -o $@ $(filter %.c %.a,$^) $(LDLIBS_ALL)
+# ... and as a libFuzzer program (built by `make fuzz` with clang).
+$(B)/fuzz/fuzz_%: tests/fuzz/fuzz_%.c tests/fuzz/fuzz.h $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
+	@mkdir -p $(dir $@)
+	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) $(FUZZ_FLAGS) $(FUZZ_WRAP_$*) -fsanitize=fuzzer -o $@ $(filter %.c %.a,$^) \
+	  $(LDLIBS_ALL)
+
+fuzz-regress: $(FUZZ_NAMES:%=$(B)/fuzz/replay_%)
+	@for n in $(FUZZ_NAMES); do $(B)/fuzz/replay_$$n tests/fuzz/corpus/$$n tests/fuzz/regress/$$n || exit 1; done
+
+# The unit and CLI suite and the fuzz regressions under ASan+UBSan, in
+# build-asan; without sanitizers (and saying so) where the compiler lacks them.
+sanitize: | $(DEPS_OK)
+	@if echo 'int main(void){return 0;}' | $(CC) -x c -fsanitize=address,undefined -o $(B)/.san-probe - 2>/dev/null; then \
+	  $(MAKE) --no-print-directory B=build-asan OPT="$(SAN_OPT)" unit fuzz-regress; \
+	else \
+	  echo "sanitize: $(CC) has no ASan/UBSan here; fuzz regressions run without them"; \
+	  $(MAKE) --no-print-directory fuzz-regress; \
+	fi; rc=$$?; rm -f $(B)/.san-probe; exit $$rc
+
+# The CLI examples under valgrind: no memory errors, no definite or indirect leaks.
+valgrind: $(B)/sinkrate
+	@sh scripts/valgrind.sh $(B)/sinkrate
+
+# libFuzzer: build every target with clang, then run each FUZZ_SECONDS.
+fuzz-build:
+	@$(MAKE) --no-print-directory B=build-fuzz CC=clang OPT="$(FUZZ_OPT)" $(FUZZ_NAMES:%=build-fuzz/fuzz/fuzz_%)
+
+fuzz: fuzz-build
+	@sh scripts/fuzz.sh build-fuzz $(FUZZ_SECONDS) $(FUZZ_NAMES)
 
 demo: $(B)/sinkrate
 	@sh scripts/demo.sh $(B)/sinkrate

@@ -98,8 +98,12 @@ int sr_canopy_from_size(sr_canopy *c, const sr_family *fam, sr_size_kind kind, d
         return sr_error_set(err, SR_EINVAL, "the canopy %s must be a positive number (got %g)",
                             sr_size_kind_name(kind), value);
     double maxlen = 200.0; /* m: larger than any canopy flown; catches unit slips (cm read as m) */
+    double minlen = 0.01;  /* m: smaller than any canopy that flies; catches the slip the other way */
     if ((kind == SR_SIZE_NOMINAL_AREA && value > maxlen * maxlen) || (kind != SR_SIZE_NOMINAL_AREA && value > maxlen))
         return sr_error_set(err, SR_EINVAL, "a canopy %s of %g %s is beyond any canopy built; check the unit",
+                            sr_size_kind_name(kind), value, kind == SR_SIZE_NOMINAL_AREA ? "m2" : "m");
+    if ((kind == SR_SIZE_NOMINAL_AREA && value < minlen * minlen) || (kind != SR_SIZE_NOMINAL_AREA && value < minlen))
+        return sr_error_set(err, SR_EINVAL, "a canopy %s of %g %s is below any canopy built; check the unit",
                             sr_size_kind_name(kind), value, kind == SR_SIZE_NOMINAL_AREA ? "m2" : "m");
     c->size_kind = kind;
     c->size_value = value;

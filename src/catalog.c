@@ -325,22 +325,28 @@ int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_ya
 
 static const char *const CANOPY_FILE_KEYS[] = {"canopy", NULL};
 
+int sr_catalog_parse_canopy(sr_canopy *c, const sr_catalog *cat, sr_yaml *y, sr_error *err)
+{
+    yaml_node_t *root = sr_yaml_root(y);
+    int rc = sr_yaml_check_map(y, root, "a canopy file", CANOPY_FILE_KEYS, CANOPY_FILE_KEYS, err);
+    if (rc)
+        return rc;
+    yaml_node_t *n = sr_yaml_get(y, root, "canopy");
+    static const char *const keys[] = {"name",          "family",           "nominal-diameter", "projected-diameter",
+                                       "flat-diameter", "nominal-area",     "drag-coefficient", "count",
+                                       "cluster-factor", "areal-mass",      NULL};
+    if ((rc = sr_yaml_check_map(y, n, "canopy", keys, NULL, err)))
+        return rc;
+    return sr_catalog_canopy_from_node(c, cat, y, n, 0, NULL, err);
+}
+
 int sr_catalog_load_canopy(sr_canopy *c, const sr_catalog *cat, const char *path, sr_error *err)
 {
     sr_yaml y;
     int rc = sr_yaml_load_file(&y, path, err);
     if (rc)
         return rc;
-    yaml_node_t *root = sr_yaml_root(&y);
-    rc = sr_yaml_check_map(&y, root, "a canopy file", CANOPY_FILE_KEYS, CANOPY_FILE_KEYS, err);
-    yaml_node_t *n = rc ? NULL : sr_yaml_get(&y, root, "canopy");
-    static const char *const keys[] = {"name",          "family",           "nominal-diameter", "projected-diameter",
-                                       "flat-diameter", "nominal-area",     "drag-coefficient", "count",
-                                       "cluster-factor", "areal-mass",      NULL};
-    if (!rc)
-        rc = sr_yaml_check_map(&y, n, "canopy", keys, NULL, err);
-    if (!rc)
-        rc = sr_catalog_canopy_from_node(c, cat, &y, n, 0, NULL, err);
+    rc = sr_catalog_parse_canopy(c, cat, &y, err);
     sr_yaml_free(&y);
     return rc;
 }

@@ -31,6 +31,8 @@ int sr_catalog_parse_family(sr_family *f, sr_yaml *y, sr_error *err);
 /* A user canopy file: top-level key `canopy:`. Relative paths inside are not
  * used. */
 int sr_catalog_load_canopy(sr_canopy *c, const sr_catalog *cat, const char *path, sr_error *err);
+/* The same from a document already loaded (messages name y->name). */
+int sr_catalog_parse_canopy(sr_canopy *c, const sr_catalog *cat, sr_yaml *y, sr_error *err);
 
 /* Canopy keys shared by canopy files and mission stages. The mapping n may
  * hold other keys (checked by the caller); reads family, one size key

@@ -2,6 +2,8 @@
  * Lines are fed to libcsv one at a time so every cell knows its line. */
 #include "csvtable.h"
 
+#include "fileio.h"
+
 #include <csv.h>
 #include <ctype.h>
 #include <errno.h>
@@ -363,9 +365,10 @@ int sr_csvtable_load(sr_csvtable *t, const char *path, const sr_csv_column *spec
                      sr_error *err)
 {
     memset(t, 0, sizeof *t);
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return sr_error_set(err, SR_EIO, "%s: cannot open: %s", path, strerror(errno));
+    FILE *f;
+    int rc = sr_file_open_read(path, &f, err);
+    if (rc)
+        return rc;
     char *buf = NULL;
     size_t len = 0, cap = 0;
     for (;;) {
@@ -389,13 +392,13 @@ int sr_csvtable_load(sr_csvtable *t, const char *path, const sr_csv_column *spec
         if (got == 0)
             break;
     }
-    int bad = ferror(f);
+    int bad = ferror(f), bad_errno = errno;
     fclose(f);
     if (bad) {
         free(buf);
-        return sr_error_set(err, SR_EIO, "%s: read error", path);
+        return sr_error_set(err, SR_EIO, "%s: read error: %s", path, strerror(bad_errno));
     }
-    int rc = sr_csvtable_parse(t, path, buf ? buf : "", len, specs, nspecs, err);
+    rc = sr_csvtable_parse(t, path, buf ? buf : "", len, specs, nspecs, err);
     free(buf);
     return rc;
 }

@@ -5,6 +5,15 @@
 #include <stdio.h>
 #include <string.h>
 
+void sr_error_printable(char *s)
+{
+    for (unsigned char *p = (unsigned char *)s; *p; p++)
+        if (*p == '\t')
+            *p = ' ';
+        else if (*p < 0x20 || *p == 0x7f)
+            *p = '?';
+}
+
 int sr_error_set(sr_error *err, int code, const char *fmt, ...)
 {
     if (err) {
@@ -12,6 +21,7 @@ int sr_error_set(sr_error *err, int code, const char *fmt, ...)
         va_start(ap, fmt);
         vsnprintf(err->msg, sizeof err->msg, fmt, ap);
         va_end(ap);
+        sr_error_printable(err->msg);
         err->code = code;
     }
     return code;
@@ -28,6 +38,7 @@ int sr_error_prefix(sr_error *err, const char *fmt, ...)
     va_end(ap);
     memcpy(old, err->msg, sizeof old);
     snprintf(err->msg, sizeof err->msg, "%s%s", head, old);
+    sr_error_printable(err->msg);
     return err->code;
 }
 

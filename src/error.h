@@ -39,6 +39,10 @@ int sr_error_prefix(sr_error *err, const char *fmt, ...)
 
 void sr_error_clear(sr_error *err);
 
+/* Keep a message on one printable line: a tab becomes a space, any other
+ * control byte (a newline or terminal escape quoted from the input) a '?'. */
+void sr_error_printable(char *s);
+
 /* Short name of a status code, e.g. "invalid input". */
 const char *sr_error_name(int code);
 

@@ -4,10 +4,15 @@
 #define SR_FILEIO_H
 
 #include <stddef.h>
+#include <stdio.h>
 
 #include "error.h"
 
 int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err);
+
+/* fopen(path, "rb") with the two errors users meet named plainly: the file
+ * does not open (with the system's reason), or it is a directory. */
+int sr_file_open_read(const char *path, FILE **f, sr_error *err);
 
 /* Read a whole file (at most max bytes) into a malloc'd NUL-terminated buffer. */
 int sr_file_read(const char *path, size_t max, char **data, size_t *len, sr_error *err);

@@ -256,14 +256,18 @@ static int parse(const char *text, sr_quantity q, double *si, int need_unit, sr_
             return SR_OK;
         }
         if (need_unit)
-            return sr_error_set(err, SR_EINVAL, "'%s' needs a unit (%s in %s)", text, what,
-                                DISPLAY[q].accepted);
+            return sr_error_set(err, SR_EINVAL, "'%s' needs a unit (%s %s in %s)", text,
+                                strchr("aeiou", what[0]) ? "an" : "a", what, DISPLAY[q].accepted);
         if (q == SR_Q_TEMP && v < 0.0)
             return sr_error_set(err, SR_EINVAL, "'%s' is below absolute zero (a bare temperature is in K)", text);
         /* a bare angle is degrees: see units.h */
-        *si = q == SR_Q_ANGLE ? v * PI / 180.0 : v;
+        *si = q == SR_Q_ANGLE ? v * (PI / 180.0) : v;
         return SR_OK;
     }
+    /* "2,5 kg": a decimal comma reads as a unit ",5 kg"; say what went wrong */
+    if (unit[0] == ',' && isdigit((unsigned char)unit[1]))
+        return sr_error_set(err, SR_EINVAL, "'%s': write decimals with a point (%.*s.%c...), not a comma", text,
+                            (int)n, s, unit[1]);
     if (q == SR_Q_NONE)
         return sr_error_set(err, SR_EINVAL, "'%s' takes no unit", text);
     double f, off;

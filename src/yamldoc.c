@@ -5,6 +5,7 @@
 #include "fileio.h"
 
 #include <errno.h>
+#include <math.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -24,25 +25,58 @@ int sr_yaml_fail(const sr_yaml *y, const yaml_node_t *n, sr_error *err, const ch
     return sr_error_set(err, SR_EINVAL, "%s: %s", y->name, msg);
 }
 
-static int depth_ok(yaml_document_t *d, yaml_node_t *n, int depth)
+/* Depth and size of the tree as the schema code walks it. Aliases are
+ * followed, so every use of an anchor counts: a file that repeats one list
+ * through nested aliases ("billion laughs") exhausts the budget instead of
+ * making this walk, and later ones, exponential. */
+static int tree_ok(yaml_document_t *d, yaml_node_t *n, int depth, size_t *budget, yaml_node_t **bad)
 {
-    if (depth > SR_YAML_MAX_DEPTH)
+    if (depth > SR_YAML_MAX_DEPTH || *budget == 0) {
+        *bad = n;
         return 0;
+    }
+    (*budget)--;
     if (n->type == YAML_SEQUENCE_NODE) {
         for (yaml_node_item_t *it = n->data.sequence.items.start; it < n->data.sequence.items.top; it++) {
             yaml_node_t *c = yaml_document_get_node(d, *it);
-            if (c && !depth_ok(d, c, depth + 1))
+            if (c && !tree_ok(d, c, depth + 1, budget, bad))
                 return 0;
         }
     } else if (n->type == YAML_MAPPING_NODE) {
         for (yaml_node_pair_t *p = n->data.mapping.pairs.start; p < n->data.mapping.pairs.top; p++) {
             yaml_node_t *k = yaml_document_get_node(d, p->key);
             yaml_node_t *v = yaml_document_get_node(d, p->value);
-            if ((k && !depth_ok(d, k, depth + 1)) || (v && !depth_ok(d, v, depth + 1)))
+            if ((k && !tree_ok(d, k, depth + 1, budget, bad)) || (v && !tree_ok(d, v, depth + 1, budget, bad)))
                 return 0;
         }
     }
     return 1;
+}
+
+/* Before libyaml builds anything: a NUL byte, or flow brackets nested deeper
+ * than any sinkrate file needs (the usual vehicle of pathological nesting).
+ * Reports the 1-based line and column of the offending byte. */
+static int prescan(const sr_yaml *y, const char *buf, size_t len, sr_error *err)
+{
+    size_t line = 1, col = 1;
+    int flow = 0;
+    for (size_t i = 0; i < len; i++, col++) {
+        char ch = buf[i];
+        if (ch == '\0')
+            return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: binary data (a NUL byte); not a YAML text file", y->name,
+                                line, col);
+        if (ch == '\n') {
+            line++;
+            col = 0;
+        } else if (ch == '[' || ch == '{') {
+            if (++flow > SR_YAML_MAX_DEPTH)
+                return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: nested more than %d levels deep; not a sinkrate file",
+                                    y->name, line, col, SR_YAML_MAX_DEPTH);
+        } else if ((ch == ']' || ch == '}') && flow > 0) {
+            flow--;
+        }
+    }
+    return SR_OK;
 }
 
 int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t len, sr_error *err)
@@ -53,28 +87,24 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
         return sr_error_set(err, SR_EINVAL, "%s: larger than 1 MiB; not a sinkrate file", name);
     if (len == 0)
         return sr_error_set(err, SR_EINVAL, "%s:1:1: the file is empty", name);
-    if (memchr(buf, '\0', len))
-        return sr_error_set(err, SR_EINVAL, "%s: binary data (a NUL byte); not a YAML text file", name);
-    /* Refuse deep nesting before libyaml builds it: count the indentation-free
-     * flow brackets, the usual vehicle of pathological nesting. */
-    int flow = 0, maxflow = 0;
-    for (size_t i = 0; i < len; i++) {
-        if (buf[i] == '[' || buf[i] == '{')
-            flow++;
-        else if ((buf[i] == ']' || buf[i] == '}') && flow > 0)
-            flow--;
-        if (flow > maxflow)
-            maxflow = flow;
-    }
-    if (maxflow > SR_YAML_MAX_DEPTH)
-        return sr_error_set(err, SR_EINVAL, "%s: nested more than %d levels deep; not a sinkrate file", name,
-                            SR_YAML_MAX_DEPTH);
+    int rc = prescan(y, buf, len, err);
+    if (rc)
+        return rc;
     yaml_parser_t p;
     if (!yaml_parser_initialize(&p))
         return sr_error_set(err, SR_ENOMEM, "%s: cannot start the YAML parser", name);
     yaml_parser_set_input_string(&p, (const unsigned char *)buf, len);
     if (!yaml_parser_load(&p, &y->doc)) {
         size_t line = p.problem_mark.line + 1, col = p.problem_mark.column + 1;
+        if (p.error == YAML_READER_ERROR) {
+            /* libyaml gives a reader error (bad UTF-8, control bytes) as a byte offset only */
+            line = col = 1;
+            for (size_t i = 0; i < p.problem_offset && i < len; i++, col++)
+                if (buf[i] == '\n') {
+                    line++;
+                    col = 0;
+                }
+        }
         if (p.error == YAML_MEMORY_ERROR)
             sr_error_set(err, SR_ENOMEM, "%s: out of memory while reading YAML", name);
         else
@@ -83,12 +113,20 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
         yaml_parser_delete(&p);
         return err ? err->code : SR_EINVAL;
     }
-    /* a second document in the same file is a mistake worth reporting */
+    /* a second document in the same file is a mistake worth reporting, and
+     * a malformed one must not pass unseen */
     yaml_document_t extra;
     int more = 0;
+    size_t more_line = 0, more_col = 0;
     if (yaml_parser_load(&p, &extra)) {
         more = yaml_document_get_root_node(&extra) != NULL;
+        more_line = extra.start_mark.line + 1;
+        more_col = extra.start_mark.column + 1;
         yaml_document_delete(&extra);
+    } else {
+        more = 1;
+        more_line = p.problem_mark.line + 1;
+        more_col = p.problem_mark.column + 1;
     }
     yaml_parser_delete(&p);
     y->loaded = 1;
@@ -99,12 +137,18 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
     }
     if (more) {
         sr_yaml_free(y);
-        return sr_error_set(err, SR_EINVAL, "%s: more than one YAML document (---); keep one per file", name);
+        return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: more than one YAML document (---); keep one per file", name,
+                            more_line, more_col);
     }
-    size_t nodes = (size_t)(y->doc.nodes.top - y->doc.nodes.start);
-    if (nodes > SR_YAML_MAX_NODES || !depth_ok(&y->doc, root, 0)) {
+    size_t nodes = (size_t)(y->doc.nodes.top - y->doc.nodes.start), budget = SR_YAML_MAX_NODES;
+    yaml_node_t *bad = root;
+    if (nodes > SR_YAML_MAX_NODES || !tree_ok(&y->doc, root, 0, &budget, &bad)) {
+        size_t line = bad->start_mark.line + 1, col = bad->start_mark.column + 1;
         sr_yaml_free(y);
-        return sr_error_set(err, SR_EINVAL, "%s: too large or too deeply nested for a sinkrate file", name);
+        return sr_error_set(err, SR_EINVAL,
+                            "%s:%zu:%zu: too large or too deeply nested for a sinkrate file (aliases count at "
+                            "every use)",
+                            name, line, col);
     }
     return SR_OK;
 }
@@ -112,13 +156,22 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
 int sr_yaml_load_file(sr_yaml *y, const char *path, sr_error *err)
 {
     memset(y, 0, sizeof *y);
-    char *buf;
-    size_t len;
-    int rc = sr_file_read(path, SR_YAML_MAX_BYTES, &buf, &len, err);
-    if (rc == SR_EINVAL)
-        return sr_error_set(err, SR_EINVAL, "%s: larger than 1 MiB; not a sinkrate file", path);
+    FILE *f;
+    int rc = sr_file_open_read(path, &f, err);
     if (rc)
         return rc;
+    char *buf = malloc(SR_YAML_MAX_BYTES + 1);
+    if (!buf) {
+        fclose(f);
+        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", path);
+    }
+    size_t len = fread(buf, 1, SR_YAML_MAX_BYTES + 1, f);
+    int bad = ferror(f), bad_errno = errno;
+    fclose(f);
+    if (bad) {
+        free(buf);
+        return sr_error_set(err, SR_EIO, "%s: read error: %s", path, strerror(bad_errno));
+    }
     rc = sr_yaml_load_string(y, path, buf, len, err);
     free(buf);
     return rc;
@@ -285,7 +338,8 @@ int sr_yaml_int(const sr_yaml *y, yaml_node_t *n, long lo, long hi, long *v, sr_
     int rc = sr_yaml_number(y, n, &d, err);
     if (rc)
         return rc;
-    if (d != (double)(long)d || d < (double)lo || d > (double)hi)
+    /* range first: converting a double beyond long's range is undefined */
+    if (!(d >= (double)lo && d <= (double)hi) || d != floor(d))
         return sr_yaml_fail(y, n, err, "expected a whole number from %ld to %ld, got '%s'", lo, hi,
                             scalar_of(n));
     *v = (long)d;
@@ -296,8 +350,9 @@ int sr_yaml_quantity(const sr_yaml *y, yaml_node_t *n, sr_quantity q, double *si
 {
     const char *s = scalar_of(n);
     if (!s)
-        return sr_yaml_fail(y, n, err, "expected a %s with a unit here (e.g. \"%s\")", sr_units_quantity_name(q),
-                            q == SR_Q_TEMP ? "15 C" : "1.5 m");
+        return sr_yaml_fail(y, n, err, "expected a %s with a unit here (e.g. \"%s %s\")", sr_units_quantity_name(q),
+                            q == SR_Q_TEMP || q == SR_Q_TEMP_DIFF ? "15" : "1.5",
+                            q == SR_Q_TEMP || q == SR_Q_TEMP_DIFF ? "C" : sr_units_label(q, SR_UNITS_SI));
     sr_error e;
     if (sr_units_parse_strict(s, q, si, &e) != SR_OK)
         return sr_yaml_fail(y, n, err, "%s", e.msg);

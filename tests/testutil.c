@@ -83,6 +83,21 @@ const char *sr_test_path(const char *rel)
     return b;
 }
 
+/* Temporary files are removed when the test program exits. */
+static char **tmp_made;
+static size_t tmp_n;
+
+static void tmp_cleanup(void)
+{
+    for (size_t i = 0; i < tmp_n; i++) {
+        unlink(tmp_made[i]);
+        free(tmp_made[i]);
+    }
+    free(tmp_made);
+    tmp_made = NULL;
+    tmp_n = 0;
+}
+
 const char *sr_test_tmpfile(const char *suffix, const char *text)
 {
     static char buf[16][256];
@@ -92,6 +107,15 @@ const char *sr_test_tmpfile(const char *suffix, const char *text)
     int fd = mkstemps(b, suffix ? (int)strlen(suffix) : 0);
     if (fd < 0)
         return NULL;
+    char **grown = realloc(tmp_made, (tmp_n + 1) * sizeof *grown);
+    if (grown) {
+        if (tmp_n == 0)
+            atexit(tmp_cleanup);
+        tmp_made = grown;
+        tmp_made[tmp_n] = strdup(b);
+        if (tmp_made[tmp_n])
+            tmp_n++;
+    }
     size_t n = strlen(text);
     if (write(fd, text, n) != (ssize_t)n) {
         close(fd);

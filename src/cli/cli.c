@@ -77,8 +77,6 @@ int sr_cli_run(int argc, char **argv, FILE *out, FILE *err)
     names[NCOMMANDS] = NULL;
     const char *s = sr_yaml_suggest(name, names);
     if (s)
-        fprintf(err, "sinkrate: unknown command '%s'; did you mean '%s'?\n", name, s);
-    else
-        fprintf(err, "sinkrate: unknown command '%s' (sinkrate --help lists them)\n", name);
-    return SR_EXIT_USAGE;
+        return sr_cli_fail(&c, "unknown command '%s'; did you mean '%s'?", name, s);
+    return sr_cli_fail(&c, "unknown command '%s' (sinkrate --help lists them)", name);
 }

@@ -43,12 +43,10 @@ static int check_one(const sr_catalog *cat, const char *path, char *kind, size_t
         free(m);
     } else if (sr_yaml_get(&y, root, "canopy")) {
         snprintf(kind, klen, "canopy");
-        sr_yaml_free(&y);
         sr_canopy cp;
-        rc = sr_catalog_load_canopy(&cp, cat, path, e);
+        rc = sr_catalog_parse_canopy(&cp, cat, &y, e);
         if (!rc)
             snprintf(what, wlen, "%s, nominal diameter %.3g m", cp.fam.id, cp.d0.typ);
-        return rc;
     } else if (sr_yaml_get(&y, root, "id")) {
         snprintf(kind, klen, "canopy family");
         sr_family f;

@@ -67,7 +67,12 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     if (rc)
         return rc;
     if (o.canopy.nominal_diameter || o.canopy.projected_diameter || o.canopy.flat_diameter || o.canopy.nominal_area)
-        return sr_cli_fail(c, "size finds the canopy size; drop the size option (use `sinkrate rate` for a given size)");
+        return sr_cli_fail(c, "%s: size finds the canopy size; drop the size option (use `sinkrate rate` for a given "
+                              "size)",
+                           o.canopy.nominal_diameter     ? "--nominal-diameter"
+                           : o.canopy.projected_diameter ? "--projected-diameter"
+                           : o.canopy.flat_diameter      ? "--flat-diameter"
+                                                         : "--nominal-area");
 
     sr_catalog *cat = NULL;
     sr_mission *mis = NULL;
@@ -143,6 +148,15 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_size_result res;
     if (sr_descent_size(&req, &res, &e)) {
         rc = sr_cli_fail_err(c, &e);
+        goto out;
+    }
+    /* the same bounds a given size must meet (sr_canopy_from_size): outside them
+     * the answer is no canopy at all, usually a unit slip in mass or speed */
+    if (res.d0.lo < 0.01 || res.d0.hi > 200.0) {
+        sr_cli_fail(c, "no canopy fits: the nominal diameter needed, %.3g m .. %.3g m, is outside any canopy built "
+                       "(1 cm .. 200 m); check --mass and --speed",
+                    res.d0.lo, res.d0.hi);
+        rc = SR_EXIT_LIMIT;
         goto out;
     }
 

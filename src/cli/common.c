@@ -54,6 +54,7 @@ int sr_cli_fail(sr_cli *c, const char *fmt, ...)
     va_start(ap, fmt);
     vsnprintf(msg, sizeof msg, fmt, ap);
     va_end(ap);
+    sr_error_printable(msg);
     fprintf(c->err, "sinkrate%s%s: %s\n", c->cmd ? " " : "", c->cmd ? c->cmd : "", msg);
     return SR_EXIT_USAGE;
 }

@@ -1,0 +1,56 @@
+#!/bin/sh
+# valgrind.sh - run the CLI examples under valgrind: any memory error or a
+# definite/indirect leak fails. Each line below is "EXPECTED-EXIT ARGS..."; the
+# error paths are here too, since leaks hide on them. Add a line per new example.
+set -u
+bin=${1:-build/sinkrate}
+root=$(cd "$(dirname "$0")/.." && pwd)
+tmp=$(mktemp -d /tmp/sinkrate-vg-XXXXXX)
+trap 'rm -rf "$tmp"' EXIT INT TERM
+export SINKRATE_DATA="$root"
+M="$root/payloads/desert-club-rocket.yaml"
+printf 'mission: x\nsections: [\n' > "$tmp/bad.yaml"
+printf 'altitude [m],temperature [C],pressure [hPa]\n0,15,1013.25\n1000,8.5,898.7\n3000,-4.5,701.1\n' > "$tmp/sounding.csv"
+# valgrind's own failure code, distinct from the program's 0/1/2
+VG=97
+fail=0; n=0
+while read -r want args; do
+  [ -z "$want" ] && continue
+  case $want in \#*) continue ;; esac
+  n=$((n + 1))
+  # shellcheck disable=SC2086
+  eval "set -- $args"
+  valgrind -q --leak-check=full --errors-for-leak-kinds=definite,indirect --error-exitcode=$VG \
+    "$bin" "$@" > "$tmp/out" 2> "$tmp/err"
+  rc=$?
+  if [ $rc -eq $VG ] || [ $rc -ne "$want" ]; then
+    echo "valgrind: FAIL (exit $rc, expected $want): sinkrate $args"
+    sed 's/^/  /' "$tmp/err" | head -40
+    fail=1
+  fi
+done <<EOF_LIST
+0 --version
+0 --help
+0 size --mass 5.3kg --speed 6.1m/s --family conical --site-elevation 1380m --surface-temp 38C --surface-pressure 858hPa
+0 size --mission "$M" --format json
+0 size --mass 2kg --speed 5m/s --family cross --cluster 3 --areal-mass 40g/m2 --format csv --units us
+0 rate --mass 5.3kg --family conical --projected-diameter 1.5m --altitude 1380m,2000m,4000m --site-elevation 1380m --surface-temp 38C
+0 rate --mission "$M" --altitude 1380m,1630m,4280m --format json
+0 rate --mass 10kg --family flat-circular --nominal-diameter 2m --drag-coefficient 1.4 --drag-reference projected -o "$tmp/rate.txt"
+0 air --from 0 --to 30km --step 5km
+0 air --sounding "$tmp/sounding.csv" --format csv
+0 air --temp-offset 15C --altitude 0,1km,11km --units us --format json
+0 canopies
+0 canopies cross
+0 check "$M" "$root/canopies/conical.yaml"
+1 size --mass 0.1kg --speed 0.5m/s --family conical --areal-mass 1500g/m2
+2 size --mass 2kg --speed 5 --family conicle
+2 size --mission "$tmp/bad.yaml" --speed 5
+2 rate --mass 2kg --family conical
+2 air --altitude 90km
+2 air -o "$tmp/missing/dir/out.txt"
+2 check "$tmp/bad.yaml" "$tmp/nonexistent.yaml"
+2 frobnicate
+EOF_LIST
+[ $fail -eq 0 ] && echo "valgrind: $n CLI examples clean (no memory errors, no definite or indirect leaks)"
+exit $fail

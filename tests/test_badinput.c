@@ -1,0 +1,684 @@
+/* test_badinput.c - the bad-input catalogue: every row is a command line, the
+ * files it reads, and what its one error line must say. Each must exit 2,
+ * print exactly one line on stderr naming the file:line:column or the
+ * option, print nothing on stdout, and leave no file behind (every row runs
+ * with -o into an empty directory that must stay empty).
+ *
+ * Adding a row: give the arguments (placeholders below), the content of the
+ * input files if any, the location the line must name and a phrase it must
+ * hold. New commands append rows at the end of BAD; `SR_BADINPUT_SHOW=1
+ * build/tests/test_badinput` prints every row's error line for review. */
+#define _DEFAULT_SOURCE
+#include <dirent.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "testutil.h"
+
+/* Placeholders in args, where and file contents:
+ *   @IN@    the first input file (content `in`; absent when in is NULL)
+ *   @IN2@   a second input file next to it (content `in2`), named "second"
+ *   @DIR@   an existing directory holding the inputs
+ *   @OUT@   the output directory, which must stay empty
+ *   @DATA@  a data directory whose canopies/ holds @IN@ as its only family
+ * Unless a row gives -o itself, "-o @OUT@/result" is appended -- except for
+ * `check`, whose report on the files it checked is its product even when a
+ * file is invalid: check rows run without -o and may print that report. */
+typedef enum gen {
+    GEN_NONE = 0,
+    GEN_BIG,        /* @IN@ is 1.5 MiB of valid-looking YAML */
+    GEN_BINARY,     /* @IN@ is 256 bytes 0..255 */
+    GEN_DEEP_BLOCK, /* @IN@ nests 40 block mappings */
+    GEN_LAUGHS,     /* @IN@ multiplies one list through 9 levels of aliases */
+    GEN_LONG_NUMBER /* @IN@ is a mission whose mass has 300 digits */
+} gen;
+
+typedef struct bad_case {
+    const char *args[16];
+    const char *in, *in2;
+    gen gen;
+    const char *where;  /* "@IN@:3:7" or "--mass": the location the line names */
+    const char *expect; /* a phrase the line holds */
+} bad_case;
+
+/* A valid mission to vary: line 4 holds the section, 6-8 the stage. */
+#define MISSION_HEAD "mission: m\nsite: {elevation: 100 m}\nsections:\n"
+#define SECTION "  - {name: a, mass: 2 kg}\n"
+#define STAGES "stages:\n  - name: main\n    family: conical\n    nominal-diameter: 1.5 m\n"
+#define MISSION MISSION_HEAD SECTION STAGES
+/* A valid family file to vary: id on line 1, class on 3, drag on 4. */
+#define FAM_CD "drag-coefficient: {reference: nominal, low: 0.7, high: 0.8, source: s}\n"
+#define FAM_REST                                                                                              \
+    "projected-ratio: {low: 0.6, high: 0.7, source: s}\n"                                                     \
+    "constructed-ratio: {low: 0.9, high: 1.0, source: s}\n"                                                   \
+    "opening-factor: {low: 1.5, high: 1.8, source: s}\n"                                                      \
+    "filling-constant: {value: 8, source: s}\n"                                                               \
+    "oscillation: {low: 5 deg, high: 20 deg, source: s}\n"                                                    \
+    "mach-limit: {value: 0.5, source: s}\n"
+#define FAM_HEAD "id: test\nname: \"Test\"\nclass: solid\n"
+#define FAM_BODY "name: \"Test\"\nclass: solid\n" FAM_CD FAM_REST
+#define FAMILY FAM_HEAD FAM_CD FAM_REST
+#define SOUNDING_HEAD "altitude [m],temperature [C],pressure [hPa]\n"
+
+/* Common command lines. */
+#define SIZE_MISSION "size", "--mission", "@IN@", "--speed", "5 m/s"
+#define RATE_MISSION "rate", "--mission", "@IN@"
+#define RATE_CANOPY "rate", "--mass", "2 kg", "--canopy", "@IN@"
+#define SIZE_OK "size", "--mass", "2 kg", "--speed", "5 m/s", "--family", "conical"
+#define RATE_OK "rate", "--mass", "2 kg", "--family", "conical", "--nominal-diameter", "1.5 m"
+#define AIR_SOUNDING "air", "--sounding", "@IN@"
+#define CHECK "check", "@IN@"
+
+static const bad_case BAD[] = {
+    /* ---- options: values and units ---- */
+    {{SIZE_OK, "--mass", "-2 kg"}, NULL, NULL, 0, "--mass", "greater than zero"},
+    {{"size", "--mass", "0", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "greater than zero"},
+    {{"size", "--mass", "nan", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "not a number"},
+    {{"size", "--mass", "inf kg", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "not a number"},
+    {{"size", "--mass", "2 stone", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass",
+     "unknown mass unit 'stone'"},
+    {{"size", "--mass", "2 m", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass",
+     "unknown mass unit 'm'"},
+    {{"size", "--mass", "1e400 kg", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass",
+     "out of the range"},
+    {{"size", "--mass", "1e6 kg", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass",
+     "beyond any payload"},
+    {{"size", "--mass", "0x10", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "hexadecimal"},
+    {{"size", "--mass", "2,5 kg", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass",
+     "decimals with a point (2.5...)"},
+    {{"size", "--mass", "", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "empty mass"},
+    {{"size", "--mass", "2 kg", "--speed", "0 m/s", "--family", "conical"}, NULL, NULL, 0, "--speed",
+     "greater than zero"},
+    {{"size", "--mass", "2 kg", "--speed", "400 m/s", "--family", "conical"}, NULL, NULL, 0, "--speed",
+     "not a touchdown speed"},
+    {{"size", "--mass", "2 kg", "--speed", "5 kg", "--family", "conical"}, NULL, NULL, 0, "--speed",
+     "unknown speed unit 'kg'"},
+    {{"size", "--mass", "2 kg", "--family", "conical"}, NULL, NULL, 0, "--speed", "required"},
+    {{"size", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "required"},
+    {{"size", "--mass", "2 kg", "--speed", "5", "--family", "conicle"}, NULL, NULL, 0, "--family",
+     "did you mean 'conical'"},
+    {{"size", "--mass", "2 kg", "--speed", "5", "--family", ""}, NULL, NULL, 0, "--family",
+     "unknown canopy family"},
+    {{"size", "--mass", "2 kg", "--speed", "5"}, NULL, NULL, 0, "--family", "required"},
+    {{SIZE_OK, "--altitude", "90 km"}, NULL, NULL, 0, "--altitude", "outside"},
+    {{SIZE_OK, "--altitude", "-2 km"}, NULL, NULL, 0, "--altitude", "outside"},
+    {{SIZE_OK, "--body-drag-area", "-1 m2"}, NULL, NULL, 0, "--body-drag-area", "positive"},
+    {{SIZE_OK, "--body-drag-area", "1 m"}, NULL, NULL, 0, "--body-drag-area", "unknown area unit 'm'"},
+    {{"size", "--mass", "2 kg", "--speed", "5", "--familly", "conical"}, NULL, NULL, 0, "--familly",
+     "did you mean '--family'"},
+    {{SIZE_OK, "--nominal-diameter", "1 m"}, NULL, NULL, 0, "--nominal-diameter", "size finds the canopy size"},
+    {{SIZE_OK, "--cluster", "0"}, NULL, NULL, 0, "--cluster", "whole number from 1 to 16"},
+    {{SIZE_OK, "--cluster", "17"}, NULL, NULL, 0, "--cluster", "whole number from 1 to 16"},
+    {{SIZE_OK, "--cluster", "2.5"}, NULL, NULL, 0, "--cluster", "whole number"},
+    {{SIZE_OK, "--cluster", "99999999999999999999999"}, NULL, NULL, 0, "--cluster", "whole number"},
+    {{SIZE_OK, "--cluster", "3", "--cluster-factor", "1.5"}, NULL, NULL, 0, "--cluster-factor", "outside 0.5 .. 1"},
+    {{SIZE_OK, "--areal-mass", "5 kg/m2"}, NULL, NULL, 0, "--areal-mass", "heavier than any canopy cloth"},
+    {{SIZE_OK, "--areal-mass", "40 g"}, NULL, NULL, 0, "--areal-mass", "unknown areal mass unit 'g'"},
+    {{SIZE_OK, "--temp-offset", "15 C", "--surface-temp", "30 C"}, NULL, NULL, 0, "--temp-offset", "not both"},
+    {{SIZE_OK, "--temp-offset", "200 K"}, NULL, NULL, 0, "--temp-offset", "outside -100 K .. +100 K"},
+    {{SIZE_OK, "--surface-temp", "-300 C"}, NULL, NULL, 0, "--surface-temp", "below absolute zero"},
+    {{SIZE_OK, "--surface-temp", "90 C"}, NULL, NULL, 0, "--surface-temp", "outside 173.15 K .. 343.15 K"},
+    {{SIZE_OK, "--surface-pressure", "0 hPa"}, NULL, NULL, 0, "--surface-pressure", "greater than zero"},
+    {{SIZE_OK, "--surface-pressure", "5000 hPa"}, NULL, NULL, 0, "--surface-pressure", "implausible"},
+    {{SIZE_OK, "--site-elevation", "100 km"}, NULL, NULL, 0, "--site-elevation", "outside"},
+    {{SIZE_OK, "--format", "xml"}, NULL, NULL, 0, "--format", "not one of text, csv, json"},
+    {{SIZE_OK, "--units", "imperial"}, NULL, NULL, 0, "--units", "not one of si, us"},
+    {{SIZE_OK, "--threads", "2"}, NULL, NULL, 0, "--threads", "unknown option"},
+    {{SIZE_OK, "extra"}, NULL, NULL, 0, "'extra'", "unexpected argument"},
+    {{"size", "-o", "@OUT@/result", "--mass", "2 kg", "--family", "conical", "--speed"}, NULL, NULL, 0, "--speed",
+     "needs a value"},
+    {{SIZE_OK, "-x"}, NULL, NULL, 0, "-x", "unknown option"},
+
+    /* ---- rate: the canopy options ---- */
+    {{"rate", "--mass", "2 kg", "--family", "conical"}, NULL, NULL, 0, "--nominal-diameter", "needs a size"},
+    {{RATE_OK, "--projected-diameter", "1 m"}, NULL, NULL, 0, "--projected-diameter", "one size only"},
+    {{RATE_OK, "--drag-coefficient", "1.5"}, NULL, NULL, 0, "--drag-reference", "go together"},
+    {{RATE_OK, "--drag-coefficient", "1.5", "--drag-reference", "sideways"}, NULL, NULL, 0, "--drag-reference",
+     "not one of nominal, projected, constructed"},
+    {{RATE_OK, "--drag-coefficient", "-1", "--drag-reference", "nominal"}, NULL, NULL, 0, "--drag-coefficient",
+     "greater than zero"},
+    {{RATE_OK, "--drag-coefficient", "50", "--drag-reference", "nominal"}, NULL, NULL, 0, "--drag-coefficient",
+     "outside 0 .. 3"},
+    {{RATE_OK, "--drag-coefficient", "1.2 m", "--drag-reference", "nominal"}, NULL, NULL, 0, "--drag-coefficient",
+     "takes no unit"},
+    {{"rate", "--mass", "2 kg", "--family", "conical", "--nominal-diameter", "-1 m"}, NULL, NULL, 0,
+     "--nominal-diameter", "greater than zero"},
+    {{"rate", "--mass", "2 kg", "--family", "conical", "--nominal-diameter", "1000 m"}, NULL, NULL, 0,
+     "--nominal-diameter", "beyond any canopy built"},
+    {{"rate", "--mass", "2 kg", "--family", "conical", "--nominal-diameter", "1 mm"}, NULL, NULL, 0,
+     "--nominal-diameter", "below any canopy built"},
+    {{"rate", "--mass", "2 kg", "--family", "conical", "--nominal-area", "1e-9 m2"}, NULL, NULL, 0,
+     "--nominal-area", "below any canopy built"},
+    {{"rate", "--mass", "2 kg", "--family", "conical", "--flat-diameter", "3 kg"}, NULL, NULL, 0, "--flat-diameter",
+     "unknown length unit 'kg'"},
+    {{RATE_OK, "--altitude", "1 km,,x"}, NULL, NULL, 0, "--altitude", "'x' is not a number"},
+    {{RATE_OK, "--altitude", "100 km"}, NULL, NULL, 0, "--altitude", "outside"},
+    {{RATE_OK, "--altitude", ",,"}, NULL, NULL, 0, "--altitude", "empty list"},
+    {{"rate", "--mass", "2 kg", "--canopy", "@IN@", "--family", "conical"}, "canopy: {family: conical}\n", NULL, 0,
+     "--canopy", "drop the --family"},
+    {{RATE_CANOPY}, NULL, NULL, 0, "--canopy: @IN@", "cannot open"},
+    {{RATE_MISSION}, NULL, NULL, 0, "--mission: @IN@", "cannot open"},
+    {{RATE_MISSION}, MISSION_HEAD SECTION "stages:\n  - name: main\n    family: conical\n", NULL, 0, "--mission",
+     "stage 'main' has no size"},
+    {{"rate", "--family", "conical", "--nominal-diameter", "1 m"}, NULL, NULL, 0, "--mass", "required"},
+
+    /* ---- air ---- */
+    {{"air", "--from", "0", "--to", "10km", "--step", "0"}, NULL, NULL, 0, "--step", "never gets"},
+    {{"air", "--from", "0", "--to", "10km", "--step", "-1 km"}, NULL, NULL, 0, "--step", "never gets"},
+    {{"air", "--from", "0", "--to", "86km", "--step", "1 m"}, NULL, NULL, 0, "--step", "more than 10000"},
+    {{"air", "--from", "0", "--to", "90 km"}, NULL, NULL, 0, "--from/--to", "outside"},
+    {{"air", "--altitude", "87 km"}, NULL, NULL, 0, "--altitude", "outside"},
+    {{"air", "--altitude", "1 km", "--from", "0"}, NULL, NULL, 0, "--altitude", "not both"},
+    {{"air", "--sounding", "@IN@", "--temp-offset", "10 C"}, SOUNDING_HEAD "0,15,1013\n1000,8,900\n", NULL, 0,
+     "--sounding", "not both"},
+    {{"air", "5"}, NULL, NULL, 0, "'5'", "unexpected argument"},
+
+    /* ---- canopies, data directory, commands ---- */
+    {{"canopies", "parasol"}, NULL, NULL, 0, "'parasol'", "unknown canopy family"},
+    {{"canopies", "conical", "cross"}, NULL, NULL, 0, "canopies", "at most one family id"},
+    {{"canopies", "--data", "@DIR@"}, NULL, NULL, 0, "--data", "holds no canopies/"},
+    {{"canopies", "--data", "@DATA@"}, "id: test\nname: \"Test\"\nclass: round\n" FAM_CD FAM_REST, NULL, 0, "@IN@:3:8",
+     "class must be 'solid' or 'slotted'"},
+    {{"canopies", "--data", "@DATA@"}, "id: Test Family\n" FAM_BODY, NULL, 0, "@IN@:1:5", "kebab-case"},
+    {{"frobnicate"}, NULL, NULL, 0, "'frobnicate'", "unknown command"},
+    {{"sizee"}, NULL, NULL, 0, "'sizee'", "did you mean 'size'"},
+    {{"check"}, NULL, NULL, 0, "check", "one or more files"},
+
+    /* ---- output paths: nothing written, nothing left ---- */
+    {{"air", "-o", "@OUT@/no/such/dir/air.txt"}, NULL, NULL, 0, "-o: @OUT@/no/such/dir/air.txt", "cannot write"},
+    {{"air", "-o", "@OUT@"}, NULL, NULL, 0, "-o: @OUT@", "is a directory"},
+    {{"air", "-o", "@OUT@/"}, NULL, NULL, 0, "-o: @OUT@/", "directory name"},
+    {{"air", "-o", ""}, NULL, NULL, 0, "-o", "empty output file name"},
+    {{"air", "-o", "/proc/sinkrate-bad-input.txt"}, NULL, NULL, 0, "-o: /proc/sinkrate-bad-input.txt",
+     "cannot write"},
+    {{SIZE_OK, "--output", "@OUT@/missing/size.json", "--format", "json"}, NULL, NULL, 0,
+     "-o: @OUT@/missing/size.json", "cannot write"},
+
+    /* ---- YAML: malformed ---- */
+    {{SIZE_MISSION}, "mission: x\nsections: [\n", NULL, 0, "@IN@:3:1", "malformed YAML"},
+    {{CHECK}, "id: x\n\tname: y\n", NULL, 0, "@IN@:2:1", "malformed YAML"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n nominal-diameter: 1 m\n", NULL, 0, "@IN@:3:2", "malformed YAML"},
+    {{SIZE_MISSION}, "mission: \"x\nsections: []\n", NULL, 0, "@IN@:3:1", "malformed YAML"},
+    {{CHECK}, "canopy: {family: conical, nominal-diameter: 1 m\n", NULL, 0, "@IN@:2:1", "malformed YAML"},
+    /* wrong types */
+    {{SIZE_MISSION}, "mission: m\nsections: a\n" STAGES, NULL, 0, "@IN@:2:11", "sections must be a list"},
+    {{SIZE_MISSION}, "mission: [m]\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:1:10", "expected a text value"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: [2, kg]}\n" STAGES, NULL, 0, "@IN@:4:21",
+     "expected a mass with a unit here (e.g. \"1.5 kg\")"},
+    {{SIZE_MISSION}, MISSION "    count: two\n", NULL, 0, "@IN@:9:12", "not a number"},
+    {{CHECK}, FAM_HEAD "drag-coefficient: 0.8\n" FAM_REST, NULL, 0, "@IN@:4:19",
+     "must be a mapping"},
+    {{RATE_CANOPY}, "canopy: conical\n", NULL, 0, "@IN@:1:9", "canopy must be a mapping"},
+    {{SIZE_MISSION}, "- mission\n- m\n", NULL, 0, "@IN@:1:1", "must be a mapping"},
+    {{CHECK}, "- mission\n- m\n", NULL, 0, "@IN@:1:1", "not a sinkrate file"},
+    {{SIZE_MISSION}, "mission: m\nsite: 100 m\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:7",
+     "site must be a mapping"},
+    {{SIZE_MISSION}, "mission: m\n? [a, b]\n: c\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:3",
+     "keys must be plain words"},
+    /* unknown keys, with a suggestion where one is close */
+    {{SIZE_MISSION}, "mission: m\nsectons:\n" SECTION STAGES, NULL, 0, "@IN@:2:1", "did you mean 'sections'"},
+    {{SIZE_MISSION}, "mission: m\nsite: {elevaton: 10 m}\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:8",
+     "did you mean 'elevation'"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - name: main\n    family: conical\n    nominal-diamter: 1 m\n",
+     NULL, 0, "@IN@:8:5", "did you mean 'nominal-diameter'"},
+    {{CHECK}, "id: test\nname: \"Test\"\nclass: solid\ndrag-coeficient: {}\n", NULL, 0, "@IN@:4:1",
+     "did you mean 'drag-coefficient'"},
+    {{RATE_CANOPY}, "canopy:\n  famly: conical\n  nominal-diameter: 1 m\n", NULL, 0, "@IN@:2:3",
+     "did you mean 'family'"},
+    {{SIZE_MISSION}, MISSION "limits: {touchdown_speed: 5 m/s}\n", NULL, 0, "@IN@:9:10",
+     "did you mean 'touchdown-speed'"},
+    {{SIZE_MISSION}, MISSION "    deploy: {heigth: 300 m}\n", NULL, 0, "@IN@:9:14", "did you mean 'height'"},
+    {{SIZE_MISSION}, MISSION "colour: red\n", NULL, 0, "@IN@:9:1", "unknown key 'colour'"},
+    /* duplicate keys */
+    {{SIZE_MISSION}, MISSION "mission: n\n", NULL, 0, "@IN@:9:1", "duplicate key 'mission'"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, name: b, mass: 2 kg}\n" STAGES, NULL, 0, "@IN@:4:15",
+     "duplicate key 'name'"},
+    {{CHECK}, FAMILY "id: other\n", NULL, 0, "@IN@:11:1", "duplicate key 'id'"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n  nominal-diameter: 1 m\n  nominal-diameter: 2 m\n", NULL, 0,
+     "@IN@:4:3", "duplicate key 'nominal-diameter'"},
+    /* a unit is required in files */
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: 2}\n" STAGES, NULL, 0, "@IN@:4:21", "needs a unit"},
+    {{SIZE_MISSION}, "mission: m\nsite: {elevation: 100}\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:19",
+     "needs a unit"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n  nominal-diameter: 1.5\n", NULL, 0, "@IN@:3:21", "needs a unit"},
+    {{SIZE_MISSION}, MISSION "start: {height: 3000}\n", NULL, 0, "@IN@:9:17", "needs a unit"},
+    {{SIZE_MISSION}, MISSION "limits: {touchdown-speed: 6}\n", NULL, 0, "@IN@:9:27", "needs a unit"},
+    {{CHECK}, "id: test\nname: \"Test\"\nclass: solid\n"
+              "drag-coefficient: {reference: nominal, low: 0.7, high: 0.8, source: s}\n"
+              "projected-ratio: {low: 0.6, high: 0.7, source: s}\n"
+              "constructed-ratio: {low: 0.9, high: 1.0, source: s}\n"
+              "opening-factor: {low: 1.5, high: 1.8, source: s}\n"
+              "filling-constant: {value: 8, source: s}\n"
+              "oscillation: {low: 5, high: 20 deg, source: s}\n"
+              "mach-limit: {value: 0.5, source: s}\n",
+     NULL, 0, "@IN@:9:20", "needs a unit"},
+    /* unknown units */
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: 2 stone}\n" STAGES, NULL, 0, "@IN@:4:21",
+     "unknown mass unit 'stone'"},
+    {{SIZE_MISSION}, "mission: m\nsite: {elevation: 100 furlongs}\nsections:\n" SECTION STAGES, NULL, 0,
+     "@IN@:2:19", "unknown length unit 'furlongs'"},
+    {{SIZE_MISSION}, "mission: m\nsite: {temperature: 30 Celsius}\nsections:\n" SECTION STAGES, NULL, 0,
+     "@IN@:2:21", "unknown temperature unit 'Celsius'"},
+    {{SIZE_MISSION}, "mission: m\nsite: {pressure: 760 mmHg}\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:18",
+     "unknown pressure unit 'mmHg'"},
+    /* NaN, inf, negative, zero where physical */
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: nan kg}\n" STAGES, NULL, 0, "@IN@:4:21", "not a number"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: .inf kg}\n" STAGES, NULL, 0, "@IN@:4:21", "not a number"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: -2 kg}\n" STAGES, NULL, 0, "@IN@:4:21", "above 0"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: 0 kg}\n" STAGES, NULL, 0, "@IN@:4:21", "above 0"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n  nominal-diameter: 0 m\n", NULL, 0, "@IN@:3:21",
+     "must be a positive number"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n  nominal-diameter: -1 m\n", NULL, 0, "@IN@:3:21",
+     "must be a positive number"},
+    {{SIZE_MISSION}, MISSION "    count: 0\n", NULL, 0, "@IN@:9:12", "whole number from 1 to 16"},
+    {{SIZE_MISSION}, MISSION "    count: 1.5\n", NULL, 0, "@IN@:9:12", "whole number from 1 to 16"},
+    {{SIZE_MISSION}, MISSION "    count: 222222222222222222222222222222222220\n", NULL, 0, "@IN@:9:12",
+     "whole number from 1 to 16"},
+    {{SIZE_MISSION}, MISSION "    count: 2\n    cluster-factor: 0\n", NULL, 0, "@IN@:10:21", "outside 0.5 .. 1"},
+    {{SIZE_MISSION}, "mission: m\nsite: {temperature: -300 C}\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:21",
+     "below absolute zero"},
+    {{SIZE_MISSION}, "mission: m\nsite: {pressure: 0 hPa}\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:18",
+     "implausible"},
+    {{SIZE_MISSION}, MISSION "start: {height: 1000 m, speed: -5 m/s}\n", NULL, 0, "@IN@:9:32",
+     "between 0 and 2000 m/s"},
+    {{SIZE_MISSION}, MISSION "    deploy: {height: 0 m}\n", NULL, 0, "@IN@:9:22", "above ground"},
+    {{SIZE_MISSION}, MISSION "    deploy: {delay: -1 s}\n", NULL, 0, "@IN@:9:21", "between 0 s and 1 h"},
+    {{SIZE_MISSION}, MISSION "limits: {touchdown-speed: 0 m/s}\n", NULL, 0, "@IN@:9:27", "must be positive"},
+    /* outside the models' ranges */
+    {{SIZE_MISSION}, "mission: m\nsite: {elevation: 90 km}\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:19",
+     "outside -1000 m .. 20000 m"},
+    {{SIZE_MISSION}, MISSION "start: {height: 90 km}\n", NULL, 0, "@IN@:9:17", "within the atmosphere model"},
+    {{SIZE_MISSION}, MISSION "start: {height: 1 km, path-angle: 120 deg}\n", NULL, 0, "@IN@:9:35",
+     "within -90 deg .. 90 deg"},
+    {{CHECK}, "id: test\nname: \"Test\"\nclass: solid\n"
+              "drag-coefficient: {reference: nominal, low: 0.7, high: 5, source: s}\n" FAM_REST,
+     NULL, 0, "@IN@:4:56", "plausible range"},
+    {{CHECK}, "id: test\nname: \"Test\"\nclass: solid\n"
+              "drag-coefficient: {reference: nominal, low: 0.9, high: 0.7, source: s}\n" FAM_REST,
+     NULL, 0, "@IN@:4:19", "low <= typical <= high"},
+    {{CHECK}, "id: test\nname: \"Test\"\nclass: solid\n"
+              "drag-coefficient: {reference: projected, low: 0.7, high: 0.8, source: s}\n" FAM_REST,
+     NULL, 0, "@IN@:4:31", "on nominal area"},
+    {{CHECK}, "id: test\nname: \"Test\"\nclass: solid\n"
+              "drag-coefficient: {reference: nominal, low: 0.7, high: 0.8}\n" FAM_REST,
+     NULL, 0, "@IN@:4:19", "missing the required key 'source'"},
+    {{SIZE_MISSION}, MISSION "  - {name: second, family: cross, nominal-diameter: 1 m, deploy: apogee}\n", NULL, 0,
+     "@IN@:9:66", "only the first stage"},
+    {{SIZE_MISSION}, MISSION "    deploy: {height: 300 m}\n  - {name: b, family: cross, nominal-diameter: 1 m, "
+                             "deploy: {height: 500 m}}\n",
+     NULL, 0, "@IN@:10:5", "not below the previous deployment"},
+    {{SIZE_MISSION}, MISSION "    deploy: {height: 3000 m}\nstart: {height: 1000 m}\n", NULL, 0, "@IN@:6:5",
+     "above the first deployment"},
+    {{SIZE_MISSION}, MISSION "  - {name: b, family: cross, nominal-diameter: 1 m}\n", NULL, 0, "@IN@:9:5",
+     "needs a deploy event"},
+    /* absurd sizes */
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: 1e9 kg}\n" STAGES, NULL, 0, "@IN@:4:21",
+     "at most 10000 kg"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n  nominal-diameter: 1e6 m\n", NULL, 0, "@IN@:3:21",
+     "beyond any canopy built"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n  nominal-diameter: 1 um\n", NULL, 0, "@IN@:3:21",
+     "unknown length unit 'um'"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n  nominal-area: 0.5 cm2\n", NULL, 0, "@IN@:3:17",
+     "below any canopy built"},
+    {{SIZE_MISSION}, "mission: m\nsections: [{name: a, mass: 1 kg}, {name: b, mass: 1 kg}, {name: c, mass: 1 kg}, "
+                     "{name: d, mass: 1 kg}, {name: e, mass: 1 kg}, {name: f, mass: 1 kg}, {name: g, mass: 1 kg}, "
+                     "{name: h, mass: 1 kg}, {name: i, mass: 1 kg}]\n" STAGES,
+     NULL, 0, "@IN@:2:11", "1 to 8 items"},
+    {{SIZE_MISSION}, "mission: m\nsections: []\n" STAGES, NULL, 0, "@IN@:2:11", "1 to 8 items"},
+    {{SIZE_MISSION}, "mission: " "mmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmm"
+                     "mmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmmm\nsections:\n" SECTION
+                     STAGES,
+     NULL, 0, "@IN@:1:10", "text longer than"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "  - {name: a, mass: 1 kg}\n" STAGES, NULL, 0, "@IN@:5:5",
+     "two sections are named 'a'"},
+    /* empty, binary, nested, huge */
+    {{SIZE_MISSION}, "", NULL, 0, "@IN@:1:1", "the file is empty"},
+    {{CHECK}, "# only a comment\n", NULL, 0, "@IN@:1:1", "no YAML document"},
+    {{SIZE_MISSION}, NULL, NULL, GEN_BINARY, "@IN@:1:1", "binary data"},
+    {{CHECK}, "id: \xff\xfe\x80\x81\n", NULL, 0, "@IN@:1:5", "malformed YAML"},
+    {{CHECK}, "id: [[[[[[[[[[[[[[[[[[x]]]]]]]]]]]]]]]]]]\n", NULL, 0, "@IN@:1:21", "nested more than 16 levels"},
+    {{SIZE_MISSION}, NULL, NULL, GEN_DEEP_BLOCK, "@IN@:18:33", "too deeply nested"},
+    {{SIZE_MISSION}, NULL, NULL, GEN_LAUGHS, "@IN@:", "too large or too deeply nested"},
+    {{SIZE_MISSION}, NULL, NULL, GEN_BIG, "@IN@", "larger than 1 MiB"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: 1e400 kg}\n" STAGES, NULL, 0, "@IN@:4:21", "out of the range"},
+    {{SIZE_MISSION}, NULL, NULL, GEN_LONG_NUMBER, "@IN@:4:21", "too long for a number"},
+    {{SIZE_MISSION}, MISSION "---\n" MISSION, NULL, 0, "@IN@:9:1", "more than one YAML document"},
+    /* missing files, directories given as files, referenced files */
+    {{SIZE_MISSION}, NULL, NULL, 0, "--mission: @IN@", "cannot open"},
+    {{"size", "--mission", "@DIR@", "--speed", "5"}, NULL, NULL, 0, "--mission: @DIR@", "is a directory"},
+    {{"check", "@DIR@"}, NULL, NULL, 0, "@DIR@", "is a directory"},
+    {{CHECK}, NULL, NULL, 0, "@IN@", "cannot open"},
+    {{CHECK}, "hello: world\n", NULL, 0, "@IN@:1:1", "not a sinkrate file"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - {name: main, canopy: second}\n", NULL, 0, "@IN@:6:26",
+     "cannot open"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - {name: main, canopy: second}\n",
+     "canopy:\n  family: conical\n  nominal-diameter: 2\n", 0, "@IN2@:3:21", "needs a unit"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - {name: main, canopy: second, family: cross}\n",
+     "canopy: {family: conical, nominal-diameter: 2 m}\n", 0, "@IN@:6:26", "not both"},
+    {{SIZE_MISSION}, "mission: m\nsite: {sounding: second}\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:18",
+     "cannot open"},
+    {{SIZE_MISSION}, "mission: m\nsite: {sounding: second}\nsections:\n" SECTION STAGES,
+     SOUNDING_HEAD "0,15,1013\n1000,8,abc\n", 0, "@IN2@:3:8", "not a number"},
+    {{SIZE_MISSION}, "mission: m\nsite: {sounding: second, elevation: 5 km}\nsections:\n" SECTION STAGES,
+     SOUNDING_HEAD "0,15,1013\n1000,8,900\n", 0, "@IN@:2:37", "outside the sounding"},
+    {{SIZE_MISSION}, "mission: m\nsite: {sounding: second, temperature: 20 C}\nsections:\n" SECTION STAGES,
+     SOUNDING_HEAD "0,15,1013\n1000,8,900\n", 0, "@IN@:2:18", "not both"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n  nominal-diameter: 1 m\n  drag-coefficient: {value: 9, "
+                    "reference: nominal, source: s}\n",
+     NULL, 0, "@IN@:4:29", "outside 0 .. 3"},
+    {{RATE_CANOPY}, "canopy:\n  family: conical\n  nominal-diameter: 1 m\n  drag-coefficient: {value: 0.9, "
+                    "reference: inflated, source: s}\n",
+     NULL, 0, "@IN@:4:45", "nominal, projected or constructed"},
+    {{RATE_CANOPY}, "canopy:\n  nominal-diameter: 1 m\n", NULL, 0, "@IN@:2:3", "needs a 'family'"},
+
+    /* ---- CSV soundings ---- */
+    {{AIR_SOUNDING}, "altitude,temperature,pressure\n0,15,1013\n1000,8,900\n", NULL, 0, "@IN@:1:1",
+     "needs a unit in brackets"},
+    {{AIR_SOUNDING}, "altitude [furlong],temperature [C],pressure [hPa]\n0,15,1013\n1000,8,900\n", NULL, 0,
+     "@IN@:1:1", "unknown length unit 'furlong'"},
+    {{AIR_SOUNDING}, "altitude [m],temp [C],pressure [hPa]\n0,15,1013\n1000,8,900\n", NULL, 0, "@IN@:1:14",
+     "unknown column 'temp'"},
+    {{AIR_SOUNDING}, "altitude [m],pressure [hPa]\n0,1013\n1000,900\n", NULL, 0, "@IN@:1:1",
+     "no 'temperature' column"},
+    {{AIR_SOUNDING}, "altitude [m],temperature [C],pressure [hPa],altitude [m]\n0,15,1013,0\n", NULL, 0,
+     "@IN@:1:45", "appears twice"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,abc,900\n", NULL, 0, "@IN@:3:6", "not a number"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,nan,900\n", NULL, 0, "@IN@:3:6", "not a number"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,8\n", NULL, 0, "@IN@:3:", "row has 2 of the header's 3 cells"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,8,900,7\n", NULL, 0, "@IN@:3:12", "more cells than the header"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n0,8,900\n", NULL, 0, "@IN@:3:1", "must increase"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,8,1100\n", NULL, 0, "@IN@:3:1", "pressure must fall"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,300,900\n", NULL, 0, "@IN@:3:1", "outside 100 K .. 400 K"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n", NULL, 0, "@IN@:2:1", "at least two rows"},
+    {{AIR_SOUNDING}, "", NULL, 0, "@IN@:1:1", "empty table"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD, NULL, 0, "@IN@:1:1", "no data rows"},
+    {{AIR_SOUNDING}, NULL, NULL, GEN_BINARY, "@IN@:1:1", "binary data"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,8,\"900\n", NULL, 0, "@IN@:3:", "quoted cell"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n100000,8,900\n", NULL, 0, "@IN@:3:1", "outside -1000 m .. 86000 m"},
+    {{AIR_SOUNDING}, "altitude [m,temperature [C],pressure [hPa]\n0,15,1013\n", NULL, 0, "@IN@:1:1",
+     "malformed unit"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,8,1e999\n", NULL, 0, "@IN@:3:8", "out of the range"},
+    {{AIR_SOUNDING}, NULL, NULL, 0, "--sounding: @IN@", "cannot open"},
+    {{"air", "--sounding", "@DIR@"}, NULL, NULL, 0, "--sounding: @DIR@", "is a directory"},
+};
+
+/* ---- the harness ---- */
+
+static void subst(char *out, size_t len, const char *s, const char *dir)
+{
+    static const char *const KEYS[] = {"@IN2@", "@IN@", "@DIR@", "@OUT@", "@DATA@"};
+    static const char *const FMT[] = {"%s/in/second", "%s/in/first", "%s/in", "%s/out", "%s/data"};
+    size_t o = 0;
+    while (*s && o + 1 < len) {
+        int hit = 0;
+        for (size_t k = 0; k < sizeof KEYS / sizeof KEYS[0]; k++) {
+            size_t kl = strlen(KEYS[k]);
+            if (strncmp(s, KEYS[k], kl) == 0) {
+                char rep[512];
+                snprintf(rep, sizeof rep, FMT[k], dir);
+                o += (size_t)snprintf(out + o, len - o, "%s", rep);
+                if (o >= len)
+                    o = len - 1;
+                s += kl;
+                hit = 1;
+                break;
+            }
+        }
+        if (!hit)
+            out[o++] = *s++;
+    }
+    out[o] = '\0';
+}
+
+static void write_file(const char *path, const char *data, size_t len)
+{
+    FILE *f = fopen(path, "wb");
+    assert_non_null(f);
+    assert_int_equal(fwrite(data, 1, len, f), len);
+    fclose(f);
+}
+
+static char *generate(gen g, size_t *len)
+{
+    size_t cap = 2u << 20;
+    char *b = malloc(cap);
+    assert_non_null(b);
+    size_t n = 0;
+    switch (g) {
+    case GEN_BIG:
+        n += (size_t)snprintf(b, cap, "mission: m\ndescription: \"");
+        while (n < (3u << 19))
+            b[n++] = 'x';
+        n += (size_t)snprintf(b + n, cap - n, "\"\n");
+        break;
+    case GEN_BINARY:
+        for (n = 0; n < 256; n++)
+            b[n] = (char)n;
+        break;
+    case GEN_DEEP_BLOCK:
+        n += (size_t)snprintf(b, cap, "mission: m\nsections:\n");
+        for (int i = 0; i < 40; i++)
+            n += (size_t)snprintf(b + n, cap - n, "%*sk%d:\n", 2 * (i + 1), "", i);
+        n += (size_t)snprintf(b + n, cap - n, "%*sv\n", 82, "");
+        break;
+    case GEN_LAUGHS:
+        n += (size_t)snprintf(b, cap, "mission: m\nl0: &l0 [x, x, x, x, x, x, x, x, x, x]\n");
+        for (int i = 1; i < 9; i++)
+            n += (size_t)snprintf(b + n, cap - n, "l%d: &l%d [*l%d, *l%d, *l%d, *l%d, *l%d, *l%d, *l%d, *l%d]\n", i, i,
+                                  i - 1, i - 1, i - 1, i - 1, i - 1, i - 1, i - 1, i - 1);
+        n += (size_t)snprintf(b + n, cap - n, "sections:\n" SECTION STAGES);
+        break;
+    case GEN_LONG_NUMBER:
+        n += (size_t)snprintf(b, cap, MISSION_HEAD "  - {name: a, mass: ");
+        for (int i = 0; i < 300; i++)
+            b[n++] = '7';
+        n += (size_t)snprintf(b + n, cap - n, " kg}\n" STAGES);
+        break;
+    default:
+        break;
+    }
+    *len = n;
+    return b;
+}
+
+/* Count entries of a directory (recursively), so stray temporaries show. */
+static int count_entries(const char *dir)
+{
+    DIR *d = opendir(dir);
+    if (!d)
+        return 0;
+    int n = 0;
+    struct dirent *e;
+    while ((e = readdir(d)) != NULL) {
+        if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
+            continue;
+        n++;
+        char sub[1024];
+        snprintf(sub, sizeof sub, "%s/%s", dir, e->d_name);
+        struct stat st;
+        if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
+            n += count_entries(sub);
+    }
+    closedir(d);
+    return n;
+}
+
+static void remove_tree(const char *dir)
+{
+    DIR *d = opendir(dir);
+    if (d) {
+        struct dirent *e;
+        while ((e = readdir(d)) != NULL) {
+            if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
+                continue;
+            char sub[1024];
+            snprintf(sub, sizeof sub, "%s/%s", dir, e->d_name);
+            struct stat st;
+            if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
+                remove_tree(sub);
+            else
+                unlink(sub);
+        }
+        closedir(d);
+    }
+    rmdir(dir);
+}
+
+static int run_case(size_t i, const bad_case *c, int show)
+{
+    char dir[] = "/tmp/sinkrate-bad-XXXXXX";
+    assert_non_null(mkdtemp(dir));
+    char p[1024];
+    snprintf(p, sizeof p, "%s/in", dir);
+    assert_int_equal(mkdir(p, 0755), 0);
+    snprintf(p, sizeof p, "%s/out", dir);
+    assert_int_equal(mkdir(p, 0755), 0);
+    int uses_data = 0;
+    for (size_t k = 0; k < 16 && c->args[k]; k++)
+        if (strstr(c->args[k], "@DATA@"))
+            uses_data = 1;
+    const char *in_path = "%s/in/first";
+    if (uses_data) {
+        snprintf(p, sizeof p, "%s/data", dir);
+        assert_int_equal(mkdir(p, 0755), 0);
+        snprintf(p, sizeof p, "%s/data/canopies", dir);
+        assert_int_equal(mkdir(p, 0755), 0);
+        in_path = "%s/data/canopies/first.yaml";
+    }
+    char in_file[1024];
+    snprintf(in_file, sizeof in_file, in_path, dir);
+    if (c->gen) {
+        size_t len;
+        char *b = generate(c->gen, &len);
+        write_file(in_file, b, len);
+        free(b);
+    } else if (c->in) {
+        char *text = malloc(strlen(c->in) * 2 + 1024);
+        assert_non_null(text);
+        subst(text, strlen(c->in) * 2 + 1024, c->in, dir);
+        write_file(in_file, text, strlen(text));
+        free(text);
+    }
+    if (c->in2) {
+        snprintf(p, sizeof p, "%s/in/second", dir);
+        write_file(p, c->in2, strlen(c->in2));
+    }
+    int before = count_entries(dir);
+
+    char store[24][1024];
+    char *argv[24];
+    int argc = 0, has_o = 0;
+    argv[argc++] = "sinkrate";
+    for (size_t k = 0; k < 16 && c->args[k]; k++) {
+        subst(store[argc], sizeof store[argc], c->args[k], dir);
+        if (uses_data && strcmp(c->args[k], "@IN@") == 0)
+            snprintf(store[argc], sizeof store[argc], "%s", in_file);
+        if (strcmp(c->args[k], "-o") == 0 || strcmp(c->args[k], "--output") == 0)
+            has_o = 1;
+        argv[argc] = store[argc];
+        argc++;
+    }
+    int is_check = strcmp(c->args[0], "check") == 0;
+    if (!has_o && !is_check) {
+        argv[argc++] = "-o";
+        snprintf(store[argc], sizeof store[argc], "%s/out/result", dir);
+        argv[argc] = store[argc];
+        argc++;
+    }
+    argv[argc] = NULL;
+
+    char where[1024];
+    subst(where, sizeof where, c->where, dir);
+    if (uses_data) /* @IN@ in `where` names the family file inside the data directory */
+        snprintf(where, sizeof where, "%s%s", in_file, c->where + strlen("@IN@"));
+
+    char *out, *err;
+    int rc = sr_test_cli_argv(&out, &err, argc, argv);
+    int after = count_entries(dir);
+    int ok = rc == 2 && sr_test_lines(err) == 1 && err[strlen(err) - 1] == '\n' && strstr(err, where) &&
+             strstr(err, c->expect) && (is_check || out[0] == '\0') && after == before;
+    if (show || !ok) {
+        /* the error line with the temporary directory shortened, for review */
+        char shown[2048];
+        size_t o = 0;
+        for (const char *s = err; *s && o + 8 < sizeof shown;) {
+            if (strncmp(s, dir, strlen(dir)) == 0) {
+                o += (size_t)snprintf(shown + o, sizeof shown - o, "$T");
+                s += strlen(dir);
+            } else {
+                shown[o++] = *s++;
+            }
+        }
+        shown[o] = '\0';
+        if (!ok)
+            print_error("bad-input row %zu (%s %s): rc %d, %d line(s), stdout %zu bytes, %d new file(s); want '%s' "
+                        "and '%s'\n  stderr: %s",
+                        i, c->args[0], c->args[1] ? c->args[1] : "", rc, sr_test_lines(err), strlen(out),
+                        after - before, c->where, c->expect, shown);
+        else
+            print_message("%3zu %s", i, shown);
+    }
+    free(out);
+    free(err);
+    remove_tree(dir);
+    return ok;
+}
+
+/* Valid requests with no answer: exit 1 and one line saying why. */
+static const struct {
+    const char *args[16];
+    const char *expect;
+} IMPOSSIBLE[] = {
+    {{"size", "--mass", "1e-6 kg", "--speed", "5 m/s", "--family", "conical"}, "no canopy fits"},
+    {{"size", "--mass", "9e4 kg", "--speed", "0.5 m/s", "--family", "conical"}, "no canopy fits"},
+    {{"size", "--mass", "0.1 kg", "--speed", "0.5 m/s", "--family", "conical", "--areal-mass", "1500 g/m2"},
+     "no canopy size"},
+};
+
+static void test_impossible(void **state)
+{
+    (void)state;
+    for (size_t i = 0; i < sizeof IMPOSSIBLE / sizeof IMPOSSIBLE[0]; i++) {
+        char *argv[20];
+        int argc = 0;
+        argv[argc++] = "sinkrate";
+        for (size_t k = 0; k < 16 && IMPOSSIBLE[i].args[k]; k++)
+            argv[argc++] = (char *)IMPOSSIBLE[i].args[k];
+        argv[argc] = NULL;
+        char *out, *err;
+        int rc = sr_test_cli_argv(&out, &err, argc, argv);
+        if (rc != 1 || sr_test_lines(err) != 1 || !strstr(err, IMPOSSIBLE[i].expect))
+            print_error("impossible row %zu: rc %d, stderr '%s'\n", i, rc, err);
+        assert_int_equal(rc, 1);
+        assert_int_equal(sr_test_lines(err), 1);
+        assert_non_null(strstr(err, IMPOSSIBLE[i].expect));
+        assert_string_equal(out, "");
+        free(out);
+        free(err);
+    }
+}
+
+static void test_bad_input_catalogue(void **state)
+{
+    (void)state;
+    size_t n = sizeof BAD / sizeof BAD[0];
+    int show = getenv("SR_BADINPUT_SHOW") != NULL;
+    size_t failed = 0;
+    for (size_t i = 0; i < n; i++)
+        failed += !run_case(i, &BAD[i], show);
+    print_message("bad-input catalogue: %zu rows, %zu failed\n", n, failed);
+    assert_true(n >= 100);
+    assert_int_equal(failed, 0);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_bad_input_catalogue),
+        cmocka_unit_test(test_impossible),
+    };
+    return cmocka_run_group_tests_name("badinput", tests, NULL, NULL);
+}

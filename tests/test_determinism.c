@@ -1,0 +1,190 @@
+/* test_determinism.c - identical inputs give identical output bytes: every
+ * command line below runs twice in-process (with the whole list run in
+ * between, so no state leaks from one command to the next), in text, CSV and
+ * JSON, SI and US units, and the bytes written with -o equal those on stdout.
+ * A row may name a second command line that must give the same bytes (e.g.
+ * the same Monte Carlo run at another thread count). */
+#define _DEFAULT_SOURCE
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include "testutil.h"
+
+#define DEMO "@ROOT@/payloads/desert-club-rocket.yaml"
+
+typedef struct det_case {
+    const char *args[16]; /* after "sinkrate"; @ROOT@ is the source tree */
+    const char *same[16]; /* optional: another command line with the same output */
+} det_case;
+
+static const det_case CASES[] = {
+    {{"size", "--mass", "5.3kg", "--speed", "6.1m/s", "--family", "conical", "--site-elevation", "1380m",
+      "--surface-temp", "38C", "--surface-pressure", "858hPa"},
+     {"size", "--family", "conical", "--surface-pressure", "858hPa", "--speed", "6.1m/s", "--surface-temp", "38C",
+      "--mass", "5.3kg", "--site-elevation", "1380m"}},
+    {{"size", "--mission", DEMO}, {"size", "--mission", DEMO, "--speed", "6.1 m/s"}},
+    {{"size", "--mass", "2kg", "--speed", "5m/s", "--family", "cross", "--cluster", "3", "--areal-mass", "40g/m2"},
+     {NULL}},
+    {{"rate", "--mass", "5.3kg", "--family", "conical", "--projected-diameter", "1.5m", "--altitude",
+      "1380m,2000m,4000m", "--site-elevation", "1380m", "--surface-temp", "38C"},
+     {NULL}},
+    {{"rate", "--mission", DEMO, "--altitude", "1380m,1630m,4280m"}, {NULL}},
+    {{"rate", "--mass", "10kg", "--family", "flat-circular", "--nominal-diameter", "2m", "--drag-coefficient", "1.4",
+      "--drag-reference", "projected"},
+     {"rate", "--mass", "10000 g", "--family", "flat-circular", "--nominal-diameter", "200 cm", "--drag-coefficient",
+      "1.4", "--drag-reference", "projected"}},
+    {{"air", "--from", "0", "--to", "30km", "--step", "5km"}, {"air", "--altitude", "0,5km,10km,15km,20km,25km,30km"}},
+    {{"air", "--temp-offset", "15C", "--altitude", "0,1km,11km"}, {NULL}},
+    {{"canopies"}, {NULL}},
+    {{"canopies", "disk-gap-band"}, {NULL}},
+    {{"check", DEMO, "@ROOT@/canopies/conical.yaml"}, {NULL}},
+    /* later commands append their rows here (seeded runs: give --seed) */
+};
+
+#define NCASES (sizeof CASES / sizeof CASES[0])
+
+static const char *const FORMATS[][4] = {
+    {"--format", "text", "--units", "si"},
+    {"--format", "csv", "--units", "si"},
+    {"--format", "json", "--units", "si"},
+    {"--format", "text", "--units", "us"},
+    {"--format", "json", "--units", "us"},
+};
+#define NFORMATS (sizeof FORMATS / sizeof FORMATS[0])
+
+/* Run one command line with a format; returns stdout (malloc'd) and its exit code. */
+static char *run(const char *const *args, size_t fmt, const char *outfile, int *rc)
+{
+    char store[24][1024];
+    char *argv[32];
+    int argc = 0;
+    argv[argc++] = "sinkrate";
+    const char *root = getenv("SR_ROOT") ? getenv("SR_ROOT") : ".";
+    for (size_t k = 0; k < 16 && args[k]; k++) {
+        const char *at = strstr(args[k], "@ROOT@");
+        if (at)
+            snprintf(store[argc], sizeof store[argc], "%.*s%s%s", (int)(at - args[k]), args[k], root, at + 6);
+        else
+            snprintf(store[argc], sizeof store[argc], "%s", args[k]);
+        argv[argc] = store[argc];
+        argc++;
+    }
+    for (size_t k = 0; k < 4; k++)
+        argv[argc++] = (char *)FORMATS[fmt][k];
+    if (outfile) {
+        argv[argc++] = "-o";
+        argv[argc++] = (char *)outfile;
+    }
+    argv[argc] = NULL;
+    char *out, *err;
+    *rc = sr_test_cli_argv(&out, &err, argc, argv);
+    free(err);
+    return out;
+}
+
+static char *slurp(const char *path)
+{
+    FILE *f = fopen(path, "rb");
+    if (!f)
+        return NULL;
+    size_t cap = 1 << 16, len = 0;
+    char *b = malloc(cap + 1);
+    size_t got;
+    while (b && (got = fread(b + len, 1, cap - len, f)) > 0) {
+        len += got;
+        if (len == cap) {
+            char *nb = realloc(b, (cap *= 2) + 1);
+            if (!nb) {
+                free(b);
+                fclose(f);
+                return NULL;
+            }
+            b = nb;
+        }
+    }
+    fclose(f);
+    if (b)
+        b[len] = '\0';
+    return b;
+}
+
+static void test_same_bytes_twice(void **state)
+{
+    (void)state;
+    char *first[NCASES][NFORMATS];
+    for (int pass = 0; pass < 2; pass++)
+        for (size_t i = 0; i < NCASES; i++)
+            for (size_t f = 0; f < NFORMATS; f++) {
+                int rc;
+                char *out = run(CASES[i].args, f, NULL, &rc);
+                assert_int_equal(rc, 0);
+                assert_true(strlen(out) > 0);
+                if (pass == 0) {
+                    first[i][f] = out;
+                    continue;
+                }
+                if (strcmp(out, first[i][f]) != 0)
+                    print_error("row %zu (%s) %s %s: output differs between two runs\n", i, CASES[i].args[0],
+                                FORMATS[f][1], FORMATS[f][3]);
+                assert_string_equal(out, first[i][f]);
+                free(out);
+            }
+    /* the second command line of a row gives the same bytes */
+    for (size_t i = 0; i < NCASES; i++) {
+        if (!CASES[i].same[0])
+            continue;
+        for (size_t f = 0; f < NFORMATS; f++) {
+            int rc;
+            char *out = run(CASES[i].same, f, NULL, &rc);
+            assert_int_equal(rc, 0);
+            if (strcmp(out, first[i][f]) != 0)
+                print_error("row %zu (%s) %s %s: the equivalent command line differs\n", i, CASES[i].args[0],
+                            FORMATS[f][1], FORMATS[f][3]);
+            assert_string_equal(out, first[i][f]);
+            free(out);
+        }
+    }
+    for (size_t i = 0; i < NCASES; i++)
+        for (size_t f = 0; f < NFORMATS; f++)
+            free(first[i][f]);
+}
+
+/* -o writes exactly what stdout would show. */
+static void test_file_equals_stdout(void **state)
+{
+    (void)state;
+    char dir[] = "/tmp/sinkrate-det-XXXXXX";
+    assert_non_null(mkdtemp(dir));
+    char file[256];
+    snprintf(file, sizeof file, "%s/out", dir);
+    for (size_t i = 0; i < NCASES; i++)
+        for (size_t f = 0; f < NFORMATS; f++) {
+            int rc;
+            char *out = run(CASES[i].args, f, NULL, &rc);
+            char *none = run(CASES[i].args, f, file, &rc);
+            assert_int_equal(rc, 0);
+            assert_string_equal(none, "");
+            char *written = slurp(file);
+            assert_non_null(written);
+            if (strcmp(out, written) != 0)
+                print_error("row %zu (%s) %s: -o wrote other bytes than stdout\n", i, CASES[i].args[0],
+                            FORMATS[f][1]);
+            assert_string_equal(out, written);
+            free(out);
+            free(none);
+            free(written);
+            unlink(file);
+        }
+    assert_int_equal(rmdir(dir), 0); /* nothing else (no temporaries) was left */
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_same_bytes_twice),
+        cmocka_unit_test(test_file_equals_stdout),
+    };
+    return cmocka_run_group_tests_name("determinism", tests, NULL, NULL);
+}
