@@ -305,13 +305,13 @@ static const bad_case BAD[] = {
     {{CHECK}, "id: test\nname: \"Test\"\nclass: solid\n"
               "drag-coefficient: {reference: nominal, low: 0.7, high: 0.8}\n" FAM_REST,
      NULL, 0, "@IN@:4:19", "missing the required key 'source'"},
-    {{SIZE_MISSION}, MISSION "  - {name: second, family: cross, nominal-diameter: 1 m, deploy: apogee}\n", NULL, 0,
-     "@IN@:9:66", "only the first stage"},
+    {{SIZE_MISSION}, MISSION "  - {name: second, family: cross, nominal-diameter: 1 m, deploy: sometime}\n", NULL, 0,
+     "@IN@:9:66", "deploy must be 'apogee'"},
     {{SIZE_MISSION}, MISSION "    deploy: {height: 300 m}\n  - {name: b, family: cross, nominal-diameter: 1 m, "
                              "deploy: {height: 500 m}}\n",
-     NULL, 0, "@IN@:10:5", "not below the previous deployment"},
-    {{SIZE_MISSION}, MISSION "    deploy: {height: 3000 m}\nstart: {height: 1000 m}\n", NULL, 0, "@IN@:6:5",
-     "above the first deployment"},
+     NULL, 0, "@IN@:10:70", "not below the earlier stage"},
+    {{SIZE_MISSION}, MISSION "    deploy: {height: 3000 m}\nstart: {height: 1000 m}\n", NULL, 0, "@IN@:9:22",
+     "not below the start"},
     {{SIZE_MISSION}, MISSION "  - {name: b, family: cross, nominal-diameter: 1 m}\n", NULL, 0, "@IN@:9:5",
      "needs a deploy event"},
     /* absurd sizes */
