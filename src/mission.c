@@ -9,7 +9,7 @@
 #define PI 3.14159265358979323846
 
 static const char *const TOP_KEYS[] = {"mission", "description", "site", "sections", "stages", "start", "limits",
-                                       NULL};
+                                       "uncertainty", NULL};
 static const char *const TOP_REQ[] = {"mission", "sections", "stages", NULL};
 static const char *const SITE_KEYS[] = {"elevation", "temperature", "pressure", "sounding", NULL};
 static const char *const SECTION_KEYS[] = {"name", "mass", NULL};
@@ -239,7 +239,7 @@ int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error 
                 return sr_yaml_fail(y, n, err, "limit %s must be positive", L[i].key);
         }
     }
-    return SR_OK;
+    return sr_mission_parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err);
 }
 
 int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err)

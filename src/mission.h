@@ -11,6 +11,7 @@
 #include "canopy.h"
 #include "catalog.h"
 #include "error.h"
+#include "uncertainty.h"
 
 #define SR_MISSION_MAX_SECTIONS 8
 #define SR_MISSION_MAX_STAGES 6
@@ -53,6 +54,7 @@ typedef struct sr_mission {
     double limit_energy;     /* kinetic energy per section, J */
     double limit_time;       /* descent time, s */
     double limit_drift;      /* drift distance, m */
+    sr_uncertainty unc;      /* what a dispersion run varies (mission_uncertainty.c) */
 } sr_mission;
 
 /* Load and validate; relative file names inside (sounding, canopy files) are
