@@ -10,6 +10,8 @@
 #include <unistd.h>
 
 #include "atmos.h"
+#include "bluff.h"
+#include "opening.h"
 
 static double now(void)
 {
@@ -62,10 +64,62 @@ static double per_call_atmos(const sr_atmos *m, size_t n, int density_only)
     return best;
 }
 
+/* One opening-load solve (all three methods; the inflation ODE dominates),
+ * a finite-mass case whose peak comes during filling, best of 5 runs. */
+static double per_opening_solve(size_t n)
+{
+    sr_opening_input in;
+    sr_opening_input_init(&in);
+    in.d0 = 1.5;
+    in.cds0 = 0.80 * 1.76714586764; /* CD0 0.80 on S0 of a 1.5 m canopy */
+    in.mass = 5;
+    in.v1 = 30;
+    in.rho = 1.225;
+    in.a = 340.294;
+    in.n_fill = 8;
+    in.cx = 1.7;
+    in.path_angle = 0;
+    double best = 1e9;
+    for (int rep = 0; rep < 5; rep++) {
+        double s = 0, t0 = now();
+        for (size_t i = 0; i < n; i++) {
+            sr_opening_result r;
+            in.mass = 5 + 1e-6 * (double)(i % 7);
+            sr_opening_solve(&in, &r, NULL);
+            s += r.ode.force;
+        }
+        double t = (now() - t0) / (double)n;
+        sink = s;
+        if (t < best)
+            best = t;
+    }
+    return best;
+}
+
+/* Cost of finding every equilibrium of a body (one altitude), best of 5. */
+static double per_call_equilibria(const sr_bluff_body *b, const sr_air *air, size_t n)
+{
+    double best = 1e9;
+    for (int rep = 0; rep < 5; rep++) {
+        double s = 0, t0 = now();
+        for (size_t i = 0; i < n; i++) {
+            sr_bluff_equilibria q;
+            sr_bluff_equilibria_find(b, air, &q, NULL);
+            s += q.root[0].v;
+        }
+        double t = (now() - t0) / (double)n;
+        sink = s;
+        if (t < best)
+            best = t;
+    }
+    return best;
+}
+
 static double process_time(const char *bin, char *const argv[], int reps)
 {
     double best = 1e9;
     for (int r = 0; r < reps; r++) {
+        fflush(stdout); /* or the child's freopen flushes our buffered lines a second time */
         double t0 = now();
         pid_t p = fork();
         if (p == 0) {
@@ -103,12 +157,36 @@ int main(int argc, char **argv)
     printf("atmosphere (site model), full state     %7.1f ns/call  = %.2fx exp()\n", t_site * 1e9, t_site / t_exp);
     printf("libm exp()                              %7.1f ns/call\n\n", t_exp * 1e9);
 
+    /* free fall: the whole Re scan (1e-6 .. 1e10) and Brent on each sign change */
+    sr_air air;
+    sr_atmos_at(&std, 0.0, &air, NULL);
+    sr_bluff_curve cgw, cyl;
+    sr_bluff_curve_init(&cgw, SR_CURVE_SPHERE_CGW, NULL);
+    sr_bluff_curve_init(&cyl, SR_CURVE_CYL_COMPOSITE, NULL);
+    sr_bluff_body sph, cy;
+    sr_bluff_body_init(&sph, SR_BLUFF_SPHERE, &cgw, 0.2, 0, 0.5, NAN, NULL);
+    sr_bluff_body_init(&cy, SR_BLUFF_CYLINDER, &cyl, 0.2, 2.0, 9.1, NAN, NULL);
+    double t_sph = per_call_equilibria(&sph, &air, 200), t_cyl = per_call_equilibria(&cy, &air, 200);
+    printf("all equilibria, sphere (3 roots)        %7.1f us/call  = %.0fx exp()   (goal: 256 altitudes < 0.1 s)\n",
+           t_sph * 1e6, t_sph / t_exp);
+    printf("all equilibria, finite cylinder (3)     %7.1f us/call  = %.0fx exp()\n\n", t_cyl * 1e6, t_cyl / t_exp);
+    sr_bluff_curve_free(&cgw);
+    sr_bluff_curve_free(&cyl);
+
+    double t_open = per_opening_solve(2000);
+    printf("opening loads, one ODE solve            %7.1f us/solve                 (goal < 50 us)\n\n", t_open * 1e6);
+
     char *size_argv[] = {(char *)"sinkrate", (char *)"size",   (char *)"--mass",   (char *)"5.3 kg",
                          (char *)"--speed",  (char *)"6 m/s",  (char *)"--family", (char *)"conical",
                          NULL};
     char *ver_argv[] = {(char *)"sinkrate", (char *)"--version", NULL};
     double t_size = process_time(bin, size_argv, 20);
     double t_ver = process_time(bin, ver_argv, 20);
+    char *ff_argv[] = {(char *)"sinkrate", (char *)"freefall", (char *)"--diameter", (char *)"0.2",
+                       (char *)"--mass",   (char *)"0.5",      (char *)"--trace",    NULL};
+    double t_ff = process_time(bin, ff_argv, 20);
+    printf("whole process: sinkrate freefall --trace %6.2f ms  = %.2fx `sinkrate --version`\n", t_ff * 1e3,
+           t_ff / t_ver);
     printf("whole process: sinkrate size ...        %7.2f ms  = %.2fx `sinkrate --version` (%.2f ms)\n",
            t_size * 1e3, t_size / t_ver, t_ver * 1e3);
     return 0;

@@ -438,7 +438,7 @@ static const bad_case BAD[] = {
     {"two", SR_Q_NONE, 0, "not a number"},
     {"3 m", SR_Q_NONE, 0, "takes no unit"},
     {"3 %", SR_Q_NONE, 0, "takes no unit"},
-    {"2", SR_Q_MASS, 1, "needs a unit (a mass in kg, g, lb, lbm, oz, slug)"},
+    {"2", SR_Q_MASS, 1, "needs a unit (mass in kg, g, lb, lbm, oz, slug)"},
     {"101325", SR_Q_PRESSURE, 1, "needs a unit"},
     {"1.5", SR_Q_LENGTH, 1, "needs a unit"},
     {"12345678901234567890123456789012345678901234567890123456789012345", SR_Q_NONE, 0, "too long"},

@@ -1,10 +1,781 @@
-/* cmd_loads.c - placeholder until `sinkrate loads` lands. */
+/* cmd_loads.c - `sinkrate loads`: opening load of a canopy (or cluster) at
+ * deployment by three methods, their spread, per-canopy loads and required
+ * strengths; for a mission file, at every stage's deployment. */
+#define _DEFAULT_SOURCE
+#include <math.h>
+#include <spawn.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "descent.h"
+#include "fileio.h"
+#include "mission.h"
+#include "opening.h"
+
+extern char **environ;
+
+enum {
+    OPT_MASS = OPT_COMMAND_BASE, OPT_SPEED, OPT_ALTITUDE, OPT_PATH_ANGLE, OPT_DESIGN_FACTOR, OPT_EXPONENT,
+    OPT_FILL, OPT_CX, OPT_ALLOWANCE, OPT_MISSION, OPT_STAGE
+};
+
+static const struct option OPTS[] = {
+    {"mass", required_argument, NULL, OPT_MASS},
+    {"speed", required_argument, NULL, OPT_SPEED},
+    {"altitude", required_argument, NULL, OPT_ALTITUDE},
+    {"path-angle", required_argument, NULL, OPT_PATH_ANGLE},
+    {"design-factor", required_argument, NULL, OPT_DESIGN_FACTOR},
+    {"growth-exponent", required_argument, NULL, OPT_EXPONENT},
+    {"filling-constant", required_argument, NULL, OPT_FILL},
+    {"opening-factor", required_argument, NULL, OPT_CX},
+    {"cluster-allowance", required_argument, NULL, OPT_ALLOWANCE},
+    {"mission", required_argument, NULL, OPT_MISSION},
+    {"stage", required_argument, NULL, OPT_STAGE},
+    SR_OPTS_CANOPY,
+    SR_OPTS_ATMOS,
+    SR_OPTS_PLOT,
+    SR_OPTS_OUTPUT,
+    {NULL, 0, NULL, 0}};
+
+static const char HELP[] =
+    "usage: sinkrate loads --mass M --speed V --family ID --nominal-diameter D [options]\n"
+    "       sinkrate loads --mass M --speed V --canopy FILE [options]\n"
+    "       sinkrate loads --mission FILE [--stage NAME] [options]\n\n"
+    "Peak opening force of a canopy or cluster deployed at speed V, by three methods\n"
+    "built on one drag-area growth model: the opening-load-factor method (X1 from the\n"
+    "ballistic mass ratio), the Pflanz closed form (gravity neglected) and an inflation\n"
+    "ODE with gravity and flight-path angle. Bands come from the family's drag and\n"
+    "opening-factor ranges; the highest estimate governs the design figures.\n\n"
+    "  --mass M                 mass the canopies decelerate\n"
+    "  --speed V                speed at line stretch (deployment), subsonic\n"
+    "  --altitude Z             deployment altitude above sea level (default: the site\n"
+    "                           elevation, or 0)\n"
+    "  --path-angle A           flight-path angle below the horizontal at deployment:\n"
+    "                           90 straight down (default), 0 level as at apogee\n"
+    "  --design-factor K        turn the peak into a required rated strength (K >= 1)\n"
+    "  --growth-exponent N      drag area grows as (t/t_f)^N while filling (default by the\n"
+    "                           family's class: solid 2, slotted 1, from memory)\n"
+    "  --filling-constant N     override the family's filling constant (t_f = N D0 / V)\n"
+    "  --opening-factor CX      override the family's opening-load factor\n"
+    "  --cluster-allowance K    per-canopy load over the equal share in a cluster (default:\n"
+    "                           the bound with the lead canopy taking the whole mass)\n"
+    "  --mission FILE           mass, site and stages from a mission file: the first stage\n"
+    "                           deploys at the start state, later ones at the previous\n"
+    "                           stage's steady descent rate, straight down\n"
+    "  --stage NAME             only this stage of the mission (then --speed and --path-angle\n"
+    "                           may replace its deployment state)\n"
+    "  --plot PREFIX            force vs time from the ODE with the closed-form peaks marked:\n"
+    "                           PREFIX.dat, PREFIX.gp and, with gnuplot, PREFIX.png (or .svg)\n"
+    "  --plot-format png|svg    figure format (default png)\n\n";
+
+typedef struct loads_opts {
+    const char *mass, *speed, *altitude, *angle, *design, *exponent, *fill, *cx, *allowance, *mission, *stage;
+    sr_canopy_opts canopy;
+    sr_atmos_opts atmos;
+} loads_opts;
+
+static int take(sr_cli *c, int code, const char *arg, void *ud)
+{
+    loads_opts *o = ud;
+    switch (code) {
+    case OPT_MASS: o->mass = arg; return 0;
+    case OPT_SPEED: o->speed = arg; return 0;
+    case OPT_ALTITUDE: o->altitude = arg; return 0;
+    case OPT_PATH_ANGLE: o->angle = arg; return 0;
+    case OPT_DESIGN_FACTOR: o->design = arg; return 0;
+    case OPT_EXPONENT: o->exponent = arg; return 0;
+    case OPT_FILL: o->fill = arg; return 0;
+    case OPT_CX: o->cx = arg; return 0;
+    case OPT_ALLOWANCE: o->allowance = arg; return 0;
+    case OPT_MISSION: o->mission = arg; return 0;
+    case OPT_STAGE: o->stage = arg; return 0;
+    }
+    if (sr_cli_take_canopy(&o->canopy, code, arg) || sr_cli_take_atmos(&o->atmos, code, arg))
+        return 0;
+    return 1;
+}
+
+/* Overrides of the family data and the design options; NaN = not given. */
+typedef struct tweaks {
+    double exponent, fill, cx, design, allowance;
+} tweaks;
+
+/* One deployment, evaluated at the low, typical and high ends of the
+ * canopy's drag band (with the opening factor's band and, in a mission,
+ * the band of the speed the previous stage brings). */
+typedef struct deploy {
+    char name[SR_NAME_MAX];
+    const sr_canopy *cp;
+    double mass, z, angle;
+    double v[3];
+    sr_air air;
+    sr_opening_input in[3];
+    sr_opening_result res[3];
+    double exponent;
+} deploy;
+
+static double band_at(const sr_band *b, int k)
+{
+    return k == 0 ? b->lo : k == 1 ? b->typ : b->hi;
+}
+
+/* Which option a library message is about, for the one-line error. */
+static const char *option_of(const char *msg, int mission)
+{
+    static const struct {
+        const char *word, *opt;
+    } MAP[] = {{"deployment speed", "--speed"}, {"Mach", "--speed"},       {"filling constant", "--filling-constant"},
+               {"opening-load factor", "--opening-factor"}, {"growth exponent", "--growth-exponent"},
+               {"design factor", "--design-factor"},         {"payload mass", "--mass"},
+               {"flight-path angle", "--path-angle"},        {"cluster allowance", "--cluster-allowance"},
+               {"drag area", "--drag-coefficient"}};
+    for (size_t i = 0; i < sizeof MAP / sizeof MAP[0]; i++)
+        if (strstr(msg, MAP[i].word))
+            return mission && strcmp(MAP[i].opt, "--speed") == 0 ? "--mission" : MAP[i].opt;
+    return mission ? "--mission" : "--speed";
+}
+
+static int solve(sr_cli *c, deploy *d, const tweaks *tw, int mission)
+{
+    const sr_family *f = &d->cp->fam;
+    d->exponent = !isnan(tw->exponent) ? tw->exponent
+                  : strcmp(f->cls, SR_CANOPY_CLASS_SLOTTED) == 0 ? sr_opening_class_exponent(SR_OPENING_SLOTTED)
+                                                                 : sr_opening_class_exponent(SR_OPENING_SOLID);
+    for (int k = 0; k < 3; k++) {
+        sr_opening_input *in = &d->in[k];
+        sr_opening_input_init(in);
+        in->cds0 = d->cp->cluster_factor * band_at(&d->cp->cds, k);
+        in->d0 = band_at(&d->cp->d0, k);
+        in->count = d->cp->count;
+        in->mass = d->mass;
+        in->v1 = d->v[k];
+        in->path_angle = d->angle;
+        in->rho = d->air.rho;
+        in->a = d->air.a;
+        in->g = d->air.g;
+        in->n_fill = !isnan(tw->fill) ? tw->fill : f->fill_n;
+        in->cx = !isnan(tw->cx) ? tw->cx : band_at(&f->cx, k);
+        in->exponent = d->exponent;
+        in->design_factor = isnan(tw->design) ? 0 : tw->design;
+        in->cluster_allowance = isnan(tw->allowance) ? 0 : tw->allowance;
+        in->mach_envelope = isfinite(f->mach_max) ? f->mach_max : 0;
+        sr_error e;
+        if (sr_opening_solve(in, &d->res[k], &e) != SR_OK) {
+            const char *opt = option_of(e.msg, mission);
+            if (mission)
+                return sr_cli_fail(c, "%s: stage '%s': %s", opt, d->name, e.msg);
+            return sr_cli_fail(c, "%s: %s", opt, e.msg);
+        }
+    }
+    return 0;
+}
+
+/* Lowest and highest of a result field over the three band ends. */
+#define SPAN(d, field, lo, hi)                                                                                \
+    do {                                                                                                      \
+        lo = fmin((d)->res[0].field, fmin((d)->res[1].field, (d)->res[2].field));                            \
+        hi = fmax((d)->res[0].field, fmax((d)->res[1].field, (d)->res[2].field));                            \
+    } while (0)
+
+static const char *regime_text(int regime)
+{
+    return regime == SR_OPENING_INFINITE_MASS ? "closer to infinite mass (peak at full inflation)"
+                                              : "closer to finite mass (peak before full inflation)";
+}
+
+static const char *kind_text(int kind)
+{
+    switch (kind) {
+    case SR_PEAK_INTERIOR: return "during filling";
+    case SR_PEAK_FULL: return "at full inflation";
+    case SR_PEAK_STEADY: return "steady descent (weight)";
+    default: return "-";
+    }
+}
+
+static void warn_common(sr_report *r, const deploy *d, int *recalled, int mission)
+{
+    const sr_opening_result *t = &d->res[1];
+    const char *pre = mission ? d->name : NULL;
+    if (t->above_envelope)
+        sr_report_warning(r, "%s%sMach %.2f at deployment is above the %s family's usual application (Mach %.2g, "
+                             "from memory).",
+                          pre ? pre : "", pre ? ": " : "", t->mach, d->cp->fam.id, d->cp->fam.mach_max);
+    if (d->res[2].slow_deployment)
+        sr_report_warning(r, "%s%sdeployment at or below the canopy's steady descent speed (%.3g m/s): the payload "
+                             "speeds up while the canopy fills and the load is governed by the weight; the "
+                             "filling-time law is not meant for such slow openings.",
+                          pre ? pre : "", pre ? ": " : "", t->v_terminal);
+    if (strstr(d->cp->fam.cx_source, "memory") || strstr(d->cp->fam.fill_source, "memory"))
+        *recalled = 1;
+}
+
+static void notes_common(sr_report *r, int recalled, double design, int cluster)
+{
+    sr_report_note(r, "Three estimates on one drag-area growth model (CD S)(t) = CD0 S0 (t/t_f)^n, t_f = n_fill D0 / V: "
+                      "the opening-load-factor method takes X1 from the ballistic mass ratio R_m on the envelope "
+                      "of the solid (n = 2) and slotted (n = 1) curves; Pflanz uses the family's own exponent with "
+                      "gravity neglected; the ODE adds gravity and the flight-path angle. They differ by the "
+                      "filling shape (most for light payloads) and by gravity (most for steep, heavy deployments); "
+                      "the highest governs. Method and sources: docs/method.md, Opening loads.");
+    if (cluster)
+        sr_report_note(r, "Cluster: canopies do not fill in step and the leading one takes more than its share "
+                          "(Knacke 1991, Ch. 6); without --cluster-allowance the per-canopy design load is the "
+                          "bound of the same models with the lead canopy decelerating the whole mass alone.");
+    if (recalled)
+        sr_report_warning(r, "The family's opening-load factor and filling constant are recalled handbook values, "
+                             "not checked against the printed tables: confirm the loads by test.");
+    if (design > 0)
+        sr_report_warning(r, "The design factor and what a rating means (break strength or proof load) are the "
+                             "rigger's and the applicable standard's call, not this tool's.");
+}
+
+static int write_plot(sr_cli *c, const deploy *d, const char *prefix);
+
+/* A band, or a single value when the band has no width. */
+static void band_or_value(sr_report *r, const char *key, const char *label, double lo, double typ, double hi,
+                          sr_quantity q, int sig)
+{
+    if (lo == hi && typ == hi)
+        sr_report_value(r, key, label, typ, q, sig);
+    else
+        sr_report_band(r, key, label, lo, typ, hi, q, sig);
+}
+
+static int report_one(sr_cli *c, sr_report *r, deploy *d, int mission_stage, const tweaks *tw)
+{
+    const sr_opening_result *lo = &d->res[0], *t = &d->res[1], *hi = &d->res[2];
+    double a, b;
+    sr_report_section(r, "Deployment");
+    if (mission_stage)
+        sr_report_text(r, "stage", "stage", d->name);
+    sr_report_value(r, "mass", "decelerated mass", d->mass, SR_Q_MASS, 4);
+    if (d->v[0] != d->v[2])
+        band_or_value(r, "speed", "speed at deployment", d->v[0], d->v[1], d->v[2], SR_Q_SPEED, 4);
+    else
+        sr_report_value(r, "speed", "speed at deployment", d->v[1], SR_Q_SPEED, 4);
+    sr_report_value(r, "path_angle", "path angle below horizontal", d->angle, SR_Q_ANGLE, 3);
+    sr_report_value(r, "altitude", "altitude", d->z, SR_Q_LENGTH, SR_FIXED(0));
+    sr_report_value(r, "density", "air density", d->air.rho, SR_Q_DENSITY, 4);
+    sr_report_value(r, "speed_of_sound", "speed of sound", d->air.a, SR_Q_SPEED, 4);
+    SPAN(d, q1, a, b);
+    band_or_value(r, "dynamic_pressure", "dynamic pressure q1", a, t->q1, b, SR_Q_PRESSURE, 4);
+    SPAN(d, mach, a, b);
+    band_or_value(r, "mach", "Mach number", a, t->mach, b, SR_Q_NONE, 3);
+
+    sr_report_section(r, "Canopy");
+    sr_cli_report_canopy(r, d->cp);
+    band_or_value(r, "nominal_diameter", "nominal diameter D0", d->cp->d0.lo, d->cp->d0.typ, d->cp->d0.hi,
+                   SR_Q_LENGTH, 4);
+    band_or_value(r, "drag_area", "drag area CD0 S0 (all canopies)", lo->cds_total, t->cds_total, hi->cds_total,
+                   SR_Q_AREA, 4);
+    char buf[512];
+    snprintf(buf, sizeof buf, "%.3g%s", d->in[1].n_fill, isnan(tw->fill) ? " (family)" : " (given)");
+    sr_report_text(r, "filling_constant", "filling constant n_fill", buf);
+    band_or_value(r, "opening_factor", "opening-load factor CX", d->in[0].cx, d->in[1].cx, d->in[2].cx, SR_Q_NONE,
+                   3);
+    snprintf(buf, sizeof buf, "%.3g (%s)", d->exponent,
+             !isnan(tw->exponent) ? "given" : strcmp(d->cp->fam.cls, SR_CANOPY_CLASS_SLOTTED) == 0
+                                                  ? "slotted class, from memory"
+                                                  : "solid class, from memory");
+    sr_report_text(r, "growth_exponent", "growth exponent n", buf);
+    SPAN(d, t_fill, a, b);
+    band_or_value(r, "filling_time", "filling time t_f", a, t->t_fill, b, SR_Q_TIME, 3);
+    SPAN(d, mass_ratio, a, b);
+    band_or_value(r, "mass_ratio", "mass ratio R_m (per canopy)", a, t->mass_ratio, b, SR_Q_NONE, 3);
+    SPAN(d, ballistic, a, b);
+    band_or_value(r, "ballistic_parameter", "Pflanz parameter A", a, t->ballistic, b, SR_Q_NONE, 3);
+    sr_report_text(r, "mass_regime", "mass regime", regime_text(t->regime));
+
+    sr_rtable *tab = sr_report_table(r, "methods", "Peak opening force by method (all canopies)");
+    sr_rtable_text_column(tab, "method", "method");
+    sr_rtable_column(tab, "force_low", "force low", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "force_typical", "typical", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "force_high", "high", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "x1", "X1 typ", SR_Q_NONE, 3);
+    sr_rtable_column(tab, "time", "time typ", SR_Q_TIME, 3);
+    sr_rtable_column(tab, "deceleration_g", "decel. typ (g)", SR_Q_NONE, 3);
+    sr_rtable_text_column(tab, "peak", "peak");
+    static const char *const NAMES[3] = {"opening-load factor", "Pflanz (no gravity)", "inflation ODE"};
+    for (int m = 0; m < 3; m++) {
+        const sr_opening_peak *p[3];
+        for (int k = 0; k < 3; k++)
+            p[k] = m == 0 ? &d->res[k].olf : m == 1 ? &d->res[k].pflanz : &d->res[k].ode;
+        double row[6] = {fmin(p[0]->force, fmin(p[1]->force, p[2]->force)),
+                         p[1]->force,
+                         fmax(p[0]->force, fmax(p[1]->force, p[2]->force)),
+                         p[1]->x1,
+                         p[1]->time,
+                         p[1]->decel_g};
+        const char *texts[2] = {NAMES[m], kind_text(p[1]->kind)};
+        sr_rtable_row(tab, row, texts);
+    }
+
+    sr_report_section(r, "Result");
+    SPAN(d, f_high, a, b);
+    band_or_value(r, "peak_force", "peak opening force (highest method)", a, t->f_high, b, SR_Q_FORCE, 4);
+    char n_txt[64], lbf_txt[64];
+    sr_report_format_value(n_txt, sizeof n_txt, b, SR_Q_FORCE, SR_UNITS_SI, 4);
+    sr_report_format_value(lbf_txt, sizeof lbf_txt, b, SR_Q_FORCE, SR_UNITS_US, 4);
+    snprintf(buf, sizeof buf, "%s = %s", n_txt, lbf_txt);
+    sr_report_text(r, "peak_force_high_n_lbf", "highest peak in N and lbf", buf);
+    SPAN(d, spread, a, b);
+    band_or_value(r, "spread_percent", "spread of the methods (high-low)/low %", 100 * a, 100 * t->spread, 100 * b,
+                  SR_Q_NONE, 3);
+    SPAN(d, decel_g_max, a, b);
+    band_or_value(r, "peak_deceleration_g", "peak deceleration (g)", a, t->decel_g_max, b, SR_Q_NONE, 3);
+    if (d->cp->count > 1) {
+        SPAN(d, f_canopy_equal, a, b);
+        band_or_value(r, "canopy_force_equal", "per canopy, equal share", a, t->f_canopy_equal, b, SR_Q_FORCE, 4);
+        SPAN(d, f_canopy_design, a, b);
+        band_or_value(r, "canopy_force_design", "per canopy, with unequal inflation", a, t->f_canopy_design, b,
+                       SR_Q_FORCE, 4);
+        snprintf(buf, sizeof buf, "%.3g (%s)", hi->allowance,
+                 hi->allowance_derived ? "lead canopy alone with the whole mass, derived bound" : "given");
+        sr_report_text(r, "cluster_allowance", "unequal-inflation allowance (high end)", buf);
+    }
+    if (t->design_factor > 0) {
+        sr_report_value(r, "design_factor", "design factor", t->design_factor, SR_Q_NONE, 3);
+        sr_report_value(r, "required_strength", "required rated strength, whole system", hi->strength_total,
+                        SR_Q_FORCE, 4);
+        if (d->cp->count > 1)
+            sr_report_value(r, "required_strength_canopy", "required rated strength, each canopy and riser",
+                            hi->strength_canopy, SR_Q_FORCE, 4);
+    }
+    if (c->plot_prefix)
+        return write_plot(c, d, c->plot_prefix);
+    return 0;
+}
+
+/* ---- the figure: ODE force vs time (typical case), closed-form peaks marked */
+
+static int render(sr_cli *c, const char *gp)
+{
+    /* run gnuplot when it is on PATH; its absence is not an error */
+    const char *path = getenv("PATH");
+    int found = 0;
+    if (path) {
+        char buf[4096];
+        snprintf(buf, sizeof buf, "%s", path);
+        char *save = NULL;
+        for (char *dir = strtok_r(buf, ":", &save); dir && !found; dir = strtok_r(NULL, ":", &save)) {
+            char cand[4200];
+            snprintf(cand, sizeof cand, "%s/gnuplot", *dir ? dir : ".");
+            found = access(cand, X_OK) == 0;
+        }
+    }
+    if (!found)
+        return 0;
+    pid_t pid;
+    char *argv[] = {(char *)"gnuplot", (char *)gp, NULL};
+    posix_spawn_file_actions_t fa;
+    posix_spawn_file_actions_init(&fa);
+    posix_spawn_file_actions_addopen(&fa, 1, "/dev/null", 1 /* O_WRONLY */, 0);
+    int rc = posix_spawnp(&pid, "gnuplot", &fa, NULL, argv, environ);
+    posix_spawn_file_actions_destroy(&fa);
+    if (rc != 0)
+        return 0;
+    int st = 0;
+    waitpid(pid, &st, 0);
+    if (!WIFEXITED(st) || WEXITSTATUS(st) != 0)
+        return sr_cli_fail(c, "--plot: gnuplot failed on %s", gp);
+    return 0;
+}
+
+static int write_plot(sr_cli *c, const deploy *d, const char *prefix)
+{
+    enum { N = 301 };
+    const sr_opening_result *t = &d->res[1];
+    double tend = 2 * t->t_fill;
+    if (t->ode.kind != SR_PEAK_STEADY && t->ode.time > 0.5 * tend)
+        tend = 2 * t->ode.time;
+    double *ts = malloc(2 * N * sizeof *ts);
+    if (!ts)
+        return sr_cli_fail(c, "out of memory");
+    double *fs = ts + N;
+    sr_error e;
+    if (sr_opening_trace(&d->in[1], tend, N, ts, fs, &e) != SR_OK) {
+        free(ts);
+        return sr_cli_fail(c, "--plot: %s", e.msg);
+    }
+    const char *fu = sr_units_label(SR_Q_FORCE, c->units);
+    char *dat = NULL, *gp = NULL;
+    size_t dl = 0, gl = 0;
+    FILE *f = open_memstream(&dat, &dl);
+    FILE *g = open_memstream(&gp, &gl);
+    if (!f || !g) {
+        if (f)
+            fclose(f);
+        if (g)
+            fclose(g);
+        free(dat);
+        free(gp);
+        free(ts);
+        return sr_cli_fail(c, "out of memory");
+    }
+    fprintf(f, "# sinkrate loads: inflation ODE drag force vs time (growth model, without CX), typical band "
+               "end\n# %s\n", sr_report_caution());
+    fprintf(f, "# time [s]\tforce [%s]\n", fu);
+    for (int i = 0; i < N; i++)
+        fprintf(f, "%.6g\t%.6g\n", ts[i], sr_units_from_si(fs[i], SR_Q_FORCE, c->units));
+    fclose(f);
+
+    const char *fmt = c->plot_format ? c->plot_format : "png";
+    const char *base = strrchr(prefix, '/');
+    base = base ? base + 1 : prefix;
+    double fp = sr_units_from_si(t->pflanz.force, SR_Q_FORCE, c->units);
+    double fo = sr_units_from_si(t->olf.force, SR_Q_FORCE, c->units);
+    double fe = sr_units_from_si(t->ode.force, SR_Q_FORCE, c->units);
+    int steady = t->ode.kind == SR_PEAK_STEADY;
+    fprintf(g, "# sinkrate loads: opening force figure (gnuplot)\n# %s\n", sr_report_caution());
+    if (strcmp(fmt, "svg") == 0)
+        fprintf(g, "set terminal svg size 900,560 dynamic enhanced font 'sans,11'\n");
+    else
+        fprintf(g, "set terminal pngcairo size 900,560 enhanced font 'sans,10'\n");
+    fprintf(g, "set output '%s.%s'\n", base, fmt);
+    fprintf(g, "set title 'Opening force%s%s: inflation ODE with closed-form peaks' noenhanced\n",
+            d->name[0] ? ", " : "", d->name);
+    fprintf(g, "set xlabel 'time after line stretch [s]'\nset ylabel 'force, all canopies [%s]'\n", fu);
+    double ymax = fmax(fe, fmax(fp, fo));
+    for (int i = 0; i < N; i++)
+        ymax = fmax(ymax, sr_units_from_si(fs[i], SR_Q_FORCE, c->units));
+    fprintf(g, "set grid\nset key top right box opaque\nset yrange [0:%.6g]\n", 1.3 * ymax);
+    fprintf(g, "set arrow from %.6g, graph 0 to %.6g, graph 1 nohead dashtype 3 lc rgb '#777777'\n", t->t_fill,
+            t->t_fill);
+    fprintf(g, "set label 2 'full inflation' at %.6g, graph 0.04 offset 0.5,0 tc rgb '#555555'\n", t->t_fill);
+    fprintf(g, "set bmargin 6\nset label 1 \"%s\" at screen 0.02, screen 0.03 font ',7' noenhanced\n",
+            "Preliminary estimates only; not for parachutes that carry people. See the caution in the output.");
+    fprintf(g,
+            "plot '%s.dat' using 1:2 with lines lw 2 lc rgb '#1f5fa8' title 'inflation ODE drag (without CX)', \\\n"
+            "     %.6g with lines dashtype 2 lc rgb '#c0392b' title 'Pflanz peak (no gravity)', \\\n"
+            "     %.6g with lines dashtype 4 lc rgb '#2e8b57' title 'opening-load-factor peak', \\\n"
+            "     %.6g with lines dashtype 1 lw 1 lc rgb '#7d3c98' title '%s', \\\n"
+            "     '-' using 1:2 with points pt 7 ps 1.2 lc rgb '#c0392b' notitle\n%.6g %.6g\ne\n",
+            base, fp, fo, fe, steady ? "ODE peak: steady drag = weight" : "ODE peak (with CX)", t->pflanz.time,
+            fp);
+    fclose(g);
+    free(ts);
+
+    char path[4096];
+    int rc = 0;
+    snprintf(path, sizeof path, "%s.dat", prefix);
+    if (sr_file_write_atomic(path, dat, dl, &e) != SR_OK)
+        rc = sr_cli_fail(c, "--plot: %s", e.msg);
+    snprintf(path, sizeof path, "%s.gp", prefix);
+    if (!rc && sr_file_write_atomic(path, gp, gl, &e) != SR_OK)
+        rc = sr_cli_fail(c, "--plot: %s", e.msg);
+    free(dat);
+    free(gp);
+    if (rc)
+        return rc;
+    /* gnuplot runs in the prefix's directory so the script's relative names hold */
+    char dir[4096];
+    snprintf(dir, sizeof dir, "%s", prefix);
+    char *slash = strrchr(dir, '/');
+    char cwd[4096];
+    if (!getcwd(cwd, sizeof cwd))
+        return sr_cli_fail(c, "--plot: cannot read the working directory");
+    if (slash) {
+        *slash = '\0';
+        if (chdir(*dir ? dir : "/") != 0)
+            return sr_cli_fail(c, "--plot: cannot enter %s", dir);
+    }
+    snprintf(path, sizeof path, "%s.gp", base);
+    rc = render(c, path);
+    if (slash && chdir(cwd) != 0)
+        return sr_cli_fail(c, "--plot: cannot return to %s", cwd);
+    return rc;
+}
+
+/* ---- mission files ---------------------------------------------------- */
+
+static int mission_summary(sr_cli *c, sr_report *r, deploy *ds, size_t n, const tweaks *tw)
+{
+    sr_rtable *tab = sr_report_table(r, "stages", "Opening load at each deployment (typical; peak band high end)");
+    sr_rtable_text_column(tab, "stage", "stage");
+    sr_rtable_column(tab, "altitude", "altitude", SR_Q_LENGTH, SR_FIXED(0));
+    sr_rtable_column(tab, "speed", "speed", SR_Q_SPEED, 3);
+    sr_rtable_column(tab, "path_angle", "angle", SR_Q_ANGLE, 3);
+    sr_rtable_column(tab, "dynamic_pressure", "q1", SR_Q_PRESSURE, 3);
+    sr_rtable_column(tab, "mach", "Mach", SR_Q_NONE, 2);
+    sr_rtable_column(tab, "filling_time", "t_f", SR_Q_TIME, 3);
+    sr_rtable_column(tab, "mass_ratio", "R_m", SR_Q_NONE, 3);
+    sr_rtable_column(tab, "force_olf", "load-factor", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "force_pflanz", "Pflanz", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "force_ode", "ODE", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "force_high", "peak high", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "deceleration_g", "decel. (g)", SR_Q_NONE, 3);
+    if (!isnan(tw->design))
+        sr_rtable_column(tab, "required_strength", "strength", SR_Q_FORCE, 4);
+    sr_rtable_text_column(tab, "ode_peak", "ODE peak");
+    sr_rtable_text_column(tab, "mass_regime", "mass regime");
+    for (size_t i = 0; i < n; i++) {
+        const sr_opening_result *t = &ds[i].res[1];
+        double a, b;
+        SPAN(&ds[i], f_high, a, b);
+        (void)a;
+        double row[13] = {ds[i].z,      ds[i].v[1],      ds[i].angle,   t->q1,         t->mach,
+                          t->t_fill,    t->mass_ratio,   t->olf.force,  t->pflanz.force, t->ode.force,
+                          b,            t->decel_g_max,  ds[i].res[2].strength_total};
+        const char *texts[3] = {ds[i].name, kind_text(t->ode.kind),
+                                t->regime == SR_OPENING_INFINITE_MASS ? "infinite" : "finite"};
+        sr_rtable_row(tab, row, texts);
+    }
+    return 0;
+}
+
+/* Deployment states of a mission's stages: the first at the start state,
+ * each later one at the previous stage's steady descent rate (its band),
+ * straight down, at its deployment height. */
+static int mission_deploys(sr_cli *c, const sr_mission *mis, const sr_atmos *atm, double mass, deploy *ds,
+                           size_t *n, const char *only)
+{
+    sr_error e;
+    *n = 0;
+    int found = 0;
+    for (size_t i = 0; i < mis->nstages; i++) {
+        const sr_stage *s = &mis->stages[i];
+        if (only && strcmp(only, s->name) != 0)
+            continue;
+        found = 1;
+        deploy *d = &ds[(*n)++];
+        memset(d, 0, sizeof *d);
+        snprintf(d->name, sizeof d->name, "%s", s->name);
+        d->cp = &s->canopy;
+        d->mass = mass;
+        if (!s->has_size)
+            return sr_cli_fail(c, "--mission: stage '%s' has no size; give one in the file, or run `sinkrate size "
+                                  "--mission` first",
+                               s->name);
+        if (s->deploy == SR_DEPLOY_APOGEE) {
+            if (!mis->has_start)
+                return sr_cli_fail(c, "--mission: stage '%s' deploys at the start state, but the file has no "
+                                      "start block (height, speed, path angle)",
+                                   s->name);
+            d->z = mis->ground + mis->start_height;
+            d->v[0] = d->v[1] = d->v[2] = mis->start_speed;
+            d->angle = mis->start_path_angle;
+        } else if (s->deploy == SR_DEPLOY_ALTITUDE && i > 0) {
+            const sr_stage *prev = &mis->stages[i - 1];
+            d->z = mis->ground + s->deploy_value;
+            d->angle = M_PI / 2;
+            sr_air air;
+            sr_band v;
+            if (sr_atmos_at(atm, d->z, &air, &e) != SR_OK || sr_descent_rate(&prev->canopy, mass, 0, &air, &v, &e))
+                return sr_cli_fail(c, "--mission: stage '%s': %s", s->name, e.msg);
+            /* the fastest previous descent goes with the high end of this canopy's band */
+            d->v[0] = v.lo;
+            d->v[1] = v.typ;
+            d->v[2] = v.hi;
+        } else {
+            return sr_cli_fail(c, "--mission: stage '%s' deploys on a timer (or first, at a height); its speed at "
+                                  "deployment needs the trajectory: give --stage %s with --speed and --path-angle, "
+                                  "or see `sinkrate profile`",
+                               s->name, s->name);
+        }
+        if (sr_atmos_at(atm, d->z, &d->air, &e) != SR_OK)
+            return sr_cli_fail(c, "--mission: stage '%s': %s", s->name, e.msg);
+    }
+    if (only && !found)
+        return sr_cli_fail(c, "--stage: the mission has no stage '%s'", only);
+    return 0;
+}
+
+/* ---- entry point ------------------------------------------------------ */
+
+static int parse_tweaks(sr_cli *c, const loads_opts *o, tweaks *tw)
+{
+    int rc;
+    tw->exponent = tw->fill = tw->cx = tw->design = tw->allowance = NAN;
+    if (o->exponent && (rc = sr_cli_quantity(c, "--growth-exponent", o->exponent, SR_Q_NONE, 1, &tw->exponent)))
+        return rc;
+    if (o->fill && (rc = sr_cli_quantity(c, "--filling-constant", o->fill, SR_Q_NONE, 1, &tw->fill)))
+        return rc;
+    if (o->cx && (rc = sr_cli_quantity(c, "--opening-factor", o->cx, SR_Q_NONE, 1, &tw->cx)))
+        return rc;
+    if (o->design && (rc = sr_cli_quantity(c, "--design-factor", o->design, SR_Q_NONE, 1, &tw->design)))
+        return rc;
+    if (o->allowance && (rc = sr_cli_quantity(c, "--cluster-allowance", o->allowance, SR_Q_NONE, 1, &tw->allowance)))
+        return rc;
+    if (!isnan(tw->design) && tw->design < 1)
+        return sr_cli_fail(c, "--design-factor: must be at least 1 (got '%s')", o->design);
+    if (!isnan(tw->allowance) && tw->allowance < 1)
+        return sr_cli_fail(c, "--cluster-allowance: must be at least 1 (got '%s')", o->allowance);
+    return 0;
+}
 
 int sr_cmd_loads(sr_cli *c, int argc, char **argv)
 {
-    (void)argc;
-    (void)argv;
-    return sr_cli_fail(c, "not available in this build yet");
+    loads_opts o;
+    memset(&o, 0, sizeof o);
+    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    if (rc)
+        return rc;
+    if (first < argc)
+        return sr_cli_fail(c, "unexpected argument '%s' (loads takes options only)", argv[first]);
+    tweaks tw;
+    if ((rc = parse_tweaks(c, &o, &tw)))
+        return rc;
+    if (o.stage && !o.mission)
+        return sr_cli_fail(c, "--stage: needs --mission FILE");
+    if (o.mission && !o.stage && (o.speed || o.angle || o.altitude))
+        return sr_cli_fail(c, "%s: with --mission, a deployment state applies to one stage; add --stage NAME",
+                           o.speed ? "--speed" : o.angle ? "--path-angle" : "--altitude");
+    if (o.mission && sr_cli_canopy_given(&o.canopy))
+        return sr_cli_fail(c, "--mission: the stages give the canopies; drop --family / --canopy");
+
+    sr_catalog *cat = NULL;
+    sr_mission *mis = NULL;
+    sr_atmos atm;
+    sr_atmos_init_standard(&atm);
+    sr_report *r = NULL;
+    sr_error e;
+    sr_canopy cp;
+    deploy *ds = calloc(SR_MISSION_MAX_STAGES, sizeof *ds);
+    size_t nd = 0;
+    double mass = NAN, ground = 0;
+    if (!ds) {
+        rc = sr_cli_fail(c, "out of memory");
+        goto out;
+    }
+    if ((rc = sr_cli_catalog(c, &cat)))
+        goto out;
+    if (o.mission) {
+        mis = calloc(1, sizeof *mis);
+        if (!mis || sr_mission_load(mis, o.mission, cat, &e)) {
+            rc = mis ? sr_cli_fail(c, "--mission: %s", e.msg) : sr_cli_fail(c, "out of memory");
+            free(mis);
+            mis = NULL;
+            goto out;
+        }
+        mass = sr_mission_total_mass(mis);
+        ground = mis->ground;
+        if (o.atmos.temp_offset || o.atmos.site_elevation || o.atmos.surface_temp || o.atmos.surface_pressure ||
+            o.atmos.sounding) {
+            if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
+                goto out;
+        } else {
+            atm = mis->atmos;
+            memset(&mis->atmos, 0, sizeof mis->atmos);
+        }
+    } else {
+        if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
+            goto out;
+        if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
+            goto out;
+    }
+    if (o.mass && (rc = sr_cli_quantity(c, "--mass", o.mass, SR_Q_MASS, 1, &mass)))
+        goto out;
+    if (isnan(mass)) {
+        rc = sr_cli_fail(c, "--mass: the mass the canopy decelerates is required");
+        goto out;
+    }
+    if (mass > 1e5) {
+        rc = sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", mass);
+        goto out;
+    }
+
+    if (mis && !o.speed) {
+        if ((rc = mission_deploys(c, mis, &atm, mass, ds, &nd, o.stage)))
+            goto out;
+    } else {
+        deploy *d = &ds[nd++];
+        if (mis) {
+            size_t k;
+            for (k = 0; k < mis->nstages && strcmp(mis->stages[k].name, o.stage) != 0; k++)
+                ;
+            if (k == mis->nstages) {
+                rc = sr_cli_fail(c, "--stage: the mission has no stage '%s'", o.stage);
+                goto out;
+            }
+            snprintf(d->name, sizeof d->name, "%s", o.stage);
+            d->cp = &mis->stages[k].canopy;
+        } else {
+            d->cp = &cp;
+        }
+        d->mass = mass;
+        if (!o.speed) {
+            rc = sr_cli_fail(c, "--speed: the speed at deployment is required");
+            goto out;
+        }
+        double v;
+        if ((rc = sr_cli_quantity(c, "--speed", o.speed, SR_Q_SPEED, 1, &v)))
+            goto out;
+        d->v[0] = d->v[1] = d->v[2] = v;
+        d->angle = M_PI / 2;
+        if (o.angle && (rc = sr_cli_quantity(c, "--path-angle", o.angle, SR_Q_ANGLE, 0, &d->angle)))
+            goto out;
+        if (fabs(d->angle) > M_PI / 2 + 1e-9) {
+            rc = sr_cli_fail(c, "--path-angle: '%s' is outside -90..90 degrees below the horizontal", o.angle);
+            goto out;
+        }
+        d->z = ground;
+        if (mis) {
+            /* the stage's own deployment height, when the file fixes one */
+            for (size_t k = 0; k < mis->nstages; k++) {
+                const sr_stage *st = &mis->stages[k];
+                if (strcmp(st->name, o.stage) != 0)
+                    continue;
+                if (st->deploy == SR_DEPLOY_ALTITUDE)
+                    d->z = mis->ground + st->deploy_value;
+                else if (st->deploy == SR_DEPLOY_APOGEE && mis->has_start)
+                    d->z = mis->ground + mis->start_height;
+            }
+        }
+        if (o.altitude && (rc = sr_cli_quantity(c, "--altitude", o.altitude, SR_Q_LENGTH, 0, &d->z)))
+            goto out;
+        if (sr_atmos_at(&atm, d->z, &d->air, &e) != SR_OK) {
+            rc = sr_cli_fail(c, "--altitude: %s", e.msg);
+            goto out;
+        }
+    }
+    for (size_t i = 0; i < nd; i++)
+        if ((rc = solve(c, &ds[i], &tw, mis != NULL && !o.speed)))
+            goto out;
+
+    r = sr_report_new("loads", "opening load at deployment");
+    sr_report_section(r, "Inputs");
+    if (mis)
+        sr_report_text(r, "mission", "mission", mis->name);
+    sr_cli_report_atmos(r, &atm);
+    int recalled = 0, cluster = 0;
+    if (nd == 1) {
+        if ((rc = report_one(c, r, &ds[0], mis != NULL, &tw)))
+            goto out;
+    } else {
+        sr_report_value(r, "mass", "decelerated mass", mass, SR_Q_MASS, 4);
+        if ((rc = mission_summary(c, r, ds, nd, &tw)))
+            goto out;
+        sr_report_note(r, "Stages after the first deploy at the previous stage's steady descent rate, straight "
+                          "down; `sinkrate loads --mission FILE --stage NAME` shows one stage in full.");
+        if (c->plot_prefix) {
+            for (size_t i = 0; i < nd && !rc; i++) {
+                char pre[4096];
+                snprintf(pre, sizeof pre, "%s-%s", c->plot_prefix, ds[i].name);
+                rc = write_plot(c, &ds[i], pre);
+            }
+            if (rc)
+                goto out;
+        }
+    }
+    for (size_t i = 0; i < nd; i++) {
+        warn_common(r, &ds[i], &recalled, nd > 1);
+        cluster |= ds[i].cp->count > 1;
+    }
+    notes_common(r, recalled, isnan(tw.design) ? 0 : tw.design, cluster);
+    rc = sr_cli_emit(c, r);
+out:
+    sr_report_free(r);
+    sr_atmos_free(&atm);
+    if (mis) {
+        sr_mission_free(mis);
+        free(mis);
+    }
+    free(ds);
+    free(cat);
+    return rc;
 }

@@ -1,0 +1,306 @@
+/* test_cli_loads.c - `sinkrate loads` in-process: the handbook check case
+ * through the whole command, exact lbf/N agreement, mission stages, the
+ * figure files, the caution, and one clear line with exit 2 for bad input. */
+#define _DEFAULT_SOURCE
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+#include <jansson.h>
+
+#include "report.h"
+#include "testutil.h"
+
+#define DEMO "payloads/desert-club-rocket.yaml"
+#define SRC_TABLE "canopy-handbook.md 6.3 [D] (Pflanz closed form of K91 4.2 growth model)"
+#define SRC_NIST "NIST SP 811 (2008) App. B: 1 lbf = 4.4482216152605 N exactly"
+
+/* The handbook check case (D0 1.5 m, CD0 0.80 on nominal area, 30 m/s at sea
+ * level, CX 1.7, n_fill 8) with mass m and exponent n, extra args appended. */
+static json_t *run_json(int expect_rc, const char *const *extra)
+{
+    char *argv[48];
+    int argc = 0;
+    argv[argc++] = "sinkrate";
+    static const char *const BASE[] = {"loads", "--family", "conical", "--nominal-diameter", "1.5 m",
+                                       "--drag-coefficient", "0.80", "--drag-reference", "nominal",
+                                       "--opening-factor", "1.7", "--filling-constant", "8", "--speed", "30 m/s",
+                                       "--format", "json", NULL};
+    for (size_t i = 0; BASE[i]; i++)
+        argv[argc++] = (char *)BASE[i];
+    for (size_t i = 0; extra && extra[i]; i++)
+        argv[argc++] = (char *)extra[i];
+    argv[argc] = NULL;
+    char *out, *err;
+    int rc = sr_test_cli_argv(&out, &err, argc, argv);
+    if (rc != expect_rc)
+        print_error("rc %d, stderr '%s'\n", rc, err);
+    assert_int_equal(rc, expect_rc);
+    json_error_t je;
+    json_t *j = json_loads(out, 0, &je);
+    assert_non_null(j);
+    free(out);
+    free(err);
+    return j;
+}
+
+static double val(json_t *j, const char *key, const char *field)
+{
+    json_t *v = json_object_get(json_object_get(j, "values"), key);
+    assert_non_null(v);
+    /* a value, or a band (whose typical end answers for "value") */
+    json_t *x = json_object_get(v, field ? field : "value");
+    if (!x && !field)
+        x = json_object_get(v, "typical");
+    if (!x && field && strcmp(field, "high") == 0)
+        x = json_object_get(v, "value");
+    assert_non_null(x);
+    return json_number_value(x);
+}
+
+/* Row r, column c of a table (numbers only). */
+static double cell(json_t *j, const char *table, size_t r, size_t c)
+{
+    json_t *rows = json_object_get(json_object_get(json_object_get(j, "tables"), table), "rows");
+    assert_non_null(rows);
+    return json_number_value(json_array_get(json_array_get(rows, r), c));
+}
+
+static void test_handbook_case(void **state)
+{
+    (void)state;
+    static const struct {
+        const char *mass, *n;
+        double x1, f;
+    } CASES[] = {
+        {"50 kg", "2", 0.8746, 1158.7}, {"5 kg", "2", 0.3576, 473.8}, {"0.5 kg", "2", 0.0770, 102.1},
+        {"50 kg", "1", 0.8206, NAN},    {"5 kg", "0.5", 0.3643, NAN},
+    };
+    char q[128];
+    for (size_t i = 0; i < sizeof CASES / sizeof CASES[0]; i++) {
+        /* gravity cannot be switched off from the command line: level flight
+         * keeps its effect on the ODE small; the Pflanz row is gravity-free */
+        const char *extra[] = {"--mass", CASES[i].mass, "--growth-exponent", CASES[i].n, "--path-angle", "0", NULL};
+        json_t *j = run_json(0, extra);
+        snprintf(q, sizeof q, "loads: Pflanz X1, m=%s, n=%s", CASES[i].mass, CASES[i].n);
+        CHECK_ABS(q, SRC_TABLE, CASES[i].x1, cell(j, "methods", 1, 4), 6e-5);
+        if (!isnan(CASES[i].f)) {
+            snprintf(q, sizeof q, "loads: Pflanz peak force, m=%s, n=2 (N)", CASES[i].mass);
+            CHECK_ABS(q, SRC_TABLE, CASES[i].f, cell(j, "methods", 1, 2), 0.15);
+        }
+        if (i == 0) {
+            CHECK_ABS("loads: filling time (s)", "canopy-handbook.md 4.3 [D]: 8 x 1.5 m / 30 m/s = 0.40 s", 0.40,
+                      val(j, "filling_time", NULL), 1e-12);
+            CHECK_REL("loads: q1 at sea level (Pa)", "U.S. Standard Atmosphere 1976: rho0 = 1.2250 kg/m3", 551.25,
+                      val(j, "dynamic_pressure", NULL), 1e-5);
+            CHECK_REL("loads: Mach at 30 m/s, sea level", "U.S. Standard Atmosphere 1976: a0 = 340.294 m/s",
+                      30 / 340.294, val(j, "mach", NULL), 1e-5);
+            CHECK_REL("loads: mass ratio R_m", SRC_TABLE, 0.0412, val(j, "mass_ratio", NULL), 1.5e-3);
+        }
+        json_decref(j);
+    }
+}
+
+static void test_lbf_and_newton(void **state)
+{
+    (void)state;
+    const char *si[] = {"--mass", "5 kg", NULL};
+    const char *us[] = {"--mass", "5 kg", "--units", "us", NULL};
+    json_t *a = run_json(0, si), *b = run_json(0, us);
+    for (size_t r = 0; r < 3; r++)
+        for (size_t c = 1; c <= 3; c++) {
+            char q[96];
+            snprintf(q, sizeof q, "loads: method %zu force column %zu, lbf x 4.4482216152605 = N", r, c);
+            CHECK_REL(q, SRC_NIST, cell(a, "methods", r, c), cell(b, "methods", r, c) * 4.4482216152605, 1e-9);
+        }
+    CHECK_REL("loads: peak force lbf x 4.4482216152605 = N", SRC_NIST, val(a, "peak_force", NULL),
+              val(b, "peak_force", NULL) * 4.4482216152605, 1e-9);
+    json_decref(a);
+    json_decref(b);
+}
+
+static void test_design_and_cluster(void **state)
+{
+    (void)state;
+    const char *extra[] = {"--mass", "5 kg", "--design-factor", "1.5", "--cluster", "3", NULL};
+    json_t *j = run_json(0, extra);
+    double hi = val(j, "peak_force", "high");
+    assert_true(fabs(val(j, "required_strength", NULL) - 1.5 * hi) < 1e-6 * hi);
+    double eq = val(j, "canopy_force_equal", NULL), des = val(j, "canopy_force_design", NULL);
+    assert_true(isfinite(eq) && isfinite(des) && des > eq);
+    assert_true(fabs(val(j, "required_strength_canopy", NULL) - 1.5 * des) < 1e-6 * des);
+    json_decref(j);
+    /* the caution about ratings accompanies the design factor */
+    char *out, *err;
+    assert_int_equal(sr_test_cli(&out, &err, "loads", "--mass", "5 kg", "--speed", "30", "--family", "conical",
+                                 "--nominal-diameter", "1.5 m", "--design-factor", "2", NULL),
+                     0);
+    assert_non_null(strstr(out, "rigger"));
+    assert_non_null(strstr(out, "CAUTION: preliminary engineering estimates only."));
+    free(out);
+    free(err);
+}
+
+static void test_mission(void **state)
+{
+    (void)state;
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "loads", "--mission", sr_test_path(DEMO), "--format", "json", NULL);
+    assert_int_equal(rc, 0);
+    json_error_t je;
+    json_t *j = json_loads(out, 0, &je);
+    assert_non_null(j);
+    json_t *rows = json_object_get(json_object_get(json_object_get(j, "tables"), "stages"), "rows");
+    assert_int_equal(json_array_size(rows), 2);
+    /* the drogue opens at the start state: 12 m/s, level, 2900 m above a 1380 m site (the demo file) */
+    CHECK_ABS("loads --mission: drogue altitude (m)", "demo mission file: 1380 m site + 2900 m start", 4280,
+              cell(j, "stages", 0, 1), 1e-9);
+    CHECK_ABS("loads --mission: drogue speed (m/s)", "demo mission file: start speed 12 m/s", 12,
+              cell(j, "stages", 0, 2), 1e-9);
+    /* every method gives a positive peak at every stage */
+    for (size_t r = 0; r < 2; r++)
+        for (size_t c = 8; c <= 10; c++)
+            assert_true(cell(j, "stages", r, c) > 0);
+    json_decref(j);
+    free(out);
+    free(err);
+
+    rc = sr_test_cli(&out, &err, "loads", "--mission", sr_test_path(DEMO), "--stage", "main", NULL);
+    assert_int_equal(rc, 0);
+    assert_non_null(strstr(out, "Peak opening force by method"));
+    assert_non_null(strstr(out, "main"));
+    free(out);
+    free(err);
+}
+
+static void test_plot_files(void **state)
+{
+    (void)state;
+    char dir[] = "/tmp/sinkrate-loads-XXXXXX";
+    assert_non_null(mkdtemp(dir));
+    char prefix[300], path[320];
+    snprintf(prefix, sizeof prefix, "%s/open", dir);
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "loads", "--mass", "5 kg", "--speed", "30", "--family", "conical",
+                         "--nominal-diameter", "1.5 m", "--plot", prefix, "--plot-format", "svg", NULL);
+    if (rc)
+        print_error("%s\n", err);
+    assert_int_equal(rc, 0);
+    free(out);
+    free(err);
+    struct stat st;
+    snprintf(path, sizeof path, "%s.dat", prefix);
+    assert_int_equal(stat(path, &st), 0);
+    FILE *f = fopen(path, "r");
+    assert_non_null(f);
+    char line[1024];
+    int data = 0, caution = 0;
+    while (fgets(line, sizeof line, f)) {
+        if (line[0] != '#')
+            data++;
+        else if (strstr(line, "CAUTION"))
+            caution = 1;
+    }
+    fclose(f);
+    assert_int_equal(data, 301);
+    assert_true(caution);
+    remove(path);
+    snprintf(path, sizeof path, "%s.gp", prefix);
+    assert_int_equal(stat(path, &st), 0);
+    remove(path);
+    snprintf(path, sizeof path, "%s.svg", prefix);
+    remove(path); /* rendered only when gnuplot is installed */
+    rmdir(dir);
+}
+
+static void test_caution_everywhere(void **state)
+{
+    (void)state;
+    static const char *const FORMATS[] = {"text", "csv", "json"};
+    for (size_t f = 0; f < 3; f++) {
+        char *out, *err;
+        int rc = sr_test_cli(&out, &err, "loads", "--mass", "2 kg", "--speed", "25 m/s", "--family", "cross",
+                             "--nominal-diameter", "1 m", "--format", FORMATS[f], NULL);
+        assert_int_equal(rc, 0);
+        assert_non_null(strstr(out, f == 0 ? "CAUTION: preliminary engineering estimates only."
+                                           : sr_report_caution()));
+        free(out);
+        free(err);
+    }
+    char *out, *err;
+    assert_int_equal(sr_test_cli(&out, &err, "loads", "--help", NULL), 0);
+    assert_non_null(strstr(out, "CAUTION"));
+    assert_non_null(strstr(out, "--path-angle"));
+    free(out);
+    free(err);
+}
+
+static const struct {
+    const char *args[14];
+    const char *expect;
+} BAD[] = {
+    {{"--speed", "30", "--filling-constant", "0"}, "--filling-constant"},
+    {{"--speed", "-5 m/s"}, "--speed"},
+    {{"--speed", "0"}, "--speed"},
+    {{"--speed", "400 m/s"}, "subsonic"},
+    {{"--speed", "800 mph"}, "--speed"},
+    {{"--speed", "30", "--design-factor", "0.5"}, "--design-factor"},
+    {{"--speed", "30", "--growth-exponent", "0"}, "--growth-exponent"},
+    {{"--speed", "30", "--path-angle", "120"}, "--path-angle"},
+    {{"--speed", "30", "--opening-factor", "9"}, "--opening-factor"},
+    {{"--speed", "30", "--cluster-allowance", "0.5"}, "--cluster-allowance"},
+    {{"--speed", "30", "--stage", "main"}, "--stage"},
+    {{"--speed", "30", "--altitude", "90 km"}, "--altitude"},
+    {{NULL}, "--speed"},
+};
+
+static void test_bad_input(void **state)
+{
+    (void)state;
+    for (size_t i = 0; i < sizeof BAD / sizeof BAD[0]; i++) {
+        char *argv[32];
+        int argc = 0;
+        static const char *const BASE[] = {"sinkrate", "loads", "--mass", "5 kg", "--family", "conical",
+                                           "--nominal-diameter", "1.5 m", NULL};
+        for (size_t k = 0; BASE[k]; k++)
+            argv[argc++] = (char *)BASE[k];
+        for (size_t k = 0; k < 14 && BAD[i].args[k]; k++)
+            argv[argc++] = (char *)BAD[i].args[k];
+        argv[argc] = NULL;
+        char *out, *err;
+        int rc = sr_test_cli_argv(&out, &err, argc, argv);
+        if (rc != 2 || !strstr(err, BAD[i].expect) || sr_test_lines(err) != 1)
+            print_error("case %zu: rc %d, stderr '%s'\n", i, rc, err);
+        assert_int_equal(rc, 2);
+        assert_non_null(strstr(err, BAD[i].expect));
+        assert_int_equal(sr_test_lines(err), 1);
+        assert_string_equal(out, "");
+        free(out);
+        free(err);
+    }
+    /* mission-level mistakes */
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "loads", "--mission", sr_test_path(DEMO), "--stage", "reserve", NULL);
+    assert_int_equal(rc, 2);
+    assert_non_null(strstr(err, "no stage 'reserve'"));
+    free(out);
+    free(err);
+    rc = sr_test_cli(&out, &err, "loads", "--mission", sr_test_path(DEMO), "--speed", "20", NULL);
+    assert_int_equal(rc, 2);
+    assert_non_null(strstr(err, "--stage"));
+    free(out);
+    free(err);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_handbook_case), cmocka_unit_test(test_lbf_and_newton),
+        cmocka_unit_test(test_design_and_cluster), cmocka_unit_test(test_mission),
+        cmocka_unit_test(test_plot_files), cmocka_unit_test(test_caution_everywhere),
+        cmocka_unit_test(test_bad_input),
+    };
+    return cmocka_run_group_tests_name("cli_loads", tests, NULL, NULL);
+}
