@@ -79,6 +79,10 @@ validation: check
 demo: $(B)/sinkrate
 	@sh scripts/demo.sh $(B)/sinkrate
 
+# The README's figures from the demo scenario (needs gnuplot): plots/*.png
+plots: $(B)/sinkrate
+	@SINKRATE_DATA=$(CURDIR) sh scripts/plots.sh $(B)/sinkrate
+
 $(B)/bench: bench/bench.c $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
 	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) -o $@ $^ $(LDLIBS_ALL)
 

@@ -11,7 +11,9 @@
 
 #include "atmos.h"
 #include "bluff.h"
+#include "catalog.h"
 #include "opening.h"
+#include "sweep.h"
 
 static double now(void)
 {
@@ -115,6 +117,45 @@ static double per_call_equilibria(const sr_bluff_body *b, const sr_air *air, siz
     return best;
 }
 
+/* The rows of a 100 000-row altitude sweep (rate band, density, q, Mach,
+ * time to the ground), physics only, best of 3: seconds per row. */
+static double per_sweep_row(void)
+{
+    const char *data = getenv("SINKRATE_DATA");
+    char dir[1024];
+    snprintf(dir, sizeof dir, "%s/canopies", data && *data ? data : ".");
+    sr_catalog *cat = malloc(sizeof *cat);
+    sr_sweep_case c;
+    memset(&c, 0, sizeof c);
+    const sr_family *fam;
+    if (!cat || sr_catalog_open(cat, dir, NULL) || !(fam = sr_catalog_find(cat, "conical", NULL)) ||
+        sr_canopy_from_size(&c.canopy, fam, SR_SIZE_NOMINAL_DIAMETER, 2.2, NULL)) {
+        free(cat);
+        return NAN;
+    }
+    c.mass = 5.3;
+    c.altitude = NAN;
+    sr_atmos_init_standard(&c.atmos);
+    size_t n = SR_SWEEP_MAX_ROWS;
+    double *xs = malloc(n * sizeof *xs);
+    sr_sweep_row *rows = malloc(n * sizeof *rows);
+    double best = 1e9;
+    for (size_t i = 0; xs && i < n; i++)
+        xs[i] = 0.5 * (double)i;
+    for (int rep = 0; xs && rows && rep < 3; rep++) {
+        double t0 = now();
+        sr_sweep_run(&c, SR_SWEEP_ALTITUDE, xs, n, rows, NULL, NULL, NULL);
+        double t = (now() - t0) / (double)n;
+        sink = rows[n - 1].t.typ;
+        if (t < best)
+            best = t;
+    }
+    free(xs);
+    free(rows);
+    free(cat);
+    return best;
+}
+
 static double process_time(const char *bin, char *const argv[], int reps)
 {
     double best = 1e9;
@@ -175,6 +216,20 @@ int main(int argc, char **argv)
 
     double t_open = per_opening_solve(2000);
     printf("opening loads, one ODE solve            %7.1f us/solve                 (goal < 50 us)\n\n", t_open * 1e6);
+
+    /* sweep: 100 000 altitude rows (0 .. 49 999.5 m by 0.5 m) as CSV to /dev/null */
+    double t_row = per_sweep_row();
+    char *sweep_argv[] = {(char *)"sinkrate", (char *)"sweep",    (char *)"--mass",   (char *)"5.3kg",
+                          (char *)"--family", (char *)"conical",  (char *)"--nominal-diameter",
+                          (char *)"2.2m",     (char *)"--from",   (char *)"0",        (char *)"--to",
+                          (char *)"49999.5m", (char *)"--step",   (char *)"0.5m",     (char *)"--format",
+                          (char *)"csv",      NULL};
+    double t_sweep = process_time(bin, sweep_argv, 3);
+    printf("sweep, 100 000 altitude rows as CSV     %7.0f rows/s (whole process, %.2f s)\n",
+           (double)SR_SWEEP_MAX_ROWS / t_sweep, t_sweep);
+    printf("sweep rows, physics only                %7.0f rows/s = %.0f%% of the run  (goal: output, not physics, "
+           "is the limit: < 50%%)\n\n",
+           1.0 / t_row, 100.0 * t_row * SR_SWEEP_MAX_ROWS / t_sweep);
 
     char *size_argv[] = {(char *)"sinkrate", (char *)"size",   (char *)"--mass",   (char *)"5.3 kg",
                          (char *)"--speed",  (char *)"6 m/s",  (char *)"--family", (char *)"conical",

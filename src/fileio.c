@@ -9,6 +9,20 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+/* A device or pipe (/dev/null, /dev/stdout, a FIFO) is written in place:
+ * a temporary file renamed over it would replace the device itself. */
+static int write_direct(const char *path, const void *data, size_t len, sr_error *err)
+{
+    FILE *f = fopen(path, "wb");
+    if (!f)
+        return sr_error_set(err, SR_EIO, "%s: cannot write: %s", path, strerror(errno));
+    size_t w = fwrite(data, 1, len, f);
+    int bad = w != len || ferror(f);
+    if (fclose(f) != 0 || bad)
+        return sr_error_set(err, SR_EIO, "%s: write failed: %s", path, strerror(errno));
+    return SR_OK;
+}
+
 int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err)
 {
     if (!path || !*path)
@@ -19,6 +33,8 @@ int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_erro
     struct stat st;
     if (stat(path, &st) == 0 && S_ISDIR(st.st_mode))
         return sr_error_set(err, SR_EIO, "%s: is a directory", path);
+    if (stat(path, &st) == 0 && !S_ISREG(st.st_mode))
+        return write_direct(path, data, len, err);
     char *tmp = malloc(pl + 16);
     if (!tmp)
         return sr_error_set(err, SR_ENOMEM, "out of memory");

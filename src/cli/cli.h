@@ -25,6 +25,8 @@ typedef struct sr_cli {
     const char *data_dir;    /* --data DIR, or NULL to search */
     const char *plot_prefix; /* --plot PREFIX */
     const char *plot_format; /* png | svg */
+    int plot_width;          /* --plot-size WxH in pixels, 0 = the default */
+    int plot_height;
     int threads;             /* --threads N, 0 = all cores */
     unsigned long seed;      /* --seed N */
     int seed_set;

@@ -146,6 +146,16 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
                 return sr_cli_fail(c, "--plot-format: '%s' is not one of png, svg", optarg);
             c->plot_format = optarg;
             break;
+        case OPT_PLOT_SIZE: {
+            int w, h, used = 0;
+            if (sscanf(optarg, "%dx%d%n", &w, &h, &used) != 2 || optarg[used] || w < 200 || h < 150 || w > 10000 ||
+                h > 10000)
+                return sr_cli_fail(c, "--plot-size: '%s' is not WIDTHxHEIGHT in pixels (200x150 .. 10000x10000)",
+                                   optarg);
+            c->plot_width = w;
+            c->plot_height = h;
+            break;
+        }
         case OPT_THREADS: {
             long t;
             int rc = sr_cli_count(c, "--threads", optarg, 0, 256, &t);

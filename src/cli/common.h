@@ -21,6 +21,7 @@ enum {
     /* canopy */
     OPT_FAMILY, OPT_CANOPY, OPT_NOMINAL_DIAMETER, OPT_PROJECTED_DIAMETER, OPT_FLAT_DIAMETER, OPT_NOMINAL_AREA,
     OPT_CLUSTER, OPT_CLUSTER_FACTOR, OPT_AREAL_MASS, OPT_DRAG_COEFFICIENT, OPT_DRAG_REFERENCE,
+    OPT_PLOT_SIZE,
     /* first free code for a command's own options */
     OPT_COMMAND_BASE = 1100
 };
@@ -31,7 +32,8 @@ enum {
         {"help", no_argument, NULL, 'h'}
 
 #define SR_OPTS_PLOT                                                                                          \
-    {"plot", required_argument, NULL, OPT_PLOT}, {"plot-format", required_argument, NULL, OPT_PLOT_FORMAT}
+    {"plot", required_argument, NULL, OPT_PLOT}, {"plot-format", required_argument, NULL, OPT_PLOT_FORMAT},   \
+        {"plot-size", required_argument, NULL, OPT_PLOT_SIZE}
 
 #define SR_OPTS_ATMOS                                                                                         \
     {"temp-offset", required_argument, NULL, OPT_TEMP_OFFSET},                                                \

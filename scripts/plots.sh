@@ -1,0 +1,32 @@
+#!/bin/sh
+# plots.sh - the README's figures from the invented demo scenario, made by
+# `sinkrate sweep --plot` and rendered by gnuplot: scripts and data go to
+# build/plots/, the PNGs to plots/.
+set -eu
+bin=${1:-build/sinkrate}
+mission=payloads/desert-club-rocket.yaml
+out=build/plots
+mkdir -p "$out" plots
+command -v gnuplot >/dev/null 2>&1 || { echo "plots: gnuplot is not on PATH (Debian: gnuplot-nox)"; exit 1; }
+
+fig() {
+  name=$1; shift
+  "$bin" sweep --mission "$mission" --plot "$out/$name" "$@" > "$out/$name.txt"
+  cp "$out/$name.png" "plots/$name.png"
+}
+
+# drogue and main of the demo rocket over its descent, touchdown limit and main deployment marked
+fig descent-vs-altitude --figure rate
+# time to the ground from each altitude under each canopy alone
+fig time-vs-altitude --figure time
+# three candidate mains over payload mass at the hot, high site
+fig rate-vs-mass --vary mass --from 2kg --to 10kg --step 0.1kg \
+  --family conical --nominal-diameter 2.2m --family annular --nominal-diameter 2.0m \
+  --family flat-circular --nominal-diameter 2.4m
+# the nominal diameter each family needs for a target speed, 5.3 kg at the site
+fig diameter-vs-speed --vary speed --from 3m/s --to 10m/s --step 0.05m/s \
+  --family conical --family annular --family flat-circular --family cross
+# the main canopy's touchdown rate on a cold, a standard and a hot day at sites of different elevation
+fig rate-vs-site --vary site-elevation --from 0 --to 3000m --step 50m \
+  --family conical --nominal-diameter 2.2m --by temp-offset=-20C,0C,20C,32C
+echo "plots: wrote $(ls plots/*.png | tr '\n' ' ')"

@@ -1,0 +1,23 @@
+/* cliplot.h - `--plot PREFIX` for every command: write the figure's data and
+ * script next to PREFIX, render it when gnuplot is on PATH, say what happened
+ * on the error stream. */
+#ifndef SR_CLI_PLOT_H
+#define SR_CLI_PLOT_H
+
+#include "cli/cli.h"
+#include "plot.h"
+
+#define SR_PLOT_DEFAULT_WIDTH 1000
+#define SR_PLOT_DEFAULT_HEIGHT 650
+
+/* Help lines for the plot options. */
+extern const char SR_HELP_PLOT[];
+
+/* Write PREFIX.dat and PREFIX.gp (the style from the data directory's
+ * plots/sinkrate.gp), creating PREFIX's directory if needed, then render
+ * PREFIX.png/.svg with gnuplot when it is on PATH, else tell how to. argv is
+ * the command's own argument list, recorded in the script's header. Returns
+ * 0 or an exit code (message printed). */
+int sr_cli_plot(sr_cli *c, const sr_plot *p, int argc, char **argv);
+
+#endif

@@ -1,0 +1,405 @@
+/* test_plot.c - gnuplot data files and scripts: every series kind renders
+ * under the real gnuplot to a PNG of the requested size (PNG header checked
+ * against the PNG specification), a script gnuplot rejects is an error, data
+ * read back equal, hostile text stays text, and a missing style falls back. */
+#define _DEFAULT_SOURCE
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "plot.h"
+#include "report.h"
+#include "testutil.h"
+
+#define PNG_SPEC "PNG specification (W3C REC / ISO/IEC 15948:2004) sec. 5.2 signature, 11.2.2 IHDR"
+
+static char tmpdir[256];
+static char gnuplot[1024];
+
+static int setup(void **state)
+{
+    (void)state;
+    snprintf(tmpdir, sizeof tmpdir, "/tmp/sinkrate-plot-XXXXXX");
+    if (!mkdtemp(tmpdir))
+        return -1;
+    if (!sr_plot_find_gnuplot(gnuplot, sizeof gnuplot)) {
+        fprintf(stderr, "test_plot: gnuplot is not on PATH (Debian package gnuplot-nox)\n");
+        return -1;
+    }
+    return 0;
+}
+
+static int teardown(void **state)
+{
+    (void)state;
+    char cmd[400];
+    snprintf(cmd, sizeof cmd, "rm -rf '%s'", tmpdir);
+    return system(cmd) == 0 ? 0 : -1;
+}
+
+static const char *tpath(const char *name)
+{
+    static char buf[8][512];
+    static int k;
+    char *b = buf[k++ % 8];
+    snprintf(b, 512, "%s/%s", tmpdir, name);
+    return b;
+}
+
+static char *slurp(const char *path, size_t *len)
+{
+    FILE *f = fopen(path, "rb");
+    if (!f)
+        return NULL;
+    fseek(f, 0, SEEK_END);
+    long n = ftell(f);
+    fseek(f, 0, SEEK_SET);
+    char *b = malloc((size_t)n + 1);
+    if (b && fread(b, 1, (size_t)n, f) != (size_t)n) {
+        free(b);
+        b = NULL;
+    }
+    fclose(f);
+    if (b) {
+        b[n] = '\0';
+        if (len)
+            *len = (size_t)n;
+    }
+    return b;
+}
+
+/* Width and height from a PNG's IHDR chunk; 0 when not a PNG. */
+static int png_size(const char *path, unsigned *w, unsigned *h)
+{
+    size_t n = 0;
+    unsigned char *b = (unsigned char *)slurp(path, &n);
+    static const unsigned char SIG[8] = {0x89, 'P', 'N', 'G', 0x0d, 0x0a, 0x1a, 0x0a};
+    int ok = b && n > 24 && memcmp(b, SIG, 8) == 0 && memcmp(b + 12, "IHDR", 4) == 0 && b[8] == 0 && b[9] == 0 &&
+             b[10] == 0 && b[11] == 13;
+    if (ok) {
+        *w = (unsigned)b[16] << 24 | (unsigned)b[17] << 16 | (unsigned)b[18] << 8 | b[19];
+        *h = (unsigned)b[20] << 24 | (unsigned)b[21] << 16 | (unsigned)b[22] << 8 | b[23];
+    }
+    free(b);
+    return ok;
+}
+
+/* A figure with every kind of series, markers and two panels. */
+static sr_plot *full_figure(const char *title)
+{
+    sr_plot *p = sr_plot_new(title);
+    assert_non_null(p);
+    assert_int_equal(sr_plot_subtitle(p, "test figure; shaded: a band"), 0);
+    assert_int_equal(sr_plot_layout(p, 2, 0), 0);
+    sr_plot_axes a;
+    sr_plot_axes_init(&a);
+    a.xlabel = "descent rate [m/s]";
+    a.ylabel = "altitude [m]";
+    a.title = "curves and bands";
+    assert_int_equal(sr_plot_set_axes(p, 0, &a), 0);
+    sr_plot_axes_init(&a);
+    a.xlabel = "east [m]";
+    a.ylabel = "north [m]";
+    a.title = "scatter, ellipses, bars";
+    a.equal = 1;
+    a.key = SR_PLOT_KEY_BOTTOM_LEFT;
+    assert_int_equal(sr_plot_set_axes(p, 1, &a), 0);
+    const char *names[] = {"z_m", "lo", "typ", "hi"};
+    for (int k = 0; k < 2; k++) {
+        size_t b;
+        assert_int_equal(sr_plot_block(p, k ? "second" : "first", 4, names, &b), 0);
+        for (int i = 0; i <= 20; i++) {
+            double z = 150.0 * i, v = (k ? 9.0 : 5.0) * exp(z / 20000.0);
+            double row[4] = {z, 0.95 * v, v, 1.05 * v};
+            assert_int_equal(sr_plot_row(p, b, row), 0);
+        }
+        sr_plot_series band = {.kind = k ? SR_PLOT_BAND : SR_PLOT_BAND_X, .panel = 0, .block = b, .lo = 2, .hi = 4,
+                               .color = k + 1};
+        if (k)
+            band.x = 1;
+        else
+            band.y = 1;
+        assert_int_equal(sr_plot_add(p, &band), 0);
+        sr_plot_series line = {.kind = k ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .panel = 0, .block = b,
+                               .x = k ? 1 : 3, .y = k ? 3 : 1, .color = k + 1, .dash = k,
+                               .title = k ? "second curve" : "first curve"};
+        assert_int_equal(sr_plot_add(p, &line), 0);
+    }
+    assert_int_equal(sr_plot_marker(p, 0, 'x', 6.1, "limit", 0), 0);
+    assert_int_equal(sr_plot_marker(p, 0, 'y', 250.0, "deployment", 1), 0);
+    const char *en[] = {"x", "y", "w", "h", "angle"};
+    size_t eb, pb, hb;
+    assert_int_equal(sr_plot_block(p, "ellipses", 5, en, &eb), 0);
+    double e1[5] = {0, 0, 400, 200, 30}, e3[5] = {0, 0, 1200, 600, 30};
+    sr_plot_row(p, eb, e1);
+    sr_plot_row(p, eb, e3);
+    sr_plot_series es = {.kind = SR_PLOT_ELLIPSES, .panel = 1, .block = eb, .x = 1, .y = 2, .w = 3, .h = 4,
+                         .angle = 5, .title = "ellipses"};
+    assert_int_equal(sr_plot_add(p, &es), 0);
+    const char *pn[] = {"x", "y"};
+    assert_int_equal(sr_plot_block(p, "points", 2, pn, &pb), 0);
+    for (int i = 0; i < 50; i++) {
+        double r[2] = {200.0 * sin(i * 1.3), 100.0 * cos(i * 0.7)};
+        sr_plot_row(p, pb, r);
+    }
+    sr_plot_series ps = {.kind = SR_PLOT_POINTS, .panel = 1, .block = pb, .x = 1, .y = 2, .title = "points"};
+    assert_int_equal(sr_plot_add(p, &ps), 0);
+    const char *hn[] = {"centre", "count", "width"};
+    assert_int_equal(sr_plot_block(p, "histogram", 3, hn, &hb), 0);
+    for (int i = 0; i < 6; i++) {
+        double r[3] = {-500.0 + 200.0 * i, -900.0 + 50.0 * i * (6 - i), 180.0};
+        sr_plot_row(p, hb, r);
+    }
+    sr_plot_series bs = {.kind = SR_PLOT_BOXES, .panel = 1, .block = hb, .x = 1, .y = 2, .w = 3, .title = "bars"};
+    assert_int_equal(sr_plot_add(p, &bs), 0);
+    assert_int_equal(sr_plot_marker(p, 1, 'y', -950.0, NULL, 1), 0);
+    return p;
+}
+
+static void render_png(const char *name, int width, int height)
+{
+    sr_plot *p = full_figure("every kind of series");
+    sr_plot_out o = {.prefix = tpath(name), .style = sr_test_path("plots/sinkrate.gp"), .format = "png",
+                     .width = width, .height = height, .command = "test_plot"};
+    sr_error e;
+    int rc = sr_plot_write(p, &o, &e);
+    if (rc)
+        fail_msg("%s", e.msg);
+    char diag[4096];
+    rc = sr_plot_render(gnuplot, o.prefix, "png", diag, sizeof diag, &e);
+    if (rc)
+        fail_msg("%s", e.msg);
+    /* gnuplot said nothing: no warning about empty data, bad ranges or fonts */
+    if (diag[0])
+        fail_msg("gnuplot warned: %s", diag);
+    char png[600];
+    snprintf(png, sizeof png, "%s.png", o.prefix);
+    unsigned w = 0, h = 0;
+    assert_true(png_size(png, &w, &h));
+    CHECK_ABS("PNG width from IHDR = requested", PNG_SPEC, width, w, 0);
+    CHECK_ABS("PNG height from IHDR = requested", PNG_SPEC, height, h, 0);
+    sr_plot_free(p);
+}
+
+static void test_png_sizes(void **state)
+{
+    (void)state;
+    render_png("full-a", 1000, 650);
+    render_png("full-b", 640, 480);
+}
+
+static void test_svg(void **state)
+{
+    (void)state;
+    sr_plot *p = full_figure("svg");
+    sr_plot_out o = {.prefix = tpath("svg"), .style = sr_test_path("plots/sinkrate.gp"), .format = "svg",
+                     .width = 800, .height = 500};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &o, &e), 0);
+    int rc = sr_plot_render(gnuplot, o.prefix, "svg", NULL, 0, &e);
+    if (rc)
+        fail_msg("%s", e.msg);
+    char *svg = slurp(tpath("svg.svg"), NULL);
+    assert_non_null(svg);
+    assert_non_null(strstr(svg, "<svg"));
+    assert_non_null(strstr(svg, "width=\"800\""));
+    assert_non_null(strstr(svg, "height=\"500\""));
+    /* the caution is on the figure (the footnote's first words) */
+    assert_non_null(strstr(svg, "preliminary engineering estimates"));
+    free(svg);
+    sr_plot_free(p);
+}
+
+static void test_caution_and_data_round_trip(void **state)
+{
+    (void)state;
+    sr_plot *p = sr_plot_new("round trip");
+    const char *n[] = {"a", "b", "c"};
+    size_t b;
+    assert_int_equal(sr_plot_block(p, "numbers", 3, n, &b), 0);
+    double rows[3][3] = {{1.0, -2.5e-7, 123456.789}, {0.1, 3.0e8, -0.0}, {NAN, 42.0, 1.0 / 3.0}};
+    for (int i = 0; i < 3; i++)
+        sr_plot_row(p, b, rows[i]);
+    sr_plot_series s = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 2};
+    assert_int_equal(sr_plot_add(p, &s), 0);
+    sr_plot_out o = {.prefix = tpath("rt"), .style = sr_test_path("plots/sinkrate.gp"), .format = "png",
+                     .width = 400, .height = 300};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &o, &e), 0);
+    char *dat = slurp(tpath("rt.dat"), NULL), *gp = slurp(tpath("rt.gp"), NULL);
+    assert_non_null(dat);
+    assert_non_null(gp);
+    /* the caution's opening words in both files */
+    assert_non_null(strstr(dat, "# CAUTION: preliminary engineering estimates only."));
+    assert_non_null(strstr(gp, "# CAUTION: preliminary engineering estimates only."));
+    assert_non_null(strstr(gp, "caution = 'CAUTION: preliminary"));
+    /* numbers read back to 9 significant digits */
+    int i = 0;
+    for (char *line = strtok(dat, "\n"); line; line = strtok(NULL, "\n")) {
+        if (line[0] == '#')
+            continue;
+        double v[3];
+        char *end = line;
+        for (int c = 0; c < 3; c++)
+            v[c] = strtod(end, &end);
+        for (int c = 0; c < 3; c++) {
+            if (isnan(rows[i][c]))
+                assert_true(isnan(v[c]));
+            else
+                assert_true(fabs(v[c] - rows[i][c]) <= 1e-8 * fabs(rows[i][c]));
+        }
+        i++;
+    }
+    assert_int_equal(i, 3);
+    free(dat);
+    free(gp);
+    sr_plot_free(p);
+}
+
+static void test_rejected_script(void **state)
+{
+    (void)state;
+    sr_plot *p = full_figure("rejected");
+    sr_plot_out o = {.prefix = tpath("bad"), .style = sr_test_path("plots/sinkrate.gp"), .format = "png",
+                     .width = 500, .height = 400};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &o, &e), 0);
+    sr_plot_free(p);
+    /* spoil the script the way a careless edit would */
+    FILE *f = fopen(tpath("bad.gp"), "a");
+    assert_non_null(f);
+    fputs("set xrange [1:\n", f);
+    fclose(f);
+    int rc = sr_plot_render(gnuplot, o.prefix, "png", NULL, 0, &e);
+    assert_int_equal(rc, SR_EIO);
+    assert_non_null(strstr(e.msg, "gnuplot rejected"));
+    assert_non_null(strstr(e.msg, "line"));
+    assert_null(strchr(e.msg, '\n'));
+    /* no figure and no temporary file left behind */
+    char cmd[600];
+    snprintf(cmd, sizeof cmd, "ls '%s' | grep -q 'bad.png'", tmpdir);
+    assert_int_not_equal(system(cmd), 0);
+}
+
+static void test_hostile_text(void **state)
+{
+    (void)state;
+    const char *marker = tpath("pwned");
+    char title[700];
+    snprintf(title, sizeof title, "it's `touch %s` @foo \"q\" \\n back\\slash\nnewline", marker);
+    sr_plot *p = sr_plot_new(title);
+    sr_plot_subtitle(p, title);
+    sr_plot_axes a;
+    sr_plot_axes_init(&a);
+    a.xlabel = title;
+    a.ylabel = "y_{1}^2 & ~x";
+    sr_plot_set_axes(p, 0, &a);
+    const char *n[] = {"x", "y"};
+    size_t b;
+    sr_plot_block(p, title, 2, n, &b);
+    for (int i = 0; i < 5; i++) {
+        double r[2] = {i, i * i};
+        sr_plot_row(p, b, r);
+    }
+    sr_plot_series s = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 2, .title = title};
+    sr_plot_add(p, &s);
+    sr_plot_marker(p, 0, 'y', 3.0, title, 0);
+    sr_plot_out o = {.prefix = tpath("it's a \"prefix\""), .style = sr_test_path("plots/sinkrate.gp"),
+                     .format = "png", .width = 500, .height = 400};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &o, &e), 0);
+    int rc = sr_plot_render(gnuplot, o.prefix, "png", NULL, 0, &e);
+    if (rc)
+        fail_msg("%s", e.msg);
+    assert_int_not_equal(access(marker, F_OK), 0);
+    unsigned w, h;
+    char png[600];
+    snprintf(png, sizeof png, "%s.png", o.prefix);
+    assert_true(png_size(png, &w, &h));
+    sr_plot_free(p);
+}
+
+static void test_missing_style_falls_back(void **state)
+{
+    (void)state;
+    sr_plot *p = full_figure("no style");
+    sr_plot_out o = {.prefix = tpath("nostyle"), .style = "/nonexistent/plots/sinkrate.gp", .format = "png",
+                     .width = 600, .height = 400};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &o, &e), 0);
+    char *gp = slurp(tpath("nostyle.gp"), NULL);
+    assert_non_null(strstr(gp, "set label 100 caution"));
+    free(gp);
+    int rc = sr_plot_render(gnuplot, o.prefix, "png", NULL, 0, &e);
+    if (rc)
+        fail_msg("%s", e.msg);
+    unsigned w, h;
+    assert_true(png_size(tpath("nostyle.png"), &w, &h));
+    assert_int_equal(w, 600);
+    sr_plot_free(p);
+}
+
+static void test_bad_requests(void **state)
+{
+    (void)state;
+    sr_plot *p = sr_plot_new("bad");
+    const char *n[] = {"x", "y"};
+    size_t b;
+    assert_int_equal(sr_plot_block(p, "b", 2, n, &b), 0);
+    sr_plot_series s = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 3};
+    assert_int_equal(sr_plot_add(p, &s), SR_EINVAL); /* no column 3 */
+    s.y = 2;
+    s.block = 7;
+    assert_int_equal(sr_plot_add(p, &s), SR_EINVAL); /* no block 7 */
+    assert_int_equal(sr_plot_marker(p, 0, 'z', 1.0, NULL, 0), SR_EINVAL);
+    assert_int_equal(sr_plot_layout(p, 3, 0), SR_EINVAL);
+    s.block = b;
+    assert_int_equal(sr_plot_add(p, &s), 0);
+    sr_error e;
+    /* a block without rows: nothing to draw */
+    sr_plot_out o = {.prefix = tpath("empty"), .format = "png", .width = 400, .height = 300};
+    assert_int_equal(sr_plot_write(p, &o, &e), SR_EINVAL);
+    assert_non_null(strstr(e.msg, "no data"));
+    double r[2] = {1, 2};
+    sr_plot_row(p, b, r);
+    o.prefix = tpath("no/such/dir/x");
+    assert_int_equal(sr_plot_write(p, &o, &e), SR_EIO);
+    o.prefix = tpath("fmt");
+    o.format = "gif";
+    assert_int_equal(sr_plot_write(p, &o, &e), SR_EINVAL);
+    o.format = "png";
+    o.width = 10;
+    assert_int_equal(sr_plot_write(p, &o, &e), SR_EINVAL);
+    sr_plot_free(p);
+}
+
+static void test_find_gnuplot_follows_path(void **state)
+{
+    (void)state;
+    char *old = strdup(getenv("PATH") ? getenv("PATH") : "");
+    char buf[1024];
+    setenv("PATH", tmpdir, 1);
+    assert_int_equal(sr_plot_find_gnuplot(buf, sizeof buf), 0);
+    setenv("PATH", old, 1);
+    assert_int_equal(sr_plot_find_gnuplot(buf, sizeof buf), 1);
+    assert_non_null(strstr(buf, "gnuplot"));
+    free(old);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_png_sizes),
+        cmocka_unit_test(test_svg),
+        cmocka_unit_test(test_caution_and_data_round_trip),
+        cmocka_unit_test(test_rejected_script),
+        cmocka_unit_test(test_hostile_text),
+        cmocka_unit_test(test_missing_style_falls_back),
+        cmocka_unit_test(test_bad_requests),
+        cmocka_unit_test(test_find_gnuplot_follows_path),
+    };
+    return cmocka_run_group_tests_name("plot", tests, setup, teardown);
+}
