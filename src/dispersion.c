@@ -14,7 +14,7 @@
 #define BLOCK 256
 
 static const char *const LIMIT_NAMES[SR_DISP_NLIMITS] = {"touchdown speed", "landing energy", "descent time",
-                                                         "drift"};
+                                                         "drift", "deployment pressure"};
 
 const char *sr_limit_name(int k)
 {

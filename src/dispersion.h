@@ -20,9 +20,10 @@ enum sr_limit_bit {
     SR_LIMIT_SPEED = 1u << 0,   /* touchdown speed */
     SR_LIMIT_ENERGY = 1u << 1,  /* kinetic energy of a section */
     SR_LIMIT_TIME = 1u << 2,    /* descent time */
-    SR_LIMIT_DRIFT = 1u << 3    /* drift distance from the launch point */
+    SR_LIMIT_DRIFT = 1u << 3,   /* drift distance from the launch point */
+    SR_LIMIT_DEPLOY_Q = 1u << 4 /* dynamic pressure at a deployment */
 };
-#define SR_DISP_NLIMITS 4
+#define SR_DISP_NLIMITS 5
 const char *sr_limit_name(int k); /* "touchdown speed", ... for bit 1u << k */
 
 /* Where and how one body came down. */
