@@ -33,8 +33,9 @@ int sr_scatter_ellipse(double cov_ee, double cov_en, double cov_nn, double k, sr
         return sr_error_set(err, SR_ENUMERIC, "scatter: eigen-decomposition failed: %s", gsl_strerror(st));
     if ((st = gsl_eigen_symmv_sort(&V.vector, &E.matrix, GSL_EIGEN_SORT_VAL_DESC)))
         return sr_error_set(err, SR_ENUMERIC, "scatter: eigen-decomposition failed: %s", gsl_strerror(st));
-    /* rounding can leave a tiny negative eigenvalue for a degenerate scatter */
-    double l1 = val[0] > 0.0 ? val[0] : 0.0, l2 = val[1] > 0.0 ? val[1] : 0.0;
+    /* a collinear scatter leaves rounding noise (|l2| ~ 1e-16 l1, either sign)
+     * for the minor axis: below 1e-12 l1 (axes in a ratio under 1e-6) it is zero */
+    double l1 = val[0] > 0.0 ? val[0] : 0.0, l2 = val[1] > 1e-12 * l1 ? val[1] : 0.0;
     e->major = k * sqrt(l1);
     e->minor = k * sqrt(l2);
     /* the major axis is the first column (east, north); its bearing from north */
