@@ -9,7 +9,7 @@ MANDIR   = $(PREFIX)/share/man/man1
 
 CC      ?= cc
 CSTD     = -std=c11 -D_POSIX_C_SOURCE=200809L
-WARN     = -Wall -Wextra -Werror -Wno-unused-parameter -Wno-format-truncation
+WARN     = -Wall -Wextra -Werror -Wno-unused-parameter -Wno-format-truncation -Wno-unknown-warning-option
 OPT     ?= -O2 -g
 PKGS     = yaml-0.1 gsl jansson
 PKG_CFLAGS := $(shell pkg-config --cflags $(PKGS) 2>/dev/null)

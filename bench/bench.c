@@ -1,6 +1,7 @@
 /* bench.c - `make bench`: speed figures as ratios measured in one run.
  * Not a test: it prints, it never fails on a number. */
 #define _DEFAULT_SOURCE
+#include <gsl/gsl_errno.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -12,7 +13,11 @@
 #include "atmos.h"
 #include "bluff.h"
 #include "catalog.h"
+#include "dispersion.h"
+#include "dispersion_mission.h"
+#include "mission.h"
 #include "opening.h"
+#include "profile.h"
 #include "sweep.h"
 
 static double now(void)
@@ -117,6 +122,76 @@ static double per_call_equilibria(const sr_bluff_body *b, const sr_air *air, siz
     return best;
 }
 
+/* The staged descent of the demo mission: context build, one full profile
+ * (ODE transients, quadrature stages, opening loads), one fast profile, and
+ * perturbed fast samples; best of 5 runs each. */
+static void bench_profile(void)
+{
+    const char *data = getenv("SINKRATE_DATA");
+    char dir[1024], path[1024];
+    snprintf(dir, sizeof dir, "%s/canopies", data ? data : ".");
+    snprintf(path, sizeof path, "%s/payloads/desert-club-rocket.yaml", data ? data : ".");
+    sr_catalog *cat = malloc(sizeof *cat);
+    sr_mission *m = calloc(1, sizeof *m);
+    sr_error e;
+    if (!cat || !m || sr_catalog_open(cat, dir, &e) || sr_mission_load(m, path, cat, &e)) {
+        printf("staged descent: cannot load the demo mission (%s)\n\n", cat && m ? e.msg : "out of memory");
+        free(cat);
+        free(m);
+        return;
+    }
+    sr_profile_ctx *ctx = NULL;
+    sr_profile_work *w = NULL;
+    double best_ctx = 1e9;
+    for (int rep = 0; rep < 5; rep++) {
+        double t0 = now();
+        sr_profile_ctx_free(ctx);
+        if (sr_profile_ctx_new(&ctx, m, NULL, &e)) {
+            printf("staged descent: %s\n\n", e.msg);
+            return;
+        }
+        best_ctx = fmin(best_ctx, now() - t0);
+    }
+    sr_profile_work_new(&w, &e);
+    sr_profile_result r;
+    double best[3] = {1e9, 1e9, 1e9};
+    size_t reps[3] = {400, 200000, 200000};
+    for (int mode = 0; mode < 3; mode++) {
+        for (int rep = 0; rep < 5; rep++) {
+            double s = 0, t0 = now();
+            for (size_t i = 0; i < reps[mode]; i++) {
+                sr_profile_perturb p;
+                sr_profile_perturb_init(&p);
+                if (mode == 2) {
+                    /* a dispersion-like sample: every input moved */
+                    double u = (double)(i % 1000) / 1000.0;
+                    p.drag_scale[0] = 0.9 + 0.2 * u;
+                    p.drag_scale[1] = 1.1 - 0.2 * u;
+                    p.mass_scale = 0.97 + 0.06 * u;
+                    p.wind_scale = 0.7 + 0.6 * u;
+                    p.wind_turn = -0.3 + 0.6 * u;
+                    p.deploy_height[1] = -20 + 40 * u;
+                }
+                sr_profile_run(ctx, &p, mode == 0 ? SR_PROFILE_FULL : SR_PROFILE_FAST, w, &r, NULL, NULL);
+                s += r.descent_time;
+            }
+            sink = s;
+            best[mode] = fmin(best[mode], (now() - t0) / (double)reps[mode]);
+        }
+    }
+    printf("staged descent, demo mission: context   %7.1f us/build  (air and wind tables, nominal transients)\n",
+           best_ctx * 1e6);
+    printf("staged descent, full (ODE transients)   %7.1f us/profile               (goal < 1 ms)\n", best[0] * 1e6);
+    printf("staged descent, fast (quadrature only)  %7.2f us/profile               (goal < 20 us)\n", best[1] * 1e6);
+    printf("staged descent, fast, perturbed sample  %7.2f us/sample  = %.0f samples/s on one thread\n\n",
+           best[2] * 1e6, 1.0 / best[2]);
+    sr_profile_work_free(w);
+    sr_profile_ctx_free(ctx);
+    sr_mission_free(m);
+    free(m);
+    free(cat);
+}
+
 /* The rows of a 100 000-row altitude sweep (rate band, density, q, Mach,
  * time to the ground), physics only, best of 3: seconds per row. */
 static double per_sweep_row(void)
@@ -154,6 +229,85 @@ static double per_sweep_row(void)
     free(rows);
     free(cat);
     return best;
+}
+
+/* Monte Carlo dispersion of the demo mission (two stages), fast path, with a
+ * full set of deviations; once with its power-law wind and once with a
+ * 12-row wind table in its place. Samples per second at 1 and 2 threads,
+ * best of 3 runs each, and the ratio. */
+static double disp_rate(const sr_disp_mission *dm, const sr_uncertainty *u, size_t n, int threads)
+{
+    double best = 1e9;
+    for (int rep = 0; rep < 3; rep++) {
+        sr_disp_options o = {.n = n, .seed = 1, .threads = threads};
+        sr_disp_result res;
+        double t0 = now();
+        if (sr_disp_run(&dm->model, u, &o, &res, NULL))
+            return NAN;
+        double t = now() - t0;
+        sink = res.land[n - 1].east;
+        sr_disp_result_free(&res);
+        if (t < best)
+            best = t;
+    }
+    return (double)n / best;
+}
+
+static void bench_dispersion(void)
+{
+    gsl_set_error_handler_off();
+    const char *data = getenv("SINKRATE_DATA");
+    char dir[1024], path[1024];
+    snprintf(dir, sizeof dir, "%s/canopies", data ? data : ".");
+    snprintf(path, sizeof path, "%s/payloads/desert-club-rocket.yaml", data ? data : ".");
+    sr_catalog *cat = malloc(sizeof *cat);
+    sr_mission *m = calloc(1, sizeof *m);
+    sr_error e;
+    if (!cat || !m || sr_catalog_open(cat, dir, &e) || sr_mission_load(m, path, cat, &e)) {
+        printf("dispersion: cannot load the demo mission (%s)\n\n", cat && m ? e.msg : "out of memory");
+        free(cat);
+        free(m);
+        return;
+    }
+    /* every kind of deviation at once (drag stays the family range) */
+    sr_uncertainty *u = &m->unc;
+    u->mass = (sr_dist){.kind = SR_DIST_NORMAL, .sigma = 0.02, .relative = 1};
+    u->wind_speed = (sr_dist){.kind = SR_DIST_NORMAL, .sigma = 1.5};
+    u->wind_dir = (sr_dist){.kind = SR_DIST_NORMAL, .sigma = 15.0 * 3.14159265358979 / 180.0};
+    u->start_height = (sr_dist){.kind = SR_DIST_NORMAL, .sigma = 60.0};
+    u->deploy_height = (sr_dist){.kind = SR_DIST_UNIFORM, .lo = -10.0, .hi = 10.0};
+    const size_t n = 40000;
+    for (int variant = 0; variant < 2; variant++) {
+        if (variant == 1) {
+            /* an invented 12-row wind table from the ground to 4 km */
+            double h[12], v[12], from[12];
+            for (int i = 0; i < 12; i++) {
+                h[i] = i == 0 ? 0.0 : 10.0 * pow(400.0, (double)i / 11.0);
+                v[i] = 3.0 + 1.5 * (double)i;
+                from[i] = (240.0 + 3.0 * i) * 3.14159265358979 / 180.0;
+            }
+            sr_wind_free(&m->wind);
+            if (sr_wind_init_table(&m->wind, h, v, from, 12, &e)) {
+                printf("dispersion: %s\n", e.msg);
+                break;
+            }
+        }
+        sr_disp_mission dm;
+        if (sr_disp_mission_init(&dm, m, NULL, 0, &e)) {
+            printf("dispersion: %s\n", e.msg);
+            break;
+        }
+        double r1 = disp_rate(&dm, u, n, 1), r2 = disp_rate(&dm, u, n, 2);
+        const char *what = variant ? "demo mission, 12-row wind table" : "demo mission, power-law wind";
+        printf("dispersion, %-32s %9.0f samples/s at 1 thread, %9.0f at 2  (goal >= 200000 at 2)\n", what, r1,
+               r2);
+        printf("dispersion, %-32s 2 threads / 1 = %.2fx                        (goal >= 1.8x)\n", what, r2 / r1);
+        sr_disp_mission_free(&dm);
+    }
+    printf("\n");
+    sr_mission_free(m);
+    free(m);
+    free(cat);
 }
 
 static double process_time(const char *bin, char *const argv[], int reps)
@@ -217,6 +371,8 @@ int main(int argc, char **argv)
     double t_open = per_opening_solve(2000);
     printf("opening loads, one ODE solve            %7.1f us/solve                 (goal < 50 us)\n\n", t_open * 1e6);
 
+    bench_profile();
+    bench_dispersion();
     /* sweep: 100 000 altitude rows (0 .. 49 999.5 m by 0.5 m) as CSV to /dev/null */
     double t_row = per_sweep_row();
     char *sweep_argv[] = {(char *)"sinkrate", (char *)"sweep",    (char *)"--mass",   (char *)"5.3kg",

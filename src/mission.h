@@ -11,6 +11,7 @@
 #include "canopy.h"
 #include "catalog.h"
 #include "error.h"
+#include "wind.h"
 #include "uncertainty.h"
 
 #define SR_MISSION_MAX_SECTIONS 8
@@ -18,22 +19,34 @@
 #define SR_NAME_MAX 64
 
 typedef enum sr_deploy_kind {
-    SR_DEPLOY_APOGEE = 0,   /* at the first-deployment state (apogee or release) */
+    SR_DEPLOY_APOGEE = 0,   /* at the start state (apogee or release); written `apogee` or `release` */
     SR_DEPLOY_ALTITUDE,     /* at a height above ground */
     SR_DEPLOY_DELAY         /* a time after the previous event */
 } sr_deploy_kind;
+
+/* Sections as a bit set: bit i is sections[i]. */
+typedef unsigned sr_section_set;
 
 typedef struct sr_stage {
     char name[SR_NAME_MAX];
     sr_canopy canopy;
     int has_size;            /* 0: no size in the file (size --mission sizes it) */
     sr_deploy_kind deploy;
-    double deploy_value;     /* m above ground, or s after the previous event */
+    double deploy_value;     /* m above ground, or s after the previous deployment on the same sections */
+    sr_section_set carries;  /* sections hanging under this canopy from its deployment on (`carries:`;
+                              * default: those of the stage before, all for the first). Fewer than the
+                              * body it deploys on: those sections separate and land on their own. */
+    int keep_previous;       /* `previous: keep` (default): canopies already open on these sections keep
+                              * their drag; `release`: they are cut away at this deployment */
+    double line_stretch;     /* s from the deployment event to line stretch (bag strip), default 0 */
 } sr_stage;
 
 typedef struct sr_section {
     char name[SR_NAME_MAX];
     double mass;             /* kg */
+    double drag_area;        /* m2, the section's own drag area CdA (0: neglected) */
+    int rigid_with;          /* index of the section it lands as one piece with (`rigid-with:`), -1 none;
+                              * tethered sections (the default) each land with their own energy */
 } sr_section;
 
 typedef struct sr_mission {
@@ -41,6 +54,7 @@ typedef struct sr_mission {
     char path[512];
     sr_atmos atmos;          /* site weather: standard, site model or sounding */
     double ground;           /* site elevation above mean sea level, m */
+    sr_wind wind;            /* site.wind; calm when absent */
     size_t nsections;
     sr_section sections[SR_MISSION_MAX_SECTIONS];
     size_t nstages;
@@ -49,11 +63,15 @@ typedef struct sr_mission {
     double start_height;     /* first deployment: height above ground, m */
     double start_speed;      /* m/s */
     double start_path_angle; /* rad, below horizontal positive */
+    double start_heading;    /* rad, bearing of the horizontal motion; NaN: into the wind (north when calm) */
+    double start_east;       /* m, position of the start east of the launch / release point on the ground */
+    double start_north;      /* m, ... and north of it */
     /* landing limits, NaN when not set */
     double limit_speed;      /* touchdown speed, m/s */
     double limit_energy;     /* kinetic energy per section, J */
     double limit_time;       /* descent time, s */
     double limit_drift;      /* drift distance, m */
+    double limit_deploy_q;   /* dynamic pressure at any deployment, Pa */
     sr_uncertainty unc;      /* what a dispersion run varies (mission_uncertainty.c) */
 } sr_mission;
 
@@ -65,5 +83,18 @@ void sr_mission_free(sr_mission *m);
 
 /* Total mass of all sections, kg. */
 double sr_mission_total_mass(const sr_mission *m);
+
+/* Mass of a set of sections, kg. */
+double sr_mission_mass_of(const sr_mission *m, sr_section_set s);
+
+/* "booster + payload bay" for a set of sections. */
+void sr_mission_set_name(const sr_mission *m, sr_section_set s, char *buf, size_t len);
+
+/* The site.wind block (mission_wind.c): model, speed, direction, heights;
+ * a table from CSV or inline rows. `ground` converts table altitudes. */
+int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_error *err);
+
+/* Resolve a file name given inside a mission file relative to it. */
+void sr_mission_relative_path(char *out, size_t len, const char *mission_path, const char *file);
 
 #endif

@@ -514,6 +514,12 @@ static void write_range(FILE *f, const sr_plot *p, int panel, char axis, double 
         for (size_t i = 0; i < p->nmarkers; i++)
             if (p->markers[i].panel == panel && p->markers[i].axis == axis)
                 grow(&dlo, &dhi, p->markers[i].value);
+        if (isfinite(dlo) && dhi == dlo) {
+            /* one value: a small span around it rather than an empty range */
+            double pad = dlo != 0.0 ? 0.05 * fabs(dlo) : 1.0;
+            dlo -= pad;
+            dhi += pad;
+        }
         if (isfinite(dlo) && dhi > dlo) {
             if (isnan(lo))
                 lo = dlo;
@@ -521,7 +527,8 @@ static void write_range(FILE *f, const sr_plot *p, int panel, char axis, double 
                 hi = dhi;
         }
     }
-    /* autoscaled ends stretch to include every marker on this axis */
+    /* autoscaled ends stretch to include every marker on this axis, and the
+     * whole of every ellipse (gnuplot autoscales on their centres only) */
     double mlo = INFINITY, mhi = -INFINITY;
     for (size_t i = 0; i < p->nmarkers; i++)
         if (p->markers[i].panel == panel && p->markers[i].axis == axis) {
@@ -530,6 +537,19 @@ static void write_range(FILE *f, const sr_plot *p, int panel, char axis, double 
             if (p->markers[i].value > mhi)
                 mhi = p->markers[i].value;
         }
+    for (size_t i = 0; i < p->nseries; i++) {
+        const sr_plot_series *s = &p->series[i].s;
+        if (s->panel != panel || s->kind != SR_PLOT_ELLIPSES)
+            continue;
+        const pblock *b = &p->blocks[s->block];
+        for (size_t r = 0; r < b->nrows; r++) {
+            const double *row = b->v + r * b->ncols;
+            double c = row[(axis == 'x' ? s->x : s->y) - 1];
+            double half = 0.5 * fmax(fabs(row[s->w - 1]), fabs(row[s->h - 1]));
+            grow(&mlo, &mhi, c - half);
+            grow(&mlo, &mhi, c + half);
+        }
+    }
     fprintf(f, "set %crange [", axis);
     if (!isnan(lo))
         gpnum(f, lo);
@@ -579,13 +599,19 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
         fputs("set bmargin at screen sr_b\nset tmargin at screen sr_t\n", f);
     } else {
         fputs("set lmargin at screen sr_l\nset rmargin at screen sr_r\n", f);
-        fprintf(f, "sr_h = (sr_t - sr_b - sr_gap * 1.0 / height) / 2\n");
-        fprintf(f, "set tmargin at screen sr_t - %d * (sr_h + sr_gap * 1.0 / height)\n", panel);
-        fprintf(f, "set bmargin at screen sr_t - %d * (sr_h + sr_gap * 1.0 / height) - sr_h\n", panel);
+        fprintf(f, "sr_h = (sr_t - sr_b - sr_vgap * 1.0 / height) / 2\n");
+        fprintf(f, "set tmargin at screen sr_t - %d * (sr_h + sr_vgap * 1.0 / height)\n", panel);
+        fprintf(f, "set bmargin at screen sr_t - %d * (sr_h + sr_vgap * 1.0 / height) - sr_h\n", panel);
     }
+    /* any panel with labels on vertical marker lines lifts every panel title, so they stay level */
+    int vlabel = 0;
+    for (size_t i = 0; i < p->nmarkers; i++)
+        if (p->markers[i].axis == 'x' && p->markers[i].label)
+            vlabel = 1;
     fputs("set title ", f);
     gpq(f, a->title ? a->title : "");
-    fputs(" noenhanced\nset xlabel ", f);
+    /* above the labels of vertical marker lines, which sit on the frame */
+    fputs(vlabel ? " noenhanced offset 0,1.0\nset xlabel " : " noenhanced offset 0,0\nset xlabel ", f);
     gpq(f, a->xlabel ? a->xlabel : "");
     fputs(" noenhanced\nset ylabel ", f);
     gpq(f, a->ylabel ? a->ylabel : "");
@@ -892,7 +918,10 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
         if (p->markers[i].axis == 'x' && p->markers[i].label)
             vlabels = 1;
     if (vlabels)
-        fputs("sr_mt = sr_mt + 18   # room for the labels of vertical marker lines, above the frame\n", f);
+        fputs("sr_mt = sr_mt + 24   # room for the labels of vertical marker lines, above the frame\n", f);
+    if (p->panels > 1 && p->stacked)
+        fprintf(f, "sr_vgap = sr_gap + 40 + %d   # stacked: the upper x label and the lower title between\n",
+                (titled ? 26 : 0) + (vlabels ? 24 : 0));
     fputs("sr_l = sr_ml * 1.0 / width; sr_r = 1 - sr_mr * 1.0 / width\n"
           "sr_b = sr_mb * 1.0 / height; sr_t = 1 - sr_mt * 1.0 / height\n",
           f);

@@ -485,14 +485,13 @@ static void csv_cell(FILE *f, const char *s, int first)
     csv_fwrite(f, s, strlen(s));
 }
 
+/* Numbers never hold a comma, quote or line break, so they need no quoting. */
 static void csv_num(FILE *f, double x, int first)
 {
-    char buf[64];
-    if (isnan(x))
-        buf[0] = '\0';
-    else
-        snprintf(buf, sizeof buf, "%.10g", x);
-    csv_cell(f, buf, first);
+    if (!first)
+        fputc(',', f);
+    if (!isnan(x))
+        fprintf(f, "%.10g", x);
 }
 
 static void csv_comment(FILE *f, const char *text)

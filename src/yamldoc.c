@@ -2,6 +2,8 @@
  * strict schema helpers every YAML reader in sinkrate uses. */
 #include "yamldoc.h"
 
+#include "fileio.h"
+
 #include <errno.h>
 #include <stdarg.h>
 #include <stdio.h>
@@ -110,22 +112,14 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
 int sr_yaml_load_file(sr_yaml *y, const char *path, sr_error *err)
 {
     memset(y, 0, sizeof *y);
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return sr_error_set(err, SR_EIO, "%s: cannot open: %s", path, strerror(errno));
-    char *buf = malloc(SR_YAML_MAX_BYTES + 1);
-    if (!buf) {
-        fclose(f);
-        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", path);
-    }
-    size_t len = fread(buf, 1, SR_YAML_MAX_BYTES + 1, f);
-    int bad = ferror(f);
-    fclose(f);
-    if (bad) {
-        free(buf);
-        return sr_error_set(err, SR_EIO, "%s: read error (is it a directory?)", path);
-    }
-    int rc = sr_yaml_load_string(y, path, buf, len, err);
+    char *buf;
+    size_t len;
+    int rc = sr_file_read(path, SR_YAML_MAX_BYTES, &buf, &len, err);
+    if (rc == SR_EINVAL)
+        return sr_error_set(err, SR_EINVAL, "%s: larger than 1 MiB; not a sinkrate file", path);
+    if (rc)
+        return rc;
+    rc = sr_yaml_load_string(y, path, buf, len, err);
     free(buf);
     return rc;
 }

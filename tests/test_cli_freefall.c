@@ -175,8 +175,8 @@ static void test_units_and_csv(void **state)
     assert_int_equal(run(&out, &err, c), 0);
     assert_non_null(strstr(out, "# CAUTION"));
     assert_non_null(strstr(out, "\"altitude [m]\",\"density [kg/m3]\",\"number\",\"speed [m/s]\""));
-    assert_non_null(strstr(out, "\"10000\","));
-    assert_non_null(strstr(out, "\"5000\","));
+    assert_non_null(strstr(out, "\n10000,"));
+    assert_non_null(strstr(out, "\n5000,"));
     assert_non_null(strstr(out, "projected area d x L"));
     free(out);
     free(err);

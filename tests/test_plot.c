@@ -179,8 +179,11 @@ static void render_png(const char *name, int width, int height)
     snprintf(png, sizeof png, "%s.png", o.prefix);
     unsigned w = 0, h = 0;
     assert_true(png_size(png, &w, &h));
-    CHECK_ABS("PNG width from IHDR = requested", PNG_SPEC, width, w, 0);
-    CHECK_ABS("PNG height from IHDR = requested", PNG_SPEC, height, h, 0);
+    char q[128];
+    snprintf(q, sizeof q, "PNG width from IHDR, figure of %dx%d px", width, height);
+    CHECK_ABS(q, PNG_SPEC, width, w, 0);
+    snprintf(q, sizeof q, "PNG height from IHDR, figure of %dx%d px", width, height);
+    CHECK_ABS(q, PNG_SPEC, height, h, 0);
     sr_plot_free(p);
 }
 
@@ -189,6 +192,61 @@ static void test_png_sizes(void **state)
     (void)state;
     render_png("full-a", 1000, 650);
     render_png("full-b", 640, 480);
+}
+
+/* Two panels one above the other, bands drawn as dotted edges, a legend strip. */
+static void test_stacked_outlined(void **state)
+{
+    (void)state;
+    sr_plot *p = sr_plot_new("stacked");
+    assert_int_equal(sr_plot_layout(p, 2, 1), 0);
+    sr_plot_axes a;
+    for (int k = 0; k < 2; k++) {
+        sr_plot_axes_init(&a);
+        a.xlabel = "x [m]";
+        a.ylabel = k ? "second [s]" : "first [m/s]";
+        a.key = SR_PLOT_KEY_ABOVE;
+        a.xtight = 1;
+        assert_int_equal(sr_plot_set_axes(p, k, &a), 0);
+    }
+    const char *n[] = {"x", "lo", "typ", "hi"};
+    for (int c = 0; c < 5; c++) {
+        size_t b;
+        sr_plot_block(p, "curve", 4, n, &b);
+        for (int i = 0; i < 30; i++) {
+            double y = (c + 1) * sqrt(i + 1.0), r[4] = {i, 0.9 * y, y, 1.1 * y};
+            sr_plot_row(p, b, r);
+        }
+        for (int k = 0; k < 2; k++) {
+            sr_plot_series band = {.kind = k ? SR_PLOT_BAND_X : SR_PLOT_BAND, .panel = k, .block = b,
+                                   .x = k ? 0 : 1, .y = k ? 1 : 0, .lo = 2, .hi = 4, .color = c + 1, .outline = 1};
+            assert_int_equal(sr_plot_add(p, &band), 0);
+            char title[32];
+            snprintf(title, sizeof title, "curve %d", c + 1);
+            sr_plot_series line = {.kind = SR_PLOT_LINES, .panel = k, .block = b, .x = k ? 3 : 1, .y = k ? 1 : 3,
+                                   .color = c + 1, .title = k ? NULL : title};
+            assert_int_equal(sr_plot_add(p, &line), 0);
+        }
+    }
+    sr_plot_out o = {.prefix = tpath("stacked"), .style = sr_test_path("plots/sinkrate.gp"), .format = "png",
+                     .width = 700, .height = 900};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &o, &e), 0);
+    char diag[2048];
+    int rc = sr_plot_render(gnuplot, o.prefix, "png", diag, sizeof diag, &e);
+    if (rc)
+        fail_msg("%s", e.msg);
+    if (diag[0])
+        fail_msg("gnuplot warned: %s", diag);
+    unsigned w, h;
+    assert_true(png_size(tpath("stacked.png"), &w, &h));
+    assert_int_equal(w, 700);
+    assert_int_equal(h, 900);
+    /* outlined bands need no outline polygon blocks: five curve blocks only */
+    char *dat = slurp(tpath("stacked.dat"), NULL);
+    assert_null(strstr(dat, "outline of the band"));
+    free(dat);
+    sr_plot_free(p);
 }
 
 static void test_svg(void **state)
@@ -393,6 +451,7 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_png_sizes),
+        cmocka_unit_test(test_stacked_outlined),
         cmocka_unit_test(test_svg),
         cmocka_unit_test(test_caution_and_data_round_trip),
         cmocka_unit_test(test_rejected_script),

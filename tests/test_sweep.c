@@ -597,8 +597,11 @@ static void figure(const char *name, const char *const *args)
     snprintf(png, sizeof png, "%s.png", prefix);
     unsigned w = 0, h = 0;
     assert_true(png_size(png, &w, &h));
-    CHECK_ABS("sweep figure PNG width = --plot-size", PNG_SPEC, 800, w, 0);
-    CHECK_ABS("sweep figure PNG height = --plot-size", PNG_SPEC, 500, h, 0);
+    char q[128];
+    snprintf(q, sizeof q, "PNG width of the '%s' sweep figure (--plot-size 800x500)", name);
+    CHECK_ABS(q, PNG_SPEC, 800, w, 0);
+    snprintf(q, sizeof q, "PNG height of the '%s' sweep figure (--plot-size 800x500)", name);
+    CHECK_ABS(q, PNG_SPEC, 500, h, 0);
     free(out);
     free(err);
 }
@@ -624,7 +627,8 @@ static void test_figures_render(void **state)
                           "5kg", "--family", "conical", "--nominal-diameter", "2m", "--temp-offset", "20C", NULL};
     figure("site", site);
     const char *speed[] = {"--vary", "speed", "--from", "3m/s", "--to", "9m/s", "--step", "0.25m/s", "--mass", "5.3kg",
-                           "--family", "conical", "--family", "annular", "--mark-speed", "6.1m/s", NULL};
+                           "--family", "conical", "--family", "annular", "--family", "cross", "--family",
+                           "flat-circular", "--mark-speed", "6.1m/s", NULL}; /* four curves: outlined bands */
     figure("speed", speed);
     const char *temp[] = {"--vary", "temp-offset", "--from", "-30C", "--to", "40C", "--step", "5C", "--mass", "5.3kg",
                           "--family", "conical", "--nominal-diameter", "2.2m", "--altitude", "1400m", NULL};

@@ -645,23 +645,9 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
     if ((rc = sr_cli_catalog(c, &cat)))
         goto out;
     if (o.mission) {
-        mis = calloc(1, sizeof *mis);
-        if (!mis || sr_mission_load(mis, o.mission, cat, &e)) {
-            rc = mis ? sr_cli_fail(c, "--mission: %s", e.msg) : sr_cli_fail(c, "out of memory");
-            free(mis);
-            mis = NULL;
+        if ((rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
             goto out;
-        }
         mass = sr_mission_total_mass(mis);
-        ground = mis->ground;
-        if (o.atmos.temp_offset || o.atmos.site_elevation || o.atmos.surface_temp || o.atmos.surface_pressure ||
-            o.atmos.sounding) {
-            if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
-                goto out;
-        } else {
-            atm = mis->atmos;
-            memset(&mis->atmos, 0, sizeof mis->atmos);
-        }
     } else {
         if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
             goto out;
@@ -771,10 +757,7 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
 out:
     sr_report_free(r);
     sr_atmos_free(&atm);
-    if (mis) {
-        sr_mission_free(mis);
-        free(mis);
-    }
+    sr_cli_mission_free(mis);
     free(ds);
     free(cat);
     return rc;

@@ -80,29 +80,15 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
     if ((rc = sr_cli_catalog(c, &cat)))
         goto out;
     if (o.mission) {
-        mis = calloc(1, sizeof *mis);
-        if (!mis || sr_mission_load(mis, o.mission, cat, &e)) {
-            rc = mis ? sr_cli_fail(c, "--mission: %s", e.msg) : sr_cli_fail(c, "out of memory");
-            free(mis);
-            mis = NULL;
+        if ((rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
             goto out;
-        }
         mass = sr_mission_total_mass(mis);
-        ground = mis->ground;
         const sr_stage *last = &mis->stages[mis->nstages - 1];
         cp = last->canopy;
         if (!last->has_size && !sr_cli_canopy_given(&o.canopy)) {
             rc = sr_cli_fail(c, "--mission: stage '%s' has no size; give one in the file, or run `sinkrate size "
                                 "--mission` first", last->name);
             goto out;
-        }
-        if (o.atmos.temp_offset || o.atmos.site_elevation || o.atmos.surface_temp || o.atmos.surface_pressure ||
-            o.atmos.sounding) {
-            if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
-                goto out;
-        } else {
-            atm = mis->atmos;
-            memset(&mis->atmos, 0, sizeof mis->atmos);
         }
     } else if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground))) {
         goto out;
@@ -202,10 +188,7 @@ out:
     free(alt);
     sr_report_free(r);
     sr_atmos_free(&atm);
-    if (mis) {
-        sr_mission_free(mis);
-        free(mis);
-    }
+    sr_cli_mission_free(mis);
     free(cat);
     return rc;
 }

@@ -307,27 +307,14 @@ static int load_case(run *R)
     int rc;
     if ((rc = sr_cli_catalog(c, &R->cat)))
         return rc;
-    int atmos_given = o->atmos.temp_offset || o->atmos.site_elevation || o->atmos.surface_temp ||
-                      o->atmos.surface_pressure || o->atmos.sounding;
     R->mass = NAN;
     if (o->mission) {
-        R->mis = calloc(1, sizeof *R->mis);
-        if (!R->mis)
-            return sr_cli_fail(c, "out of memory");
-        if (sr_mission_load(R->mis, o->mission, R->cat, &e)) {
-            free(R->mis);
-            R->mis = NULL;
-            return sr_cli_fail(c, "--mission: %s", e.msg);
-        }
+        if ((rc = sr_cli_mission(c, o->mission, R->cat, &o->atmos, &R->mis, &R->atm, &R->ground)))
+            return rc;
         R->mass = sr_mission_total_mass(R->mis);
-        R->ground = R->mis->ground;
-        if (!atmos_given) {
-            R->atm = R->mis->atmos;
-            memset(&R->mis->atmos, 0, sizeof R->mis->atmos); /* ownership moves to R->atm */
-        }
-    }
-    if ((!o->mission || atmos_given) && (rc = sr_cli_atmos(c, &o->atmos, &R->atm, &R->ground)))
+    } else if ((rc = sr_cli_atmos(c, &o->atmos, &R->atm, &R->ground))) {
         return rc;
+    }
     int sized_by_sweep = uses(R, SR_SWEEP_DIAMETER) || R->var == SR_SWEEP_SPEED;
     if (o->ncanopy > 0) {
         for (int i = 0; i < o->ncanopy; i++) {
@@ -578,7 +565,7 @@ static int compute(run *R)
         }
     }
     if (tty)
-        fprintf(c->err, "\rsinkrate sweep: %zu rows computed%*s\n", total, 12, "");
+        fprintf(c->err, "\rsinkrate sweep: %zu rows computed; writing them%*s\n", total, 8, "");
     return 0;
 }
 
@@ -902,6 +889,7 @@ static int figure(run *R, int argc, char **argv)
     int rc = 0;
     for (size_t k = 0; k < R->ncurves && !rc; k++) {
         int outline = R->ncurves >= OUTLINE_CURVES;
+        int few = R->nx <= 12; /* few values: show them as points on the lines */
         const curve *cv = &R->curves[k];
         char xname[48], n2[48], n3[48], n4[48], n5[48], n6[48], n7[48];
         snprintf(xname, sizeof xname, "%s[%s]", X_KEY[R->var], ux);
@@ -934,14 +922,14 @@ static int figure(run *R, int argc, char **argv)
         if (alt && R->figure != 1) {
             sr_plot_series band = {.kind = SR_PLOT_BAND_X, .panel = 0, .block = b, .y = 1, .lo = 2, .hi = 4,
                                    .color = color, .outline = outline};
-            sr_plot_series line = {.kind = SR_PLOT_LINES, .panel = 0, .block = b, .x = 3, .y = 1, .color = color,
+            sr_plot_series line = {.kind = few ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .panel = 0, .block = b, .x = 3, .y = 1, .color = color,
                                    .dash = dash, .title = cv->label};
             sr_plot_add(p, &band);
             sr_plot_add(p, &line);
             if (panels == 2) {
                 sr_plot_series tb = {.kind = SR_PLOT_BAND_X, .panel = 1, .block = b, .y = 1, .lo = 5, .hi = 7,
                                      .color = color, .outline = outline};
-                sr_plot_series tline = {.kind = SR_PLOT_LINES, .panel = 1, .block = b, .x = 6, .y = 1,
+                sr_plot_series tline = {.kind = few ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .panel = 1, .block = b, .x = 6, .y = 1,
                                         .color = color, .dash = dash};
                 sr_plot_add(p, &tb);
                 sr_plot_add(p, &tline);
@@ -949,14 +937,14 @@ static int figure(run *R, int argc, char **argv)
         } else if (alt) {
             sr_plot_series band = {.kind = SR_PLOT_BAND, .block = b, .x = 1, .lo = 5, .hi = 7, .color = color,
                                    .outline = outline};
-            sr_plot_series line = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 6, .color = color, .dash = dash,
+            sr_plot_series line = {.kind = few ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .block = b, .x = 1, .y = 6, .color = color, .dash = dash,
                                    .title = cv->label};
             sr_plot_add(p, &band);
             sr_plot_add(p, &line);
         } else {
             sr_plot_series band = {.kind = SR_PLOT_BAND, .block = b, .x = 1, .lo = 2, .hi = 4, .color = color,
                                    .outline = outline};
-            sr_plot_series line = {.kind = R->nx <= 12 ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .block = b, .x = 1,
+            sr_plot_series line = {.kind = few ? SR_PLOT_LINESPOINTS : SR_PLOT_LINES, .block = b, .x = 1,
                                    .y = 3, .color = color, .dash = dash, .title = cv->label};
             sr_plot_add(p, &band);
             sr_plot_add(p, &line);
@@ -1100,10 +1088,7 @@ out:
     free(R->rows);
     free(R->curves);
     sr_atmos_free(&R->atm);
-    if (R->mis) {
-        sr_mission_free(R->mis);
-        free(R->mis);
-    }
+    sr_cli_mission_free(R->mis);
     free(R->cat);
     free(R);
     return rc;

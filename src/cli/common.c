@@ -11,7 +11,9 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "cli/cliplot.h"
 #include "fileio.h"
+#include "mission.h"
 #include "yamldoc.h"
 
 const char SR_HELP_OUTPUT[] =
@@ -91,6 +93,43 @@ void sr_cli_help(sr_cli *c, const char *text)
     fputc('\n', c->out);
 }
 
+static int has_option(const struct option *opts, int code)
+{
+    for (const struct option *o = opts; o->name; o++)
+        if (o->val == code)
+            return 1;
+    return 0;
+}
+
+/* A command's own help, then the option groups it accepts (unless its text
+ * already lists the group's first option), so every --help shows every option. */
+static void help_with_groups(sr_cli *c, const char *help, const struct option *opts)
+{
+    size_t len = strlen(help) + sizeof SR_HELP_CANOPY + sizeof SR_HELP_ATMOS + sizeof SR_HELP_OUTPUT + 2048;
+    char *buf = malloc(len);
+    if (!buf) {
+        sr_cli_help(c, help);
+        return;
+    }
+    snprintf(buf, len, "%s", help);
+    struct {
+        int code;
+        const char *text, *heading;
+    } G[] = {{OPT_FAMILY, SR_HELP_CANOPY, "\n  --family"},
+             {OPT_TEMP_OFFSET, SR_HELP_ATMOS, "\n  --temp-offset"},
+             {OPT_PLOT, SR_HELP_PLOT, "\n  --plot "},
+             {OPT_FORMAT, SR_HELP_OUTPUT, "\n  --format"}};
+    for (size_t i = 0; i < sizeof G / sizeof G[0]; i++) {
+        if (!has_option(opts, G[i].code) || strstr(help, G[i].heading))
+            continue;
+        size_t l = strlen(buf);
+        snprintf(buf + l, len - l, "%s%s", l && buf[l - 1] == '\n' && (l < 2 || buf[l - 2] != '\n') ? "\n" : "",
+                 G[i].text);
+    }
+    sr_cli_help(c, buf);
+    free(buf);
+}
+
 static const char *option_suggestion(const struct option *opts, const char *bad)
 {
     const char *names[256];
@@ -110,7 +149,7 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
     while ((code = getopt_long(argc, argv, "ho:n:", opts, NULL)) != -1) {
         switch (code) {
         case 'h':
-            sr_cli_help(c, help);
+            help_with_groups(c, help, opts);
             return -1;
         case 'o':
             c->output = optarg;
@@ -285,6 +324,39 @@ int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi,
         return sr_cli_fail(c, "%s: '%s' is not a whole number from %ld to %ld", opt, text, lo, hi);
     *out = v;
     return 0;
+}
+
+int sr_cli_atmos_given(const sr_atmos_opts *a)
+{
+    return a->temp_offset || a->site_elevation || a->surface_temp || a->surface_pressure || a->sounding;
+}
+
+int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_atmos_opts *a, sr_mission **mis,
+                   sr_atmos *atm, double *ground)
+{
+    sr_error e;
+    *mis = calloc(1, sizeof **mis);
+    if (!*mis)
+        return sr_cli_fail(c, "out of memory");
+    if (sr_mission_load(*mis, path, cat, &e)) {
+        free(*mis);
+        *mis = NULL;
+        return sr_cli_fail(c, "--mission: %s", e.msg);
+    }
+    *ground = (*mis)->ground;
+    if (sr_cli_atmos_given(a))
+        return sr_cli_atmos(c, a, atm, ground);
+    *atm = (*mis)->atmos;
+    memset(&(*mis)->atmos, 0, sizeof (*mis)->atmos); /* ownership moves to *atm */
+    return 0;
+}
+
+void sr_cli_mission_free(sr_mission *mis)
+{
+    if (mis) {
+        sr_mission_free(mis);
+        free(mis);
+    }
 }
 
 int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground)

@@ -95,6 +95,18 @@ int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi,
  * (0 without a site). */
 int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground);
 
+/* Whether any atmosphere option was given. */
+int sr_cli_atmos_given(const sr_atmos_opts *a);
+
+/* Load a mission file (heap-allocated into *mis) and its air: the atmosphere
+ * options, when given, replace the file's site weather (*ground then comes
+ * from them); otherwise the mission's atmosphere moves into *atm. Release
+ * with sr_cli_mission_free. */
+struct sr_mission;
+int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_atmos_opts *a,
+                   struct sr_mission **mis, sr_atmos *atm, double *ground);
+void sr_cli_mission_free(struct sr_mission *mis);
+
 /* The catalog, from --data, $SINKRATE_DATA, next to the executable, or the
  * installed share directory. Heap-allocated; free() it. */
 int sr_cli_catalog(sr_cli *c, sr_catalog **cat);
