@@ -4,7 +4,6 @@
 
 #include <gsl/gsl_eigen.h>
 #include <gsl/gsl_errno.h>
-#include <gsl/gsl_sort.h>
 #include <gsl/gsl_statistics_double.h>
 #include <math.h>
 #include <stdlib.h>
@@ -69,17 +68,28 @@ void sr_scatter_proportion(size_t count, size_t n, double z, sr_proportion *out)
 
 void sr_scatter_quantiles(double *x, size_t n, const double *probs, size_t np, double *out)
 {
-    gsl_sort(x, 1, n);
-    for (size_t k = 0; k < np; k++)
-        out[k] = gsl_stats_quantile_from_sorted_data(x, 1, n, probs[k]);
+    /* The interpolated quantile of gsl_stats_quantile_from_sorted_data from
+     * two order statistics found by selection (gsl_stats_select, O(n)): a
+     * full sort (gsl_sort is a heapsort) took longer than the samples. */
+    for (size_t k = 0; k < np; k++) {
+        double h = (double)(n - 1) * probs[k];
+        size_t lo = (size_t)h;
+        if (lo >= n - 1) {
+            out[k] = gsl_stats_max(x, 1, n);
+            continue;
+        }
+        double d = h - (double)lo, a = gsl_stats_select(x, 1, n, lo);
+        /* after the selection every element above index lo is >= a */
+        double b = d > 0.0 ? gsl_stats_min(x + lo + 1, 1, n - lo - 1) : a;
+        out[k] = d > 0.0 ? (1.0 - d) * a + d * b : a;
+    }
 }
 
 static void spread1(double *tmp, size_t n, sr_spread1 *s)
 {
     s->mean = gsl_stats_mean(tmp, 1, n);
+    gsl_stats_minmax(&s->min, &s->max, tmp, 1, n);
     sr_scatter_quantiles(tmp, n, SR_SCATTER_PCT, SR_SCATTER_NPCT, s->pct);
-    s->min = tmp[0];
-    s->max = tmp[n - 1];
 }
 
 int sr_scatter_stats(const sr_disp_result *res, sr_disp_stats *st, sr_error *err)

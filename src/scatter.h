@@ -58,8 +58,8 @@ typedef struct sr_disp_stats {
 /* All statistics, computed in sample order (deterministic). */
 int sr_scatter_stats(const sr_disp_result *res, sr_disp_stats *st, sr_error *err);
 
-/* Sorts x in place and writes the quantiles at probs (GSL's interpolated
- * quantile of sorted data, Hyndman-Fan type 7). */
+/* The quantiles of x at probs, as GSL's interpolated quantile of sorted
+ * data (Hyndman-Fan type 7), by selection; x is reordered. */
 void sr_scatter_quantiles(double *x, size_t n, const double *probs, size_t np, double *out);
 
 #endif

@@ -9,6 +9,7 @@
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_randist.h>
 #include <gsl/gsl_rng.h>
+#include <gsl/gsl_statistics_double.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -215,6 +216,44 @@ static void test_ellipse_bivariate_sample(void **state)
     CHECK_ABS("fraction inside the 3-sigma ellipse", "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p3,
               (double)in3 / (double)n, 5.0 * sqrt(p3 * (1 - p3) / (double)n));
     sr_disp_result_free(&res);
+}
+
+/* Quantiles by selection against GSL's quantile of sorted data. */
+static int cmp_d(const void *a, const void *b)
+{
+    double x = *(const double *)a, y = *(const double *)b;
+    return (x > y) - (x < y);
+}
+
+static void test_quantiles_against_gsl(void **state)
+{
+    (void)state;
+    const double P[] = {0.0, 0.01, 0.05, 0.25, 0.5, 0.95, 0.99, 0.999, 1.0};
+    const size_t NP = sizeof P / sizeof P[0];
+    const size_t sizes[] = {1, 2, 3, 10, 101, 5000};
+    gsl_rng *r = gsl_rng_alloc(gsl_rng_mt19937);
+    gsl_rng_set(r, 5UL);
+    char q[96];
+    for (size_t k = 0; k < sizeof sizes / sizeof sizes[0]; k++) {
+        size_t n = sizes[k];
+        double *x = malloc(n * sizeof *x), *y = malloc(n * sizeof *y), got[9];
+        for (size_t i = 0; i < n; i++)
+            x[i] = y[i] = floor(20.0 * gsl_rng_uniform(r)); /* with ties */
+        qsort(y, n, sizeof *y, cmp_d);
+        sr_scatter_quantiles(x, n, P, NP, got);
+        for (size_t j = 0; j < NP; j++) {
+            double want = gsl_stats_quantile_from_sorted_data(y, 1, n, P[j]);
+            if (j == 4) {
+                snprintf(q, sizeof q, "median of %zu values by selection", n);
+                CHECK_ABS(q, "GSL 2.7 gsl_stats_quantile_from_sorted_data on the sorted data", want, got[j], 1e-12);
+            } else if (fabs(got[j] - want) > 1e-12) {
+                fail_msg("n %zu, P %g: %.17g, GSL says %.17g", n, P[j], got[j], want);
+            }
+        }
+        free(x);
+        free(y);
+    }
+    gsl_rng_free(r);
 }
 
 /* ---- the engine end to end ---------------------------------------------- */
@@ -536,6 +575,7 @@ int main(void)
     gsl_set_error_handler_off();
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_ellipse_known_covariance), cmocka_unit_test(test_ellipse_bivariate_sample),
+        cmocka_unit_test(test_quantiles_against_gsl),
         cmocka_unit_test(test_engine_linear_covariance), cmocka_unit_test(test_wind_speed_spread_analytic),
         cmocka_unit_test(test_radii_rayleigh),           cmocka_unit_test(test_percentiles_uniform_drag),
         cmocka_unit_test(test_limit_probability),        cmocka_unit_test(test_zero_uncertainty),
