@@ -55,7 +55,9 @@ static const char HELP[] =
     "  --full                   integrate every transient by the ODE (slower); the default fast\n"
     "                           path reuses the nominal transients (see `sinkrate profile`)\n"
     "  --max-risk P             exit 1 when a limit is broken in more than this share of the\n"
-    "                           samples (\"0.5 %\" or 0.005; default 1 %, our choice, not a rule)\n\n";
+    "                           samples (\"0.5 %\" or 0.005; default 1 %, our choice, not a rule)\n"
+    "The output does not name the thread count: it is the same bytes for any. The figure\n"
+    "(--plot, below) is 1250x700 unless --plot-size is given.\n\n";
 
 typedef struct disp_opts {
     const char *n, *samples, *risk;
@@ -735,7 +737,6 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     sr_report_text(r, "mission", "mission", m->name);
     sr_report_value(r, "samples", "samples", (double)n, SR_Q_NONE, SR_FIXED(0));
     sr_report_value(r, "seed", "seed", (double)seed, SR_Q_NONE, SR_FIXED(0));
-    sr_report_value(r, "threads", "threads", (double)res.threads, SR_Q_NONE, SR_FIXED(0));
     sr_report_text(r, "descent_model", "descent model",
                    o.full ? "staged descent, every transient by the ODE"
                           : "staged descent, fast path (steady stages from tables, nominal transients adjusted)");
