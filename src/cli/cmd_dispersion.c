@@ -25,6 +25,8 @@
 #define DEFAULT_RISK 0.01   /* accepted probability per limit: our choice, stated in --help */
 #define PLOT_POINTS 20000   /* landing points drawn per body; the statistics use every sample */
 #define HIST_BINS 40
+/* style colours: bodies take 1, 3, 4, 8; 2 is the limit, 5 nominal, 6 the ellipses and mean, 7 launch */
+static const int BODY_COLOR[4] = {1, 3, 4, 8};
 
 enum { OPT_SAMPLES = OPT_COMMAND_BASE, OPT_FULL, OPT_MAX_RISK };
 
@@ -542,7 +544,8 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, con
     sr_plot_axes_init(&ax);
     ax.title = "Touchdown speed";
     ax.xlabel = sl;
-    ax.ylabel = "share of samples [%]";
+    ax.ylabel = res->nbodies > 1 ? "share of samples per bin (40 bins per body) [%]" : "share of samples [%]";
+    ax.ymin = 0.0;
     sr_plot_set_axes(p, 1, &ax);
     int rc = 0;
     const char *xy[] = {"east", "north"};
@@ -551,7 +554,7 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, con
      * bury the ellipses under thousands of landings. */
     double eps = 0.002 * span;
     for (size_t b = 0; b < res->nbodies && !rc; b++) {
-        int color = (int)(b % 4) + 1;
+        int color = BODY_COLOR[b % 4];
         size_t blk;
         rc = sr_plot_block(p, dm->body_name[b], 2, xy, &blk);
         for (size_t i = 0; i < shown && !rc; i++) {
@@ -613,16 +616,12 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, con
         if (!rc)
             rc = sr_plot_add(p, &mp);
     }
-    /* histogram of touchdown speed: shares of samples in HIST_BINS bins over all bodies' range */
-    double lo = INFINITY, hi = -INFINITY;
-    for (size_t b = 0; b < res->nbodies; b++) {
-        lo = fmin(lo, st->body[b].speed.min);
-        hi = fmax(hi, st->body[b].speed.max);
-    }
-    if (!(hi > lo))
-        hi = lo + 1e-3 * (fabs(lo) + 1.0);
-    double w = (hi - lo) / HIST_BINS;
+    /* histogram of touchdown speed: shares of samples in HIST_BINS bins over each body's range */
     for (size_t b = 0; b < res->nbodies && !rc; b++) {
+        double lo = st->body[b].speed.min, hi = st->body[b].speed.max;
+        if (!(hi > lo))
+            hi = lo + 1e-3 * (fabs(lo) + 1.0);
+        double w = (hi - lo) / HIST_BINS;
         size_t cnt[HIST_BINS] = {0};
         for (size_t i = 0; i < res->n; i++) {
             int k = (int)((res->land[i * res->nbodies + b].speed - lo) / w);
@@ -631,13 +630,23 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, con
         const char *hn[] = {"speed", "share_percent", "width"};
         size_t hb;
         rc = sr_plot_block(p, "touchdown speed histogram", 3, hn, &hb);
+        int outline_only = res->nbodies > 1;
+        double r0[3] = {sr_units_from_si(lo, SR_Q_SPEED, sys), 0.0, 0.0};
+        if (outline_only && !rc)
+            rc = sr_plot_row(p, hb, r0);
         for (int k = 0; k < HIST_BINS && !rc; k++) {
             double row[3] = {sr_units_from_si(lo + (k + 0.5) * w, SR_Q_SPEED, sys),
                              100.0 * (double)cnt[k] / (double)res->n, sr_units_from_si(w, SR_Q_SPEED, sys)};
             rc = sr_plot_row(p, hb, row);
         }
-        sr_plot_series hs = {.kind = SR_PLOT_BOXES, .panel = 1, .block = hb, .x = 1, .y = 2, .w = 3,
-                             .title = res->nbodies > 1 ? dm->body_name[b] : NULL, .color = (int)(b % 4) + 1};
+        double r1[3] = {sr_units_from_si(hi, SR_Q_SPEED, sys), 0.0, 0.0};
+        if (outline_only && !rc)
+            rc = sr_plot_row(p, hb, r1);
+        /* several bodies land at speeds far apart, and their bins are too
+         * narrow for bars: each draws the outline through its bins instead */
+        sr_plot_series hs = {.kind = res->nbodies > 1 ? SR_PLOT_LINES : SR_PLOT_BOXES, .panel = 1, .block = hb,
+                             .x = 1, .y = 2, .w = res->nbodies > 1 ? 0 : 3,
+                             .title = res->nbodies > 1 ? dm->body_name[b] : NULL, .color = BODY_COLOR[b % 4]};
         if (!rc)
             rc = sr_plot_add(p, &hs);
     }
