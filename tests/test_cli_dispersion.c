@@ -142,6 +142,38 @@ static void test_plot_files(void **state)
     free(err);
 }
 
+/* Sections that land apart: one block of statistics and one samples row per body. */
+static void test_two_bodies(void **state)
+{
+    (void)state;
+    const char *mis = sr_test_tmpfile(".yaml", "mission: two bodies (invented)\n"
+                                               "site:\n  wind:\n    model: constant\n    speed: 6 m/s\n    from: 300 deg\n"
+                                               "sections:\n  - name: booster\n    mass: 3 kg\n  - name: nose\n    mass: 1.5 kg\n"
+                                               "stages:\n  - name: drogue\n    family: cross\n    nominal-diameter: 0.8 m\n"
+                                               "    deploy: apogee\n  - name: nose main\n    family: conical\n"
+                                               "    nominal-diameter: 1.5 m\n    carries: [nose]\n    deploy:\n      height: 400 m\n"
+                                               "start:\n  height: 1500 m\n"
+                                               "uncertainty:\n  wind-speed: {distribution: normal, sigma: 1 m/s}\n");
+    char mp[512], csv[512];
+    snprintf(mp, sizeof mp, "%s", mis);
+    snprintf(csv, sizeof csv, "%s", sr_test_tmpfile(".csv", ""));
+    const char *a[] = {mp, "-n", "100", "--samples", csv, NULL};
+    char *out, *err;
+    int rc = run(&out, &err, a);
+    if (rc)
+        print_error("%s\n", err);
+    assert_int_equal(rc, 0);
+    assert_non_null(strstr(out, "Landing of booster (body 1 of 2)"));
+    assert_non_null(strstr(out, "Landing of nose (body 2 of 2)"));
+    char *c = slurp(csv);
+    assert_non_null(c);
+    assert_int_equal(sr_test_lines(c), 3 + 2 * 100);
+    assert_non_null(strstr(c, "\r\n99,\"nose\","));
+    free(c);
+    free(out);
+    free(err);
+}
+
 /* Bad input: one line naming the problem, exit 2. */
 static void test_bad_input(void **state)
 {
@@ -203,6 +235,7 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_threads_same_bytes), cmocka_unit_test(test_json_fields),
         cmocka_unit_test(test_limit_exit),         cmocka_unit_test(test_plot_files),
+        cmocka_unit_test(test_two_bodies),
         cmocka_unit_test(test_bad_input),
     };
     return cmocka_run_group_tests_name("cli_dispersion", tests, NULL, NULL);
