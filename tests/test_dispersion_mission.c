@@ -233,6 +233,38 @@ static void test_heights_uniform_air(void **state)
     drop(m);
 }
 
+/* Deployment delay: a main opened dt later (the drogue steady at v_d) opens
+ * v_d dt lower, so the descent time changes by dt (v_d/v_m - 1). */
+static void test_delay_uniform_air(void **state)
+{
+    (void)state;
+    const char *text = "mission: delay test (invented)\n"
+                       "sections:\n  - name: body\n    mass: 4 kg\n"
+                       "stages:\n  - name: drogue\n    family: cross\n    nominal-diameter: 0.7 m\n    deploy: apogee\n"
+                       "  - name: main\n    family: conical\n    nominal-diameter: 2.0 m\n    deploy:\n      delay: 40 s\n"
+                       "start:\n  height: 1500 m\n  speed: 0 m/s\n"
+                       "uncertainty:\n  drag: fixed\n  deployment-delay: {distribution: uniform, half-width: 2 s}\n";
+    sr_mission *m = calloc(1, sizeof *m);
+    sr_error e;
+    if (sr_mission_load(m, sr_test_tmpfile(".yaml", text), CAT, &e))
+        fail_msg("mission: %s", e.msg);
+    assert_int_equal(m->unc.delay_stages, 2u);
+    sr_disp_mission dm;
+    init(&dm, m, RHO, 0);
+    const size_t n = 4000;
+    sr_disp_result res;
+    sr_disp_stats st;
+    run(&dm, &m->unc, n, 2, &res, &st);
+    /* heights of the main's deployment: 1500 m less about 40 s of drogue descent */
+    double vd = steady(m, 0, 1000.0, 0.0), vm = steady(m, 1, 0.0, m->stages[0].canopy.cds.typ);
+    CHECK_REL("range of descent time, main delay +-2 s uniform (s)",
+              "closed form, uniform air: a deployment dt later in steady descent changes the time by dt (v_d/v_m - 1)",
+              4.0 * (vd / vm - 1.0), st.body[0].time.max - st.body[0].time.min, 0.01);
+    sr_disp_result_free(&res);
+    sr_disp_mission_free(&dm);
+    drop(m);
+}
+
 /* Mass only: touchdown speed spread sd(m)/(2m) v. */
 static void test_mass_uniform_air(void **state)
 {
@@ -301,7 +333,8 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_zero_is_profile),    cmocka_unit_test(test_wind_speed_uniform_air),
-        cmocka_unit_test(test_heights_uniform_air), cmocka_unit_test(test_mass_uniform_air),
+        cmocka_unit_test(test_heights_uniform_air), cmocka_unit_test(test_delay_uniform_air),
+        cmocka_unit_test(test_mass_uniform_air),
         cmocka_unit_test(test_threads_and_flags),
     };
     return cmocka_run_group_tests_name("dispersion_mission", tests, setup, teardown);
