@@ -75,8 +75,8 @@ int sr_disp_run(const sr_disp_model *m, const sr_uncertainty *u, const sr_disp_o
 #pragma omp parallel num_threads(nt)
     {
         int t = omp_get_thread_num(), T = omp_get_num_threads();
-#pragma omp single
-        used = T;
+        if (t == 0)
+            used = T; /* read after the region's closing barrier */
         /* static partition: thread t takes the contiguous range [lo, hi) */
         size_t lo = n * (size_t)t / (size_t)T, hi = n * (size_t)(t + 1) / (size_t)T;
         gsl_rng *r = gsl_rng_alloc(sr_rng_splitmix64);
