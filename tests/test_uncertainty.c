@@ -74,7 +74,7 @@ static void test_streams_uniform(void **state)
     assert_true(pval > 1e-4);
     CHECK_ABS("chi-square p-value of first draws, 100 bins (> 1e-4)", SRC_CHI2, 0.5, pval, 0.5 - 1e-4);
     double rho = gsl_stats_correlation(u, 1, u + 1, 1, n - 1);
-    CHECK_ABS("lag-1 correlation across sample streams", "independent streams: |r| < 4/sqrt(n)", 0.0, rho,
+    CHECK_ABS("lag-1 correlation across sample streams", "independent streams: abs(r) < 4/sqrt(n)", 0.0, rho,
               4.0 / sqrt((double)n));
     CHECK_ABS("mean of first draws", "uniform on [0,1): mean 1/2, sd 1/sqrt(12n)", 0.5, gsl_stats_mean(u, 1, n),
               5.0 / sqrt(12.0 * (double)n));
