@@ -27,15 +27,17 @@ set encoding utf8
 # ---- frame: open on top and right, ticks outside, a quiet grid ----
 set border 3 lc rgb sr_ink lw 1.1
 set tics nomirror out scale 0.6,0.3 textcolor rgb sr_ink
-set mxtics 2
-set mytics 2
+sr_minor = 2              # minor intervals between major tics (log axes: 2..9 of each decade)
+set mxtics sr_minor
+set mytics sr_minor
 set grid xtics ytics mxtics mytics lt 1 lc rgb sr_gridline lw 0.9, lt 1 lc rgb sr_gridfine lw 0.6
 set grid back
 set xlabel textcolor rgb sr_ink offset 0,0.2
 set ylabel textcolor rgb sr_ink offset 0.6,0
 set title textcolor rgb sr_ink offset 0,-0.3
-set format x '%g'
-set format y '%g'
+sr_format = '%g'          # tic labels (log axes over three decades: powers of ten)
+set format x sr_format
+set format y sr_format
 
 # ---- legend: no box, sample lines short, over a white patch ----
 set key noenhanced textcolor rgb sr_ink spacing 1.25 samplen 2.2 width 1 opaque nobox

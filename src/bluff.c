@@ -405,6 +405,34 @@ int sr_bluff_curve_load(sr_bluff_curve *c, const char *path, sr_bluff_interp kin
     return load_csv(c, path, kind, err);
 }
 
+int sr_bluff_curve_copy(sr_bluff_curve *dst, const sr_bluff_curve *src, sr_error *err)
+{
+    if (src->id != SR_CURVE_TABLE)
+        return sr_bluff_curve_init(dst, src->id, err);
+    *dst = *src;
+    dst->source = src->source == src->info ? dst->info : src->source;
+    dst->lnre = dst->lncd = NULL;
+    dst->interp = NULL;
+    dst->n = 0;
+    dst->lnre = malloc(src->n * sizeof *dst->lnre);
+    dst->lncd = malloc(src->n * sizeof *dst->lncd);
+    if (dst->lnre && dst->lncd)
+        dst->interp = gsl_interp_alloc(src->kind == SR_BLUFF_STEFFEN ? gsl_interp_steffen : gsl_interp_linear, src->n);
+    if (!dst->interp) {
+        sr_bluff_curve_free(dst);
+        return sr_error_set(err, SR_ENOMEM, "out of memory for a copy of the drag curve %s", src->path);
+    }
+    memcpy(dst->lnre, src->lnre, src->n * sizeof *dst->lnre);
+    memcpy(dst->lncd, src->lncd, src->n * sizeof *dst->lncd);
+    dst->n = src->n;
+    int st = gsl_interp_init(dst->interp, dst->lnre, dst->lncd, dst->n);
+    if (st != GSL_SUCCESS) {
+        sr_bluff_curve_free(dst);
+        return sr_error_set(err, SR_ENUMERIC, "interpolation setup failed: %s", gsl_strerror(st));
+    }
+    return SR_OK;
+}
+
 void sr_bluff_curve_free(sr_bluff_curve *c)
 {
     if (!c)

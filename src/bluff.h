@@ -90,6 +90,9 @@ int sr_bluff_curve_table(sr_bluff_curve *c, const double *re, const double *cd, 
  *   points: [[Re, Cd], ...]    required, Re increasing */
 int sr_bluff_curve_load(sr_bluff_curve *c, const char *path, sr_bluff_interp kind, sr_error *err);
 void sr_bluff_curve_free(sr_bluff_curve *c);
+/* Deep copy of a curve (a table's knots and interpolation are duplicated),
+ * so that a copy can outlive the original. */
+int sr_bluff_curve_copy(sr_bluff_curve *dst, const sr_bluff_curve *src, sr_error *err);
 
 /* Curve id from its short name ("sphere-cgw", "cylinder", ...); SR_EINVAL
  * with the accepted names otherwise. */

@@ -8,11 +8,15 @@
 
 #define PI 3.14159265358979323846
 
-static const char *const TOP_KEYS[] = {"mission", "description", "site", "sections", "stages", "start", "limits",
-                                       "uncertainty", NULL};
+static const char *const TOP_KEYS[] = {"mission", "description", "site",          "sections",    "stages",
+                                       "start",   "limits",      "failure-cases", "uncertainty", NULL};
 static const char *const TOP_REQ[] = {"mission", "sections", "stages", NULL};
 static const char *const SITE_KEYS[] = {"elevation", "temperature", "pressure", "sounding", "wind", NULL};
-static const char *const SECTION_KEYS[] = {"name", "mass", "drag-area", "rigid-with", NULL};
+static const char *const SECTION_KEYS[] = {"name", "mass", "drag-area", "body", "rigid-with", NULL};
+static const char *const BODY_KEYS[] = {"shape", "diameter", "length", "curve", "cd-table", "area", "interpolation",
+                                        NULL};
+static const char *const BODY_REQ[] = {"diameter", NULL};
+static const char *const FAILURE_KEYS[] = {"name", "fails", "only", NULL};
 static const char *const SECTION_REQ[] = {"name", "mass", NULL};
 static const char *const STAGE_KEYS[] = {"name",          "family",         "canopy",     "nominal-diameter",
                                          "projected-diameter", "flat-diameter", "nominal-area", "drag-coefficient",
@@ -216,6 +220,121 @@ static int parse_stage(sr_mission *m, sr_yaml *y, yaml_node_t *n, const sr_catal
     return SR_OK;
 }
 
+/* body: {shape: sphere|cylinder|disk, diameter:, length: (cylinder), curve: (a built-in one of the shape)}
+ * or body: {cd-table: FILE, area:, diameter:, interpolation: loglog|steffen}: the section's drag while no
+ * canopy is open on it, with a Cd that depends on the Reynolds number. */
+static int parse_body(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_section *sec, sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_check_map(y, n, "a section's body", BODY_KEYS, BODY_REQ, err)))
+        return rc;
+    yaml_node_t *shn = sr_yaml_get(y, n, "shape"), *tn = sr_yaml_get(y, n, "cd-table"),
+                *dn = sr_yaml_get(y, n, "diameter"), *ln = sr_yaml_get(y, n, "length"),
+                *cn = sr_yaml_get(y, n, "curve"), *an = sr_yaml_get(y, n, "area"),
+                *in = sr_yaml_get(y, n, "interpolation");
+    if (shn && tn)
+        return sr_yaml_fail(y, tn, err, "a body takes either shape: (a built-in drag curve) or cd-table: (your own "
+                                        "Cd(Re) table), not both");
+    if (!shn && !tn)
+        return sr_yaml_fail(y, n, err, "a body needs shape: (sphere, cylinder or disk) or cd-table: (a file of Cd "
+                                       "against Re)");
+    double d, len = 0.0, area = NAN;
+    if ((rc = sr_yaml_quantity(y, dn, SR_Q_LENGTH, &d, err)))
+        return rc;
+    if (!(d > 0.0 && d <= 20.0))
+        return sr_yaml_fail(y, dn, err, "a body's diameter must be above 0 and at most 20 m");
+    sr_error e;
+    if (shn) {
+        static const char *const shapes[] = {"sphere", "cylinder", "disk", NULL};
+        char v[32];
+        if ((rc = sr_yaml_string(y, shn, v, sizeof v, err)))
+            return rc;
+        if (strcmp(v, "sphere") == 0)
+            sec->shape = SR_BLUFF_SPHERE;
+        else if (strcmp(v, "cylinder") == 0)
+            sec->shape = SR_BLUFF_CYLINDER;
+        else if (strcmp(v, "disk") == 0)
+            sec->shape = SR_BLUFF_DISK;
+        else {
+            const char *sg = sr_yaml_suggest(v, shapes);
+            return sr_yaml_fail(y, shn, err, "shape must be sphere, cylinder (broadside to the flow) or disk, not "
+                                             "'%s'%s%s%s",
+                                v, sg ? "; did you mean '" : "", sg ? sg : "", sg ? "'?" : "");
+        }
+        if (an)
+            return sr_yaml_fail(y, an, err, "area: goes with cd-table:; the reference area of a %s follows from "
+                                            "its diameter%s",
+                                v, sec->shape == SR_BLUFF_CYLINDER ? " and length" : "");
+        if (in)
+            return sr_yaml_fail(y, in, err, "interpolation: goes with cd-table:");
+        if (sec->shape == SR_BLUFF_CYLINDER) {
+            if (!ln)
+                return sr_yaml_fail(y, n, err, "a cylinder body needs length: (it falls broadside: drag on d x L)");
+            if ((rc = sr_yaml_quantity(y, ln, SR_Q_LENGTH, &len, err)))
+                return rc;
+            if (!(len > 0.0 && len <= 100.0))
+                return sr_yaml_fail(y, ln, err, "a cylinder's length must be above 0 and at most 100 m");
+        } else if (ln) {
+            return sr_yaml_fail(y, ln, err, "only a cylinder body takes a length");
+        }
+        sr_bluff_curve_id id = sr_bluff_default_curve(sec->shape);
+        if (cn) {
+            char name[64];
+            if ((rc = sr_yaml_string(y, cn, name, sizeof name, err)))
+                return rc;
+            if (sr_bluff_curve_lookup(name, &id, &e))
+                return sr_yaml_fail(y, cn, err, "%s", e.msg);
+        }
+        if (sr_bluff_curve_init(&sec->curve, id, &e))
+            return sr_yaml_fail(y, cn ? cn : shn, err, "%s", e.msg);
+    } else {
+        if (cn)
+            return sr_yaml_fail(y, cn, err, "curve: names a built-in curve for a shape:; with cd-table: the table "
+                                            "is the curve");
+        if (ln)
+            return sr_yaml_fail(y, ln, err, "length: goes with shape: cylinder; a drag table's body is described "
+                                            "by its table, area and diameter");
+        sr_bluff_interp kind = SR_BLUFF_LOGLOG;
+        if (in) {
+            char v[16];
+            if ((rc = sr_yaml_string(y, in, v, sizeof v, err)))
+                return rc;
+            if (strcmp(v, "steffen") == 0)
+                kind = SR_BLUFF_STEFFEN;
+            else if (strcmp(v, "loglog") != 0)
+                return sr_yaml_fail(y, in, err, "interpolation must be loglog (straight lines in log Re, log Cd) or "
+                                                "steffen (monotone cubic), not '%s'",
+                                    v);
+        }
+        if (an) {
+            if ((rc = sr_yaml_quantity(y, an, SR_Q_AREA, &area, err)))
+                return rc;
+            if (!(area > 0.0 && area <= 1000.0))
+                return sr_yaml_fail(y, an, err, "a body's reference area must be above 0 and at most 1000 m2");
+        }
+        char file[400], path[1024];
+        if ((rc = sr_yaml_string(y, tn, file, sizeof file, err)))
+            return rc;
+        sr_mission_relative_path(path, sizeof path, m->path, file);
+        if (sr_bluff_curve_load(&sec->curve, path, kind, &e))
+            return sr_yaml_fail(y, tn, err, "%s", e.msg);
+        if (!an && !(sec->curve.table_area > 0.0))
+            return sr_yaml_fail(y, n, err, "give area: (the reference area of the table's Cd values); %s states "
+                                           "none",
+                                file);
+        sec->shape = SR_BLUFF_TABLE;
+    }
+    sr_bluff_body b;
+    if (sr_bluff_body_init(&b, sec->shape, &sec->curve, d, len, sec->mass, area, &e))
+        return sr_yaml_fail(y, n, err, "%s", e.msg);
+    sec->has_body = 1;
+    sec->body_d = d;
+    sec->body_length = len;
+    sec->body_area = b.area;
+    snprintf(sec->body_area_ref, sizeof sec->body_area_ref, "%s", b.area_ref);
+    return SR_OK;
+}
+
 static int parse_sections(sr_mission *m, sr_yaml *y, yaml_node_t *secs, sr_error *err)
 {
     int rc;
@@ -244,6 +363,16 @@ static int parse_sections(sr_mission *m, sr_yaml *y, yaml_node_t *secs, sr_error
                 return rc;
             if (!(sec->drag_area >= 0.0 && sec->drag_area <= 100.0))
                 return sr_yaml_fail(y, an, err, "a section's drag area must be between 0 and 100 m2");
+        }
+        yaml_node_t *bn = sr_yaml_get(y, s, "body");
+        if (bn) {
+            if (an)
+                return sr_yaml_fail(y, sr_yaml_key_node(y, s, "body"), err,
+                                    "section '%s': give either drag-area: (a constant drag area) or body: (drag "
+                                    "that depends on the Reynolds number), not both",
+                                    sec->name);
+            if ((rc = parse_body(m, y, bn, sec, err)))
+                return rc;
         }
     }
     /* rigid-with names a section: all names are known now */
@@ -412,6 +541,115 @@ static int parse_limits(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *e
     return SR_OK;
 }
 
+/* Stage names, one or a list: fails: main, only: [drogue]. */
+static int parse_stage_set(const sr_mission *m, sr_yaml *y, yaml_node_t *n, const char *key, unsigned *out,
+                           sr_error *err)
+{
+    const char *names[SR_MISSION_MAX_STAGES + 1];
+    for (size_t k = 0; k < m->nstages; k++)
+        names[k] = m->stages[k].name;
+    names[m->nstages] = NULL;
+    size_t count = n && n->type == YAML_SEQUENCE_NODE ? sr_yaml_seq_len(n) : 1;
+    int rc;
+    if (n && n->type == YAML_SEQUENCE_NODE && (rc = sr_yaml_require_seq(y, n, key, 1, m->nstages, err)))
+        return rc;
+    *out = 0;
+    for (size_t i = 0; i < count; i++) {
+        yaml_node_t *e = n->type == YAML_SEQUENCE_NODE ? sr_yaml_seq_at(y, n, i) : n;
+        char name[SR_NAME_MAX];
+        if ((rc = sr_yaml_string(y, e, name, sizeof name, err)))
+            return rc;
+        size_t k = 0;
+        while (k < m->nstages && strcmp(names[k], name) != 0)
+            k++;
+        if (k == m->nstages) {
+            const char *sg = sr_yaml_suggest(name, names);
+            if (sg)
+                return sr_yaml_fail(y, e, err, "no stage is named '%s'; did you mean '%s'?", name, sg);
+            return sr_yaml_fail(y, e, err, "no stage is named '%s'", name);
+        }
+        if (*out & (1u << k))
+            return sr_yaml_fail(y, e, err, "stage '%s' is listed twice", name);
+        *out |= 1u << k;
+    }
+    return SR_OK;
+}
+
+static void stage_list(const sr_mission *m, unsigned set, char *buf, size_t len)
+{
+    buf[0] = '\0';
+    size_t used = 0;
+    for (size_t k = 0; k < m->nstages; k++) {
+        if (!((set >> k) & 1u))
+            continue;
+        int w = snprintf(buf + used, len - used, "%s%s", used ? " + " : "", m->stages[k].name);
+        if (w < 0 || (size_t)w >= len - used)
+            break;
+        used += (size_t)w;
+    }
+}
+
+/* failure-cases: [no-canopy, {only: drogue}, {fails: [main]}, {name: "...", fails: ...}] */
+static int parse_failures(sr_mission *m, sr_yaml *y, yaml_node_t *list, sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_require_seq(y, list, "failure-cases", 1, SR_MISSION_MAX_FAILURES, err)))
+        return rc;
+    unsigned all = (1u << m->nstages) - 1u;
+    m->nfailures = sr_yaml_seq_len(list);
+    for (size_t i = 0; i < m->nfailures; i++) {
+        yaml_node_t *n = sr_yaml_seq_at(y, list, i);
+        sr_failure_case *f = &m->failures[i];
+        char names[256];
+        if (n && n->type == YAML_SCALAR_NODE) {
+            const char *v = (const char *)n->data.scalar.value;
+            if (strcmp(v, "no-canopy") != 0) {
+                for (size_t k = 0; k < m->nstages; k++)
+                    if (strcmp(v, m->stages[k].name) == 0)
+                        return sr_yaml_fail(y, n, err, "a failure case is 'no-canopy' or a mapping: write "
+                                                       "{fails: %s} (it does not open) or {only: %s} (only it opens)",
+                                            v, v);
+                return sr_yaml_fail(y, n, err, "a failure case is 'no-canopy' (no stage deploys) or a mapping with "
+                                               "fails: or only: and stage names, not '%s'",
+                                    v);
+            }
+            f->failed = all;
+            snprintf(f->name, sizeof f->name, "no canopy");
+        } else {
+            if ((rc = sr_yaml_check_map(y, n, "a failure case", FAILURE_KEYS, NULL, err)))
+                return rc;
+            yaml_node_t *fn = sr_yaml_get(y, n, "fails"), *on = sr_yaml_get(y, n, "only"),
+                        *nn = sr_yaml_get(y, n, "name");
+            if ((fn && on) || (!fn && !on))
+                return sr_yaml_fail(y, n, err, "a failure case takes exactly one of fails: (the stages that do not "
+                                               "open) or only: (the stages that do)");
+            unsigned set;
+            if ((rc = parse_stage_set(m, y, fn ? fn : on, fn ? "fails" : "only", &set, err)))
+                return rc;
+            stage_list(m, set, names, sizeof names);
+            if (fn) {
+                f->failed = set;
+                snprintf(f->name, sizeof f->name, "%s fail%s", names, strchr(names, '+') ? "" : "s");
+            } else {
+                f->failed = all & ~set;
+                if (!f->failed)
+                    return sr_yaml_fail(y, on, err, "only: lists every stage: that is the nominal descent, not a "
+                                                    "failure case");
+                snprintf(f->name, sizeof f->name, "%s only", names);
+            }
+            if (f->failed == all)
+                snprintf(f->name, sizeof f->name, "no canopy");
+            if (nn && (rc = sr_yaml_string(y, nn, f->name, sizeof f->name, err)))
+                return rc;
+        }
+        for (size_t j = 0; j < i; j++)
+            if (m->failures[j].failed == f->failed)
+                return sr_yaml_fail(y, n, err, "this failure case repeats case %zu ('%s'): the same stages fail", j + 1,
+                                    m->failures[j].name);
+    }
+    return SR_OK;
+}
+
 int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err)
 {
     int rc;
@@ -449,6 +687,9 @@ int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error 
     yaml_node_t *lim = sr_yaml_get(y, root, "limits");
     if (lim && (rc = parse_limits(m, y, lim, err)))
         return rc;
+    yaml_node_t *fc = sr_yaml_get(y, root, "failure-cases");
+    if (fc && (rc = parse_failures(m, y, fc, err)))
+        return rc;
     return sr_mission_parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err);
 }
 
@@ -472,6 +713,8 @@ int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_e
 
 void sr_mission_free(sr_mission *m)
 {
+    for (size_t i = 0; i < SR_MISSION_MAX_SECTIONS; i++)
+        sr_bluff_curve_free(&m->sections[i].curve);
     sr_atmos_free(&m->atmos);
     sr_wind_free(&m->wind);
 }

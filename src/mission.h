@@ -8,6 +8,7 @@
 #include <stddef.h>
 
 #include "atmos.h"
+#include "bluff.h"
 #include "canopy.h"
 #include "catalog.h"
 #include "error.h"
@@ -17,6 +18,7 @@
 #define SR_MISSION_MAX_SECTIONS 8
 #define SR_MISSION_MAX_STAGES 6
 #define SR_NAME_MAX 64
+#define SR_MISSION_MAX_FAILURES 8
 
 typedef enum sr_deploy_kind {
     SR_DEPLOY_APOGEE = 0,   /* at the start state (apogee or release); written `apogee` or `release` */
@@ -47,7 +49,23 @@ typedef struct sr_section {
     double drag_area;        /* m2, the section's own drag area CdA (0: neglected) */
     int rigid_with;          /* index of the section it lands as one piece with (`rigid-with:`), -1 none;
                               * tethered sections (the default) each land with their own energy */
+    /* `body:` (instead of drag-area): drag with a Reynolds-dependent Cd while no canopy is open on the
+     * section; under a canopy it is neglected (the body hangs in another attitude; conservative) */
+    int has_body;
+    sr_bluff_shape shape;    /* sphere, cylinder (broadside), disk, or SR_BLUFF_TABLE for `cd-table:` */
+    double body_d;           /* diameter: the length of the Reynolds number, m */
+    double body_length;      /* cylinder length, m (0 otherwise) */
+    double body_area;        /* reference area of its Cd, m2 */
+    char body_area_ref[64];  /* what that area is, e.g. "projected area d x L" */
+    sr_bluff_curve curve;    /* its drag curve (owned; freed by sr_mission_free) */
 } sr_section;
+
+/* A what-if case the profile reports besides the nominal descent
+ * (`failure-cases:`): the stages in `failed` do not deploy. */
+typedef struct sr_failure_case {
+    char name[128];          /* "no canopy", "drogue only", "main fails", or the file's name: */
+    unsigned failed;         /* bit k: stage k does not deploy */
+} sr_failure_case;
 
 typedef struct sr_mission {
     char name[128];
@@ -72,6 +90,8 @@ typedef struct sr_mission {
     double limit_time;       /* descent time, s */
     double limit_drift;      /* drift distance, m */
     double limit_deploy_q;   /* dynamic pressure at any deployment, Pa */
+    size_t nfailures;        /* failure-cases: */
+    sr_failure_case failures[SR_MISSION_MAX_FAILURES];
     sr_uncertainty unc;      /* what a dispersion run varies (mission_uncertainty.c) */
 } sr_mission;
 

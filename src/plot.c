@@ -41,6 +41,12 @@ typedef struct pmarker {
     int style;
 } pmarker;
 
+typedef struct plabel {
+    int panel;
+    double x, y;
+    char *text;
+} plabel;
+
 typedef struct paxes {
     char *title, *xlabel, *ylabel;
     int xlog, ylog, equal, xtight, ytight;
@@ -58,6 +64,8 @@ struct sr_plot {
     size_t nseries;
     pmarker *markers;
     size_t nmarkers;
+    plabel *labels;
+    size_t nlabels;
     int next_color;
 };
 
@@ -107,6 +115,9 @@ void sr_plot_free(sr_plot *p)
     for (size_t i = 0; i < p->nmarkers; i++)
         free(p->markers[i].label);
     free(p->markers);
+    for (size_t i = 0; i < p->nlabels; i++)
+        free(p->labels[i].text);
+    free(p->labels);
     for (int i = 0; i < SR_PLOT_MAX_PANELS; i++) {
         free(p->axes[i].title);
         free(p->axes[i].xlabel);
@@ -280,6 +291,25 @@ int sr_plot_marker(sr_plot *p, int panel, char axis, double value, const char *l
     return SR_OK;
 }
 
+int sr_plot_label(sr_plot *p, int panel, double x, double y, const char *text)
+{
+    if (panel < 0 || panel >= SR_PLOT_MAX_PANELS || !isfinite(x) || !isfinite(y) || !text || p->nlabels >= 32)
+        return SR_EINVAL;
+    plabel *n = realloc(p->labels, (p->nlabels + 1) * sizeof *n);
+    if (!n)
+        return SR_ENOMEM;
+    p->labels = n;
+    plabel *l = &p->labels[p->nlabels];
+    l->panel = panel;
+    l->x = x;
+    l->y = y;
+    l->text = strdup(text);
+    if (!l->text)
+        return SR_ENOMEM;
+    p->nlabels++;
+    return SR_OK;
+}
+
 void sr_plot_path(char *buf, size_t len, const char *prefix, const char *ext)
 {
     snprintf(buf, len, "%s.%s", prefix, ext);
@@ -419,6 +449,11 @@ static void write_data(FILE *f, const sr_plot *p, const char *name)
         }
         fputc('\n', f);
         write_block_rows(f, b);
+        /* gnuplot reads a block without rows as no block at all, which would
+         * shift the index of every later one: one row of gaps holds its place */
+        if (b->nrows == 0)
+            for (size_t c = 0; c < b->ncols; c++)
+                fputs(c + 1 < b->ncols ? "NaN " : "NaN\n", f);
     }
     /* a band with the spread along x is drawn as a closed outline: low side
      * going up, high side coming back */
@@ -567,6 +602,41 @@ static void write_range(FILE *f, const sr_plot *p, int panel, char axis, double 
     fputs("]\n", f);
 }
 
+/* Tics of one axis: a log axis has its minor tics at 2..9 of each decade;
+ * over three decades or more its labels are powers of ten, over fewer it
+ * gets labelled tics at 2 and 5 of each decade too. A linear axis keeps the
+ * style's. Each panel sets its own: panels share gnuplot's state. */
+static void write_log_tics(FILE *f, const sr_plot *p, int panel, char axis, int log, double lo, double hi)
+{
+    fprintf(f, "set %ctics autofreq\n", axis);
+    if (!log) {
+        fprintf(f, "set m%ctics sr_minor\nset format %c sr_format\n", axis, axis);
+        return;
+    }
+    double dlo, dhi;
+    data_extent(p, panel, axis, &dlo, &dhi);
+    if (!isnan(lo))
+        dlo = lo;
+    if (!isnan(hi))
+        dhi = hi;
+    int known = dlo > 0 && dhi > dlo && isfinite(dhi);
+    int wide = known && log10(dhi / dlo) >= 3 - 1e-9;
+    fprintf(f, "set m%ctics default\nset format %c %s\n", axis, axis, wide ? "'10^{%L}'" : "sr_format");
+    if (!known || wide)
+        return;
+    fprintf(f, "set %ctics add (", axis);
+    int first = 1;
+    for (int k = (int)floor(log10(dlo)); k <= (int)ceil(log10(dhi)); k++)
+        for (int m = 2; m <= 5; m += 3) {
+            double t = m * pow(10.0, k);
+            if (t >= dlo * (1 - 1e-9) && t <= dhi * (1 + 1e-9)) {
+                fprintf(f, "%s%.9g", first ? "" : ", ", t);
+                first = 0;
+            }
+        }
+    fputs(first ? "1)\n" : ")\n", f);
+}
+
 static size_t titled_series(const sr_plot *p)
 {
     size_t n = 0;
@@ -617,6 +687,8 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
     gpq(f, a->ylabel ? a->ylabel : "");
     fputs(" noenhanced\n", f);
     fprintf(f, "%s logscale x\n%s logscale y\n", a->xlog ? "set" : "unset", a->ylog ? "set" : "unset");
+    write_log_tics(f, p, panel, 'x', a->xlog, a->xmin, a->xmax);
+    write_log_tics(f, p, panel, 'y', a->ylog, a->ymin, a->ymax);
     fputs(a->equal ? "set size ratio -1\n" : "set size noratio\n", f);
     write_range(f, p, panel, 'x', a->xmin, a->xmax);
     write_range(f, p, panel, 'y', a->ymin, a->ymax);
@@ -654,6 +726,16 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
         }
         tag++;
     }
+    for (size_t i = 0; i < p->nlabels; i++) {
+        const plabel *l = &p->labels[i];
+        if (l->panel != panel)
+            continue;
+        fprintf(f, "set label %d ", tag++);
+        gpq(f, l->text);
+        fprintf(f, " at first %.9g, first %.9g left offset 0.8,0.6 front boxed noenhanced textcolor rgb sr_ink "
+                   "font sprintf('%%s,%%d', sr_font, sr_small + 1)\n",
+                l->x, l->y);
+    }
     /* bands under bars under ellipses under lines under points */
     int first = 1;
     fputs("plot", f);
@@ -672,10 +754,10 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
                 fprintf(f, "using %d:%d with lines lt %d dt %d", s->x, s->y, lt, dt);
                 break;
             case SR_PLOT_POINTS:
-                fprintf(f, "using %d:%d with points lt %d", s->x, s->y, lt);
+                fprintf(f, "using %d:%d with points lt %d%s", s->x, s->y, lt, s->open ? " pt 6" : "");
                 break;
             case SR_PLOT_LINESPOINTS:
-                fprintf(f, "using %d:%d with linespoints lt %d dt %d", s->x, s->y, lt, dt);
+                fprintf(f, "using %d:%d with linespoints lt %d dt %d%s", s->x, s->y, lt, dt, s->open ? " pt 6" : "");
                 break;
             case SR_PLOT_BAND:
                 if (s->outline)
@@ -756,7 +838,7 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
     for (size_t i = 0; i < p->nseries; i++)
         if (p->series[i].title)
             fprintf(f, "%s%d", k++ ? ", " : "", p->series[i].s.dash + 1);
-    /* 0 line, 1 line over a band patch, 2 point, 3 box */
+    /* 0 line, 1 line over a band patch, 2 point, 3 box, 4 open point */
     fprintf(f, "]\narray sr_key_kind[%zu] = [", n);
     k = 0;
     for (size_t i = 0; i < p->nseries; i++) {
@@ -765,7 +847,7 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
             continue;
         int kind = 0;
         if (s->kind == SR_PLOT_POINTS)
-            kind = 2;
+            kind = s->open ? 4 : 2;
         else if (s->kind == SR_PLOT_BOXES || s->kind == SR_PLOT_ELLIPSES || s->kind == SR_PLOT_BAND ||
                  s->kind == SR_PLOT_BAND_X)
             kind = 3;
@@ -801,6 +883,10 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
                "    }\n"
                "    if (sr_key_kind[i] == 2) {\n"
                "        set label 300 + i '' at screen (sr_x + 14) / width, screen sr_y / height point lt sr_key_lt[i]\n"
+               "    }\n"
+               "    if (sr_key_kind[i] == 4) {\n"
+               "        set label 300 + i '' at screen (sr_x + 14) / width, screen sr_y / height point lt sr_key_lt[i] "
+               "pt 6\n"
                "    }\n"
                "    set label 200 + i sr_key_text[i] at screen (sr_x + 36) / width, screen sr_y / height left "
                "noenhanced textcolor rgb sr_ink\n"
@@ -852,7 +938,7 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
     fputs("# plain defaults; the shared style below sets the real look\n"
           "sr_font = 'Sans'; sr_fontsize = 11; sr_titlesize = 14; sr_small = 8\n"
           "sr_paper = '#ffffff'; sr_ink = '#000000'; sr_muted = '#555555'; sr_band_opacity = 0.2\n"
-          "sr_ml = 90; sr_mr = 30; sr_mt = 80; sr_mb = 100; sr_gap = 80\n"
+          "sr_ml = 90; sr_mr = 30; sr_mt = 80; sr_mb = 100; sr_gap = 80; sr_minor = 2; sr_format = '%g'\n"
           "set style textbox opaque noborder\n",
           f);
     if (style_ok) {
@@ -895,8 +981,9 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
           "font sprintf('%s,%d', sr_font, sr_titlesize) textcolor rgb sr_ink\n",
           f);
     if (p->subtitle) {
-        /* wrapped to the width (10 pt is about 6.3 px a character); each further line pushes the panels down */
-        size_t chars = (size_t)((o->width - 24) / 6.3);
+        /* wrapped to the width (10 pt is about 6.3 px a character, 6.6 to be safe with wide letters); each
+         * further line pushes the panels down */
+        size_t chars = (size_t)((o->width - 24) / 6.6);
         fputs("set label 102 ", f);
         int n = wrap_lines(p->subtitle, chars < 40 ? 40 : chars, emit_gp_piece, f);
         fputs(" at screen 12.0 / width, screen 1 - 52.0 / height left front noenhanced "
@@ -912,7 +999,7 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
         if (p->axes[k].title && p->axes[k].title[0])
             titled = 1;
     if (titled)
-        fputs("sr_mt = sr_mt + 26   # room for the panel titles\n", f);
+        fputs("sr_mt = sr_mt + 32   # room for the panel titles\n", f);
     int vlabels = 0;
     for (size_t i = 0; i < p->nmarkers; i++)
         if (p->markers[i].axis == 'x' && p->markers[i].label)

@@ -37,6 +37,8 @@ typedef struct sr_plot_series {
     int dash;            /* 0 solid, 1 dashed, 2 dotted */
     int outline;         /* bands: draw the low and high edges as thin dotted lines instead of a
                             fill, for figures with many overlapping bands */
+    int open;            /* points, linespoints: open circles instead of the colour's filled symbol,
+                            e.g. unstable or rejected points beside filled ones */
 } sr_plot_series;
 
 typedef enum sr_plot_key {
@@ -94,6 +96,11 @@ int sr_plot_add(sr_plot *p, const sr_plot_series *s);
  * beside it. style 0: a limit (red, dashed), 1: a reference (ground,
  * deployment; brown, dotted). */
 int sr_plot_marker(sr_plot *p, int panel, char axis, double value, const char *label, int style);
+
+/* A short text (plain) beside the data point (x, y) of a panel, to the upper
+ * right of it: the value of a peak or of an equilibrium. It does not widen
+ * the axes; anchor it at a point the series draw. At most 32 a figure. */
+int sr_plot_label(sr_plot *p, int panel, double x, double y, const char *text);
 
 /* Where and how the figure is written. */
 typedef struct sr_plot_out {

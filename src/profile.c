@@ -36,7 +36,8 @@ typedef struct wind_pert {
 typedef struct body {
     int idx;               /* result body */
     sr_section_set secs;
-    double mass, cd_sec;   /* kg; drag area of the sections themselves */
+    double mass, cd_sec;   /* kg; constant drag area of the sections themselves */
+    sr_section_set free;   /* its sections with a Reynolds-dependent drag (in free fall only) */
     unsigned open;         /* stages open on it */
     int cur;               /* last stage deployed on it (time in stage), -1 */
     double t, y[6];        /* east, north, height, and their rates */
@@ -91,6 +92,13 @@ static inline void lag_of(const run *R, double h, double *Le, double *Ln)
     *Ln = R->wp.k * (-R->wp.s * e + R->wp.c * n);
 }
 
+/* No canopy open and sections whose drag depends on the Reynolds number:
+ * the drag curves act, and the fall is integrated to the ground. */
+static inline int in_free_fall(const body *b)
+{
+    return b->open == 0 && b->free != 0;
+}
+
 static double body_cd_full(const run *R, const body *b)
 {
     double C = b->cd_sec;
@@ -123,6 +131,7 @@ static void body_mass(const run *R, body *b)
     const sr_profile_ctx *c = R->c;
     b->mass = 0.0;
     b->cd_sec = 0.0;
+    b->free = b->secs & c->free_secs;
     for (size_t i = 0; i < c->nsec; i++)
         if ((b->secs >> i) & 1u) {
             b->mass += R->sec_mass[i];
@@ -374,7 +383,10 @@ static int rhs(double t, const double y[], double dydt[], void *params)
     wind_of(p->R, y[2], &we, &wn);
     double ue = y[3] - we, un = y[4] - wn, uz = y[5];
     double V = sqrt(ue * ue + un * un + uz * uz);
-    double k = 0.5 * rho * body_cd_at(p->R, p->b, t) * V / p->b->mass;
+    double C = body_cd_at(p->R, p->b, t);
+    if (in_free_fall(p->b))
+        C += free_cda(p->R->c, p->b->free, V, rho, ctx_mu(p->R->c, y[2]), NULL);
+    double k = 0.5 * rho * C * V / p->b->mass;
     dydt[0] = y[3];
     dydt[1] = y[4];
     dydt[2] = y[5];
@@ -389,7 +401,7 @@ static int rhs(double t, const double y[], double dydt[], void *params)
 static int is_steady(const run *R, const body *b)
 {
     double tol = R->c->o.steady_tol;
-    if (!(tol > 0.0))
+    if (!(tol > 0.0) || in_free_fall(b))
         return 0;
     for (size_t k = 0; k < R->c->nstg; k++)
         if (((b->open >> k) & 1u) && (isnan(R->t_f[k]) || b->t < R->t_ls[k] + R->t_f[k] - 1e-12))
@@ -803,9 +815,35 @@ static int touchdown(run *R, body *b)
     rb->speed_land = V;
     rb->ground_speed = hypot(b->y[3], b->y[4]);
     rb->steady_land = b->steady;
+    rb->open = b->open;
     rb->canopies = 0;
     for (unsigned o = b->open; o; o >>= 1)
         rb->canopies += (int)(o & 1u);
+    rb->speed_arrive = rb->v_terminal = NAN;
+    if (in_free_fall(b)) {
+        free_eq eq;
+        if (!R->w)
+            return sr_error_set(R->err, SR_EINVAL, "a workspace is needed for the free-fall equilibria");
+        int rc = free_equilibria(R->c, R->w->root, b->free, b->mass, b->cd_sec, 0.0, &eq, R->err);
+        if (rc)
+            return rc;
+        double rho, a;
+        ctx_air(R->c, 0.0, &rho, &a, NULL);
+        rb->free_fall = 1;
+        rb->equilibria = eq.n;
+        rb->speed_arrive = V;
+        rb->v_terminal = eq.v_fast;
+        rb->drag_warn = eq.warn;
+        (void)free_cda(R->c, b->free, V, rho, ctx_mu(R->c, 0.0), &rb->drag_warn);
+        if (V / a > 0.3)
+            rb->drag_warn |= SR_BLUFF_WARN_MACH;
+        if (eq.n > 1 && eq.v_fast > V) {
+            /* drag crisis: it may as well fall on the fastest branch */
+            rb->crisis = 1;
+            rb->rate_land = fmax(rb->rate_land, eq.v_fast);
+            rb->speed_land = eq.v_fast;
+        }
+    }
     end_stage(R, b);
     add_event(R, SR_EVENT_TOUCHDOWN, -1, b);
     return SR_OK;

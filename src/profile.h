@@ -129,6 +129,17 @@ typedef struct sr_profile_body {
     double ground_speed;    /* horizontal speed over the ground at touchdown, m/s */
     int steady_land;        /* 1 when it lands in steady descent, 0 during a transient */
     int canopies;           /* number of stages open on it at touchdown */
+    unsigned open;          /* those stages (bit k: stage k) */
+    /* Free fall: no canopy open on it and sections with a Reynolds-dependent drag (mission `body:`).
+     * The fall is integrated to the ground with the drag curves (it never switches to quadrature); at the
+     * ground every equilibrium speed is found. With several (drag crisis) the touchdown speed is the
+     * fastest one when the integration arrived slower (conservative). */
+    int free_fall;
+    int equilibria;         /* equilibrium speeds at the ground (free fall), 0 otherwise */
+    int crisis;             /* several equilibria: rate_land and speed_land were raised to v_terminal */
+    double speed_arrive;    /* airspeed the integration arrived with, m/s (free fall; NaN otherwise) */
+    double v_terminal;      /* fastest equilibrium speed at the ground, m/s (free fall; NaN otherwise) */
+    unsigned drag_warn;     /* SR_BLUFF_WARN_* of the drag curves at touchdown (free fall) */
 } sr_profile_body;
 
 typedef struct sr_profile_result {
@@ -187,7 +198,8 @@ int sr_profile_run(const sr_profile_ctx *ctx, const sr_profile_perturb *p, sr_pr
 const sr_profile_result *sr_profile_nominal(const sr_profile_ctx *ctx);
 
 /* Steady descent rate of a body at height h with the stages in `open` (bit
- * set) fully open: v = sqrt(2 m g / (rho CdS)). */
+ * set) fully open: v = sqrt(2 m g / (rho CdS)). Constant drag areas only:
+ * sections with a `body:` add no drag here (they do only in free fall). */
 double sr_profile_steady_rate(const sr_profile_ctx *ctx, sr_section_set body, unsigned open, double h);
 
 /* Air and wind from the context's tables at height h above ground (for

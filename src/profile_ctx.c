@@ -79,6 +79,8 @@ void sr_profile_ctx_free(sr_profile_ctx *c)
         return;
     sr_atmos_free(&c->atmos);
     sr_wind_free(&c->wind);
+    for (size_t i = 0; i < NSEC; i++)
+        sr_bluff_curve_free(&c->sec_curve[i]);
     free(c->block);
     free(c);
 }
@@ -175,7 +177,7 @@ int ctx_build_tables(sr_profile_ctx *c, sr_error *err)
     c->n = n;
     c->top = top;
     c->dh = top / (double)n;
-    c->block = malloc(11 * m * sizeof(double));
+    c->block = malloc(12 * m * sizeof(double));
     if (!c->block)
         return sr_error_set(err, SR_ENOMEM, "out of memory for the profile tables");
     double *b = c->block;
@@ -190,6 +192,7 @@ int ctx_build_tables(sr_profile_ctx *c, sr_error *err)
     c->Jn = b + 8 * m;
     c->Le = b + 9 * m;
     c->Ln = b + 10 * m;
+    c->mu = b + 11 * m;
     for (size_t i = 0; i < m; i++) {
         double h = c->dh * (double)i;
         sr_air air;
@@ -200,6 +203,7 @@ int ctx_build_tables(sr_profile_ctx *c, sr_error *err)
         c->lnrho[i] = log(rho);
         c->a[i] = air.a;
         c->g[i] = air.g;
+        c->mu[i] = air.mu;
         sr_wind_at(&c->wind, h, &c->we[i], &c->wn[i]);
         c->f[i] = sqrt(rho / air.g);
     }
@@ -249,6 +253,13 @@ void ctx_air(const sr_profile_ctx *c, double h, double *rho, double *a, double *
         *a = c->a[i] + t * (c->a[i + 1] - c->a[i]);
     if (g)
         *g = c->g[i] + t * (c->g[i + 1] - c->g[i]);
+}
+
+double ctx_mu(const sr_profile_ctx *c, double h)
+{
+    double t;
+    size_t i = cell_of(c, h, &t);
+    return c->mu[i] + t * (c->mu[i + 1] - c->mu[i]);
 }
 
 /* Cubic Hermite on the cumulative integral with the integrand as slope:
@@ -334,7 +345,8 @@ int profile_work_init(sr_profile_work *w, double tol, sr_error *err)
     w->control = gsl_odeiv2_control_standard_new(tol, tol, 1.0, 0.0);
     w->evolve = gsl_odeiv2_evolve_alloc(6);
     w->quad = gsl_integration_workspace_alloc(256);
-    if (!w->step || !w->control || !w->evolve || !w->quad) {
+    w->root = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    if (!w->step || !w->control || !w->evolve || !w->quad || !w->root) {
         profile_work_release(w);
         return sr_error_set(err, SR_ENOMEM, "out of memory for the ODE and quadrature workspaces");
     }
@@ -351,6 +363,8 @@ void profile_work_release(sr_profile_work *w)
         gsl_odeiv2_evolve_free(w->evolve);
     if (w->quad)
         gsl_integration_workspace_free(w->quad);
+    if (w->root)
+        gsl_root_fsolver_free(w->root);
     memset(w, 0, sizeof *w);
 }
 
@@ -388,6 +402,16 @@ static int copy_mission(sr_profile_ctx *c, const sr_mission *m, sr_error *err)
         c->sec_mass[i] = m->sections[i].mass;
         c->sec_cda[i] = m->sections[i].drag_area;
         c->sec_rigid[i] = m->sections[i].rigid_with;
+        const sr_section *s = &m->sections[i];
+        if (!s->has_body)
+            continue;
+        int rc = sr_bluff_curve_copy(&c->sec_curve[i], &s->curve, err);
+        if (!rc)
+            rc = sr_bluff_body_init(&c->sec_body[i], s->shape, &c->sec_curve[i], s->body_d, s->body_length, s->mass,
+                                    s->shape == SR_BLUFF_TABLE ? s->body_area : NAN, err);
+        if (rc)
+            return rc;
+        c->free_secs |= 1u << i;
     }
     for (size_t k = 0; k < c->nstg; k++) {
         const sr_stage *s = &m->stages[k];

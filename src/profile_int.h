@@ -6,6 +6,9 @@
 
 #include <gsl/gsl_integration.h>
 #include <gsl/gsl_odeiv2.h>
+#include <gsl/gsl_roots.h>
+
+#include "bluff.h"
 
 #include "profile.h"
 
@@ -52,6 +55,10 @@ struct sr_profile_ctx {
     size_t nsec, nstg;
     double sec_mass[NSEC], sec_cda[NSEC];
     int sec_rigid[NSEC];
+    /* sections with Reynolds-dependent drag (mission `body:`), used while no canopy is open on them */
+    sr_section_set free_secs;
+    sr_bluff_curve sec_curve[NSEC]; /* owned copies */
+    sr_bluff_body sec_body[NSEC];   /* .curve points into sec_curve */
     stage_c st[NS];
     double ground;
     double start_h, start_v, start_gamma, heading, start_e, start_n;
@@ -62,6 +69,7 @@ struct sr_profile_ctx {
     size_t n;
     double dh, top;
     double *lnrho, *a, *g;     /* air */
+    double *mu;                /* dynamic viscosity */
     double *we, *wn;           /* wind, east and north */
     double *f;                 /* sqrt(rho / g): dt/dh of a unit steady descent */
     double *I, *Je, *Jn;       /* integrals of f, we f, wn f from 0 to h_i */
@@ -76,6 +84,7 @@ struct sr_profile_work {
     gsl_odeiv2_control *control;
     gsl_odeiv2_evolve *evolve;
     gsl_integration_workspace *quad;
+    gsl_root_fsolver *root;    /* equilibria of a free fall at touchdown */
     double tol;
 };
 
@@ -91,6 +100,28 @@ int ctx_build_tables(sr_profile_ctx *c, sr_error *err);
  * and (when dphi is not NULL) the height derivative of phi = 1/sqrt(rho g). */
 int ctx_direct(const sr_profile_ctx *c, double h, double *f, double *we, double *wn);
 int ctx_phi(const sr_profile_ctx *c, double h, double *phi, double *dphi);
+
+/* Viscosity at height h from the tables (profile_ctx.c). */
+double ctx_mu(const sr_profile_ctx *c, double h);
+
+/* Free fall with Reynolds-dependent drag (profile_free.c). The drag area
+ * sum of Cd_i(Re_i) A_i of the sections in `secs` that have a body, at
+ * airspeed V in air of density rho and viscosity mu; ORs SR_BLUFF_WARN_* into
+ * *warn (may be NULL). */
+double free_cda(const sr_profile_ctx *c, sr_section_set secs, double V, double rho, double mu, unsigned *warn);
+
+/* Every equilibrium speed of a body falling with no canopy open at height h:
+ * m g = 1/2 rho v^2 (cda_const + free_cda(v)). */
+typedef struct free_eq {
+    int n;               /* equilibria found */
+    int nstable;         /* of which stable (drag grows through them) */
+    double v_fast;       /* fastest equilibrium (always stable: drag exceeds weight above it), m/s */
+    double v_slow;       /* slowest stable one, m/s */
+    unsigned warn;       /* SR_BLUFF_WARN_* of the curves at v_fast (Re range, L/D, Mach) */
+} free_eq;
+
+int free_equilibria(const sr_profile_ctx *c, gsl_root_fsolver *s, sr_section_set secs, double mass, double cda_const,
+                    double h, free_eq *out, sr_error *err);
 
 int profile_work_init(sr_profile_work *w, double tol, sr_error *err);
 void profile_work_release(sr_profile_work *w);

@@ -1,14 +1,15 @@
 /* test_cli_freefall.c - `sinkrate freefall` run in-process: every
- * equilibrium in text, CSV and JSON, the trace, the figure files, and the
- * exit codes for bad input and impossible requests. */
+ * equilibrium in text, CSV and JSON, the trace, the figure (PNG, or data and
+ * script without gnuplot), and the exit codes for bad input and impossible
+ * requests. */
 #include <jansson.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <unistd.h>
 
 #include "atmos.h"
+#include "plot.h"
 #include "testutil.h"
 
 #define PI 3.14159265358979323846
@@ -207,44 +208,57 @@ static void test_trace(void **state)
     remove(path);
 }
 
+/* freefall --diameter 0.2 --mass 0.5 at the altitudes given, with --plot
+ * PREFIX (gnuplot hidden when hide); the JSON report's equilibria counted. */
+static void run_plot(const char *prefix, int hide, const char *altitudes, int *n, int *nstable)
+{
+    char *a[] = {"sinkrate", "freefall", "--diameter", "0.2", "--mass", "0.5", "--altitude", (char *)altitudes,
+                 "--format", "json", "--plot", (char *)prefix, "--plot-size", "800x500", NULL};
+    char *out, *err;
+    sr_test_cli_figure(&out, &err, hide, (int)(sizeof a / sizeof a[0]) - 1, a);
+    double v[16];
+    *n = (int)json_speeds(out, v, 16, nstable);
+    free(out);
+    free(err);
+}
+
+/* The figure's files, with the drag curve and every equilibrium of the
+ * report in the data. */
+static void check_figure(const char *prefix, int rendered, int n, int nstable)
+{
+    char path[600];
+    snprintf(path, sizeof path, "%s.dat", prefix);
+    assert_int_equal(sr_test_dat_rows(path, "Cd(Re)"), 401);
+    assert_int_equal(sr_test_dat_rows(path, "stable equilibria"), nstable);
+    assert_int_equal(sr_test_dat_rows(path, "unstable equilibria"), n - nstable);
+    sr_test_check_figure(prefix, rendered, 800, 500, "freefall figure");
+}
+
 static void test_plot(void **state)
 {
     (void)state;
-    char prefix[] = "/tmp/sinkrate-ff-plot-XXXXXX";
-    int fd = mkstemp(prefix);
-    assert_true(fd >= 0);
-    close(fd);
-    remove(prefix);
-    char *out, *err;
-    char *a[] = {"freefall", "--diameter", "0.2", "--mass", "0.5", "--altitude", "0,3000", "--plot", prefix, NULL};
-    assert_int_equal(run(&out, &err, a), 0);
-    char p[256];
-    snprintf(p, sizeof p, "%s.dat", prefix);
-    FILE *f = fopen(p, "r");
-    assert_non_null(f);
-    char line[1024];
-    int caution = 0;
-    while (fgets(line, sizeof line, f))
-        caution |= strstr(line, "CAUTION") != NULL;
-    fclose(f);
-    assert_true(caution);
-    remove(p);
-    snprintf(p, sizeof p, "%s.gp", prefix);
-    f = fopen(p, "r");
-    assert_non_null(f);
-    caution = 0;
-    while (fgets(line, sizeof line, f))
-        caution |= strstr(line, "CAUTION") != NULL;
-    fclose(f);
-    assert_true(caution);
-    remove(p);
-    snprintf(p, sizeof p, "%s.png", prefix);
-    if (access(p, F_OK) == 0)
-        remove(p);
-    else
-        assert_non_null(strstr(err, "gnuplot not found"));
-    free(out);
-    free(err);
+    char dir[] = "/tmp/sinkrate-ff-plot-XXXXXX";
+    assert_non_null(mkdtemp(dir));
+    char gnuplot[1024], prefix[300], path[320];
+    int have = sr_plot_find_gnuplot(gnuplot, sizeof gnuplot), n, ns;
+    for (int hide = 0; hide < 2; hide++) {
+        /* two altitudes: the curve and speed vs altitude */
+        snprintf(prefix, sizeof prefix, "%s/%s/two", dir, hide ? "without" : "with");
+        run_plot(prefix, hide, "0,3000", &n, &ns);
+        assert_true(n >= 2 && ns >= 2);
+        check_figure(prefix, have && !hide, n, ns);
+    }
+    /* one altitude: the curve alone, each equilibrium labelled with its speed */
+    snprintf(prefix, sizeof prefix, "%s/one", dir);
+    run_plot(prefix, 0, "0", &n, &ns);
+    assert_int_equal(n, 3);
+    check_figure(prefix, have, n, ns);
+    snprintf(path, sizeof path, "%s.gp", prefix);
+    assert_true(sr_test_file_has(path, " m/s, stable' at first "));
+    assert_true(sr_test_file_has(path, " m/s, unstable' at first "));
+    char cmd[400];
+    snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
+    assert_int_equal(system(cmd), 0);
 }
 
 typedef struct bad_case {
@@ -275,6 +289,9 @@ static const bad_case BAD[] = {
     {NULL, {"--diameter", "1", "--mass", "1", "--altitude", "5 km:1 km:1 km"}, 2, "--altitude"},
     {NULL, {"--diameter", "1", "--mass", "1", "--trace", "--steps", "0"}, 2, "--steps"},
     {NULL, {"--diameter", "1", "--mass", "1", "--steps", "5"}, 2, "goes with --trace"},
+    {NULL, {"--diameter", "1", "--mass", "1", "stray"}, 2, "unexpected argument 'stray' (freefall takes options only)"},
+    {NULL, {"--diameter", "1", "--mass", "2e5"}, 2, "--mass: 200000 kg is beyond any payload"},
+    {NULL, {"--diameter", "1"}, 2, "--mass: the body's mass is required"},
     {NULL, {"--diameter", "1", "--mass", "1", "--area", "1"}, 2, "--area"},
     {NULL, {"--diameter", "1", "--mass", "1", "--frobnicate"}, 2, "frobnicate"},
     /* valid but impossible: far too light for any speed the curves cover */

@@ -6,10 +6,9 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/stat.h>
-#include <unistd.h>
 #include <jansson.h>
 
+#include "plot.h"
 #include "report.h"
 #include "testutil.h"
 
@@ -175,44 +174,61 @@ static void test_mission(void **state)
     free(err);
 }
 
+/* loads with args and --plot PREFIX, gnuplot hidden when hide. */
+static void run_plot(const char *prefix, int hide, const char *const *args)
+{
+    char *argv[40];
+    int argc = 0;
+    argv[argc++] = "sinkrate";
+    argv[argc++] = "loads";
+    for (size_t i = 0; args[i]; i++)
+        argv[argc++] = (char *)args[i];
+    char *tail[] = {"--plot", (char *)prefix, "--plot-size", "800x500", NULL};
+    for (size_t i = 0; tail[i]; i++)
+        argv[argc++] = tail[i];
+    argv[argc] = NULL;
+    char *out, *err;
+    sr_test_cli_figure(&out, &err, hide, argc, argv);
+    free(out);
+    free(err);
+}
+
+/* One figure's files, with the ODE's samples in the data. */
+static void check_figure(const char *prefix, int rendered)
+{
+    char path[600];
+    snprintf(path, sizeof path, "%s.dat", prefix);
+    assert_int_equal(sr_test_dat_rows(path, "inflation ODE"), 301);
+    sr_test_check_figure(prefix, rendered, 800, 500, "loads figure");
+}
+
 static void test_plot_files(void **state)
 {
     (void)state;
     char dir[] = "/tmp/sinkrate-loads-XXXXXX";
     assert_non_null(mkdtemp(dir));
-    char prefix[300], path[320];
-    snprintf(prefix, sizeof prefix, "%s/open", dir);
-    char *out, *err;
-    int rc = sr_test_cli(&out, &err, "loads", "--mass", "5 kg", "--speed", "30", "--family", "conical",
-                         "--nominal-diameter", "1.5 m", "--plot", prefix, "--plot-format", "svg", NULL);
-    if (rc)
-        print_error("%s\n", err);
-    assert_int_equal(rc, 0);
-    free(out);
-    free(err);
-    struct stat st;
-    snprintf(path, sizeof path, "%s.dat", prefix);
-    assert_int_equal(stat(path, &st), 0);
-    FILE *f = fopen(path, "r");
-    assert_non_null(f);
-    char line[1024];
-    int data = 0, caution = 0;
-    while (fgets(line, sizeof line, f)) {
-        if (line[0] != '#')
-            data++;
-        else if (strstr(line, "CAUTION"))
-            caution = 1;
+    char gnuplot[1024], prefix[300];
+    int have = sr_plot_find_gnuplot(gnuplot, sizeof gnuplot);
+    static const char *const ONE[] = {"--mass", "5 kg", "--speed", "30", "--family", "conical",
+                                      "--nominal-diameter", "1.5 m", NULL};
+    for (int hide = 0; hide < 2; hide++) {
+        snprintf(prefix, sizeof prefix, "%s/%s/open", dir, hide ? "without" : "with");
+        run_plot(prefix, hide, ONE);
+        check_figure(prefix, have && !hide);
     }
-    fclose(f);
-    assert_int_equal(data, 301);
-    assert_true(caution);
-    remove(path);
-    snprintf(path, sizeof path, "%s.gp", prefix);
-    assert_int_equal(stat(path, &st), 0);
-    remove(path);
-    snprintf(path, sizeof path, "%s.svg", prefix);
-    remove(path); /* rendered only when gnuplot is installed */
-    rmdir(dir);
+    /* a mission: one figure a stage */
+    const char *mis[] = {"--mission", sr_test_path(DEMO), NULL};
+    snprintf(prefix, sizeof prefix, "%s/mission", dir);
+    run_plot(prefix, 0, mis);
+    static const char *const STAGES[] = {"drogue", "main"};
+    for (size_t i = 0; i < 2; i++) {
+        char stage[400];
+        snprintf(stage, sizeof stage, "%s-%s", prefix, STAGES[i]);
+        check_figure(stage, have);
+    }
+    char cmd[400];
+    snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
+    assert_int_equal(system(cmd), 0);
 }
 
 static void test_caution_everywhere(void **state)
@@ -253,6 +269,8 @@ static const struct {
     {{"--speed", "30", "--cluster-allowance", "0.5"}, "--cluster-allowance"},
     {{"--speed", "30", "--stage", "main"}, "--stage"},
     {{"--speed", "30", "--altitude", "90 km"}, "--altitude"},
+    {{"--speed", "30", "stray"}, "unexpected argument 'stray' (loads takes options only)"},
+    {{"--speed", "30", "--mass", "2e5 kg"}, "--mass: 200000 kg is beyond any payload"},
     {{NULL}, "--speed"},
 };
 

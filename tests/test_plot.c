@@ -14,8 +14,6 @@
 #include "report.h"
 #include "testutil.h"
 
-#define PNG_SPEC "PNG specification (W3C REC / ISO/IEC 15948:2004) sec. 5.2 signature, 11.2.2 IHDR"
-
 static char tmpdir[256];
 static char gnuplot[1024];
 
@@ -69,22 +67,6 @@ static char *slurp(const char *path, size_t *len)
             *len = (size_t)n;
     }
     return b;
-}
-
-/* Width and height from a PNG's IHDR chunk; 0 when not a PNG. */
-static int png_size(const char *path, unsigned *w, unsigned *h)
-{
-    size_t n = 0;
-    unsigned char *b = (unsigned char *)slurp(path, &n);
-    static const unsigned char SIG[8] = {0x89, 'P', 'N', 'G', 0x0d, 0x0a, 0x1a, 0x0a};
-    int ok = b && n > 24 && memcmp(b, SIG, 8) == 0 && memcmp(b + 12, "IHDR", 4) == 0 && b[8] == 0 && b[9] == 0 &&
-             b[10] == 0 && b[11] == 13;
-    if (ok) {
-        *w = (unsigned)b[16] << 24 | (unsigned)b[17] << 16 | (unsigned)b[18] << 8 | b[19];
-        *h = (unsigned)b[20] << 24 | (unsigned)b[21] << 16 | (unsigned)b[22] << 8 | b[23];
-    }
-    free(b);
-    return ok;
 }
 
 /* A figure with every kind of series, markers and two panels. */
@@ -178,12 +160,12 @@ static void render_png(const char *name, int width, int height)
     char png[600];
     snprintf(png, sizeof png, "%s.png", o.prefix);
     unsigned w = 0, h = 0;
-    assert_true(png_size(png, &w, &h));
+    assert_true(sr_test_png_size(png, &w, &h));
     char q[128];
     snprintf(q, sizeof q, "PNG width from IHDR, figure of %dx%d px", width, height);
-    CHECK_ABS(q, PNG_SPEC, width, w, 0);
+    CHECK_ABS(q, SR_SRC_PNG, width, w, 0);
     snprintf(q, sizeof q, "PNG height from IHDR, figure of %dx%d px", width, height);
-    CHECK_ABS(q, PNG_SPEC, height, h, 0);
+    CHECK_ABS(q, SR_SRC_PNG, height, h, 0);
     sr_plot_free(p);
 }
 
@@ -239,13 +221,80 @@ static void test_stacked_outlined(void **state)
     if (diag[0])
         fail_msg("gnuplot warned: %s", diag);
     unsigned w, h;
-    assert_true(png_size(tpath("stacked.png"), &w, &h));
+    assert_true(sr_test_png_size(tpath("stacked.png"), &w, &h));
     assert_int_equal(w, 700);
     assert_int_equal(h, 900);
     /* outlined bands need no outline polygon blocks: five curve blocks only */
     char *dat = slurp(tpath("stacked.dat"), NULL);
     assert_null(strstr(dat, "outline of the band"));
     free(dat);
+    sr_plot_free(p);
+}
+
+/* Log-log axes with a curve, filled and open points and labels beside
+ * points, after a block without rows: the script asks for what was set, and
+ * gnuplot draws it without a warning (a lost index warns of no valid points). */
+static void test_log_axes_open_points_labels(void **state)
+{
+    (void)state;
+    sr_plot *p = sr_plot_new("log axes");
+    sr_plot_axes a;
+    sr_plot_axes_init(&a);
+    a.xlabel = "Reynolds number";
+    a.ylabel = "drag coefficient";
+    a.xlog = a.ylog = 1;
+    a.xmin = 1e2;
+    a.xmax = 1e7;
+    a.ymin = 0.02;
+    a.ymax = 2;
+    a.key = SR_PLOT_KEY_ABOVE;
+    assert_int_equal(sr_plot_set_axes(p, 0, &a), 0);
+    const char *n[] = {"Re", "Cd"};
+    size_t curve, filled, open;
+    assert_int_equal(sr_plot_block(p, "curve", 2, n, &curve), 0);
+    for (int i = 0; i <= 50; i++) {
+        double re = 1e2 * pow(10.0, i / 10.0), r[2] = {re, re < 3e5 ? 0.47 : 0.1};
+        sr_plot_row(p, curve, r);
+    }
+    double f[2] = {1e4, 0.47}, o[2] = {3e5, 0.2};
+    size_t none;
+    assert_int_equal(sr_plot_block(p, "a block without rows keeps its index", 2, n, &none), 0);
+    assert_int_equal(sr_plot_block(p, "filled", 2, n, &filled), 0);
+    assert_int_equal(sr_plot_row(p, filled, f), 0);
+    assert_int_equal(sr_plot_block(p, "open", 2, n, &open), 0);
+    assert_int_equal(sr_plot_row(p, open, o), 0);
+    sr_plot_series sc = {.kind = SR_PLOT_LINES, .block = curve, .x = 1, .y = 2, .title = "curve"};
+    sr_plot_series sf = {.kind = SR_PLOT_POINTS, .block = filled, .x = 1, .y = 2, .color = 7, .title = "filled"};
+    sr_plot_series so = {.kind = SR_PLOT_POINTS, .block = open, .x = 1, .y = 2, .color = 7, .open = 1,
+                         .title = "open"};
+    assert_int_equal(sr_plot_add(p, &sc), 0);
+    assert_int_equal(sr_plot_add(p, &sf), 0);
+    assert_int_equal(sr_plot_add(p, &so), 0);
+    assert_int_equal(sr_plot_label(p, 0, f[0], f[1], "22.9 m/s, stable"), 0);
+    assert_int_equal(sr_plot_label(p, 0, o[0], o[1], "it's open"), 0);
+    assert_int_equal(sr_plot_label(p, 0, NAN, 1, "x"), SR_EINVAL);
+    assert_int_equal(sr_plot_label(p, 2, 1, 1, "x"), SR_EINVAL);
+    sr_plot_out out = {.prefix = tpath("log"), .style = sr_test_path("plots/sinkrate.gp"), .format = "png",
+                       .width = 800, .height = 500};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &out, &e), 0);
+    char *gp = slurp(tpath("log.gp"), NULL);
+    assert_non_null(gp);
+    assert_non_null(strstr(gp, "set logscale x\nset logscale y\n"));
+    assert_non_null(strstr(gp, "with points lt 7 pt 6"));
+    assert_non_null(strstr(gp, "'22.9 m/s, stable' at first 10000, first 0.47"));
+    assert_non_null(strstr(gp, "'it''s open'"));
+    free(gp);
+    char diag[2048];
+    int rc = sr_plot_render(gnuplot, out.prefix, "png", diag, sizeof diag, &e);
+    if (rc)
+        fail_msg("%s", e.msg);
+    if (diag[0])
+        fail_msg("gnuplot warned: %s", diag);
+    unsigned w, h;
+    assert_true(sr_test_png_size(tpath("log.png"), &w, &h));
+    CHECK_ABS("PNG width from IHDR, log-axes figure of 800x500 px", SR_SRC_PNG, 800, w, 0);
+    CHECK_ABS("PNG height from IHDR, log-axes figure of 800x500 px", SR_SRC_PNG, 500, h, 0);
     sr_plot_free(p);
 }
 
@@ -376,7 +425,7 @@ static void test_hostile_text(void **state)
     unsigned w, h;
     char png[600];
     snprintf(png, sizeof png, "%s.png", o.prefix);
-    assert_true(png_size(png, &w, &h));
+    assert_true(sr_test_png_size(png, &w, &h));
     sr_plot_free(p);
 }
 
@@ -395,7 +444,7 @@ static void test_missing_style_falls_back(void **state)
     if (rc)
         fail_msg("%s", e.msg);
     unsigned w, h;
-    assert_true(png_size(tpath("nostyle.png"), &w, &h));
+    assert_true(sr_test_png_size(tpath("nostyle.png"), &w, &h));
     assert_int_equal(w, 600);
     sr_plot_free(p);
 }
@@ -452,6 +501,7 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_png_sizes),
         cmocka_unit_test(test_stacked_outlined),
+        cmocka_unit_test(test_log_axes_open_points_labels),
         cmocka_unit_test(test_svg),
         cmocka_unit_test(test_caution_and_data_round_trip),
         cmocka_unit_test(test_rejected_script),

@@ -20,7 +20,6 @@
 #include "testutil.h"
 
 #define USSA "U.S. Standard Atmosphere 1976 (NOAA-S/T 76-1562) printed tables, via references/atmosphere-1976.md 1.4"
-#define PNG_SPEC "PNG specification (ISO/IEC 15948:2004) sec. 11.2.2 IHDR"
 
 static char tmpdir[256];
 
@@ -559,22 +558,6 @@ static void test_bad_ranges_are_one_line(void **state)
 
 /* ---- figures through the command line ---- */
 
-static int png_size(const char *path, unsigned *w, unsigned *h)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return 0;
-    unsigned char b[24];
-    size_t n = fread(b, 1, sizeof b, f);
-    fclose(f);
-    static const unsigned char SIG[8] = {0x89, 'P', 'N', 'G', 0x0d, 0x0a, 0x1a, 0x0a};
-    if (n < 24 || memcmp(b, SIG, 8) != 0 || memcmp(b + 12, "IHDR", 4) != 0)
-        return 0;
-    *w = (unsigned)b[16] << 24 | (unsigned)b[17] << 16 | (unsigned)b[18] << 8 | b[19];
-    *h = (unsigned)b[20] << 24 | (unsigned)b[21] << 16 | (unsigned)b[22] << 8 | b[23];
-    return 1;
-}
-
 static int exists(const char *path)
 {
     struct stat st;
@@ -596,12 +579,12 @@ static void figure(const char *name, const char *const *args)
         fail_msg("%s: exit %d: %s", name, rc, err);
     snprintf(png, sizeof png, "%s.png", prefix);
     unsigned w = 0, h = 0;
-    assert_true(png_size(png, &w, &h));
+    assert_true(sr_test_png_size(png, &w, &h));
     char q[128];
     snprintf(q, sizeof q, "PNG width of the '%s' sweep figure (--plot-size 800x500)", name);
-    CHECK_ABS(q, PNG_SPEC, 800, w, 0);
+    CHECK_ABS(q, SR_SRC_PNG, 800, w, 0);
     snprintf(q, sizeof q, "PNG height of the '%s' sweep figure (--plot-size 800x500)", name);
-    CHECK_ABS(q, PNG_SPEC, 500, h, 0);
+    CHECK_ABS(q, SR_SRC_PNG, 500, h, 0);
     free(out);
     free(err);
 }
@@ -683,7 +666,7 @@ static void test_without_gnuplot(void **state)
         fail_msg("%s", e.msg);
     assert_string_equal(diag, "");
     unsigned w, h;
-    assert_true(png_size(path, &w, &h));
+    assert_true(sr_test_png_size(path, &w, &h));
     assert_int_equal(w, 1000);
     free(out);
     free(err);

@@ -109,3 +109,95 @@ int sr_test_lines(const char *s)
             n++;
     return n;
 }
+
+int sr_test_png_size(const char *path, unsigned *w, unsigned *h)
+{
+    FILE *f = fopen(path, "rb");
+    if (!f)
+        return 0;
+    unsigned char b[24];
+    size_t n = fread(b, 1, sizeof b, f);
+    fclose(f);
+    static const unsigned char SIG[8] = {0x89, 'P', 'N', 'G', 0x0d, 0x0a, 0x1a, 0x0a};
+    /* the first chunk is IHDR, 13 bytes long */
+    if (n < 24 || memcmp(b, SIG, 8) != 0 || memcmp(b + 8, "\0\0\0\x0dIHDR", 8) != 0)
+        return 0;
+    *w = (unsigned)b[16] << 24 | (unsigned)b[17] << 16 | (unsigned)b[18] << 8 | b[19];
+    *h = (unsigned)b[20] << 24 | (unsigned)b[21] << 16 | (unsigned)b[22] << 8 | b[23];
+    return 1;
+}
+
+int sr_test_file_has(const char *path, const char *text)
+{
+    FILE *f = fopen(path, "r");
+    if (!f)
+        return 0;
+    char line[4096];
+    int found = 0;
+    while (!found && fgets(line, sizeof line, f))
+        found = strstr(line, text) != NULL;
+    fclose(f);
+    return found;
+}
+
+int sr_test_dat_rows(const char *path, const char *title)
+{
+    FILE *f = fopen(path, "r");
+    if (!f)
+        return -1;
+    char line[4096];
+    int in = 0, rows = -1;
+    while (fgets(line, sizeof line, f)) {
+        if (!in) {
+            char *close = strncmp(line, "# [", 3) == 0 ? strstr(line, "] ") : NULL;
+            if (close && strncmp(close + 2, title, strlen(title)) == 0) {
+                in = 1;
+                rows = 0;
+            }
+            continue;
+        }
+        if (line[0] == '\n')
+            break;
+        if (line[0] != '#')
+            rows++;
+    }
+    fclose(f);
+    return rows;
+}
+
+void sr_test_cli_figure(char **out, char **err, int hide, int argc, char **argv)
+{
+    char *old = strdup(getenv("PATH") ? getenv("PATH") : "");
+    if (hide)
+        setenv("PATH", "/nonexistent", 1);
+    int rc = sr_test_cli_argv(out, err, argc, argv);
+    setenv("PATH", old, 1);
+    free(old);
+    if (rc)
+        fail_msg("exit %d: %s", rc, *err);
+    if (hide && !strstr(*err, "gnuplot is not on PATH"))
+        fail_msg("no note that gnuplot is missing: %s", *err);
+    if (!hide && strstr(*err, "gnuplot:"))
+        fail_msg("gnuplot warned: %s", *err);
+}
+
+void sr_test_check_figure(const char *prefix, int rendered, unsigned w, unsigned h, const char *what)
+{
+    char path[4200], q[256];
+    snprintf(path, sizeof path, "%s.dat", prefix);
+    assert_true(sr_test_file_has(path, "CAUTION"));
+    snprintf(path, sizeof path, "%s.gp", prefix);
+    assert_true(sr_test_file_has(path, "CAUTION"));
+    assert_true(sr_test_file_has(path, "load style"));
+    snprintf(path, sizeof path, "%s.png", prefix);
+    unsigned pw = 0, ph = 0;
+    if (!rendered) {
+        assert_false(sr_test_png_size(path, &pw, &ph));
+        return;
+    }
+    assert_true(sr_test_png_size(path, &pw, &ph));
+    snprintf(q, sizeof q, "PNG width of the %s (--plot-size %ux%u)", what, w, h);
+    CHECK_ABS(q, SR_SRC_PNG, w, pw, 0);
+    snprintf(q, sizeof q, "PNG height of the %s (--plot-size %ux%u)", what, w, h);
+    CHECK_ABS(q, SR_SRC_PNG, h, ph, 0);
+}

@@ -35,4 +35,27 @@ const char *sr_test_tmpfile(const char *suffix, const char *text);
 /* Count newline-terminated lines of s. */
 int sr_test_lines(const char *s);
 
+/* The source of figure checks: a PNG starts with its signature and the IHDR
+ * chunk, which holds the width and height. */
+#define SR_SRC_PNG "PNG specification (W3C REC / ISO/IEC 15948:2004) sec. 5.2 signature, 11.2.2 IHDR"
+/* Width and height of a PNG file from its IHDR chunk; 0 when it is not a PNG. */
+int sr_test_png_size(const char *path, unsigned *w, unsigned *h);
+
+/* Run the CLI like sr_test_cli_argv with --plot among argv, gnuplot hidden
+ * from PATH when hide; the test fails on a non-zero exit, on a missing note
+ * that gnuplot is not there (hidden), or on a gnuplot warning (not hidden). */
+void sr_test_cli_figure(char **out, char **err, int hide, int argc, char **argv);
+/* The files of a figure written with --plot PREFIX: data and script with the
+ * caution, the script loading the shared style, and the PNG of w x h pixels
+ * when rendered (checked against the PNG specification, the check named by
+ * what), or no PNG when not. */
+void sr_test_check_figure(const char *prefix, int rendered, unsigned w, unsigned h, const char *what);
+
+/* Whether the file at path contains text (0 when it cannot be read). */
+int sr_test_file_has(const char *path, const char *text);
+/* Data rows of the first block of a figure's .dat file whose title (its
+ * header "# [N] title") starts with title; -1 when the file or the block is
+ * missing. */
+int sr_test_dat_rows(const char *path, const char *title);
+
 #endif

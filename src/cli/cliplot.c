@@ -43,9 +43,11 @@ static int make_parent(const char *prefix)
 
 int sr_cli_plot(sr_cli *c, const sr_plot *p, int argc, char **argv)
 {
-    const char *prefix = c->plot_prefix;
-    if (!prefix)
-        return 0;
+    return c->plot_prefix ? sr_cli_plot_to(c, p, c->plot_prefix, argc, argv) : 0;
+}
+
+int sr_cli_plot_to(sr_cli *c, const sr_plot *p, const char *prefix, int argc, char **argv)
+{
     char style[PATH_MAX + 32] = "", dir[PATH_MAX], real[PATH_MAX];
     if (sr_cli_data_dir(c, dir, sizeof dir) == 0 && realpath(dir, real))
         snprintf(style, sizeof style, "%s/plots/sinkrate.gp", real);

@@ -19,5 +19,7 @@ extern const char SR_HELP_PLOT[];
  * the command's own argument list, recorded in the script's header. Returns
  * 0 or an exit code (message printed). */
 int sr_cli_plot(sr_cli *c, const sr_plot *p, int argc, char **argv);
+/* The same to another prefix than --plot's (one figure of several). */
+int sr_cli_plot_to(sr_cli *c, const sr_plot *p, const char *prefix, int argc, char **argv);
 
 #endif

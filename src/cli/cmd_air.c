@@ -51,11 +51,9 @@ int sr_cmd_air(sr_cli *c, int argc, char **argv)
 {
     air_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
     if (rc)
         return rc;
-    if (first < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (air takes options only)", argv[first]);
     if (o.altitude && (o.from || o.to || o.step))
         return sr_cli_fail(c, "--altitude: give either a list or --from/--to/--step, not both");
     sr_atmos atm;

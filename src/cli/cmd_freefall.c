@@ -1,22 +1,15 @@
 /* cmd_freefall.c - `sinkrate freefall`: the speed of a body falling without a
  * canopy, with Reynolds-dependent drag: every equilibrium at each altitude,
  * its stability, and on request the classical fixed-point iteration. */
-#define _DEFAULT_SOURCE
-#include <fcntl.h>
 #include <math.h>
-#include <spawn.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/wait.h>
-#include <unistd.h>
 
 #include "bluff.h"
+#include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
-#include "fileio.h"
-
-extern char **environ;
 
 enum {
     OPT_BODY = OPT_COMMAND_BASE,
@@ -77,10 +70,9 @@ static const char HELP[] =
     "                           (default: the site elevation, or 0)\n"
     "  --trace                  show the fixed-point iteration at each altitude\n"
     "  --start-cd CD            its starting drag coefficient (default 1)\n"
-    "  --steps N                its step limit (default 50, at most 200)\n"
-    "  --plot PREFIX            write PREFIX.dat and PREFIX.gp (Cd(Re) with the equilibria,\n"
-    "                           speed vs altitude) and render them when gnuplot is installed\n"
-    "  --plot-format png|svg    figure format (default png)\n\n";
+    "  --steps N                its step limit (default 50, at most 200)\n\n"
+    "The figure (with --plot): the drag curve Cd(Re) with the weight lines and every\n"
+    "equilibrium on it and, with several altitudes, the equilibrium speeds over altitude.\n\n";
 
 typedef struct ff_opts {
     const char *body, *diameter, *length, *mass, *cd_table, *interp, *area, *curve, *start_cd, *steps, *altitude;
@@ -183,181 +175,197 @@ typedef struct ff_result {
     sr_bluff_equilibria eq;
 } ff_result;
 
-/* gnuplot string literal: the caution and file names go in double quotes. */
-static void gp_quote(FILE *f, const char *s)
+/* A round value at or below (up = 0) or at or above (up = 1) v > 0: 1, 2 or
+ * 5 times a power of ten, for the ends of a log axis. */
+static double round_125(double v, int up)
 {
-    fputc('"', f);
-    for (; *s; s++) {
-        if (*s == '\n') {
-            fputs("\\n", f);
-            continue;
-        }
-        if (*s == '"' || *s == '\\')
-            fputc('\\', f);
-        fputc(*s, f);
+    static const double M[] = {1, 2, 5, 10};
+    double p = pow(10.0, floor(log10(v)));
+    if (up) {
+        for (int i = 0; i < 4; i++)
+            if (M[i] * p >= v * (1 - 1e-12))
+                return M[i] * p;
+        return 10 * p;
     }
-    fputc('"', f);
+    for (int i = 3; i >= 0; i--)
+        if (M[i] * p <= v * (1 + 1e-12))
+            return M[i] * p;
+    return p;
 }
 
-static int write_mem(sr_cli *c, const char *path, char *buf, size_t len)
+/* The weight line Cd = K / Re^2 of one altitude (drag = weight, with the speed
+ * written through Re = rho v D / mu), clipped to the panel: a straight line
+ * on log-log axes, so its two ends suffice. */
+static int weight_line(sr_plot *p, const sr_bluff_body *b, const ff_result *r, const double *box, const char *title,
+                       int color)
 {
-    sr_error e;
-    int rc = sr_file_write_atomic(path, buf, len, &e);
-    free(buf);
-    if (rc)
-        return sr_cli_fail(c, "--plot: %s", e.msg);
-    return 0;
+    const sr_air *a = &r->air;
+    double K = 2.0 * b->mass * a->g * a->rho * b->d * b->d / (b->area * a->mu * a->mu);
+    double x0 = fmax(box[0], sqrt(K / box[3])), x1 = fmin(box[1], sqrt(K / box[2]));
+    if (!(x1 > x0))
+        return 0;
+    const char *names[] = {"Re", "Cd"};
+    double rows[2][2] = {{x0, K / (x0 * x0)}, {x1, K / (x1 * x1)}};
+    size_t blk;
+    int rc = sr_plot_block(p, title, 2, names, &blk);
+    for (int i = 0; i < 2 && !rc; i++)
+        rc = sr_plot_row(p, blk, rows[i]);
+    sr_plot_series s = {.kind = SR_PLOT_LINES, .block = blk, .x = 1, .y = 2, .title = title, .color = color,
+                        .dash = 1};
+    return rc ? rc : sr_plot_add(p, &s);
 }
 
-/* No plot module yet: the data file and script are written here. */
-static int write_plot(sr_cli *c, const sr_bluff_body *b, const ff_result *res, size_t n)
+/* Colours of the figure (the shared style's eight, in turn): the curve,
+ * the weight lines, the equilibria (whose symbol is a circle, filled or open). */
+#define FF_CURVE 1
+#define FF_EQUILIBRIA 7
+static const int FF_WEIGHT[] = {6, 3, 5};
+
+static int figure(sr_cli *c, const sr_bluff_body *b, const sr_atmos *atm, const ff_result *res, size_t n, int argc,
+                  char **argv)
 {
-    char dat[4096], gp[4096], img[4096];
-    const char *ext = strcmp(c->plot_format, "svg") == 0 ? "svg" : "png";
-    snprintf(dat, sizeof dat, "%s.dat", c->plot_prefix);
-    snprintf(gp, sizeof gp, "%s.gp", c->plot_prefix);
-    snprintf(img, sizeof img, "%s.%s", c->plot_prefix, ext);
-    double lo = INFINITY, hi = 0;
-    for (size_t i = 0; i < n; i++)
+    sr_unit_system us = c->units;
+    const char *ul = sr_units_label(SR_Q_LENGTH, us), *uv = sr_units_label(SR_Q_SPEED, us);
+    double lo = INFINITY, hi = 0, zlo = INFINITY, zhi = -INFINITY;
+    for (size_t i = 0; i < n; i++) {
+        zlo = fmin(zlo, res[i].z);
+        zhi = fmax(zhi, res[i].z);
         for (size_t k = 0; k < res[i].eq.n; k++) {
             lo = fmin(lo, res[i].eq.root[k].re);
             hi = fmax(hi, res[i].eq.root[k].re);
         }
+    }
+    /* two decades below the equilibria and one above show where the curve goes */
     lo = pow(10.0, floor(log10(lo)) - 2);
     hi = pow(10.0, ceil(log10(hi)) + 1);
-    sr_unit_system us = c->units;
-    const char *ul = sr_units_label(SR_Q_LENGTH, us), *uv = sr_units_label(SR_Q_SPEED, us);
-
-    char *buf = NULL;
-    size_t len = 0;
-    FILE *f = open_memstream(&buf, &len);
-    if (!f)
+    sr_plot *p = sr_plot_new(n > 1 ? "Free fall: drag curve, equilibria and speed vs altitude"
+                                   : "Free fall: drag curve and equilibria");
+    if (!p)
         return sr_cli_fail(c, "out of memory");
-    fprintf(f, "# sinkrate freefall: drag curve, equilibria, speed vs altitude\n# ");
-    fputs(sr_report_caution(), f);
-    fprintf(f, "\n# drag curve %s: %s\n# Cd on %s\n", b->curve->name, b->curve->source, b->area_ref);
-    fprintf(f, "# index 0: Re, Cd of the body (dotted lines in the figure: the curve's validity range)\n");
+    char sub[700], atmos[200], size[160], m[48], dl[48], ll[48];
+    sr_cli_atmos_short(atm, us, atmos, sizeof atmos);
+    sr_report_format_value(dl, sizeof dl, b->d, SR_Q_LENGTH, us, 3);
+    sr_report_format_value(m, sizeof m, b->mass, SR_Q_MASS, us, 3);
+    if (b->shape == SR_BLUFF_CYLINDER) {
+        sr_report_format_value(ll, sizeof ll, b->length, SR_Q_LENGTH, us, 3);
+        snprintf(size, sizeof size, "D %s, L %s", dl, ll);
+    } else {
+        snprintf(size, sizeof size, "D %s", dl);
+    }
+    snprintf(sub, sizeof sub,
+             "%s, %s, %s; drag curve %s; %s. Equilibria where a dashed weight line (drag = weight at an altitude) "
+             "crosses the curve: filled stable, open unstable.",
+             body_word(b->shape), size, m, b->curve->name, atmos);
+    int rc = sr_plot_subtitle(p, sub) || sr_plot_layout(p, n > 1 ? 2 : 1, 0);
+
+    /* the drag curve */
+    const char *cn[] = {"Re", "Cd"};
+    size_t blk;
     double cdmin = INFINITY, cdmax = 0;
-    for (int i = 0; i <= 400; i++) {
-        double re = lo * pow(hi / lo, i / 400.0), cd = sr_bluff_body_cd(b, re, NULL);
-        cdmin = fmin(cdmin, cd);
-        cdmax = fmax(cdmax, cd);
-        fprintf(f, "%.6e %.6e\n", re, cd);
+    char title[160];
+    snprintf(title, sizeof title, "Cd(Re), %s", b->curve->name);
+    rc = rc || sr_plot_block(p, title, 2, cn, &blk);
+    for (int i = 0; i <= 400 && !rc; i++) {
+        double re = lo * pow(hi / lo, i / 400.0), row[2] = {re, sr_bluff_body_cd(b, re, NULL)};
+        cdmin = fmin(cdmin, row[1]);
+        cdmax = fmax(cdmax, row[1]);
+        rc = sr_plot_row(p, blk, row);
     }
-    fprintf(f, "\n\n# index 1: equilibria: Re, Cd, altitude [%s], speed [%s], stable (1/0)\n", ul, uv);
-    for (size_t i = 0; i < n; i++)
-        for (size_t k = 0; k < res[i].eq.n; k++) {
+    sr_plot_series curve = {.kind = SR_PLOT_LINES, .block = blk, .x = 1, .y = 2, .title = title, .color = FF_CURVE};
+    rc = rc || sr_plot_add(p, &curve);
+
+    char yl[160];
+    snprintf(yl, sizeof yl, "drag coefficient Cd (%s)", b->area_ref);
+    sr_plot_axes a;
+    sr_plot_axes_init(&a);
+    a.title = n > 1 ? "drag curve and weight lines" : NULL;
+    a.xlabel = "Reynolds number (length D)";
+    a.ylabel = yl;
+    a.xlog = a.ylog = 1;
+    a.xmin = lo;
+    a.xmax = hi;
+    a.ymin = round_125(cdmin / 2, 0);
+    a.ymax = round_125(cdmax * 2, 1);
+    a.key = SR_PLOT_KEY_ABOVE;
+    rc = rc || sr_plot_set_axes(p, 0, &a);
+    double box[4] = {a.xmin, a.xmax, a.ymin, a.ymax};
+
+    /* weight lines: the first, middle and last altitude (more would hide the curve) */
+    size_t pick[3] = {0, n / 2, n - 1}, npick = n < 3 ? n : 3;
+    for (size_t j = 0; j < npick && !rc; j++) {
+        char z[48];
+        sr_report_format_value(z, sizeof z, res[pick[j]].z, SR_Q_LENGTH, us, SR_FIXED(0));
+        snprintf(title, sizeof title, "weight at %s", z);
+        rc = weight_line(p, b, &res[pick[j]], box, title, FF_WEIGHT[j]);
+    }
+
+    /* the equilibria: stable and unstable, on the curve and over altitude */
+    char zn[48], vn[48];
+    snprintf(zn, sizeof zn, "altitude[%s]", ul);
+    snprintf(vn, sizeof vn, "speed[%s]", uv);
+    const char *en[] = {"Re", "Cd", zn, vn};
+    size_t eb[2];
+    int single = 1;
+    rc = rc || sr_plot_block(p, "unstable equilibria", 4, en, &eb[0]) ||
+         sr_plot_block(p, "stable equilibria", 4, en, &eb[1]);
+    for (size_t i = 0; i < n && !rc; i++) {
+        single &= res[i].eq.n == 1;
+        for (size_t k = 0; k < res[i].eq.n && !rc; k++) {
             const sr_bluff_root *r = &res[i].eq.root[k];
-            fprintf(f, "%.6e %.6e %.6g %.6g %d\n", r->re, r->cd, sr_units_from_si(res[i].z, SR_Q_LENGTH, us),
-                    sr_units_from_si(r->v, SR_Q_SPEED, us), r->stable);
+            double row[4] = {r->re, r->cd, sr_units_from_si(res[i].z, SR_Q_LENGTH, us),
+                             sr_units_from_si(r->v, SR_Q_SPEED, us)};
+            rc = sr_plot_row(p, eb[r->stable != 0], row);
+            if (!rc && n == 1) {
+                char v[48], label[96];
+                sr_report_format_value(v, sizeof v, r->v, SR_Q_SPEED, us, 3);
+                snprintf(label, sizeof label, "%s, %s", v, r->stable ? "stable" : "unstable");
+                rc = sr_plot_label(p, 0, r->re, r->cd, label);
+            }
         }
-    fprintf(f, "\n\n# index 2: weight lines Cd = K / Re^2, one per altitude: altitude [%s], K\n", ul);
-    for (size_t i = 0; i < n; i++) {
-        const sr_air *a = &res[i].air;
-        double K = 2.0 * b->mass * a->g * a->rho * b->d * b->d / (b->area * a->mu * a->mu);
-        fprintf(f, "%.6g %.10e\n", sr_units_from_si(res[i].z, SR_Q_LENGTH, us), K);
     }
-    fclose(f);
-    int rc = write_mem(c, dat, buf, len);
-    if (rc)
-        return rc;
-
-    buf = NULL;
-    len = 0;
-    f = open_memstream(&buf, &len);
-    if (!f)
-        return sr_cli_fail(c, "out of memory");
-    fprintf(f, "# sinkrate freefall figure; run: gnuplot %s\n", gp);
-    if (strcmp(ext, "svg") == 0)
-        fprintf(f, "set terminal svg size 1200,560 dynamic font 'Sans,11'\n");
-    else
-        fprintf(f, "set terminal pngcairo size 1200,560 font 'Sans,10'\n");
-    fprintf(f, "set output ");
-    gp_quote(f, img);
-    fprintf(f, "\nset multiplot layout 1,%d\nset bmargin 7\n", n > 1 ? 2 : 1);
-    /* the caution on the figure, broken into lines that fit its width */
-    char caution[1024];
-    const char *cs = sr_report_caution();
-    size_t k = 0, col = 0;
-    for (; *cs && k + 2 < sizeof caution; cs++) {
-        if (*cs == ' ' && col > 150) {
-            caution[k++] = '\n';
-            col = 0;
+    for (int s = 1; s >= 0 && !rc; s--) {
+        if (sr_plot_block_rows(p, eb[s]) == 0)
             continue;
-        }
-        caution[k++] = *cs;
-        col++;
+        sr_plot_series on_curve = {.kind = SR_PLOT_POINTS, .block = eb[s], .x = 1, .y = 2, .color = FF_EQUILIBRIA,
+                                   .open = !s, .title = s ? "stable equilibrium" : "unstable equilibrium"};
+        /* one equilibrium at every altitude: one branch, drawn as a line */
+        sr_plot_series over_z = {.kind = s && single ? SR_PLOT_LINESPOINTS : SR_PLOT_POINTS, .panel = 1,
+                                 .block = eb[s], .x = 4, .y = 3, .color = FF_EQUILIBRIA, .open = !s};
+        rc = sr_plot_add(p, &on_curve) || (n > 1 && sr_plot_add(p, &over_z));
     }
-    caution[k] = '\0';
-    fprintf(f, "set label 99 ");
-    gp_quote(f, caution);
-    fprintf(f, " at screen 0.01,0.07 font ',8'\n");
-    fprintf(f, "set logscale xy\nset grid\nset format xy '%%g'\nset xlabel 'Reynolds number'\n"
-               "set ylabel 'Cd (%s)'\n", b->area_ref);
-    fprintf(f, "set yrange [%g:%g]\n", cdmin / 3, cdmax * 3);
-    if (b->curve->re_min > lo)
-        fprintf(f, "set arrow 1 from %g, graph 0 to %g, graph 1 nohead dt 3\n", b->curve->re_min, b->curve->re_min);
-    if (isfinite(b->curve->re_max) && b->curve->re_max < hi)
-        fprintf(f, "set arrow 2 from %g, graph 0 to %g, graph 1 nohead dt 3\n", b->curve->re_max, b->curve->re_max);
-    fprintf(f, "set title ");
-    char title[512];
-    snprintf(title, sizeof title, "Drag curve %s; equilibria where a weight line crosses it",
-             b->curve->name);
-    gp_quote(f, title);
-    fprintf(f, "\nset key bottom left\nset xrange [%g:%g]\n", lo, hi);
-    fprintf(f, "plot ");
-    gp_quote(f, dat);
-    fprintf(f, " index 0 using 1:2 with lines lw 2 title 'Cd(Re)', \\\n     ");
-    for (size_t i = 0; i < n && i < 8; i++) {
-        const sr_air *a = &res[i].air;
-        double K = 2.0 * b->mass * a->g * a->rho * b->d * b->d / (b->area * a->mu * a->mu);
-        char t[96];
-        sr_report_format_value(t, sizeof t, res[i].z, SR_Q_LENGTH, us, 4);
-        fprintf(f, "%.10e/x**2 with lines dt 2 title 'weight, %s', \\\n     ", K, t);
-    }
-    gp_quote(f, dat);
-    fprintf(f, " index 1 using 1:($5==1?$2:1/0) with points pt 7 ps 1.5 title 'stable', \\\n     ");
-    gp_quote(f, dat);
-    fprintf(f, " index 1 using 1:($5==0?$2:1/0) with points pt 6 ps 1.5 title 'unstable'\n");
-    if (n > 1) {
-        fprintf(f, "unset logscale\nunset arrow\nset autoscale xy\nunset label 99\n");
-        fprintf(f, "set xlabel 'free-fall speed [%s]'\nset ylabel 'altitude [%s]'\n", uv, ul);
-        /* lines only when each altitude has one equilibrium: branches cannot be told apart */
-        int single = 1;
-        for (size_t i = 0; i < n; i++)
-            single &= res[i].eq.n == 1;
-        fprintf(f, "set title 'Equilibrium speed vs altitude'\nset key bottom right\n"
-                   "set offsets graph 0.05, graph 0.05, graph 0.05, graph 0.05\n");
-        fprintf(f, "plot ");
-        gp_quote(f, dat);
-        fprintf(f, " index 1 using ($5==1?$4:1/0):3 with %s pt 7 title 'stable', \\\n     ",
-                single ? "linespoints" : "points");
-        gp_quote(f, dat);
-        fprintf(f, " index 1 using ($5==0?$4:1/0):3 with points pt 6 title 'unstable'\n");
-    }
-    fprintf(f, "unset multiplot\nset output\n");
-    fclose(f);
-    if ((rc = write_mem(c, gp, buf, len)))
-        return rc;
 
-    /* render when gnuplot is on PATH; a missing gnuplot is not an error */
-    pid_t pid;
-    char *argv[] = {"gnuplot", gp, NULL};
-    posix_spawn_file_actions_t fa;
-    posix_spawn_file_actions_init(&fa);
-    posix_spawn_file_actions_addopen(&fa, 1, "/dev/null", O_WRONLY, 0);
-    posix_spawn_file_actions_addopen(&fa, 2, "/dev/null", O_WRONLY, 0);
-    int st = posix_spawnp(&pid, "gnuplot", &fa, NULL, argv, environ);
-    posix_spawn_file_actions_destroy(&fa);
-    if (st != 0) {
-        fprintf(c->err, "sinkrate freefall: gnuplot not found; wrote %s and %s (render with: gnuplot %s)\n", dat,
-                gp, gp);
-        return 0;
+    /* the curve's own validity range, when the axis goes beyond it */
+    char mark[64];
+    if (!rc && b->curve->re_min > lo) {
+        snprintf(mark, sizeof mark, "curve data from Re %.3g", b->curve->re_min);
+        rc = sr_plot_marker(p, 0, 'x', b->curve->re_min, mark, 1);
     }
-    int status = 0;
-    if (waitpid(pid, &status, 0) < 0 || !WIFEXITED(status) || WEXITSTATUS(status) != 0)
-        return sr_cli_fail(c, "--plot: gnuplot could not render %s (see gnuplot %s)", img, gp);
-    return 0;
+    if (!rc && isfinite(b->curve->re_max) && b->curve->re_max < hi) {
+        snprintf(mark, sizeof mark, "to Re %.3g", b->curve->re_max);
+        rc = sr_plot_marker(p, 0, 'x', b->curve->re_max, mark, 1);
+    }
+
+    if (!rc && n > 1) {
+        char xl[64], zl[96];
+        snprintf(xl, sizeof xl, "free-fall speed [%s]", uv);
+        snprintf(zl, sizeof zl, "altitude above sea level [%s]", ul);
+        sr_plot_axes_init(&a);
+        a.title = "equilibrium speed vs altitude";
+        a.xlabel = xl;
+        a.ylabel = zl;
+        a.xmin = 0;
+        double pad = 0.04 * (zhi - zlo);
+        a.ymin = sr_units_from_si(zlo - pad, SR_Q_LENGTH, us);
+        a.ymax = sr_units_from_si(zhi + pad, SR_Q_LENGTH, us);
+        a.key = SR_PLOT_KEY_NONE;
+        rc = sr_plot_set_axes(p, 1, &a);
+    }
+    if (rc)
+        rc = sr_cli_fail(c, "out of memory");
+    else
+        rc = sr_cli_plot(c, p, argc, argv);
+    sr_plot_free(p);
+    return rc;
 }
 
 /* ---- the command --------------------------------------------------------- */
@@ -416,11 +424,9 @@ int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
 {
     ff_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
     if (rc)
         return rc;
-    if (first < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (freefall takes options only)", argv[first]);
 
     sr_bluff_shape shape = SR_BLUFF_SPHERE;
     if (o.body) {
@@ -447,17 +453,15 @@ int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
         return sr_cli_fail(c, "--length: only a cylinder has a length");
     if (!o.diameter)
         return sr_cli_fail(c, "--diameter: the body's diameter is required");
-    if (!o.mass)
-        return sr_cli_fail(c, "--mass: the body's mass is required");
     if (shape == SR_BLUFF_CYLINDER && !o.length)
         return sr_cli_fail(c, "--length: a cylinder needs its length");
     if (!o.trace && (o.start_cd || o.steps))
         return sr_cli_fail(c, "%s: goes with --trace", o.start_cd ? "--start-cd" : "--steps");
 
-    double d, mass, len = 0, area = NAN, cd0 = 1.0;
+    double d, mass = NAN, len = 0, area = NAN, cd0 = 1.0;
     long steps = 50;
     if ((rc = sr_cli_quantity(c, "--diameter", o.diameter, SR_Q_LENGTH, 1, &d)) ||
-        (rc = sr_cli_quantity(c, "--mass", o.mass, SR_Q_MASS, 1, &mass)))
+        (rc = sr_cli_mass(c, o.mass, "the body's mass", &mass)))
         return rc;
     if (o.length && (rc = sr_cli_quantity(c, "--length", o.length, SR_Q_LENGTH, 1, &len)))
         return rc;
@@ -467,8 +471,6 @@ int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
         return rc;
     if (o.steps && (rc = sr_cli_count(c, "--steps", o.steps, 1, SR_BLUFF_TRACE_MAX, &steps)))
         return rc;
-    if (mass > 1e5)
-        return sr_cli_fail(c, "--mass: %g kg is beyond any body this tool is meant for", mass);
     sr_bluff_interp kind = SR_BLUFF_LOGLOG;
     if (o.interp) {
         if (strcmp(o.interp, "steffen") == 0)
@@ -620,10 +622,9 @@ int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
                           "v = sqrt(2 m g / (rho A Cd)), its Reynolds number Re = rho v D / mu, look up Cd(Re), repeat "
                           "until Cd changes by less than %g of itself.", TRACE_TOL);
     }
-    if ((rc = sr_cli_emit(c, r)))
+    if (c->plot_prefix && (rc = figure(c, &body, &atm, res, nalt, argc, argv)))
         goto out;
-    if (c->plot_prefix)
-        rc = write_plot(c, &body, res, nalt);
+    rc = sr_cli_emit(c, r);
 out:
     sr_report_free(r);
     free(res);

@@ -3,20 +3,15 @@
  * strengths; for a mission file, at every stage's deployment. */
 #define _DEFAULT_SOURCE
 #include <math.h>
-#include <spawn.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/wait.h>
-#include <unistd.h>
 
+#include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "descent.h"
-#include "fileio.h"
 #include "mission.h"
 #include "opening.h"
-
-extern char **environ;
 
 enum {
     OPT_MASS = OPT_COMMAND_BASE, OPT_SPEED, OPT_ALTITUDE, OPT_PATH_ANGLE, OPT_DESIGN_FACTOR, OPT_EXPONENT,
@@ -67,10 +62,10 @@ static const char HELP[] =
     "                           deploys at the start state, later ones at the previous\n"
     "                           stage's steady descent rate, straight down\n"
     "  --stage NAME             only this stage of the mission (then --speed and --path-angle\n"
-    "                           may replace its deployment state)\n"
-    "  --plot PREFIX            force vs time from the ODE with the closed-form peaks marked:\n"
-    "                           PREFIX.dat, PREFIX.gp and, with gnuplot, PREFIX.png (or .svg)\n"
-    "  --plot-format png|svg    figure format (default png)\n\n";
+    "                           may replace its deployment state)\n\n"
+    "The figure (with --plot): force vs time from the inflation ODE at the typical ends of\n"
+    "the bands, with each method's peak marked; for a whole mission, one figure a stage,\n"
+    "PREFIX-STAGE.png.\n\n";
 
 typedef struct loads_opts {
     const char *mass, *speed, *altitude, *angle, *design, *exponent, *fill, *cx, *allowance, *mission, *stage;
@@ -234,8 +229,6 @@ static void notes_common(sr_report *r, int recalled, double design, int cluster)
                              "rigger's and the applicable standard's call, not this tool's.");
 }
 
-static int write_plot(sr_cli *c, const deploy *d, const char *prefix);
-
 /* A band, or a single value when the band has no width. */
 static void band_or_value(sr_report *r, const char *key, const char *label, double lo, double typ, double hi,
                           sr_quantity q, int sig)
@@ -346,148 +339,146 @@ static int report_one(sr_cli *c, sr_report *r, deploy *d, int mission_stage, con
             sr_report_value(r, "required_strength_canopy", "required rated strength, each canopy and riser",
                             hi->strength_canopy, SR_Q_FORCE, 4);
     }
-    if (c->plot_prefix)
-        return write_plot(c, d, c->plot_prefix);
     return 0;
 }
 
 /* ---- the figure: ODE force vs time (typical case), closed-form peaks marked */
 
-static int render(sr_cli *c, const char *gp)
+/* One method's peak: a level line across the figure, in the legend with its
+ * value, and a point at its time when the method has one. */
+static int peak_series(sr_plot *p, sr_unit_system sys, const char *what, const sr_opening_peak *pk, double tend,
+                       int color, int dash)
 {
-    /* run gnuplot when it is on PATH; its absence is not an error */
-    const char *path = getenv("PATH");
-    int found = 0;
-    if (path) {
-        char buf[4096];
-        snprintf(buf, sizeof buf, "%s", path);
-        char *save = NULL;
-        for (char *dir = strtok_r(buf, ":", &save); dir && !found; dir = strtok_r(NULL, ":", &save)) {
-            char cand[4200];
-            snprintf(cand, sizeof cand, "%s/gnuplot", *dir ? dir : ".");
-            found = access(cand, X_OK) == 0;
-        }
+    char fv[48], tv[48], title[200], fname[48];
+    sr_report_format_value(fv, sizeof fv, pk->force, SR_Q_FORCE, sys, 4);
+    if (isfinite(pk->time)) {
+        sr_report_format_value(tv, sizeof tv, pk->time, SR_Q_TIME, sys, 3);
+        snprintf(title, sizeof title, "%s: %s at %s", what, fv, tv);
+    } else {
+        snprintf(title, sizeof title, "%s: %s", what, fv);
     }
-    if (!found)
-        return 0;
-    pid_t pid;
-    char *argv[] = {(char *)"gnuplot", (char *)gp, NULL};
-    posix_spawn_file_actions_t fa;
-    posix_spawn_file_actions_init(&fa);
-    posix_spawn_file_actions_addopen(&fa, 1, "/dev/null", 1 /* O_WRONLY */, 0);
-    int rc = posix_spawnp(&pid, "gnuplot", &fa, NULL, argv, environ);
-    posix_spawn_file_actions_destroy(&fa);
-    if (rc != 0)
-        return 0;
-    int st = 0;
-    waitpid(pid, &st, 0);
-    if (!WIFEXITED(st) || WEXITSTATUS(st) != 0)
-        return sr_cli_fail(c, "--plot: gnuplot failed on %s", gp);
-    return 0;
+    snprintf(fname, sizeof fname, "force[%s]", sr_units_label(SR_Q_FORCE, sys));
+    const char *names[] = {"time[s]", fname};
+    double f = sr_units_from_si(pk->force, SR_Q_FORCE, sys);
+    double level[2][2] = {{0, f}, {tend, f}};
+    size_t b;
+    int rc = sr_plot_block(p, title, 2, names, &b);
+    for (int i = 0; i < 2 && !rc; i++)
+        rc = sr_plot_row(p, b, level[i]);
+    sr_plot_series line = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 2, .title = title, .color = color,
+                           .dash = dash};
+    if (rc || (rc = sr_plot_add(p, &line)) || !isfinite(pk->time))
+        return rc;
+    double at[2] = {pk->time, f};
+    sr_plot_series point = {.kind = SR_PLOT_POINTS, .x = 1, .y = 2, .color = color};
+    if ((rc = sr_plot_block(p, "the peak at its time", 2, names, &point.block)) ||
+        (rc = sr_plot_row(p, point.block, at)))
+        return rc;
+    return sr_plot_add(p, &point);
 }
 
-static int write_plot(sr_cli *c, const deploy *d, const char *prefix)
+/* What the figure is of, in a line: the deployment and the canopy. */
+static void figure_subtitle(const deploy *d, sr_unit_system sys, char *buf, size_t len)
+{
+    char m[48], v[48], a[48], z[48], d0[48], cds[48], cl[32] = "";
+    sr_report_format_value(m, sizeof m, d->mass, SR_Q_MASS, sys, 3);
+    sr_report_format_value(v, sizeof v, d->v[1], SR_Q_SPEED, sys, 3);
+    sr_report_format_value(a, sizeof a, d->angle, SR_Q_ANGLE, sys, 3);
+    sr_report_format_value(z, sizeof z, d->z, SR_Q_LENGTH, sys, SR_FIXED(0));
+    sr_report_format_value(d0, sizeof d0, d->in[1].d0, SR_Q_LENGTH, sys, 3);
+    sr_report_format_value(cds, sizeof cds, d->res[1].cds_total, SR_Q_AREA, sys, 3);
+    if (d->cp->count > 1)
+        snprintf(cl, sizeof cl, "%d x ", d->cp->count);
+    snprintf(buf, len,
+             "%s at %s, %s below the horizontal, altitude %s; %s%s D0 %s, CD0 S0 %s (typical). Line: the ODE's "
+             "drag without CX; level lines: each method's peak force with CX, with a point at its time.",
+             m, v, a, z, cl, d->cp->fam.id, d0, cds);
+}
+
+/* A round top for a force axis a tenth above the highest value, so no level
+ * line sits on the frame. */
+static double round_top(double v)
+{
+    static const double STEPS[] = {1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6, 8, 10};
+    double target = 1.1 * v, p = pow(10.0, floor(log10(target)));
+    for (size_t i = 0; i < sizeof STEPS / sizeof STEPS[0]; i++)
+        if (STEPS[i] * p >= target)
+            return STEPS[i] * p;
+    return 10 * p;
+}
+
+static int figure(sr_cli *c, const deploy *d, const char *prefix, int argc, char **argv)
 {
     enum { N = 301 };
     const sr_opening_result *t = &d->res[1];
+    sr_unit_system sys = c->units;
     double tend = 2 * t->t_fill;
     if (t->ode.kind != SR_PEAK_STEADY && t->ode.time > 0.5 * tend)
         tend = 2 * t->ode.time;
-    double *ts = malloc(2 * N * sizeof *ts);
-    if (!ts)
-        return sr_cli_fail(c, "out of memory");
-    double *fs = ts + N;
+    double ts[N], fs[N];
     sr_error e;
-    if (sr_opening_trace(&d->in[1], tend, N, ts, fs, &e) != SR_OK) {
-        free(ts);
+    if (sr_opening_trace(&d->in[1], tend, N, ts, fs, &e) != SR_OK)
         return sr_cli_fail(c, "--plot: %s", e.msg);
-    }
-    const char *fu = sr_units_label(SR_Q_FORCE, c->units);
-    char *dat = NULL, *gp = NULL;
-    size_t dl = 0, gl = 0;
-    FILE *f = open_memstream(&dat, &dl);
-    FILE *g = open_memstream(&gp, &gl);
-    if (!f || !g) {
-        if (f)
-            fclose(f);
-        if (g)
-            fclose(g);
-        free(dat);
-        free(gp);
-        free(ts);
+    char title[160], sub[600], xl[64], yl[96], fname[48], tf[48], mark[96];
+    snprintf(title, sizeof title, "Opening force vs time%s%s", d->name[0] ? ", stage " : "", d->name);
+    figure_subtitle(d, sys, sub, sizeof sub);
+    snprintf(xl, sizeof xl, "time after line stretch [%s]", sr_units_label(SR_Q_TIME, sys));
+    snprintf(yl, sizeof yl, "force on the payload, all canopies [%s]", sr_units_label(SR_Q_FORCE, sys));
+    snprintf(fname, sizeof fname, "force[%s]", sr_units_label(SR_Q_FORCE, sys));
+    sr_report_format_value(tf, sizeof tf, t->t_fill, SR_Q_TIME, sys, 3);
+    snprintf(mark, sizeof mark, "full inflation, t_f %s", tf);
+    sr_plot *p = sr_plot_new(title);
+    if (!p)
         return sr_cli_fail(c, "out of memory");
-    }
-    fprintf(f, "# sinkrate loads: inflation ODE drag force vs time (growth model, without CX), typical band "
-               "end\n# %s\n", sr_report_caution());
-    fprintf(f, "# time [s]\tforce [%s]\n", fu);
+    sr_plot_axes a;
+    sr_plot_axes_init(&a);
+    a.xlabel = xl;
+    a.ylabel = yl;
+    a.xmin = 0;
+    a.xmax = tend;
+    a.ymin = 0;
+    double top = fmax(t->ode.force, fmax(t->pflanz.force, t->olf.force));
     for (int i = 0; i < N; i++)
-        fprintf(f, "%.6g\t%.6g\n", ts[i], sr_units_from_si(fs[i], SR_Q_FORCE, c->units));
-    fclose(f);
-
-    const char *fmt = c->plot_format ? c->plot_format : "png";
-    const char *base = strrchr(prefix, '/');
-    base = base ? base + 1 : prefix;
-    double fp = sr_units_from_si(t->pflanz.force, SR_Q_FORCE, c->units);
-    double fo = sr_units_from_si(t->olf.force, SR_Q_FORCE, c->units);
-    double fe = sr_units_from_si(t->ode.force, SR_Q_FORCE, c->units);
+        top = fmax(top, fs[i]);
+    a.ymax = round_top(sr_units_from_si(top, SR_Q_FORCE, sys));
+    a.key = SR_PLOT_KEY_ABOVE;
+    const char *names[] = {"time[s]", fname};
+    size_t b;
+    int rc = sr_plot_subtitle(p, sub) || sr_plot_set_axes(p, 0, &a) ||
+             sr_plot_block(p, "inflation ODE: drag of the growth model without CX, typical band end", 2, names, &b);
+    for (int i = 0; i < N && !rc; i++) {
+        double row[2] = {ts[i], sr_units_from_si(fs[i], SR_Q_FORCE, sys)};
+        rc = sr_plot_row(p, b, row);
+    }
+    sr_plot_series drag = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 2, .color = 1,
+                           .title = "ODE drag, without CX"};
     int steady = t->ode.kind == SR_PEAK_STEADY;
-    fprintf(g, "# sinkrate loads: opening force figure (gnuplot)\n# %s\n", sr_report_caution());
-    if (strcmp(fmt, "svg") == 0)
-        fprintf(g, "set terminal svg size 900,560 dynamic enhanced font 'sans,11'\n");
-    else
-        fprintf(g, "set terminal pngcairo size 900,560 enhanced font 'sans,10'\n");
-    fprintf(g, "set output '%s.%s'\n", base, fmt);
-    fprintf(g, "set title 'Opening force%s%s: inflation ODE with closed-form peaks' noenhanced\n",
-            d->name[0] ? ", " : "", d->name);
-    fprintf(g, "set xlabel 'time after line stretch [s]'\nset ylabel 'force, all canopies [%s]'\n", fu);
-    double ymax = fmax(fe, fmax(fp, fo));
-    for (int i = 0; i < N; i++)
-        ymax = fmax(ymax, sr_units_from_si(fs[i], SR_Q_FORCE, c->units));
-    fprintf(g, "set grid\nset key top right box opaque\nset yrange [0:%.6g]\n", 1.3 * ymax);
-    fprintf(g, "set arrow from %.6g, graph 0 to %.6g, graph 1 nohead dashtype 3 lc rgb '#777777'\n", t->t_fill,
-            t->t_fill);
-    fprintf(g, "set label 2 'full inflation' at %.6g, graph 0.04 offset 0.5,0 tc rgb '#555555'\n", t->t_fill);
-    fprintf(g, "set bmargin 6\nset label 1 \"%s\" at screen 0.02, screen 0.03 font ',7' noenhanced\n",
-            "Preliminary estimates only; not for parachutes that carry people. See the caution in the output.");
-    fprintf(g,
-            "plot '%s.dat' using 1:2 with lines lw 2 lc rgb '#1f5fa8' title 'inflation ODE drag (without CX)', \\\n"
-            "     %.6g with lines dashtype 2 lc rgb '#c0392b' title 'Pflanz peak (no gravity)', \\\n"
-            "     %.6g with lines dashtype 4 lc rgb '#2e8b57' title 'opening-load-factor peak', \\\n"
-            "     %.6g with lines dashtype 1 lw 1 lc rgb '#7d3c98' title '%s', \\\n"
-            "     '-' using 1:2 with points pt 7 ps 1.2 lc rgb '#c0392b' notitle\n%.6g %.6g\ne\n",
-            base, fp, fo, fe, steady ? "ODE peak: steady drag = weight" : "ODE peak (with CX)", t->pflanz.time,
-            fp);
-    fclose(g);
-    free(ts);
-
-    char path[4096];
-    int rc = 0;
-    snprintf(path, sizeof path, "%s.dat", prefix);
-    if (sr_file_write_atomic(path, dat, dl, &e) != SR_OK)
-        rc = sr_cli_fail(c, "--plot: %s", e.msg);
-    snprintf(path, sizeof path, "%s.gp", prefix);
-    if (!rc && sr_file_write_atomic(path, gp, gl, &e) != SR_OK)
-        rc = sr_cli_fail(c, "--plot: %s", e.msg);
-    free(dat);
-    free(gp);
+    if (!rc)
+        rc = sr_plot_add(p, &drag) ||
+             peak_series(p, sys, steady ? "ODE peak, steady drag = weight" : "ODE peak \u00d7 CX", &t->ode, tend, 1,
+                         1) ||
+             peak_series(p, sys, "Pflanz, no gravity", &t->pflanz, tend, 2, 1) ||
+             peak_series(p, sys, "opening-load factor", &t->olf, tend, 3, 2) ||
+             sr_plot_marker(p, 0, 'x', t->t_fill, mark, 1);
     if (rc)
-        return rc;
-    /* gnuplot runs in the prefix's directory so the script's relative names hold */
-    char dir[4096];
-    snprintf(dir, sizeof dir, "%s", prefix);
-    char *slash = strrchr(dir, '/');
-    char cwd[4096];
-    if (!getcwd(cwd, sizeof cwd))
-        return sr_cli_fail(c, "--plot: cannot read the working directory");
-    if (slash) {
-        *slash = '\0';
-        if (chdir(*dir ? dir : "/") != 0)
-            return sr_cli_fail(c, "--plot: cannot enter %s", dir);
+        rc = sr_cli_fail(c, "out of memory");
+    else
+        rc = sr_cli_plot_to(c, p, prefix, argc, argv);
+    sr_plot_free(p);
+    return rc;
+}
+
+/* One figure, or one a stage (PREFIX-STAGE) for a whole mission. */
+static int figures(sr_cli *c, const deploy *ds, size_t n, int argc, char **argv)
+{
+    int rc = 0;
+    if (n == 1)
+        return figure(c, &ds[0], c->plot_prefix, argc, argv);
+    for (size_t i = 0; i < n && !rc; i++) {
+        char pre[4096];
+        snprintf(pre, sizeof pre, "%s-%s", c->plot_prefix, ds[i].name);
+        rc = figure(c, &ds[i], pre, argc, argv);
     }
-    snprintf(path, sizeof path, "%s.gp", base);
-    rc = render(c, path);
-    if (slash && chdir(cwd) != 0)
-        return sr_cli_fail(c, "--plot: cannot return to %s", cwd);
     return rc;
 }
 
@@ -612,11 +603,9 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
 {
     loads_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
     if (rc)
         return rc;
-    if (first < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (loads takes options only)", argv[first]);
     tweaks tw;
     if ((rc = parse_tweaks(c, &o, &tw)))
         return rc;
@@ -642,28 +631,14 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail(c, "out of memory");
         goto out;
     }
-    if ((rc = sr_cli_catalog(c, &cat)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
-    if (o.mission) {
-        if ((rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
-            goto out;
+    if (mis)
         mass = sr_mission_total_mass(mis);
-    } else {
-        if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
-            goto out;
-        if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
-            goto out;
-    }
-    if (o.mass && (rc = sr_cli_quantity(c, "--mass", o.mass, SR_Q_MASS, 1, &mass)))
+    else if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
         goto out;
-    if (isnan(mass)) {
-        rc = sr_cli_fail(c, "--mass: the mass the canopy decelerates is required");
+    if ((rc = sr_cli_mass(c, o.mass, "the mass the canopy decelerates", &mass)))
         goto out;
-    }
-    if (mass > 1e5) {
-        rc = sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", mass);
-        goto out;
-    }
 
     if (mis && !o.speed) {
         if ((rc = mission_deploys(c, mis, &atm, mass, ds, &nd, o.stage)))
@@ -738,21 +713,14 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
             goto out;
         sr_report_note(r, "Stages after the first deploy at the previous stage's steady descent rate, straight "
                           "down; `sinkrate loads --mission FILE --stage NAME` shows one stage in full.");
-        if (c->plot_prefix) {
-            for (size_t i = 0; i < nd && !rc; i++) {
-                char pre[4096];
-                snprintf(pre, sizeof pre, "%s-%s", c->plot_prefix, ds[i].name);
-                rc = write_plot(c, &ds[i], pre);
-            }
-            if (rc)
-                goto out;
-        }
     }
     for (size_t i = 0; i < nd; i++) {
         warn_common(r, &ds[i], &recalled, nd > 1);
         cluster |= ds[i].cp->count > 1;
     }
     notes_common(r, recalled, isnan(tw.design) ? 0 : tw.design, cluster);
+    if (c->plot_prefix && (rc = figures(c, ds, nd, argc, argv)))
+        goto out;
     rc = sr_cli_emit(c, r);
 out:
     sr_report_free(r);

@@ -7,6 +7,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/profile_failcase.h"
 #include "cli/profile_plot.h"
 #include "mission.h"
 #include "profile.h"
@@ -231,6 +232,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
         const char *txt[] = {s->name, lands};
         sr_rtable_row(t, row, txt);
     }
+    sr_profile_report_free_drag(r, c, m);
 
     t = sr_report_table(r, "stages", "Recovery stages (drag area band from the family's CD0 range)");
     sr_rtable_text_column(t, "stage", "stage");
@@ -464,6 +466,8 @@ static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, 
             sr_report_warning(r, "stage '%s' never deploys: its sections land first", m->stages[k].name);
             continue;
         }
+        if (!s->deployed)
+            continue; /* a failure case: it does not open */
         if (s->warn_q) {
             sr_report_format_value(a, sizeof a, s->q_deploy, SR_Q_PRESSURE, c->units, 3);
             if (isnan(m->limit_deploy_q)) {
@@ -496,6 +500,7 @@ static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, 
                                  "against the printed tables: confirm the rates with a drop test.");
             break;
         }
+    sr_profile_free_fall_warnings(r, c, m, p, "");
     if (p->events_dropped)
         sr_report_warning(r, "%d events beyond the first %d are not listed", p->events_dropped,
                           SR_PROFILE_MAX_EVENTS);
@@ -613,6 +618,7 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     int exceeded = report_limits(r, c, m, R, o.worst);
     report_warnings(r, c, m, ctx, R);
     report_notes(r, o.fast);
+    sr_profile_report_failures(r, c, m);
     if ((rc = sr_cli_emit(c, r)))
         goto out;
     if (c->plot_prefix && (rc = sr_profile_plot(c, m, ctx, &R->typ, &track, argc, argv)))

@@ -63,11 +63,9 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
 {
     rate_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
     if (rc)
         return rc;
-    if (first < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (rate takes options only)", argv[first]);
     sr_catalog *cat = NULL;
     sr_mission *mis = NULL;
     sr_atmos atm;
@@ -77,11 +75,9 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
     double mass = NAN, ground = 0.0, body = 0.0;
     double *alt = NULL;
     sr_canopy cp;
-    if ((rc = sr_cli_catalog(c, &cat)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
-    if (o.mission) {
-        if ((rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
-            goto out;
+    if (mis) {
         mass = sr_mission_total_mass(mis);
         const sr_stage *last = &mis->stages[mis->nstages - 1];
         cp = last->canopy;
@@ -90,23 +86,13 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
                                 "--mission` first", last->name);
             goto out;
         }
-    } else if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground))) {
-        goto out;
     }
     if (sr_cli_canopy_given(&o.canopy) || !mis) {
         if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
             goto out;
     }
-    if (o.mass && (rc = sr_cli_quantity(c, "--mass", o.mass, SR_Q_MASS, 1, &mass)))
+    if ((rc = sr_cli_mass(c, o.mass, "the descending mass", &mass)))
         goto out;
-    if (isnan(mass)) {
-        rc = sr_cli_fail(c, "--mass: the descending mass is required");
-        goto out;
-    }
-    if (mass > 1e5) {
-        rc = sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", mass);
-        goto out;
-    }
     if (o.body && (rc = sr_cli_quantity(c, "--body-drag-area", o.body, SR_Q_AREA, 0, &body)))
         goto out;
     if (body < 0) {

@@ -63,11 +63,9 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
 {
     size_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
     if (rc)
         return rc;
-    if (first < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (size takes options only)", argv[first]);
     if (o.canopy.nominal_diameter || o.canopy.projected_diameter || o.canopy.flat_diameter || o.canopy.nominal_area)
         return sr_cli_fail(c, "size finds the canopy size; drop the size option (use `sinkrate rate` for a given size)");
 
@@ -79,17 +77,12 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_error e;
     double mass = NAN, speed = NAN, ground = 0.0, z, body = 0.0;
     sr_canopy cp;
-    if ((rc = sr_cli_catalog(c, &cat)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
-    if (o.mission) {
-        if ((rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
-            goto out;
+    if (mis) {
         mass = sr_mission_total_mass(mis);
         speed = mis->limit_speed;
         cp = mis->stages[mis->nstages - 1].canopy;
-    } else {
-        if ((rc = sr_cli_atmos(c, &o.atmos, &atm, &ground)))
-            goto out;
     }
     if (sr_cli_canopy_given(&o.canopy) || !mis) {
         if ((rc = sr_cli_canopy(c, cat, &o.canopy, 0, &cp)))
@@ -98,21 +91,13 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail(c, "with --mission, give --family too when changing cluster or areal mass");
         goto out;
     }
-    if (o.mass && (rc = sr_cli_quantity(c, "--mass", o.mass, SR_Q_MASS, 1, &mass)))
+    if ((rc = sr_cli_mass(c, o.mass, "the payload mass", &mass)))
         goto out;
     if (o.speed && (rc = sr_cli_quantity(c, "--speed", o.speed, SR_Q_SPEED, 1, &speed)))
         goto out;
-    if (isnan(mass)) {
-        rc = sr_cli_fail(c, "--mass: the payload mass is required");
-        goto out;
-    }
     if (isnan(speed)) {
         rc = sr_cli_fail(c, "--speed: the target touchdown speed is required%s",
                          mis ? " (the mission file has no touchdown-speed limit)" : "");
-        goto out;
-    }
-    if (mass > 1e5) {
-        rc = sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", mass);
         goto out;
     }
     if (speed > 300.0) {

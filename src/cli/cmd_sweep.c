@@ -305,16 +305,10 @@ static int load_case(run *R)
     sweep_opts *o = &R->o;
     sr_error e;
     int rc;
-    if ((rc = sr_cli_catalog(c, &R->cat)))
+    if ((rc = sr_cli_catalog(c, &R->cat)) ||
+        (rc = sr_cli_mission(c, o->mission, R->cat, &o->atmos, &R->mis, &R->atm, &R->ground)))
         return rc;
-    R->mass = NAN;
-    if (o->mission) {
-        if ((rc = sr_cli_mission(c, o->mission, R->cat, &o->atmos, &R->mis, &R->atm, &R->ground)))
-            return rc;
-        R->mass = sr_mission_total_mass(R->mis);
-    } else if ((rc = sr_cli_atmos(c, &o->atmos, &R->atm, &R->ground))) {
-        return rc;
-    }
+    R->mass = R->mis ? sr_mission_total_mass(R->mis) : NAN;
     int sized_by_sweep = uses(R, SR_SWEEP_DIAMETER) || R->var == SR_SWEEP_SPEED;
     if (o->ncanopy > 0) {
         for (int i = 0; i < o->ncanopy; i++) {
@@ -346,18 +340,13 @@ static int load_case(run *R)
     for (int i = 0; i < R->ncanopy; i++)
         canopy_label(R->labels[i], sizeof R->labels[i], &R->canopies[i], R->stage_names[i], !sized_by_sweep, c->units);
 
-    if (o->mass) {
-        if (uses(R, SR_SWEEP_MASS))
+    if (uses(R, SR_SWEEP_MASS)) {
+        if (o->mass)
             return sr_cli_fail(c, "--mass: the sweep sets the mass; drop --mass");
-        if ((rc = sr_cli_quantity(c, "--mass", o->mass, SR_Q_MASS, 1, &R->mass)))
-            return rc;
-    }
-    if (uses(R, SR_SWEEP_MASS))
         R->mass = 1.0; /* replaced row by row */
-    else if (isnan(R->mass))
-        return sr_cli_fail(c, "--mass: the payload mass is required");
-    if (R->mass > 1e5)
-        return sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", R->mass);
+    } else if ((rc = sr_cli_mass(c, o->mass, "the payload mass", &R->mass))) {
+        return rc;
+    }
     R->body = 0.0;
     if (o->body && (rc = sr_cli_quantity(c, "--body-drag-area", o->body, SR_Q_AREA, 0, &R->body)))
         return rc;
@@ -760,36 +749,12 @@ static void build_report(run *R, sr_report *r)
 /* The atmosphere in a few words, for the figure's subtitle. */
 static void short_atmos(const run *R, char *buf, size_t len)
 {
-    sr_unit_system sys = R->c->units;
     const sr_atmos *m = &R->atm;
-    char z[48], p[48];
     if (uses(R, SR_SWEEP_TEMP_OFFSET) && uses(R, SR_SWEEP_SITE_ELEVATION)) {
         snprintf(buf, len, "each site at standard pressure; \u0394T: temperature offset from standard");
         return;
     }
-    switch (m->kind) {
-    case SR_ATMOS_STANDARD:
-        snprintf(buf, len, "U.S. Standard Atmosphere 1976");
-        break;
-    case SR_ATMOS_OFFSET:
-        snprintf(buf, len, "standard atmosphere %+.0f K", m->dT);
-        break;
-    case SR_ATMOS_SITE: {
-        sr_report_format_value(z, sizeof z, m->site_z, SR_Q_LENGTH, sys, SR_FIXED(0));
-        double T = sys == SR_UNITS_US ? (m->site_T - 273.15) * 1.8 + 32.0 : m->site_T - 273.15;
-        if (sys == SR_UNITS_US)
-            snprintf(p, sizeof p, "%.2f inHg", m->site_p / 3386.389);
-        else
-            snprintf(p, sizeof p, "%.0f hPa", m->site_p / 100.0);
-        snprintf(buf, len, "site %s, %.1f %s, %s", z, T, sys == SR_UNITS_US ? "\u00b0F" : "\u00b0C", p);
-        break;
-    }
-    case SR_ATMOS_SOUNDING: {
-        const char *b = strrchr(m->source, '/');
-        snprintf(buf, len, "sounding %s", b ? b + 1 : m->source);
-        break;
-    }
-    }
+    sr_cli_atmos_short(m, R->c->units, buf, len);
     if (uses(R, SR_SWEEP_TEMP_OFFSET) && m->kind != SR_ATMOS_SITE)
         snprintf(buf, len, "U.S. Standard Atmosphere 1976; \u0394T: temperature offset from standard");
     else if (uses(R, SR_SWEEP_TEMP_OFFSET))
@@ -1031,13 +996,9 @@ int sr_cmd_sweep(sr_cli *c, int argc, char **argv)
     sr_report *r = NULL;
     char help[sizeof HELP + 4096];
     snprintf(help, sizeof help, "%s%s\n%s\n%s\n%s", HELP, SR_HELP_CANOPY, SR_HELP_ATMOS, SR_HELP_PLOT, SR_HELP_OUTPUT);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &R->o, help, &first);
+    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &R->o, help, NULL);
     if (rc)
         goto out;
-    if (first < argc) {
-        rc = sr_cli_fail(c, "unexpected argument '%s' (sweep takes options only)", argv[first]);
-        goto out;
-    }
     R->var = SR_SWEEP_ALTITUDE;
     if (R->o.vary && sr_sweep_var_parse(R->o.vary, &R->var)) {
         rc = sr_cli_fail(c, "--vary: '%s' is not one of altitude, mass, diameter, temp-offset, site-elevation, speed",

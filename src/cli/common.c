@@ -250,7 +250,10 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
         }
         }
     }
-    *first_arg = optind;
+    if (first_arg)
+        *first_arg = optind;
+    else if (optind < argc)
+        return sr_cli_fail(c, "unexpected argument '%s' (%s takes options only)", argv[optind], c->cmd);
     return 0;
 }
 
@@ -326,6 +329,18 @@ int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi,
     return 0;
 }
 
+int sr_cli_mass(sr_cli *c, const char *text, const char *what, double *mass)
+{
+    int rc;
+    if (text && (rc = sr_cli_quantity(c, "--mass", text, SR_Q_MASS, 1, mass)))
+        return rc;
+    if (isnan(*mass))
+        return sr_cli_fail(c, "--mass: %s is required", what);
+    if (*mass > 1e5)
+        return sr_cli_fail(c, "--mass: %g kg is beyond any payload this tool is meant for", *mass);
+    return 0;
+}
+
 int sr_cli_atmos_given(const sr_atmos_opts *a)
 {
     return a->temp_offset || a->site_elevation || a->surface_temp || a->surface_pressure || a->sounding;
@@ -335,6 +350,9 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
                    sr_atmos *atm, double *ground)
 {
     sr_error e;
+    *mis = NULL;
+    if (!path)
+        return sr_cli_atmos(c, a, atm, ground);
     *mis = calloc(1, sizeof **mis);
     if (!*mis)
         return sr_cli_fail(c, "out of memory");
@@ -600,6 +618,36 @@ void sr_cli_report_atmos(sr_report *r, const sr_atmos *m)
     default:
         sr_atmos_describe(m, buf, sizeof buf);
         sr_report_text(r, "atmosphere", "atmosphere", buf);
+    }
+}
+
+void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t len)
+{
+    char z[48], p[48];
+    switch (m->kind) {
+    case SR_ATMOS_STANDARD:
+        snprintf(buf, len, "U.S. Standard Atmosphere 1976");
+        break;
+    case SR_ATMOS_OFFSET:
+        snprintf(buf, len, "standard atmosphere %+.0f K", m->dT);
+        break;
+    case SR_ATMOS_SITE: {
+        sr_report_format_value(z, sizeof z, m->site_z, SR_Q_LENGTH, sys, SR_FIXED(0));
+        double T = sys == SR_UNITS_US ? (m->site_T - 273.15) * 1.8 + 32.0 : m->site_T - 273.15;
+        if (sys == SR_UNITS_US)
+            snprintf(p, sizeof p, "%.2f inHg", m->site_p / 3386.389);
+        else
+            snprintf(p, sizeof p, "%.0f hPa", m->site_p / 100.0);
+        snprintf(buf, len, "site %s, %.1f %s, %s", z, T, sys == SR_UNITS_US ? "\u00b0F" : "\u00b0C", p);
+        break;
+    }
+    case SR_ATMOS_SOUNDING: {
+        const char *b = strrchr(m->source, '/');
+        snprintf(buf, len, "sounding %s", b ? b + 1 : m->source);
+        break;
+    }
+    default:
+        snprintf(buf, len, "atmosphere");
     }
 }
 

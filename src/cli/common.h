@@ -75,7 +75,8 @@ int sr_cli_fail_err(sr_cli *c, const sr_error *e);
 /* getopt_long over opts; calls handle(c, code, optarg, ud) for every option;
  * the common output options are consumed here. Unknown options get a
  * suggestion. Returns 0 to go on, -1 when help was printed (exit 0), or an
- * exit code. *first_arg receives the index of the first operand. */
+ * exit code. *first_arg receives the index of the first operand; first_arg
+ * NULL: the command takes options only, and an operand is an error. */
 typedef int (*sr_opt_handler)(sr_cli *c, int code, const char *arg, void *ud);
 int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
                  const char *help, int *first_arg);
@@ -90,6 +91,11 @@ int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q,
 int sr_cli_quantity_list(sr_cli *c, const char *opt, const char *text, sr_quantity q, double *out, size_t max,
                          size_t *n);
 int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi, long *out);
+/* The mass a command works with: --mass (text, NULL when not given) replaces
+ * *mass (a mission's total, or NaN). Missing is an error that says what the
+ * mass is (what: "the payload mass"), and so is more than any payload this
+ * tool is meant for. */
+int sr_cli_mass(sr_cli *c, const char *text, const char *what, double *mass);
 
 /* Build the atmosphere from its options; *ground receives the site elevation
  * (0 without a site). */
@@ -100,8 +106,9 @@ int sr_cli_atmos_given(const sr_atmos_opts *a);
 
 /* Load a mission file (heap-allocated into *mis) and its air: the atmosphere
  * options, when given, replace the file's site weather (*ground then comes
- * from them); otherwise the mission's atmosphere moves into *atm. Release
- * with sr_cli_mission_free. */
+ * from them); otherwise the mission's atmosphere moves into *atm. Without a
+ * file (path NULL) *mis is NULL and the air comes from the options alone.
+ * Release with sr_cli_mission_free. */
 struct sr_mission;
 int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_atmos_opts *a,
                    struct sr_mission **mis, sr_atmos *atm, double *ground);
@@ -122,6 +129,8 @@ int sr_cli_canopy_given(const sr_canopy_opts *o);
 void sr_cli_report_canopy(sr_report *r, const sr_canopy *cp);
 /* Describe the atmosphere. */
 void sr_cli_report_atmos(sr_report *r, const sr_atmos *m);
+/* The atmosphere in a few words, for a figure's subtitle. */
+void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t len);
 
 /* Render the report in the chosen format to stdout or -o FILE (atomically). */
 int sr_cli_emit(sr_cli *c, const sr_report *r);
