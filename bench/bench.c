@@ -1,6 +1,7 @@
 /* bench.c - `make bench`: speed figures as ratios measured in one run.
  * Not a test: it prints, it never fails on a number. */
 #define _DEFAULT_SOURCE
+#include <gsl/gsl_errno.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -12,6 +13,8 @@
 #include "atmos.h"
 #include "bluff.h"
 #include "catalog.h"
+#include "dispersion.h"
+#include "dispersion_mission.h"
 #include "mission.h"
 #include "opening.h"
 #include "profile.h"
@@ -228,6 +231,106 @@ static double per_sweep_row(void)
     return best;
 }
 
+/* Monte Carlo dispersion of the demo mission (two stages), fast path, with a
+ * full set of deviations; once with its power-law wind and once with a
+ * 12-row wind table in its place. Samples per second at 1 and 2 threads,
+ * best of 3 runs each, and the ratio. */
+static double cpu_now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
+    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+/* Samples per second of wall time at 1 and 2 threads, the runs alternating
+ * (best of 5 each, so that a passing load on this shared machine hits both
+ * alike), and the process CPU time per sample of the best runs: when it stays
+ * the same at two threads, the threads do not slow each other and the
+ * wall-time ratio only reflects how many cores were free. */
+static void disp_rates(const sr_disp_mission *dm, const sr_uncertainty *u, size_t n, double rate[2], double cpu[2])
+{
+    double best[2] = {1e9, 1e9};
+    rate[0] = rate[1] = cpu[0] = cpu[1] = NAN;
+    for (int rep = 0; rep < 5; rep++)
+        for (int k = 0; k < 2; k++) {
+            sr_disp_options o = {.n = n, .seed = 1, .threads = k + 1};
+            sr_disp_result res;
+            double t0 = now(), c0 = cpu_now();
+            if (sr_disp_run(&dm->model, u, &o, &res, NULL))
+                return;
+            double t = now() - t0, c = cpu_now() - c0;
+            sink = res.land[n - 1].east;
+            sr_disp_result_free(&res);
+            if (t < best[k]) {
+                best[k] = t;
+                cpu[k] = c / (double)n;
+            }
+        }
+    rate[0] = (double)n / best[0];
+    rate[1] = (double)n / best[1];
+}
+
+static void bench_dispersion(void)
+{
+    gsl_set_error_handler_off();
+    const char *data = getenv("SINKRATE_DATA");
+    char dir[1024], path[1024];
+    snprintf(dir, sizeof dir, "%s/canopies", data ? data : ".");
+    snprintf(path, sizeof path, "%s/payloads/desert-club-rocket.yaml", data ? data : ".");
+    sr_catalog *cat = malloc(sizeof *cat);
+    sr_mission *m = calloc(1, sizeof *m);
+    sr_error e;
+    if (!cat || !m || sr_catalog_open(cat, dir, &e) || sr_mission_load(m, path, cat, &e)) {
+        printf("dispersion: cannot load the demo mission (%s)\n\n", cat && m ? e.msg : "out of memory");
+        free(cat);
+        free(m);
+        return;
+    }
+    /* every kind of deviation at once (drag stays the family range) */
+    sr_uncertainty *u = &m->unc;
+    u->mass = (sr_dist){.kind = SR_DIST_NORMAL, .sigma = 0.02, .relative = 1};
+    u->wind_speed = (sr_dist){.kind = SR_DIST_NORMAL, .sigma = 1.5};
+    u->wind_dir = (sr_dist){.kind = SR_DIST_NORMAL, .sigma = 15.0 * 3.14159265358979 / 180.0};
+    u->start_height = (sr_dist){.kind = SR_DIST_NORMAL, .sigma = 60.0};
+    u->deploy_height = (sr_dist){.kind = SR_DIST_UNIFORM, .lo = -10.0, .hi = 10.0};
+    const size_t n = 100000;
+    for (int variant = 0; variant < 2; variant++) {
+        if (variant == 1) {
+            /* an invented 12-row wind table from the ground to 4 km */
+            double h[12], v[12], from[12];
+            for (int i = 0; i < 12; i++) {
+                h[i] = i == 0 ? 0.0 : 10.0 * pow(400.0, (double)i / 11.0);
+                v[i] = 3.0 + 1.5 * (double)i;
+                from[i] = (240.0 + 3.0 * i) * 3.14159265358979 / 180.0;
+            }
+            sr_wind_free(&m->wind);
+            if (sr_wind_init_table(&m->wind, h, v, from, 12, &e)) {
+                printf("dispersion: %s\n", e.msg);
+                break;
+            }
+        }
+        sr_disp_mission dm;
+        if (sr_disp_mission_init(&dm, m, NULL, 0, &e)) {
+            printf("dispersion: %s\n", e.msg);
+            break;
+        }
+        double rt[2], cp[2];
+        disp_rates(&dm, u, n, rt, cp);
+        double r1 = rt[0], r2 = rt[1], c1 = cp[0], c2 = cp[1];
+        const char *what = variant ? "demo mission, 12-row wind table" : "demo mission, power-law wind";
+        printf("dispersion, %-32s %9.0f samples/s at 1 thread, %9.0f at 2  (goal >= 200000 at 2)\n", what, r1,
+               r2);
+        printf("dispersion, %-32s 2 threads / 1 = %.2fx                        (goal >= 1.8x)\n", what, r2 / r1);
+        printf("dispersion, %-32s CPU per sample 2 threads / 1 = %.2f; cores the 2-thread run got: %.2f\n", what,
+               c2 / c1, c2 * r2);
+        sr_disp_mission_free(&dm);
+    }
+    printf("\n");
+    sr_mission_free(m);
+    free(m);
+    free(cat);
+}
+
 static double process_time(const char *bin, char *const argv[], int reps)
 {
     double best = 1e9;
@@ -290,6 +393,7 @@ int main(int argc, char **argv)
     printf("opening loads, one ODE solve            %7.1f us/solve                 (goal < 50 us)\n\n", t_open * 1e6);
 
     bench_profile();
+    bench_dispersion();
     /* sweep: 100 000 altitude rows (0 .. 49 999.5 m by 0.5 m) as CSV to /dev/null */
     double t_row = per_sweep_row();
     char *sweep_argv[] = {(char *)"sinkrate", (char *)"sweep",    (char *)"--mass",   (char *)"5.3kg",

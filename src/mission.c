@@ -8,8 +8,8 @@
 
 #define PI 3.14159265358979323846
 
-static const char *const TOP_KEYS[] = {"mission", "description", "site",   "sections",      "stages",
-                                       "start",   "limits",      "failure-cases", NULL};
+static const char *const TOP_KEYS[] = {"mission", "description", "site",          "sections",    "stages",
+                                       "start",   "limits",      "failure-cases", "uncertainty", NULL};
 static const char *const TOP_REQ[] = {"mission", "sections", "stages", NULL};
 static const char *const SITE_KEYS[] = {"elevation", "temperature", "pressure", "sounding", "wind", NULL};
 static const char *const SECTION_KEYS[] = {"name", "mass", "drag-area", "body", "rigid-with", NULL};
@@ -690,7 +690,7 @@ int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error 
     yaml_node_t *fc = sr_yaml_get(y, root, "failure-cases");
     if (fc && (rc = parse_failures(m, y, fc, err)))
         return rc;
-    return SR_OK;
+    return sr_mission_parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err);
 }
 
 int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err)

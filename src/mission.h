@@ -13,6 +13,7 @@
 #include "catalog.h"
 #include "error.h"
 #include "wind.h"
+#include "uncertainty.h"
 
 #define SR_MISSION_MAX_SECTIONS 8
 #define SR_MISSION_MAX_STAGES 6
@@ -91,6 +92,7 @@ typedef struct sr_mission {
     double limit_deploy_q;   /* dynamic pressure at any deployment, Pa */
     size_t nfailures;        /* failure-cases: */
     sr_failure_case failures[SR_MISSION_MAX_FAILURES];
+    sr_uncertainty unc;      /* what a dispersion run varies (mission_uncertainty.c) */
 } sr_mission;
 
 /* Load and validate; relative file names inside (sounding, canopy files) are
