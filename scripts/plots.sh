@@ -29,4 +29,22 @@ fig diameter-vs-speed --vary speed --from 3m/s --to 10m/s --step 0.05m/s \
 # the main canopy's touchdown rate on a cold, a standard and a hot day at sites of different elevation
 fig rate-vs-site --vary site-elevation --from 0 --to 3000m --step 50m \
   --family conical --nominal-diameter 2.2m --by temp-offset=-20C,0C,20C,32C
+# other commands' figures: exit 1 (a limit broken) still draws the figure
+other() {
+  name=$1; shift
+  "$bin" "$@" --plot "$out/$name" > "$out/$name.txt" || [ $? -eq 1 ]
+}
+# the revised demo flown down: height, rates and airspeed over time; the ground track
+other profile profile payloads/desert-club-rocket-revised.yaml
+cp "$out/profile.png" plots/profile.png
+cp "$out/profile-track.png" plots/profile-track.png
+# the landing scatter of the original demo under its uncertainty block
+other scatter dispersion "$mission" -n 100000 --seed 1
+cp "$out/scatter.png" plots/scatter.png
+# opening load of the demo main, the ODE force against time and the closed-form peaks
+other loads loads --mission payloads/desert-club-rocket-revised.yaml --stage main
+cp "$out/loads-main.png" plots/loads-main.png 2>/dev/null || cp "$out/loads.png" plots/loads-main.png
+# a 1 kg, 0.2 m cylinder through the drag crisis: three equilibria
+other freefall freefall --body cylinder --diameter 0.2m --length 1m --mass 9kg --altitude 0,5km,10km
+cp "$out/freefall.png" plots/freefall.png
 echo "plots: wrote $(ls plots/*.png | tr '\n' ' ')"

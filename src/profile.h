@@ -29,7 +29,7 @@ typedef enum sr_profile_mode {
      * sample's own drag, mass and deployment state. Where the nominal transient
      * does not settle before the next event the ODE runs instead. No memory is
      * allocated. Error against FULL: see sr_profile_fast_bound and
-     * docs/readme-profile.md. */
+     * docs/method.md, section 7.5. */
     SR_PROFILE_FAST
 } sr_profile_mode;
 
