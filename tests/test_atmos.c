@@ -14,12 +14,12 @@
 #include "atmos.h"
 
 /* Sources, as they appear in docs/validation.md. */
-#define SRC_USSA "U.S. Standard Atmosphere 1976, Table I (via published transcription)"
-#define SRC_USSA3 "U.S. Standard Atmosphere 1976, Table III (via published transcription)"
-#define SRC_USSA_LAYERS "U.S. Standard Atmosphere 1976, layer table (via published transcription)"
-#define SRC_USSA_CONST "U.S. Standard Atmosphere 1976, defining constants (via published transcription)"
-#define SRC_PDAS "U.S. Standard Atmosphere 1976, PDAS 2-km SI table (via published transcription)"
-#define SRC_ICAO "ICAO Doc 7488 (3rd ed. 1993), Table A/D (via published transcription)"
+#define SRC_USSA "U.S. Standard Atmosphere 1976, Table I (as republished)"
+#define SRC_USSA3 "U.S. Standard Atmosphere 1976, Table III (as republished)"
+#define SRC_USSA_LAYERS "U.S. Standard Atmosphere 1976, layer table (as republished)"
+#define SRC_USSA_CONST "U.S. Standard Atmosphere 1976, defining constants (as republished)"
+#define SRC_PDAS "U.S. Standard Atmosphere 1976, PDAS 2-km SI table (as republished)"
+#define SRC_ICAO "ICAO Doc 7488 (3rd ed. 1993), Table A/D (as republished)"
 #define SRC_DERIVED "derived from the 1976 constants"
 #define SRC_GSL_QAGS "GSL 2.7 QAGS quadrature of the hydrostatic equation (Debian libgsl)"
 #define SRC_GSL_INTERP "GSL 2.7 gsl_interp_linear (Debian libgsl)"
