@@ -1,9 +1,11 @@
 /* fuzz_cli.c - the command line: the input is split into arguments at NUL or
  * newline bytes and run through sr_cli_run with both streams on /dev/null.
  * Nothing may write files while fuzzing: the program runs in a fresh temporary
- * directory (with links to the tree's canopies/, payloads/ and tests/), sr_file_write_atomic is replaced at link time (-Wl,--wrap) by a
- * stub that only reads the buffer, and options that write files by other
- * routes (--plot) are refused before the run. */
+ * directory (with links to the tree's canopies/, payloads/ and tests/),
+ * sr_file_write_atomic is replaced at link time (-Wl,--wrap) by a stub that
+ * only reads the buffer, sr_file_check_writable by one that probes nothing,
+ * and options that write files by other routes (--plot, --samples) are
+ * refused before the run. */
 #define _DEFAULT_SOURCE
 #include <fcntl.h>
 #include <stdio.h>
@@ -19,9 +21,24 @@
 
 static FILE *devnull;
 
-/* Long options that write files other than through sr_file_write_atomic;
- * commands that add such options add them here. */
-static const char *const WRITERS[] = {"plot", "plot-format", NULL};
+/* Long options that write files other than through sr_file_write_atomic
+ * (--plot: its directory and rendered figure; --samples: streamed to a
+ * temporary and renamed); commands that add such options add them here.
+ * An abbreviation counts, as getopt_long accepts it ("--sam" for --samples). */
+static const char *const WRITERS[] = {"plot", "plot-format", "samples", NULL};
+
+/* The check before any work makes and removes a probe file in the directory
+ * an argument names: while fuzzing, only its checks of the name itself. */
+int __wrap_sr_file_check_writable(const char *path, int mkdirs, sr_error *err);
+int __wrap_sr_file_check_writable(const char *path, int mkdirs, sr_error *err)
+{
+    (void)mkdirs;
+    if (!path || !*path)
+        return sr_error_set(err, SR_EINVAL, "empty output file name");
+    if (path[strlen(path) - 1] == '/')
+        return sr_error_set(err, SR_EINVAL, "%s: is a directory name, not a file", path);
+    return SR_OK;
+}
 
 int __wrap_sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err);
 int __wrap_sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err)
