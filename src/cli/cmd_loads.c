@@ -2,6 +2,7 @@
  * deployment by three methods, their spread, per-canopy loads and required
  * strengths; for a mission file, at every stage's deployment. */
 #define _DEFAULT_SOURCE
+#include <ctype.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -66,7 +67,8 @@ static const char HELP[] =
     "                           may replace its deployment state)\n\n"
     "The figure (with --plot): force vs time from the inflation ODE at the typical ends of\n"
     "the bands, with each method's peak marked; for a whole mission, one figure a stage,\n"
-    "PREFIX-STAGE.png.\n\n";
+    "PREFIX-STAGE.png (in the stage's name, what is not a letter, digit, '.', '_' or '-'\n"
+    "becomes '-').\n\n";
 
 typedef struct loads_opts {
     const char *mass, *speed, *altitude, *angle, *design, *exponent, *fill, *cx, *allowance, *mission, *stage;
@@ -477,7 +479,13 @@ static int figures(sr_cli *c, const deploy *ds, size_t n, int argc, char **argv)
         return figure(c, &ds[0], c->plot_prefix, argc, argv);
     for (size_t i = 0; i < n && !rc; i++) {
         char pre[4096];
-        snprintf(pre, sizeof pre, "%s-%s", c->plot_prefix, ds[i].name);
+        snprintf(pre, sizeof pre, "%s-", c->plot_prefix);
+        size_t at = strlen(pre);
+        /* the stage name comes from the mission file: as a file name only,
+         * so "a/../../x" cannot put a figure anywhere but beside PREFIX */
+        for (const char *s = ds[i].name; *s && at + 1 < sizeof pre; s++)
+            pre[at++] = isalnum((unsigned char)*s) || *s == '-' || *s == '_' || *s == '.' ? *s : '-';
+        pre[at] = '\0';
         rc = figure(c, &ds[i], pre, argc, argv);
     }
     return rc;
