@@ -301,8 +301,37 @@ static void test_output_file_atomic(void **state)
     assert_int_not_equal(stat(bad, &st), 0);
     free(out);
     free(err);
+
+    /* a write that fails after others succeeded (gnuplot, a stand-in that
+     * always fails, rejects the figure): exit 2, and what the run made is
+     * removed again: the report of -o, the figure's data and script and the
+     * directories made for them; the file of the earlier run stays */
+    char fake[300], pre[300], report[300];
+    snprintf(fake, sizeof fake, "%s/gnuplot", path);
+    FILE *g = fopen(fake, "w");
+    assert_non_null(g);
+    fputs("#!/bin/sh\necho 'line 1: rejected' >&2\nexit 1\n", g);
+    fclose(g);
+    assert_int_equal(chmod(fake, 0755), 0);
+    snprintf(pre, sizeof pre, "%s/made/deeper/fig", path);
+    snprintf(report, sizeof report, "%s/profile.txt", path);
+    char *old = strdup(getenv("PATH") ? getenv("PATH") : "");
+    setenv("PATH", path, 1);
+    int rc = sr_test_cli(&out, &err, "profile", sr_test_path(REVISED), "--plot", pre, "-o", report, NULL);
+    setenv("PATH", old, 1);
+    free(old);
+    assert_int_equal(rc, 2);
+    assert_non_null(strstr(err, "gnuplot rejected"));
+    assert_int_equal(sr_test_lines(err), 1);
+    assert_int_not_equal(stat(report, &st), 0);
+    snprintf(bad, sizeof bad, "%s/made", path);
+    assert_int_not_equal(stat(bad, &st), 0);
+    assert_int_equal(stat(file, &st), 0);
+    free(out);
+    free(err);
+    remove(fake);
     remove(file);
-    rmdir(path);
+    assert_int_equal(rmdir(path), 0);
 }
 
 static void test_check_command(void **state)
