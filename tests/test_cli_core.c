@@ -348,6 +348,14 @@ static void test_check_command(void **state)
     assert_non_null(strstr(err, "not a sinkrate file"));
     free(out);
     free(err);
+    /* its report is the product even then: -o keeps it although the exit is 2 */
+    char report[300];
+    snprintf(report, sizeof report, "%s.report.txt", bad);
+    assert_int_equal(sr_test_cli(&out, &err, "check", sr_test_path(DEMO), bad, "-o", report, NULL), 2);
+    assert_true(sr_test_file_has(report, "INVALID"));
+    unlink(report);
+    free(out);
+    free(err);
 }
 
 /* US units: the same answer in ft/s as in m/s (exact factor 0.3048). */

@@ -143,7 +143,8 @@ int sr_cli_check_output(sr_cli *c, const char *opt, const char *path);
  * does not exist yet, remember it, so sr_cli_made_end(c, 1) removes it if
  * the run fails. An existing file is never removed. */
 void sr_cli_made(sr_cli *c, const char *path);
-/* At the end of a run: failed != 0 removes what the run made (newest first). */
+/* At the end of a run: failed != 0 removes what the run made (newest first);
+ * 0 keeps it and forgets the list (check: its report stands at exit 2). */
 void sr_cli_made_end(sr_cli *c, int failed);
 
 /* Help text pieces shared by the commands. */
