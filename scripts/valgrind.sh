@@ -11,6 +11,7 @@ export SINKRATE_DATA="$root"
 M="$root/payloads/desert-club-rocket.yaml"
 printf 'mission: x\nsections: [\n' > "$tmp/bad.yaml"
 printf 'altitude [m],temperature [C],pressure [hPa]\n0,15,1013.25\n1000,8.5,898.7\n3000,-4.5,701.1\n' > "$tmp/sounding.csv"
+printf 'Re,Cd\n1e3,0.47\n1e2,0.40\n' > "$tmp/bad-drag.csv"
 # valgrind's own failure code, distinct from the program's 0/1/2
 VG=97
 fail=0; n=0
@@ -43,6 +44,11 @@ done <<EOF_LIST
 0 canopies
 0 canopies cross
 0 check "$M" "$root/canopies/conical.yaml"
+0 sweep --mass 2kg --family conical --nominal-diameter 1.5m --from 0 --to 3km --step 1km --by temp-offset=-20C,25C --plot "$tmp/sweep"
+1 profile "$M" --plot "$tmp/profile"
+0 loads --mission "$M" --plot "$tmp/loads"
+0 freefall --body cylinder --diameter 10cm --length 80cm --mass 3kg --trace --altitude 0:4km:2km --plot "$tmp/ff"
+1 dispersion "$M" -n 200 --seed 3 --threads 2 --samples "$tmp/samples.csv" --plot "$tmp/disp"
 1 size --mass 0.1kg --speed 0.5m/s --family conical --areal-mass 1500g/m2
 2 size --mass 2kg --speed 5 --family conicle
 2 size --mission "$tmp/bad.yaml" --speed 5
@@ -51,6 +57,10 @@ done <<EOF_LIST
 2 air -o "$tmp/missing/dir/out.txt"
 2 check "$tmp/bad.yaml" "$tmp/nonexistent.yaml"
 2 frobnicate
+2 sweep --mass 2kg --family conical --nominal-diameter 1.5m --from 0 --to 1km --step 0
+2 profile "$tmp/bad.yaml"
+2 freefall --cd-table "$tmp/bad-drag.csv" --diameter 10cm --mass 1kg
+2 dispersion "$M" -n 200 --samples "$tmp/missing/dir/s.csv"
 EOF_LIST
 [ $fail -eq 0 ] && echo "valgrind: $n CLI examples clean (no memory errors, no definite or indirect leaks)"
 exit $fail

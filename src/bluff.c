@@ -274,10 +274,15 @@ static int table_check(const double *re, const double *cd, size_t n, sr_bluff_in
                        const size_t *line, const size_t *col, sr_error *err)
 {
     size_t need = kind == SR_BLUFF_STEFFEN ? 3 : 2;
-    if (n < need)
-        return sr_error_set(err, SR_EINVAL,
-                            "%s: a drag table needs at least %zu rows%s, this one has %zu", name, need,
+    if (n < need) {
+        char at[300]; /* the last row there is, so the message names file:line:column */
+        if (line && n > 0)
+            snprintf(at, sizeof at, "%s:%zu:%zu", name, line[n - 1], col ? col[n - 1] : 1);
+        else
+            snprintf(at, sizeof at, "%s", name);
+        return sr_error_set(err, SR_EINVAL, "%s: a drag table needs at least %zu rows%s, this one has %zu", at, need,
                             kind == SR_BLUFF_STEFFEN ? " for monotone interpolation" : "", n);
+    }
     for (size_t i = 0; i < n; i++) {
         char where[300];
         if (line)

@@ -99,6 +99,71 @@ int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_erro
     return SR_OK;
 }
 
+/* Create and remove a file in dir: the one test that holds for root, for
+ * read-only and pseudo file systems alike. */
+static int probe_dir(const char *dir)
+{
+    size_t dl = strlen(dir);
+    char *tmp = malloc(dl + 32);
+    if (!tmp)
+        return ENOMEM;
+    snprintf(tmp, dl + 32, "%s/.sinkrate-probe.XXXXXX", dir);
+    int fd = mkstemp(tmp), e = fd < 0 ? errno : 0;
+    if (fd >= 0) {
+        close(fd);
+        unlink(tmp);
+    }
+    free(tmp);
+    return e;
+}
+
+int sr_file_check_writable(const char *path, int mkdirs, sr_error *err)
+{
+    if (!path || !*path)
+        return sr_error_set(err, SR_EINVAL, "empty output file name");
+    size_t pl = strlen(path);
+    if (path[pl - 1] == '/')
+        return sr_error_set(err, SR_EINVAL, "%s: is a directory name, not a file", path);
+    struct stat st;
+    if (stat(path, &st) == 0) {
+        if (S_ISDIR(st.st_mode))
+            return sr_error_set(err, SR_EIO, "%s: is a directory", path);
+        if (!S_ISREG(st.st_mode)) /* a device or a pipe is written to, never replaced */
+            return access(path, W_OK) == 0 ? SR_OK
+                                             : sr_error_set(err, SR_EIO, "%s: cannot write: %s", path, strerror(errno));
+    }
+    /* the directory the temporary goes to: that of the file a link names */
+    char *real = realpath(path, NULL);
+    char *dir = strdup(real ? real : path);
+    free(real);
+    if (!dir)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int e = 0;
+    for (;;) {
+        char *slash = strrchr(dir, '/');
+        if (!slash) {
+            e = probe_dir(".");
+            break;
+        }
+        if (slash == dir)
+            slash[1] = '\0';
+        else
+            *slash = '\0';
+        if (stat(dir, &st) == 0) {
+            e = S_ISDIR(st.st_mode) ? probe_dir(dir) : ENOTDIR;
+            break;
+        }
+        if (errno != ENOENT || !mkdirs || slash == dir) {
+            e = errno;
+            break;
+        }
+    }
+    free(dir);
+    if (e)
+        return sr_error_set(err, SR_EIO, "%s: cannot write: %s", path, strerror(e));
+    return SR_OK;
+}
+
 int sr_file_open_read(const char *path, FILE **f, sr_error *err)
 {
     *f = fopen(path, "rb");

@@ -10,6 +10,14 @@
 
 int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err);
 
+/* Whether sr_file_write_atomic(path) can succeed, checked before any work so
+ * a bad output path fails first and nothing is written: the name is a file
+ * name, not a directory, and a file can be created in its directory (a probe
+ * file is made and removed). mkdirs != 0: a missing directory is fine when
+ * the nearest existing one above it is writable (the writer creates it).
+ * Errors read as sr_file_write_atomic's. */
+int sr_file_check_writable(const char *path, int mkdirs, sr_error *err);
+
 /* fopen(path, "rb") with the two errors users meet named plainly: the file
  * does not open (with the system's reason), or it is a directory. */
 int sr_file_open_read(const char *path, FILE **f, sr_error *err);

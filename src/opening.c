@@ -29,6 +29,13 @@
  * memory); far outside it the drag area is almost surely on another reference. */
 #define CD0_MIN 0.05
 #define CD0_MAX 3.0
+/* The filling constants a family file accepts (catalog.c); beyond them the
+ * filling time is no longer a canopy's. */
+#define FILL_MIN 0.5
+#define FILL_MAX 50.0
+/* Design factors and cluster allowances are a few units (common practice);
+ * our bound keeps a typo (1e9) from becoming a printed strength. */
+#define FACTOR_MAX 10.0
 
 void sr_opening_input_init(sr_opening_input *in)
 {
@@ -396,8 +403,9 @@ static int validate(const sr_opening_input *in, sr_error *err)
         return sr_error_set(err, SR_EINVAL, "air density must be positive (got %g kg/m3)", in->rho);
     if (in->a <= 0)
         return sr_error_set(err, SR_EINVAL, "speed of sound must be positive (got %g m/s)", in->a);
-    if (in->n_fill <= 0)
-        return sr_error_set(err, SR_EINVAL, "filling constant must be positive (got %g)", in->n_fill);
+    if (in->n_fill < FILL_MIN || in->n_fill > FILL_MAX)
+        return sr_error_set(err, SR_EINVAL, "filling constant must lie in %g .. %g, as in a family file (got %g)",
+                            FILL_MIN, FILL_MAX, in->n_fill);
     if (in->cx <= 0 || in->cx > 5)
         return sr_error_set(err, SR_EINVAL, "opening-load factor must lie in (0, 5] (got %g)", in->cx);
     if (in->count < 1 || in->count > 1000)
@@ -409,10 +417,11 @@ static int validate(const sr_opening_input *in, sr_error *err)
         return sr_error_set(err, SR_EINVAL, "gravity must lie within 0..50 m/s2 (got %g)", in->g);
     if (in->exponent <= 0 || in->exponent > 10)
         return sr_error_set(err, SR_EINVAL, "growth exponent must lie in (0, 10] (got %g)", in->exponent);
-    if (in->design_factor != 0 && in->design_factor < 1)
-        return sr_error_set(err, SR_EINVAL, "design factor must be at least 1 (got %g)", in->design_factor);
-    if (in->cluster_allowance != 0 && in->cluster_allowance < 1)
-        return sr_error_set(err, SR_EINVAL, "cluster allowance must be at least 1 (got %g)",
+    if (in->design_factor != 0 && (in->design_factor < 1 || in->design_factor > FACTOR_MAX))
+        return sr_error_set(err, SR_EINVAL, "design factor must lie in 1 .. %g (got %g)", FACTOR_MAX,
+                            in->design_factor);
+    if (in->cluster_allowance != 0 && (in->cluster_allowance < 1 || in->cluster_allowance > FACTOR_MAX))
+        return sr_error_set(err, SR_EINVAL, "cluster allowance must lie in 1 .. %g (got %g)", FACTOR_MAX,
                             in->cluster_allowance);
     if (in->mach_envelope < 0)
         return sr_error_set(err, SR_EINVAL, "Mach envelope must not be negative (got %g)", in->mach_envelope);

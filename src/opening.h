@@ -46,7 +46,7 @@ typedef struct sr_opening_input {
     double v1;       /* speed at line stretch (start of filling), m/s */
     double rho;      /* air density at deployment, kg/m3 (held constant over the opening) */
     double a;        /* speed of sound at deployment, m/s */
-    double n_fill;   /* the family's filling constant: t_f = n_fill*D0/v1 */
+    double n_fill;   /* the family's filling constant: t_f = n_fill*D0/v1 (0.5 .. 50) */
     double cx;       /* the family's opening-load factor at infinite mass */
     /* optional */
     int count;       /* canopies in the cluster, >= 1 (default 1) */
@@ -55,8 +55,8 @@ typedef struct sr_opening_input {
                         * as at apogee; negative = climbing) */
     double g;        /* gravity for the ODE, m/s2 (default 9.80665; 0 switches it off) */
     double exponent; /* Pflanz growth exponent n; default 2 (solid cloth) */
-    double design_factor;     /* >= 1 to get required rated strengths; 0 = none (default) */
-    double cluster_allowance; /* per-canopy load over the equal share; 0 = derive the bound
+    double design_factor;     /* 1 .. 10 to get required rated strengths; 0 = none (default) */
+    double cluster_allowance; /* per-canopy load over the equal share, 1 .. 10; 0 = derive the bound
                                * "lead canopy takes the whole mass alone" (default) */
     double mach_envelope;     /* the family's application limit; above it only a warning flag; 0 = none */
 } sr_opening_input;

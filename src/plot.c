@@ -1069,18 +1069,39 @@ static void fill_script(FILE *f, const void *ud)
     write_script(f, w->p, w->o, w->name, w->style_ok);
 }
 
-int sr_plot_write(const sr_plot *p, const sr_plot_out *o, sr_error *err)
+/* The prefix names a file and the format is one we render. */
+static int check_names(const char *prefix, const char *format, sr_error *err)
 {
-    if (!o->prefix || !*o->prefix)
+    if (!prefix || !*prefix)
         return sr_error_set(err, SR_EINVAL, "empty plot file prefix");
-    for (const unsigned char *c = (const unsigned char *)o->prefix; *c; c++)
+    for (const unsigned char *c = (const unsigned char *)prefix; *c; c++)
         if (*c < 0x20 || *c == 0x7f)
             return sr_error_set(err, SR_EINVAL, "plot file prefix contains a control character");
-    const char *name = base_name(o->prefix);
-    if (!*name)
-        return sr_error_set(err, SR_EINVAL, "plot prefix '%s' names a directory; add a file name", o->prefix);
-    if (!o->format || (strcmp(o->format, "png") != 0 && strcmp(o->format, "svg") != 0))
+    if (!*base_name(prefix))
+        return sr_error_set(err, SR_EINVAL, "plot prefix '%s' names a directory; add a file name", prefix);
+    if (!format || (strcmp(format, "png") != 0 && strcmp(format, "svg") != 0))
         return sr_error_set(err, SR_EINVAL, "plot format must be png or svg");
+    return SR_OK;
+}
+
+int sr_plot_check_prefix(const char *prefix, const char *format, sr_error *err)
+{
+    int rc = check_names(prefix, format, err);
+    const char *ext[3] = {"dat", "gp", format};
+    for (int k = 0; k < 3 && !rc; k++) {
+        char path[4096];
+        sr_plot_path(path, sizeof path, prefix, ext[k]);
+        rc = sr_file_check_writable(path, 1, err);
+    }
+    return rc;
+}
+
+int sr_plot_write(const sr_plot *p, const sr_plot_out *o, sr_error *err)
+{
+    int rc = check_names(o->prefix, o->format, err);
+    if (rc)
+        return rc;
+    const char *name = base_name(o->prefix);
     if (o->width < 200 || o->width > 10000 || o->height < 150 || o->height > 10000)
         return sr_error_set(err, SR_EINVAL, "plot size %dx%d is outside 200x150 .. 10000x10000 pixels", o->width,
                             o->height);
@@ -1096,7 +1117,7 @@ int sr_plot_write(const sr_plot *p, const sr_plot_out *o, sr_error *err)
     wctx w = {p, o, name, style_ok};
     char path[4096];
     sr_plot_path(path, sizeof path, o->prefix, "dat");
-    int rc = write_mem(path, fill_data, &w, err);
+    rc = write_mem(path, fill_data, &w, err);
     if (rc)
         return rc;
     sr_plot_path(path, sizeof path, o->prefix, "gp");

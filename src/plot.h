@@ -117,6 +117,12 @@ typedef struct sr_plot_out {
  * and rename). The caution is in both files and on the figure. */
 int sr_plot_write(const sr_plot *p, const sr_plot_out *o, sr_error *err);
 
+/* Whether a figure can be written at prefix in format ("png" or "svg"):
+ * the prefix names a file (not a directory, no control characters) and
+ * PREFIX.dat, PREFIX.gp and PREFIX.<format> can be created, their directory
+ * too if missing (sr_file_check_writable). Checked before any work. */
+int sr_plot_check_prefix(const char *prefix, const char *format, sr_error *err);
+
 /* Path of the data file and script for a prefix ("out/a" -> "out/a.dat"). */
 void sr_plot_path(char *buf, size_t len, const char *prefix, const char *ext);
 

@@ -2,7 +2,9 @@
  * files it reads, and what its one error line must say. Each must exit 2,
  * print exactly one line on stderr naming the file:line:column or the
  * option, print nothing on stdout, and leave no file behind (every row runs
- * with -o into an empty directory that must stay empty).
+ * with -o into an empty directory that must stay empty; rows with --plot or
+ * --samples aim them there too, and nothing of the input directory may be
+ * added either).
  *
  * Adding a row: give the arguments (placeholders below), the content of the
  * input files if any, the location the line must name and a phrase it must
@@ -20,7 +22,8 @@
 
 /* Placeholders in args, where and file contents:
  *   @IN@    the first input file (content `in`; absent when in is NULL)
- *   @IN2@   a second input file next to it (content `in2`), named "second"
+ *   @IN2@   a second input file next to it (content `in2`), named "second";
+ *           also written as "second.yaml" for readers that go by the name
  *   @DIR@   an existing directory holding the inputs
  *   @OUT@   the output directory, which must stay empty
  *   @DATA@  a data directory whose canopies/ holds @IN@ as its only family
@@ -33,7 +36,8 @@ typedef enum gen {
     GEN_BINARY,     /* @IN@ is 256 bytes 0..255 */
     GEN_DEEP_BLOCK, /* @IN@ nests 40 block mappings */
     GEN_LAUGHS,     /* @IN@ multiplies one list through 9 levels of aliases */
-    GEN_LONG_NUMBER /* @IN@ is a mission whose mass has 300 digits */
+    GEN_LONG_NUMBER, /* @IN@ is a mission whose mass has 300 digits */
+    GEN_BINARY2      /* @IN2@ is 256 bytes 0..255 (and @IN@ is `in`) */
 } gen;
 
 typedef struct bad_case {
@@ -71,6 +75,16 @@ typedef struct bad_case {
 #define RATE_OK "rate", "--mass", "2 kg", "--family", "conical", "--nominal-diameter", "1.5 m"
 #define AIR_SOUNDING "air", "--sounding", "@IN@"
 #define CHECK "check", "@IN@"
+/* the commands that came later */
+#define START "start: {height: 1000 m}\n"
+#define PMISSION MISSION START /* a mission profile and dispersion can run: line 9 is the start */
+#define WIND_TABLE_MISSION "mission: m\nsite: {wind: {model: table, file: second}}\nsections:\n" SECTION STAGES START
+#define CD_HEAD "Re,Cd\n"
+#define SWEEP_OK "sweep", "--mass", "2 kg", "--family", "conical", "--nominal-diameter", "1.5 m"
+#define PROFILE "profile", "@IN@"
+#define LOADS_CANOPY "loads", "--mass", "5 kg", "--family", "conical", "--nominal-diameter", "1.5 m"
+#define FREEFALL "freefall", "--mass", "1 kg", "--diameter", "10 cm"
+#define DISPERSION "dispersion", "@IN@"
 
 static const bad_case BAD[] = {
     /* ---- options: values and units ---- */
@@ -403,6 +417,246 @@ static const bad_case BAD[] = {
     {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,8,1e999\n", NULL, 0, "@IN@:3:8", "out of the range"},
     {{AIR_SOUNDING}, NULL, NULL, 0, "--sounding: @IN@", "cannot open"},
     {{"air", "--sounding", "@DIR@"}, NULL, NULL, 0, "--sounding: @DIR@", "is a directory"},
+    /* ---- sweep ---- */
+    {{SWEEP_OK, "--from", "0", "--to", "1 km", "--step", "0"}, NULL, NULL, 0, "--step", "must not be zero"},
+    {{SWEEP_OK, "--from", "0", "--to", "1 km", "--step", "-100 m"}, NULL, NULL, 0, "--step",
+     "give it the sign of to - from"},
+    {{SWEEP_OK, "--from", "0", "--to", "80 km", "--step", "0.1 m"}, NULL, NULL, 0, "--step", "the most is 100000"},
+    {{SWEEP_OK, "--from", "0", "--to", "90 km", "--step", "1 km"}, NULL, NULL, 0, "--to",
+     "outside the standard atmosphere model"},
+    {{SWEEP_OK, "--values", "0,90 km"}, NULL, NULL, 0, "--values", "outside the standard atmosphere model"},
+    {{SWEEP_OK, "--from", "0", "--to", "1 km"}, NULL, NULL, 0, "--from", "go together"},
+    {{SWEEP_OK, "--values", "0", "--from", "0"}, NULL, NULL, 0, "--values", "not both"},
+    {{"sweep", "--family", "conical", "--nominal-diameter", "1.5 m", "--vary", "mass", "--values", "1 kg,-2 kg"}, NULL,
+     NULL, 0, "--values", "must be greater than zero"},
+    {{SWEEP_OK, "--values", "0", "--by", "temp-offset"}, NULL, NULL, 0, "--by", "is not VAR=LIST"},
+    {{SWEEP_OK, "--values", "0", "--by", "colour=1,2"}, NULL, NULL, 0, "--by",
+     "'colour' is not one of altitude, mass"},
+    {{SWEEP_OK, "--values", "0", "--by", "mass=1 kg,xx"}, NULL, NULL, 0, "--by", "'xx' is not a number"},
+    {{SWEEP_OK, "--values", "0", "--by", "altitude=0,1 km"}, NULL, NULL, 0, "--by", "already the swept variable"},
+    {{SWEEP_OK, "--values", "0", "--by", "temp-offset=1C,2C,3C,4C,5C,6C,7C,8C,9C"}, NULL, NULL, 0, "--by",
+     "more than 8 values"},
+    {{"sweep", "--nominal-diameter", "1.5 m", "--family", "conical", "--mass", "2 kg", "--values", "0"}, NULL, NULL,
+     0, "--nominal-diameter", "give it after the --family"},
+    {{SWEEP_OK, "--nominal-diameter", "2 m", "--values", "0"}, NULL, NULL, 0, "--nominal-diameter", "given twice"},
+    {{"sweep", "--mass", "2 kg", "--values", "0"}, NULL, NULL, 0, "--family", "at least one canopy"},
+    {{SWEEP_OK, "--vary", "altitud", "--values", "0"}, NULL, NULL, 0, "--vary", "'altitud' is not one of"},
+    {{SWEEP_OK, "--vary", "speed", "--values", "5 m/s"}, NULL, NULL, 0, "--vary speed", "drop its size option"},
+    {{SWEEP_OK, "--vary", "mass", "--values", "1 kg"}, NULL, NULL, 0, "--mass", "the sweep sets the mass"},
+    {{SWEEP_OK, "--values", "0", "--figure", "pie"}, NULL, NULL, 0, "--figure", "not one of rate, time, both"},
+    {{"sweep", "--family", "conical", "--nominal-diameter", "1.5 m", "--vary", "mass", "--values", "1 kg",
+      "--figure", "rate"},
+     NULL, NULL, 0, "--figure", "only altitude sweeps"},
+    {{SWEEP_OK, "--values", "0", "--mark-speed", "5 kg"}, NULL, NULL, 0, "--mark-speed", "unknown speed unit 'kg'"},
+    {{SWEEP_OK, "--values", "0", "--body-drag-area", "-1 m2"}, NULL, NULL, 0, "--body-drag-area",
+     "zero or positive"},
+    {{SWEEP_OK, "--values", "0", "--plot-format", "gif"}, NULL, NULL, 0, "--plot-format", "not one of png, svg"},
+    {{SWEEP_OK, "--values", "0", "--plot-size", "10x10"}, NULL, NULL, 0, "--plot-size", "WIDTHxHEIGHT"},
+    {{SWEEP_OK, "--values", "0", "--plot", "@OUT@/"}, NULL, NULL, 0, "--plot", "names a directory"},
+    {{SWEEP_OK, "--values", "0", "--plot", "/proc/sinkrate-bad-input"}, NULL, NULL, 0,
+     "--plot: /proc/sinkrate-bad-input.dat", "cannot write"},
+    {{SWEEP_OK, "--values", "0,90 km", "--plot", "@OUT@/fig"}, NULL, NULL, 0, "--values", "outside"},
+    {{SWEEP_OK, "--values", "0", "--plot", "@OUT@/new/fig", "-o", "@OUT@/no/such/dir/sweep.txt"}, NULL, NULL, 0,
+     "-o: @OUT@/no/such/dir/sweep.txt", "cannot write"},
+    {{"sweep", "--mission", "@IN@"}, NULL, NULL, 0, "--mission: @IN@", "cannot open"},
+
+    /* ---- profile: the mission file ---- */
+    {{"profile", "@IN@"}, NULL, NULL, 0, "@IN@", "cannot open"},
+    {{"profile", "@DIR@"}, NULL, NULL, 0, "@DIR@", "is a directory"},
+    {{"profile"}, NULL, NULL, 0, "profile", "give a mission file"},
+    {{"profile", "@IN@", "@IN@"}, PMISSION, NULL, 0, "'@IN@'", "takes one mission file"},
+    {{PROFILE}, "mission: m\nsections: [\n", NULL, 0, "@IN@:3:1", "malformed YAML"},
+    {{PROFILE}, MISSION, NULL, 0, "@IN@", "no start: block"},
+    {{PROFILE}, "mission: m\nsite: {wind: {model: power-law, speed: 5 m/s, form: 250 deg}}\nsections:\n" SECTION
+                    STAGES START,
+     NULL, 0, "@IN@:2:47", "did you mean 'from'"},
+    {{PROFILE}, "mission: m\nsite: {wind: {model: gale}}\nsections:\n" SECTION STAGES START, NULL, 0, "@IN@:2:22",
+     "unknown wind model 'gale'"},
+    {{PROFILE}, "mission: m\nsite: {wind: {speed: 5, from: 250 deg}}\nsections:\n" SECTION STAGES START, NULL, 0,
+     "@IN@:2:22", "needs a unit"},
+    {{PROFILE}, "mission: m\nsite: {wind: {speed: -5 m/s, from: 250 deg}}\nsections:\n" SECTION STAGES START, NULL,
+     0, "@IN@:2:22", "outside 0 .. 100 m/s"},
+    {{PROFILE}, "mission: m\nsite: {wind: {speed: 5 m/s, from: 250 m}}\nsections:\n" SECTION STAGES START, NULL, 0,
+     "@IN@:2:35", "unknown angle unit 'm'"},
+    {{PROFILE}, "mission: m\nsite: {wind: {model: power-law, speed: 5 m/s, from: 250 deg, exponent: 3}}\nsections:\n"
+                    SECTION STAGES START,
+     NULL, 0, "@IN@:2:72", "outside 0.05 .. 0.8"},
+    {{PROFILE}, "mission: m\nsite: {wind: {model: sounding}}\nsections:\n" SECTION STAGES START, NULL, 0,
+     "@IN@:2:22", "the site has no sounding"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: 2 kg, body: {shap: sphere, diameter: 10 cm}}\n" STAGES START, NULL,
+     0, "@IN@:4:34", "did you mean 'shape'"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: 2 kg, body: {shape: cube, diameter: 10 cm}}\n" STAGES START, NULL,
+     0, "@IN@:4:41", "shape must be sphere"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: 2 kg, body: {shape: sphere}}\n" STAGES START, NULL, 0, "@IN@:4:33",
+     "missing the required key 'diameter'"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: 2 kg, body: {shape: sphere, diameter: 10 kg}}\n" STAGES START,
+     NULL, 0, "@IN@:4:59", "unknown length unit 'kg'"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: 2 kg, body: {shape: sphere, diameter: 10 cm, length: 1 m}}\n"
+                    STAGES START,
+     NULL, 0, "@IN@:4:74", "only a cylinder body takes a length"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: 2 kg, body: {shape: sphere, diameter: 10 cm}, drag-area: 0.1 m2}\n"
+                    STAGES START,
+     NULL, 0, "@IN@:4:27", "not both"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: 2 kg, body: {cd-table: second, diameter: 10 cm}}\n" STAGES START,
+     "Re,Cd\n1e3,0.5\n1e2,1.0\n", 0, "@IN2@:3:1", "strictly increasing"},
+    {{PROFILE}, PMISSION "failure-cases:\n  - no-canopies\n", NULL, 0, "@IN@:11:5", "'no-canopy'"},
+    {{PROFILE}, PMISSION "failure-cases:\n  - {only: mian}\n", NULL, 0, "@IN@:11:12", "did you mean 'main'"},
+    {{PROFILE}, PMISSION "failure-cases:\n  - {onyl: main}\n", NULL, 0, "@IN@:11:6", "did you mean 'only'"},
+    {{PROFILE}, MISSION "start: {heigt: 1000 m}\n", NULL, 0, "@IN@:9:9", "did you mean 'height'"},
+    {{PROFILE}, MISSION "start: {height: 1000 m, sped: 3 m/s}\n", NULL, 0, "@IN@:9:25", "did you mean 'speed'"},
+    {{PROFILE}, PMISSION "limits: {drift: 5 m/s}\n", NULL, 0, "@IN@:10:17", "unknown length unit 'm/s'"},
+    {{PROFILE}, PMISSION "limits: {landing-energy: 5 N}\n", NULL, 0, "@IN@:10:26", "unknown energy unit 'N'"},
+    {{PROFILE}, PMISSION "limits: {desent-time: 5 s}\n", NULL, 0, "@IN@:10:10", "did you mean 'descent-time'"},
+    {{PROFILE}, MISSION "    deploy: {height: 300 m}\n  - {name: b, family: cross, nominal-diameter: 1 m, "
+                        "deploy: {height: 500 m}}\n" START,
+     NULL, 0, "@IN@:10:70", "falling order"},
+    {{PROFILE}, MISSION "    deploy: {height: 3000 m}\n" START, NULL, 0, "@IN@:9:22", "not below the start"},
+    {{PROFILE, "--fail", "mian"}, PMISSION, NULL, 0, "--fail", "did you mean 'main'"},
+    {{PROFILE, "--fail", ","}, PMISSION, NULL, 0, "--fail", "give stage names or 'all'"},
+    {{PROFILE, "--plot", "@OUT@/fig"}, MISSION "start: {height: 1000 m, speed: -5 m/s}\n", NULL, 0, "@IN@:9:32",
+     "between 0 and 2000 m/s"},
+    {{PROFILE, "--plot", "/proc/sinkrate-bad-input"}, PMISSION, NULL, 0, "--plot: /proc/sinkrate-bad-input.dat",
+     "cannot write"},
+    /* the wind table a mission names */
+    {{PROFILE}, WIND_TABLE_MISSION, NULL, 0, "@IN@:2:35", "cannot open"},
+    {{PROFILE}, WIND_TABLE_MISSION, "height [m],speed [m/s],from [deg]\n0,3,240\n500,7,250\n", 0, "@IN@:9:17",
+     "above the top of the wind table"},
+    {{PROFILE}, WIND_TABLE_MISSION, "height [m],speed [m/s],frm [deg]\n0,3,240\n2000,7,250\n", 0, "@IN2@:1:24",
+     "unknown column 'frm'"},
+    {{PROFILE}, WIND_TABLE_MISSION, "height [m],speed [m/s],from [deg]\n0,3,240\n2000,-7,250\n", 0, "@IN2@:3:1",
+     "outside 0 .. 100 m/s"},
+    {{PROFILE}, WIND_TABLE_MISSION, "height [m],speed [m/s],from [deg]\n0,3,240\n0,7,250\n", 0, "@IN2@:3:1",
+     "does not increase"},
+    {{PROFILE}, WIND_TABLE_MISSION, "height [m],speed [kg],from [deg]\n0,3,240\n2000,7,250\n", 0, "@IN2@:1:12",
+     "unknown speed unit 'kg'"},
+    {{PROFILE}, WIND_TABLE_MISSION, "height [m],altitude [m],speed [m/s],from [deg]\n0,100,3,240\n2000,2100,7,250\n",
+     0, "@IN2@:1:1", "exactly one of the columns"},
+    {{PROFILE}, WIND_TABLE_MISSION, "height [m],speed [m/s]\n0,3\n2000,7\n", 0, "@IN2@:1:1", "no 'from' column"},
+    {{PROFILE}, WIND_TABLE_MISSION, "height [m],speed [m/s],from [deg]\n0,3,240\n2000,7,x\n", 0, "@IN2@:3:8",
+     "not a number"},
+    {{PROFILE}, WIND_TABLE_MISSION, NULL, GEN_BINARY2, "@IN2@:1:1", "binary data"},
+
+    /* ---- loads ---- */
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--filling-constant", "0"}, NULL, NULL, 0, "--filling-constant",
+     "greater than zero"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--filling-constant", "1e6"}, NULL, NULL, 0, "--filling-constant",
+     "0.5 .. 50"},
+    {{LOADS_CANOPY, "--speed", "-5 m/s"}, NULL, NULL, 0, "--speed", "greater than zero"},
+    {{LOADS_CANOPY, "--speed", "400 m/s"}, NULL, NULL, 0, "--speed", "subsonic deployment only"},
+    {{LOADS_CANOPY, "--speed", "30 kg"}, NULL, NULL, 0, "--speed", "unknown speed unit 'kg'"},
+    {{LOADS_CANOPY}, NULL, NULL, 0, "--speed", "is required"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--design-factor", "0.5"}, NULL, NULL, 0, "--design-factor", "at least 1"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--design-factor", "1e308"}, NULL, NULL, 0, "--design-factor", "1 .. 10"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--design-factor", "x"}, NULL, NULL, 0, "--design-factor",
+     "'x' is not a number"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--cluster-allowance", "1e9"}, NULL, NULL, 0, "--cluster-allowance",
+     "1 .. 10"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--opening-factor", "50"}, NULL, NULL, 0, "--opening-factor", "(0, 5]"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--growth-exponent", "20"}, NULL, NULL, 0, "--growth-exponent", "(0, 10]"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--path-angle", "120 deg"}, NULL, NULL, 0, "--path-angle",
+     "outside -90..90"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--altitude", "100 km"}, NULL, NULL, 0, "--altitude", "outside"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--stage", "main"}, NULL, NULL, 0, "--stage", "needs --mission"},
+    {{"loads", "--mission", "@IN@", "--stage", "mian"}, PMISSION, NULL, 0, "--stage", "did you mean 'main'"},
+    {{"loads", "--mission", "@IN@", "--speed", "30 m/s"}, PMISSION, NULL, 0, "--speed", "add --stage NAME"},
+    {{"loads", "--mission", "@IN@", "--family", "conical"}, PMISSION, NULL, 0, "--mission", "drop --family"},
+    {{"loads", "--mission", "@IN@"}, MISSION, NULL, 0, "--mission", "no start block"},
+    {{"loads", "--mission", "@IN@"}, MISSION_HEAD SECTION "stages:\n  - name: main\n    family: conical\n" START, NULL,
+     0, "--mission", "stage 'main' has no size"},
+    {{LOADS_CANOPY, "--speed", "0", "--plot", "@OUT@/fig"}, NULL, NULL, 0, "--speed", "greater than zero"},
+    {{"loads", "--mission", "@IN@", "--plot", "@OUT@/fig", "-o", "@OUT@"}, PMISSION, NULL, 0, "-o: @OUT@",
+     "is a directory"},
+
+    /* ---- freefall: options and drag tables ---- */
+    {{FREEFALL, "--body", "cube"}, NULL, NULL, 0, "--body", "'cube' is not one of sphere"},
+    {{"freefall", "--mass", "1 kg", "--body", "sphere"}, NULL, NULL, 0, "--diameter", "is required"},
+    {{FREEFALL, "--length", "1 m"}, NULL, NULL, 0, "--length", "only a cylinder has a length"},
+    {{FREEFALL, "--body", "cylinder"}, NULL, NULL, 0, "--length", "a cylinder needs its length"},
+    {{FREEFALL, "--curve", "sphere-foo"}, NULL, NULL, 0, "--curve", "unknown drag curve 'sphere-foo'"},
+    {{FREEFALL, "--body", "disk", "--curve", "sphere-cgw"}, NULL, NULL, 0, "--curve", "is for a sphere"},
+    {{"freefall", "--mass", "-1 kg", "--diameter", "10 cm"}, NULL, NULL, 0, "--mass", "greater than zero"},
+    {{"freefall", "--mass", "1 kg", "--diameter", "0 m"}, NULL, NULL, 0, "--diameter", "greater than zero"},
+    {{FREEFALL, "--altitude", "0:10 km"}, NULL, NULL, 0, "--altitude", "FROM:TO:STEP"},
+    {{FREEFALL, "--altitude", "0:80 km:1 m"}, NULL, NULL, 0, "--altitude", "at most 256"},
+    {{FREEFALL, "--altitude", "90 km"}, NULL, NULL, 0, "--altitude", "outside"},
+    {{FREEFALL, "--trace", "--steps", "500"}, NULL, NULL, 0, "--steps", "from 1 to 200"},
+    {{FREEFALL, "--start-cd", "1"}, NULL, NULL, 0, "--start-cd", "goes with --trace"},
+    {{FREEFALL, "--area", "1 m2"}, NULL, NULL, 0, "--area", "only for a table body"},
+    {{FREEFALL, "--body", "sphere", "--cd-table", "@IN@"}, CD_HEAD "1e2,1.0\n1e3,0.5\n", NULL, 0, "--cd-table",
+     "goes with --body table"},
+    {{FREEFALL, "--cd-table", "@IN@"}, NULL, NULL, 0, "--cd-table: @IN@", "cannot open"},
+    {{FREEFALL, "--cd-table", "@IN@"}, CD_HEAD "1e3,0.5\n1e2,1.0\n", NULL, 0, "@IN@:3:1", "strictly increasing"},
+    {{FREEFALL, "--cd-table", "@IN@"}, CD_HEAD "1e2,1.0\n1e2,0.5\n", NULL, 0, "@IN@:3:1", "does not increase"},
+    {{FREEFALL, "--cd-table", "@IN@"}, CD_HEAD "1e2,1.0\n1e3,-0.5\n", NULL, 0, "@IN@:3:1",
+     "drag coefficient -0.5 must be positive"},
+    {{FREEFALL, "--cd-table", "@IN@"}, CD_HEAD "1e2,1.0\n1e3,0\n", NULL, 0, "@IN@:3:1", "must be positive"},
+    {{FREEFALL, "--cd-table", "@IN@"}, CD_HEAD "-1e2,1.0\n1e3,0.5\n", NULL, 0, "@IN@:2:1",
+     "Reynolds number -100 must be positive"},
+    {{FREEFALL, "--cd-table", "@IN@"}, CD_HEAD "1e2,1.0\n", NULL, 0, "@IN@:2:1", "at least 2 rows"},
+    {{FREEFALL, "--cd-table", "@IN@", "--interp", "steffen"}, CD_HEAD "1e2,1.0\n1e3,0.5\n", NULL, 0, "@IN@:3:1",
+     "at least 3 rows for monotone interpolation"},
+    {{FREEFALL, "--cd-table", "@IN@", "--interp", "cubic"}, CD_HEAD "1e2,1.0\n1e3,0.5\n", NULL, 0, "--interp",
+     "not one of loglog, steffen"},
+    {{FREEFALL, "--cd-table", "@IN@"}, CD_HEAD "1e2,1.0\n1e3,x\n", NULL, 0, "@IN@:3:5", "not a number"},
+    {{FREEFALL, "--cd-table", "@IN@"}, "Re,Cd,Foo\n1e2,1.0,1\n1e3,0.5,1\n", NULL, 0, "@IN@:1:7",
+     "unknown column 'Foo'"},
+    {{FREEFALL, "--cd-table", "@IN@"}, "Re [m],Cd\n1e2,1.0\n1e3,0.5\n", NULL, 0, "@IN@:1:1", "takes no unit"},
+    {{FREEFALL, "--cd-table", "@IN@"}, "", NULL, 0, "@IN@:1:1", "empty table"},
+    {{FREEFALL, "--cd-table", "@IN2@.yaml"}, NULL, "points: [[1e2, 1.0]]\n", 0, "@IN2@.yaml:1:10",
+     "at least 2 rows"},
+    {{FREEFALL, "--cd-table", "@IN2@.yaml"}, NULL, "points: [[1e2, 1.0], [1e3]]\n", 0, "@IN2@.yaml:1:22",
+     "a pair [Re, Cd]"},
+    {{FREEFALL, "--cd-table", "@IN2@.yaml"}, NULL, "pionts: [[1e2, 1.0], [1e3, 0.4]]\n", 0, "@IN2@.yaml:1:1",
+     "did you mean 'points'"},
+    {{FREEFALL, "--cd-table", "@IN2@.yaml"}, NULL, "points: [[1e2, 1.0], [1e3, 0.4]]\nreference-area: 2\n", 0,
+     "@IN2@.yaml:2:17", "needs a unit"},
+    {{FREEFALL, "--altitude", "90 km", "--plot", "@OUT@/fig"}, NULL, NULL, 0, "--altitude", "outside"},
+
+    /* ---- dispersion ---- */
+    {{DISPERSION, "-n", "0"}, PMISSION, NULL, 0, "-n", "from 1 to 10000000"},
+    {{DISPERSION, "-n", "1e12"}, PMISSION, NULL, 0, "-n", "from 1 to 10000000"},
+    {{DISPERSION, "-n", "2.5"}, PMISSION, NULL, 0, "-n", "whole number"},
+    {{DISPERSION, "-n", "abc"}, PMISSION, NULL, 0, "-n", "'abc' is not a number of samples"},
+    {{DISPERSION, "-n", "-5"}, PMISSION, NULL, 0, "-n", "from 1 to 10000000"},
+    {{DISPERSION, "--threads", "x"}, PMISSION, NULL, 0, "--threads", "from 0 to 256"},
+    {{DISPERSION, "--threads", "1000"}, PMISSION, NULL, 0, "--threads", "from 0 to 256"},
+    {{DISPERSION, "--seed", "-1"}, PMISSION, NULL, 0, "--seed", "whole number >= 0"},
+    {{DISPERSION, "--seed", "1e3"}, PMISSION, NULL, 0, "--seed", "from 0 to 4294967295"},
+    {{DISPERSION, "--seed", "99999999999"}, PMISSION, NULL, 0, "--seed", "from 0 to 4294967295"},
+    {{DISPERSION, "--max-risk", "150 %"}, PMISSION, NULL, 0, "--max-risk", "not a probability"},
+    {{DISPERSION, "--samples", "@OUT@/no/such/samples.csv"}, PMISSION, NULL, 0,
+     "--samples: @OUT@/no/such/samples.csv", "cannot write"},
+    {{DISPERSION, "--samples", "@OUT@"}, PMISSION, NULL, 0, "--samples: @OUT@", "is a directory"},
+    {{DISPERSION, "--samples", ""}, PMISSION, NULL, 0, "--samples", "empty output file name"},
+    {{DISPERSION, "--samples", "/proc/sinkrate-bad-input.csv"}, PMISSION, NULL, 0,
+     "--samples: /proc/sinkrate-bad-input.csv", "cannot write"},
+    {{DISPERSION, "-n", "0", "--samples", "@OUT@/s.csv", "--plot", "@OUT@/fig"}, PMISSION, NULL, 0, "-n",
+     "from 1 to 10000000"},
+    {{DISPERSION, "--plot", "@OUT@/fig", "-o", "@OUT@/missing/d.txt"}, PMISSION, NULL, 0,
+     "-o: @OUT@/missing/d.txt", "cannot write"},
+    {{"dispersion"}, NULL, NULL, 0, "dispersion", "a mission file is required"},
+    {{DISPERSION}, NULL, NULL, 0, "@IN@", "cannot open"},
+    {{"dispersion", "@DIR@"}, NULL, NULL, 0, "@DIR@", "is a directory"},
+    /* the uncertainty block */
+    {{DISPERSION, "--samples", "@OUT@/s.csv"}, PMISSION "uncertainty: {mass: {distribution: normal, sigma: -2 %}}\n",
+     NULL, 0, "@IN@:10:51", "must not be negative"},
+    {{DISPERSION}, PMISSION "uncertainty: {mass: {distribution: gaussian, sigma: 2 %}}\n", NULL, 0, "@IN@:10:36",
+     "unknown distribution 'gaussian'"},
+    {{DISPERSION}, PMISSION "uncertainty: {mas: {distribution: normal, sigma: 2 %}}\n", NULL, 0, "@IN@:10:15",
+     "did you mean 'mass'"},
+    {{DISPERSION}, PMISSION "uncertainty: {drag: {mian: uniform}}\n", NULL, 0, "@IN@:10:22", "did you mean 'main'"},
+    {{DISPERSION}, PMISSION "uncertainty: {mass: {distribution: normal, sigma: 50 %}}\n", NULL, 0, "@IN@:10:51",
+     "at most 30 %"},
+    {{DISPERSION}, PMISSION "uncertainty: {mass: {distribution: normal, sgima: 5 %}}\n", NULL, 0, "@IN@:10:44",
+     "did you mean 'sigma'"},
+    {{DISPERSION}, PMISSION "uncertainty: {first-deployment: {distribution: normal, sigma: 500 m}}\n", NULL, 0,
+     "@IN@:10:63", "reaches the ground"},
+    {{DISPERSION}, PMISSION "uncertainty: {wind-direction: {distribution: uniform, half-width: 5 m}}\n", NULL, 0,
+     "@IN@:10:67", "unknown angle unit 'm'"},
+    {{DISPERSION}, PMISSION "uncertainty: {wind-speed: {distribution: normal}}\n", NULL, 0, "@IN@:10:27",
+     "needs sigma"},
+    {{DISPERSION}, PMISSION "uncertainty: {drag: {main: uniform}, drag: x}\n", NULL, 0, "@IN@:10:38",
+     "duplicate key 'drag'"},
 };
 
 /* ---- the harness ---- */
@@ -550,7 +804,7 @@ static int run_case(size_t i, const bad_case *c, int show)
     }
     char in_file[1024];
     snprintf(in_file, sizeof in_file, in_path, dir);
-    if (c->gen) {
+    if (c->gen && c->gen != GEN_BINARY2) {
         size_t len;
         char *b = generate(c->gen, &len);
         write_file(in_file, b, len);
@@ -562,9 +816,14 @@ static int run_case(size_t i, const bad_case *c, int show)
         write_file(in_file, text, strlen(text));
         free(text);
     }
-    if (c->in2) {
-        snprintf(p, sizeof p, "%s/in/second", dir);
-        write_file(p, c->in2, strlen(c->in2));
+    if (c->in2 || c->gen == GEN_BINARY2) {
+        size_t len = c->in2 ? strlen(c->in2) : 0;
+        char *b = c->in2 ? NULL : generate(GEN_BINARY, &len);
+        for (int k = 0; k < 2; k++) {
+            snprintf(p, sizeof p, k ? "%s/in/second.yaml" : "%s/in/second", dir);
+            write_file(p, b ? b : c->in2, len);
+        }
+        free(b);
     }
     int before = count_entries(dir);
 
@@ -671,6 +930,17 @@ static void test_bad_input_catalogue(void **state)
         failed += !run_case(i, &BAD[i], show);
     print_message("bad-input catalogue: %zu rows, %zu failed\n", n, failed);
     assert_true(n >= 100);
+    /* every command has rows */
+    static const char *const COMMANDS[] = {"size",     "rate",       "sweep", "profile",  "loads",
+                                           "freefall", "dispersion", "air",   "canopies", "check"};
+    for (size_t k = 0; k < sizeof COMMANDS / sizeof COMMANDS[0]; k++) {
+        size_t rows = 0;
+        for (size_t i = 0; i < n; i++)
+            rows += strcmp(BAD[i].args[0], COMMANDS[k]) == 0;
+        if (rows < 5)
+            print_error("bad-input catalogue: %zu rows for %s\n", rows, COMMANDS[k]);
+        assert_true(rows >= 5);
+    }
     assert_int_equal(failed, 0);
 }
 

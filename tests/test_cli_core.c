@@ -1,6 +1,7 @@
 /* test_cli_core.c - the core subcommands run in-process: real answers,
+ * the caution on every output of every command, and one clear line with
+ * exit 2 for bad input. */
 #define _DEFAULT_SOURCE
- * the caution on every output, and one clear line with exit 2 for bad input. */
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -39,41 +40,149 @@ static void test_demo_size_matches_hand_calculation(void **state)
     free(err);
 }
 
+#define REVISED "payloads/desert-club-rocket-revised.yaml"
+
+/* Every command's report: the caution at the top of the text (the text
+ * wraps it: its first words), as a comment line of the CSV and as the JSON's
+ * "caution" field; and in every command's --help. DESIGN.md, Cautions. */
 static void test_caution_everywhere(void **state)
 {
     (void)state;
     const char *caution = sr_report_caution();
     static const char *const FORMATS[] = {"text", "csv", "json"};
-    static const char *const CMDS[][8] = {
+    static const char *const CMDS[][12] = {
         {"size", "--mass", "2 kg", "--speed", "5 m/s", "--family", "cross", NULL},
         {"rate", "--mass", "2 kg", "--family", "cross", "--nominal-diameter", "1 m", NULL},
+        {"sweep", "--mass", "2 kg", "--family", "cross", "--nominal-diameter", "1 m", "--values", "0,1km", NULL},
+        {"profile", "@" REVISED, NULL},
+        {"loads", "--mass", "5 kg", "--speed", "30 m/s", "--family", "conical", "--nominal-diameter", "1.5 m", NULL},
+        {"freefall", "--mass", "1 kg", "--diameter", "10 cm", "--trace", NULL},
+        {"dispersion", "@" REVISED, "-n", "200", "--max-risk", "1", NULL},
         {"air", NULL},
         {"canopies", NULL},
         {"canopies", "ringslot", NULL},
+        {"check", "@" REVISED, NULL},
     };
-    for (size_t i = 0; i < sizeof CMDS / sizeof CMDS[0]; i++)
+    for (size_t i = 0; i < sizeof CMDS / sizeof CMDS[0]; i++) {
         for (size_t f = 0; f < 3; f++) {
-            char *argv[16];
+            char *argv[20];
             int argc = 0;
             argv[argc++] = "sinkrate";
             for (size_t k = 0; CMDS[i][k]; k++)
-                argv[argc++] = (char *)CMDS[i][k];
+                argv[argc++] = (char *)(CMDS[i][k][0] == '@' ? sr_test_path(CMDS[i][k] + 1) : CMDS[i][k]);
             argv[argc++] = "--format";
             argv[argc++] = (char *)FORMATS[f];
             argv[argc] = NULL;
             char *out, *err;
-            assert_int_equal(sr_test_cli_argv(&out, &err, argc, argv), 0);
-            /* text wraps the caution; look for its first words */
-            assert_non_null(strstr(out, f == 0 ? "CAUTION: preliminary engineering estimates only." : caution));
+            int rc = sr_test_cli_argv(&out, &err, argc, argv);
+            if (rc != 0)
+                print_error("%s --format %s: exit %d: %s\n", CMDS[i][0], FORMATS[f], rc, err);
+            assert_int_equal(rc, 0);
+            if (f == 0) {
+                /* at the top: after the title line, before any result */
+                const char *at = strstr(out, "CAUTION: preliminary engineering estimates only.");
+                assert_non_null(at);
+                assert_true(at - out < 200);
+            } else if (f == 1) {
+                const char *at = strstr(out, caution);
+                assert_non_null(at);
+                assert_true(at >= out + 2 && at[-2] == '#' && at[-1] == ' ' && (at - 2 == out || at[-3] == '\n'));
+            } else {
+                json_error_t je;
+                json_t *j = json_loads(out, 0, &je);
+                assert_non_null(j);
+                assert_string_equal(json_string_value(json_object_get(j, "caution")), caution);
+                json_decref(j);
+            }
             free(out);
             free(err);
         }
+        char *out, *err;
+        assert_int_equal(sr_test_cli(&out, &err, CMDS[i][0], "--help", NULL), 0);
+        assert_non_null(strstr(out, "CAUTION: preliminary engineering estimates only."));
+        assert_non_null(strstr(out, "carry people"));
+        free(out);
+        free(err);
+    }
     char *out, *err;
-    assert_int_equal(sr_test_cli(&out, &err, "size", "--help", NULL), 0);
+    assert_int_equal(sr_test_cli(&out, &err, "--help", NULL), 0);
     assert_non_null(strstr(out, "CAUTION"));
-    assert_non_null(strstr(out, "carry people"));
     free(out);
     free(err);
+}
+
+/* Every file a command writes besides its report carries the caution too:
+ * the data and script of each figure (--plot, gnuplot hidden: the files
+ * alone), and the samples of a dispersion. */
+static void test_caution_in_files(void **state)
+{
+    (void)state;
+    char dir[] = "/tmp/sinkrate-caution-XXXXXX";
+    assert_non_null(mkdtemp(dir));
+    char pre[300], samples[300];
+    snprintf(pre, sizeof pre, "%s/fig", dir);
+    snprintf(samples, sizeof samples, "%s/samples.csv", dir);
+    static const struct {
+        const char *args[12];
+        const char *figures[3]; /* suffixes of the prefix: the figures written */
+    } CMDS[] = {
+        {{"sweep", "--mass", "2 kg", "--family", "cross", "--nominal-diameter", "1 m", "--values", "0,1km", NULL},
+         {"", NULL}},
+        {{"profile", "@" REVISED, NULL}, {"", "-track", NULL}},
+        {{"loads", "--mass", "5 kg", "--speed", "30 m/s", "--family", "conical", "--nominal-diameter", "1.5 m", NULL},
+         {"", NULL}},
+        {{"loads", "--mission", "@" REVISED, NULL}, {"-drogue", "-main", NULL}},
+        {{"freefall", "--mass", "1 kg", "--diameter", "10 cm", "--altitude", "0,5km", NULL}, {"", NULL}},
+        {{"dispersion", "@" REVISED, "-n", "200", "--max-risk", "1", "--samples", "@@", NULL}, {"", NULL}},
+    };
+    char *old = strdup(getenv("PATH") ? getenv("PATH") : "");
+    setenv("PATH", "/nonexistent", 1);
+    for (size_t i = 0; i < sizeof CMDS / sizeof CMDS[0]; i++) {
+        char *argv[20];
+        int argc = 0;
+        argv[argc++] = "sinkrate";
+        for (size_t k = 0; CMDS[i].args[k]; k++) {
+            const char *a = CMDS[i].args[k];
+            argv[argc++] = (char *)(strcmp(a, "@@") == 0 ? samples : a[0] == '@' ? sr_test_path(a + 1) : a);
+        }
+        argv[argc++] = "--plot";
+        argv[argc++] = pre;
+        argv[argc] = NULL;
+        char *out, *err;
+        int rc = sr_test_cli_argv(&out, &err, argc, argv);
+        if (rc != 0)
+            print_error("%s --plot: exit %d: %s\n", CMDS[i].args[0], rc, err);
+        assert_int_equal(rc, 0);
+        for (size_t k = 0; CMDS[i].figures[k]; k++) {
+            static const char *const EXT[] = {"dat", "gp"};
+            for (size_t e = 0; e < 2; e++) {
+                char path[400];
+                snprintf(path, sizeof path, "%s%s.%s", pre, CMDS[i].figures[k], EXT[e]);
+                if (!sr_test_file_has(path, "# CAUTION: preliminary engineering estimates only."))
+                    print_error("%s: no caution in %s\n", CMDS[i].args[0], path);
+                assert_true(sr_test_file_has(path, "# CAUTION: preliminary engineering estimates only."));
+                unlink(path);
+            }
+        }
+        free(out);
+        free(err);
+    }
+    setenv("PATH", old, 1);
+    free(old);
+    /* the samples: the caution whole on a comment line, before the header */
+    FILE *f = fopen(samples, "r");
+    assert_non_null(f);
+    char line[2048], want[1024];
+    snprintf(want, sizeof want, "# %s", sr_report_caution());
+    for (char *nl = strchr(want, '\n'); nl; nl = strchr(nl, '\n'))
+        *nl = ' ';
+    int found = 0;
+    while (!found && fgets(line, sizeof line, f) && line[0] == '#')
+        found = strncmp(line, want, strlen(want)) == 0;
+    fclose(f);
+    assert_true(found);
+    unlink(samples);
+    assert_int_equal(rmdir(dir), 0); /* nothing else was written */
 }
 
 /* Bad input: one clear line on stderr naming the option or file, exit 2. */
@@ -192,8 +301,37 @@ static void test_output_file_atomic(void **state)
     assert_int_not_equal(stat(bad, &st), 0);
     free(out);
     free(err);
+
+    /* a write that fails after others succeeded (gnuplot, a stand-in that
+     * always fails, rejects the figure): exit 2, and what the run made is
+     * removed again: the report of -o, the figure's data and script and the
+     * directories made for them; the file of the earlier run stays */
+    char fake[300], pre[300], report[300];
+    snprintf(fake, sizeof fake, "%s/gnuplot", path);
+    FILE *g = fopen(fake, "w");
+    assert_non_null(g);
+    fputs("#!/bin/sh\necho 'line 1: rejected' >&2\nexit 1\n", g);
+    fclose(g);
+    assert_int_equal(chmod(fake, 0755), 0);
+    snprintf(pre, sizeof pre, "%s/made/deeper/fig", path);
+    snprintf(report, sizeof report, "%s/profile.txt", path);
+    char *old = strdup(getenv("PATH") ? getenv("PATH") : "");
+    setenv("PATH", path, 1);
+    int rc = sr_test_cli(&out, &err, "profile", sr_test_path(REVISED), "--plot", pre, "-o", report, NULL);
+    setenv("PATH", old, 1);
+    free(old);
+    assert_int_equal(rc, 2);
+    assert_non_null(strstr(err, "gnuplot rejected"));
+    assert_int_equal(sr_test_lines(err), 1);
+    assert_int_not_equal(stat(report, &st), 0);
+    snprintf(bad, sizeof bad, "%s/made", path);
+    assert_int_not_equal(stat(bad, &st), 0);
+    assert_int_equal(stat(file, &st), 0);
+    free(out);
+    free(err);
+    remove(fake);
     remove(file);
-    rmdir(path);
+    assert_int_equal(rmdir(path), 0);
 }
 
 static void test_check_command(void **state)
@@ -208,6 +346,14 @@ static void test_check_command(void **state)
     const char *bad = sr_test_tmpfile(".yaml", "hello: world\n");
     assert_int_equal(sr_test_cli(&out, &err, "check", sr_test_path(DEMO), bad, NULL), 2);
     assert_non_null(strstr(err, "not a sinkrate file"));
+    free(out);
+    free(err);
+    /* its report is the product even then: -o keeps it although the exit is 2 */
+    char report[300];
+    snprintf(report, sizeof report, "%s.report.txt", bad);
+    assert_int_equal(sr_test_cli(&out, &err, "check", sr_test_path(DEMO), bad, "-o", report, NULL), 2);
+    assert_true(sr_test_file_has(report, "INVALID"));
+    unlink(report);
     free(out);
     free(err);
 }
@@ -243,6 +389,7 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_demo_size_matches_hand_calculation),
         cmocka_unit_test(test_caution_everywhere),
+        cmocka_unit_test(test_caution_in_files),
         cmocka_unit_test(test_bad_input),
         cmocka_unit_test(test_bad_yaml_files),
         cmocka_unit_test(test_impossible_is_exit_1),

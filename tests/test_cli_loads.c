@@ -6,6 +6,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 #include <jansson.h>
 
 #include "plot.h"
@@ -226,6 +227,23 @@ static void test_plot_files(void **state)
         snprintf(stage, sizeof stage, "%s-%s", prefix, STAGES[i]);
         check_figure(stage, have);
     }
+    /* a stage's name is a file name only: "a/../../x" stays beside PREFIX */
+    const char *odd = sr_test_tmpfile(".yaml", "mission: m\nsections: [{name: s, mass: 2 kg}]\nstages:\n"
+                                               "  - {name: a/../../x, family: cross, nominal-diameter: 0.6 m, "
+                                               "deploy: apogee}\n"
+                                               "  - {name: main, family: conical, nominal-diameter: 1.5 m, "
+                                               "deploy: {height: 200 m}}\n"
+                                               "start: {height: 1000 m, speed: 10 m/s}\n");
+    const char *oddargs[] = {"--mission", odd, NULL};
+    snprintf(prefix, sizeof prefix, "%s/odd/deeper/fig", dir);
+    run_plot(prefix, 1, oddargs);
+    char path[600];
+    snprintf(path, sizeof path, "%s/odd/deeper/fig-a-..-..-x.dat", dir);
+    assert_int_equal(access(path, F_OK), 0);
+    snprintf(path, sizeof path, "%s/x.dat", dir);
+    assert_int_not_equal(access(path, F_OK), 0);
+    snprintf(path, sizeof path, "%s/odd/deeper/fig-a", dir);
+    assert_int_not_equal(access(path, F_OK), 0);
     char cmd[400];
     snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
     assert_int_equal(system(cmd), 0);

@@ -367,14 +367,16 @@ static void test_bad_input(void **state)
         int code;
         const char *msg;
     } cases[] = {
-        {"zero filling constant", 0, 0, SR_EINVAL, "filling constant must be positive"},
+        {"zero filling constant", 0, 0, SR_EINVAL, "filling constant must lie in 0.5 .. 50"},
+        {"filling constant beyond a family file's", 0, 1e6, SR_EINVAL, "filling constant must lie in 0.5 .. 50"},
         {"negative speed", 1, -5, SR_EINVAL, "deployment speed must be positive"},
         {"zero speed", 1, 0, SR_EINVAL, "deployment speed must be positive"},
         {"supersonic speed", 1, 400, SR_EDOMAIN, "subsonic"},
         {"negative mass", 2, -1, SR_EINVAL, "payload mass must be positive"},
         {"mass not set", 2, NAN, SR_EINVAL, "payload mass is not set"},
         {"drag area on projected reference", 3, 10, SR_EINVAL, "another reference area"},
-        {"design factor below 1", 4, 0.8, SR_EINVAL, "design factor must be at least 1"},
+        {"design factor below 1", 4, 0.8, SR_EINVAL, "design factor must lie in 1 .. 10"},
+        {"absurd design factor", 4, 1e308, SR_EINVAL, "design factor must lie in 1 .. 10"},
         {"exponent zero", 5, 0, SR_EINVAL, "growth exponent"},
         {"path angle beyond vertical", 6, 2.0, SR_EINVAL, "flight-path angle"},
         {"infinite speed", 1, INFINITY, SR_EINVAL, "deployment speed must be finite"},

@@ -67,6 +67,7 @@ int sr_cli_run(int argc, char **argv, FILE *out, FILE *err)
         if (strcmp(COMMANDS[i].name, name) == 0) {
             c.cmd = COMMANDS[i].name;
             int rc = COMMANDS[i].fn(&c, argc - 1, argv + 1);
+            sr_cli_made_end(&c, rc == SR_EXIT_USAGE);
             fflush(out);
             return rc < 0 ? SR_EXIT_OK : rc;
         }

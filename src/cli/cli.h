@@ -30,6 +30,10 @@ typedef struct sr_cli {
     int threads;             /* --threads N, 0 = all cores */
     unsigned long seed;      /* --seed N */
     int seed_set;
+    /* files and directories this run created, removed again when it ends
+     * with bad input or a failed write (exit 2): no half product stays */
+    char *made[32];
+    int nmade;
 } sr_cli;
 
 int sr_cli_run(int argc, char **argv, FILE *out, FILE *err);

@@ -19,8 +19,8 @@ const char SR_HELP_PLOT[] =
     "  --plot-format png|svg    the figure's format (default png)\n"
     "  --plot-size WxH          the figure's size in pixels (default 1000x650)\n";
 
-/* mkdir -p for the directory part of prefix */
-static int make_parent(const char *prefix)
+/* mkdir -p for the directory part of prefix; what it makes is the run's */
+static int make_parent(sr_cli *c, const char *prefix)
 {
     char dir[PATH_MAX];
     snprintf(dir, sizeof dir, "%s", prefix);
@@ -32,10 +32,12 @@ static int make_parent(const char *prefix)
         if (*p != '/')
             continue;
         *p = '\0';
+        sr_cli_made(c, dir);
         if (mkdir(dir, 0777) != 0 && errno != EEXIST)
             return -1;
         *p = '/';
     }
+    sr_cli_made(c, dir);
     if (mkdir(dir, 0777) != 0 && errno != EEXIST)
         return -1;
     return 0;
@@ -56,7 +58,7 @@ int sr_cli_plot_to(sr_cli *c, const sr_plot *p, const char *prefix, int argc, ch
     size_t at = (size_t)snprintf(cmd, sizeof cmd, "sinkrate");
     for (int i = 0; i < argc && at < sizeof cmd; i++)
         at += (size_t)snprintf(cmd + at, sizeof cmd - at, " %s", argv[i]);
-    if (make_parent(prefix) != 0)
+    if (make_parent(c, prefix) != 0)
         return sr_cli_fail(c, "--plot: cannot create the directory of '%s': %s", prefix, strerror(errno));
     sr_plot_out o = {.prefix = prefix,
                      .style = style[0] ? style : NULL,
@@ -64,6 +66,12 @@ int sr_cli_plot_to(sr_cli *c, const sr_plot *p, const char *prefix, int argc, ch
                      .width = c->plot_width ? c->plot_width : SR_PLOT_DEFAULT_WIDTH,
                      .height = c->plot_height ? c->plot_height : SR_PLOT_DEFAULT_HEIGHT,
                      .command = cmd};
+    char made[PATH_MAX + 8];
+    const char *ext[3] = {"dat", "gp", o.format};
+    for (int k = 0; k < 3; k++) {
+        sr_plot_path(made, sizeof made, prefix, ext[k]);
+        sr_cli_made(c, made);
+    }
     sr_error e;
     if (sr_plot_write(p, &o, &e))
         return sr_cli_fail(c, "--plot: %s", e.msg);

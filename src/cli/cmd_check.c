@@ -96,6 +96,8 @@ int sr_cmd_check(sr_cli *c, int argc, char **argv)
     if (bad)
         sr_report_warning(r, "%d of %d file(s) invalid", bad, argc - first);
     rc = sr_cli_emit(c, r);
+    if (!rc) /* the report is the product even when a file is invalid: exit 2 keeps it */
+        sr_cli_made_end(c, 0);
     sr_report_free(r);
     free(cat);
     return rc ? rc : bad ? SR_EXIT_USAGE : SR_EXIT_OK;

@@ -246,6 +246,7 @@ static int write_samples(sr_cli *c, const char *path, const sr_mission *m, const
     struct stat st;
     if (stat(path, &st) == 0 && S_ISDIR(st.st_mode))
         return sr_cli_fail(c, "--samples: %s is a directory", path);
+    sr_cli_made(c, path);
     int fd = mkstemp(tmp);
     if (fd < 0)
         return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(errno));
@@ -694,6 +695,8 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     if (o.n && (rc = parse_count(c, o.n, &n)))
         return rc;
     if (o.risk && (rc = parse_share(c, o.risk, &risk)))
+        return rc;
+    if (o.samples && (rc = sr_cli_check_output(c, "--samples", o.samples)))
         return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;

@@ -2,6 +2,7 @@
  * deployment by three methods, their spread, per-canopy loads and required
  * strengths; for a mission file, at every stage's deployment. */
 #define _DEFAULT_SOURCE
+#include <ctype.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -12,6 +13,7 @@
 #include "descent.h"
 #include "mission.h"
 #include "opening.h"
+#include "yamldoc.h"
 
 enum {
     OPT_MASS = OPT_COMMAND_BASE, OPT_SPEED, OPT_ALTITUDE, OPT_PATH_ANGLE, OPT_DESIGN_FACTOR, OPT_EXPONENT,
@@ -51,7 +53,7 @@ static const char HELP[] =
     "                           elevation, or 0)\n"
     "  --path-angle A           flight-path angle below the horizontal at deployment:\n"
     "                           90 straight down (default), 0 level as at apogee\n"
-    "  --design-factor K        turn the peak into a required rated strength (K >= 1)\n"
+    "  --design-factor K        turn the peak into a required rated strength (1 to 10)\n"
     "  --growth-exponent N      drag area grows as (t/t_f)^N while filling (default by the\n"
     "                           family's class: solid 2, slotted 1, from memory)\n"
     "  --filling-constant N     override the family's filling constant (t_f = N D0 / V)\n"
@@ -65,7 +67,8 @@ static const char HELP[] =
     "                           may replace its deployment state)\n\n"
     "The figure (with --plot): force vs time from the inflation ODE at the typical ends of\n"
     "the bands, with each method's peak marked; for a whole mission, one figure a stage,\n"
-    "PREFIX-STAGE.png.\n\n";
+    "PREFIX-STAGE.png (in the stage's name, what is not a letter, digit, '.', '_' or '-'\n"
+    "becomes '-').\n\n";
 
 typedef struct loads_opts {
     const char *mass, *speed, *altitude, *angle, *design, *exponent, *fill, *cx, *allowance, *mission, *stage;
@@ -476,7 +479,13 @@ static int figures(sr_cli *c, const deploy *ds, size_t n, int argc, char **argv)
         return figure(c, &ds[0], c->plot_prefix, argc, argv);
     for (size_t i = 0; i < n && !rc; i++) {
         char pre[4096];
-        snprintf(pre, sizeof pre, "%s-%s", c->plot_prefix, ds[i].name);
+        snprintf(pre, sizeof pre, "%s-", c->plot_prefix);
+        size_t at = strlen(pre);
+        /* the stage name comes from the mission file: as a file name only,
+         * so "a/../../x" cannot put a figure anywhere but beside PREFIX */
+        for (const char *s = ds[i].name; *s && at + 1 < sizeof pre; s++)
+            pre[at++] = isalnum((unsigned char)*s) || *s == '-' || *s == '_' || *s == '.' ? *s : '-';
+        pre[at] = '\0';
         rc = figure(c, &ds[i], pre, argc, argv);
     }
     return rc;
@@ -517,6 +526,19 @@ static int mission_summary(sr_cli *c, sr_report *r, deploy *ds, size_t n, const 
         sr_rtable_row(tab, row, texts);
     }
     return 0;
+}
+
+/* --stage names no stage of the mission: say so, with the nearest name. */
+static int no_stage(sr_cli *c, const sr_mission *mis, const char *name)
+{
+    const char *names[SR_MISSION_MAX_STAGES + 1];
+    for (size_t i = 0; i < mis->nstages; i++)
+        names[i] = mis->stages[i].name;
+    names[mis->nstages] = NULL;
+    const char *s = sr_yaml_suggest(name, names);
+    if (s)
+        return sr_cli_fail(c, "--stage: the mission has no stage '%s'; did you mean '%s'?", name, s);
+    return sr_cli_fail(c, "--stage: the mission has no stage '%s'", name);
 }
 
 /* Deployment states of a mission's stages: the first at the start state,
@@ -572,7 +594,7 @@ static int mission_deploys(sr_cli *c, const sr_mission *mis, const sr_atmos *atm
             return sr_cli_fail(c, "--mission: stage '%s': %s", s->name, e.msg);
     }
     if (only && !found)
-        return sr_cli_fail(c, "--stage: the mission has no stage '%s'", only);
+        return no_stage(c, mis, only);
     return 0;
 }
 
@@ -650,7 +672,7 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
             for (k = 0; k < mis->nstages && strcmp(mis->stages[k].name, o.stage) != 0; k++)
                 ;
             if (k == mis->nstages) {
-                rc = sr_cli_fail(c, "--stage: the mission has no stage '%s'", o.stage);
+                rc = no_stage(c, mis, o.stage);
                 goto out;
             }
             snprintf(d->name, sizeof d->name, "%s", o.stage);

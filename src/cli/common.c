@@ -13,6 +13,7 @@
 
 #include "cli/cliplot.h"
 #include "fileio.h"
+#include "plot.h"
 #include "mission.h"
 #include "yamldoc.h"
 
@@ -251,6 +252,14 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
         }
         }
     }
+    /* the output paths before any work: a bad one fails first, with one
+     * line, and nothing is computed or written */
+    int rc;
+    if (c->output && (rc = sr_cli_check_output(c, "-o", c->output)))
+        return rc;
+    sr_error e;
+    if (c->plot_prefix && sr_plot_check_prefix(c->plot_prefix, c->plot_format ? c->plot_format : "png", &e))
+        return sr_cli_fail(c, "--plot: %s", e.msg);
     if (first_arg)
         *first_arg = optind;
     else if (optind < argc)
@@ -652,6 +661,34 @@ void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t
     }
 }
 
+int sr_cli_check_output(sr_cli *c, const char *opt, const char *path)
+{
+    sr_error e;
+    if (sr_file_check_writable(path, 0, &e))
+        return sr_cli_fail(c, "%s: %s", opt, e.msg);
+    return 0;
+}
+
+void sr_cli_made(sr_cli *c, const char *path)
+{
+    struct stat st;
+    if (c->nmade >= (int)(sizeof c->made / sizeof c->made[0]) || lstat(path, &st) == 0)
+        return;
+    c->made[c->nmade] = strdup(path);
+    if (c->made[c->nmade])
+        c->nmade++;
+}
+
+void sr_cli_made_end(sr_cli *c, int failed)
+{
+    while (c->nmade > 0) {
+        char *p = c->made[--c->nmade];
+        if (failed)
+            remove(p); /* a directory goes only when empty */
+        free(p);
+    }
+}
+
 int sr_cli_emit(sr_cli *c, const sr_report *r)
 {
     char *buf = NULL;
@@ -668,6 +705,7 @@ int sr_cli_emit(sr_cli *c, const sr_report *r)
         return sr_cli_fail(c, "%s", e.msg);
     }
     if (c->output) {
+        sr_cli_made(c, c->output);
         rc = sr_file_write_atomic(c->output, buf, len, &e);
         free(buf);
         if (rc)

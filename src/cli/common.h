@@ -135,6 +135,18 @@ void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t
 /* Render the report in the chosen format to stdout or -o FILE (atomically). */
 int sr_cli_emit(sr_cli *c, const sr_report *r);
 
+/* Check before any work that an output file (opt: "-o", "--samples") can be
+ * written; sr_cli_parse does it for -o and --plot. 0 or an exit code. */
+int sr_cli_check_output(sr_cli *c, const char *opt, const char *path);
+
+/* Before writing path (a file, or a directory about to be made): when it
+ * does not exist yet, remember it, so sr_cli_made_end(c, 1) removes it if
+ * the run fails. An existing file is never removed. */
+void sr_cli_made(sr_cli *c, const char *path);
+/* At the end of a run: failed != 0 removes what the run made (newest first);
+ * 0 keeps it and forgets the list (check: its report stands at exit 2). */
+void sr_cli_made_end(sr_cli *c, int failed);
+
 /* Help text pieces shared by the commands. */
 extern const char SR_HELP_OUTPUT[];
 extern const char SR_HELP_ATMOS[];
