@@ -514,7 +514,7 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, con
     ax.ylabel = yl;
     ax.equal = 1;
     /* The map holds the drawn landings, the 3-sigma ellipses, the launch
-     * point and the drift limit, and a band of its own for the legend. */
+     * point and the drift limit. */
     size_t shown_n = shown * res->nbodies;
     double x0 = 0.0, x1 = 0.0, y0 = 0.0, y1 = 0.0;
     for (size_t i = 0; i < shown_n; i++) {
@@ -531,14 +531,10 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, con
         y0 = fmin(y0, -m->limit_drift), y1 = fmax(y1, m->limit_drift);
     }
     double span = fmax(fmax(x1 - x0, y1 - y0), 1.0);
-    /* a band for the legend above or below the map (the side away from the
-     * scatter), about a third of the panel's height */
-    double band = 0.55 * fmax(y1 - y0, 1.0);
-    int below = st->body[0].mean_north >= 0.5 * (y0 + y1), left = st->body[0].mean_east >= 0.5 * (x0 + x1);
-    ax.key = below ? (left ? SR_PLOT_KEY_BOTTOM_LEFT : SR_PLOT_KEY_BOTTOM_RIGHT)
-                   : (left ? SR_PLOT_KEY_TOP_LEFT : SR_PLOT_KEY_TOP_RIGHT);
+    /* the legend goes in the strip above the panels, so it never covers a landing */
+    ax.key = SR_PLOT_KEY_ABOVE;
     x0 -= 0.04 * span, x1 += 0.04 * span;
-    y0 -= below ? band : 0.04 * span, y1 += below ? 0.04 * span : band;
+    y0 -= 0.04 * span, y1 += 0.04 * span;
     ax.xmin = sr_units_from_si(x0, SR_Q_LENGTH, sys), ax.xmax = sr_units_from_si(x1, SR_Q_LENGTH, sys);
     ax.ymin = sr_units_from_si(y0, SR_Q_LENGTH, sys), ax.ymax = sr_units_from_si(y1, SR_Q_LENGTH, sys);
     sr_plot_set_axes(p, 0, &ax);
