@@ -13,6 +13,9 @@ summary="$dir/fuzz-summary.tsv"
 mkdir -p "$dir/logs"
 [ -f "$summary" ] || printf 'target\tseconds\texecutions\texec/s\tcoverage\tfeatures\tcorpus\tfindings\tdate\n' > "$summary"
 status=0
+# the OpenMP runtime's thread pool outlives the final leak check (tests/fuzz/lsan.supp)
+LSAN_OPTIONS="suppressions=$src/tests/fuzz/lsan.supp${LSAN_OPTIONS:+:$LSAN_OPTIONS}"
+export LSAN_OPTIONS
 for n in "$@"; do
   case $n in
     units) maxlen=128 ;;
