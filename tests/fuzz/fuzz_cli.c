@@ -19,9 +19,10 @@
 
 static FILE *devnull;
 
-/* Long options that write files other than through sr_file_write_atomic;
+/* Long options that write files other than through sr_file_write_atomic
+ * (plots also start gnuplot; dispersion's --samples writes its own file);
  * commands that add such options add them here. */
-static const char *const WRITERS[] = {"plot", "plot-format", NULL};
+static const char *const WRITERS[] = {"plot", "plot-format", "plot-size", "samples", NULL};
 
 int __wrap_sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err);
 int __wrap_sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err)
