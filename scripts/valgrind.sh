@@ -9,6 +9,7 @@ tmp=$(mktemp -d /tmp/sinkrate-vg-XXXXXX)
 trap 'rm -rf "$tmp"' EXIT INT TERM
 export SINKRATE_DATA="$root"
 M="$root/payloads/desert-club-rocket.yaml"
+R="$root/payloads/desert-club-rocket-revised.yaml"
 printf 'mission: x\nsections: [\n' > "$tmp/bad.yaml"
 printf 'altitude [m],temperature [C],pressure [hPa]\n0,15,1013.25\n1000,8.5,898.7\n3000,-4.5,701.1\n' > "$tmp/sounding.csv"
 # valgrind's own failure code, distinct from the program's 0/1/2
@@ -51,6 +52,17 @@ done <<EOF_LIST
 2 air -o "$tmp/missing/dir/out.txt"
 2 check "$tmp/bad.yaml" "$tmp/nonexistent.yaml"
 2 frobnicate
+0 sweep --mission "$M" --from 1380m --to 2380m --step 500m --format csv
+0 sweep --vary speed --values 5m/s,7m/s --mass 5.3kg --family conical --family annular
+0 profile "$R"
+1 profile "$M" --format json
+0 loads --mission "$R" --stage main
+0 loads --mass 5kg --speed 40m/s --family conical --nominal-diameter 1.5m --units us
+0 freefall --body sphere --diameter 0.2m --mass 1kg --trace
+0 freefall --body cylinder --diameter 0.1m --length 0.6m --mass 1.2kg --format json
+1 dispersion "$R" -n 20 --seed 3 --threads 1 --samples "$tmp/samples.csv"
+2 profile "$tmp/bad.yaml"
+2 freefall --body cube --diameter 1m --mass 1kg
 EOF_LIST
 [ $fail -eq 0 ] && echo "valgrind: $n CLI examples clean (no memory errors, no definite or indirect leaks)"
 exit $fail

@@ -20,10 +20,12 @@
 
 /* Placeholders in args, where and file contents:
  *   @IN@    the first input file (content `in`; absent when in is NULL)
+ *   @INY@   the same, named first.yaml (readers that go by the extension)
  *   @IN2@   a second input file next to it (content `in2`), named "second"
  *   @DIR@   an existing directory holding the inputs
  *   @OUT@   the output directory, which must stay empty
  *   @DATA@  a data directory whose canopies/ holds @IN@ as its only family
+ *   @ROOT@  the source tree (for the demo missions)
  * Unless a row gives -o itself, "-o @OUT@/result" is appended -- except for
  * `check`, whose report on the files it checked is its product even when a
  * file is invalid: check rows run without -o and may print that report. */
@@ -62,6 +64,10 @@ typedef struct bad_case {
 #define FAM_BODY "name: \"Test\"\nclass: solid\n" FAM_CD FAM_REST
 #define FAMILY FAM_HEAD FAM_CD FAM_REST
 #define SOUNDING_HEAD "altitude [m],temperature [C],pressure [hPa]\n"
+
+/* Demo missions in the tree. */
+#define DEMO "@ROOT@/payloads/desert-club-rocket.yaml"
+#define REVISED "@ROOT@/payloads/desert-club-rocket-revised.yaml"
 
 /* Common command lines. */
 #define SIZE_MISSION "size", "--mission", "@IN@", "--speed", "5 m/s"
@@ -403,14 +409,128 @@ static const bad_case BAD[] = {
     {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013\n1000,8,1e999\n", NULL, 0, "@IN@:3:8", "out of the range"},
     {{AIR_SOUNDING}, NULL, NULL, 0, "--sounding: @IN@", "cannot open"},
     {{"air", "--sounding", "@DIR@"}, NULL, NULL, 0, "--sounding: @DIR@", "is a directory"},
+
+    /* ---- sweep ---- */
+    {{"sweep", "--vary", "bogus", "--from", "1", "--to", "2", "--step", "1", "--mission", DEMO}, NULL, NULL, 0,
+     "--vary", "not one of altitude"},
+    {{"sweep", "--mission", DEMO, "--from", "0", "--to", "100km", "--step", "1km"}, NULL, NULL, 0, "--from",
+     "below the ground"},
+    {{"sweep", "--mission", DEMO, "--values", "1500m,,x"}, NULL, NULL, 0, "--values", "'x' is not a number"},
+    {{"sweep", "--mission", DEMO, "--figure", "pie"}, NULL, NULL, 0, "--figure", "not one of rate, time, both"},
+    {{"sweep", "--mission", DEMO, "--by", "mass=2kg,3kg", "--by", "mass=3kg"}, NULL, NULL, 0, "--by",
+     "given twice"},
+    {{"sweep", "--vary", "mass", "--from", "1kg", "--to", "10kg", "--step", "1kg", "--family", "conical",
+      "--nominal-diameter", "1m", "--mass", "2kg"},
+     NULL, NULL, 0, "--mass", "the sweep sets the mass"},
+    {{"sweep", "--mission", "@IN@"}, NULL, NULL, 0, "--mission: @IN@", "cannot open"},
+
+    /* ---- profile ---- */
+    {{"profile"}, NULL, NULL, 0, "profile", "give a mission file"},
+    {{"profile", DEMO, DEMO}, NULL, NULL, 0, "unexpected argument", "one mission file"},
+    {{"profile", "@IN@"}, NULL, NULL, 0, "@IN@", "cannot open"},
+    {{"profile", "@DIR@"}, NULL, NULL, 0, "@DIR@", "is a directory"},
+    {{"profile", DEMO, "--fail", "bogus"}, NULL, NULL, 0, "--fail", "no stage 'bogus'"},
+    {{"profile", "@IN@"}, "mission: m\nsite: {wind: {file: second}}\nsections:\n" SECTION STAGES,
+     "height [m],speed [m/s],from [deg]\n0,5,90\n100,-5,90\n", 0, "@IN2@:3:1", "outside 0 .. 100 m/s"},
+    {{"profile", "@IN@"}, "", NULL, 0, "@IN@:1:1", "the file is empty"},
+
+    /* ---- loads ---- */
+    {{"loads", "--mass", "5kg", "--speed", "40m/s", "--family", "conical"}, NULL, NULL, 0, "--nominal-diameter",
+     "needs a size"},
+    {{"loads", "--mass", "5kg", "--speed", "-40m/s", "--family", "conical", "--nominal-diameter", "1m"}, NULL, NULL,
+     0, "--speed", "greater than zero"},
+    {{"loads", "--mass", "5kg", "--speed", "4000m/s", "--family", "conical", "--nominal-diameter", "1m"}, NULL, NULL,
+     0, "--speed", "subsonic"},
+    {{"loads", "--mission", REVISED, "--stage", "mian"}, NULL, NULL, 0, "--stage", "no stage 'mian'"},
+    {{"loads", "--mass", "5kg", "--speed", "40m/s", "--family", "conical", "--nominal-diameter", "1m",
+      "--design-factor", "0.5"},
+     NULL, NULL, 0, "--design-factor", "at least 1"},
+    {{"loads", "--mass", "5kg", "--speed", "40m/s", "--family", "conical", "--nominal-diameter", "1m",
+      "--growth-exponent", "-1"},
+     NULL, NULL, 0, "--growth-exponent", "greater than zero"},
+    {{"loads", "--mass", "5kg", "--speed", "40m/s", "--family", "conical", "--nominal-diameter", "1m", "--altitude",
+      "100km"},
+     NULL, NULL, 0, "--altitude", "outside"},
+    {{"loads", "--mass", "5kg", "--speed", "40 kg", "--family", "conical", "--nominal-diameter", "1m"}, NULL, NULL,
+     0, "--speed", "unknown speed unit 'kg'"},
+
+    /* ---- freefall, drag tables ---- */
+    {{"freefall", "--body", "cube", "--diameter", "1m", "--mass", "1kg"}, NULL, NULL, 0, "--body",
+     "not one of sphere"},
+    {{"freefall", "--body", "sphere", "--diameter", "-1m", "--mass", "1kg"}, NULL, NULL, 0, "--diameter",
+     "greater than zero"},
+    {{"freefall", "--body", "cylinder", "--diameter", "0.1m", "--mass", "1kg"}, NULL, NULL, 0, "--length",
+     "needs its length"},
+    {{"freefall", "--body", "sphere", "--diameter", "0.1m", "--mass", "0kg"}, NULL, NULL, 0, "--mass",
+     "greater than zero"},
+    {{"freefall", "--body", "sphere", "--diameter", "0.1m", "--mass", "1kg", "--steps", "0"}, NULL, NULL, 0,
+     "--steps", "goes with --trace"},
+    {{"freefall", "--body", "sphere", "--diameter", "0.1m", "--mass", "1kg", "--curve", "bogus"}, NULL, NULL, 0,
+     "--curve", "unknown drag curve"},
+    {{"freefall", "--body", "sphere", "--diameter", "0.1m", "--mass", "1kg", "--interp", "cubic"}, NULL, NULL, 0,
+     "--interp", "only for a table body"},
+    {{"freefall", "--cd-table", "@IN@", "--diameter", "0.1m", "--mass", "1kg"}, NULL, NULL, 0, "--cd-table: @IN@",
+     "cannot open"},
+    {{"freefall", "--cd-table", "@IN@", "--diameter", "0.1m", "--mass", "1kg", "--area", "0.01m2"},
+     "Re,Cd\n100,1\n100,0.9\n", NULL, 0, "@IN@:3:1", "does not increase"},
+    {{"freefall", "--cd-table", "@IN@", "--diameter", "0.1m", "--mass", "1kg", "--area", "0.01m2"},
+     "Re,Cd [m]\n100,1\n1000,0.9\n", NULL, 0, "@IN@:1:4", "takes no unit"},
+    {{"freefall", "--cd-table", "@INY@", "--diameter", "0.1m", "--mass", "1kg", "--area", "0.01m2"},
+     "points: [[100, 1], [1000, -1]]\n", NULL, 0, "@INY@:1:20", "must be positive"},
+    {{"freefall", "--cd-table", "@INY@", "--diameter", "0.1m", "--mass", "1kg", "--area", "0.01m2"},
+     "points:\n  - [100, 1.0, 3]\n  - [1000, 0.5]\n", NULL, 0, "@INY@:2:5", "pair [Re, Cd]"},
+    {{"freefall", "--cd-table", "@INY@", "--diameter", "0.1m", "--mass", "1kg", "--area", "0.01m2"},
+     "pionts: [[100, 1], [1000, 0.5]]\n", NULL, 0, "@INY@:1:1", "did you mean 'points'"},
+
+    /* ---- dispersion ---- */
+    {{"dispersion", REVISED, "-n", "0"}, NULL, NULL, 0, "-n", "whole number from 1"},
+    {{"dispersion", REVISED, "-n", "1e99"}, NULL, NULL, 0, "-n", "whole number from 1"},
+    {{"dispersion", REVISED, "--seed", "-1"}, NULL, NULL, 0, "--seed", "whole number"},
+    {{"dispersion", REVISED, "--threads", "1000"}, NULL, NULL, 0, "--threads", "from 0 to 256"},
+    {{"dispersion", REVISED, "--max-risk", "200%"}, NULL, NULL, 0, "--max-risk", "probability"},
+    {{"dispersion"}, NULL, NULL, 0, "dispersion", "mission file is required"},
+    {{"dispersion", "@IN@"}, NULL, NULL, 0, "@IN@", "cannot open"},
+
+    /* ---- the mission schema as it grew: wind, bodies, failure cases, uncertainty ---- */
+    {{SIZE_MISSION}, "mission: m\nsite: {elevation: 100 m, wind: {speed: -5 m/s, from: 40 deg}}\nsections:\n" SECTION
+                     STAGES,
+     NULL, 0, "@IN@:2:40", "outside 0 .. 100 m/s"},
+    {{SIZE_MISSION}, "mission: m\nsite: {elevation: 100 m, wind: {speed: 5 m/s, from: 40 deg, model: power-law, "
+                     "exponent: 7}}\nsections:\n" SECTION STAGES,
+     NULL, 0, "@IN@:2:89", "exponent 7 is outside"},
+    {{SIZE_MISSION}, "mission: m\nsite: {elevation: 100 m, wind: {file: nowinds.csv}}\nsections:\n" SECTION STAGES,
+     NULL, 0, "@IN@:2:39", "cannot open"},
+    {{SIZE_MISSION}, "mission: m\nsections:\n  - {name: a, mass: 2 kg, body: {shape: cube, diameter: 1 m}}\n" STAGES,
+     NULL, 0, "@IN@:3:41", "not 'cube'"},
+    {{SIZE_MISSION}, "mission: m\nsections:\n  - {name: a, mass: 2 kg, body: {shape: cylinder, diameter: 10 cm}}\n"
+                     STAGES,
+     NULL, 0, "@IN@:3:33", "needs length:"},
+    {{SIZE_MISSION}, "mission: m\nsections:\n  - {name: a, mass: 2 kg, drag-area: -1 m2}\n" STAGES, NULL, 0,
+     "@IN@:3:38", "between 0 and 100 m2"},
+    {{SIZE_MISSION}, "mission: m\nsections:\n  - {name: a, mass: 2 kg, rigid-with: b}\n" STAGES, NULL, 0, "@IN@:3:39",
+     "'b' is not one"},
+    {{SIZE_MISSION}, "mission: m\nsections:\n" SECTION STAGES "failure-cases:\n  - {name: x, fails: [mian]}\n", NULL,
+     0, "@IN@:9:23", "did you mean 'main'"},
+    {{SIZE_MISSION}, "mission: m\nsections:\n" SECTION STAGES "uncertainty:\n  mass: {distribution: normal, sigma: -5 %}\n",
+     NULL, 0, "@IN@:9:39", "must not be negative"},
+    {{SIZE_MISSION}, "mission: m\nsections:\n" SECTION STAGES
+                     "uncertainty:\n  mass: {distribution: gaussian, sigma: 5 %}\n",
+     NULL, 0, "@IN@:9:24", "unknown distribution 'gaussian'"},
+    {{SIZE_MISSION}, "mission: m\nsections:\n" SECTION STAGES
+                     "uncertainty:\n  wind-sped: {distribution: normal, sigma: 5 %}\n",
+     NULL, 0, "@IN@:9:3", "did you mean 'wind-speed'"},
+    {{SIZE_MISSION}, "mission: m\nsections:\n" SECTION STAGES "start: {height: 1 km, heading: 400 deg}\n", NULL, 0,
+     "@IN@:8:32", "within -360 deg .. 360 deg"},
 };
 
 /* ---- the harness ---- */
 
+static const char *in_name = "first"; /* the current row's @IN@ file name */
+
 static void subst(char *out, size_t len, const char *s, const char *dir)
 {
-    static const char *const KEYS[] = {"@IN2@", "@IN@", "@DIR@", "@OUT@", "@DATA@"};
-    static const char *const FMT[] = {"%s/in/second", "%s/in/first", "%s/in", "%s/out", "%s/data"};
+    static const char *const KEYS[] = {"@IN2@", "@IN@", "@DIR@", "@OUT@", "@DATA@", "@ROOT@", "@INY@"};
+    static const char *const FMT[] = {"%s/in/second", "%s/in/%s", "%s/in", "%s/out", "%s/data", "%s", "%s/in/%s"};
     size_t o = 0;
     while (*s && o + 1 < len) {
         int hit = 0;
@@ -418,7 +538,10 @@ static void subst(char *out, size_t len, const char *s, const char *dir)
             size_t kl = strlen(KEYS[k]);
             if (strncmp(s, KEYS[k], kl) == 0) {
                 char rep[512];
-                snprintf(rep, sizeof rep, FMT[k], dir);
+                if (k == 5)
+                    snprintf(rep, sizeof rep, "%s", getenv("SR_ROOT") ? getenv("SR_ROOT") : ".");
+                else
+                    snprintf(rep, sizeof rep, FMT[k], dir, in_name);
                 o += (size_t)snprintf(out + o, len - o, "%s", rep);
                 if (o >= len)
                     o = len - 1;
@@ -540,7 +663,13 @@ static int run_case(size_t i, const bad_case *c, int show)
     for (size_t k = 0; k < 16 && c->args[k]; k++)
         if (strstr(c->args[k], "@DATA@"))
             uses_data = 1;
-    const char *in_path = "%s/in/first";
+    in_name = "first";
+    for (size_t k = 0; k < 16 && c->args[k]; k++)
+        if (strstr(c->args[k], "@INY@"))
+            in_name = "first.yaml";
+    char in_fmt[64];
+    snprintf(in_fmt, sizeof in_fmt, "%%s/in/%s", in_name);
+    const char *in_path = in_fmt;
     if (uses_data) {
         snprintf(p, sizeof p, "%s/data", dir);
         assert_int_equal(mkdir(p, 0755), 0);
