@@ -91,11 +91,12 @@ FUZZ_WRAP_cli = -Wl,--wrap=sr_file_write_atomic -Wl,--wrap=sr_file_check_writabl
 
 # Each fuzz target as a plain program replaying its seed corpus and the
 # regression inputs (crashes the fuzzer once found) ...
-$(B)/fuzz/replay_%: tests/fuzz/fuzz_%.c tests/fuzz/replay.c tests/fuzz/fuzz.h $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
+$(B)/fuzz/replay_%: tests/fuzz/fuzz_%.c tests/fuzz/replay.c tests/fuzz/tmpfile.c tests/fuzz/fuzz.h $(B)/libsinkrate-cli.a \
+                    $(B)/libsinkrate.a
 	@mkdir -p $(dir $@)
 	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) $(FUZZ_FLAGS) $(FUZZ_WRAP_$*) -o $@ $(filter %.c %.a,$^) $(LDLIBS_ALL)
 # ... and as a libFuzzer program (built by `make fuzz` with clang).
-$(B)/fuzz/fuzz_%: tests/fuzz/fuzz_%.c tests/fuzz/fuzz.h $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
+$(B)/fuzz/fuzz_%: tests/fuzz/fuzz_%.c tests/fuzz/tmpfile.c tests/fuzz/fuzz.h $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
 	@mkdir -p $(dir $@)
 	@echo "  CC $@"; $(CC) $(CFLAGS_ALL) $(FUZZ_FLAGS) $(FUZZ_WRAP_$*) -fsanitize=fuzzer -o $@ $(filter %.c %.a,$^) \
 	  $(LDLIBS_ALL)

@@ -31,4 +31,9 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
             FUZZ_ASSERT((unsigned char)*p_ >= 0x20 && *p_ != 0x7f);                                            \
     } while (0)
 
+/* Write the input to NAME in a private temporary directory (tmpfs when there
+ * is one) and return its path, for readers that take a file name. The
+ * directory goes when the process exits. */
+const char *fuzz_file(const char *name, const uint8_t *data, size_t size);
+
 #endif
