@@ -453,7 +453,8 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
             for (size_t c = 0; c < nc; c++) {
                 const char *s = cells[i * nc + c] ? cells[i * nc + c] : "";
                 if (t->cols[c].is_text)
-                    fprintf(f, "  %-*s", (int)w[c], s);
+                    /* no trailing blanks after the last column */
+                    fprintf(f, "  %-*s", c + 1 == nc ? 0 : (int)w[c], s);
                 else
                     fprintf(f, "  %*s", (int)w[c], s);
             }
