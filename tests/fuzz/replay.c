@@ -97,7 +97,8 @@ int main(int argc, char **argv)
             names[n++] = strdup(e->d_name);
         }
         closedir(d);
-        qsort(names, n, sizeof *names, cmp);
+        if (n > 1) /* qsort must not see a NULL array, even empty */
+            qsort(names, n, sizeof *names, cmp);
         for (size_t k = 0; k < n; k++) {
             char path[4096];
             snprintf(path, sizeof path, "%s/%s", paths[i], names[k]);
