@@ -241,20 +241,38 @@ static int write_samples(sr_cli *c, const char *path, const sr_mission *m, const
 {
     const sr_uncertainty *u = &m->unc;
     sr_unit_system sys = c->units;
-    char tmp[4096];
-    snprintf(tmp, sizeof tmp, "%s.tmp.XXXXXX", path);
+    /* The file can be large (one row a sample), so it is streamed, with the
+     * rules of sr_file_write_atomic: a device or pipe (/dev/stdout) is written
+     * in place, never replaced; through a symbolic link the file it names is
+     * replaced and the link kept; otherwise a temporary file is renamed. */
     struct stat st;
     if (stat(path, &st) == 0 && S_ISDIR(st.st_mode))
         return sr_cli_fail(c, "--samples: %s is a directory", path);
-    sr_cli_made(c, path);
-    int fd = mkstemp(tmp);
-    if (fd < 0)
-        return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(errno));
-    FILE *f = fdopen(fd, "w");
-    if (!f) {
-        close(fd);
-        unlink(tmp);
-        return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(errno));
+    int direct = stat(path, &st) == 0 && !S_ISREG(st.st_mode);
+    char *real = direct ? NULL : realpath(path, NULL);
+    char tmp[4096];
+    snprintf(tmp, sizeof tmp, "%s.tmp.XXXXXX", real ? real : path);
+    FILE *f;
+    if (direct) {
+        f = fopen(path, "w");
+        if (!f) {
+            free(real);
+            return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(errno));
+        }
+    } else {
+        sr_cli_made(c, path);
+        int fd = mkstemp(tmp);
+        if (fd < 0) {
+            free(real);
+            return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(errno));
+        }
+        f = fdopen(fd, "w");
+        if (!f) {
+            close(fd);
+            unlink(tmp);
+            free(real);
+            return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(errno));
+        }
     }
     /* the varied perturbations only, in a fixed order */
     col cols[4 * SR_MISSION_MAX_STAGES + 8];
@@ -344,19 +362,28 @@ static int write_samples(sr_cli *c, const char *path, const sr_mission *m, const
     }
     gsl_rng_free(r);
     int bad = ferror(f);
+    if (direct) {
+        free(real);
+        if (fclose(f) != 0 || bad)
+            return sr_cli_fail(c, "--samples: writing %s failed: %s", path, strerror(errno));
+        return 0;
+    }
     mode_t um = umask(0);
     umask(um);
-    if (fchmod(fileno(f), 0666 & ~um) != 0)
+    if (fchmod(fileno(f), 0666 & ~um) != 0 || fflush(f) != 0 || fsync(fileno(f)) != 0)
         bad = 1;
     if (fclose(f) != 0 || bad) {
         unlink(tmp);
+        free(real);
         return sr_cli_fail(c, "--samples: writing %s failed: %s", path, strerror(errno));
     }
-    if (rename(tmp, path) != 0) {
+    if (rename(tmp, real ? real : path) != 0) {
         int e = errno;
         unlink(tmp);
+        free(real);
         return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(e));
     }
+    free(real);
     return 0;
 }
 
