@@ -1,5 +1,6 @@
 # Makefile - build, test, demo, bench and install sinkrate.
-# `make check` and `make demo` install missing Debian packages first (scripts/deps.sh).
+# `make deps`, `make check` and `make demo` install missing Debian packages first
+# (scripts/deps.sh); a plain `make` never installs: it names the command to run.
 
 PREFIX  ?= /usr/local
 DESTDIR ?=
@@ -12,15 +13,20 @@ CSTD     = -std=c11 -D_POSIX_C_SOURCE=200809L
 WARN     = -Wall -Wextra -Werror -Wno-unused-parameter -Wno-format-truncation -Wno-unknown-warning-option
 OPT     ?= -O2 -g
 PKGS     = yaml-0.1 gsl jansson
-PKG_CFLAGS := $(shell pkg-config --cflags $(PKGS) 2>/dev/null)
-PKG_LIBS   := $(shell pkg-config --libs $(PKGS) 2>/dev/null)
-TEST_LIBS  := $(shell pkg-config --libs cmocka udunits 2>/dev/null)
+# Deferred and cached on first use: pkg-config runs when the first recipe needs
+# the flags, after the deps step, never when make reads this file (on a fresh
+# machine the packages do not exist yet at that moment).
+PKG_CFLAGS = $(eval PKG_CFLAGS := $$(shell pkg-config --cflags $(PKGS) 2>/dev/null))$(PKG_CFLAGS)
+PKG_LIBS   = $(eval PKG_LIBS := $$(shell pkg-config --libs $(PKGS) 2>/dev/null))$(PKG_LIBS)
+TEST_LIBS  = $(eval TEST_LIBS := $$(shell pkg-config --libs cmocka udunits 2>/dev/null))$(TEST_LIBS)
 OMP      = -fopenmp
 CFLAGS_ALL = $(CSTD) $(WARN) $(OPT) $(OMP) $(PKG_CFLAGS) -Isrc -DSR_DATADIR='"$(DATADIR)"' $(CFLAGS)
 LDLIBS_ALL = $(PKG_LIBS) -lcsv -lm $(OMP) $(LDFLAGS)
 
 B        ?= build
-LIB_SRC  := $(sort $(wildcard src/*.c))
+# the library's layers, bottom up (DEVELOPERS.md): base, physics, files, analysis, output
+LAYERS   := base physics files analysis output
+LIB_SRC  := $(sort $(foreach d,$(LAYERS),$(wildcard src/$(d)/*.c)))
 CLI_SRC  := $(sort $(wildcard src/cli/*.c))
 LIB_OBJ  := $(LIB_SRC:src/%.c=$(B)/obj/%.o)
 CLI_OBJ  := $(CLI_SRC:src/cli/%.c=$(B)/obj/cli/%.o)
@@ -34,9 +40,13 @@ DEPS_OK  := $(B)/.deps-ok
         fuzz-build fuzz-regress
 all: $(B)/sinkrate
 
-deps: $(DEPS_OK)
+# `make deps` installs everything the build and the tests need; the stamp a
+# plain build depends on only checks the build packages and never installs.
+deps:
+	@sh scripts/deps.sh install
+	@mkdir -p $(B) && touch $(DEPS_OK)
 $(DEPS_OK): scripts/deps.sh
-	@sh scripts/deps.sh
+	@sh scripts/deps.sh build
 	@mkdir -p $(B) && touch $@
 
 $(B)/obj/%.o: src/%.c | $(DEPS_OK)
@@ -73,7 +83,11 @@ unit: $(TESTS) $(B)/sinkrate
 
 # check = the suite, the suite and fuzz regressions under ASan+UBSan, the CLI
 # examples under valgrind, then docs/validation.md.
-check: unit
+# The deps step runs in its own make first, so the build after it reads the
+# pkg-config flags of packages it may just have installed.
+check:
+	@$(MAKE) --no-print-directory deps
+	@$(MAKE) --no-print-directory unit
 	@$(MAKE) --no-print-directory sanitize valgrind
 	@sh scripts/validation.sh $(B)/validation.tsv > docs/validation.md.tmp && mv docs/validation.md.tmp docs/validation.md
 	@echo "docs/validation.md: $$(grep -c '^| ' docs/validation.md) lines of outside checks"
@@ -125,7 +139,9 @@ fuzz-build:
 fuzz: fuzz-build
 	@sh scripts/fuzz.sh build-fuzz $(FUZZ_SECONDS) $(FUZZ_NAMES)
 
-demo: $(B)/sinkrate
+demo:
+	@$(MAKE) --no-print-directory deps
+	@$(MAKE) --no-print-directory $(B)/sinkrate
 	@sh scripts/demo.sh $(B)/sinkrate
 
 # The README's figures from the demo scenario (needs gnuplot): plots/*.png

@@ -10,15 +10,15 @@
 #include <time.h>
 #include <unistd.h>
 
-#include "atmos.h"
-#include "bluff.h"
-#include "catalog.h"
-#include "dispersion.h"
-#include "dispersion_mission.h"
-#include "mission.h"
-#include "opening.h"
-#include "profile.h"
-#include "sweep.h"
+#include "physics/atmos.h"
+#include "physics/bluff.h"
+#include "files/catalog.h"
+#include "analysis/dispersion.h"
+#include "analysis/dispersion_mission.h"
+#include "files/mission.h"
+#include "physics/opening.h"
+#include "physics/profile.h"
+#include "analysis/sweep.h"
 
 static double now(void)
 {

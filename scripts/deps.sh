@@ -1,13 +1,40 @@
 #!/bin/sh
-# deps.sh - make sure the Debian packages sinkrate builds and tests with are
-# present; install them with apt-get (as root or through sudo) or say how.
+# deps.sh - the Debian packages sinkrate builds and tests with.
+#   deps.sh build    check the packages a plain build needs; never installs:
+#                    one line naming `make deps` when some are missing (exit 1)
+#   deps.sh install  install every missing package (build, tests, figures)
+#                    with apt-get as root or through sudo, or say how
 set -u
-PKGS="build-essential pkg-config libyaml-dev libgsl-dev libjansson-dev libcsv-dev libcmocka-dev libudunits2-dev libudunits2-data gnuplot-nox valgrind clang libclang-rt-14-dev"
+BUILD="build-essential pkg-config libyaml-dev libgsl-dev libjansson-dev libcsv-dev"
+TEST="libcmocka-dev libudunits2-dev libudunits2-data gnuplot-nox valgrind clang libclang-rt-14-dev"
+mode=${1:-install}
 
-missing=""
-for p in $PKGS; do
-  dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing="$missing $p"
-done
+missing_of() {
+  m=""
+  for p in "$@"; do
+    dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || m="$m $p"
+  done
+  echo "$m"
+}
+
+if ! command -v dpkg-query >/dev/null 2>&1; then
+  # not Debian: trust the compiler and pkg-config to say what is missing
+  exit 0
+fi
+
+case $mode in
+  build)
+    # shellcheck disable=SC2086
+    missing=$(missing_of $BUILD)
+    [ -z "$missing" ] && exit 0
+    echo "sinkrate: missing Debian packages:$missing; run \`make deps\` (installs them), then make again" >&2
+    exit 1 ;;
+  install) ;;
+  *) echo "usage: deps.sh build|install" >&2; exit 2 ;;
+esac
+
+# shellcheck disable=SC2086
+missing=$(missing_of $BUILD $TEST)
 [ -z "$missing" ] && exit 0
 
 echo "sinkrate: missing Debian packages:$missing"

@@ -11,7 +11,7 @@
 #include <string.h>
 #include <unistd.h>
 
-#include "atmos.h"
+#include "physics/atmos.h"
 
 /* Sources, as they appear in docs/validation.md. */
 #define SRC_USSA "U.S. Standard Atmosphere 1976, Table I (as republished)"

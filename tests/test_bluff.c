@@ -8,8 +8,8 @@
 
 #include <gsl/gsl_errno.h>
 
-#include "atmos.h"
-#include "bluff.h"
+#include "physics/atmos.h"
+#include "physics/bluff.h"
 #include "testutil.h"
 
 #define PI 3.14159265358979323846

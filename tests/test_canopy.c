@@ -2,7 +2,7 @@
  * the handbook definitions (Knacke 1991, NWC TP 6575). */
 #include <math.h>
 
-#include "canopy.h"
+#include "physics/canopy.h"
 #include "testutil.h"
 
 #define PI 3.14159265358979323846

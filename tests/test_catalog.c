@@ -3,7 +3,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "catalog.h"
+#include "files/catalog.h"
 #include "testutil.h"
 
 static sr_catalog *load(void)

@@ -9,7 +9,7 @@
 #include <unistd.h>
 #include <jansson.h>
 
-#include "report.h"
+#include "output/report.h"
 #include "testutil.h"
 
 #define DEMO "payloads/desert-club-rocket.yaml"

@@ -11,7 +11,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
-#include "report.h"
+#include "output/report.h"
 #include "testutil.h"
 
 #define DEMO "payloads/desert-club-rocket.yaml"

@@ -8,8 +8,8 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "atmos.h"
-#include "plot.h"
+#include "physics/atmos.h"
+#include "output/plot.h"
 #include "testutil.h"
 
 #define PI 3.14159265358979323846

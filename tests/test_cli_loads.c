@@ -9,8 +9,8 @@
 #include <unistd.h>
 #include <jansson.h>
 
-#include "plot.h"
-#include "report.h"
+#include "output/plot.h"
+#include "output/report.h"
 #include "testutil.h"
 
 #define DEMO "payloads/desert-club-rocket.yaml"

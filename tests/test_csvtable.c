@@ -9,7 +9,7 @@
 #include <string.h>
 #include <unistd.h>
 
-#include "csvtable.h"
+#include "files/csvtable.h"
 
 #define NIST "NIST SP 811 (2008) App. B"
 #define RFC "RFC 4180 sec. 2 (CSV format)"

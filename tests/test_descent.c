@@ -3,8 +3,8 @@
 #include <math.h>
 #include <string.h>
 
-#include "atmos.h"
-#include "descent.h"
+#include "physics/atmos.h"
+#include "physics/descent.h"
 #include "testutil.h"
 
 #define PI 3.14159265358979323846

@@ -14,9 +14,9 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "dispersion.h"
-#include "rng.h"
-#include "scatter.h"
+#include "analysis/dispersion.h"
+#include "base/rng.h"
+#include "analysis/scatter.h"
 
 #define PI 3.14159265358979323846
 #define DEG (PI / 180.0)

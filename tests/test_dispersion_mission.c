@@ -10,12 +10,12 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "catalog.h"
-#include "dispersion.h"
-#include "dispersion_mission.h"
-#include "mission.h"
-#include "profile.h"
-#include "scatter.h"
+#include "files/catalog.h"
+#include "analysis/dispersion.h"
+#include "analysis/dispersion_mission.h"
+#include "files/mission.h"
+#include "physics/profile.h"
+#include "analysis/scatter.h"
 
 #define PI 3.14159265358979323846
 #define G0 9.80665

@@ -11,11 +11,11 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "atmos.h"
-#include "bluff.h"
-#include "catalog.h"
-#include "mission.h"
-#include "profile.h"
+#include "physics/atmos.h"
+#include "physics/bluff.h"
+#include "files/catalog.h"
+#include "files/mission.h"
+#include "physics/profile.h"
 
 #define PI 3.14159265358979323846
 #define G0 9.80665

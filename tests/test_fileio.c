@@ -10,7 +10,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
-#include "fileio.h"
+#include "output/fileio.h"
 #include "testutil.h"
 
 static char dir[] = "/tmp/sinkrate-fileio-XXXXXX";

@@ -9,8 +9,8 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "catalog.h"
-#include "mission.h"
+#include "files/catalog.h"
+#include "files/mission.h"
 
 #define PI 3.14159265358979323846
 

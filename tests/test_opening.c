@@ -6,9 +6,9 @@
 #include <string.h>
 
 #include "testutil.h"
-#include "atmos.h"
-#include "opening.h"
-#include "units.h"
+#include "physics/atmos.h"
+#include "physics/opening.h"
+#include "physics/units.h"
 
 #ifndef M_PI
 #define M_PI 3.14159265358979323846

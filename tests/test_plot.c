@@ -10,8 +10,8 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
-#include "plot.h"
-#include "report.h"
+#include "output/plot.h"
+#include "output/report.h"
 #include "testutil.h"
 
 static char tmpdir[256];

@@ -12,10 +12,10 @@
 #include <string.h>
 #include <unistd.h>
 
-#include "atmos.h"
-#include "catalog.h"
-#include "mission.h"
-#include "profile.h"
+#include "physics/atmos.h"
+#include "files/catalog.h"
+#include "files/mission.h"
+#include "physics/profile.h"
 
 #define PI 3.14159265358979323846
 #define G0 9.80665

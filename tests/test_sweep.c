@@ -13,10 +13,10 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
-#include "atmos.h"
-#include "catalog.h"
-#include "plot.h"
-#include "sweep.h"
+#include "physics/atmos.h"
+#include "files/catalog.h"
+#include "output/plot.h"
+#include "analysis/sweep.h"
 #include "testutil.h"
 
 #define USSA "U.S. Standard Atmosphere 1976 (NOAA-S/T 76-1562) printed tables, via references/atmosphere-1976.md 1.4"

@@ -10,11 +10,11 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "catalog.h"
-#include "mission.h"
-#include "rng.h"
-#include "uncertainty.h"
-#include "yamldoc.h"
+#include "files/catalog.h"
+#include "files/mission.h"
+#include "base/rng.h"
+#include "analysis/uncertainty.h"
+#include "files/yamldoc.h"
 
 #define PI 3.14159265358979323846
 #define DEG (PI / 180.0)

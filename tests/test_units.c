@@ -7,14 +7,14 @@
 #include <string.h>
 #include <udunits2.h>
 
-#include "units.h"
+#include "physics/units.h"
 
 #define NIST "NIST SP 811 (2008) App. B"
 #define NIST_SI "NIST SP 811 (2008) ch. 4-5 (SI prefixes, units accepted with the SI)"
 #define UDUNITS "udunits2 2.2 (Debian libudunits2)"
 #define PI 3.14159265358979323846
 
-/* Definitions, written out here independently of src/units.h. */
+/* Definitions, written out here independently of src/physics/units.h. */
 #define FT 0.3048           /* m, exact */
 #define IN 0.0254           /* m, exact */
 #define LB 0.45359237       /* kg, exact */

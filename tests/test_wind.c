@@ -8,7 +8,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "wind.h"
+#include "physics/wind.h"
 
 #define PI 3.14159265358979323846
 #define DEG (PI / 180.0)

@@ -6,9 +6,9 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
-#include "report.h"
-#include "version.h"
-#include "yamldoc.h"
+#include "output/report.h"
+#include "base/version.h"
+#include "files/yamldoc.h"
 
 typedef struct command {
     const char *name;

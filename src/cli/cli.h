@@ -5,7 +5,7 @@
 
 #include <stdio.h>
 
-#include "units.h"
+#include "physics/units.h"
 
 /* Exit codes (DESIGN.md): success, valid-but-impossible or a limit exceeded,
  * bad usage or bad input. */

@@ -5,7 +5,7 @@
 #define SR_CLI_PLOT_H
 
 #include "cli/cli.h"
-#include "plot.h"
+#include "output/plot.h"
 
 #define SR_PLOT_DEFAULT_WIDTH 1000
 #define SR_PLOT_DEFAULT_HEIGHT 650

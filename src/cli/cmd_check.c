@@ -6,8 +6,8 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
-#include "mission.h"
-#include "yamldoc.h"
+#include "files/mission.h"
+#include "files/yamldoc.h"
 
 static const struct option OPTS[] = {SR_OPTS_OUTPUT, {NULL, 0, NULL, 0}};
 

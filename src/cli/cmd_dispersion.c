@@ -15,11 +15,11 @@
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "cli/progress.h"
-#include "dispersion.h"
-#include "dispersion_mission.h"
-#include "mission.h"
-#include "rng.h"
-#include "scatter.h"
+#include "analysis/dispersion.h"
+#include "analysis/dispersion_mission.h"
+#include "files/mission.h"
+#include "base/rng.h"
+#include "analysis/scatter.h"
 
 #define PI 3.14159265358979323846
 #define DEFAULT_RISK 0.01   /* accepted probability per limit: our choice, stated in --help */

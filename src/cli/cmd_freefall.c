@@ -6,7 +6,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "bluff.h"
+#include "physics/bluff.h"
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"

@@ -10,10 +10,10 @@
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
-#include "descent.h"
-#include "mission.h"
-#include "opening.h"
-#include "yamldoc.h"
+#include "physics/descent.h"
+#include "files/mission.h"
+#include "physics/opening.h"
+#include "files/yamldoc.h"
 
 enum {
     OPT_MASS = OPT_COMMAND_BASE, OPT_SPEED, OPT_ALTITUDE, OPT_PATH_ANGLE, OPT_DESIGN_FACTOR, OPT_EXPONENT,

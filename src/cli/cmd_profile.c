@@ -9,8 +9,8 @@
 #include "cli/common.h"
 #include "cli/profile_failcase.h"
 #include "cli/profile_plot.h"
-#include "mission.h"
-#include "profile.h"
+#include "files/mission.h"
+#include "physics/profile.h"
 
 #define PI 3.14159265358979323846
 

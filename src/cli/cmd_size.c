@@ -6,8 +6,8 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
-#include "descent.h"
-#include "mission.h"
+#include "physics/descent.h"
+#include "files/mission.h"
 
 enum { OPT_MASS = OPT_COMMAND_BASE, OPT_SPEED, OPT_ALTITUDE, OPT_BODY_DRAG, OPT_MISSION };
 

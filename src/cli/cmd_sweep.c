@@ -10,9 +10,9 @@
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
-#include "descent.h"
-#include "mission.h"
-#include "sweep.h"
+#include "physics/descent.h"
+#include "files/mission.h"
+#include "analysis/sweep.h"
 
 enum {
     OPT_VARY = OPT_COMMAND_BASE, OPT_FROM, OPT_TO, OPT_STEP, OPT_VALUES, OPT_BY, OPT_MASS, OPT_ALTITUDE, OPT_BODY_DRAG,

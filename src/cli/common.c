@@ -12,10 +12,10 @@
 #include <unistd.h>
 
 #include "cli/cliplot.h"
-#include "fileio.h"
-#include "plot.h"
-#include "mission.h"
-#include "yamldoc.h"
+#include "output/fileio.h"
+#include "output/plot.h"
+#include "files/mission.h"
+#include "files/yamldoc.h"
 
 const char SR_HELP_OUTPUT[] =
     "Output:\n"

@@ -7,11 +7,11 @@
 #include <getopt.h>
 #include <stddef.h>
 
-#include "atmos.h"
-#include "canopy.h"
-#include "catalog.h"
+#include "physics/atmos.h"
+#include "physics/canopy.h"
+#include "files/catalog.h"
 #include "cli/cli.h"
-#include "report.h"
+#include "output/report.h"
 
 /* Option codes for long-only options. */
 enum {

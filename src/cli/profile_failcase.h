@@ -5,9 +5,9 @@
 #define SR_CLI_PROFILE_FAILCASE_H
 
 #include "cli/cli.h"
-#include "mission.h"
-#include "profile.h"
-#include "report.h"
+#include "files/mission.h"
+#include "physics/profile.h"
+#include "output/report.h"
 
 /* The table of each section's drag with no canopy open (drag curve, reference
  * area, source), when any section has a body:. */

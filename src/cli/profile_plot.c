@@ -11,8 +11,8 @@
 
 #include "cli/cliplot.h"
 #include "cli/common.h"
-#include "plot.h"
-#include "report.h"
+#include "output/plot.h"
+#include "output/report.h"
 
 #define PI 3.14159265358979323846
 

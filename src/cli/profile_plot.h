@@ -3,8 +3,8 @@
 #define SR_CLI_PROFILE_PLOT_H
 
 #include "cli/cli.h"
-#include "mission.h"
-#include "profile.h"
+#include "files/mission.h"
+#include "physics/profile.h"
 
 /* Two figures through the plot module: PREFIX (height, descent rate and
  * airspeed against time, deployments marked) and PREFIX-track (the ground

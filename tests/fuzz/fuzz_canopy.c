@@ -5,11 +5,11 @@
 #include <stdio.h>
 #include <stdlib.h>
 
-#include "atmos.h"
-#include "catalog.h"
-#include "descent.h"
+#include "physics/atmos.h"
+#include "files/catalog.h"
+#include "physics/descent.h"
 #include "fuzz.h"
-#include "yamldoc.h"
+#include "files/yamldoc.h"
 
 static sr_catalog *cat;
 

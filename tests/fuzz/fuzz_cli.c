@@ -15,7 +15,7 @@
 #include <unistd.h>
 
 #include "cli/cli.h"
-#include "error.h"
+#include "base/error.h"
 #include "fuzz.h"
 
 #define MAX_ARGS 64

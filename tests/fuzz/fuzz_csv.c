@@ -7,11 +7,11 @@
 #include <stdio.h>
 #include <stdlib.h>
 
-#include "atmos.h"
-#include "bluff.h"
-#include "csvtable.h"
+#include "physics/atmos.h"
+#include "physics/bluff.h"
+#include "files/csvtable.h"
 #include "fuzz.h"
-#include "wind.h"
+#include "physics/wind.h"
 
 int LLVMFuzzerInitialize(int *argc, char ***argv)
 {
@@ -20,7 +20,7 @@ int LLVMFuzzerInitialize(int *argc, char ***argv)
     return 0;
 }
 
-/* as src/atmos.c reads a sounding */
+/* as src/physics/atmos.c reads a sounding */
 static const sr_csv_column SOUNDING[] = {
     {"altitude", SR_Q_LENGTH, 1},  {"temperature", SR_Q_TEMP, 1}, {"pressure", SR_Q_PRESSURE, 1},
     {"wind-speed", SR_Q_SPEED, 0}, {"wind-from", SR_Q_ANGLE, 0},

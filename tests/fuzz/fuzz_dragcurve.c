@@ -5,8 +5,8 @@
 #include <stdio.h>
 #include <stdlib.h>
 
-#include "atmos.h"
-#include "bluff.h"
+#include "physics/atmos.h"
+#include "physics/bluff.h"
 #include "fuzz.h"
 
 int LLVMFuzzerInitialize(int *argc, char ***argv)

@@ -5,10 +5,10 @@
 #include <stdio.h>
 #include <stdlib.h>
 
-#include "canopy.h"
-#include "catalog.h"
+#include "physics/canopy.h"
+#include "files/catalog.h"
 #include "fuzz.h"
-#include "yamldoc.h"
+#include "files/yamldoc.h"
 
 int LLVMFuzzerInitialize(int *argc, char ***argv)
 {

@@ -7,12 +7,12 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "atmos.h"
-#include "catalog.h"
-#include "descent.h"
+#include "physics/atmos.h"
+#include "files/catalog.h"
+#include "physics/descent.h"
 #include "fuzz.h"
-#include "mission.h"
-#include "yamldoc.h"
+#include "files/mission.h"
+#include "files/yamldoc.h"
 
 static sr_catalog *cat;
 static sr_mission *mis;

@@ -6,8 +6,8 @@
 #include <string.h>
 
 #include "fuzz.h"
-#include "report.h"
-#include "units.h"
+#include "output/report.h"
+#include "physics/units.h"
 
 int LLVMFuzzerInitialize(int *argc, char ***argv)
 {

@@ -1,0 +1,65 @@
+/* error.c - filling and prefixing the error struct. */
+#include "base/error.h"
+
+#include <stdarg.h>
+#include <stdio.h>
+#include <string.h>
+
+void sr_error_printable(char *s)
+{
+    for (unsigned char *p = (unsigned char *)s; *p; p++)
+        if (*p == '\t')
+            *p = ' ';
+        else if (*p < 0x20 || *p == 0x7f)
+            *p = '?';
+}
+
+int sr_error_set(sr_error *err, int code, const char *fmt, ...)
+{
+    if (err) {
+        va_list ap;
+        va_start(ap, fmt);
+        vsnprintf(err->msg, sizeof err->msg, fmt, ap);
+        va_end(ap);
+        sr_error_printable(err->msg);
+        err->code = code;
+    }
+    return code;
+}
+
+int sr_error_prefix(sr_error *err, const char *fmt, ...)
+{
+    if (!err)
+        return SR_EINVAL;
+    char head[SR_ERROR_MSG_MAX], old[SR_ERROR_MSG_MAX];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(head, sizeof head, fmt, ap);
+    va_end(ap);
+    memcpy(old, err->msg, sizeof old);
+    snprintf(err->msg, sizeof err->msg, "%s%s", head, old);
+    sr_error_printable(err->msg);
+    return err->code;
+}
+
+void sr_error_clear(sr_error *err)
+{
+    if (err) {
+        err->code = SR_OK;
+        err->msg[0] = '\0';
+    }
+}
+
+const char *sr_error_name(int code)
+{
+    switch (code) {
+    case SR_OK: return "ok";
+    case SR_EINVAL: return "invalid input";
+    case SR_EDOMAIN: return "outside the model's range";
+    case SR_EIMPOSSIBLE: return "no solution";
+    case SR_ENOMEM: return "out of memory";
+    case SR_EIO: return "input/output error";
+    case SR_ENUMERIC: return "numerical failure";
+    default: return "unknown error";
+    }
+}

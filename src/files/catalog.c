@@ -1,0 +1,352 @@
+/* catalog.c - strict readers for canopy family files and user canopy files.
+ * Every value in a family file carries its source; missing sources are errors. */
+#include "files/catalog.h"
+
+#include <dirent.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#define PI 3.14159265358979323846
+
+static const char *const FAMILY_KEYS[] = {"id", "name", "class", "drag-coefficient", "projected-ratio",
+                                          "constructed-ratio", "opening-factor", "filling-constant",
+                                          "oscillation", "mach-limit", "areal-mass", "notes", NULL};
+static const char *const FAMILY_REQ[] = {"id", "name", "class", "drag-coefficient", "projected-ratio",
+                                         "constructed-ratio", "opening-factor", "filling-constant",
+                                         "oscillation", "mach-limit", NULL};
+static const char *const BAND_KEYS[] = {"low", "typical", "high", "source", NULL};
+static const char *const BAND_REQ[] = {"low", "high", "source", NULL};
+static const char *const CD_KEYS[] = {"reference", "low", "typical", "high", "source", NULL};
+static const char *const CD_REQ[] = {"reference", "low", "high", "source", NULL};
+static const char *const VALUE_KEYS[] = {"value", "source", NULL};
+
+/* A band of plain numbers (q == SR_Q_NONE) or quantities; typical defaults
+ * to the midpoint. Checks lo <= typ <= hi and the physical range. */
+static int read_band(const sr_yaml *y, yaml_node_t *map, const char *key, sr_quantity q, double min, double max,
+                     sr_band *b, char *src, size_t srclen, sr_error *err)
+{
+    yaml_node_t *n = sr_yaml_get(y, map, key);
+    int is_cd = strcmp(key, "drag-coefficient") == 0;
+    int rc = sr_yaml_check_map(y, n, key, is_cd ? CD_KEYS : BAND_KEYS, is_cd ? CD_REQ : BAND_REQ, err);
+    if (rc)
+        return rc;
+    const char *names[3] = {"low", "typical", "high"};
+    double v[3];
+    for (int i = 0; i < 3; i++) {
+        yaml_node_t *vn = sr_yaml_get(y, n, names[i]);
+        if (!vn) {
+            v[i] = NAN;
+            continue;
+        }
+        rc = q == SR_Q_NONE ? sr_yaml_number(y, vn, &v[i], err) : sr_yaml_quantity(y, vn, q, &v[i], err);
+        if (rc)
+            return rc;
+        if (!(v[i] >= min && v[i] <= max))
+            return sr_yaml_fail(y, vn, err, "%s %s is outside the plausible range %g .. %g", key, names[i],
+                                q == SR_Q_ANGLE ? min * 180 / PI : min, q == SR_Q_ANGLE ? max * 180 / PI : max);
+    }
+    if (isnan(v[1]))
+        v[1] = 0.5 * (v[0] + v[2]);
+    if (!(v[0] <= v[1] && v[1] <= v[2]))
+        return sr_yaml_fail(y, n, err, "%s: low <= typical <= high does not hold", key);
+    b->lo = v[0];
+    b->typ = v[1];
+    b->hi = v[2];
+    return sr_yaml_string(y, sr_yaml_get(y, n, "source"), src, srclen, err);
+}
+
+static int read_value(const sr_yaml *y, yaml_node_t *map, const char *key, sr_quantity q, double min, double max,
+                      double *v, char *src, size_t srclen, sr_error *err)
+{
+    yaml_node_t *n = sr_yaml_get(y, map, key);
+    int rc = sr_yaml_check_map(y, n, key, VALUE_KEYS, VALUE_KEYS, err);
+    if (rc)
+        return rc;
+    yaml_node_t *vn = sr_yaml_get(y, n, "value");
+    rc = q == SR_Q_NONE ? sr_yaml_number(y, vn, v, err) : sr_yaml_quantity(y, vn, q, v, err);
+    if (rc)
+        return rc;
+    if (!(*v >= min && *v <= max))
+        return sr_yaml_fail(y, vn, err, "%s is outside the plausible range %g .. %g", key, min, max);
+    return sr_yaml_string(y, sr_yaml_get(y, n, "source"), src, srclen, err);
+}
+
+static int valid_id(const char *s)
+{
+    if (!*s)
+        return 0;
+    for (const char *p = s; *p; p++)
+        if (!((*p >= 'a' && *p <= 'z') || (*p >= '0' && *p <= '9') || *p == '-'))
+            return 0;
+    return s[0] != '-';
+}
+
+int sr_catalog_parse_family(sr_family *f, sr_yaml *y, sr_error *err)
+{
+    memset(f, 0, sizeof *f);
+    snprintf(f->file, sizeof f->file, "%s", y->name);
+    yaml_node_t *root = sr_yaml_root(y);
+    int rc = sr_yaml_check_map(y, root, "the canopy family", FAMILY_KEYS, FAMILY_REQ, err);
+    if (rc)
+        return rc;
+    yaml_node_t *n = sr_yaml_get(y, root, "id");
+    if ((rc = sr_yaml_string(y, n, f->id, sizeof f->id, err)))
+        return rc;
+    if (!valid_id(f->id))
+        return sr_yaml_fail(y, n, err, "id '%s' must be lower-case kebab-case (letters, digits, '-')", f->id);
+    if ((rc = sr_yaml_string(y, sr_yaml_get(y, root, "name"), f->name, sizeof f->name, err)))
+        return rc;
+    n = sr_yaml_get(y, root, "class");
+    if ((rc = sr_yaml_string(y, n, f->cls, sizeof f->cls, err)))
+        return rc;
+    if (strcmp(f->cls, SR_CANOPY_CLASS_SOLID) != 0 && strcmp(f->cls, SR_CANOPY_CLASS_SLOTTED) != 0)
+        return sr_yaml_fail(y, n, err, "class must be 'solid' or 'slotted', not '%s'", f->cls);
+
+    yaml_node_t *cd = sr_yaml_get(y, root, "drag-coefficient");
+    if ((rc = sr_yaml_check_map(y, cd, "drag-coefficient", CD_KEYS, CD_REQ, err)))
+        return rc;
+    char ref[32];
+    n = sr_yaml_get(y, cd, "reference");
+    if ((rc = sr_yaml_string(y, n, ref, sizeof ref, err)))
+        return rc;
+    if (strcmp(ref, "nominal") != 0)
+        return sr_yaml_fail(y, n, err,
+                            "catalog drag coefficients must be on nominal area (reference: nominal); convert "
+                            "'%s' with the family's diameter ratio first",
+                            ref);
+    f->cd0.ref = SR_REF_NOMINAL;
+    if ((rc = read_band(y, root, "drag-coefficient", SR_Q_NONE, 0.05, 2.5, &f->cd0.v, f->cd0_source,
+                        sizeof f->cd0_source, err)))
+        return rc;
+    if ((rc = read_band(y, root, "projected-ratio", SR_Q_NONE, 0.3, 1.2, &f->dp_d0, f->dp_source,
+                        sizeof f->dp_source, err)))
+        return rc;
+    if ((rc = read_band(y, root, "constructed-ratio", SR_Q_NONE, 0.3, 1.5, &f->dc_d0, f->dc_source,
+                        sizeof f->dc_source, err)))
+        return rc;
+    if ((rc = read_band(y, root, "opening-factor", SR_Q_NONE, 0.5, 3.0, &f->cx, f->cx_source, sizeof f->cx_source,
+                        err)))
+        return rc;
+    if ((rc = read_value(y, root, "filling-constant", SR_Q_NONE, 0.5, 50.0, &f->fill_n, f->fill_source,
+                         sizeof f->fill_source, err)))
+        return rc;
+    if ((rc = read_band(y, root, "oscillation", SR_Q_ANGLE, 0.0, PI / 2, &f->oscillation, f->osc_source,
+                        sizeof f->osc_source, err)))
+        return rc;
+    if ((rc = read_value(y, root, "mach-limit", SR_Q_NONE, 0.01, 5.0, &f->mach_max, f->mach_source,
+                         sizeof f->mach_source, err)))
+        return rc;
+    f->areal_mass = NAN;
+    if (sr_yaml_get(y, root, "areal-mass") &&
+        (rc = read_value(y, root, "areal-mass", SR_Q_AREAL_MASS, 1e-3, 2.0, &f->areal_mass, f->areal_source,
+                         sizeof f->areal_source, err)))
+        return rc;
+    n = sr_yaml_get(y, root, "notes");
+    if (n && (rc = sr_yaml_string(y, n, f->notes, sizeof f->notes, err)))
+        return rc;
+    return SR_OK;
+}
+
+int sr_catalog_load_family(sr_family *f, const char *path, sr_error *err)
+{
+    sr_yaml y;
+    int rc = sr_yaml_load_file(&y, path, err);
+    if (rc)
+        return rc;
+    rc = sr_catalog_parse_family(f, &y, err);
+    sr_yaml_free(&y);
+    return rc;
+}
+
+static int cmp_name(const void *a, const void *b)
+{
+    return strcmp(*(char *const *)a, *(char *const *)b);
+}
+
+static int cmp_family(const void *a, const void *b)
+{
+    return strcmp(((const sr_family *)a)->id, ((const sr_family *)b)->id);
+}
+
+int sr_catalog_open(sr_catalog *c, const char *dir, sr_error *err)
+{
+    c->n = 0;
+    snprintf(c->dir, sizeof c->dir, "%s", dir);
+    DIR *d = opendir(dir);
+    if (!d)
+        return sr_error_set(err, SR_EIO, "cannot open the canopy catalog directory %s", dir);
+    char *names[SR_CATALOG_MAX + 1];
+    size_t n = 0;
+    struct dirent *e;
+    int rc = SR_OK;
+    while ((e = readdir(d)) != NULL) {
+        size_t l = strlen(e->d_name);
+        if (l < 6 || strcmp(e->d_name + l - 5, ".yaml") != 0 || e->d_name[0] == '.')
+            continue;
+        if (n >= SR_CATALOG_MAX) {
+            rc = sr_error_set(err, SR_EINVAL, "%s: more than %d family files", dir, SR_CATALOG_MAX);
+            break;
+        }
+        names[n++] = strdup(e->d_name);
+    }
+    closedir(d);
+    if (!rc && n == 0)
+        rc = sr_error_set(err, SR_EIO, "%s holds no canopy family files (*.yaml)", dir);
+    qsort(names, n, sizeof names[0], cmp_name);
+    for (size_t i = 0; i < n && !rc; i++) {
+        char path[1024];
+        snprintf(path, sizeof path, "%s/%s", dir, names[i]);
+        rc = sr_catalog_load_family(&c->fam[c->n], path, err);
+        if (!rc) {
+            for (size_t j = 0; j < c->n; j++)
+                if (strcmp(c->fam[j].id, c->fam[c->n].id) == 0)
+                    rc = sr_error_set(err, SR_EINVAL, "%s: id '%s' is already used by %s", path, c->fam[j].id,
+                                      c->fam[j].file);
+            c->n++;
+        }
+    }
+    for (size_t i = 0; i < n; i++)
+        free(names[i]);
+    if (rc)
+        c->n = 0;
+    else
+        qsort(c->fam, c->n, sizeof c->fam[0], cmp_family);
+    return rc;
+}
+
+const sr_family *sr_catalog_find(const sr_catalog *c, const char *id, sr_error *err)
+{
+    const char *ids[SR_CATALOG_MAX + 1];
+    for (size_t i = 0; i < c->n; i++) {
+        if (strcmp(c->fam[i].id, id) == 0)
+            return &c->fam[i];
+        ids[i] = c->fam[i].id;
+    }
+    ids[c->n] = NULL;
+    const char *s = sr_yaml_suggest(id, ids);
+    if (s)
+        sr_error_set(err, SR_EINVAL, "unknown canopy family '%s'; did you mean '%s'? (sinkrate canopies lists them)",
+                     id, s);
+    else
+        sr_error_set(err, SR_EINVAL, "unknown canopy family '%s' (sinkrate canopies lists them)", id);
+    return NULL;
+}
+
+const char *const SR_CANOPY_KEYS[] = {"family", "nominal-diameter", "projected-diameter", "flat-diameter",
+                                      "nominal-area", "drag-coefficient", "count", "cluster-factor",
+                                      "areal-mass", NULL};
+static const char *const SIZE_KEYS[] = {"nominal-diameter", "projected-diameter", "flat-diameter",
+                                        "nominal-area"};
+static const sr_size_kind SIZE_KIND[] = {SR_SIZE_NOMINAL_DIAMETER, SR_SIZE_PROJECTED_DIAMETER,
+                                         SR_SIZE_FLAT_DIAMETER, SR_SIZE_NOMINAL_AREA};
+static const char *const MEASURED_KEYS[] = {"value", "reference", "source", NULL};
+
+int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_yaml *y, yaml_node_t *n,
+                                int size_optional, int *has_size, sr_error *err)
+{
+    int rc;
+    char fam_id[64];
+    yaml_node_t *fn = sr_yaml_get(y, n, "family");
+    if (!fn)
+        return sr_yaml_fail(y, n, err, "the canopy needs a 'family' (a catalog id such as conical)");
+    if ((rc = sr_yaml_string(y, fn, fam_id, sizeof fam_id, err)))
+        return rc;
+    sr_error e;
+    const sr_family *fam = sr_catalog_find(cat, fam_id, &e);
+    if (!fam)
+        return sr_yaml_fail(y, fn, err, "%s", e.msg);
+    int found = -1;
+    for (int i = 0; i < 4; i++) {
+        yaml_node_t *sn = sr_yaml_get(y, n, SIZE_KEYS[i]);
+        if (!sn)
+            continue;
+        if (found >= 0)
+            return sr_yaml_fail(y, sr_yaml_key_node(y, n, SIZE_KEYS[i]), err,
+                                "give one size only: both '%s' and '%s' are set", SIZE_KEYS[found], SIZE_KEYS[i]);
+        found = i;
+    }
+    if (found < 0 && !size_optional)
+        return sr_yaml_fail(y, n, err, "the canopy needs a size: one of nominal-diameter, projected-diameter, "
+                                       "flat-diameter, nominal-area");
+    if (has_size)
+        *has_size = found >= 0;
+    double value = 1.0;
+    sr_size_kind kind = SR_SIZE_NOMINAL_AREA;
+    if (found >= 0) {
+        yaml_node_t *sn = sr_yaml_get(y, n, SIZE_KEYS[found]);
+        kind = SIZE_KIND[found];
+        if ((rc = sr_yaml_quantity(y, sn, kind == SR_SIZE_NOMINAL_AREA ? SR_Q_AREA : SR_Q_LENGTH, &value, err)))
+            return rc;
+        if ((rc = sr_canopy_from_size(c, fam, kind, value, &e)))
+            return sr_yaml_fail(y, sn, err, "%s", e.msg);
+    } else {
+        sr_canopy_from_size(c, fam, kind, value, &e);
+    }
+    yaml_node_t *m = sr_yaml_get(y, n, "drag-coefficient");
+    if (m) {
+        if ((rc = sr_yaml_check_map(y, m, "drag-coefficient", MEASURED_KEYS, MEASURED_KEYS, err)))
+            return rc;
+        double cd;
+        char refs[32], src[SR_SOURCE_MAX];
+        sr_ref ref;
+        if ((rc = sr_yaml_number(y, sr_yaml_get(y, m, "value"), &cd, err)))
+            return rc;
+        yaml_node_t *rn = sr_yaml_get(y, m, "reference");
+        if ((rc = sr_yaml_string(y, rn, refs, sizeof refs, err)))
+            return rc;
+        if (sr_ref_parse(refs, &ref) != SR_OK)
+            return sr_yaml_fail(y, rn, err, "reference must be nominal, projected or constructed, not '%s'", refs);
+        if ((rc = sr_yaml_string(y, sr_yaml_get(y, m, "source"), src, sizeof src, err)))
+            return rc;
+        if ((rc = sr_canopy_set_measured_cd(c, cd, ref, src, &e)))
+            return sr_yaml_fail(y, sr_yaml_get(y, m, "value"), err, "%s", e.msg);
+    }
+    long count = 1;
+    yaml_node_t *cn = sr_yaml_get(y, n, "count");
+    if (cn && (rc = sr_yaml_int(y, cn, 1, 16, &count, err)))
+        return rc;
+    double factor = NAN;
+    yaml_node_t *kn = sr_yaml_get(y, n, "cluster-factor");
+    if (kn && (rc = sr_yaml_number(y, kn, &factor, err)))
+        return rc;
+    if ((rc = sr_canopy_set_cluster(c, (int)count, factor, &e)))
+        return sr_yaml_fail(y, kn ? kn : cn, err, "%s", e.msg);
+    yaml_node_t *an = sr_yaml_get(y, n, "areal-mass");
+    if (an) {
+        if ((rc = sr_yaml_quantity(y, an, SR_Q_AREAL_MASS, &c->areal_mass, err)))
+            return rc;
+        if (!(c->areal_mass > 0 && c->areal_mass < 2.0))
+            return sr_yaml_fail(y, an, err, "areal mass must be between 0 and 2 kg/m2 (2000 g/m2)");
+    }
+    return SR_OK;
+}
+
+static const char *const CANOPY_FILE_KEYS[] = {"canopy", NULL};
+
+int sr_catalog_parse_canopy(sr_canopy *c, const sr_catalog *cat, sr_yaml *y, sr_error *err)
+{
+    yaml_node_t *root = sr_yaml_root(y);
+    int rc = sr_yaml_check_map(y, root, "a canopy file", CANOPY_FILE_KEYS, CANOPY_FILE_KEYS, err);
+    if (rc)
+        return rc;
+    yaml_node_t *n = sr_yaml_get(y, root, "canopy");
+    static const char *const keys[] = {"name",          "family",           "nominal-diameter", "projected-diameter",
+                                       "flat-diameter", "nominal-area",     "drag-coefficient", "count",
+                                       "cluster-factor", "areal-mass",      NULL};
+    if ((rc = sr_yaml_check_map(y, n, "canopy", keys, NULL, err)))
+        return rc;
+    return sr_catalog_canopy_from_node(c, cat, y, n, 0, NULL, err);
+}
+
+int sr_catalog_load_canopy(sr_canopy *c, const sr_catalog *cat, const char *path, sr_error *err)
+{
+    sr_yaml y;
+    int rc = sr_yaml_load_file(&y, path, err);
+    if (rc)
+        return rc;
+    rc = sr_catalog_parse_canopy(c, cat, &y, err);
+    sr_yaml_free(&y);
+    return rc;
+}

@@ -1,0 +1,751 @@
+/* mission.c - the strict mission-file reader. */
+#include "files/mission.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#define PI 3.14159265358979323846
+
+static const char *const TOP_KEYS[] = {"mission", "description", "site",          "sections",    "stages",
+                                       "start",   "limits",      "failure-cases", "uncertainty", NULL};
+static const char *const TOP_REQ[] = {"mission", "sections", "stages", NULL};
+static const char *const SITE_KEYS[] = {"elevation", "temperature", "pressure", "sounding", "wind", NULL};
+static const char *const SECTION_KEYS[] = {"name", "mass", "drag-area", "body", "rigid-with", NULL};
+static const char *const BODY_KEYS[] = {"shape", "diameter", "length", "curve", "cd-table", "area", "interpolation",
+                                        NULL};
+static const char *const BODY_REQ[] = {"diameter", NULL};
+static const char *const FAILURE_KEYS[] = {"name", "fails", "only", NULL};
+static const char *const SECTION_REQ[] = {"name", "mass", NULL};
+static const char *const STAGE_KEYS[] = {"name",          "family",         "canopy",     "nominal-diameter",
+                                         "projected-diameter", "flat-diameter", "nominal-area", "drag-coefficient",
+                                         "count",         "cluster-factor", "areal-mass", "deploy",
+                                         "carries",       "previous",       "line-stretch", NULL};
+static const char *const STAGE_REQ[] = {"name", NULL};
+static const char *const DEPLOY_KEYS[] = {"height", "delay", NULL};
+static const char *const START_KEYS[] = {"height", "speed", "path-angle", "heading", "east", "north", NULL};
+static const char *const START_REQ[] = {"height", NULL};
+static const char *const LIMIT_KEYS[] = {"touchdown-speed", "landing-energy", "descent-time", "drift",
+                                        "deployment-pressure", NULL};
+
+void sr_mission_relative_path(char *out, size_t len, const char *base, const char *file)
+{
+    if (file[0] == '/') {
+        snprintf(out, len, "%s", file);
+        return;
+    }
+    const char *slash = strrchr(base, '/');
+    if (!slash) {
+        snprintf(out, len, "%s", file);
+        return;
+    }
+    snprintf(out, len, "%.*s/%s", (int)(slash - base), base, file);
+}
+
+static int parse_atmos(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *err)
+{
+    int rc;
+    yaml_node_t *en = sr_yaml_get(y, site, "elevation"), *tn = sr_yaml_get(y, site, "temperature"),
+                *pn = sr_yaml_get(y, site, "pressure"), *sn = sr_yaml_get(y, site, "sounding");
+    double z = 0.0, T = NAN, p = NAN;
+    if (en && (rc = sr_yaml_quantity(y, en, SR_Q_LENGTH, &z, err)))
+        return rc;
+    if (tn && (rc = sr_yaml_quantity(y, tn, SR_Q_TEMP, &T, err)))
+        return rc;
+    if (pn && (rc = sr_yaml_quantity(y, pn, SR_Q_PRESSURE, &p, err)))
+        return rc;
+    m->ground = z;
+    sr_error e;
+    if (sn) {
+        if (tn || pn)
+            return sr_yaml_fail(y, sn, err, "give either a sounding or surface temperature/pressure, not both");
+        char file[400], path[1024];
+        if ((rc = sr_yaml_string(y, sn, file, sizeof file, err)))
+            return rc;
+        sr_mission_relative_path(path, sizeof path, m->path, file);
+        if ((rc = sr_atmos_load_sounding(&m->atmos, path, &e)))
+            return sr_yaml_fail(y, sn, err, "%s", e.msg);
+        double lo, hi;
+        sr_atmos_range(&m->atmos, &lo, &hi);
+        if (z < lo || z > hi)
+            return sr_yaml_fail(y, en ? en : sn, err, "the site elevation %.0f m is outside the sounding (%.0f .. %.0f m)",
+                                z, lo, hi);
+        return SR_OK;
+    }
+    if ((rc = sr_atmos_init_site(&m->atmos, z, T, p, &e)))
+        return sr_yaml_fail(y, tn ? tn : pn ? pn : en, err, "%s", e.msg);
+    return SR_OK;
+}
+
+static int parse_site(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_check_map(y, site, "site", SITE_KEYS, NULL, err)))
+        return rc;
+    if ((rc = parse_atmos(m, y, site, err)))
+        return rc;
+    yaml_node_t *wn = sr_yaml_get(y, site, "wind");
+    return wn ? sr_mission_parse_wind(m, y, wn, err) : SR_OK;
+}
+
+/* A list of section names, e.g. carries: [booster, payload bay]. */
+static int parse_section_set(const sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_section_set *out, sr_error *err)
+{
+    int rc;
+    const char *names[SR_MISSION_MAX_SECTIONS + 1];
+    for (size_t i = 0; i < m->nsections; i++)
+        names[i] = m->sections[i].name;
+    names[m->nsections] = NULL;
+    if ((rc = sr_yaml_require_seq(y, n, "carries", 1, m->nsections, err)))
+        return rc;
+    *out = 0;
+    for (size_t i = 0; i < sr_yaml_seq_len(n); i++) {
+        yaml_node_t *e = sr_yaml_seq_at(y, n, i);
+        char name[SR_NAME_MAX];
+        if ((rc = sr_yaml_string(y, e, name, sizeof name, err)))
+            return rc;
+        int k = -1;
+        for (size_t j = 0; j < m->nsections; j++)
+            if (strcmp(names[j], name) == 0)
+                k = (int)j;
+        if (k < 0) {
+            const char *s = sr_yaml_suggest(name, names);
+            if (s)
+                return sr_yaml_fail(y, e, err, "no section is named '%s'; did you mean '%s'?", name, s);
+            return sr_yaml_fail(y, e, err, "no section is named '%s'", name);
+        }
+        if (*out & (1u << k))
+            return sr_yaml_fail(y, e, err, "section '%s' is listed twice", name);
+        *out |= 1u << k;
+    }
+    return SR_OK;
+}
+
+static int parse_deploy(sr_yaml *y, yaml_node_t *n, sr_stage *s, size_t idx, sr_error *err)
+{
+    int rc;
+    yaml_node_t *d = sr_yaml_get(y, n, "deploy");
+    if (!d) {
+        if (idx == 0) {
+            s->deploy = SR_DEPLOY_APOGEE;
+            return SR_OK;
+        }
+        return sr_yaml_fail(y, n, err, "stage '%s' needs a deploy event (apogee, height: or delay:)", s->name);
+    }
+    if (d->type == YAML_SCALAR_NODE) {
+        const char *v = (const char *)d->data.scalar.value;
+        if (strcmp(v, "apogee") != 0 && strcmp(v, "release") != 0)
+            return sr_yaml_fail(y, d, err,
+                                "deploy must be 'apogee' (or 'release': at the start state), or a mapping with "
+                                "height: or delay:");
+        s->deploy = SR_DEPLOY_APOGEE;
+        return SR_OK;
+    }
+    if ((rc = sr_yaml_check_map(y, d, "deploy", DEPLOY_KEYS, NULL, err)))
+        return rc;
+    yaml_node_t *h = sr_yaml_get(y, d, "height"), *t = sr_yaml_get(y, d, "delay");
+    if ((h && t) || (!h && !t))
+        return sr_yaml_fail(y, d, err, "deploy takes exactly one of height: (above ground) or delay:");
+    if (h) {
+        s->deploy = SR_DEPLOY_ALTITUDE;
+        if ((rc = sr_yaml_quantity(y, h, SR_Q_LENGTH, &s->deploy_value, err)))
+            return rc;
+        if (!(s->deploy_value > 0.0 && s->deploy_value < 80000.0))
+            return sr_yaml_fail(y, h, err, "deployment height must be above ground and below 80 km");
+    } else {
+        s->deploy = SR_DEPLOY_DELAY;
+        if ((rc = sr_yaml_quantity(y, t, SR_Q_TIME, &s->deploy_value, err)))
+            return rc;
+        if (!(s->deploy_value >= 0.0 && s->deploy_value <= 3600.0))
+            return sr_yaml_fail(y, t, err, "deployment delay must be between 0 s and 1 h");
+    }
+    return SR_OK;
+}
+
+static int parse_stage(sr_mission *m, sr_yaml *y, yaml_node_t *n, const sr_catalog *cat, sr_stage *s, size_t idx,
+                       sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_check_map(y, n, "a stage", STAGE_KEYS, STAGE_REQ, err)))
+        return rc;
+    if ((rc = sr_yaml_string(y, sr_yaml_get(y, n, "name"), s->name, sizeof s->name, err)))
+        return rc;
+    yaml_node_t *cf = sr_yaml_get(y, n, "canopy");
+    if (cf) {
+        if (sr_yaml_get(y, n, "family"))
+            return sr_yaml_fail(y, cf, err, "stage '%s': give either a family or a canopy file, not both", s->name);
+        char file[400], path[1024];
+        if ((rc = sr_yaml_string(y, cf, file, sizeof file, err)))
+            return rc;
+        sr_mission_relative_path(path, sizeof path, m->path, file);
+        sr_error e;
+        if ((rc = sr_catalog_load_canopy(&s->canopy, cat, path, &e)))
+            return sr_yaml_fail(y, cf, err, "%s", e.msg);
+        s->has_size = 1;
+    } else {
+        if ((rc = sr_catalog_canopy_from_node(&s->canopy, cat, y, n, 1, &s->has_size, err)))
+            return rc;
+    }
+    if ((rc = parse_deploy(y, n, s, idx, err)))
+        return rc;
+    yaml_node_t *cn = sr_yaml_get(y, n, "carries");
+    s->carries = idx == 0 ? (sr_section_set)((1u << m->nsections) - 1u) : m->stages[idx - 1].carries;
+    if (cn && (rc = parse_section_set(m, y, cn, &s->carries, err)))
+        return rc;
+    s->keep_previous = 1;
+    yaml_node_t *pn = sr_yaml_get(y, n, "previous");
+    if (pn) {
+        char v[16];
+        if ((rc = sr_yaml_string(y, pn, v, sizeof v, err)))
+            return rc;
+        if (strcmp(v, "keep") == 0)
+            s->keep_previous = 1;
+        else if (strcmp(v, "release") == 0)
+            s->keep_previous = 0;
+        else
+            return sr_yaml_fail(y, pn, err, "previous must be 'keep' (earlier canopies stay on the line and keep "
+                                            "their drag) or 'release' (they are cut away), not '%s'",
+                                v);
+    }
+    s->line_stretch = 0.0;
+    yaml_node_t *ln = sr_yaml_get(y, n, "line-stretch");
+    if (ln) {
+        if ((rc = sr_yaml_quantity(y, ln, SR_Q_TIME, &s->line_stretch, err)))
+            return rc;
+        if (!(s->line_stretch >= 0.0 && s->line_stretch <= 60.0))
+            return sr_yaml_fail(y, ln, err, "line-stretch (time from deployment to line stretch) must be between 0 s "
+                                            "and 60 s");
+    }
+    return SR_OK;
+}
+
+/* body: {shape: sphere|cylinder|disk, diameter:, length: (cylinder), curve: (a built-in one of the shape)}
+ * or body: {cd-table: FILE, area:, diameter:, interpolation: loglog|steffen}: the section's drag while no
+ * canopy is open on it, with a Cd that depends on the Reynolds number. */
+static int parse_body(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_section *sec, sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_check_map(y, n, "a section's body", BODY_KEYS, BODY_REQ, err)))
+        return rc;
+    yaml_node_t *shn = sr_yaml_get(y, n, "shape"), *tn = sr_yaml_get(y, n, "cd-table"),
+                *dn = sr_yaml_get(y, n, "diameter"), *ln = sr_yaml_get(y, n, "length"),
+                *cn = sr_yaml_get(y, n, "curve"), *an = sr_yaml_get(y, n, "area"),
+                *in = sr_yaml_get(y, n, "interpolation");
+    if (shn && tn)
+        return sr_yaml_fail(y, tn, err, "a body takes either shape: (a built-in drag curve) or cd-table: (your own "
+                                        "Cd(Re) table), not both");
+    if (!shn && !tn)
+        return sr_yaml_fail(y, n, err, "a body needs shape: (sphere, cylinder or disk) or cd-table: (a file of Cd "
+                                       "against Re)");
+    double d, len = 0.0, area = NAN;
+    if ((rc = sr_yaml_quantity(y, dn, SR_Q_LENGTH, &d, err)))
+        return rc;
+    if (!(d > 0.0 && d <= 20.0))
+        return sr_yaml_fail(y, dn, err, "a body's diameter must be above 0 and at most 20 m");
+    sr_error e;
+    if (shn) {
+        static const char *const shapes[] = {"sphere", "cylinder", "disk", NULL};
+        char v[32];
+        if ((rc = sr_yaml_string(y, shn, v, sizeof v, err)))
+            return rc;
+        if (strcmp(v, "sphere") == 0)
+            sec->shape = SR_BLUFF_SPHERE;
+        else if (strcmp(v, "cylinder") == 0)
+            sec->shape = SR_BLUFF_CYLINDER;
+        else if (strcmp(v, "disk") == 0)
+            sec->shape = SR_BLUFF_DISK;
+        else {
+            const char *sg = sr_yaml_suggest(v, shapes);
+            return sr_yaml_fail(y, shn, err, "shape must be sphere, cylinder (broadside to the flow) or disk, not "
+                                             "'%s'%s%s%s",
+                                v, sg ? "; did you mean '" : "", sg ? sg : "", sg ? "'?" : "");
+        }
+        if (an)
+            return sr_yaml_fail(y, an, err, "area: goes with cd-table:; the reference area of a %s follows from "
+                                            "its diameter%s",
+                                v, sec->shape == SR_BLUFF_CYLINDER ? " and length" : "");
+        if (in)
+            return sr_yaml_fail(y, in, err, "interpolation: goes with cd-table:");
+        if (sec->shape == SR_BLUFF_CYLINDER) {
+            if (!ln)
+                return sr_yaml_fail(y, n, err, "a cylinder body needs length: (it falls broadside: drag on d x L)");
+            if ((rc = sr_yaml_quantity(y, ln, SR_Q_LENGTH, &len, err)))
+                return rc;
+            if (!(len > 0.0 && len <= 100.0))
+                return sr_yaml_fail(y, ln, err, "a cylinder's length must be above 0 and at most 100 m");
+        } else if (ln) {
+            return sr_yaml_fail(y, ln, err, "only a cylinder body takes a length");
+        }
+        sr_bluff_curve_id id = sr_bluff_default_curve(sec->shape);
+        if (cn) {
+            char name[64];
+            if ((rc = sr_yaml_string(y, cn, name, sizeof name, err)))
+                return rc;
+            if (sr_bluff_curve_lookup(name, &id, &e))
+                return sr_yaml_fail(y, cn, err, "%s", e.msg);
+        }
+        if (sr_bluff_curve_init(&sec->curve, id, &e))
+            return sr_yaml_fail(y, cn ? cn : shn, err, "%s", e.msg);
+    } else {
+        if (cn)
+            return sr_yaml_fail(y, cn, err, "curve: names a built-in curve for a shape:; with cd-table: the table "
+                                            "is the curve");
+        if (ln)
+            return sr_yaml_fail(y, ln, err, "length: goes with shape: cylinder; a drag table's body is described "
+                                            "by its table, area and diameter");
+        sr_bluff_interp kind = SR_BLUFF_LOGLOG;
+        if (in) {
+            char v[16];
+            if ((rc = sr_yaml_string(y, in, v, sizeof v, err)))
+                return rc;
+            if (strcmp(v, "steffen") == 0)
+                kind = SR_BLUFF_STEFFEN;
+            else if (strcmp(v, "loglog") != 0)
+                return sr_yaml_fail(y, in, err, "interpolation must be loglog (straight lines in log Re, log Cd) or "
+                                                "steffen (monotone cubic), not '%s'",
+                                    v);
+        }
+        if (an) {
+            if ((rc = sr_yaml_quantity(y, an, SR_Q_AREA, &area, err)))
+                return rc;
+            if (!(area > 0.0 && area <= 1000.0))
+                return sr_yaml_fail(y, an, err, "a body's reference area must be above 0 and at most 1000 m2");
+        }
+        char file[400], path[1024];
+        if ((rc = sr_yaml_string(y, tn, file, sizeof file, err)))
+            return rc;
+        sr_mission_relative_path(path, sizeof path, m->path, file);
+        if (sr_bluff_curve_load(&sec->curve, path, kind, &e))
+            return sr_yaml_fail(y, tn, err, "%s", e.msg);
+        if (!an && !(sec->curve.table_area > 0.0))
+            return sr_yaml_fail(y, n, err, "give area: (the reference area of the table's Cd values); %s states "
+                                           "none",
+                                file);
+        sec->shape = SR_BLUFF_TABLE;
+    }
+    sr_bluff_body b;
+    if (sr_bluff_body_init(&b, sec->shape, &sec->curve, d, len, sec->mass, area, &e))
+        return sr_yaml_fail(y, n, err, "%s", e.msg);
+    sec->has_body = 1;
+    sec->body_d = d;
+    sec->body_length = len;
+    sec->body_area = b.area;
+    snprintf(sec->body_area_ref, sizeof sec->body_area_ref, "%s", b.area_ref);
+    return SR_OK;
+}
+
+static int parse_sections(sr_mission *m, sr_yaml *y, yaml_node_t *secs, sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_require_seq(y, secs, "sections", 1, SR_MISSION_MAX_SECTIONS, err)))
+        return rc;
+    m->nsections = sr_yaml_seq_len(secs);
+    for (size_t i = 0; i < m->nsections; i++) {
+        yaml_node_t *s = sr_yaml_seq_at(y, secs, i);
+        sr_section *sec = &m->sections[i];
+        sec->rigid_with = -1;
+        if ((rc = sr_yaml_check_map(y, s, "a section", SECTION_KEYS, SECTION_REQ, err)))
+            return rc;
+        if ((rc = sr_yaml_string(y, sr_yaml_get(y, s, "name"), sec->name, sizeof sec->name, err)))
+            return rc;
+        yaml_node_t *mn = sr_yaml_get(y, s, "mass");
+        if ((rc = sr_yaml_quantity(y, mn, SR_Q_MASS, &sec->mass, err)))
+            return rc;
+        if (!(sec->mass > 0.0 && sec->mass <= 10000.0))
+            return sr_yaml_fail(y, mn, err, "section mass must be above 0 and at most 10000 kg");
+        for (size_t j = 0; j < i; j++)
+            if (strcmp(m->sections[j].name, sec->name) == 0)
+                return sr_yaml_fail(y, s, err, "two sections are named '%s'", sec->name);
+        yaml_node_t *an = sr_yaml_get(y, s, "drag-area");
+        if (an) {
+            if ((rc = sr_yaml_quantity(y, an, SR_Q_AREA, &sec->drag_area, err)))
+                return rc;
+            if (!(sec->drag_area >= 0.0 && sec->drag_area <= 100.0))
+                return sr_yaml_fail(y, an, err, "a section's drag area must be between 0 and 100 m2");
+        }
+        yaml_node_t *bn = sr_yaml_get(y, s, "body");
+        if (bn) {
+            if (an)
+                return sr_yaml_fail(y, sr_yaml_key_node(y, s, "body"), err,
+                                    "section '%s': give either drag-area: (a constant drag area) or body: (drag "
+                                    "that depends on the Reynolds number), not both",
+                                    sec->name);
+            if ((rc = parse_body(m, y, bn, sec, err)))
+                return rc;
+        }
+    }
+    /* rigid-with names a section: all names are known now */
+    for (size_t i = 0; i < m->nsections; i++) {
+        yaml_node_t *s = sr_yaml_seq_at(y, secs, i), *rn = sr_yaml_get(y, s, "rigid-with");
+        if (!rn)
+            continue;
+        char name[SR_NAME_MAX];
+        if ((rc = sr_yaml_string(y, rn, name, sizeof name, err)))
+            return rc;
+        for (size_t j = 0; j < m->nsections; j++)
+            if (j != i && strcmp(m->sections[j].name, name) == 0)
+                m->sections[i].rigid_with = (int)j;
+        if (m->sections[i].rigid_with < 0)
+            return sr_yaml_fail(y, rn, err, "rigid-with must name another section, and '%s' is not one", name);
+    }
+    return SR_OK;
+}
+
+/* Walk the stages in file order as the sections come apart and check that
+ * each stage hangs on sections that are still together, that heights fall
+ * along every line of sections, and that rigid pairs land together. */
+static int check_structure(sr_mission *m, sr_yaml *y, yaml_node_t *stages, yaml_node_t *secs, sr_error *err)
+{
+    sr_section_set bodies[SR_MISSION_MAX_SECTIONS];
+    size_t nb = 1;
+    bodies[0] = (sr_section_set)((1u << m->nsections) - 1u);
+    for (size_t i = 0; i < m->nstages; i++) {
+        const sr_stage *s = &m->stages[i];
+        yaml_node_t *sn = sr_yaml_seq_at(y, stages, i);
+        yaml_node_t *cn = sr_yaml_get(y, sn, "carries");
+        if (s->deploy == SR_DEPLOY_APOGEE)
+            for (size_t j = 0; j < i; j++)
+                if (m->stages[j].deploy != SR_DEPLOY_APOGEE)
+                    return sr_yaml_fail(y, sr_yaml_get(y, sn, "deploy"), err,
+                                        "stage '%s' deploys at apogee after stage '%s', which does not: list the "
+                                        "apogee stages first",
+                                        s->name, m->stages[j].name);
+        size_t b = nb;
+        for (size_t k = 0; k < nb; k++)
+            if ((s->carries & bodies[k]) == s->carries)
+                b = k;
+        if (b == nb) {
+            char names[256];
+            sr_mission_set_name(m, s->carries, names, sizeof names);
+            return sr_yaml_fail(y, cn ? cn : sn, err,
+                                "stage '%s' carries %s, but those sections have already come apart under earlier "
+                                "stages",
+                                s->name, names);
+        }
+        if (bodies[b] != s->carries) {
+            bodies[b] &= ~s->carries;
+            bodies[nb++] = s->carries;
+        }
+        if (s->deploy != SR_DEPLOY_ALTITUDE)
+            continue;
+        for (size_t j = 0; j < i; j++) {
+            const sr_stage *p = &m->stages[j];
+            if (p->deploy == SR_DEPLOY_ALTITUDE && (p->carries & s->carries) && !(s->deploy_value < p->deploy_value))
+                return sr_yaml_fail(y, sr_yaml_get(y, sr_yaml_get(y, sn, "deploy"), "height"), err,
+                                    "stage '%s' deploys at %.0f m, not below the earlier stage '%s' (%.0f m) on the "
+                                    "same sections: deployments must go in falling order",
+                                    s->name, s->deploy_value, p->name, p->deploy_value);
+        }
+    }
+    for (size_t i = 0; i < m->nsections; i++) {
+        int j = m->sections[i].rigid_with;
+        if (j < 0)
+            continue;
+        for (size_t k = 0; k < nb; k++)
+            if (((bodies[k] >> i) & 1u) != ((bodies[k] >> j) & 1u))
+                return sr_yaml_fail(y, sr_yaml_get(y, sr_yaml_seq_at(y, secs, i), "rigid-with"), err,
+                                    "section '%s' is rigid with '%s', but the stages let them land apart",
+                                    m->sections[i].name, m->sections[j].name);
+    }
+    return SR_OK;
+}
+
+static int parse_start(sr_mission *m, sr_yaml *y, yaml_node_t *start, yaml_node_t *stages, sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_check_map(y, start, "start", START_KEYS, START_REQ, err)))
+        return rc;
+    yaml_node_t *hn = sr_yaml_get(y, start, "height");
+    if ((rc = sr_yaml_quantity(y, hn, SR_Q_LENGTH, &m->start_height, err)))
+        return rc;
+    if (!(m->start_height > 0.0 && m->ground + m->start_height <= SR_ATMOS_Z_MAX))
+        return sr_yaml_fail(y, hn, err, "start height must be above ground and within the atmosphere model");
+    double lo, hi;
+    sr_atmos_range(&m->atmos, &lo, &hi);
+    if (m->ground + m->start_height > hi)
+        return sr_yaml_fail(y, hn, err, "the start at %.0f m above ground (%.0f m above sea level) is above the top of "
+                                        "the sounding (%.0f m); it is never extrapolated",
+                            m->start_height, m->ground + m->start_height, hi);
+    double top = sr_wind_top(&m->wind);
+    if (m->start_height > top)
+        return sr_yaml_fail(y, hn, err, "the start at %.0f m above ground is above the top of the wind table (%.0f m "
+                                        "above ground); extend the table",
+                            m->start_height, top);
+    yaml_node_t *vn = sr_yaml_get(y, start, "speed"), *an = sr_yaml_get(y, start, "path-angle"),
+                *dn = sr_yaml_get(y, start, "heading"), *en = sr_yaml_get(y, start, "east"),
+                *nn = sr_yaml_get(y, start, "north");
+    if (vn) {
+        if ((rc = sr_yaml_quantity(y, vn, SR_Q_SPEED, &m->start_speed, err)))
+            return rc;
+        if (!(m->start_speed >= 0.0 && m->start_speed < 2000.0))
+            return sr_yaml_fail(y, vn, err, "start speed must be between 0 and 2000 m/s");
+    }
+    if (an) {
+        if ((rc = sr_yaml_quantity(y, an, SR_Q_ANGLE, &m->start_path_angle, err)))
+            return rc;
+        if (!(fabs(m->start_path_angle) <= PI / 2))
+            return sr_yaml_fail(y, an, err, "path angle must be within -90 deg .. 90 deg");
+    }
+    if (dn) {
+        if ((rc = sr_yaml_quantity(y, dn, SR_Q_ANGLE, &m->start_heading, err)))
+            return rc;
+        if (!(m->start_heading >= -2 * PI && m->start_heading <= 2 * PI))
+            return sr_yaml_fail(y, dn, err, "heading must be within -360 deg .. 360 deg");
+        m->start_heading = fmod(m->start_heading + 2 * PI, 2 * PI);
+    }
+    struct {
+        yaml_node_t *n;
+        double *dst;
+    } P[] = {{en, &m->start_east}, {nn, &m->start_north}};
+    for (size_t i = 0; i < 2; i++) {
+        if (!P[i].n)
+            continue;
+        if ((rc = sr_yaml_quantity(y, P[i].n, SR_Q_LENGTH, P[i].dst, err)))
+            return rc;
+        if (!(fabs(*P[i].dst) <= 100000.0))
+            return sr_yaml_fail(y, P[i].n, err, "the start's offset from the launch point must be within 100 km");
+    }
+    m->has_start = 1;
+    for (size_t i = 0; i < m->nstages; i++)
+        if (m->stages[i].deploy == SR_DEPLOY_ALTITUDE && !(m->stages[i].deploy_value < m->start_height))
+            return sr_yaml_fail(y, sr_yaml_get(y, sr_yaml_get(y, sr_yaml_seq_at(y, stages, i), "deploy"), "height"),
+                                err, "stage '%s' deploys at %.0f m, not below the start at %.0f m above ground",
+                                m->stages[i].name, m->stages[i].deploy_value, m->start_height);
+    return SR_OK;
+}
+
+static int parse_limits(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_check_map(y, lim, "limits", LIMIT_KEYS, NULL, err)))
+        return rc;
+    struct {
+        const char *key;
+        sr_quantity q;
+        double *dst;
+    } L[] = {{"touchdown-speed", SR_Q_SPEED, &m->limit_speed},
+             {"landing-energy", SR_Q_ENERGY, &m->limit_energy},
+             {"descent-time", SR_Q_TIME, &m->limit_time},
+             {"drift", SR_Q_LENGTH, &m->limit_drift},
+             {"deployment-pressure", SR_Q_PRESSURE, &m->limit_deploy_q}};
+    for (size_t i = 0; i < sizeof L / sizeof L[0]; i++) {
+        yaml_node_t *n = sr_yaml_get(y, lim, L[i].key);
+        if (!n)
+            continue;
+        if ((rc = sr_yaml_quantity(y, n, L[i].q, L[i].dst, err)))
+            return rc;
+        if (!(*L[i].dst > 0.0))
+            return sr_yaml_fail(y, n, err, "limit %s must be positive", L[i].key);
+    }
+    return SR_OK;
+}
+
+/* Stage names, one or a list: fails: main, only: [drogue]. */
+static int parse_stage_set(const sr_mission *m, sr_yaml *y, yaml_node_t *n, const char *key, unsigned *out,
+                           sr_error *err)
+{
+    const char *names[SR_MISSION_MAX_STAGES + 1];
+    for (size_t k = 0; k < m->nstages; k++)
+        names[k] = m->stages[k].name;
+    names[m->nstages] = NULL;
+    size_t count = n && n->type == YAML_SEQUENCE_NODE ? sr_yaml_seq_len(n) : 1;
+    int rc;
+    if (n && n->type == YAML_SEQUENCE_NODE && (rc = sr_yaml_require_seq(y, n, key, 1, m->nstages, err)))
+        return rc;
+    *out = 0;
+    for (size_t i = 0; i < count; i++) {
+        yaml_node_t *e = n->type == YAML_SEQUENCE_NODE ? sr_yaml_seq_at(y, n, i) : n;
+        char name[SR_NAME_MAX];
+        if ((rc = sr_yaml_string(y, e, name, sizeof name, err)))
+            return rc;
+        size_t k = 0;
+        while (k < m->nstages && strcmp(names[k], name) != 0)
+            k++;
+        if (k == m->nstages) {
+            const char *sg = sr_yaml_suggest(name, names);
+            if (sg)
+                return sr_yaml_fail(y, e, err, "no stage is named '%s'; did you mean '%s'?", name, sg);
+            return sr_yaml_fail(y, e, err, "no stage is named '%s'", name);
+        }
+        if (*out & (1u << k))
+            return sr_yaml_fail(y, e, err, "stage '%s' is listed twice", name);
+        *out |= 1u << k;
+    }
+    return SR_OK;
+}
+
+static void stage_list(const sr_mission *m, unsigned set, char *buf, size_t len)
+{
+    buf[0] = '\0';
+    size_t used = 0;
+    for (size_t k = 0; k < m->nstages; k++) {
+        if (!((set >> k) & 1u))
+            continue;
+        int w = snprintf(buf + used, len - used, "%s%s", used ? " + " : "", m->stages[k].name);
+        if (w < 0 || (size_t)w >= len - used)
+            break;
+        used += (size_t)w;
+    }
+}
+
+/* failure-cases: [no-canopy, {only: drogue}, {fails: [main]}, {name: "...", fails: ...}] */
+static int parse_failures(sr_mission *m, sr_yaml *y, yaml_node_t *list, sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_require_seq(y, list, "failure-cases", 1, SR_MISSION_MAX_FAILURES, err)))
+        return rc;
+    unsigned all = (1u << m->nstages) - 1u;
+    m->nfailures = sr_yaml_seq_len(list);
+    for (size_t i = 0; i < m->nfailures; i++) {
+        yaml_node_t *n = sr_yaml_seq_at(y, list, i);
+        sr_failure_case *f = &m->failures[i];
+        char names[256];
+        if (n && n->type == YAML_SCALAR_NODE) {
+            const char *v = (const char *)n->data.scalar.value;
+            if (strcmp(v, "no-canopy") != 0) {
+                for (size_t k = 0; k < m->nstages; k++)
+                    if (strcmp(v, m->stages[k].name) == 0)
+                        return sr_yaml_fail(y, n, err, "a failure case is 'no-canopy' or a mapping: write "
+                                                       "{fails: %s} (it does not open) or {only: %s} (only it opens)",
+                                            v, v);
+                return sr_yaml_fail(y, n, err, "a failure case is 'no-canopy' (no stage deploys) or a mapping with "
+                                               "fails: or only: and stage names, not '%s'",
+                                    v);
+            }
+            f->failed = all;
+            snprintf(f->name, sizeof f->name, "no canopy");
+        } else {
+            if ((rc = sr_yaml_check_map(y, n, "a failure case", FAILURE_KEYS, NULL, err)))
+                return rc;
+            yaml_node_t *fn = sr_yaml_get(y, n, "fails"), *on = sr_yaml_get(y, n, "only"),
+                        *nn = sr_yaml_get(y, n, "name");
+            if ((fn && on) || (!fn && !on))
+                return sr_yaml_fail(y, n, err, "a failure case takes exactly one of fails: (the stages that do not "
+                                               "open) or only: (the stages that do)");
+            unsigned set;
+            if ((rc = parse_stage_set(m, y, fn ? fn : on, fn ? "fails" : "only", &set, err)))
+                return rc;
+            stage_list(m, set, names, sizeof names);
+            if (fn) {
+                f->failed = set;
+                snprintf(f->name, sizeof f->name, "%s fail%s", names, strchr(names, '+') ? "" : "s");
+            } else {
+                f->failed = all & ~set;
+                if (!f->failed)
+                    return sr_yaml_fail(y, on, err, "only: lists every stage: that is the nominal descent, not a "
+                                                    "failure case");
+                snprintf(f->name, sizeof f->name, "%s only", names);
+            }
+            if (f->failed == all)
+                snprintf(f->name, sizeof f->name, "no canopy");
+            if (nn && (rc = sr_yaml_string(y, nn, f->name, sizeof f->name, err)))
+                return rc;
+        }
+        for (size_t j = 0; j < i; j++)
+            if (m->failures[j].failed == f->failed)
+                return sr_yaml_fail(y, n, err, "this failure case repeats case %zu ('%s'): the same stages fail", j + 1,
+                                    m->failures[j].name);
+    }
+    return SR_OK;
+}
+
+int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err)
+{
+    int rc;
+    /* defaults of the keys this reader owns (callers may have zeroed the struct) */
+    m->start_heading = NAN;
+    m->limit_deploy_q = NAN;
+    yaml_node_t *root = sr_yaml_root(y);
+    if ((rc = sr_yaml_check_map(y, root, "the mission file", TOP_KEYS, TOP_REQ, err)))
+        return rc;
+    if ((rc = sr_yaml_string(y, sr_yaml_get(y, root, "mission"), m->name, sizeof m->name, err)))
+        return rc;
+    yaml_node_t *site = sr_yaml_get(y, root, "site");
+    if (site && (rc = parse_site(m, y, site, err)))
+        return rc;
+    yaml_node_t *secs = sr_yaml_get(y, root, "sections");
+    if ((rc = parse_sections(m, y, secs, err)))
+        return rc;
+    yaml_node_t *stages = sr_yaml_get(y, root, "stages");
+    if ((rc = sr_yaml_require_seq(y, stages, "stages", 1, SR_MISSION_MAX_STAGES, err)))
+        return rc;
+    m->nstages = sr_yaml_seq_len(stages);
+    for (size_t i = 0; i < m->nstages; i++) {
+        if ((rc = parse_stage(m, y, sr_yaml_seq_at(y, stages, i), cat, &m->stages[i], i, err)))
+            return rc;
+        for (size_t j = 0; j < i; j++)
+            if (strcmp(m->stages[j].name, m->stages[i].name) == 0)
+                return sr_yaml_fail(y, sr_yaml_seq_at(y, stages, i), err, "two stages are named '%s'",
+                                    m->stages[i].name);
+    }
+    if ((rc = check_structure(m, y, stages, secs, err)))
+        return rc;
+    yaml_node_t *start = sr_yaml_get(y, root, "start");
+    if (start && (rc = parse_start(m, y, start, stages, err)))
+        return rc;
+    yaml_node_t *lim = sr_yaml_get(y, root, "limits");
+    if (lim && (rc = parse_limits(m, y, lim, err)))
+        return rc;
+    yaml_node_t *fc = sr_yaml_get(y, root, "failure-cases");
+    if (fc && (rc = parse_failures(m, y, fc, err)))
+        return rc;
+    return sr_mission_parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err);
+}
+
+int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err)
+{
+    memset(m, 0, sizeof *m);
+    sr_atmos_init_standard(&m->atmos);
+    sr_wind_init_calm(&m->wind);
+    m->limit_speed = m->limit_energy = m->limit_time = m->limit_drift = m->limit_deploy_q = NAN;
+    snprintf(m->path, sizeof m->path, "%s", path);
+    sr_yaml y;
+    int rc = sr_yaml_load_file(&y, path, err);
+    if (rc)
+        return rc;
+    rc = sr_mission_parse(m, &y, cat, err);
+    sr_yaml_free(&y);
+    if (rc)
+        sr_mission_free(m);
+    return rc;
+}
+
+void sr_mission_free(sr_mission *m)
+{
+    for (size_t i = 0; i < SR_MISSION_MAX_SECTIONS; i++)
+        sr_bluff_curve_free(&m->sections[i].curve);
+    sr_atmos_free(&m->atmos);
+    sr_wind_free(&m->wind);
+}
+
+double sr_mission_total_mass(const sr_mission *m)
+{
+    double s = 0.0;
+    for (size_t i = 0; i < m->nsections; i++)
+        s += m->sections[i].mass;
+    return s;
+}
+
+double sr_mission_mass_of(const sr_mission *m, sr_section_set set)
+{
+    double s = 0.0;
+    for (size_t i = 0; i < m->nsections; i++)
+        if ((set >> i) & 1u)
+            s += m->sections[i].mass;
+    return s;
+}
+
+void sr_mission_set_name(const sr_mission *m, sr_section_set set, char *buf, size_t len)
+{
+    buf[0] = '\0';
+    size_t used = 0;
+    for (size_t i = 0; i < m->nsections; i++) {
+        if (!((set >> i) & 1u))
+            continue;
+        int w = snprintf(buf + used, len - used, "%s%s", used ? " + " : "", m->sections[i].name);
+        if (w < 0 || (size_t)w >= len - used)
+            break;
+        used += (size_t)w;
+    }
+}

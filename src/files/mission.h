@@ -1,0 +1,120 @@
+/* mission.h - mission files (payloads/<scenario>.yaml): the site and its
+ * weather, the sections and their masses, the recovery stages with their
+ * canopies and deployment events, the state at first deployment and the
+ * landing limits. One schema for every command that reads a mission. */
+#ifndef SR_MISSION_H
+#define SR_MISSION_H
+
+#include <stddef.h>
+
+#include "physics/atmos.h"
+#include "physics/bluff.h"
+#include "physics/canopy.h"
+#include "files/catalog.h"
+#include "base/error.h"
+#include "physics/wind.h"
+#include "analysis/uncertainty.h"
+
+#define SR_MISSION_MAX_SECTIONS 8
+#define SR_MISSION_MAX_STAGES 6
+#define SR_NAME_MAX 64
+#define SR_MISSION_MAX_FAILURES 8
+
+typedef enum sr_deploy_kind {
+    SR_DEPLOY_APOGEE = 0,   /* at the start state (apogee or release); written `apogee` or `release` */
+    SR_DEPLOY_ALTITUDE,     /* at a height above ground */
+    SR_DEPLOY_DELAY         /* a time after the previous event */
+} sr_deploy_kind;
+
+/* Sections as a bit set: bit i is sections[i]. */
+typedef unsigned sr_section_set;
+
+typedef struct sr_stage {
+    char name[SR_NAME_MAX];
+    sr_canopy canopy;
+    int has_size;            /* 0: no size in the file (size --mission sizes it) */
+    sr_deploy_kind deploy;
+    double deploy_value;     /* m above ground, or s after the previous deployment on the same sections */
+    sr_section_set carries;  /* sections hanging under this canopy from its deployment on (`carries:`;
+                              * default: those of the stage before, all for the first). Fewer than the
+                              * body it deploys on: those sections separate and land on their own. */
+    int keep_previous;       /* `previous: keep` (default): canopies already open on these sections keep
+                              * their drag; `release`: they are cut away at this deployment */
+    double line_stretch;     /* s from the deployment event to line stretch (bag strip), default 0 */
+} sr_stage;
+
+typedef struct sr_section {
+    char name[SR_NAME_MAX];
+    double mass;             /* kg */
+    double drag_area;        /* m2, the section's own drag area CdA (0: neglected) */
+    int rigid_with;          /* index of the section it lands as one piece with (`rigid-with:`), -1 none;
+                              * tethered sections (the default) each land with their own energy */
+    /* `body:` (instead of drag-area): drag with a Reynolds-dependent Cd while no canopy is open on the
+     * section; under a canopy it is neglected (the body hangs in another attitude; conservative) */
+    int has_body;
+    sr_bluff_shape shape;    /* sphere, cylinder (broadside), disk, or SR_BLUFF_TABLE for `cd-table:` */
+    double body_d;           /* diameter: the length of the Reynolds number, m */
+    double body_length;      /* cylinder length, m (0 otherwise) */
+    double body_area;        /* reference area of its Cd, m2 */
+    char body_area_ref[64];  /* what that area is, e.g. "projected area d x L" */
+    sr_bluff_curve curve;    /* its drag curve (owned; freed by sr_mission_free) */
+} sr_section;
+
+/* A what-if case the profile reports besides the nominal descent
+ * (`failure-cases:`): the stages in `failed` do not deploy. */
+typedef struct sr_failure_case {
+    char name[128];          /* "no canopy", "drogue only", "main fails", or the file's name: */
+    unsigned failed;         /* bit k: stage k does not deploy */
+} sr_failure_case;
+
+typedef struct sr_mission {
+    char name[128];
+    char path[512];
+    sr_atmos atmos;          /* site weather: standard, site model or sounding */
+    double ground;           /* site elevation above mean sea level, m */
+    sr_wind wind;            /* site.wind; calm when absent */
+    size_t nsections;
+    sr_section sections[SR_MISSION_MAX_SECTIONS];
+    size_t nstages;
+    sr_stage stages[SR_MISSION_MAX_STAGES];
+    int has_start;
+    double start_height;     /* first deployment: height above ground, m */
+    double start_speed;      /* m/s */
+    double start_path_angle; /* rad, below horizontal positive */
+    double start_heading;    /* rad, bearing of the horizontal motion; NaN: into the wind (north when calm) */
+    double start_east;       /* m, position of the start east of the launch / release point on the ground */
+    double start_north;      /* m, ... and north of it */
+    /* landing limits, NaN when not set */
+    double limit_speed;      /* touchdown speed, m/s */
+    double limit_energy;     /* kinetic energy per section, J */
+    double limit_time;       /* descent time, s */
+    double limit_drift;      /* drift distance, m */
+    double limit_deploy_q;   /* dynamic pressure at any deployment, Pa */
+    size_t nfailures;        /* failure-cases: */
+    sr_failure_case failures[SR_MISSION_MAX_FAILURES];
+    sr_uncertainty unc;      /* what a dispersion run varies (mission_uncertainty.c) */
+} sr_mission;
+
+/* Load and validate; relative file names inside (sounding, canopy files) are
+ * taken relative to the mission file. Release with sr_mission_free. */
+int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err);
+int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err);
+void sr_mission_free(sr_mission *m);
+
+/* Total mass of all sections, kg. */
+double sr_mission_total_mass(const sr_mission *m);
+
+/* Mass of a set of sections, kg. */
+double sr_mission_mass_of(const sr_mission *m, sr_section_set s);
+
+/* "booster + payload bay" for a set of sections. */
+void sr_mission_set_name(const sr_mission *m, sr_section_set s, char *buf, size_t len);
+
+/* The site.wind block (mission_wind.c): model, speed, direction, heights;
+ * a table from CSV or inline rows. `ground` converts table altitudes. */
+int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_error *err);
+
+/* Resolve a file name given inside a mission file relative to it. */
+void sr_mission_relative_path(char *out, size_t len, const char *mission_path, const char *file);
+
+#endif

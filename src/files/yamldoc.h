@@ -1,0 +1,65 @@
+/* yamldoc.h - strict access to a YAML document loaded with libyaml: every
+ * key checked against a schema (unknown keys get a "did you mean"), no
+ * duplicates, typed scalars, quantities that must carry units, and every
+ * error at file:line:column (1-based). */
+#ifndef SR_YAMLDOC_H
+#define SR_YAMLDOC_H
+
+#include <stddef.h>
+#include <yaml.h>
+
+#include "base/error.h"
+#include "physics/units.h"
+
+#define SR_YAML_MAX_BYTES (1u << 20)   /* 1 MiB: far above any canopy or mission file */
+#define SR_YAML_MAX_NODES 20000
+#define SR_YAML_MAX_DEPTH 16
+
+typedef struct sr_yaml {
+    yaml_document_t doc;
+    int loaded;
+    char name[512];   /* file name for messages */
+} sr_yaml;
+
+int sr_yaml_load_file(sr_yaml *y, const char *path, sr_error *err);
+int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t len, sr_error *err);
+void sr_yaml_free(sr_yaml *y);
+
+yaml_node_t *sr_yaml_root(sr_yaml *y);
+
+/* Set err to "file:line:col: message" for node n. Returns SR_EINVAL. */
+int sr_yaml_fail(const sr_yaml *y, const yaml_node_t *n, sr_error *err, const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 4, 5)))
+#endif
+    ;
+
+/* Check that n is a mapping whose keys are all in `allowed` (NULL-terminated),
+ * that none repeats and that every key in `required` is present. `what`
+ * names the block in messages ("site", "canopy family"). */
+int sr_yaml_check_map(const sr_yaml *y, yaml_node_t *n, const char *what, const char *const *allowed,
+                      const char *const *required, sr_error *err);
+
+/* Value node of key in mapping n, or NULL. */
+yaml_node_t *sr_yaml_get(const sr_yaml *y, yaml_node_t *n, const char *key);
+/* Key node of key in mapping n (for positions), or NULL. */
+yaml_node_t *sr_yaml_key_node(const sr_yaml *y, yaml_node_t *n, const char *key);
+
+/* Typed scalars. Each fails with a positioned message when n is not a scalar
+ * of the right form. */
+int sr_yaml_string(const sr_yaml *y, yaml_node_t *n, char *buf, size_t len, sr_error *err);
+int sr_yaml_number(const sr_yaml *y, yaml_node_t *n, double *v, sr_error *err);
+int sr_yaml_int(const sr_yaml *y, yaml_node_t *n, long lo, long hi, long *v, sr_error *err);
+/* A quantity with a required unit ("1.2 kg"). */
+int sr_yaml_quantity(const sr_yaml *y, yaml_node_t *n, sr_quantity q, double *si, sr_error *err);
+
+/* Sequence helpers. */
+size_t sr_yaml_seq_len(const yaml_node_t *n);
+yaml_node_t *sr_yaml_seq_at(const sr_yaml *y, yaml_node_t *n, size_t i);
+int sr_yaml_require_seq(const sr_yaml *y, yaml_node_t *n, const char *what, size_t min, size_t max, sr_error *err);
+
+/* Closest word to `word` among candidates (NULL-terminated) within a small
+ * edit distance, or NULL. */
+const char *sr_yaml_suggest(const char *word, const char *const *candidates);
+
+#endif

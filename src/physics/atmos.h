@@ -1,0 +1,104 @@
+/* atmos.h - the air a canopy falls through: the U.S. Standard Atmosphere 1976
+ * (NOAA-S/T 76-1562) from -1 km to 86 km geometric altitude, and its variants
+ * (hot/cold-day offset, a site's measured surface values, a sounding table). */
+#ifndef SR_ATMOS_H
+#define SR_ATMOS_H
+
+#include <stddef.h>
+
+#include "base/error.h"
+
+/* 1976 standard constants (U.S. Standard Atmosphere 1976, Table 2 / ICAO Doc 7488 Table A). */
+#define SR_ATMOS_R_STAR 8.31432      /* J/(mol K): the 1976 value, not CODATA */
+#define SR_ATMOS_M0 28.9644e-3       /* kg/mol, mean molar mass below 86 km */
+#define SR_ATMOS_G0 9.80665          /* m/s2 */
+#define SR_ATMOS_R0 6356766.0        /* m, effective Earth radius for geopotential */
+#define SR_ATMOS_T0 288.15           /* K */
+#define SR_ATMOS_P0 101325.0         /* Pa */
+#define SR_ATMOS_GAMMA 1.4
+#define SR_ATMOS_BETA_S 1.458e-6     /* kg/(m s K^0.5), Sutherland */
+#define SR_ATMOS_S 110.4             /* K, Sutherland */
+#define SR_ATMOS_Z_MIN (-1000.0)     /* m geometric */
+#define SR_ATMOS_Z_MAX 86000.0       /* m geometric */
+
+/* State of the air at one geometric altitude, SI. */
+typedef struct sr_air {
+    double z;   /* geometric altitude above mean sea level, m */
+    double T;   /* temperature, K (molecular-scale temperature T_M; equals kinetic T below 80 km) */
+    double p;   /* pressure, Pa */
+    double rho; /* density, kg/m3 */
+    double a;   /* speed of sound, m/s */
+    double mu;  /* dynamic viscosity, Pa s */
+    double nu;  /* kinematic viscosity, m2/s */
+    double g;   /* acceleration of gravity, m/s2 */
+} sr_air;
+
+typedef enum sr_atmos_kind {
+    SR_ATMOS_STANDARD = 0,
+    SR_ATMOS_OFFSET,   /* T + dT at the standard pressure */
+    SR_ATMOS_SITE,     /* measured surface T and/or p at an elevation, standard lapse above */
+    SR_ATMOS_SOUNDING  /* a table of altitude, temperature, pressure */
+} sr_atmos_kind;
+
+/* Caller-owned model; initialise with one of the sr_atmos_init_* calls and
+ * release with sr_atmos_free (only the sounding holds memory). */
+typedef struct sr_atmos {
+    sr_atmos_kind kind;
+    double dT;        /* offset / site temperature offset from standard, K */
+    double p_scale;   /* site: measured surface pressure over the offset-model pressure */
+    double site_z;    /* site elevation (m), 0 when not a site model */
+    double site_T;    /* measured surface temperature, K (site) */
+    double site_p;    /* surface pressure, Pa (site) */
+    /* ln p on nodes every SR_ATMOS_NODE_STEP m' of geopotential height, with
+     * its exact slope -g0 M0/(R* T), for cubic Hermite evaluation */
+#define SR_ATMOS_NODE_H0 (-1500.0)
+#define SR_ATMOS_NODE_STEP 500.0
+#define SR_ATMOS_NODES 174
+    double lnp[SR_ATMOS_NODES];
+    double slope[SR_ATMOS_NODES]; /* d ln p / dH times the node step */
+    signed char layer[SR_ATMOS_NODES];
+    /* sounding */
+    size_t n;
+    double *sz, *sT, *slnp; /* altitude (m), temperature (K), ln pressure */
+    char source[256];       /* file name of the sounding, for reports */
+} sr_atmos;
+
+void sr_atmos_init_standard(sr_atmos *m);
+int sr_atmos_init_offset(sr_atmos *m, double dT, sr_error *err);
+/* Site model: elevation z_site (m); surface temperature T_s (K) and/or
+ * surface pressure p_s (Pa), either may be NaN to mean "standard at that
+ * elevation". The temperature difference to standard is kept at all
+ * altitudes, the pressure follows the hydrostatic equation from the surface. */
+int sr_atmos_init_site(sr_atmos *m, double z_site, double T_s, double p_s, sr_error *err);
+/* Sounding from CSV: a header row naming the columns altitude, temperature,
+ * pressure, each with its unit in brackets ("altitude [m],temperature [C],
+ * pressure [hPa]"), then rows in increasing altitude. Extra columns (e.g. wind)
+ * are ignored here. Between rows: T linear, ln p linear in altitude. */
+int sr_atmos_load_sounding(sr_atmos *m, const char *path, sr_error *err);
+int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
+                           sr_error *err);
+void sr_atmos_free(sr_atmos *m);
+
+/* The air at geometric altitude z (m above mean sea level). Outside the
+ * model's range: SR_EDOMAIN with a message naming the range. */
+int sr_atmos_at(const sr_atmos *m, double z, sr_air *out, sr_error *err);
+
+/* Density only: the hot path of descent integrals. Same range rules. */
+int sr_atmos_density(const sr_atmos *m, double z, double *rho, sr_error *err);
+
+/* Valid altitude range of the model, m. */
+void sr_atmos_range(const sr_atmos *m, double *zmin, double *zmax);
+
+/* Pieces of the standard, exposed for tests and other modules. */
+double sr_atmos_geopotential(double z);           /* H from geometric z, m' */
+double sr_atmos_gravity(double z);                /* g(z), m/s2 */
+double sr_atmos_viscosity(double T);              /* Sutherland, Pa s */
+double sr_atmos_sound_speed(double T);            /* m/s */
+/* Standard temperature and pressure at geometric z with a temperature offset
+ * dT applied in the hydrostatic integral (dT = 0: the 1976 standard). */
+int sr_atmos_standard_tp(double z, double dT, double *T, double *p);
+
+/* One-line description ("U.S. Standard Atmosphere 1976 +15.0 K"). */
+void sr_atmos_describe(const sr_atmos *m, char *buf, size_t len);
+
+#endif

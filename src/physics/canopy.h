@@ -1,0 +1,118 @@
+/* canopy.h - canopy families (handbook data with sources) and specific
+ * canopies: reference areas, diameter conversions, drag area, clusters.
+ * Every drag coefficient here carries its reference area. */
+#ifndef SR_CANOPY_H
+#define SR_CANOPY_H
+
+#include <stddef.h>
+
+#include "base/error.h"
+
+/* Reference area a drag coefficient is based on. */
+typedef enum sr_ref {
+    SR_REF_NOMINAL = 0,   /* S0 = total canopy surface incl. vent and slots; D0 = sqrt(4 S0/pi) */
+    SR_REF_PROJECTED,     /* Sp = pi Dp^2/4, the inflated canopy seen along the flow */
+    SR_REF_CONSTRUCTED    /* Sc = pi Dc^2/4, from the flat/constructed diameter */
+} sr_ref;
+
+const char *sr_ref_name(sr_ref ref);            /* "nominal", "projected", "constructed" */
+int sr_ref_parse(const char *s, sr_ref *ref);   /* SR_OK or SR_EINVAL */
+
+/* A range low / typical / high. */
+typedef struct sr_band {
+    double lo, typ, hi;
+} sr_band;
+
+/* A drag coefficient band with its reference area. */
+typedef struct sr_cd {
+    sr_band v;
+    sr_ref ref;
+} sr_cd;
+
+#define SR_SOURCE_MAX 320
+#define SR_CANOPY_CLASS_SOLID "solid"
+#define SR_CANOPY_CLASS_SLOTTED "slotted"
+
+/* One family from canopies/<id>.yaml. Angles in radians. */
+typedef struct sr_family {
+    char id[48];
+    char name[96];
+    char cls[16];                   /* "solid" or "slotted" (drag-area growth during filling) */
+    sr_cd cd0;                      /* on nominal area */
+    char cd0_source[SR_SOURCE_MAX];
+    sr_band dp_d0;                  /* projected / nominal diameter */
+    char dp_source[SR_SOURCE_MAX];
+    sr_band dc_d0;                  /* constructed / nominal diameter */
+    char dc_source[SR_SOURCE_MAX];
+    sr_band cx;                     /* opening-load factor, infinite mass */
+    char cx_source[SR_SOURCE_MAX];
+    double fill_n;                  /* filling constant, t_f = n D0 / v */
+    char fill_source[SR_SOURCE_MAX];
+    sr_band oscillation;            /* rad, typical range in steady descent */
+    char osc_source[SR_SOURCE_MAX];
+    double mach_max;                /* upper Mach number of the family's usual application */
+    char mach_source[SR_SOURCE_MAX];
+    double areal_mass;              /* kg/m2 of nominal area, NaN when not given */
+    char areal_source[SR_SOURCE_MAX];
+    char notes[512];
+    char file[256];                 /* where it was loaded from */
+} sr_family;
+
+/* How a canopy's size was given. */
+typedef enum sr_size_kind {
+    SR_SIZE_NOMINAL_DIAMETER = 0,
+    SR_SIZE_PROJECTED_DIAMETER,
+    SR_SIZE_FLAT_DIAMETER,          /* the constructed (flat) diameter Dc */
+    SR_SIZE_NOMINAL_AREA
+} sr_size_kind;
+
+const char *sr_size_kind_name(sr_size_kind k); /* "nominal diameter", ... */
+
+/* Cluster drag factor: drag per canopy in a cluster of n over a single
+ * canopy's. From memory (Knacke 1991 discusses cluster drag loss; the figure
+ * was not read): 1 canopy 1.00, 2: 0.97, 3: 0.93, 4 or more: 0.90. */
+double sr_canopy_cluster_factor(int n);
+
+/* A specific canopy (or a cluster of identical ones). */
+typedef struct sr_canopy {
+    sr_family fam;
+    sr_size_kind size_kind;
+    double size_value;      /* as given, SI (m or m2) */
+    sr_band s0;             /* nominal area of one canopy, m2 (a band when converted through a ratio) */
+    sr_band d0;             /* nominal diameter, m */
+    sr_cd cd;               /* drag coefficient used, with its reference */
+    sr_band cds;            /* drag area of ONE canopy, m2 (reference-free), low / typical / high */
+    int measured;           /* cd from a measurement rather than the family range */
+    char cd_source[SR_SOURCE_MAX];
+    int count;              /* canopies in the cluster */
+    double cluster_factor;
+    double areal_mass;      /* kg/m2 of nominal area, NaN if unknown */
+} sr_canopy;
+
+/* Build a canopy of family fam from a size. The drag band comes from the
+ * family's CD0 range; a diameter given on another reference is converted
+ * through the family's Dp/D0 or Dc/D0 range, which widens the band. */
+int sr_canopy_from_size(sr_canopy *c, const sr_family *fam, sr_size_kind kind, double value, sr_error *err);
+
+/* Replace the family drag range by a measured coefficient on a stated
+ * reference (e.g. 1.45 on projected area). Where the reference matches how
+ * the size was given, the drag area is exact; otherwise it is converted
+ * through the family ratios and stays a band. */
+int sr_canopy_set_measured_cd(sr_canopy *c, double cd, sr_ref ref, const char *source, sr_error *err);
+
+/* Make it a cluster of n (1..16) canopies with the given factor (NaN: the
+ * default from sr_canopy_cluster_factor). */
+int sr_canopy_set_cluster(sr_canopy *c, int n, double factor, sr_error *err);
+
+/* Total drag area of the cluster (count x factor x one canopy), m2. */
+sr_band sr_canopy_total_cds(const sr_canopy *c);
+
+/* Conversions of one nominal area through the family ratios. */
+double sr_canopy_d0_from_s0(double s0);
+double sr_canopy_s0_from_d0(double d0);
+
+/* Equivalent drag coefficient of the canopy on another reference area,
+ * using the typical ratios: CD_ref = CD0 (D0/D_ref)^2. */
+double sr_canopy_cd_on(const sr_family *fam, double cd0, sr_ref ref);
+
+#endif

@@ -1,0 +1,145 @@
+/* opening.h - opening loads of a canopy (or cluster) at deployment: filling
+ * time, the opening-load-factor method, the Pflanz method and an inflation ODE.
+ * Pure numerics on SI inputs; no files, no options, no printing. */
+#ifndef SR_OPENING_H
+#define SR_OPENING_H
+
+#include <stddef.h>
+
+#include "base/error.h"
+
+/* Growth-law exponent of the drag area by canopy class (K91 Pflanz curves,
+ * exponents from memory: handbook reference file section 4.2). */
+typedef enum sr_opening_class {
+    SR_OPENING_SOLID = 0, /* solid cloth: slow start, fast finish, n = 2 */
+    SR_OPENING_SLOTTED,   /* ribbon, ringslot, ringsail: near-linear, n = 1 */
+    SR_OPENING_REEFED     /* a reefed stage: fast start, n = 1/2 (reefing itself is not modelled) */
+} sr_opening_class;
+
+/* Which side of the infinite/finite-mass divide a case is closer to. */
+typedef enum sr_opening_regime {
+    SR_OPENING_INFINITE_MASS = 0, /* peak at full inflation: the payload barely slows while filling */
+    SR_OPENING_FINITE_MASS        /* peak before full inflation: the payload slows while filling */
+} sr_opening_regime;
+
+/* How the inflation ODE's peak came about. */
+typedef enum sr_opening_peak_kind {
+    SR_PEAK_INTERIOR = 0, /* a smooth maximum during filling (dF/dt changes sign) */
+    SR_PEAK_FULL,         /* at the end of filling (the growth law's kink) */
+    SR_PEAK_STEADY        /* still rising at full inflation: deployment below terminal speed, the
+                           * force only approaches the weight; no opening shock above steady drag */
+} sr_opening_peak_kind;
+
+/* Mach number at deployment from which the models here stop: the filling-time
+ * law and the incompressible growth model are subsonic models (common practice). */
+#define SR_OPENING_MACH_MAX 1.0
+
+/* Everything the opening-load methods need, SI. sr_opening_input_init sets
+ * the required fields to NaN (so a forgotten one is reported) and the
+ * optional ones to their defaults. */
+typedef struct sr_opening_input {
+    /* required */
+    double cds0;     /* drag area CD0*S0 of ONE fully open canopy, on nominal area S0, m2
+                      * (apply any cluster drag loss before passing it) */
+    double d0;       /* nominal diameter D0 of one canopy, m */
+    double mass;     /* mass the canopies decelerate, kg */
+    double v1;       /* speed at line stretch (start of filling), m/s */
+    double rho;      /* air density at deployment, kg/m3 (held constant over the opening) */
+    double a;        /* speed of sound at deployment, m/s */
+    double n_fill;   /* the family's filling constant: t_f = n_fill*D0/v1 (0.5 .. 50) */
+    double cx;       /* the family's opening-load factor at infinite mass */
+    /* optional */
+    int count;       /* canopies in the cluster, >= 1 (default 1) */
+    double path_angle; /* flight-path angle at line stretch, rad, positive BELOW the horizontal
+                        * as in mission files (pi/2 = straight down, the default; 0 = level,
+                        * as at apogee; negative = climbing) */
+    double g;        /* gravity for the ODE, m/s2 (default 9.80665; 0 switches it off) */
+    double exponent; /* Pflanz growth exponent n; default 2 (solid cloth) */
+    double design_factor;     /* 1 .. 10 to get required rated strengths; 0 = none (default) */
+    double cluster_allowance; /* per-canopy load over the equal share, 1 .. 10; 0 = derive the bound
+                               * "lead canopy takes the whole mass alone" (default) */
+    double mach_envelope;     /* the family's application limit; above it only a warning flag; 0 = none */
+} sr_opening_input;
+
+/* One method's peak. Forces are totals on the payload (all canopies). */
+typedef struct sr_opening_peak {
+    double force;   /* peak opening force, N (includes CX, except a steady peak: the weight) */
+    double x1;      /* force-reduction factor: force / (CX * CD0S0_total * q1) */
+    double time;    /* time of peak after line stretch, s (NaN when the method has none) */
+    double speed;   /* speed at the peak, m/s (NaN when the method has none) */
+    double decel_g; /* force / (mass * g0): the payload's peak deceleration in standard g */
+    int kind;       /* sr_opening_peak_kind for the ODE and Pflanz; -1 for the opening-load-factor
+                     * method, which has no time history */
+} sr_opening_peak;
+
+typedef struct sr_opening_result {
+    /* deployment state */
+    double q1;          /* dynamic pressure at line stretch, Pa */
+    double mach;        /* Mach number at line stretch */
+    double t_fill;      /* filling time, s */
+    double cds_total;   /* count * cds0, m2 */
+    double cd0;         /* cds0 / S0, on nominal area */
+    double drag_steady; /* cds_total * q1: drag of the full canopies at v1, N */
+    double f_infinite;  /* CX * cds_total * q1: infinite-mass peak, N */
+    /* mass ratios */
+    double mass_ratio;  /* R_m = rho*(CD0S0)^1.5 / (m/count), per canopy, dimensionless */
+    double ballistic;   /* Pflanz A = 2 m / (CD0S0_total rho v1 t_f) */
+    double exponent;    /* growth exponent used */
+    int regime;         /* sr_opening_regime */
+    /* the three estimates */
+    sr_opening_peak olf;    /* opening-load-factor method (X1 from R_m) */
+    sr_opening_peak pflanz; /* Pflanz closed form, gravity neglected */
+    sr_opening_peak ode;    /* inflation ODE with gravity and path angle */
+    double f_low, f_high;   /* lowest and highest of the three, N */
+    double spread;          /* (f_high - f_low) / f_low */
+    double decel_g_max;     /* highest of the three decelerations, g */
+    /* clusters (count > 1; for a single canopy both equal f_high) */
+    double f_canopy_equal;  /* f_high / count: every canopy inflating together, N */
+    double f_canopy_design; /* per-canopy load with the unequal-inflation allowance, N */
+    double allowance;       /* f_canopy_design / f_canopy_equal */
+    int allowance_derived;  /* 1 when the allowance is the lead-canopy bound, 0 when given */
+    /* design factor (0 when none was given) */
+    double design_factor;
+    double strength_total;  /* design_factor * f_high: attachment of the whole system, N */
+    double strength_canopy; /* design_factor * f_canopy_design: each canopy and its riser, N */
+    double v_terminal;      /* steady descent speed of the full canopies at rho, m/s (inf when g = 0) */
+    /* warnings */
+    int above_envelope;     /* Mach above the family's application envelope */
+    int slow_deployment;    /* v1 below v_terminal: the payload speeds up while the canopy fills, the
+                             * time law t_f = n D0/v1 stretches the filling and the weight governs */
+} sr_opening_result;
+
+void sr_opening_input_init(sr_opening_input *in);
+
+/* Growth exponent of a canopy class (from memory, see sr_opening_class). */
+double sr_opening_class_exponent(sr_opening_class c);
+
+/* Filling time t_f = n_fill * D0 / v1 (K91, from memory: handbook reference
+ * file section 4.3). Errors for a non-positive constant, diameter or speed. */
+int sr_opening_fill_time(double n_fill, double d0, double v1, double *t_f, sr_error *err);
+
+/* Ballistic mass ratio R_m = rho * cds^1.5 / m (one canopy's drag area and
+ * the mass it carries). */
+double sr_opening_mass_ratio(double rho, double cds, double m);
+
+/* Pflanz closed form for drag area growing as (t/t_f)^n with gravity
+ * neglected: X1 (peak force over cds*q1) and the peak's time over t_f, from
+ * the ballistic parameter A = 2m/(cds rho v1 t_f). Speed ratio at the peak in
+ * *v_ratio (any out-pointer may be NULL). */
+int sr_opening_pflanz_x1(double A, double n, double *x1, double *tau_peak, double *v_ratio, sr_error *err);
+
+/* X1 of the opening-load-factor method from the mass ratio R_m: the upper
+ * envelope of the growth-model curves for the unreefed classes (n = 1 and 2),
+ * mapped to A through R_m, CD0S0, D0 and n_fill (see opening.c). */
+int sr_opening_olf_x1(double mass_ratio, double cds, double d0, double n_fill, double *x1, sr_error *err);
+
+/* All three estimates, the cluster split and the design strengths. */
+int sr_opening_solve(const sr_opening_input *in, sr_opening_result *out, sr_error *err);
+
+/* The inflation ODE's drag force of the growth model, all canopies, WITHOUT
+ * CX (the over-inflation factor belongs to the peak, not to the steady drag
+ * that follows), at n times evenly spread over [0, t_end] (t_end <= 0: three
+ * filling times), for plotting only. t and force hold n values each. */
+int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double *t, double *force, sr_error *err);
+
+#endif

@@ -1,0 +1,332 @@
+/* wind.c - wind models (constant, power law, log law, table) evaluated at a
+ * height above ground, as east/north components of the air's motion. */
+#include "physics/wind.h"
+
+#include <gsl/gsl_interp.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "files/csvtable.h"
+
+#define PI 3.14159265358979323846
+
+void sr_wind_components(double speed, double from, double *east, double *north)
+{
+    /* blowing FROM bearing b, the air moves toward b + 180 deg */
+    *east = -speed * sin(from);
+    *north = -speed * cos(from);
+}
+
+void sr_wind_polar(double east, double north, double *speed, double *from)
+{
+    *speed = hypot(east, north);
+    double b = atan2(-east, -north);
+    if (b < 0.0)
+        b += 2.0 * PI;
+    if (*speed == 0.0)
+        b = 0.0;
+    *from = b;
+}
+
+void sr_wind_init_calm(sr_wind *w)
+{
+    memset(w, 0, sizeof *w);
+    w->kind = SR_WIND_CALM;
+    w->h_ref = SR_WIND_REF_HEIGHT;
+    w->alpha = SR_WIND_ALPHA_OPEN;
+}
+
+static int check_speed_dir(double speed, double from, sr_error *err)
+{
+    if (!(speed >= 0.0 && speed <= SR_WIND_MAX_SPEED))
+        return sr_error_set(err, SR_EINVAL, "wind speed %g m/s is outside 0 .. %g m/s", speed, SR_WIND_MAX_SPEED);
+    if (!(from >= -2.0 * PI && from <= 4.0 * PI))
+        return sr_error_set(err, SR_EINVAL, "wind direction %g deg is outside -360 .. 720 deg", from * 180.0 / PI);
+    return SR_OK;
+}
+
+static double wrap_bearing(double b)
+{
+    b = fmod(b, 2.0 * PI);
+    return b < 0.0 ? b + 2.0 * PI : b;
+}
+
+int sr_wind_init_constant(sr_wind *w, double speed, double from, sr_error *err)
+{
+    sr_wind_init_calm(w);
+    int rc = check_speed_dir(speed, from, err);
+    if (rc)
+        return rc;
+    w->kind = SR_WIND_CONSTANT;
+    w->speed = speed;
+    w->from = wrap_bearing(from);
+    sr_wind_components(1.0, w->from, &w->ue, &w->un);
+    return SR_OK;
+}
+
+int sr_wind_init_power(sr_wind *w, double speed_ref, double from, double h_ref, double alpha, sr_error *err)
+{
+    sr_wind_init_calm(w);
+    int rc = check_speed_dir(speed_ref, from, err);
+    if (rc)
+        return rc;
+    if (!(h_ref > 0.0 && h_ref <= 1000.0))
+        return sr_error_set(err, SR_EINVAL, "wind reference height %g m is outside 0 .. 1000 m", h_ref);
+    /* 0.05 .. 0.8 spans open water to very stable air (trade-facts.md section 6) */
+    if (!(alpha >= 0.05 && alpha <= 0.8))
+        return sr_error_set(err, SR_EINVAL, "power-law exponent %g is outside 0.05 .. 0.8", alpha);
+    w->kind = SR_WIND_POWER;
+    w->speed = speed_ref;
+    w->from = wrap_bearing(from);
+    sr_wind_components(1.0, w->from, &w->ue, &w->un);
+    w->h_ref = h_ref;
+    w->alpha = alpha;
+    return SR_OK;
+}
+
+int sr_wind_init_log(sr_wind *w, double speed_ref, double from, double h_ref, double z0, double d, sr_error *err)
+{
+    sr_wind_init_calm(w);
+    int rc = check_speed_dir(speed_ref, from, err);
+    if (rc)
+        return rc;
+    /* typical z0 runs from 0.0002 m (open water) to 1 m (forest), trade-facts.md section 6 */
+    if (!(z0 >= 1e-5 && z0 <= 5.0))
+        return sr_error_set(err, SR_EINVAL, "roughness length %g m is outside 0.00001 .. 5 m", z0);
+    if (!(d >= 0.0 && d <= 100.0))
+        return sr_error_set(err, SR_EINVAL, "displacement height %g m is outside 0 .. 100 m", d);
+    if (!(h_ref > d + z0 && h_ref <= 1000.0))
+        return sr_error_set(err, SR_EINVAL,
+                            "wind reference height %g m must lie above displacement + roughness (%g m) and "
+                            "at most 1000 m",
+                            h_ref, d + z0);
+    w->kind = SR_WIND_LOG;
+    w->speed = speed_ref;
+    w->from = wrap_bearing(from);
+    sr_wind_components(1.0, w->from, &w->ue, &w->un);
+    w->h_ref = h_ref;
+    w->z0 = z0;
+    w->d = d;
+    return SR_OK;
+}
+
+void sr_wind_free(sr_wind *w)
+{
+    if (!w)
+        return;
+    free(w->h);
+    free(w->east);
+    free(w->north);
+    w->h = w->east = w->north = NULL;
+    w->n = 0;
+}
+
+/* Row checks shared by the table readers; *bad receives the failing row. */
+static int table_rows(sr_wind *w, const double *h, const double *speed, const double *from, size_t n, size_t *bad,
+                      sr_error *err)
+{
+    sr_wind_init_calm(w);
+    *bad = (size_t)-1;
+    if (n < 1)
+        return sr_error_set(err, SR_EINVAL, "a wind table needs at least one row");
+    if (n > SR_WIND_MAX_ROWS)
+        return sr_error_set(err, SR_EINVAL, "a wind table has at most %d rows", SR_WIND_MAX_ROWS);
+    for (size_t i = 0; i < n; i++) {
+        *bad = i;
+        if (!(h[i] >= -100.0 && h[i] <= 86000.0))
+            return sr_error_set(err, SR_EINVAL, "height %g m is outside -100 .. 86000 m above ground", h[i]);
+        if (i > 0 && !(h[i] > h[i - 1]))
+            return sr_error_set(err, SR_EINVAL, "height %g m does not increase from the row before (%g m)", h[i],
+                                h[i - 1]);
+        int rc = check_speed_dir(speed[i], from[i], err);
+        if (rc)
+            return rc;
+    }
+    *bad = (size_t)-1;
+    w->h = malloc(n * sizeof *w->h);
+    w->east = malloc(n * sizeof *w->east);
+    w->north = malloc(n * sizeof *w->north);
+    if (!w->h || !w->east || !w->north) {
+        sr_wind_free(w);
+        return sr_error_set(err, SR_ENOMEM, "out of memory for the wind table");
+    }
+    for (size_t i = 0; i < n; i++) {
+        w->h[i] = h[i];
+        sr_wind_components(speed[i], from[i], &w->east[i], &w->north[i]);
+    }
+    w->n = n;
+    w->kind = SR_WIND_TABLE;
+    return SR_OK;
+}
+
+int sr_wind_init_table(sr_wind *w, const double *h, const double *speed, const double *from, size_t n,
+                       sr_error *err)
+{
+    size_t bad;
+    int rc = table_rows(w, h, speed, from, n, &bad, err);
+    if (rc && bad != (size_t)-1)
+        sr_error_prefix(err, "wind row %zu: ", bad + 1);
+    return rc;
+}
+
+/* Shared by the table and sounding readers: heights are alt - ground. */
+static int table_from_csv(sr_wind *w, const char *path, const sr_csvtable *t, const double *alt, double ground,
+                          size_t cs, size_t cf, sr_error *err)
+{
+    double *h = malloc((t->nrows ? t->nrows : 1) * sizeof *h);
+    if (!h)
+        return sr_error_set(err, SR_ENOMEM, "out of memory for the wind table");
+    for (size_t i = 0; i < t->nrows; i++)
+        h[i] = alt[i] - ground;
+    size_t bad;
+    int rc = table_rows(w, h, t->col[cs], t->col[cf], t->nrows, &bad, err);
+    free(h);
+    if (rc) {
+        if (bad != (size_t)-1)
+            sr_error_prefix(err, "%s:%zu:1: ", path, t->row_line[bad]);
+        else
+            sr_error_prefix(err, "%s: ", path);
+        return rc;
+    }
+    snprintf(w->source, sizeof w->source, "%s", path);
+    return SR_OK;
+}
+
+int sr_wind_load_table(sr_wind *w, const char *path, double ground, sr_error *err)
+{
+    static const sr_csv_column COLS[] = {
+        {"height", SR_Q_LENGTH, 0},
+        {"altitude", SR_Q_LENGTH, 0},
+        {"speed", SR_Q_SPEED, 1},
+        {"from", SR_Q_ANGLE, 1},
+    };
+    sr_wind_init_calm(w);
+    sr_csvtable t;
+    int rc = sr_csvtable_load(&t, path, COLS, sizeof COLS / sizeof COLS[0], err);
+    if (rc)
+        return rc;
+    if ((t.col[0] != NULL) == (t.col[1] != NULL)) {
+        sr_csvtable_free(&t);
+        return sr_error_set(err, SR_EINVAL,
+                            "%s:1:1: a wind table needs exactly one of the columns 'height' (above ground) or "
+                            "'altitude' (above sea level)",
+                            path);
+    }
+    rc = table_from_csv(w, path, &t, t.col[0] ? t.col[0] : t.col[1], t.col[0] ? 0.0 : ground, 2, 3, err);
+    sr_csvtable_free(&t);
+    return rc;
+}
+
+int sr_wind_load_sounding(sr_wind *w, const char *path, double ground, sr_error *err)
+{
+    /* the sounding's own columns, as the atmosphere reads them */
+    static const sr_csv_column COLS[] = {
+        {"altitude", SR_Q_LENGTH, 1},  {"temperature", SR_Q_TEMP, 1}, {"pressure", SR_Q_PRESSURE, 1},
+        {"wind-speed", SR_Q_SPEED, 0}, {"wind-from", SR_Q_ANGLE, 0},
+    };
+    sr_wind_init_calm(w);
+    sr_csvtable t;
+    int rc = sr_csvtable_load(&t, path, COLS, sizeof COLS / sizeof COLS[0], err);
+    if (rc)
+        return rc;
+    if (!t.col[3] || !t.col[4]) {
+        sr_csvtable_free(&t);
+        return sr_error_set(err, SR_EINVAL, "%s:1:1: the sounding has no 'wind-speed' and 'wind-from' columns", path);
+    }
+    rc = table_from_csv(w, path, &t, t.col[0], ground, 3, 4, err);
+    sr_csvtable_free(&t);
+    return rc;
+}
+
+void sr_wind_at(const sr_wind *w, double h, double *east, double *north)
+{
+    double s;
+    switch (w->kind) {
+    case SR_WIND_CONSTANT:
+        *east = w->speed * w->ue;
+        *north = w->speed * w->un;
+        return;
+    case SR_WIND_POWER:
+        s = h > 0.0 ? w->speed * pow(h / w->h_ref, w->alpha) : 0.0;
+        *east = s * w->ue;
+        *north = s * w->un;
+        return;
+    case SR_WIND_LOG:
+        s = h - w->d > w->z0 ? w->speed * log((h - w->d) / w->z0) / log((w->h_ref - w->d) / w->z0) : 0.0;
+        *east = s * w->ue;
+        *north = s * w->un;
+        return;
+    case SR_WIND_TABLE: {
+        if (h <= w->h[0] || w->n == 1) {
+            *east = w->east[0];
+            *north = w->north[0];
+            return;
+        }
+        if (h >= w->h[w->n - 1]) {
+            *east = w->east[w->n - 1];
+            *north = w->north[w->n - 1];
+            return;
+        }
+        /* gsl_interp_bsearch is a pure search: no accelerator, so no shared state */
+        size_t i = gsl_interp_bsearch(w->h, h, 0, w->n - 1);
+        double f = (h - w->h[i]) / (w->h[i + 1] - w->h[i]);
+        *east = w->east[i] + f * (w->east[i + 1] - w->east[i]);
+        *north = w->north[i] + f * (w->north[i + 1] - w->north[i]);
+        return;
+    }
+    case SR_WIND_CALM:
+    default:
+        *east = *north = 0.0;
+        return;
+    }
+}
+
+double sr_wind_top(const sr_wind *w)
+{
+    return w->kind == SR_WIND_TABLE ? w->h[w->n - 1] : INFINITY;
+}
+
+const double *sr_wind_knots(const sr_wind *w, size_t *n)
+{
+    if (w->kind == SR_WIND_TABLE) {
+        *n = w->n;
+        return w->h;
+    }
+    *n = 0;
+    return NULL;
+}
+
+void sr_wind_describe(const sr_wind *w, char *buf, size_t len)
+{
+    double deg = w->from * 180.0 / PI;
+    switch (w->kind) {
+    case SR_WIND_CALM:
+        snprintf(buf, len, "calm");
+        break;
+    case SR_WIND_CONSTANT:
+        snprintf(buf, len, "constant: %.1f m/s from %.0f deg at every height", w->speed, deg);
+        break;
+    case SR_WIND_POWER:
+        snprintf(buf, len, "power law: %.1f m/s from %.0f deg at %.0f m above ground, exponent %.3f", w->speed, deg,
+                 w->h_ref, w->alpha);
+        break;
+    case SR_WIND_LOG:
+        snprintf(buf, len,
+                 "log law: %.1f m/s from %.0f deg at %.0f m above ground, roughness length %.3g m, displacement "
+                 "%.3g m",
+                 w->speed, deg, w->h_ref, w->z0, w->d);
+        break;
+    case SR_WIND_TABLE: {
+        double s0, f0, s1, f1;
+        sr_wind_polar(w->east[0], w->north[0], &s0, &f0);
+        sr_wind_polar(w->east[w->n - 1], w->north[w->n - 1], &s1, &f1);
+        snprintf(buf, len, "table%s%s: %zu rows, %.1f m/s from %.0f deg at %.0f m to %.1f m/s from %.0f deg at %.0f m "
+                 "above ground",
+                 w->source[0] ? " " : "", w->source, w->n, s0, f0 * 180 / PI, w->h[0], s1, f1 * 180 / PI,
+                 w->h[w->n - 1]);
+        break;
+    }
+    }
+}

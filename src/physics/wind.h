@@ -1,0 +1,87 @@
+/* wind.h - the wind a descending payload drifts with: calm, constant, power
+ * law, log law, or a table of height, speed and direction interpolated by
+ * vector components. Directions follow the meteorological convention: the
+ * bearing the wind blows FROM, clockwise from north. Heights are above ground. */
+#ifndef SR_WIND_H
+#define SR_WIND_H
+
+#include <stddef.h>
+
+#include "base/error.h"
+
+typedef enum sr_wind_kind {
+    SR_WIND_CALM = 0,
+    SR_WIND_CONSTANT,  /* the same speed and direction at every height */
+    SR_WIND_POWER,     /* u(h) = u_ref (h / h_ref)^alpha, one direction */
+    SR_WIND_LOG,       /* u(h) = u_ref ln((h - d)/z0) / ln((h_ref - d)/z0), one direction */
+    SR_WIND_TABLE      /* rows of height, speed, direction; linear in east/north components */
+} sr_wind_kind;
+
+/* Power-law exponent for neutral flow over open, flat ground: 1/7, the
+ * "seventh-root profile" (trade-facts.md section 6, verified; common practice). */
+#define SR_WIND_ALPHA_OPEN (1.0 / 7.0)
+/* Height of the reference wind when none is given: 10 m, the usual
+ * anemometer height of surface weather stations (common practice). */
+#define SR_WIND_REF_HEIGHT 10.0
+#define SR_WIND_MAX_ROWS 4096
+#define SR_WIND_MAX_SPEED 100.0   /* m/s: beyond any wind a recovery is flown in; catches unit slips */
+
+/* Caller-owned; the table kind holds memory (release with sr_wind_free). The
+ * struct is never written by evaluation, so one model serves many threads. */
+typedef struct sr_wind {
+    sr_wind_kind kind;
+    double speed;     /* constant: the speed; power/log: the speed at h_ref, m/s */
+    double from;      /* direction it blows from, rad clockwise from north */
+    double ue, un;    /* unit vector of the air's motion for `from` (set by the init calls) */
+    double h_ref;     /* power/log: reference height above ground, m */
+    double alpha;     /* power law exponent */
+    double z0;        /* log law: roughness length, m */
+    double d;         /* log law: displacement height, m */
+    /* table */
+    size_t n;
+    double *h;        /* heights above ground, m, strictly increasing */
+    double *east;     /* component toward east of the air's motion, m/s */
+    double *north;    /* component toward north of the air's motion, m/s */
+    char source[256]; /* file the table came from, or "" */
+} sr_wind;
+
+void sr_wind_init_calm(sr_wind *w);
+int sr_wind_init_constant(sr_wind *w, double speed, double from, sr_error *err);
+int sr_wind_init_power(sr_wind *w, double speed_ref, double from, double h_ref, double alpha, sr_error *err);
+int sr_wind_init_log(sr_wind *w, double speed_ref, double from, double h_ref, double z0, double d,
+                     sr_error *err);
+/* Table from rows of height above ground (m, strictly increasing), speed
+ * (m/s) and the direction it blows from (rad). Copies the data. */
+int sr_wind_init_table(sr_wind *w, const double *h, const double *speed, const double *from, size_t n,
+                       sr_error *err);
+/* Table from CSV: columns `height` (above ground) or `altitude` (above sea
+ * level, converted with `ground`, the site elevation), `speed` and `from`,
+ * each with its unit in the header ("height [m],speed [m/s],from [deg]").
+ * Errors carry file:line:column. */
+int sr_wind_load_table(sr_wind *w, const char *path, double ground, sr_error *err);
+/* Table from the optional wind-speed and wind-from columns of a sounding CSV
+ * (altitude above sea level); an error when the sounding has no wind. */
+int sr_wind_load_sounding(sr_wind *w, const char *path, double ground, sr_error *err);
+void sr_wind_free(sr_wind *w);
+
+/* Velocity of the air at height h above ground as east and north
+ * components (the direction it moves TOWARD). Below the lowest table row
+ * the lowest row holds, above the highest the highest (callers check the
+ * range with sr_wind_top); power and log laws are calm at and below ground
+ * (log law: below d + z0). Pure and thread-safe. */
+void sr_wind_at(const sr_wind *w, double h, double *east, double *north);
+
+/* Highest height the model is given for (INFINITY for the laws). */
+double sr_wind_top(const sr_wind *w);
+
+/* Table row heights where the profile has kinks (NULL when none). */
+const double *sr_wind_knots(const sr_wind *w, size_t *n);
+
+/* Conversions between speed + from-direction and east/north components. */
+void sr_wind_components(double speed, double from, double *east, double *north);
+void sr_wind_polar(double east, double north, double *speed, double *from);
+
+/* One-line description ("power law: 5.0 m/s from 250 deg at 10 m, exponent 0.143"). */
+void sr_wind_describe(const sr_wind *w, char *buf, size_t len);
+
+#endif
