@@ -10,8 +10,16 @@
 
 #include "cli/cli.h"
 
-void sr_test_check(const char *file, int line, const char *quantity, const char *source, double expected,
-                   double got, double tol, int absolute)
+const char *sr_test_class_name(sr_check_class c)
+{
+    static const char *const NAMES[] = {"unclassified", "published", "reference library", "independent method",
+                                        "our derivation", "consistency", "common practice", "from memory",
+                                        "format"};
+    return (unsigned)c < sizeof NAMES / sizeof NAMES[0] ? NAMES[c] : "unclassified";
+}
+
+void sr_test_check(const char *file, int line, sr_check_class cls, const char *quantity, const char *source,
+                   double expected, double got, double tol, int absolute)
 {
     double dev = fabs(got - expected);
     double lim = absolute ? tol : tol * fabs(expected);
@@ -21,8 +29,8 @@ void sr_test_check(const char *file, int line, const char *quantity, const char 
         FILE *f = fopen(log, "a");
         if (f) {
             const char *base = strrchr(file, '/');
-            fprintf(f, "%s\t%s\t%s\t%.10g\t%.10g\t%s%.3g\t%s\n", base ? base + 1 : file, quantity, source,
-                    expected, got, absolute ? "abs " : "rel ", tol, ok ? "pass" : "FAIL");
+            fprintf(f, "%s\t%s\t%s\t%.10g\t%.10g\t%s%.3g\t%s\t%s\n", base ? base + 1 : file, quantity, source,
+                    expected, got, absolute ? "abs " : "rel ", tol, ok ? "pass" : "FAIL", sr_test_class_name(cls));
             fclose(f);
         }
     }

@@ -9,16 +9,39 @@
 #include <stdint.h>
 #include <cmocka.h>
 
-/* Assert |got - expected| <= rtol * |expected| and log the check with its
- * source (a publication, "from memory", or "common practice"). */
-#define CHECK_REL(quantity, source, expected, got, rtol) \
-    sr_test_check(__FILE__, __LINE__, (quantity), (source), (expected), (got), (rtol), 0)
-/* Same with an absolute tolerance. */
-#define CHECK_ABS(quantity, source, expected, got, atol) \
-    sr_test_check(__FILE__, __LINE__, (quantity), (source), (expected), (got), (atol), 1)
+/* What a validation row is checked against (docs/validation.md counts them
+ * by class). Only the first three are outside the project. */
+typedef enum sr_check_class {
+    SR_CHECK_UNCLASSIFIED = 0, /* not yet classed (the generator refuses these once all are classed) */
+    SR_CHECK_PUBLISHED,   /* a value read in a published table, standard or dataset */
+    SR_CHECK_LIBRARY,     /* a general-purpose reference library (udunits2, python3-fluids, scipy, ...) */
+    SR_CHECK_METHOD,      /* an independent implementation of a published method, written in the test */
+    SR_CHECK_DERIVED,     /* a derivation of this project (docs/method.md), computed again in the test */
+    SR_CHECK_CONSISTENCY, /* two of the project's own computations agree */
+    SR_CHECK_TRADE,       /* a fact of the trade ("common practice") */
+    SR_CHECK_MEMORY,      /* a value recalled, not read ("from memory") */
+    SR_CHECK_FORMAT       /* a file-format or structure check */
+} sr_check_class;
 
-void sr_test_check(const char *file, int line, const char *quantity, const char *source, double expected,
-                   double got, double tol, int absolute);
+/* The short name of a class as docs/validation.md prints it. */
+const char *sr_test_class_name(sr_check_class c);
+
+/* Assert |got - expected| <= rtol * |expected| and log the check with its
+ * class and its source (a publication, a library, "from memory", "common
+ * practice", or the section of docs/method.md for a derivation). */
+#define CHECK_REL_CLASS(cls, quantity, source, expected, got, rtol) \
+    sr_test_check(__FILE__, __LINE__, (cls), (quantity), (source), (expected), (got), (rtol), 0)
+/* Same with an absolute tolerance. */
+#define CHECK_ABS_CLASS(cls, quantity, source, expected, got, atol) \
+    sr_test_check(__FILE__, __LINE__, (cls), (quantity), (source), (expected), (got), (atol), 1)
+/* The older unclassed forms: new checks use the _CLASS forms above. */
+#define CHECK_REL(quantity, source, expected, got, rtol) \
+    CHECK_REL_CLASS(SR_CHECK_UNCLASSIFIED, quantity, source, expected, got, rtol)
+#define CHECK_ABS(quantity, source, expected, got, atol) \
+    CHECK_ABS_CLASS(SR_CHECK_UNCLASSIFIED, quantity, source, expected, got, atol)
+
+void sr_test_check(const char *file, int line, sr_check_class cls, const char *quantity, const char *source,
+                   double expected, double got, double tol, int absolute);
 
 /* Run the CLI in-process with a NULL-terminated argument list; returns the
  * exit code and fills *out / *err with malloc'd text (caller frees). */
