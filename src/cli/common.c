@@ -297,9 +297,30 @@ int sr_cli_take_canopy(sr_canopy_opts *o, int code, const char *arg)
     return 0;
 }
 
+/* An example unit for a bare number under --units us: inches for sizes, the
+ * US display unit otherwise. */
+static const char *us_example_unit(const char *opt, sr_quantity q)
+{
+    if (q == SR_Q_LENGTH && (strstr(opt, "diameter") || strstr(opt, "length")))
+        return "in";
+    if (q == SR_Q_PRESSURE)
+        return "inHg";
+    return sr_units_label(q, SR_UNITS_US);
+}
+
 int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q, int positive, double *out)
 {
     sr_error e;
+    /* under --units us a bare number would silently be SI (36 read as 36 m, not 36 in): refuse
+     * it; angles are degrees in both systems and dimensionless numbers have no unit */
+    if (c->units == SR_UNITS_US && q != SR_Q_NONE && q != SR_Q_ANGLE &&
+        sr_units_parse_strict(text, q, out, &e) != SR_OK && strstr(e.msg, "needs a unit")) {
+        char num[64];
+        snprintf(num, sizeof num, "%s", text + strspn(text, " \t"));
+        num[strcspn(num, " \t")] = '\0';
+        return sr_cli_fail(c, "%s: give a unit, e.g. %s%s (under --units us a bare number is not taken as SI)", opt,
+                           num, us_example_unit(opt, q));
+    }
     if (sr_units_parse(text, q, out, &e) != SR_OK)
         return sr_cli_fail(c, "%s: %s", opt, e.msg);
     if (positive && !(*out > 0.0))
