@@ -6,6 +6,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "physics/descent.h"
 #include "files/mission.h"
 
@@ -215,6 +216,20 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     if (cp.measured)
         sr_report_note(r, "A measured drag coefficient on %s area was converted to nominal area through the family "
                           "ratio.", sr_ref_name(cp.cd.ref));
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "payload mass", c->units);
+    sr_input_warnings_value(&iw, SR_PLAUS_DESCENT_SPEED, speed, "target touchdown speed", c->units);
+    sr_input_warnings_value(&iw, SR_PLAUS_CANOPY_D0, res.d0.typ, "nominal diameter D0 needed (typical)", c->units);
+    if (areal > 0)
+        sr_input_warnings_value(&iw, SR_PLAUS_AREAL_MASS, areal, "canopy areal mass", c->units);
+    unsigned mj = sr_mach_judge(speed / air.a, cp.fam.mach_max);
+    if (mj) {
+        char msg[SR_INPUT_WARN_LEN];
+        sr_mach_describe(mj, speed / air.a, cp.fam.mach_max, cp.fam.id, "the target speed", msg, sizeof msg);
+        sr_input_warnings_add(&iw, msg);
+    }
+    sr_cli_report_input_warnings(r, &iw);
     if (cp.fam.cd0_source[0] && strstr(cp.fam.cd0_source, "memory"))
         sr_report_warning(r, "The family's drag data are recalled handbook values, not checked against the printed "
                              "table: confirm with a drop test before relying on the size.");

@@ -11,6 +11,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "analysis/input_warnings.h"
 #include "cli/cliplot.h"
 #include "output/fileio.h"
 #include "output/plot.h"
@@ -736,4 +737,12 @@ int sr_cli_emit(sr_cli *c, const sr_report *r)
     fwrite(buf, 1, len, c->out);
     free(buf);
     return 0;
+}
+
+void sr_cli_report_input_warnings(sr_report *r, const sr_input_warnings *w)
+{
+    for (size_t i = 0; i < w->n; i++) /* a sentence starts with a capital, as the other warnings do */
+        sr_report_warning(r, "%c%s", w->msg[i][0] >= 'a' && w->msg[i][0] <= 'z' ? w->msg[i][0] - 'a' + 'A'
+                                                                                  : w->msg[i][0],
+                          w->msg[i][0] ? w->msg[i] + 1 : "");
 }

@@ -11,19 +11,19 @@ static const sr_plaus_rule RULES[SR_PLAUS_NKINDS] = {
     /* a few grams: lighter than any payload that needs a canopy; 10 t: the largest cargo drops
      * carry a few tonnes per canopy (from memory) */
     {SR_PLAUS_MASS, SR_Q_MASS, 0.005, 1.0e4, "lighter than any payload a canopy is sized for",
-     "heavier than the payloads this tool is meant for"},
+     "heavier than the payloads this tool is meant for", "is the unit right?"},
     /* the largest canopies flown are about 40-50 m across (from memory); pilot chutes about 0.1-0.2 m */
     {SR_PLAUS_CANOPY_D0, SR_Q_LENGTH, 0.1, 50.0, "smaller than any recovery canopy",
-     "wider than the largest canopies built (about 40-50 m)"},
+     "wider than the largest canopies built (about 40-50 m)", "is the unit right?"},
     /* recovery canopies land at about 3-8 m/s (common practice); under 1 m/s the canopy is
      * far too large for the mass, which is what a unit slip in either produces */
-    {SR_PLAUS_DESCENT_SPEED, SR_Q_SPEED, 1.0, NAN,
-     "slower than recovery canopies descend (a canopy far too large for the mass)", NULL},
+    {SR_PLAUS_DESCENT_SPEED, SR_Q_SPEED, 1.0, NAN, "slower than recovery canopies descend (about 3-8 m/s)", NULL,
+     "check the units of mass and canopy size"},
     /* nothing falling freely that this tool is for is larger than a big canopy */
-    {SR_PLAUS_BODY_SIZE, SR_Q_LENGTH, NAN, 50.0, NULL, "larger than any body this tool is meant for"},
+    {SR_PLAUS_BODY_SIZE, SR_Q_LENGTH, NAN, 50.0, NULL, "larger than any body this tool is meant for", "is the unit right?"},
     /* the lightest canopy cloths weigh about 30 g/m2 (from memory) */
     {SR_PLAUS_AREAL_MASS, SR_Q_AREAL_MASS, 0.01, NAN, "lighter than any canopy cloth (about 30 g/m2 and up)",
-     NULL},
+     NULL, "is the unit right?"},
 };
 
 const sr_plaus_rule *sr_plausible_rule(sr_plaus_kind kind)
@@ -49,8 +49,8 @@ int sr_plausible_check(sr_plaus_kind kind, double si, const char *what, sr_unit_
         char v[48], lim[48];
         fmt(v, sizeof v, si, r->q, sys);
         fmt(lim, sizeof lim, low ? r->lo : r->hi, r->q, sys);
-        snprintf(buf, len, "%s: %s is %s %s, %s; is the unit right?", what, v, low ? "under" : "over", lim,
-                 low ? r->why_lo : r->why_hi);
+        snprintf(buf, len, "%s: %s is %s %s, %s; %s", what, v, low ? "under" : "over", lim,
+                 low ? r->why_lo : r->why_hi, r->hint);
     }
     return 1;
 }

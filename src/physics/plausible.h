@@ -26,6 +26,7 @@ typedef struct sr_plaus_rule {
     double lo, hi;          /* SI */
     const char *why_lo;     /* what a value below lo would be ("lighter than ...") */
     const char *why_hi;
+    const char *hint;       /* what to do about it */
 } sr_plaus_rule;
 
 const sr_plaus_rule *sr_plausible_rule(sr_plaus_kind kind);
