@@ -313,9 +313,11 @@ int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q,
 {
     sr_error e;
     /* under --units us a bare number would silently be SI (36 read as 36 m, not 36 in): refuse
-     * it; angles are degrees in both systems and dimensionless numbers have no unit */
+     * it; angles are degrees in both systems, dimensionless numbers have no unit, and a bare
+     * zero is zero in every unit of a quantity without an offset (absolute temperature has one) */
     if (c->units == SR_UNITS_US && q != SR_Q_NONE && q != SR_Q_ANGLE &&
-        sr_units_parse_strict(text, q, out, &e) != SR_OK && strstr(e.msg, "needs a unit")) {
+        sr_units_parse_strict(text, q, out, &e) != SR_OK && strstr(e.msg, "needs a unit") &&
+        !(q != SR_Q_TEMP && sr_units_parse(text, q, out, NULL) == SR_OK && *out == 0.0)) {
         char num[64];
         snprintf(num, sizeof num, "%s", text + strspn(text, " \t"));
         num[strcspn(num, " \t")] = '\0';
