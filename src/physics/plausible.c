@@ -20,7 +20,8 @@ static const sr_plaus_rule RULES[SR_PLAUS_NKINDS] = {
     {SR_PLAUS_DESCENT_SPEED, SR_Q_SPEED, 1.0, NAN, "slower than recovery canopies descend (about 3-8 m/s)", NULL,
      "check the units of mass and canopy size"},
     /* nothing falling freely that this tool is for is larger than a big canopy */
-    {SR_PLAUS_BODY_SIZE, SR_Q_LENGTH, NAN, 50.0, NULL, "larger than any body this tool is meant for", "is the unit right?"},
+    {SR_PLAUS_BODY_SIZE, SR_Q_LENGTH, NAN, 50.0, NULL, "larger than any body this tool is meant for",
+     "is the unit right?"},
     /* the lightest canopy cloths weigh about 30 g/m2 (from memory) */
     {SR_PLAUS_AREAL_MASS, SR_Q_AREAL_MASS, 0.01, NAN, "lighter than any canopy cloth (about 30 g/m2 and up)",
      NULL, "is the unit right?"},
@@ -34,7 +35,8 @@ const sr_plaus_rule *sr_plausible_rule(sr_plaus_kind kind)
 /* A value in the unit system with its unit, three significant digits. */
 static void fmt(char *buf, size_t len, double si, sr_quantity q, sr_unit_system sys)
 {
-    snprintf(buf, len, "%.3g %s", sr_units_from_si(si, q, sys), sr_units_label(q, sys));
+    double v = sr_units_from_si(si, q, sys);
+    snprintf(buf, len, fabs(v) >= 1000.0 ? "%.0f %s" : "%.3g %s", v, sr_units_label(q, sys));
 }
 
 int sr_plausible_check(sr_plaus_kind kind, double si, const char *what, sr_unit_system sys, char *buf, size_t len)
