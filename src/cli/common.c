@@ -72,7 +72,8 @@ void sr_cli_help(sr_cli *c, const char *text)
     fputs(text, c->out);
     fputc('\n', c->out);
     fputs("Quantities take a unit (\"2.5 kg\", \"36in\", \"18 ft/s\", \"31 C\"); a bare number is SI\n"
-          "(kg, m, m/s, K, Pa), except angles, which are degrees.\n\n",
+          "(kg, m, m/s, K, Pa), except angles, which are degrees. Under --units us a bare\n"
+          "number is refused (0 excepted): give the unit. Files always need units.\n\n",
           c->out);
     /* the caution belongs in every help text */
     const char *p = sr_report_caution();
@@ -321,8 +322,8 @@ int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q,
         char num[64];
         snprintf(num, sizeof num, "%s", text + strspn(text, " \t"));
         num[strcspn(num, " \t")] = '\0';
-        return sr_cli_fail(c, "%s: give a unit, e.g. %s%s (under --units us a bare number is not taken as SI)", opt,
-                           num, us_example_unit(opt, q));
+        return sr_cli_fail(c, "%s: give a unit, e.g. %s%s (under --units us a bare number is not taken as SI)",
+                           opt, num, us_example_unit(opt, q));
     }
     if (sr_units_parse(text, q, out, &e) != SR_OK)
         return sr_cli_fail(c, "%s: %s", opt, e.msg);
