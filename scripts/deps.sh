@@ -5,7 +5,7 @@
 #   deps.sh install  install every missing package (build, tests, figures)
 #                    with apt-get as root or through sudo, or say how
 set -u
-BUILD="build-essential pkg-config libyaml-dev libgsl-dev libjansson-dev libcsv-dev"
+BUILD="build-essential pkg-config libyaml-dev libgsl-dev libjansson-dev libcsv-dev libproj-dev"
 TEST="libcmocka-dev libudunits2-dev libudunits2-data gnuplot-nox valgrind clang libclang-rt-14-dev"
 mode=${1:-install}
 

@@ -7,6 +7,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/maps.h"
 #include "analysis/input_warnings.h"
 #include "cli/profile_failcase.h"
 #include "cli/profile_plot.h"
@@ -15,10 +16,13 @@
 
 #define PI 3.14159265358979323846
 
-enum { OPT_FAST = OPT_COMMAND_BASE, OPT_FAIL, OPT_WORST };
+enum { OPT_FAST = OPT_COMMAND_BASE, OPT_FAIL, OPT_WORST, OPT_TRAJECTORY, OPT_GEOJSON, OPT_BAND_ENDS };
 
 static const struct option OPTS[] = {
     {"fast", no_argument, NULL, OPT_FAST},
+    {"trajectory", required_argument, NULL, OPT_TRAJECTORY},
+    {"geojson", required_argument, NULL, OPT_GEOJSON},
+    {"band-ends", no_argument, NULL, OPT_BAND_ENDS},
     {"fail", required_argument, NULL, OPT_FAIL},
     {"worst-case", no_argument, NULL, OPT_WORST},
     SR_OPTS_PLOT,
@@ -40,11 +44,20 @@ static const char HELP[] =
     "  --fail STAGE[,STAGE]     failure case: these stages do not deploy ('all': no canopy)\n"
     "  --worst-case             judge limits at the worst end of each band\n"
     "  --fast                   the fast mode used for dispersion (steady stages from\n"
-    "                           tables, transients reused from the nominal descent)\n\n";
+    "                           tables, transients reused from the nominal descent)\n"
+    "  --trajectory FILE        the time history of every body: time, height, altitude,\n"
+    "                           descent rate, airspeed, east, north, dynamic pressure, Mach,\n"
+    "                           stage, event; CSV or JSON by --format (under text: JSON for\n"
+    "                           a FILE ending in .json, CSV otherwise)\n"
+    "  --geojson FILE           a landing map (GeoJSON, RFC 7946): tracks, landing points,\n"
+    "                           deployments and the drift limit on WGS 84; the mission needs\n"
+    "                           site.latitude and site.longitude\n"
+    "  --band-ends              trajectory and map also at the low and the high end of the\n"
+    "                           drag band\n\n";
 
 typedef struct profile_opts {
-    int fast, worst;
-    const char *fail;
+    int fast, worst, band_ends;
+    const char *fail, *trajectory, *geojson;
 } profile_opts;
 
 static int take(sr_cli *c, int code, const char *arg, void *ud)
@@ -55,6 +68,9 @@ static int take(sr_cli *c, int code, const char *arg, void *ud)
     case OPT_FAST: o->fast = 1; return 0;
     case OPT_WORST: o->worst = 1; return 0;
     case OPT_FAIL: o->fail = arg; return 0;
+    case OPT_TRAJECTORY: o->trajectory = arg; return 0;
+    case OPT_GEOJSON: o->geojson = arg; return 0;
+    case OPT_BAND_ENDS: o->band_ends = 1; return 0;
     }
     return 1;
 }
@@ -543,13 +559,23 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         return sr_cli_fail(c, "give a mission file (e.g. payloads/desert-club-rocket.yaml)");
     if (first + 1 < argc)
         return sr_cli_fail(c, "unexpected argument '%s' (profile takes one mission file)", argv[first + 1]);
+    if (o.band_ends && !o.trajectory && !o.geojson)
+        return sr_cli_fail(c, "--band-ends: goes with --trajectory or --geojson");
+    if (o.fast && (o.trajectory || o.geojson))
+        return sr_cli_fail(c, "%s: the time history needs the full integration; drop --fast",
+                           o.trajectory ? "--trajectory" : "--geojson");
+    if ((o.trajectory && (rc = sr_cli_check_output(c, "--trajectory", o.trajectory))) ||
+        (o.geojson && (rc = sr_cli_check_output(c, "--geojson", o.geojson))))
+        return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
     sr_profile_ctx *ctx = NULL;
     sr_profile_work *w = NULL;
     runs *R = NULL;
     sr_report *r = NULL;
-    sr_profile_point *pts = NULL;
+    sr_profile_point *pts = NULL, *pts_lo = NULL, *pts_hi = NULL;
+    char *tbuf = NULL, *gbuf = NULL;
+    size_t tlen = 0, glen = 0;
     sr_error e;
     if ((rc = sr_cli_catalog(c, &cat)))
         goto out;
@@ -571,6 +597,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
                          m->path);
         goto out;
     }
+    if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+        goto out;
     sr_profile_opts po;
     sr_profile_opts_init(&po);
     if (o.fail && (rc = parse_fail(c, m, o.fail, &po.failed)))
@@ -588,9 +616,10 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         lo.drag_scale[k] = b.lo / b.typ;
         hi.drag_scale[k] = b.hi / b.typ;
     }
-    sr_profile_track track = {NULL, 0, 0, 0.5};
-    if (c->plot_prefix) {
-        track.cap = 20000;
+    sr_profile_track track = {NULL, 0, 0, 0.5}, track_lo = track, track_hi = track;
+    int maps = o.trajectory || o.geojson, want_track = c->plot_prefix || maps;
+    if (want_track) {
+        track.cap = maps ? SR_MAPS_TRACK_CAP : 20000;
         pts = malloc(track.cap * sizeof *pts);
         if (!pts) {
             rc = sr_cli_fail(c, "out of memory");
@@ -598,8 +627,18 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         }
         track.pt = pts;
     }
-    if (sr_profile_run(ctx, NULL, mode, w, &R->typ, c->plot_prefix ? &track : NULL, &e) ||
-        sr_profile_run(ctx, &lo, mode, w, &R->lo, NULL, &e) || sr_profile_run(ctx, &hi, mode, w, &R->hi, NULL, &e)) {
+    if (o.band_ends) {
+        track_lo.cap = track_hi.cap = SR_MAPS_TRACK_CAP;
+        track_lo.pt = pts_lo = malloc(SR_MAPS_TRACK_CAP * sizeof *pts_lo);
+        track_hi.pt = pts_hi = malloc(SR_MAPS_TRACK_CAP * sizeof *pts_hi);
+        if (!pts_lo || !pts_hi) {
+            rc = sr_cli_fail(c, "out of memory");
+            goto out;
+        }
+    }
+    if (sr_profile_run(ctx, NULL, mode, w, &R->typ, want_track ? &track : NULL, &e) ||
+        sr_profile_run(ctx, &lo, mode, w, &R->lo, o.band_ends ? &track_lo : NULL, &e) ||
+        sr_profile_run(ctx, &hi, mode, w, &R->hi, o.band_ends ? &track_hi : NULL, &e)) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
@@ -629,13 +668,29 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     sr_cli_report_input_warnings(r, &iw);
     report_notes(r, o.fast);
     sr_profile_report_failures(r, c, m);
+    /* the trajectory and the map are built before anything is written */
+    sr_map_run mr[3] = {{"typical drag", &R->typ, &track}, {"low drag", &R->lo, &track_lo},
+                        {"high drag", &R->hi, &track_hi}};
+    size_t nmr = o.band_ends ? 3 : 1;
+    if (o.trajectory && (rc = sr_maps_trajectory(c, o.trajectory, m, ctx, mr, nmr, &tbuf, &tlen)))
+        goto out;
+    if (o.geojson && (rc = sr_maps_profile_geojson(c, m, mr, nmr, &gbuf, &glen)))
+        goto out;
     if ((rc = sr_cli_emit(c, r)))
+        goto out;
+    if (tbuf && (rc = sr_maps_write(c, "--trajectory", o.trajectory, tbuf, tlen)))
+        goto out;
+    if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
     if (c->plot_prefix && (rc = sr_profile_plot(c, m, ctx, &R->typ, &track, argc, argv)))
         goto out;
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
     free(pts);
+    free(pts_lo);
+    free(pts_hi);
+    free(tbuf);
+    free(gbuf);
     sr_report_free(r);
     sr_profile_work_free(w);
     sr_profile_ctx_free(ctx);
