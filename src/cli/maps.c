@@ -35,12 +35,12 @@ int sr_maps_need_position(sr_cli *c, const char *opt, const sr_mission *m)
 
 int sr_maps_trajectory_format(const sr_cli *c, const char *path)
 {
-    if (c->format == SR_FMT_JSON)
-        return SR_REPORT_JSON;
-    if (c->format == SR_FMT_CSV)
-        return SR_REPORT_CSV;
     size_t l = strlen(path);
-    return l >= 5 && strcmp(path + l - 5, ".json") == 0 ? SR_REPORT_JSON : SR_REPORT_CSV;
+    if (l >= 5 && strcmp(path + l - 5, ".json") == 0)
+        return SR_REPORT_JSON;
+    if (l >= 4 && strcmp(path + l - 4, ".csv") == 0)
+        return SR_REPORT_CSV;
+    return c->format == SR_FMT_JSON ? SR_REPORT_JSON : SR_REPORT_CSV;
 }
 
 static const char *event_text(const sr_profile_result *r, const sr_traj_row *w)
@@ -365,7 +365,7 @@ int sr_maps_dispersion_geojson(sr_cli *c, const sr_mission *m, const sr_disp_mis
             for (size_t b = 0; b < res->nbodies && !rc; b++) {
                 const sr_landing *l = &res->land[i * res->nbodies + b];
                 rc = sr_geojson_point(g, "sample landing point", dm->body_name[b], l->east, l->north);
-                rc = rc ? rc : sr_geojson_integer(g, "sample", (long long)i + 1);
+                rc = rc ? rc : sr_geojson_integer(g, "sample", (long long)i);
                 rc = rc ? rc : sr_geojson_value(g, "time", l->time, SR_Q_TIME);
                 rc = rc ? rc : sr_geojson_value(g, "touchdown_speed", l->speed, SR_Q_SPEED);
                 rc = rc ? rc : sr_geojson_value(g, "landing_energy", l->energy, SR_Q_ENERGY);

@@ -28,8 +28,8 @@ typedef struct sr_map_run {
  * site.longitude, before any work. 0 or an exit code. */
 int sr_maps_need_position(sr_cli *c, const char *opt, const sr_mission *m);
 
-/* The format of the trajectory file: --format csv or json; under text, JSON
- * for a name ending in .json, CSV otherwise. */
+/* The format of the trajectory file: JSON for a name ending in .json, CSV
+ * for .csv; otherwise JSON under --format json and CSV else. */
 int sr_maps_trajectory_format(const sr_cli *c, const char *path);
 
 /* The documents are built before any output is written (a map that cannot
