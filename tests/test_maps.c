@@ -528,9 +528,9 @@ static void test_geojson_dispersion(void **state)
         double x = de * sin(b) + dn * cos(b), y = -de * cos(b) + dn * sin(b);
         worst = fmax(worst, fabs(hypot(x / A, y / B) - 1.0));
     }
-    /* the report rounds axes to 3 digits and the bearing to a degree */
+    /* coordinates carry 10 digits: about 1 cm */
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "3-sigma ellipse vertices against the report's axes, worst (x/a, y/b) radius - 1",
-                    SR_SRC_VINCENTY, 0.0, worst, 0.03);
+                    SR_SRC_VINCENTY, 0.0, worst, 1e-4);
     ring = json_array_get(coords(feature_of(map, "95 % circle around the mean", 0)), 0);
     worst = 0.0;
     for (size_t k = 0; k < json_array_size(ring); k++) {
@@ -538,7 +538,7 @@ static void test_geojson_dispersion(void **state)
         worst = fmax(worst, fabs(hypot(ev - V("mean_east"), nv - V("mean_north")) - V("r95_mean")));
     }
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "95 % circle vertices: distance from the mean landing point - radius (m)",
-                    SR_SRC_VINCENTY, 0.0, worst, 0.6);
+                    SR_SRC_VINCENTY, 0.0, worst, 0.05);
     size_t ns = 0;
     while (feature_of(map, "sample landing point", ns))
         ns++;

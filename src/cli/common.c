@@ -13,6 +13,7 @@
 
 #include "analysis/input_warnings.h"
 #include "cli/cliplot.h"
+#include "cli/tables.h"
 #include "output/fileio.h"
 #include "output/plot.h"
 #include "files/mission.h"
@@ -23,6 +24,8 @@ const char SR_HELP_OUTPUT[] =
     "  --format text|csv|json   output format (default text)\n"
     "  --units si|us            SI (default) or US customary units (ft, lb, ft/s, lbf)\n"
     "  -o, --output FILE        write to FILE (atomically) instead of standard output\n"
+    "  --table NAME             only this table of the output (with the caution and the\n"
+    "                           warnings): one clean table for a spreadsheet; names below\n"
     "  --data DIR               directory holding canopies/ (default: found next to the\n"
     "                           program, $SINKRATE_DATA, or the installed share directory)\n"
     "  -h, --help               this help\n";
@@ -130,6 +133,14 @@ static void help_with_groups(sr_cli *c, const char *help, const struct option *o
         snprintf(buf + l, len - l, "%s%s", l && buf[l - 1] == '\n' && (l < 2 || buf[l - 2] != '\n') ? "\n" : "",
                  G[i].text);
     }
+    /* the tables --table can pick */
+    if (has_option(opts, OPT_TABLE) && sr_cli_tables(c->cmd)) {
+        char names[512];
+        sr_cli_tables_list(c->cmd, names, sizeof names);
+        size_t l = strlen(buf);
+        snprintf(buf + l, len - l, "%sTables of its output (--table NAME): %s\n",
+                 l && buf[l - 1] == '\n' && (l < 2 || buf[l - 2] != '\n') ? "\n" : "", names);
+    }
     sr_cli_help(c, buf);
     free(buf);
 }
@@ -178,6 +189,18 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
             break;
         case OPT_DATA:
             c->data_dir = optarg;
+            break;
+        case OPT_TABLE:
+            if (!sr_cli_table_known(c->cmd, optarg)) {
+                char names[512];
+                const char *const *t = sr_cli_tables(c->cmd);
+                const char *s = t ? sr_yaml_suggest(optarg, t) : NULL;
+                sr_cli_tables_list(c->cmd, names, sizeof names);
+                if (s)
+                    return sr_cli_fail(c, "--table: %s has no table '%s'; did you mean '%s'?", c->cmd, optarg, s);
+                return sr_cli_fail(c, "--table: %s has no table '%s' (its tables: %s)", c->cmd, optarg, names);
+            }
+            c->table = optarg;
             break;
         case OPT_PLOT:
             if (!*optarg)
@@ -723,11 +746,11 @@ int sr_cli_emit(sr_cli *c, const sr_report *r)
         return sr_cli_fail(c, "out of memory");
     sr_error e;
     static const sr_report_format F[] = {SR_REPORT_TEXT, SR_REPORT_CSV, SR_REPORT_JSON};
-    int rc = sr_report_write(r, mem, F[c->format], c->units, &e);
+    int rc = sr_report_write_part(r, mem, F[c->format], c->units, c->table, &e);
     fclose(mem);
     if (rc) {
         free(buf);
-        return sr_cli_fail(c, "%s", e.msg);
+        return sr_cli_fail(c, "%s%s", c->table ? "--table: " : "", e.msg);
     }
     if (c->output) {
         sr_cli_made(c, c->output);

@@ -369,7 +369,14 @@ static void wrap(FILE *f, const char *prefix, const char *text, size_t width)
     fputc('\n', f);
 }
 
-static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
+/* Which parts a selection keeps (see sr_report_write_part). */
+typedef struct part {
+    int values, notes;
+    const sr_rtable *only; /* NULL: every table (when tables is set) */
+    int tables;
+} part;
+
+static void write_text(const sr_report *r, FILE *f, sr_unit_system sys, const part *sel)
 {
     fprintf(f, "sinkrate %s: %s\n", r->command, r->title);
     wrap(f, "", CAUTION, 78);
@@ -377,7 +384,7 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
     for (size_t i = 0; i < r->nitems; i++)
         if (r->items[i].kind != IT_SECTION && r->items[i].label && strlen(r->items[i].label) > lw)
             lw = strlen(r->items[i].label);
-    for (size_t i = 0; i < r->nitems; i++) {
+    for (size_t i = 0; sel->values && i < r->nitems; i++) {
         const item *it = &r->items[i];
         char a[64], b[64], c[64];
         switch (it->kind) {
@@ -407,8 +414,10 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
         }
         }
     }
-    for (size_t k = 0; k < r->ntables; k++) {
+    for (size_t k = 0; sel->tables && k < r->ntables; k++) {
         const sr_rtable *t = r->tables[k];
+        if (sel->only && t != sel->only)
+            continue;
         if (t->title)
             fprintf(f, "\n%s\n", t->title);
         else
@@ -465,7 +474,7 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
         free(cells);
         free(w);
     }
-    if (r->notes.n) {
+    if (r->notes.n && sel->notes) {
         fputs("\nNotes\n", f);
         for (size_t i = 0; i < r->notes.n; i++)
             wrap(f, "  - ", r->notes.s[i], 78);
@@ -504,7 +513,7 @@ static void csv_comment(FILE *f, const char *text)
     fputc('\n', f);
 }
 
-static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
+static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys, const part *sel)
 {
     char buf[1200];
     snprintf(buf, sizeof buf, "sinkrate %s %s: %s", SR_VERSION, r->command, r->title);
@@ -514,11 +523,13 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
         snprintf(buf, sizeof buf, "warning: %s", r->warnings.s[i]);
         csv_comment(f, buf);
     }
-    for (size_t i = 0; i < r->notes.n; i++) {
+    for (size_t i = 0; sel->notes && i < r->notes.n; i++) {
         snprintf(buf, sizeof buf, "note: %s", r->notes.s[i]);
         csv_comment(f, buf);
     }
-    int values_as_rows = r->ntables == 0;
+    /* the values are a table of their own when there is no other, or when
+     * they are the part asked for; otherwise comment lines */
+    int values_as_rows = r->ntables == 0 || (sel->values && !sel->tables);
     if (values_as_rows) {
         csv_cell(f, "quantity", 1);
         csv_cell(f, "value", 0);
@@ -526,7 +537,7 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
         fputs("\r\n", f);
     }
     static const char *suffix[3] = {"_low", "_typical", "_high"};
-    for (size_t i = 0; i < r->nitems; i++) {
+    for (size_t i = 0; sel->values && i < r->nitems; i++) {
         const item *it = &r->items[i];
         if (it->kind == IT_SECTION)
             continue;
@@ -552,9 +563,11 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
             }
         }
     }
-    for (size_t k = 0; k < r->ntables; k++) {
+    for (size_t k = 0; sel->tables && k < r->ntables; k++) {
         const sr_rtable *t = r->tables[k];
-        if (r->ntables > 1) {
+        if (sel->only && t != sel->only)
+            continue;
+        if (r->ntables > 1 && !sel->only) {
             if (k > 0)
                 fputs("\r\n", f);
             snprintf(buf, sizeof buf, "table: %s", t->key);
@@ -589,7 +602,7 @@ static json_t *jnum(double x)
     return isfinite(x) ? json_real(x) : json_null();
 }
 
-static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error *err)
+static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, const part *sel, sr_error *err)
 {
     json_t *root = json_object();
     json_object_set_new(root, "tool", json_string("sinkrate"));
@@ -599,7 +612,7 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error 
     json_object_set_new(root, "caution", json_string(CAUTION));
     json_object_set_new(root, "units", json_string(sys == SR_UNITS_US ? "us" : "si"));
     json_t *vals = json_object();
-    for (size_t i = 0; i < r->nitems; i++) {
+    for (size_t i = 0; sel->values && i < r->nitems; i++) {
         const item *it = &r->items[i];
         json_t *v = NULL;
         if (it->kind == IT_VALUE) {
@@ -618,10 +631,15 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error 
         if (v)
             json_object_set_new(vals, it->key, v);
     }
-    json_object_set_new(root, "values", vals);
+    if (sel->values)
+        json_object_set_new(root, "values", vals);
+    else
+        json_decref(vals);
     json_t *tabs = json_object();
-    for (size_t k = 0; k < r->ntables; k++) {
+    for (size_t k = 0; sel->tables && k < r->ntables; k++) {
         const sr_rtable *t = r->tables[k];
+        if (sel->only && t != sel->only)
+            continue;
         json_t *jt = json_object(), *cols = json_array(), *rows = json_array();
         for (size_t c = 0; c < t->ncols; c++) {
             json_t *jc = json_object();
@@ -647,13 +665,19 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error 
         json_object_set_new(jt, "rows", rows);
         json_object_set_new(tabs, t->key, jt);
     }
-    json_object_set_new(root, "tables", tabs);
+    if (sel->tables)
+        json_object_set_new(root, "tables", tabs);
+    else
+        json_decref(tabs);
     json_t *notes = json_array(), *warns = json_array();
-    for (size_t i = 0; i < r->notes.n; i++)
+    for (size_t i = 0; sel->notes && i < r->notes.n; i++)
         json_array_append_new(notes, json_string(r->notes.s[i]));
     for (size_t i = 0; i < r->warnings.n; i++)
         json_array_append_new(warns, json_string(r->warnings.s[i]));
-    json_object_set_new(root, "notes", notes);
+    if (sel->notes)
+        json_object_set_new(root, "notes", notes);
+    else
+        json_decref(notes);
     json_object_set_new(root, "warnings", warns);
     int rc = json_dumpf(root, f, JSON_INDENT(2) | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(10));
     json_decref(root);
@@ -663,19 +687,45 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error 
     return SR_OK;
 }
 
-int sr_report_write(const sr_report *r, FILE *f, sr_report_format fmt, sr_unit_system sys, sr_error *err)
+int sr_report_write_part(const sr_report *r, FILE *f, sr_report_format fmt, sr_unit_system sys, const char *table,
+                         sr_error *err)
 {
+    part sel = {1, 1, NULL, 1};
+    if (table) {
+        sel.notes = 0;
+        if (strcmp(table, SR_REPORT_VALUES) == 0) {
+            sel.tables = 0;
+        } else {
+            sel.values = 0;
+            for (size_t k = 0; k < r->ntables && !sel.only; k++)
+                if (r->tables[k]->key && strcmp(r->tables[k]->key, table) == 0)
+                    sel.only = r->tables[k];
+            if (!sel.only) {
+                char have[512] = SR_REPORT_VALUES;
+                for (size_t k = 0; k < r->ntables; k++) {
+                    size_t l = strlen(have);
+                    snprintf(have + l, sizeof have - l, ", %s", r->tables[k]->key ? r->tables[k]->key : "?");
+                }
+                return sr_error_set(err, SR_EINVAL, "this output has no table '%s' (it has: %s)", table, have);
+            }
+        }
+    }
     switch (fmt) {
     case SR_REPORT_TEXT:
-        write_text(r, f, sys);
+        write_text(r, f, sys, &sel);
         break;
     case SR_REPORT_CSV:
-        write_csv(r, f, sys);
+        write_csv(r, f, sys, &sel);
         break;
     case SR_REPORT_JSON:
-        return write_json(r, f, sys, err);
+        return write_json(r, f, sys, &sel, err);
     }
     if (ferror(f))
         return sr_error_set(err, SR_EIO, "cannot write the output");
     return SR_OK;
+}
+
+int sr_report_write(const sr_report *r, FILE *f, sr_report_format fmt, sr_unit_system sys, sr_error *err)
+{
+    return sr_report_write_part(r, f, fmt, sys, NULL, err);
 }
