@@ -107,7 +107,7 @@ static const bad_case BAD[] = {
     {{"size", "--mass", "2 kg", "--speed", "0 m/s", "--family", "conical"}, NULL, NULL, 0, "--speed",
      "greater than zero"},
     {{"size", "--mass", "2 kg", "--speed", "400 m/s", "--family", "conical"}, NULL, NULL, 0, "--speed",
-     "not a touchdown speed"},
+     "not a descent speed"},
     {{"size", "--mass", "2 kg", "--speed", "5 kg", "--family", "conical"}, NULL, NULL, 0, "--speed",
      "unknown speed unit 'kg'"},
     {{"size", "--mass", "2 kg", "--family", "conical"}, NULL, NULL, 0, "--speed", "required"},

@@ -419,10 +419,10 @@ static void report_body(sr_report *r, const sr_disp_mission *dm, size_t b, const
     sr_report_value(r, K("mean_north"), "mean landing point, north", s->mean_north, SR_Q_LENGTH, SR_FIXED(0));
     sr_report_value(r, K("mean_distance"), "mean landing point, distance", s->mean_distance, SR_Q_LENGTH,
                     SR_FIXED(0));
-    sr_report_value(r, K("mean_bearing"), "mean landing point, bearing", s->mean_bearing, SR_Q_ANGLE, SR_FIXED(0));
+    sr_report_value(r, K("mean_bearing"), "mean landing point, bearing", s->mean_bearing, SR_Q_BEARING, SR_FIXED(0));
     sr_report_value(r, K("sigma1_major"), "1-sigma ellipse, semi-major axis", s->sigma1.major, SR_Q_LENGTH, 3);
     sr_report_value(r, K("sigma1_minor"), "1-sigma ellipse, semi-minor axis", s->sigma1.minor, SR_Q_LENGTH, 3);
-    sr_report_value(r, K("ellipse_bearing"), "ellipse major axis, bearing", s->sigma1.bearing, SR_Q_ANGLE,
+    sr_report_value(r, K("ellipse_bearing"), "ellipse major axis, bearing", s->sigma1.bearing, SR_Q_BEARING,
                     SR_FIXED(0));
     sr_report_value(r, K("sigma3_major"), "3-sigma ellipse, semi-major axis", s->sigma3.major, SR_Q_LENGTH, 3);
     sr_report_value(r, K("sigma3_minor"), "3-sigma ellipse, semi-minor axis", s->sigma3.minor, SR_Q_LENGTH, 3);

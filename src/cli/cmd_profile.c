@@ -118,7 +118,7 @@ static void fmt(char *buf, size_t len, const sr_cli *c, double v, sr_quantity q,
 static void wind_text(const sr_cli *c, const sr_wind *w, char *buf, size_t len)
 {
     char v[64], h[64], v2[64], h2[64];
-    double deg = w->from * 180 / PI;
+    double deg = sr_units_bearing_deg(w->from, 0);
     switch (w->kind) {
     case SR_WIND_CALM:
         snprintf(buf, len, "calm");
@@ -154,7 +154,8 @@ static void wind_text(const sr_cli *c, const sr_wind *w, char *buf, size_t len)
         fmt(v2, sizeof v2, c, s1, SR_Q_SPEED, 3);
         fmt(h2, sizeof h2, c, w->h[w->n - 1], SR_Q_LENGTH, SR_FIXED(0));
         snprintf(buf, len, "table%s%s, %zu rows: %s from %.0f deg at %s to %s from %.0f deg at %s above ground",
-                 w->source[0] ? " " : "", w->source, w->n, v, f0 * 180 / PI, h, v2, f1 * 180 / PI, h2);
+                 w->source[0] ? " " : "", w->source, w->n, v, sr_units_bearing_deg(f0, 0), h, v2,
+                 sr_units_bearing_deg(f1, 0), h2);
         return;
     }
     }
@@ -213,9 +214,10 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
         double we, wn, s, from;
         sr_wind_at(&m->wind, m->start_height, &we, &wn);
         sr_wind_polar(we, wn, &s, &from);
-        snprintf(head, sizeof head, "%.0f deg (%s)", from * 180 / PI, s > 0 ? "into the wind" : "north: calm air");
+        snprintf(head, sizeof head, "%.0f deg (%s)", sr_units_bearing_deg(from, 0),
+                 s > 0 ? "into the wind" : "north: calm air");
     } else {
-        snprintf(head, sizeof head, "%.0f deg", m->start_heading * 180 / PI);
+        snprintf(head, sizeof head, "%.0f deg", sr_units_bearing_deg(m->start_heading, 0));
     }
     snprintf(buf, sizeof buf, "%s above ground, airspeed %s, path angle %s below horizontal, heading %s", v1, v2, v3,
              head);
@@ -259,7 +261,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
     t = sr_report_table(r, "stages", "Recovery stages (drag area band from the family's CD0 range)");
     sr_rtable_text_column(t, "stage", "stage");
     sr_rtable_text_column(t, "canopy", "canopy");
-    sr_rtable_column(t, "nominal_diameter", "D0", SR_Q_LENGTH, 3);
+    sr_rtable_column(t, "nominal_diameter", "D0", SR_Q_SIZE, 3);
     sr_rtable_column(t, "drag_area_low", "CdS low", SR_Q_AREA, 3);
     sr_rtable_column(t, "drag_area_typical", "typ", SR_Q_AREA, 3);
     sr_rtable_column(t, "drag_area_high", "high", SR_Q_AREA, 3);
@@ -369,7 +371,7 @@ static void report_touchdown(sr_report *r, const sr_mission *m, const runs *R)
     sr_rtable_column(t, "rate_typical", "typical", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_high", "high", SR_Q_SPEED, 3);
     sr_rtable_column(t, "drift", "drift", SR_Q_LENGTH, SR_FIXED(0));
-    sr_rtable_column(t, "bearing", "bearing", SR_Q_ANGLE, SR_FIXED(0));
+    sr_rtable_column(t, "bearing", "bearing", SR_Q_BEARING, SR_FIXED(0));
     sr_rtable_column(t, "east", "east", SR_Q_LENGTH, SR_FIXED(0));
     sr_rtable_column(t, "north", "north", SR_Q_LENGTH, SR_FIXED(0));
     for (size_t i = 0; i < p->nbodies; i++) {

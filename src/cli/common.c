@@ -659,15 +659,27 @@ void sr_cli_report_atmos(sr_report *r, const sr_atmos *m)
 {
     char buf[512];
     switch (m->kind) {
-    case SR_ATMOS_SITE:
-        /* as values, so they follow --units */
+    case SR_ATMOS_SITE: {
+        /* say what the model does with what was given; values as values, so they follow --units */
+        int T = m->site_measured & SR_ATMOS_MEASURED_T, P = m->site_measured & SR_ATMOS_MEASURED_P;
         sr_report_text(r, "atmosphere", "atmosphere",
-                       "site model: measured surface values, 1976 standard lapse above, hydrostatic pressure");
+                       T && P ? "site model: measured surface temperature and pressure, 1976 standard lapse above, "
+                                "hydrostatic pressure"
+                       : T    ? "site model: measured surface temperature, the standard pressure of the elevation, "
+                                "1976 standard lapse above, hydrostatic pressure"
+                       : P    ? "site model: measured surface pressure, the standard temperature of the elevation, "
+                                "1976 standard lapse above, hydrostatic pressure"
+                              : "U.S. Standard Atmosphere 1976 unchanged, with the ground at the site elevation (no "
+                                "measured surface values)");
         sr_report_value(r, "site_elevation", "site elevation", m->site_z, SR_Q_LENGTH, SR_FIXED(0));
-        sr_report_value(r, "surface_temperature", "surface temperature", m->site_T, SR_Q_TEMP, SR_FIXED(1));
-        sr_report_value(r, "temperature_offset", "difference to standard", m->dT, SR_Q_TEMP_DIFF, 3);
-        sr_report_value(r, "surface_pressure", "surface pressure", m->site_p, SR_Q_PRESSURE, 5);
+        sr_report_value(r, "surface_temperature", T ? "surface temperature" : "surface temperature (standard)",
+                        m->site_T, SR_Q_TEMP, SR_FIXED(1));
+        if (T)
+            sr_report_value(r, "temperature_offset", "difference to standard", m->dT, SR_Q_TEMP_DIFF, 3);
+        sr_report_value(r, "surface_pressure", P ? "surface pressure" : "surface pressure (standard)", m->site_p,
+                        SR_Q_PRESSURE, 5);
         break;
+    }
     case SR_ATMOS_OFFSET:
         sr_report_text(r, "atmosphere", "atmosphere", "U.S. Standard Atmosphere 1976, offset temperature at "
                                                       "standard pressure");
@@ -691,9 +703,14 @@ void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t
         break;
     case SR_ATMOS_SITE: {
         sr_report_format_value(z, sizeof z, m->site_z, SR_Q_LENGTH, sys, SR_FIXED(0));
+        if (!m->site_measured) {
+            snprintf(buf, len, "U.S. Standard Atmosphere 1976, ground at %s", z);
+            break;
+        }
         double T = sys == SR_UNITS_US ? (m->site_T - 273.15) * 1.8 + 32.0 : m->site_T - 273.15;
+        /* one pressure unit per output: the tables' (psf under US) */
         if (sys == SR_UNITS_US)
-            snprintf(p, sizeof p, "%.2f inHg", m->site_p / 3386.389);
+            sr_report_format_value(p, sizeof p, m->site_p, SR_Q_PRESSURE, sys, 4);
         else
             snprintf(p, sizeof p, "%.0f hPa", m->site_p / 100.0);
         snprintf(buf, len, "site %s, %.1f %s, %s", z, T, sys == SR_UNITS_US ? "\u00b0F" : "\u00b0C", p);

@@ -190,10 +190,7 @@ int sr_geojson_bearing(sr_geojson *g, const char *key, double rad)
 {
     char uk[128];
     snprintf(uk, sizeof uk, "%s_unit", key);
-    double d = fmod(rad * 180.0 / PI, 360.0);
-    if (d < 0.0)
-        d += 360.0;
-    int rc = prop(g, key, isfinite(rad) ? json_real(d) : json_null());
+    int rc = prop(g, key, isfinite(rad) ? json_real(sr_units_bearing_deg(rad, 9)) : json_null());
     return rc ? rc : prop(g, uk, json_string("deg"));
 }
 

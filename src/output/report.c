@@ -325,17 +325,57 @@ static void fmt_num(char *buf, size_t len, double x, int sig)
     }
 }
 
+/* Decimals a value is printed with: fixed, or about that many for a number
+ * of significant digits of a bearing (at most 360). */
+static int decimals_of(int sig)
+{
+    return sig >= SR_FIXED(0) ? sig - SR_FIXED(0) : sig > 3 ? sig - 3 : 0;
+}
+
+/* An SI value in the unit of its value, band or column (mag: the largest
+ * magnitude there, which picks inches or feet, ounces or pounds under US);
+ * a bearing wrapped so it never prints 360. */
+static double shown(double si, sr_quantity q, sr_unit_system sys, double mag, int decimals)
+{
+    if (isnan(si))
+        return si;
+    if (q == SR_Q_BEARING)
+        return sr_units_bearing_deg(si, decimals);
+    return sr_units_from_si_at(si, q, sys, mag);
+}
+
+static const char *unit_of(sr_quantity q, sr_unit_system sys, double mag)
+{
+    return sr_units_label_at(q, sys, mag);
+}
+
+/* The largest magnitude of an item (NaN when it has no number). */
+static double item_mag(const item *it)
+{
+    double m = NAN;
+    for (int k = 0; k < (it->kind == IT_BAND ? 3 : 1); k++)
+        if (isfinite(it->v[k]) && !(fabs(it->v[k]) <= m))
+            m = fabs(it->v[k]);
+    return m;
+}
+
+static double col_mag(const sr_rtable *t, size_t c)
+{
+    double m = NAN;
+    for (size_t i = 0; i < t->nrows; i++) {
+        double x = t->nums[i * t->ncols + c];
+        if (isfinite(x) && !(fabs(x) <= m))
+            m = fabs(x);
+    }
+    return m;
+}
+
 void sr_report_format_value(char *buf, size_t len, double si, sr_quantity q, sr_unit_system sys, int sig)
 {
     char num[64];
-    fmt_num(num, sizeof num, sr_units_from_si(si, q, sys), sig);
-    const char *u = sr_units_label(q, sys);
+    fmt_num(num, sizeof num, shown(si, q, sys, fabs(si), decimals_of(sig)), sig);
+    const char *u = unit_of(q, sys, fabs(si));
     snprintf(buf, len, "%s%s%s", num, u[0] ? " " : "", u);
-}
-
-static double disp(double si, sr_quantity q, sr_unit_system sys)
-{
-    return isnan(si) ? si : sr_units_from_si(si, q, sys);
 }
 
 /* ---- text ---- */
@@ -392,16 +432,19 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys, const pa
             fprintf(f, "\n%s\n", it->label);
             break;
         case IT_VALUE: {
-            fmt_num(a, sizeof a, disp(it->v[0], it->q, sys), it->sig);
-            const char *u = sr_units_label(it->q, sys);
+            double mg = item_mag(it);
+            fmt_num(a, sizeof a, shown(it->v[0], it->q, sys, mg, decimals_of(it->sig)), it->sig);
+            const char *u = unit_of(it->q, sys, mg);
             fprintf(f, "  %-*s  %s%s%s\n", (int)lw, it->label, a, u[0] ? " " : "", u);
             break;
         }
         case IT_BAND: {
-            fmt_num(a, sizeof a, disp(it->v[0], it->q, sys), it->sig);
-            fmt_num(b, sizeof b, disp(it->v[1], it->q, sys), it->sig);
-            fmt_num(c, sizeof c, disp(it->v[2], it->q, sys), it->sig);
-            const char *u = sr_units_label(it->q, sys);
+            double mg = item_mag(it);
+            int dec = decimals_of(it->sig);
+            fmt_num(a, sizeof a, shown(it->v[0], it->q, sys, mg, dec), it->sig);
+            fmt_num(b, sizeof b, shown(it->v[1], it->q, sys, mg, dec), it->sig);
+            fmt_num(c, sizeof c, shown(it->v[2], it->q, sys, mg, dec), it->sig);
+            const char *u = unit_of(it->q, sys, mg);
             fprintf(f, "  %-*s  %s / %s / %s%s%s  (low / typical / high)\n", (int)lw, it->label, a, b, c,
                     u[0] ? " " : "", u);
             break;
@@ -434,7 +477,8 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys, const pa
         for (size_t c = 0; c < nc; c++) {
             const column *col = &t->cols[c];
             char u[64];
-            const char *ul = col->is_text ? "" : sr_units_label(col->q, sys);
+            double mg = col->is_text ? NAN : col_mag(t, c);
+            const char *ul = col->is_text ? "" : unit_of(col->q, sys, mg);
             snprintf(u, sizeof u, "%s%s%s", ul[0] ? "[" : "", ul, ul[0] ? "]" : "");
             cells[c] = strdup(col->label);
             cells[nc + c] = strdup(u);
@@ -443,7 +487,8 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys, const pa
                 if (col->is_text)
                     snprintf(buf, sizeof buf, "%s", t->texts[i * nc + c] ? t->texts[i * nc + c] : "");
                 else
-                    fmt_num(buf, sizeof buf, disp(t->nums[i * nc + c], col->q, sys), col->sig);
+                    fmt_num(buf, sizeof buf, shown(t->nums[i * nc + c], col->q, sys, mg, decimals_of(col->sig)),
+                            col->sig);
                 cells[(i + 2) * nc + c] = strdup(buf);
             }
             for (size_t i = 0; i < nr + 2; i++) {
@@ -541,7 +586,8 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys, const par
         const item *it = &r->items[i];
         if (it->kind == IT_SECTION)
             continue;
-        const char *u = it->kind == IT_TEXT ? "" : sr_units_label(it->q, sys);
+        double mg = item_mag(it);
+        const char *u = it->kind == IT_TEXT ? "" : unit_of(it->q, sys, mg);
         int n = it->kind == IT_BAND ? 3 : 1;
         for (int k = 0; k < n; k++) {
             char key[256];
@@ -551,14 +597,14 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys, const par
                 if (it->kind == IT_TEXT)
                     csv_cell(f, it->text, 0);
                 else
-                    csv_num(f, disp(it->v[k], it->q, sys), 0);
+                    csv_num(f, shown(it->v[k], it->q, sys, mg, 9), 0);
                 csv_cell(f, u, 0);
                 fputs("\r\n", f);
             } else {
                 if (it->kind == IT_TEXT)
                     snprintf(buf, sizeof buf, "%s = %s", key, it->text);
                 else
-                    snprintf(buf, sizeof buf, "%s = %.10g %s", key, disp(it->v[k], it->q, sys), u);
+                    snprintf(buf, sizeof buf, "%s = %.10g %s", key, shown(it->v[k], it->q, sys, mg, 9), u);
                 csv_comment(f, buf);
             }
         }
@@ -575,7 +621,7 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys, const par
         }
         for (size_t c = 0; c < t->ncols; c++) {
             const column *col = &t->cols[c];
-            const char *u = col->is_text ? "" : sr_units_label(col->q, sys);
+            const char *u = col->is_text ? "" : unit_of(col->q, sys, col_mag(t, c));
             if (u[0])
                 snprintf(buf, sizeof buf, "%s [%s]", col->key, u);
             else
@@ -583,12 +629,16 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys, const par
             csv_cell(f, buf, c == 0);
         }
         fputs("\r\n", f);
+        double mags[64];
+        for (size_t c = 0; c < t->ncols && c < 64; c++)
+            mags[c] = t->cols[c].is_text ? NAN : col_mag(t, c);
         for (size_t i = 0; i < t->nrows; i++) {
             for (size_t c = 0; c < t->ncols; c++) {
                 if (t->cols[c].is_text)
                     csv_cell(f, t->texts[i * t->ncols + c] ? t->texts[i * t->ncols + c] : "", c == 0);
                 else
-                    csv_num(f, disp(t->nums[i * t->ncols + c], t->cols[c].q, sys), c == 0);
+                    csv_num(f, shown(t->nums[i * t->ncols + c], t->cols[c].q, sys, c < 64 ? mags[c] : NAN, 9),
+                            c == 0);
             }
             fputs("\r\n", f);
         }
@@ -615,16 +665,17 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, const par
     for (size_t i = 0; sel->values && i < r->nitems; i++) {
         const item *it = &r->items[i];
         json_t *v = NULL;
+        double mg = item_mag(it);
         if (it->kind == IT_VALUE) {
             v = json_object();
-            json_object_set_new(v, "value", jnum(disp(it->v[0], it->q, sys)));
-            json_object_set_new(v, "unit", json_string(sr_units_label(it->q, sys)));
+            json_object_set_new(v, "value", jnum(shown(it->v[0], it->q, sys, mg, 9)));
+            json_object_set_new(v, "unit", json_string(unit_of(it->q, sys, mg)));
         } else if (it->kind == IT_BAND) {
             v = json_object();
-            json_object_set_new(v, "low", jnum(disp(it->v[0], it->q, sys)));
-            json_object_set_new(v, "typical", jnum(disp(it->v[1], it->q, sys)));
-            json_object_set_new(v, "high", jnum(disp(it->v[2], it->q, sys)));
-            json_object_set_new(v, "unit", json_string(sr_units_label(it->q, sys)));
+            json_object_set_new(v, "low", jnum(shown(it->v[0], it->q, sys, mg, 9)));
+            json_object_set_new(v, "typical", jnum(shown(it->v[1], it->q, sys, mg, 9)));
+            json_object_set_new(v, "high", jnum(shown(it->v[2], it->q, sys, mg, 9)));
+            json_object_set_new(v, "unit", json_string(unit_of(it->q, sys, mg)));
         } else if (it->kind == IT_TEXT) {
             v = json_string(it->text ? it->text : "");
         }
@@ -641,11 +692,15 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, const par
         if (sel->only && t != sel->only)
             continue;
         json_t *jt = json_object(), *cols = json_array(), *rows = json_array();
+        double mags[64];
+        for (size_t c = 0; c < t->ncols && c < 64; c++)
+            mags[c] = t->cols[c].is_text ? NAN : col_mag(t, c);
         for (size_t c = 0; c < t->ncols; c++) {
             json_t *jc = json_object();
             json_object_set_new(jc, "key", json_string(t->cols[c].key));
-            json_object_set_new(jc, "unit",
-                                json_string(t->cols[c].is_text ? "" : sr_units_label(t->cols[c].q, sys)));
+            json_object_set_new(jc, "unit", json_string(t->cols[c].is_text ? ""
+                                                                            : unit_of(t->cols[c].q, sys,
+                                                                                      c < 64 ? mags[c] : NAN)));
             json_array_append_new(cols, jc);
         }
         for (size_t i = 0; i < t->nrows; i++) {
@@ -655,7 +710,7 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, const par
                 if (t->cols[c].is_text)
                     json_array_append_new(row, json_string(t->texts[at] ? t->texts[at] : ""));
                 else
-                    json_array_append_new(row, jnum(disp(t->nums[at], t->cols[c].q, sys)));
+                    json_array_append_new(row, jnum(shown(t->nums[at], t->cols[c].q, sys, c < 64 ? mags[c] : NAN, 9)));
             }
             json_array_append_new(rows, row);
         }

@@ -13,7 +13,7 @@ static const sr_plaus_rule RULES[SR_PLAUS_NKINDS] = {
     {SR_PLAUS_MASS, SR_Q_MASS, 0.005, 1.0e4, "lighter than any payload a canopy is sized for",
      "heavier than the payloads this tool is meant for", "is the unit right?"},
     /* the largest canopies flown are about 40-50 m across (from memory); pilot chutes about 0.1-0.2 m */
-    {SR_PLAUS_CANOPY_D0, SR_Q_LENGTH, 0.1, 50.0, "smaller than any recovery canopy",
+    {SR_PLAUS_CANOPY_D0, SR_Q_SIZE, 0.1, 50.0, "smaller than any recovery canopy",
      "wider than the largest canopies built (about 40-50 m)", "is the unit right?"},
     /* recovery canopies land at about 3-8 m/s (common practice); under 1 m/s the canopy is
      * far too large for the mass, which is what a unit slip in either produces */
