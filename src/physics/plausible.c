@@ -35,8 +35,8 @@ const sr_plaus_rule *sr_plausible_rule(sr_plaus_kind kind)
 /* A value in the unit system with its unit, three significant digits. */
 static void fmt(char *buf, size_t len, double si, sr_quantity q, sr_unit_system sys)
 {
-    double v = sr_units_from_si(si, q, sys);
-    snprintf(buf, len, fabs(v) >= 1000.0 ? "%.0f %s" : "%.3g %s", v, sr_units_label(q, sys));
+    double v = sr_units_from_si_at(si, q, sys, fabs(si));
+    snprintf(buf, len, fabs(v) >= 1000.0 ? "%.0f %s" : "%.3g %s", v, sr_units_label_at(q, sys, fabs(si)));
 }
 
 int sr_plausible_check(sr_plaus_kind kind, double si, const char *what, sr_unit_system sys, char *buf, size_t len)
