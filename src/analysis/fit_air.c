@@ -41,15 +41,11 @@ int fit_air_build(fit_air *a, const sr_atmos *atm, double zlo, double zhi, doubl
         return sr_error_set(err, SR_EDOMAIN, "the log's heights (%.0f .. %.0f m above sea level) lie outside the "
                                              "atmosphere model (%.0f .. %.0f m)", zlo, zhi, mlo, mhi);
     size_t n = (size_t)ceil((zhi - zlo) / NODE_STEP) + 1;
-    double step = NODE_STEP;
-    if (n > NODES_MAX) {
+    if (n > NODES_MAX)
         n = NODES_MAX;
-        step = (zhi - zlo) / (double)(n - 1);
-    }
-    if (n < 4) {
+    if (n < 4)
         n = 4;
-        step = (zhi - zlo) / 3.0;
-    }
+    double step = (zhi - zlo) / (double)(n - 1);
     a->n = n;
     a->z = malloc(n * sizeof *a->z);
     a->k1 = malloc(n * sizeof *a->k1);
@@ -92,9 +88,10 @@ int fit_air_build(fit_air *a, const sr_atmos *atm, double zlo, double zhi, doubl
     }
     for (size_t i = 1; i < n; i++)
         if (!(a->nlnp[i] > a->nlnp[i - 1])) {
+            double zi = a->z[i];
             fit_air_free(a);
             return sr_error_set(err, SR_EDOMAIN, "the atmosphere's pressure does not fall with altitude near %.0f m",
-                                a->z[i]);
+                                zi);
         }
     a->iF = gsl_interp_alloc(gsl_interp_cspline, n);
     a->ik1 = gsl_interp_alloc(gsl_interp_cspline, n);

