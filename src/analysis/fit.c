@@ -26,9 +26,9 @@
 #define RESID_FLOOR 0.05
 #define MAX_ROUNDS 8
 /* Settling after a deployment: the drag transient decays with the time
- * constant v/g; after 3.5 of them the rate is within 0.2 % of steady (tanh
+ * constant v/g; after 4.5 of them the rate is within 0.03 % of steady (tanh
  * from rest), plus 1 s for line stretch and filling. Our choice. */
-#define SETTLE_TAU 3.5
+#define SETTLE_TAU SR_FIT_SETTLE_TAU
 #define SETTLE_PAD 1.0
 #define END_PAD 0.5
 

@@ -23,6 +23,9 @@
 /* Widest interval a result is given with: upper over lower bound of CdS. A
  * wider one is "not determined" (exit 1), never a number. Our choice. */
 #define SR_FIT_MAX_CI_RATIO 4.0
+/* The window of a stage starts this many time constants v/g and 1 s after
+ * its deployment (the transient has decayed; docs/method.md section 11). */
+#define SR_FIT_SETTLE_TAU 4.5
 
 /* Where the deployments come from. */
 typedef enum sr_fit_events {
