@@ -237,12 +237,175 @@ static void test_coverage_correlated(void **state)
     coverage(&S, 200, "AR(1) noise 1.5 m, correlation 0.6, spikes, dropout");
 }
 
+
+/* ---- pressure altitude on a hot day, by hand from the 1976 standard ---- */
+
+#define R_STAR 8.31432
+#define M0 28.9644e-3
+#define LAPSE 0.0065
+#define T0 288.15
+#define P0 101325.0
+#define R0 6356766.0
+
+static double geopot(double z)
+{
+    return R0 * z / (R0 + z);
+}
+
+/* 1976 eq. 33a in the first layer, base temperature Tb at geopotential Hb, pressure pb */
+static double p_layer(double H, double Tb, double Hb, double pb)
+{
+    return pb * pow((Tb - LAPSE * (H - Hb)) / Tb, G0 * M0 / (R_STAR * LAPSE));
+}
+
+static double H_layer(double p, double Tb, double Hb, double pb)
+{
+    return Hb + Tb / LAPSE * (1.0 - pow(p / pb, R_STAR * LAPSE / (G0 * M0)));
+}
+
+static void test_pressure_altitude_hot_day(void **state)
+{
+    (void)state;
+    /* the desert site of the demo mission: 1380 m, 38 C, 858 hPa; a hot day */
+    double zs = 1380.0, Ts = 311.15, ps = 85800.0;
+    double Hs = geopot(zs);
+    double Tb = Ts; /* the site model keeps T - T_std at all heights: the layer's base temperature is Ts at Hs */
+    double Hpad = H_layer(ps, T0, 0.0, P0); /* the altimeter's zero: the pressure altitude of the pad */
+    /* a log: true height falling 9 m/s from 2000 m; the reading is the pressure altitude above the pad */
+    size_t cap = 200000, len = 0;
+    char *b = malloc(cap);
+    len += (size_t)snprintf(b + len, cap - len, "time [s],height [m]\n");
+    double truth[600];
+    size_t rows = 0;
+    for (double t = 0; t < 230.0 + 4.0; t += 0.5) {
+        double h = t < 230.0 ? 2000.0 - 8.7 * t : 0.0;
+        if (h < 0)
+            h = 0;
+        double p = p_layer(geopot(zs + h), Tb, Hs, ps);
+        double reading = H_layer(p, T0, 0.0, P0) - Hpad;
+        truth[rows++] = h;
+        len += (size_t)snprintf(b + len, cap - len, "%.2f,%.6f\n", t, reading);
+    }
+    sr_flightlog log;
+    sr_error e;
+    if (sr_flightlog_parse(&log, "hot.csv", b, len, 0, &e))
+        fail_msg("%s", e.msg);
+    free(b);
+    sr_atmos atm;
+    if (sr_atmos_init_site(&atm, zs, Ts, ps, &e))
+        fail_msg("%s", e.msg);
+    sr_fit_setup s;
+    sr_fit_setup_init(&s);
+    s.atmos = &atm;
+    s.ground = zs;
+    s.pressure_altitude = 1;
+    s.mass = 5.0;
+    sr_fit_result r;
+    if (sr_fit_log(&log, &s, &r, &e))
+        fail_msg("%s", e.msg);
+    static const size_t ROWS[] = {0, 100, 200, 300, 400};
+    for (size_t k = 0; k < sizeof ROWS / sizeof ROWS[0]; k++) {
+        size_t i = ROWS[k];
+        if (i >= rows || i >= r.n)
+            continue;
+        char q[160];
+        snprintf(q, sizeof q, "true height from a pressure altitude of %.1f m, site 1380 m 38 C 858 hPa, m",
+                 log.v[i]);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_1976, truth[i], r.h[i], 0.02);
+    }
+    /* on this hot day the pressure altitude reads the height change short: the conversion lowers CdS */
+    assert_true(r.stage[0].cds < r.stage[0].cds_raw);
+    sr_fit_result_free(&r);
+    sr_flightlog_free(&log);
+    sr_atmos_free(&atm);
+}
+
+/* ---- logs made by the staged descent of each demo mission, fitted back ---- */
+
+static void test_profile_logs_fitted_back(void **state)
+{
+    (void)state;
+    static const struct {
+        const char *file;
+        double hz;
+    } MISSIONS[] = {{"payloads/desert-club-rocket.yaml", 20},
+                    {"payloads/desert-club-rocket-revised.yaml", 20},
+                    {"payloads/drone-cargo-drop.yaml", 20},
+                    {"payloads/balloon-instrument.yaml", 2}};
+    for (size_t q = 0; q < sizeof MISSIONS / sizeof MISSIONS[0]; q++) {
+        sr_mission *m = calloc(1, sizeof *m);
+        sr_error e;
+        if (sr_mission_load(m, sr_test_path(MISSIONS[q].file), CAT, &e))
+            fail_msg("%s", e.msg);
+        sr_profile_ctx *ctx;
+        if (sr_profile_ctx_new(&ctx, m, NULL, &e))
+            fail_msg("%s", e.msg);
+        sr_profile_track tr = {.cap = 400000, .dt = 0.05};
+        tr.pt = malloc(tr.cap * sizeof *tr.pt);
+        sr_profile_result *res = malloc(sizeof *res);
+        if (sr_profile_run(ctx, NULL, SR_PROFILE_FULL, NULL, res, &tr, &e))
+            fail_msg("%s", e.msg);
+        /* the log: height above ground at a fixed rate from the start, 3 s on the ground after */
+        double tend = res->descent_time + 3.0;
+        size_t cap = (size_t)(tend * MISSIONS[q].hz + 16) * 32 + 64, len = 0, k = 0;
+        char *b = malloc(cap);
+        len += (size_t)snprintf(b + len, cap - len, "time [s],height [m]\n");
+        for (size_t i = 0;; i++) {
+            double t = (double)i / MISSIONS[q].hz;
+            if (t > tend)
+                break;
+            double h = 0;
+            if (t < res->descent_time) {
+                while (k + 1 < tr.n && tr.pt[k + 1].t <= t)
+                    k++;
+                const sr_profile_point *a = &tr.pt[k], *c = &tr.pt[k + 1 < tr.n ? k + 1 : k];
+                double u = c->t > a->t ? (t - a->t) / (c->t - a->t) : 0;
+                h = a->h + u * (c->h - a->h);
+            }
+            len += (size_t)snprintf(b + len, cap - len, "%.3f,%.4f\n", t, h);
+        }
+        sr_flightlog log;
+        if (sr_flightlog_parse(&log, MISSIONS[q].file, b, len, 0, &e))
+            fail_msg("%s", e.msg);
+        free(b);
+        sr_fit_setup s;
+        sr_fit_setup_init(&s);
+        s.atmos = &m->atmos;
+        s.ground = m->ground;
+        if (sr_fit_stages_from_mission(m, &s, &e))
+            fail_msg("%s", e.msg);
+        sr_fit_result r;
+        if (sr_fit_log(&log, &s, &r, &e))
+            fail_msg("%s: %s", MISSIONS[q].file, e.msg);
+        for (size_t st = 0; st < m->nstages; st++) {
+            double want = sr_canopy_total_cds(&m->stages[st].canopy).typ;
+            char what[200];
+            snprintf(what, sizeof what, "%s, stage %s: canopy drag area fitted to its profile log, m2",
+                     MISSIONS[q].file + 9, m->stages[st].name);
+            print_message("%s: %.5f (mission %.5f), CI %.5f .. %.5f\n", what, r.stage[st].own, want,
+                          r.stage[st].own_lo, r.stage[st].own_hi);
+            CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, what,
+                            "the mission's drag area (typical CD0 x S0), flown by sr_profile_run (full mode)", want,
+                            r.stage[st].own, 0.005);
+        }
+        sr_fit_result_free(&r);
+        sr_flightlog_free(&log);
+        free(res);
+        free(tr.pt);
+        sr_profile_ctx_free(ctx);
+        sr_mission_free(m);
+        free(m);
+    }
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_synthetic_recovers),
         cmocka_unit_test(test_coverage_white),
         cmocka_unit_test(test_coverage_correlated),
+        cmocka_unit_test(test_pressure_altitude_hot_day),
+        cmocka_unit_test(test_profile_logs_fitted_back),
     };
     return cmocka_run_group_tests_name("fit", tests, setup, teardown);
 }

@@ -124,7 +124,7 @@ static int drag_figure(sr_cli *c, sr_plot *p, sr_fit_result **res, size_t nlogs,
             break;
         for (size_t i = 0; i < R->n && !rc; i++) {
             double v = R->cds_local[i];
-            double row[] = {L(c, R->h[i]), sr_units_from_si(v, SR_Q_AREA, c->units)};
+            double row[] = {L(c, R->smooth[i] - R->ground), sr_units_from_si(v, SR_Q_AREA, c->units)};
             if (!isnan(v) && R->t[i] >= R->stage[0].t0 - 1.0)
                 rc = sr_plot_row(p, blk, row);
         }
