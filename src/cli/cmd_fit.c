@@ -611,6 +611,11 @@ int sr_cmd_fit(sr_cli *c, int argc, char **argv)
             s->last_canopy = last;
         }
     }
+    if (o.write_canopy && !mis && !s->last_canopy) {
+        rc = sr_cli_fail(c, "--write-canopy: the last stage has no canopy (family and size): give --mission, or "
+                            "--family and a size");
+        goto out;
+    }
     /* each log */
     for (size_t l = 0; l < nlogs; l++) {
         const char *path = argv[first + (int)l];

@@ -119,39 +119,6 @@ static int check(sr_flightlog *l, const sr_csvtable *t, double max_gap, sr_error
     if (t->col[C_EAST] && t->col[C_LAT])
         return fail_cell(l, SIZE_MAX, t->field[C_LAT], err,
                          "give positions once: east/north or latitude/longitude, not both");
-    if (l->n < SR_FLIGHTLOG_MIN_ROWS) {
-        snprintf(msg, sizeof msg, "the log has %zu rows; a fit needs at least %d", l->n, SR_FLIGHTLOG_MIN_ROWS);
-        return fail_cell(l, l->n - 1, 0, err, msg);
-    }
-    /* times: strictly increasing */
-    for (size_t i = 1; i < l->n; i++) {
-        if (l->t[i] == l->t[i - 1]) {
-            snprintf(msg, sizeof msg, "time %.10g s repeats the row before (line %zu)", l->t[i], l->line[i - 1]);
-            return fail_cell(l, i, l->field_t, err, msg);
-        }
-        if (l->t[i] < l->t[i - 1]) {
-            snprintf(msg, sizeof msg, "time %.10g s is earlier than the row before (%.10g s); the rows must be in "
-                                      "time order", l->t[i], l->t[i - 1]);
-            return fail_cell(l, i, l->field_t, err, msg);
-        }
-    }
-    double *d = malloc((l->n - 1) * sizeof *d);
-    if (!d)
-        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", l->path);
-    for (size_t i = 1; i < l->n; i++)
-        d[i - 1] = l->t[i] - l->t[i - 1];
-    qsort(d, l->n - 1, sizeof *d, cmp_double);
-    l->step = d[(l->n - 1) / 2];
-    free(d);
-    double gap = max_gap > 0 ? max_gap : fmax(1.0, 10.0 * l->step);
-    for (size_t i = 1; i < l->n; i++)
-        if (l->t[i] - l->t[i - 1] > gap) {
-            snprintf(msg, sizeof msg,
-                     "a gap of %.4g s in the log after %.10g s (its step is %.4g s, the longest dropout accepted "
-                     "%.4g s; --max-gap sets it)",
-                     l->t[i] - l->t[i - 1], l->t[i - 1], l->step, gap);
-            return fail_cell(l, i, l->field_t, err, msg);
-        }
     for (size_t i = 0; i < l->n; i++) {
         double v = l->v[i];
         if (l->vertical == SR_LOG_PRESSURE && !(v >= SR_FLIGHTLOG_P_MIN && v <= SR_FLIGHTLOG_P_MAX)) {
@@ -171,6 +138,37 @@ static int check(sr_flightlog *l, const sr_csvtable *t, double max_gap, sr_error
             return fail_cell(l, i, l->field_acc, err, msg);
         }
     }
+    /* times: strictly increasing (the values come first: a wrong unit says more than a short log) */
+    for (size_t i = 1; i < l->n; i++) {
+        if (l->t[i] == l->t[i - 1]) {
+            snprintf(msg, sizeof msg, "time %.10g s repeats the row before (line %zu)", l->t[i], l->line[i - 1]);
+            return fail_cell(l, i, l->field_t, err, msg);
+        }
+        if (l->t[i] < l->t[i - 1]) {
+            snprintf(msg, sizeof msg, "time %.10g s is earlier than the row before (%.10g s); the rows must be in "
+                                      "time order", l->t[i], l->t[i - 1]);
+            return fail_cell(l, i, l->field_t, err, msg);
+        }
+    }
+    if (l->n < 2)
+        return fail_cell(l, 0, 0, err, "the log has one row; a fit needs at least 20");
+    double *d = malloc((l->n - 1) * sizeof *d);
+    if (!d)
+        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", l->path);
+    for (size_t i = 1; i < l->n; i++)
+        d[i - 1] = l->t[i] - l->t[i - 1];
+    qsort(d, l->n - 1, sizeof *d, cmp_double);
+    l->step = d[(l->n - 1) / 2];
+    free(d);
+    double gap = max_gap > 0 ? max_gap : fmax(1.0, 10.0 * l->step);
+    for (size_t i = 1; i < l->n; i++)
+        if (l->t[i] - l->t[i - 1] > gap) {
+            snprintf(msg, sizeof msg,
+                     "a gap of %.4g s in the log after %.10g s (its step is %.4g s, the longest dropout accepted "
+                     "%.4g s; --max-gap sets it)",
+                     l->t[i] - l->t[i - 1], l->t[i - 1], l->step, gap);
+            return fail_cell(l, i, l->field_t, err, msg);
+        }
     if (t->col[C_LAT]) {
         for (size_t i = 0; i < l->n; i++) {
             double la = t->col[C_LAT][i], lo = t->col[C_LON][i];
@@ -179,6 +177,10 @@ static int check(sr_flightlog *l, const sr_csvtable *t, double max_gap, sr_error
             if (!(fabs(lo) <= SR_PI_))
                 return fail_cell(l, i, t->field[C_LON], err, "longitude is outside -180 .. 180 deg");
         }
+    }
+    if (l->n < SR_FLIGHTLOG_MIN_ROWS) {
+        snprintf(msg, sizeof msg, "the log has %zu rows; a fit needs at least %d", l->n, SR_FLIGHTLOG_MIN_ROWS);
+        return fail_cell(l, l->n - 1, 0, err, msg);
     }
     return SR_OK;
 }
