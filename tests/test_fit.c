@@ -398,6 +398,124 @@ static void test_profile_logs_fitted_back(void **state)
     }
 }
 
+/* ---- the command ---- */
+
+#define DEMO_ARGS "fit", sr_test_path("payloads/demo-flight.csv"), "--mission", \
+    sr_test_path("payloads/desert-club-rocket.yaml"), "--pressure-altitude"
+
+static void test_cli_demo(void **state)
+{
+    (void)state;
+    char *out, *err;
+    /* text, CSV and JSON, each with the caution */
+    static const char *const FORMATS[] = {"text", "csv", "json"};
+    for (int f = 0; f < 3; f++) {
+        int rc = sr_test_cli(&out, &err, DEMO_ARGS, "--format", FORMATS[f], NULL);
+        if (rc)
+            fail_msg("exit %d: %s", rc, err);
+        assert_true(strstr(out, "CAUTION") || strstr(out, "caution"));
+        assert_non_null(strstr(out, f == 0 ? "inside" : "in_band"));
+        free(out);
+        free(err);
+    }
+    /* a canopy file that the loaders accept, with the measured band */
+    const char *canopy = sr_test_tmpfile(".yaml", "");
+    int rc = sr_test_cli(&out, &err, DEMO_ARGS, "--write-canopy", canopy, "--stage", "main", NULL);
+    if (rc)
+        fail_msg("exit %d: %s", rc, err);
+    free(out);
+    free(err);
+    sr_canopy cp;
+    sr_error e;
+    if (sr_catalog_load_canopy(&cp, CAT, canopy, &e))
+        fail_msg("%s", e.msg);
+    assert_true(cp.measured);
+    assert_true(cp.cd.v.lo < cp.cd.v.typ && cp.cd.v.typ < cp.cd.v.hi);
+    assert_non_null(strstr(cp.cd_source, "demo-flight.csv"));
+    /* the demo was flown with the conical main at its typical CD0: the measured band holds it */
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "main CD0 measured from the demo log, written to a canopy file",
+                    "the demo mission's typical CD0 of the conical family (the log's truth)", 0.825, cp.cd.v.typ,
+                    0.01);
+    /* rate takes it like any canopy file */
+    rc = sr_test_cli(&out, &err, "rate", "--canopy", canopy, "--mass", "5.3 kg", NULL);
+    assert_int_equal(rc, 0);
+    free(out);
+    free(err);
+    /* two flights pooled (the same log twice: the pooled interval is the single one over sqrt 2) */
+    rc = sr_test_cli(&out, &err, DEMO_ARGS, sr_test_path("payloads/demo-flight.csv"), "--format", "csv", NULL);
+    if (rc)
+        fail_msg("exit %d: %s", rc, err);
+    assert_non_null(strstr(out, "pooled"));
+    free(out);
+    free(err);
+    /* a wind table a mission can read */
+    const char *wind = sr_test_tmpfile(".csv", "");
+    rc = sr_test_cli(&out, &err, DEMO_ARGS, "--write-wind", wind, NULL);
+    assert_int_equal(rc, 0);
+    free(out);
+    free(err);
+    char mission[1024];
+    snprintf(mission, sizeof mission,
+             "mission: w\nsite: {elevation: 1380 m, wind: {file: %s}}\nsections:\n  - {name: a, mass: 5 kg}\n"
+             "stages:\n  - {name: main, family: conical, nominal-diameter: 2.2 m, deploy: apogee}\n"
+             "start: {height: 200 m}\n",
+             wind);
+    sr_mission *m = calloc(1, sizeof *m);
+    if (sr_mission_load(m, sr_test_tmpfile(".yaml", mission), CAT, &e))
+        fail_msg("the wind table: %s", e.msg);
+    sr_mission_free(m);
+    free(m);
+}
+
+static void test_cli_figures(void **state)
+{
+    (void)state;
+    for (int hide = 0; hide < 2; hide++) {
+        char prefix[256];
+        snprintf(prefix, sizeof prefix, "%s", sr_test_tmpfile("", ""));
+        char *argv[] = {"sinkrate", "fit", (char *)sr_test_path("payloads/demo-flight.csv"), "--mission",
+                        (char *)sr_test_path("payloads/desert-club-rocket.yaml"), "--pressure-altitude", "--plot",
+                        prefix, NULL};
+        char *out, *err;
+        char a0[1024], a1[1024];
+        snprintf(a0, sizeof a0, "%s", argv[2]);
+        snprintf(a1, sizeof a1, "%s", argv[4]);
+        argv[2] = a0;
+        argv[4] = a1;
+        sr_test_cli_figure(&out, &err, hide, 8, argv);
+        free(out);
+        free(err);
+        sr_test_check_figure(prefix, !hide, 1000, 650, "fit figure");
+        char p2[300];
+        snprintf(p2, sizeof p2, "%s-drag", prefix);
+        sr_test_check_figure(p2, !hide, 1000, 650, "fit drag-area figure");
+        snprintf(p2, sizeof p2, "%s-opening", prefix);
+        sr_test_check_figure(p2, !hide, 1000, 650, "fit opening figure");
+    }
+}
+
+/* a fit that cannot stand behind a number: exit 1, one line, nothing on stdout */
+static void test_cli_not_determined(void **state)
+{
+    (void)state;
+    /* the sections' own drag area is said to be larger than all the drag the log shows */
+    const char *m = sr_test_tmpfile(".yaml",
+                                    "mission: x\nsite: {elevation: 1380 m, temperature: 38 C, pressure: 858 hPa}\n"
+                                    "sections:\n  - {name: a, mass: 5.3 kg, drag-area: 5 m2}\n"
+                                    "stages:\n  - {name: drogue, family: cross, nominal-diameter: 0.9 m, deploy: apogee}\n"
+                                    "  - {name: main, family: conical, nominal-diameter: 2.2 m, deploy: {height: 250 m}}\n");
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "fit", sr_test_path("payloads/demo-flight.csv"), "--mission", m,
+                         "--pressure-altitude", NULL);
+    print_message("exit %d: %s", rc, err);
+    assert_int_equal(rc, 1);
+    assert_int_equal(sr_test_lines(err), 1);
+    assert_non_null(strstr(err, "not determined"));
+    assert_string_equal(out, "");
+    free(out);
+    free(err);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -406,6 +524,9 @@ int main(void)
         cmocka_unit_test(test_coverage_correlated),
         cmocka_unit_test(test_pressure_altitude_hot_day),
         cmocka_unit_test(test_profile_logs_fitted_back),
+        cmocka_unit_test(test_cli_demo),
+        cmocka_unit_test(test_cli_figures),
+        cmocka_unit_test(test_cli_not_determined),
     };
     return cmocka_run_group_tests_name("fit", tests, setup, teardown);
 }
