@@ -383,7 +383,7 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
     for (size_t i = 0; i < n; i++) {
         double v = log->v[i];
         double zz = log->vertical == SR_LOG_PRESSURE ? approx_std_altitude(v)
-                    : log->vertical == SR_LOG_HEIGHT ? zg + v + (s->pressure_altitude ? approx_std_altitude(0) : 0)
+                    : log->vertical == SR_LOG_HEIGHT ? zg + v
                                                      : v;
         lo = fmin(lo, zz);
         hi = fmax(hi, zz);
