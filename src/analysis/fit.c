@@ -675,12 +675,16 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
             st->cd0_hi = sr_fit_cd0(&sp->canopy, st->own_hi);
             st->band = sr_fit_band_of(&sp->canopy, st->cd0, st->cd0_lo, st->cd0_hi);
         }
-        /* the point estimate along the way, from deployment to the next event */
-        for (size_t i = i0; i < iend; i++)
-            if (r->rate[i] > 0.5) {
-                double kk = fit_air_k1(&air, r->smooth[i]);
-                r->cds_local[i] = sp->mass * kk * kk / (r->rate[i] * r->rate[i]);
-            }
+        /* the point estimate along the way, from deployment to the next event, over a 5 s moving median */
+        for (size_t i = i0; i < iend; i++) {
+            double v = fmax(r->rate[i], 0.5), kk = fit_air_k1(&air, r->smooth[i]);
+            sm[i - i0] = sp->mass * kk * kk / (v * v);
+        }
+        if (iend > i0 && fit_median(sm, r->cds_local + i0, iend - i0,
+                                    fit_odd_window(5.0, log->step, iend - i0, 3), &e) == SR_OK)
+            for (size_t i = i0; i < iend; i++)
+                if (!(r->rate[i] > 0.5))
+                    r->cds_local[i] = NAN;
         if (log->acc && (rc = fit_opening(log, r, sp, st, &air, s->atmos, err)))
             goto done;
     }

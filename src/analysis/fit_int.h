@@ -27,6 +27,10 @@ double fit_air_G(const fit_air *a, double F);
 double fit_air_k1(const fit_air *a, double z);
 double fit_air_z_of_p(const fit_air *a, double p); /* altitude of a pressure */
 
+/* Median filter of window k (odd), and the odd window nearest `seconds`. */
+int fit_median(const double *x, double *y, size_t n, size_t k, sr_error *err);
+size_t fit_odd_window(double seconds, double step, size_t n, size_t min);
+
 /* Segments of one log. */
 typedef struct fit_seg {
     size_t apogee, touch;      /* rows */

@@ -28,7 +28,7 @@
 #define CHANGE_MIN 1.0      /* m/s: the smallest drop taken for a deployment */
 #define CHANGE_GAP_S 8.0    /* two deployments at least this far apart */
 
-static size_t odd_window(double seconds, double step, size_t n, size_t min)
+size_t fit_odd_window(double seconds, double step, size_t n, size_t min)
 {
     size_t k = (size_t)lround(seconds / step);
     if (k < min)
@@ -40,7 +40,7 @@ static size_t odd_window(double seconds, double step, size_t n, size_t min)
     return k < 1 ? 1 : k;
 }
 
-static int median_filter(const double *x, double *y, size_t n, size_t k, sr_error *err)
+int fit_median(const double *x, double *y, size_t n, size_t k, sr_error *err)
 {
     if (k <= 1) {
         memcpy(y, x, n * sizeof *y);
@@ -59,7 +59,7 @@ static int median_filter(const double *x, double *y, size_t n, size_t k, sr_erro
 int fit_smooth(const double *t, const double *z, size_t n, double step, double *smooth, double *rate,
                double *noise, sr_error *err)
 {
-    int rc = median_filter(z, smooth, n, odd_window(MEDIAN_S, step, n, 5), err);
+    int rc = fit_median(z, smooth, n, fit_odd_window(MEDIAN_S, step, n, 5), err);
     if (rc)
         return rc;
     double *d = malloc(n * sizeof *d);
@@ -166,7 +166,7 @@ int fit_segments(const sr_flightlog *log, const double *t, const double *smooth,
     double kg = fit_air_k1(air, zground);
     for (size_t j = 0; j < m; j++)
         u[j] = rate[ap + j] * kg / fit_air_k1(air, smooth[ap + j]);
-    int rc = median_filter(u, M, m, odd_window(CHANGE_S, log->step, m, 3), err);
+    int rc = fit_median(u, M, m, fit_odd_window(CHANGE_S, log->step, m, 3), err);
     /* the scatter of the smoothed rate about its moving median, robust */
     double unoise = 0.0;
     if (!rc) {
