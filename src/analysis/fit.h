@@ -3,7 +3,7 @@
  * segments (apogee, deployments, touchdown), a robust nonlinear least-squares
  * fit of CdS per stage (GSL gsl_multifit_nlinear) with a 95 % interval, the
  * opening from acceleration, the wind from positions, and several flights
- * pooled. The method and its coverage check: docs/method.md, section 11. */
+ * pooled. The method and its coverage check: docs/method.md, section 12. */
 #ifndef SR_FIT_H
 #define SR_FIT_H
 
@@ -24,7 +24,7 @@
  * wider one is "not determined" (exit 1), never a number. Our choice. */
 #define SR_FIT_MAX_CI_RATIO 4.0
 /* The window of a stage starts this many time constants v/g and 1 s after
- * its deployment (the transient has decayed; docs/method.md section 11). */
+ * its deployment (the transient has decayed; docs/method.md section 12). */
 #define SR_FIT_SETTLE_TAU 4.5
 
 /* Where the deployments come from. */

@@ -794,7 +794,7 @@ int sr_cmd_fit(sr_cli *c, int argc, char **argv)
                       "0.5 s before the next event. Interval: t quantile x the standard error of ln CdS from the "
                       "Jacobian and the residual variance, times (1 + r1)/(1 - r1) for a lag-1 residual "
                       "correlation r1 > 0; its coverage is checked on seeded synthetic logs (docs/method.md, "
-                      "section 11).",
+                      "section 12).",
                    SR_FIT_SETTLE_TAU);
     sr_report_note(r, "The canopy's CdS is the total less what else is open: the sections' own drag areas and, for "
                       "a stage that keeps the one before, that stage's fitted total. Vertical air motion (thermals, "

@@ -97,8 +97,7 @@ int sr_canopy_from_size(sr_canopy *c, const sr_family *fam, sr_size_kind kind, d
     if (!isfinite(value) || value <= 0.0)
         return sr_error_set(err, SR_EINVAL, "the canopy %s must be a positive number (got %g)",
                             sr_size_kind_name(kind), value);
-    double maxlen = 200.0; /* m: larger than any canopy flown; catches unit slips (cm read as m) */
-    double minlen = 0.01;  /* m: smaller than any canopy that flies; catches the slip the other way */
+    double maxlen = SR_CANOPY_SIZE_MAX, minlen = SR_CANOPY_SIZE_MIN;
     if ((kind == SR_SIZE_NOMINAL_AREA && value > maxlen * maxlen) || (kind != SR_SIZE_NOMINAL_AREA && value > maxlen))
         return sr_error_set(err, SR_EINVAL, "a canopy %s of %g %s is beyond any canopy built; check the unit",
                             sr_size_kind_name(kind), value, kind == SR_SIZE_NOMINAL_AREA ? "m2" : "m");
@@ -204,5 +203,19 @@ sr_band sr_canopy_total_cds(const sr_canopy *c)
 {
     double k = c->count * c->cluster_factor;
     sr_band b = {c->cds.lo * k, c->cds.typ * k, c->cds.hi * k};
+    return b;
+}
+
+sr_band sr_canopy_cd0_band(const sr_canopy *c)
+{
+    if (!c->measured)
+        return c->fam.cd0.v;
+    sr_band ratio = {1, 1, 1};
+    if (c->cd.ref == SR_REF_PROJECTED)
+        ratio = c->fam.dp_d0;
+    else if (c->cd.ref == SR_REF_CONSTRUCTED)
+        ratio = c->fam.dc_d0;
+    double v = c->cd.v.typ;
+    sr_band b = {v * ratio.lo * ratio.lo, v * ratio.typ * ratio.typ, v * ratio.hi * ratio.hi};
     return b;
 }
