@@ -62,6 +62,9 @@ done <<EOF_LIST
 2 profile "$tmp/bad.yaml"
 2 freefall --cd-table "$tmp/bad-drag.csv" --diameter 10cm --mass 1kg
 2 dispersion "$M" -n 200 --samples "$tmp/missing/dir/s.csv"
+0 fit "$root/payloads/demo-flight.csv" --mission "$M" --pressure-altitude --write-canopy "$tmp/main.yaml" --write-wind "$tmp/wind.csv" --plot "$tmp/fit"
+0 fit "$root/payloads/demo-flight.csv" "$root/payloads/demo-flight.csv" --mass 5.3kg --format json
+2 fit "$tmp/bad-drag.csv" --mass 2kg
 0 rate --mass 50kg --nominal-diameter 30cm --altitude 30km --family conical --units us
 0 sweep --mass 50kg --family conical --vary speed --values 0.8m/s,200m/s --altitude 20km
 1 sweep --mass 2kg --family conical --vary speed --values 0.01m/s

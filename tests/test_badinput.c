@@ -67,6 +67,11 @@ typedef struct bad_case {
 #define FAMILY FAM_HEAD FAM_CD FAM_REST
 #define SOUNDING_HEAD "altitude [m],temperature [C],pressure [hPa]\n"
 
+/* fit: flight logs */
+#define LOGH "time [s],height [m]\n"
+#define L20 "2,480\n3,470\n4,460\n5,450\n6,440\n7,430\n8,420\n9,410\n10,400\n11,390\n12,380\n13,370\n14,360\n15,350\n16,340\n17,330\n18,320\n19,310\n20,300\n21,290\n"
+#define FIT "fit", "@IN@", "--mass", "2 kg"
+
 /* Common command lines. */
 #define SIZE_MISSION "size", "--mission", "@IN@", "--speed", "5 m/s"
 #define RATE_MISSION "rate", "--mission", "@IN@"
@@ -659,6 +664,39 @@ static const bad_case BAD[] = {
      "needs sigma"},
     {{DISPERSION}, PMISSION "uncertainty: {drag: {main: uniform}, drag: x}\n", NULL, 0, "@IN@:10:38",
      "duplicate key 'drag'"},
+    /* ---- fit: the flight log and its options ---- */
+    {{"fit"}, NULL, NULL, 0, "fit", "give one or more flight logs"},
+    {{FIT}, NULL, NULL, 0, "@IN@", "cannot open"},
+    {{FIT}, LOGH "0,500\n1,495\n0.5,494\n" L20, NULL, 0, "@IN@:4:1", "earlier than the row before"},
+    {{FIT}, LOGH "0,500\n1,495\n1,494\n" L20, NULL, 0, "@IN@:4:1", "repeats the row before"},
+    {{FIT}, LOGH "0,500\n1,495\n" L20 "40,100\n", NULL, 0, "@IN@:24:1", "a gap of 19 s"},
+    {{FIT, "--max-gap", "0.5 s"}, LOGH "0,500\n1,495\n" L20, NULL, 0, "@IN@:3:1", "a gap of 1 s"},
+    {{FIT}, "time [s],height\n0,500\n" L20, NULL, 0, "@IN@:1:10", "needs a unit"},
+    {{FIT}, LOGH "0,500\n1,nan\n" L20, NULL, 0, "@IN@:3:3", "column 'height'"},
+    {{FIT}, LOGH "0,500\n1,\n" L20, NULL, 0, "@IN@:3:3", "empty cell"},
+    {{FIT}, "time [s],pressure [Pa]\n0,850\n1,849\n", NULL, 0, "@IN@:2:3", "check the unit"},
+    {{FIT}, "time [s],pressure [m]\n0,850\n", NULL, 0, "@IN@:1:10", "unknown pressure unit"},
+    {{FIT}, "time [s],height [m],altitude [m]\n0,1,2\n", NULL, 0, "@IN@:1:21", "both 'height' and 'altitude'"},
+    {{FIT}, "time [s],east [m],north [m]\n0,1,2\n", NULL, 0, "@IN@:1:1", "needs a vertical column"},
+    {{FIT}, "time [s],height [m],east [m]\n0,1,2\n", NULL, 0, "@IN@:1:21", "both 'east' and 'north'"},
+    {{FIT}, "time [s],height [m],temperature [C]\n0,1,2\n", NULL, 0, "@IN@:1:21", "unknown column"},
+    {{FIT}, LOGH "0,500\n", NULL, 0, "@IN@:2:1", "at least 20"},
+    {{FIT}, LOGH "0,0\n1,10\n2,20\n3,30\n4,40\n5,50\n6,60\n7,70\n8,80\n9,90\n10,100\n11,110\n12,120\n13,130\n14,140\n15,150\n16,160\n17,170\n18,180\n19,190\n20,200\n21,210\n22,220\n23,230\n", NULL, 0, "@IN@:25:4", "never descends"},
+    {{FIT}, LOGH "0,150\n1,142\n2,134\n3,126\n4,118\n5,110\n6,102\n7,94\n8,86\n9,78\n10,70\n11,62\n12,54\n13,46\n14,38\n15,30\n16,22\n17,14\n18,6\n19,0\n20,0\n21,0\n22,0\n23,0\n24,0\n", NULL, 0, "@IN@:2:1", "too short to fit"},
+    {{"fit", "@IN@"}, LOGH L20, NULL, 0, "fit", "mass"},
+    {{FIT, "--events", "guess"}, LOGH L20, NULL, 0, "--events", "not detect or mission"},
+    {{FIT, "--events", "mission"}, LOGH L20, NULL, 0, "--events", "needs --mission"},
+    {{FIT, "--deploy-times", "apogee,soon"}, LOGH L20, NULL, 0, "--deploy-times", "soon"},
+    {{FIT, "--confidence", "120"}, LOGH L20, NULL, 0, "--confidence", "outside"},
+    {{FIT, "--max-gap", "-1 s"}, LOGH L20, NULL, 0, "--max-gap", ""},
+    {{FIT, "--stage-names", "a,,b"}, LOGH L20, NULL, 0, "--stage-names", "1 to"},
+    {{FIT, "--write-canopy", "@OUT@/c.yaml"}, LOGH L20, NULL, 0, "--write-canopy", "has no canopy"},
+    {{"fit", "@IN@", "--mission", "@IN2@", "--mass", "2 kg"}, LOGH L20, PMISSION, 0, "--mass", "the mission gives"},
+    {{"fit", "@IN@", "--mission", "@IN2@"}, LOGH L20, "mission: m\nsections: [\n", 0, "--mission: @IN2@:3:1",
+     "malformed YAML"},
+    {{FIT, "--write-canopy", "@OUT@/"}, LOGH L20, NULL, 0, "--write-canopy", "directory"},
+    {{FIT, "--write-wind", "/proc/sinkrate-bad-input.csv"}, LOGH L20, NULL, 0, "--write-wind", "cannot write"},
+
     /* ---- --units us: a bare number for a dimensional option is refused (a bare zero is zero in any unit) ---- */
     {{"size", "--units", "us", "--family", "conical", "--speed", "18 ft/s", "--mass", "2"},
      NULL, NULL, 0, "--mass", "give a unit, e.g. 2lb"},
@@ -1163,7 +1201,7 @@ static void test_bad_input_catalogue(void **state)
     assert_true(n >= 100);
     /* every command has rows */
     static const char *const COMMANDS[] = {"size",     "rate",       "sweep", "profile",  "loads",
-                                           "freefall", "dispersion", "air",   "canopies", "check"};
+                                           "freefall", "dispersion", "air",   "canopies", "check", "fit"};
     for (size_t k = 0; k < sizeof COMMANDS / sizeof COMMANDS[0]; k++) {
         size_t rows = 0;
         for (size_t i = 0; i < n; i++)

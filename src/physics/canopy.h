@@ -105,6 +105,9 @@ int sr_canopy_from_size(sr_canopy *c, const sr_family *fam, sr_size_kind kind, d
  * the size was given, the drag area is exact; otherwise it is converted
  * through the family ratios and stays a band. */
 int sr_canopy_set_measured_cd(sr_canopy *c, double cd, sr_ref ref, const char *source, sr_error *err);
+/* The same with a band low / value / high (a measured value with its
+ * confidence interval, as `sinkrate fit --write-canopy` writes it). */
+int sr_canopy_set_measured_band(sr_canopy *c, sr_band cd, sr_ref ref, const char *source, sr_error *err);
 
 /* Make it a cluster of n (1..16) canopies with the given factor (NaN: the
  * default from sr_canopy_cluster_factor). */

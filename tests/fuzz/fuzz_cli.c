@@ -28,8 +28,8 @@ static FILE *devnull;
  * An abbreviation counts, as getopt_long accepts it ("--sam" for --samples).
  * --trajectory and --geojson write through sr_file_write_atomic today; they
  * stay listed until every output goes through one stubbed writer. */
-static const char *const WRITERS[] = {"plot", "plot-format", "plot-size", "samples", "trajectory", "geojson",
-                                      NULL};
+static const char *const WRITERS[] = {"plot",         "plot-format", "plot-size",  "samples", "write-canopy",
+                                      "write-wind",   "trajectory",  "geojson",    NULL};
 
 /* The check before any work makes and removes a probe file in the directory
  * an argument names: while fuzzing, only its checks of the name itself. */
