@@ -33,6 +33,8 @@ static const run_case RUNS[] = {
     {"canopies", {NULL}},
     {"canopies", {"conical", NULL}},
     {"check", {"@canopies/conical.yaml", NULL}},
+    {"fit", {"@payloads/demo-flight.csv", "@payloads/demo-flight.csv", "--mission", "@payloads/desert-club-rocket.yaml",
+             "--pressure-altitude", NULL}},
 };
 
 static int run(const run_case *rc, const char *format, const char *table, char **out, char **err)
@@ -57,8 +59,8 @@ static int run(const run_case *rc, const char *format, const char *table, char *
 static void test_registry_matches_outputs(void **state)
 {
     (void)state;
-    static const char *const CMDS[] = {"size",      "rate", "sweep", "profile",  "loads",
-                                       "freefall", "dispersion", "air", "canopies", "check"};
+    static const char *const CMDS[] = {"size",       "rate", "sweep",    "profile", "loads", "freefall",
+                                       "dispersion", "air",  "canopies", "check",   "fit"};
     for (size_t c = 0; c < sizeof CMDS / sizeof CMDS[0]; c++) {
         const char *const *names = sr_cli_tables(CMDS[c]);
         assert_non_null(names);

@@ -25,6 +25,7 @@ static const cmd_tables TABLES[] = {
     {"air", {"values", "atmosphere", NULL}},
     {"canopies", {"values", "families", NULL}},
     {"check", {"values", "files", NULL}},
+    {"fit", {"values", "segments", "windows", "drag", "rates", "opening", "wind", "pooled", NULL}},
 };
 
 const char *const *sr_cli_tables(const char *cmd)
