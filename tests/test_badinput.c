@@ -912,7 +912,7 @@ static const bad_case BAD[] = {
     {{PROFILE, "--trajectory", "@OUT@/t.csv"}, MISSION, NULL, 0, "@IN@", "no start: block"},
     {{DISPERSION, "--geojson-samples", "10"}, PMISSION, NULL, 0, "--geojson-samples", "goes with --geojson"},
     {{DISPERSION, "--geojson", "@OUT@/m.geojson", "--geojson-samples", "-1"}, PMISSION, NULL, 0,
-     "--geojson-samples", "from 0 to 100000"},
+     "--geojson-samples", "from 0 to 20000"},
     {{DISPERSION, "--geojson", "@OUT@/m.geojson", "--geojson-samples", "many"}, PMISSION, NULL, 0,
      "--geojson-samples", "not a whole number"},
 

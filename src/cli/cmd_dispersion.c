@@ -67,7 +67,7 @@ static const char HELP[] =
     "                           ellipses, 50 % and 95 % circles, the drift limit; the mission\n"
     "                           needs site.latitude and site.longitude\n"
     "  --geojson-samples N      ... and up to N sample landing points (every k-th sample;\n"
-    "                           default 0, at most 100000)\n"
+    "                           default 0, at most 20000)\n"
     "The output does not name the thread count: it is the same bytes for any. The figure\n"
     "(--plot, below) is 1250x700 unless --plot-size is given.\n\n";
 
@@ -736,7 +736,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     long geo_samples = 0;
     if (o.geojson_samples && !o.geojson)
         return sr_cli_fail(c, "--geojson-samples: goes with --geojson FILE");
-    if (o.geojson_samples && (rc = sr_cli_count(c, "--geojson-samples", o.geojson_samples, 0, 100000, &geo_samples)))
+    if (o.geojson_samples && (rc = sr_cli_count(c, "--geojson-samples", o.geojson_samples, 0, 20000, &geo_samples)))
         return rc;
     if (o.geojson && (rc = sr_cli_check_output(c, "--geojson", o.geojson)))
         return rc;
