@@ -448,6 +448,8 @@ static void test_geojson_profile(void **state)
     CHECK_ABS_CLASS(SR_CHECK_FORMAT, "profile map: structure errors", SRC_RFC, 0, bad, 0);
     assert_true(nf >= 8);
     assert_non_null(strstr(json_string_value(json_object_get(map, "caution")), "not for designing"));
+    assert_string_equal(json_string_value(json_object_get(json_object_get(doc, "values"), "launch_point")),
+                        "28.9500 deg N, 105.3500 deg W (WGS 84)");
     sr_geo o;
     sr_error e;
     assert_int_equal(sr_geo_init(&o, 28.95, -105.35, &e), SR_OK);

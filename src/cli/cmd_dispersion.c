@@ -793,6 +793,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     r = sr_report_new("dispersion", "Monte Carlo landing dispersion");
     sr_report_section(r, "Inputs");
     sr_report_text(r, "mission", "mission", m->name);
+    sr_maps_report_position(r, m);
     sr_report_value(r, "samples", "samples", (double)n, SR_Q_NONE, SR_FIXED(0));
     sr_report_value(r, "seed", "seed", (double)seed, SR_Q_NONE, SR_FIXED(0));
     sr_report_text(r, "descent_model", "descent model",

@@ -203,6 +203,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
     sr_report_section(r, "Mission");
     sr_report_text(r, "mission", "mission", m->name);
     sr_report_text(r, "file", "file", m->path);
+    sr_maps_report_position(r, m);
     sr_cli_report_atmos(r, &m->atmos);
     wind_text(c, &m->wind, buf, sizeof buf);
     sr_report_text(r, "wind", "wind", buf);

@@ -24,6 +24,16 @@ int sr_maps_write(sr_cli *c, const char *opt, const char *path, const char *data
     return 0;
 }
 
+void sr_maps_report_position(sr_report *r, const sr_mission *m)
+{
+    if (!m->has_position)
+        return;
+    char buf[128];
+    snprintf(buf, sizeof buf, "%.4f deg %c, %.4f deg %c (WGS 84)", fabs(m->latitude), m->latitude < 0 ? 'S' : 'N',
+             fabs(m->longitude), m->longitude < 0 ? 'W' : 'E');
+    sr_report_text(r, "launch_point", "launch point", buf);
+}
+
 int sr_maps_need_position(sr_cli *c, const char *opt, const sr_mission *m)
 {
     if (!m->has_position)

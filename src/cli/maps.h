@@ -24,6 +24,11 @@ typedef struct sr_map_run {
     const sr_profile_track *tr;
 } sr_map_run;
 
+/* The launch point on the map, when the mission gives it, as a report line
+ * ("28.9500 deg N, 105.3500 deg W (WGS 84)"). */
+struct sr_report;
+void sr_maps_report_position(struct sr_report *r, const sr_mission *m);
+
 /* Refuse --geojson (opt) for a mission without site.latitude and
  * site.longitude, before any work. 0 or an exit code. */
 int sr_maps_need_position(sr_cli *c, const char *opt, const sr_mission *m);
