@@ -382,6 +382,38 @@ static void test_us_units(void **state)
     free(o2);
 }
 
+/* The outside-check status of every catalog value and model is shown by the
+ * command (docs/validation.md reads it from there). */
+static void test_canopies_check_status(void **state)
+{
+    (void)state;
+    char *out, *err;
+    assert_int_equal(sr_test_cli(&out, &err, "canopies", "conical", NULL), 0);
+    assert_non_null(strstr(out, "Outside checks"));
+    assert_non_null(strstr(out, "would be checked by"));
+    assert_non_null(strstr(out, "Table 5-1, Conical row"));
+    free(out);
+    free(err);
+    assert_int_equal(sr_test_cli(&out, &err, "canopies", "disk-gap-band", "--format", "json", NULL), 0);
+    json_t *j = json_loads(out, 0, NULL), *v = json_object_get(j, "values");
+    assert_string_equal(json_string_value(json_object_get(v, "drag_coefficient_outside_check")), "none");
+    assert_non_null(strstr(json_string_value(json_object_get(v, "projected_ratio_outside_check")), "published: "));
+    assert_string_equal(json_string_value(json_object_get(v, "growth_exponent_outside_check")), "none");
+    json_decref(j);
+    free(out);
+    free(err);
+    assert_int_equal(sr_test_cli(&out, &err, "canopies", "--models", "--format", "json", NULL), 0);
+    j = json_loads(out, 0, NULL);
+    v = json_object_get(j, "values");
+    assert_string_equal(json_string_value(json_object_get(v, "x1_envelope_outside_check")), "none");
+    assert_string_equal(json_string_value(json_object_get(v, "cluster_factor_value")),
+                        "0.97 for 2, 0.93 for 3, 0.90 for 4 or more canopies");
+    assert_non_null(strstr(json_string_value(json_object_get(v, "tumbling_drag_to_check")), "Hoerner 1965"));
+    json_decref(j);
+    free(out);
+    free(err);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -394,6 +426,7 @@ int main(void)
         cmocka_unit_test(test_output_file_atomic),
         cmocka_unit_test(test_check_command),
         cmocka_unit_test(test_us_units),
+        cmocka_unit_test(test_canopies_check_status),
     };
     return cmocka_run_group_tests_name("cli_core", tests, NULL, NULL);
 }
