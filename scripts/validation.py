@@ -14,6 +14,7 @@
       Re-count the rows of a written document against its header (exit 1 when
       they disagree).
 """
+import collections
 import json
 import re
 import subprocess
@@ -218,12 +219,26 @@ def not_checked_section(fams, models, model_ids):
         out.append("| %s | %s | %s | %s |" % (cell(mid), cell(mv[k + "_value"]), cell(mv[k + "_source"]),
                                              cell(mv[k + "_to_check"])))
     out += ["", "%d of %d models have no outside check." % (munchecked, len(model_ids)), ""]
+    headline = ("Not yet checked against the world: %d of %d catalog values and %d of %d models (section "
+                "\"Not yet checked against the world\" below)." % (nunchecked, nvalues, munchecked, len(model_ids)))
     if checked:
         out += ["Checked against the world so far:", ""] + ["- " + c for c in checked] + [""]
-    return out
+    return headline, out
 
 
-def write_doc(rows, status_lines):
+def source_head(source):
+    """The start of a source, for the header: up to the first ':' or ';',
+    without an unclosed parenthesis, at most about 64 characters."""
+    head = re.split(r"[:;]", source)[0].strip().rstrip(",")
+    while head.count("(") > head.count(")"):
+        head = head[:head.rfind("(")].rstrip(" ,")
+    if len(head) > 64:
+        head = head[:head.rfind(" ", 0, 61)].rstrip(" ,(") + " ..."
+    return head or source[:40]
+
+
+def write_doc(rows, status):
+    headline, status_lines = status
     c = counts(rows)
     per_class = {k: sum(c[t][k] for t in TOPICS) for k in CLASSES}
     total = len(rows)
@@ -233,7 +248,8 @@ def write_doc(rows, status_lines):
            "`CHECK_REL_CLASS` / `CHECK_ABS_CLASS`, and the reference-library scripts in",
            "tests/ref/). Each row is one assertion with its class, its source, the expected",
            "value, the result and the tolerance. Do not edit by hand.", "", CAUTION, "",
-           "## Summary", "", "**" + summary_sentence(total, failed, per_class) + "**", "",
+           "## Summary", "", "**" + summary_sentence(total, failed, per_class) + "**", ""] + \
+          ([headline, ""] if headline else []) + [
            "What each class means (the same words as in README.md and docs/method.md):", "",
            LEGEND_HEAD, ""] + LEGEND + ["",
            "### Checks per quantity and class", "",
@@ -250,6 +266,17 @@ def write_doc(rows, status_lines):
     out.append("| **all** | %s | **%d** | %s | **%d** |" % (
         " | ".join("**%d**" % per_class[k] for k in CLASSES[:3]), sum(per_class[k] for k in OUTSIDE),
         " | ".join("**%d**" % per_class[k] for k in CLASSES[3:]), total))
+    out += ["", "### What the checks against the world rest on", "",
+            "The most frequent sources of each quantity's checks of an outside class; a quantity without any",
+            "rests on our own work alone.", "", "| quantity | sources (checks) |", "| --- | --- |"]
+    for t in TOPICS:
+        sources = collections.Counter()
+        for r in rows:
+            if r["topic"] == t and r["cls"] in OUTSIDE:
+                sources[source_head(r["source"])] += 1
+        if sum(c[t].values()):
+            out.append("| %s | %s |" % (t, cell("; ".join("%s (%d)" % kv for kv in sources.most_common(5)) or
+                                                "none: no check of an outside class")))
     out.append("")
     out += status_lines
     out += ["## Every check", ""]
@@ -366,7 +393,7 @@ def main(argv):
     rows, problems = read_log(log)
     if not rows and not problems:
         problems.append("%s: no checks logged" % log)
-    status = []
+    status = (None, [])
     if sinkrate:
         try:
             status = not_checked_section(*canopy_status(sinkrate, data))

@@ -38,10 +38,10 @@ static void test_catalog_complete_and_sourced(void **state)
         sr_error e;
         const sr_family *f = sr_catalog_find(c, FAMILIES[i].id, &e);
         assert_non_null(f);
-        CHECK_ABS_CLASS(SR_CHECK_MEMORY, "CD0 low (nominal area)", "Knacke 1991, NWC TP 6575, Tables 5-1/5-2 (from memory)", FAMILIES[i].lo,
-                  f->cd0.v.lo, 1e-12);
-        CHECK_ABS_CLASS(SR_CHECK_MEMORY, "CD0 high (nominal area)", "Knacke 1991, NWC TP 6575, Tables 5-1/5-2 (from memory)",
-                  FAMILIES[i].hi, f->cd0.v.hi, 1e-12);
+        CHECK_ABS_CLASS(SR_CHECK_MEMORY, "CD0 low (nominal area)",
+                        "Knacke 1991, NWC TP 6575, Tables 5-1/5-2 (from memory)", FAMILIES[i].lo, f->cd0.v.lo, 1e-12);
+        CHECK_ABS_CLASS(SR_CHECK_MEMORY, "CD0 high (nominal area)",
+                        "Knacke 1991, NWC TP 6575, Tables 5-1/5-2 (from memory)", FAMILIES[i].hi, f->cd0.v.hi, 1e-12);
         assert_int_equal(f->cd0.ref, SR_REF_NOMINAL);
         const char *srcs[] = {f->cd0_source, f->dp_source, f->dc_source, f->cx_source,
                               f->fill_source, f->osc_source, f->mach_source};

@@ -31,8 +31,9 @@ static void test_demo_size_matches_hand_calculation(void **state)
     double rho = 85800.0 * 28.9644e-3 / (8.31432 * (38.0 + 273.15));
     double r = 6356766.0 / (6356766.0 + 1380.0), g = 9.80665 * r * r;
     double m = 3.4 + 1.9, v = 6.1, cd0 = 0.825; /* conical: midpoint of 0.75-0.90 */
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "demo main canopy S0 by hand (exact)", "hand calculation: 1976 gas law density, Knacke 1991 sec. 4.5",
-              2 * m * g / (rho * v * v * cd0), s0, 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "demo main canopy S0 by hand (exact)",
+                    "hand calculation: 1976 gas law density, Knacke 1991 sec. 4.5", 2 * m * g / (rho * v * v * cd0), s0,
+                    1e-9);
     json_decref(j);
     free(out);
     free(err);
@@ -371,11 +372,12 @@ static void test_us_units(void **state)
     json_t *a = json_loads(o1, 0, NULL), *b = json_loads(o2, 0, NULL);
     json_t *ra = json_array_get(json_object_get(json_object_get(json_object_get(a, "tables"), "rates"), "rows"), 0);
     json_t *rb = json_array_get(json_object_get(json_object_get(json_object_get(b, "tables"), "rates"), "rows"), 0);
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "rate in ft/s vs m/s", "NIST SP 811: 1 ft = 0.3048 m exactly", json_real_value(json_array_get(ra, 3)) / 0.3048,
-              json_real_value(json_array_get(rb, 3)), 1e-7);
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "descent rate, 10 kg under a 2 m flat circular (CD0 0.80)", "canopy-handbook.md 6.2 case A scaled: "
-              "8.243 m/s at CD0 0.75 -> x sqrt(0.75/0.80)", 8.243 * sqrt(0.75 / 0.80),
-              json_real_value(json_array_get(ra, 2)), 1e-4);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "rate in ft/s vs m/s", "NIST SP 811: 1 ft = 0.3048 m exactly",
+                    json_real_value(json_array_get(ra, 3)) / 0.3048, json_real_value(json_array_get(rb, 3)), 1e-7);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "descent rate, 10 kg under a 2 m flat circular (CD0 0.80)",
+                    "canopy-handbook.md 6.2 case A scaled: "
+                    "8.243 m/s at CD0 0.75 -> x sqrt(0.75/0.80)",
+                    8.243 * sqrt(0.75 / 0.80), json_real_value(json_array_get(ra, 2)), 1e-4);
     json_decref(a);
     json_decref(b);
     free(o1);

@@ -50,10 +50,12 @@ static void test_terminal_oracle(void **state)
     for (size_t i = 0; i < sizeof T / sizeof T[0]; i++) {
         sr_air a;
         assert_int_equal(sr_atmos_at(&m, T[i].z, &a, NULL), 0);
-        CHECK_REL_CLASS(SR_CHECK_METHOD, "terminal speed 1 kg, CdA 1 m2, g0", "drag balance with the 1976 standard densities, 6 digits (trade-facts.md 5)",
-                  T[i].v_g0, sr_descent_speed(1.0, 9.80665, a.rho, 1.0), 2e-6);
-        CHECK_REL_CLASS(SR_CHECK_METHOD, "terminal speed 1 kg, CdA 1 m2, g(z)", "drag balance with the 1976 standard densities, 6 digits (trade-facts.md 5)",
-                  T[i].v_gz, sr_descent_speed(1.0, a.g, a.rho, 1.0), 2e-6);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, "terminal speed 1 kg, CdA 1 m2, g0",
+                        "drag balance with the 1976 standard densities, 6 digits (trade-facts.md 5)", T[i].v_g0,
+                        sr_descent_speed(1.0, 9.80665, a.rho, 1.0), 2e-6);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, "terminal speed 1 kg, CdA 1 m2, g(z)",
+                        "drag balance with the 1976 standard densities, 6 digits (trade-facts.md 5)", T[i].v_gz,
+                        sr_descent_speed(1.0, a.g, a.rho, 1.0), 2e-6);
     }
 }
 
@@ -72,8 +74,8 @@ static void test_sizing_case_c(void **state)
     assert_int_equal(sr_descent_size(&r, &res, NULL), 0);
     CHECK_REL_CLASS(SR_CHECK_METHOD, "case C: S0 for 20 kg at 5 m/s, CD0 0.80", HB, 16.011, res.s0.typ, 1e-4);
     CHECK_REL_CLASS(SR_CHECK_METHOD, "case C: D0 for 20 kg at 5 m/s, CD0 0.80", HB, 4.515, res.d0.typ, 2e-4);
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "D0 = 1.1284 sqrt(S0)", "Knacke 1991, Fig. 6-28 (D0 = 1.1284 sqrt(S0))", 1.1284 * sqrt(res.s0.typ),
-              res.d0.typ, 5e-5);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "D0 = 1.1284 sqrt(S0)", "Knacke 1991, Fig. 6-28 (D0 = 1.1284 sqrt(S0))",
+                    1.1284 * sqrt(res.s0.typ), res.d0.typ, 5e-5);
 }
 
 /* Round trip: the sized canopy, run back through the rate, gives the target. */

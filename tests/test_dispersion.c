@@ -197,10 +197,11 @@ static void test_ellipse_bivariate_sample(void **state)
     CHECK_REL_CLASS(SR_CHECK_METHOD, "variance east (m2)", SRC_GSL_BIV, a, b->cov_ee, 2.0 * tol);
     CHECK_REL_CLASS(SR_CHECK_METHOD, "covariance east-north (m2)", SRC_GSL_BIV, bb, b->cov_en, 3.0 * tol);
     CHECK_REL_CLASS(SR_CHECK_METHOD, "1-sigma major semi-axis (m)", SRC_GSL_BIV, sqrt(mid + rad), b->sigma1.major, tol);
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "1-sigma minor semi-axis (m)", SRC_GSL_BIV, sqrt(mid - rad), b->sigma1.minor, 2.0 * tol);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "1-sigma minor semi-axis (m)", SRC_GSL_BIV, sqrt(mid - rad), b->sigma1.minor,
+                    2.0 * tol);
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "major-axis bearing (deg)", SRC_GSL_BIV, brg / DEG, b->sigma1.bearing / DEG, 0.5);
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "mean landing bearing (deg)", "atan2(east, north) of the mean (300, -200) m",
-              atan2(300.0, -200.0) / DEG + 0.0, b->mean_bearing / DEG, 0.2);
+                    atan2(300.0, -200.0) / DEG + 0.0, b->mean_bearing / DEG, 0.2);
     /* containment of the 1- and 3-sigma ellipses: 1 - exp(-k^2/2) */
     size_t in1 = 0, in3 = 0;
     double ue = sin(b->sigma1.bearing), un = cos(b->sigma1.bearing);
@@ -211,10 +212,12 @@ static void test_ellipse_bivariate_sample(void **state)
         in3 += u * u + v * v <= 9.0;
     }
     double p1 = 1.0 - exp(-0.5), p3 = 1.0 - exp(-4.5);
-    CHECK_ABS_CLASS(SR_CHECK_METHOD, "fraction inside the 1-sigma ellipse", "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p1,
-              (double)in1 / (double)n, 5.0 * sqrt(p1 * (1 - p1) / (double)n));
-    CHECK_ABS_CLASS(SR_CHECK_METHOD, "fraction inside the 3-sigma ellipse", "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p3,
-              (double)in3 / (double)n, 5.0 * sqrt(p3 * (1 - p3) / (double)n));
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "fraction inside the 1-sigma ellipse",
+                    "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p1, (double)in1 / (double)n,
+                    5.0 * sqrt(p1 * (1 - p1) / (double)n));
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "fraction inside the 3-sigma ellipse",
+                    "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p3, (double)in3 / (double)n,
+                    5.0 * sqrt(p3 * (1 - p3) / (double)n));
     sr_disp_result_free(&res);
 }
 
@@ -245,7 +248,8 @@ static void test_quantiles_against_gsl(void **state)
             double want = gsl_stats_quantile_from_sorted_data(y, 1, n, P[j]);
             if (j == 4) {
                 snprintf(q, sizeof q, "median of %zu values by selection", n);
-                CHECK_ABS_CLASS(SR_CHECK_LIBRARY, q, "GSL 2.7 gsl_stats_quantile_from_sorted_data on the sorted data", want, got[j], 1e-12);
+                CHECK_ABS_CLASS(SR_CHECK_LIBRARY, q, "GSL 2.7 gsl_stats_quantile_from_sorted_data on the sorted data",
+                                want, got[j], 1e-12);
             } else if (fabs(got[j] - want) > 1e-12) {
                 fail_msg("n %zu, P %g: %.17g, GSL says %.17g", n, P[j], got[j], want);
             }
@@ -276,9 +280,10 @@ static void test_engine_linear_covariance(void **state)
     double tol = 5.0 / sqrt(2.0 * (double)n);
     CHECK_REL_CLASS(SR_CHECK_METHOD, "1-sigma major semi-axis (m)", SRC_LINEAR, 1.2 * t, st.body[0].sigma1.major, tol);
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "1-sigma minor semi-axis (m)", SRC_LINEAR, 0.0, st.body[0].sigma1.minor, 1e-6);
-    CHECK_ABS_CLASS(SR_CHECK_METHOD, "major-axis bearing (deg)", SRC_LINEAR, 45.0, st.body[0].sigma1.bearing / DEG, 1e-6);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "major-axis bearing (deg)", SRC_LINEAR, 45.0, st.body[0].sigma1.bearing / DEG,
+                    1e-6);
     CHECK_REL_CLASS(SR_CHECK_METHOD, "mean drift distance (m)", SRC_LINEAR, a.wind * t, st.body[0].mean_distance,
-              5.0 * 1.2 / a.wind / sqrt((double)n));
+                    5.0 * 1.2 / a.wind / sqrt((double)n));
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "mean drift bearing (deg)", SRC_LINEAR, 45.0, st.body[0].mean_bearing / DEG, 1e-6);
     sr_disp_result_free(&res);
 }
@@ -304,11 +309,12 @@ static void test_wind_speed_spread_analytic(void **state)
         /* 4 standard errors of a sample sd, sigma/sqrt(2(n-1)) */
         CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_DRIFT, sigmas[k] * t, sd, 4.0 / sqrt(2.0 * (double)(n - 1)));
         snprintf(q, sizeof q, "mean downwind drift, sd(w) = %.1f m/s (m)", sigmas[k]);
-        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_DRIFT, a.wind * t, st.body[0].mean_east, 4.0 * sigmas[k] * t / sqrt((double)n));
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_DRIFT, a.wind * t, st.body[0].mean_east,
+                        4.0 * sigmas[k] * t / sqrt((double)n));
         snprintf(q, sizeof q, "cross-wind sd, sd(w) = %.1f m/s (m)", sigmas[k]);
         CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_DRIFT, 0.0, sqrt(st.body[0].cov_nn), 1e-9);
-        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "descent time, no drag or mass spread (s)", "closed form t = h / v, v = sqrt(2 m g / (rho CdS))", t,
-                  st.body[0].time.pct[2], 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "descent time, no drag or mass spread (s)",
+                        "closed form t = h / v, v = sqrt(2 m g / (rho CdS))", t, st.body[0].time.pct[2], 1e-12);
         sr_disp_result_free(&res);
     }
 }
@@ -336,8 +342,8 @@ static void test_radii_rayleigh(void **state)
     char q[96];
     for (int k = 0; k < 2; k++) {
         double rp = gsl_cdf_rayleigh_Pinv(P[k], s);
-        CHECK_REL_CLASS(SR_CHECK_METHOD, "Rayleigh quantile self-check (m)", "sigma sqrt(-2 ln(1-P))", s * sqrt(-2.0 * log(1.0 - P[k])), rp,
-                  1e-12);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, "Rayleigh quantile self-check (m)", "sigma sqrt(-2 ln(1-P))",
+                        s * sqrt(-2.0 * log(1.0 - P[k])), rp, 1e-12);
         double se = sqrt(P[k] * (1 - P[k]) / (double)n) / gsl_ran_rayleigh_pdf(rp, s);
         snprintf(q, sizeof q, "%.0f %% radius around the mean (m)", 100 * P[k]);
         CHECK_ABS_CLASS(SR_CHECK_LIBRARY, q, SRC_RAYLEIGH, rp, got_mean[k], 5.0 * se + 0.5);
@@ -370,16 +376,21 @@ static void test_percentiles_uniform_drag(void **state)
         /* quantile error: sqrt(P(1-P)/n) in the uniform's probability, times the slope */
         double dq = 5.0 * sqrt(P * (1 - P) / (double)n) * w;
         snprintf(q, sizeof q, "descent time, %g %% percentile (s)", 100 * P);
-        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_ORDER, t0 * sqrt(kt), st.body[0].time.pct[k], t0 * 0.5 * dq / sqrt(kt) + 1e-9);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_ORDER, t0 * sqrt(kt), st.body[0].time.pct[k],
+                        t0 * 0.5 * dq / sqrt(kt) + 1e-9);
         snprintf(q, sizeof q, "touchdown speed, %g %% percentile (m/s)", 100 * P);
-        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_ORDER, v0 / sqrt(kv), st.body[0].speed.pct[k], v0 * 0.5 * dq / pow(kv, 1.5) + 1e-9);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_ORDER, v0 / sqrt(kv), st.body[0].speed.pct[k],
+                        v0 * 0.5 * dq / pow(kv, 1.5) + 1e-9);
     }
-    CHECK_ABS_CLASS(SR_CHECK_METHOD, "fastest touchdown (m/s)", SRC_ORDER, v0 / sqrt(0.90), st.body[0].speed.max, v0 * 1e-3);
-    CHECK_ABS_CLASS(SR_CHECK_METHOD, "slowest touchdown (m/s)", SRC_ORDER, v0 / sqrt(1.15), st.body[0].speed.min, v0 * 1e-3);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "fastest touchdown (m/s)", SRC_ORDER, v0 / sqrt(0.90), st.body[0].speed.max,
+                    v0 * 1e-3);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "slowest touchdown (m/s)", SRC_ORDER, v0 / sqrt(1.15), st.body[0].speed.min,
+                    v0 * 1e-3);
     /* energy = m v^2 / 2 falls as 1/k: mean over uniform k is m v0^2/2 * ln(1.15/0.9)/0.25 */
     double e0 = 0.5 * a.mass * v0 * v0;
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "mean touchdown energy (J)", "closed form: E[1/k] for k uniform on [a, b] is ln(b/a)/(b - a)",
-              e0 * log(1.15 / 0.90) / w, st.body[0].energy.mean, 2e-3);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "mean touchdown energy (J)",
+                    "closed form: E[1/k] for k uniform on [a, b] is ln(b/a)/(b - a)", e0 * log(1.15 / 0.90) / w,
+                    st.body[0].energy.mean, 2e-3);
     sr_disp_result_free(&res);
 }
 
@@ -402,16 +413,18 @@ static void test_limit_probability(void **state)
     sr_disp_stats st;
     run_ok(&a, &u, n, 11, 2, &res, &st);
     const sr_proportion *pr = &st.limit[0];
-    CHECK_ABS_CLASS(SR_CHECK_METHOD, "P(touchdown speed above the limit)", "closed form through the uniform drag scale", P, pr->p,
-              4.0 * sqrt(P * (1 - P) / (double)n));
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "its standard error", "binomial: sqrt(p(1-p)/n)", sqrt(pr->p * (1 - pr->p) / (double)n), pr->se, 1e-12);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "P(touchdown speed above the limit)", "closed form through the uniform drag scale",
+                    P, pr->p, 4.0 * sqrt(P * (1 - P) / (double)n));
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "its standard error", "binomial: sqrt(p(1-p)/n)",
+                    sqrt(pr->p * (1 - pr->p) / (double)n), pr->se, 1e-12);
     assert_true(pr->lo < P && P < pr->hi);
     assert_int_equal(st.limit[1].count, 0);
     assert_int_equal(st.any.count, pr->count);
     /* Wilson at the edges */
     sr_proportion z;
     sr_scatter_proportion(0, 1000, 1.96, &z);
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "upper 95 % bound at 0 of 1000", SRC_WILSON, 1.96 * 1.96 / (1000 + 1.96 * 1.96), z.hi, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "upper 95 % bound at 0 of 1000", SRC_WILSON, 1.96 * 1.96 / (1000 + 1.96 * 1.96),
+                    z.hi, 1e-12);
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "lower bound at 0 of 1000", SRC_WILSON, 0.0, z.lo, 0.0);
     sr_scatter_proportion(30, 100, 1.96, &z);
     /* Wilson interval for 30 of 100 at z = 1.96, the formula evaluated
@@ -438,8 +451,8 @@ static void test_zero_uncertainty(void **state)
     run_ok(&a, &u, 1000, 3, 2, &res, &st);
     for (size_t i = 0; i < res.n; i++)
         assert_memory_equal(&res.land[i], &nom, sizeof nom);
-    CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "1-sigma major axis with nothing uncertain (m)", "definition: no spread", 0.0, st.body[0].sigma1.major,
-              0.0);
+    CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "1-sigma major axis with nothing uncertain (m)", "definition: no spread", 0.0,
+                    st.body[0].sigma1.major, 0.0);
     sr_disp_result_free(&res);
 }
 

@@ -62,7 +62,8 @@ static void test_common_values(void **state)
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "steady drag CD0 S0 q1 (N)", SRC_DRAG, 779.3, r.drag_steady, 0.05);
     CHECK_ABS_CLASS(SR_CHECK_MEMORY, "infinite-mass peak CD0 S0 q1 CX (N)", SRC_CX, 1324.8, r.f_infinite, 0.05);
     CHECK_ABS_CLASS(SR_CHECK_MEMORY, "filling time n_fill=8, D0=1.5 m, v1=30 m/s (s)", SRC_FILL, 0.40, r.t_fill, 1e-12);
-    CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "CD0 back from the drag area", "the input drag coefficient", 0.80, r.cd0, 1e-12);
+    CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "CD0 back from the drag area", "the input drag coefficient", 0.80, r.cd0,
+                    1e-12);
 
     double tf;
     assert_int_equal(sr_opening_fill_time(8, 1.5, 30, &tf, &e), SR_OK);
@@ -162,7 +163,7 @@ static void test_infinite_mass(void **state)
         assert_int_equal(r.regime, SR_OPENING_INFINITE_MASS);
         assert_int_equal(r.ode.kind, SR_PEAK_FULL);
         CHECK_ABS_CLASS(SR_CHECK_DERIVED, "time of peak at infinite mass = filling time (s)",
-                  "canopy-handbook.md 4.2 [D]: peak at end of filling for A >> 1", r.t_fill, r.ode.time, 1e-12);
+                        "canopy-handbook.md 4.2 [D]: peak at end of filling for A >> 1", r.t_fill, r.ode.time, 1e-12);
     }
     /* Heavy payload falling straight down: it gains g t_f during filling, so
      * the force at full inflation is CX CD0 S0 q(v1 + g t_f) (constant-
@@ -179,8 +180,8 @@ static void test_infinite_mass(void **state)
     double t[2], f[2];
     assert_int_equal(sr_opening_trace(&in, r.t_fill, 2, t, f, &e), SR_OK);
     double x = 1 + SR_G0 * r.t_fill / in.v1;
-    CHECK_REL_CLASS(SR_CHECK_DERIVED, "ODE force at t_f / infinite-mass peak, vertical, gravity on", "kinematics v = v1 + g t (derived)",
-              x * x, in.cx * f[1] / r.f_infinite, 1e-7);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "ODE force at t_f / infinite-mass peak, vertical, gravity on",
+                    "kinematics v = v1 + g t (derived)", x * x, in.cx * f[1] / r.f_infinite, 1e-7);
 }
 
 static void test_light_payload(void **state)
@@ -201,7 +202,8 @@ static void test_light_payload(void **state)
         /* gravity adds little over so short a time: closed form within 1% */
         double n = exps[j], k = (n + 1) * r.ballistic * n / (n + 2);
         snprintf(q, sizeof q, "peak time / t_f for m=0.05 kg, n=%g (gravity on, horizontal; the closed form has none: 1e-3)", n);
-        CHECK_REL_CLASS(SR_CHECK_DERIVED, q, SRC_PFLANZ ": tau* = k^(1/(n+1))", pow(k, 1 / (n + 1)), r.ode.time / r.t_fill, 1e-3);
+        CHECK_REL_CLASS(SR_CHECK_DERIVED, q, SRC_PFLANZ ": tau* = k^(1/(n+1))", pow(k, 1 / (n + 1)),
+                        r.ode.time / r.t_fill, 1e-3);
     }
 }
 
@@ -219,9 +221,11 @@ static void test_steady_and_path_angle(void **state)
     assert_int_equal(sr_opening_solve(&in, &r, &e), SR_OK);
     assert_int_equal(r.ode.kind, SR_PEAK_STEADY);
     assert_true(r.slow_deployment);
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "terminal speed of the full canopy (m/s)", SRC_STEADY ": v = sqrt(2 m g/(rho CD0 S0))",
-              sqrt(2 * 5 * SR_G0 / (1.2250 * in.cds0)), r.v_terminal, 1e-12);
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "ODE peak below terminal speed = weight (N)", SRC_STEADY, 5 * SR_G0, r.ode.force, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "terminal speed of the full canopy (m/s)",
+                    SRC_STEADY ": v = sqrt(2 m g/(rho CD0 S0))", sqrt(2 * 5 * SR_G0 / (1.2250 * in.cds0)), r.v_terminal,
+                    1e-12);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "ODE peak below terminal speed = weight (N)", SRC_STEADY, 5 * SR_G0, r.ode.force,
+                    1e-12);
     assert_true(isnan(r.ode.time));
 
     /* Ordering by path angle: down > horizontal > up. */
@@ -251,18 +255,19 @@ static void test_atmosphere_and_mach(void **state)
     in.a = air.a;
     in.g = air.g;
     assert_int_equal(sr_opening_solve(&in, &r, &e), SR_OK);
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "Mach at 30 m/s, sea level", "U.S. Standard Atmosphere 1976: a0 = 340.294 m/s", 30 / 340.294, r.mach,
-              1e-5);
-    CHECK_REL_CLASS(SR_CHECK_METHOD, "q1 at 30 m/s, sea level (Pa)", "U.S. Standard Atmosphere 1976: rho0 = 1.2250 kg/m3", 551.25, r.q1,
-              1e-4);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "Mach at 30 m/s, sea level", "U.S. Standard Atmosphere 1976: a0 = 340.294 m/s",
+                    30 / 340.294, r.mach, 1e-5);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "q1 at 30 m/s, sea level (Pa)",
+                    "U.S. Standard Atmosphere 1976: rho0 = 1.2250 kg/m3", 551.25, r.q1, 1e-4);
     /* R_m grows with density (handbook 4.1 [D]): at 10 km it is rho/rho0 of sea level. */
     assert_int_equal(sr_atmos_at(&atm, 10000, &air, &e), SR_OK);
     in.rho = air.rho;
     in.a = air.a;
     sr_opening_result r10;
     assert_int_equal(sr_opening_solve(&in, &r10, &e), SR_OK);
-    CHECK_REL_CLASS(SR_CHECK_DERIVED, "R_m(10 km)/R_m(0)", "U.S. Standard Atmosphere 1976: rho(10 km) = 0.41351, rho0 = 1.2250 kg/m3",
-              0.41351 / 1.2250, r10.mass_ratio / r.mass_ratio, 1e-4);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "R_m(10 km)/R_m(0)",
+                    "U.S. Standard Atmosphere 1976: rho(10 km) = 0.41351, rho0 = 1.2250 kg/m3", 0.41351 / 1.2250,
+                    r10.mass_ratio / r.mass_ratio, 1e-4);
 }
 
 static void test_units(void **state)
@@ -274,15 +279,16 @@ static void test_units(void **state)
     table_input(&in, 5, 2);
     assert_int_equal(sr_opening_solve(&in, &r, &e), SR_OK);
     double lbf = sr_units_from_si(r.f_high, SR_Q_FORCE, SR_UNITS_US);
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "peak force in lbf x 4.4482216152605 = N", SRC_NIST, r.f_high, lbf * 4.4482216152605, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "peak force in lbf x 4.4482216152605 = N", SRC_NIST, r.f_high,
+                    lbf * 4.4482216152605, 1e-15);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "peak force in lbf", SRC_NIST, r.f_high / 4.4482216152605, lbf, 1e-15);
     double back;
     char txt[64];
     snprintf(txt, sizeof txt, "%.17g lbf", lbf);
     assert_int_equal(sr_units_parse(txt, SR_Q_FORCE, &back, &e), SR_OK);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "peak force through \"... lbf\" and back", SRC_NIST, r.f_high, back, 1e-15);
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "peak deceleration in g = F/(m g0)", "CGPM 1901: standard gravity g0 = 9.80665 m/s2",
-              r.f_high / (5 * 9.80665), r.decel_g_max, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "peak deceleration in g = F/(m g0)",
+                    "CGPM 1901: standard gravity g0 = 9.80665 m/s2", r.f_high / (5 * 9.80665), r.decel_g_max, 1e-15);
 }
 
 static void test_cluster_and_design(void **state)
@@ -296,10 +302,10 @@ static void test_cluster_and_design(void **state)
     in.g = 0;
     in.count = 3;
     assert_int_equal(sr_opening_solve(&in, &r3, &e), SR_OK);
-    CHECK_REL_CLASS(SR_CHECK_MEMORY, "per-canopy load, cluster of 3, infinite mass (N)", SRC_CX " (per canopy)",
-              1324.8, r3.f_canopy_equal, 1e-4);
-    CHECK_ABS_CLASS(SR_CHECK_DERIVED, "unequal-inflation allowance at infinite mass", SRC_INF_D " (load independent of mass; docs/method.md 8 clusters)", 1.0,
-              r3.allowance, 1e-3);
+    CHECK_REL_CLASS(SR_CHECK_MEMORY, "per-canopy load, cluster of 3, infinite mass (N)", SRC_CX " (per canopy)", 1324.8,
+                    r3.f_canopy_equal, 1e-4);
+    CHECK_ABS_CLASS(SR_CHECK_DERIVED, "unequal-inflation allowance at infinite mass",
+                    SRC_INF_D " (load independent of mass; docs/method.md 8 clusters)", 1.0, r3.allowance, 1e-3);
 
     /* Finite mass: the derived allowance is the lead canopy with the whole mass. */
     table_input(&in, 5, 2);
@@ -333,12 +339,15 @@ static void test_cluster_and_design(void **state)
 static void test_class_exponents(void **state)
 {
     (void)state;
-    CHECK_ABS_CLASS(SR_CHECK_MEMORY, "growth exponent, solid cloth", "K91 Pflanz curves (from memory, canopy-handbook.md 4.2 [M])", 2.0,
-              sr_opening_class_exponent(SR_OPENING_SOLID), 0);
-    CHECK_ABS_CLASS(SR_CHECK_MEMORY, "growth exponent, slotted", "K91 Pflanz curves (from memory, canopy-handbook.md 4.2 [M])", 1.0,
-              sr_opening_class_exponent(SR_OPENING_SLOTTED), 0);
-    CHECK_ABS_CLASS(SR_CHECK_MEMORY, "growth exponent, reefed stage", "K91 Pflanz curves (from memory, canopy-handbook.md 4.2 [M])", 0.5,
-              sr_opening_class_exponent(SR_OPENING_REEFED), 0);
+    CHECK_ABS_CLASS(SR_CHECK_MEMORY, "growth exponent, solid cloth",
+                    "K91 Pflanz curves (from memory, canopy-handbook.md 4.2 [M])", 2.0,
+                    sr_opening_class_exponent(SR_OPENING_SOLID), 0);
+    CHECK_ABS_CLASS(SR_CHECK_MEMORY, "growth exponent, slotted",
+                    "K91 Pflanz curves (from memory, canopy-handbook.md 4.2 [M])", 1.0,
+                    sr_opening_class_exponent(SR_OPENING_SLOTTED), 0);
+    CHECK_ABS_CLASS(SR_CHECK_MEMORY, "growth exponent, reefed stage",
+                    "K91 Pflanz curves (from memory, canopy-handbook.md 4.2 [M])", 0.5,
+                    sr_opening_class_exponent(SR_OPENING_REEFED), 0);
 }
 
 static void test_trace(void **state)
@@ -353,7 +362,8 @@ static void test_trace(void **state)
     double t[N], f[N];
     assert_int_equal(sr_opening_trace(&in, 0, N, t, f, &e), SR_OK);
     assert_true(f[0] == 0);
-    CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "trace ends at three filling times (s)", SRC_FILL, 3 * r.t_fill, t[N - 1], 1e-12);
+    CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "trace ends at three filling times (s)", SRC_FILL, 3 * r.t_fill, t[N - 1],
+                    1e-12);
     double fmax = 0;
     for (int i = 0; i < N; i++)
         fmax = fmax > f[i] ? fmax : f[i];

@@ -188,8 +188,10 @@ static void test_nist_definitions(void **state)
     sr_units_lookup("inHg", SR_Q_PRESSURE, &f, &off);
     CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "1 inHg, conventional (Pa)", NIST ": 3.386 389 E+03", 3386.389, f, 5e-4);
     sr_units_lookup("ft-lbf", SR_Q_ENERGY, &f, &off);
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "1 ft lbf (J)", "NIST SP 811 exact factors (ft x lbf) = 1.3558179483314 J", 1.3558179483314, f, 1e-13);
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "75 ft lbf (J)", "NIST SP 811 exact factors (ft x lbf)", 101.6863461, 75.0 * f, 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "1 ft lbf (J)", "NIST SP 811 exact factors (ft x lbf) = 1.3558179483314 J",
+                    1.3558179483314, f, 1e-13);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "75 ft lbf (J)", "NIST SP 811 exact factors (ft x lbf)", 101.6863461, 75.0 * f,
+                    1e-9);
     /* the macros in units.h */
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "SR_LBF (N)", NIST, 4.4482216152605, SR_LBF, 1e-15);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "SR_FT_LBF (J)", NIST, 1.3558179483314, SR_FT_LBF, 1e-13);
@@ -334,17 +336,18 @@ static void test_format_round_trip(void **state)
         }
     }
     /* familiar values */
-    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "273.15 K in F", NIST ": T/K = (t/F + 459.67)/1.8", 32.0, sr_units_from_si(273.15, SR_Q_TEMP, SR_UNITS_US),
-              1e-12);
-    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "233.15 K in F", NIST ": -40 C = -40 F", -40.0, sr_units_from_si(233.15, SR_Q_TEMP, SR_UNITS_US), 1e-12);
+    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "273.15 K in F", NIST ": T/K = (t/F + 459.67)/1.8", 32.0,
+                    sr_units_from_si(273.15, SR_Q_TEMP, SR_UNITS_US), 1e-12);
+    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "233.15 K in F", NIST ": -40 C = -40 F", -40.0,
+                    sr_units_from_si(233.15, SR_Q_TEMP, SR_UNITS_US), 1e-12);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "a 10 K offset in F", NIST ": 1 K interval = 1.8 F", 18.0,
-              sr_units_from_si(10.0, SR_Q_TEMP_DIFF, SR_UNITS_US), 1e-15);
+                    sr_units_from_si(10.0, SR_Q_TEMP_DIFF, SR_UNITS_US), 1e-15);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "101325 Pa in psf", NIST ": 1 lbf/ft2 = 47.88026 Pa", 2116.21662367394,
-              sr_units_from_si(101325.0, SR_Q_PRESSURE, SR_UNITS_US), 1e-12);
+                    sr_units_from_si(101325.0, SR_Q_PRESSURE, SR_UNITS_US), 1e-12);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "pi rad shown in deg", NIST ": 1 degree = pi/180 rad", 180.0,
-              sr_units_from_si(PI, SR_Q_ANGLE, SR_UNITS_SI), 1e-15);
+                    sr_units_from_si(PI, SR_Q_ANGLE, SR_UNITS_SI), 1e-15);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "5 m/s in ft/s", NIST ": 1 ft = 0.3048 m", 16.404199475065617,
-              sr_units_from_si(5.0, SR_Q_SPEED, SR_UNITS_US), 1e-15);
+                    sr_units_from_si(5.0, SR_Q_SPEED, SR_UNITS_US), 1e-15);
     /* a dimensionless number passes through */
     assert_true(sr_units_from_si(2.5, SR_Q_NONE, SR_UNITS_US) == 2.5);
     assert_string_equal(sr_units_label(SR_Q_NONE, SR_UNITS_SI), "");
@@ -382,7 +385,9 @@ static void test_temperature(void **state)
         if (sr_units_parse(T[i].text, T[i].q, &v, &e) != SR_OK)
             fail_msg("'%s': %s", T[i].text, e.msg);
         snprintf(q, sizeof q, "'%s' as %s (K)", T[i].text, sr_units_quantity_name(T[i].q));
-        CHECK_ABS_CLASS(strstr(T[i].src, "NIST") || strstr(T[i].src, "SI Brochure") ? SR_CHECK_PUBLISHED : SR_CHECK_DERIVED, q, T[i].src, T[i].si, v, 1e-12);
+        CHECK_ABS_CLASS(strstr(T[i].src, "NIST") || strstr(T[i].src, "SI Brochure") ? SR_CHECK_PUBLISHED
+                                                                                    : SR_CHECK_DERIVED,
+                        q, T[i].src, T[i].si, v, 1e-12);
     }
     /* below absolute zero is not a temperature; as an offset it is fine */
     static const char *COLD[] = {"-300 C", "-500 F", "-1 K", "-0.5", "-1 R"};
@@ -520,7 +525,9 @@ static void test_accepted_forms(void **state)
         for (char *c = q; *c; c++) /* the validation log is one tab-separated line per check */
             if (*c == '\n' || *c == '\t')
                 *c = ' ';
-        CHECK_REL_CLASS(strstr(OK[i].src, "NIST") || strstr(OK[i].src, "SI Brochure") ? SR_CHECK_PUBLISHED : SR_CHECK_DERIVED, q, OK[i].src, OK[i].si, v, 2e-8);
+        CHECK_REL_CLASS(strstr(OK[i].src, "NIST") || strstr(OK[i].src, "SI Brochure") ? SR_CHECK_PUBLISHED
+                                                                                      : SR_CHECK_DERIVED,
+                        q, OK[i].src, OK[i].si, v, 2e-8);
     }
     /* every unit the messages list is accepted */
     for (int qq = SR_Q_MASS; qq < SR_Q_COUNT_; qq++) {

@@ -102,11 +102,13 @@ static void test_table_components(void **state)
     sr_wind_at(&w, 50.0, &east, &north);
     sr_wind_polar(east, north, &sp, &from);
     /* north wind and east wind averaged as vectors: 10/sqrt(2) from 45 deg, not 10 from 45 deg */
-    CHECK_REL_CLASS(SR_CHECK_DERIVED, "table wind speed halfway between 10 m/s from 0 deg and 10 m/s from 90 deg", SRC_VEC,
-              10.0 / sqrt(2.0), sp, 1e-12);
-    CHECK_ABS_CLASS(SR_CHECK_DERIVED, "table wind direction halfway between 0 deg and 90 deg", SRC_VEC, 45.0, from / DEG, 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "table wind speed halfway between 10 m/s from 0 deg and 10 m/s from 90 deg",
+                    SRC_VEC, 10.0 / sqrt(2.0), sp, 1e-12);
+    CHECK_ABS_CLASS(SR_CHECK_DERIVED, "table wind direction halfway between 0 deg and 90 deg", SRC_VEC, 45.0,
+                    from / DEG, 1e-9);
     sr_wind_at(&w, 200.0, &east, &north);
-    CHECK_REL_CLASS(SR_CHECK_DERIVED, "table wind speed halfway between 10 and 4 m/s from 90 deg", SRC_VEC, 7.0, hypot(east, north), 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "table wind speed halfway between 10 and 4 m/s from 90 deg", SRC_VEC, 7.0,
+                    hypot(east, north), 1e-12);
     /* below the first row and above the last the end rows hold */
     sr_wind_at(&w, -10.0, &east, &north);
     assert_true(fabs(north + 10.0) < 1e-12 && fabs(east) < 1e-12);
@@ -151,8 +153,8 @@ static void test_csv(void **state)
     double east, north;
     sr_wind_at(&w, 0.0, &east, &north);
     /* 10 kn from 240 deg: 1 kn = 1852/3600 m/s exactly (NIST SP 811) */
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "table wind at the site from an altitude column in knots", "NIST SP 811 (2008) App. B: 1 kn = 1852/3600 m/s",
-              10 * 1852.0 / 3600.0, hypot(east, north), 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "table wind at the site from an altitude column in knots",
+                    "NIST SP 811 (2008) App. B: 1 kn = 1852/3600 m/s", 10 * 1852.0 / 3600.0, hypot(east, north), 1e-12);
     assert_true(fabs(sr_wind_top(&w) - 1000.0) < 1e-9);
     sr_wind_free(&w);
 
