@@ -43,7 +43,8 @@ LEGEND_HEAD = "The first three classes are checks against the world; the others 
 # The quantities the header counts, in its order.
 TOPICS = ["atmosphere", "units", "canopy catalog and reference areas", "descent rate", "sizing",
           "descent time and landing", "wind and drift", "opening load", "filling time", "free fall",
-          "dispersion statistics", "random draws", "file formats", "other"]
+          "dispersion statistics", "random draws", "flight-log fit", "plausibility and Mach", "file formats",
+          "other"]
 
 # (file pattern, quantity pattern, topic): the first rule that matches wins.
 RULES = [
@@ -53,6 +54,9 @@ RULES = [
     (r".*", r"^descent rate: ", "descent rate"),
     (r".*", r"^descent time: ", "descent time and landing"),
     (r".*", r"^dispersion: ", "dispersion statistics"),
+    (r".*", r"^fit: ", "flight-log fit"),
+    (r"^test_(fit|demo_flight|flightlog)\.c$", r"", "flight-log fit"),
+    (r"^test_plausible\.c$", r"", "plausibility and Mach"),
     (r"^test_atmos\.c$", r"", "atmosphere"),
     (r"^test_(units|csvtable)\.c$", r"", "units"),
     (r"^test_mission\.c$", r"wind|kn from", "wind and drift"),

@@ -14,7 +14,7 @@ import numpy as np
 import scipy
 from fluids.atmosphere import ATMOSPHERE_1976
 from fluids.drag import drag_sphere
-from scipy import integrate, stats
+from scipy import integrate, optimize, stats
 
 import fluids
 from reflog import Checks, read_csv, run, run_json, table, value
@@ -223,6 +223,72 @@ for d, mass, h0 in ((0.05, 0.1, 1500.0), (0.02, 0.03, 3000.0), (0.1, 0.1, 800.0)
     what = "free fall: %g mm sphere of %g kg from %g m, no canopy" % (d * 1e3, mass, h0)
     ck.rel("reference library", what + ": time to the ground", SRC_FF, t_hit, row["time_to_ground"], 1e-7)
     ck.rel("reference library", what + ": impact speed", SRC_FF, v_hit, row["impact_speed"], 1e-7)
+
+# ---- the flight-log fit (sinkrate fit) against scipy.optimize.least_squares ----
+# A synthetic one-stage log written here (steady descent, seeded Gaussian noise)
+# is fitted by sinkrate; scipy fits the same model, z(t) from dz/dt =
+# -sqrt(2 m g/(rho CdS)) in fluids' air, to the same points (the window the fit
+# reports), by Levenberg-Marquardt. The interval is our rule (docs/method.md
+# 12.4: AR(1)-inflated, Student t), evaluated again here from scipy's Jacobian.
+SRC_LS = ("%s optimize.least_squares (lm) of the steady descent z(t), dz/dt = -sqrt(2 m g/(rho CdS)) "
+          "(Knacke 1991 sec. 4.5), %s air, on the points of the fit's window") % (SCIPY, FL)
+SRC_CI = ("docs/method.md 12.4 (our interval: se from (J'J)^-1 s^2 times (1 + r1)/(1 - r1), Student t with "
+          "n (1 - r1)/(1 + r1) - 2 dof), evaluated with scipy's Jacobian and stats.t")
+for what, args, site, dt, mass, cds_true, z_top, noise, seed in (
+        ("sea level, standard day", [], 0.0, 0.0, 4.0, 2.0, 800.0, 0.5, 7),
+        ("offset +20 K", ["--temp-offset", "20K"], 0.0, 20.0, 2.5, 0.9, 1200.0, 0.8, 11),
+        ("site at 1500 m", ["--site-elevation", "1500m"], 1500.0, 0.0, 6.0, 4.5, 600.0, 0.3, 13)):
+    def k_of(z):
+        a = ATMOSPHERE_1976(site + z, dT=dt)
+        return math.sqrt(2.0 * a.g / a.rho)
+    # z as a function of F = integral dz/k, from below the ground to above the top
+    zf = integrate.solve_ivp(lambda F, y: [k_of(y[0])], (0.0, 400.0), [-60.0], method="DOP853", rtol=1e-12,
+                             atol=1e-12, dense_output=True)
+
+    def z_of_F(F):
+        return zf.sol(F)[0]
+
+    def F_of_z(z):
+        from scipy.optimize import brentq
+        return brentq(lambda F: z_of_F(F) - z, 0.0, zf.t[-1], xtol=1e-14, rtol=1e-15)
+    t_land = (F_of_z(z_top) - F_of_z(0.0)) / math.sqrt(mass / cds_true)
+    rng = np.random.default_rng(seed)
+    path = os.path.join(tmp, "fit.csv")
+    with open(path, "w", encoding="utf-8") as f:
+        f.write("time [s],height [m]\n")
+        ts = np.arange(int((t_land + 5.0) * 10)) / 10.0
+        zs = np.where(ts < t_land, z_of_F(F_of_z(z_top) - math.sqrt(mass / cds_true) * ts), 0.0)
+        for ti, zi in zip(ts, zs + rng.normal(0.0, noise, len(ts))):
+            f.write("%.2f,%.4f\n" % (ti, zi))
+    doc = run_json("fit", path, "--mass", "%gkg" % mass, "--deploy-times", "apogee", *args)
+    win = table(doc, "windows")[0]
+    fit = table(doc, "drag")[0]
+    head, rows = read_csv(path)
+    pts = [(float(r[0]), float(r[1])) for r in rows if win["from"] - 1e-9 <= float(r[0]) <= win["to"] + 1e-9]
+    t = np.array([p[0] for p in pts])
+    z = np.array([p[1] for p in pts])
+    t0 = t[0]
+
+    def resid(x):
+        return z_of_F(F_of_z(x[0]) - math.sqrt(mass / math.exp(x[1])) * (t - t0)) - z
+    ls = optimize.least_squares(resid, [z[0], math.log(cds_true * 1.1)], method="lm", xtol=1e-15, ftol=1e-15,
+                                gtol=1e-15, x_scale=[100.0, 1.0])
+    label = "fit: one-stage synthetic log, %s, %g kg, %d points" % (what, mass, len(t))
+    ck.abs("consistency", label + ": points in the window", "the fit's window (from, to) applied to the log",
+           len(t), win["points"], 0)
+    cds = math.exp(ls.x[1])
+    ck.rel("reference library", label + ": drag area (m2)", SRC_LS, cds, fit["drag_area_total"], 1e-8)
+    r = ls.fun
+    n = len(r)
+    r1 = max(0.0, float(np.sum(r[1:] * r[:-1]) / np.sum(r * r)))
+    s2 = float(np.sum(r * r)) / (n - 2)
+    cov = np.linalg.inv(ls.jac.T @ ls.jac) * s2 * (1 + r1) / (1 - r1)
+    dof = n * (1 - r1) / (1 + r1) - 2
+    half = stats.t.ppf(0.975, dof) * math.sqrt(cov[1][1])
+    ck.rel("our derivation", label + ": 95 % interval, low end (m2)", SRC_CI, cds * math.exp(-half),
+           fit["drag_area_low"], 1e-8)
+    ck.rel("our derivation", label + ": 95 % interval, high end (m2)", SRC_CI, cds * math.exp(half),
+           fit["drag_area_high"], 1e-8)
 
 # ---- landing statistics from the samples file (sinkrate dispersion) ---------
 SRC_COV = "%s: mean and covariance (ddof 1) of the --samples file, numpy.linalg.eigh for the axes" % NUMPY
