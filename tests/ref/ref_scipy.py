@@ -6,8 +6,10 @@ free fall as scipy.integrate.solve_ivp with fluids' sphere drag, the site
 model's pressure by quadrature of the hydrostatic equation, and the landing
 statistics of `sinkrate dispersion --samples` by numpy and scipy.stats.
 Rows go into $SR_VALIDATION_LOG."""
+import atexit
 import math
 import os
+import shutil
 import tempfile
 
 import numpy as np
@@ -121,6 +123,7 @@ MISSIONS = [
      wind_table([(0, 2, 180), (300, 8, 230), (800, 12, 280), (1300, 9, 300), (1700, 9, 300)]), 2.5, 1.5),
 ]
 tmp = tempfile.mkdtemp(prefix="sinkrate-ref-")
+atexit.register(shutil.rmtree, tmp, True)
 for what, elev, wind, (w, dw, kinks), mass, d0 in MISSIONS:
     path = os.path.join(tmp, "drift.yaml")
     with open(path, "w", encoding="utf-8") as f:

@@ -4,8 +4,10 @@ dispersion` against statsmodels (Debian python3-statsmodels): the Wilson
 score interval at 95 % of every limit's share, from the counts the command
 prints, and the share and its standard error from the --samples file's flags.
 Rows go into $SR_VALIDATION_LOG."""
+import atexit
 import math
 import os
+import shutil
 import tempfile
 
 import statsmodels
@@ -22,6 +24,7 @@ FLAG = {"touchdown speed": "over touchdown speed", "landing energy": "over landi
         "descent time": "over descent time", "drift": "over drift", "deployment pressure": "over deployment pressure"}
 
 tmp = tempfile.mkdtemp(prefix="sinkrate-ref-")
+atexit.register(shutil.rmtree, tmp, True)
 for mission, n, seed in (("desert-club-rocket", 300, 2), ("drone-cargo-drop", 400, 4), ("drone-cargo-drop", 6000, 9),
                          ("desert-club-rocket-revised", 1500, 6)):
     samples = os.path.join(tmp, "samples.csv")

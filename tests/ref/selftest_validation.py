@@ -4,13 +4,16 @@ on crafted logs: it writes a good one with a header that matches its rows, and
 refuses a row without a class, an outside row without a source, a recalled
 value classed as outside, a failed row, a document whose header disagrees with
 its rows, and a README without the legend."""
+import atexit
 import os
+import shutil
 import subprocess
 import sys
 import tempfile
 
 PY, GEN = sys.argv[1], sys.argv[2]
 tmp = tempfile.mkdtemp(prefix="sinkrate-valgen-")
+atexit.register(shutil.rmtree, tmp, True)
 failures = 0
 
 
