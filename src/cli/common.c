@@ -708,11 +708,8 @@ void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t
             break;
         }
         double T = sys == SR_UNITS_US ? (m->site_T - 273.15) * 1.8 + 32.0 : m->site_T - 273.15;
-        /* one pressure unit per output: the tables' (psf under US) */
-        if (sys == SR_UNITS_US)
-            sr_report_format_value(p, sizeof p, m->site_p, SR_Q_PRESSURE, sys, 4);
-        else
-            snprintf(p, sizeof p, "%.0f hPa", m->site_p / 100.0);
+        /* one pressure unit per output: the tables' (Pa, psf under US) */
+        sr_report_format_value(p, sizeof p, m->site_p, SR_Q_PRESSURE, sys, 4);
         snprintf(buf, len, "site %s, %.1f %s, %s", z, T, sys == SR_UNITS_US ? "\u00b0F" : "\u00b0C", p);
         break;
     }
