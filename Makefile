@@ -101,7 +101,7 @@ FUZZ_SECONDS ?= 60
 FUZZ_NAMES  := $(sort $(patsubst tests/fuzz/fuzz_%.c,%,$(wildcard tests/fuzz/fuzz_*.c)))
 FUZZ_FLAGS   = -Itests/fuzz -DSR_SOURCE_ROOT='"$(CURDIR)"'
 # the command-line target must never write files: its stub replaces the writer
-FUZZ_WRAP_cli = -Wl,--wrap=sr_file_write_atomic -Wl,--wrap=sr_file_check_writable
+FUZZ_WRAP_cli = -Wl,--wrap=sr_txn_reserve -Wl,--wrap=sr_txn_write -Wl,--wrap=sr_txn_commit
 
 # Each fuzz target as a plain program replaying its seed corpus and the
 # regression inputs (crashes the fuzzer once found) ...

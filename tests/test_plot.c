@@ -151,7 +151,7 @@ static void render_png(const char *name, int width, int height)
     if (rc)
         fail_msg("%s", e.msg);
     char diag[4096];
-    rc = sr_plot_render(gnuplot, o.prefix, "png", diag, sizeof diag, &e);
+    rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", diag, sizeof diag, &e);
     if (rc)
         fail_msg("%s", e.msg);
     /* gnuplot said nothing: no warning about empty data, bad ranges or fonts */
@@ -215,7 +215,7 @@ static void test_stacked_outlined(void **state)
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
     char diag[2048];
-    int rc = sr_plot_render(gnuplot, o.prefix, "png", diag, sizeof diag, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", diag, sizeof diag, &e);
     if (rc)
         fail_msg("%s", e.msg);
     if (diag[0])
@@ -286,7 +286,7 @@ static void test_log_axes_open_points_labels(void **state)
     assert_non_null(strstr(gp, "'it''s open'"));
     free(gp);
     char diag[2048];
-    int rc = sr_plot_render(gnuplot, out.prefix, "png", diag, sizeof diag, &e);
+    int rc = sr_plot_render(NULL, gnuplot, out.prefix, "png", diag, sizeof diag, &e);
     if (rc)
         fail_msg("%s", e.msg);
     if (diag[0])
@@ -306,7 +306,7 @@ static void test_svg(void **state)
                      .width = 800, .height = 500};
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
-    int rc = sr_plot_render(gnuplot, o.prefix, "svg", NULL, 0, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "svg", NULL, 0, &e);
     if (rc)
         fail_msg("%s", e.msg);
     char *svg = slurp(tpath("svg.svg"), NULL);
@@ -380,7 +380,7 @@ static void test_rejected_script(void **state)
     assert_non_null(f);
     fputs("set xrange [1:\n", f);
     fclose(f);
-    int rc = sr_plot_render(gnuplot, o.prefix, "png", NULL, 0, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", NULL, 0, &e);
     assert_int_equal(rc, SR_EIO);
     assert_non_null(strstr(e.msg, "gnuplot rejected"));
     assert_non_null(strstr(e.msg, "line"));
@@ -418,7 +418,7 @@ static void test_hostile_text(void **state)
                      .format = "png", .width = 500, .height = 400};
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
-    int rc = sr_plot_render(gnuplot, o.prefix, "png", NULL, 0, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", NULL, 0, &e);
     if (rc)
         fail_msg("%s", e.msg);
     assert_int_not_equal(access(marker, F_OK), 0);
@@ -440,7 +440,7 @@ static void test_missing_style_falls_back(void **state)
     char *gp = slurp(tpath("nostyle.gp"), NULL);
     assert_non_null(strstr(gp, "set label 100 caution"));
     free(gp);
-    int rc = sr_plot_render(gnuplot, o.prefix, "png", NULL, 0, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", NULL, 0, &e);
     if (rc)
         fail_msg("%s", e.msg);
     unsigned w, h;

@@ -440,8 +440,8 @@ static int report_limits(sr_report *r, sr_cli *c, const sr_mission *m, const run
             char a[64], b[64];
             sr_report_format_value(a, sizeof a, bad_typ ? L[i].typ : L[i].worst, L[i].q, c->units, 4);
             sr_report_format_value(b, sizeof b, L[i].limit, L[i].q, c->units, 4);
-            fprintf(c->err, "sinkrate profile: limit exceeded: %s %s > %s%s\n", L[i].label, a, b,
-                    bad_typ ? "" : " (at the worse end of the drag band)");
+            sr_cli_note(c, "limit exceeded: %s %s > %s%s", L[i].label, a, b,
+                        bad_typ ? "" : " (at the worse end of the drag band)");
         } else if (bad_worst) {
             char a[64], b[64];
             sr_report_format_value(a, sizeof a, L[i].worst, L[i].q, c->units, 4);
@@ -537,6 +537,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         return sr_cli_fail(c, "give a mission file (e.g. payloads/desert-club-rocket.yaml)");
     if (first + 1 < argc)
         return sr_cli_fail(c, "unexpected argument '%s' (profile takes one mission file)", argv[first + 1]);
+    if ((rc = sr_profile_plot_reserve(c)) || (rc = sr_cli_input(c, "the mission file", argv[first])))
+        return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
     sr_profile_ctx *ctx = NULL;
@@ -559,6 +561,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
+    if ((rc = sr_cli_mission_inputs(c, m)))
+        goto out;
     if (!m->has_start) {
         rc = sr_cli_fail(c, "%s: the mission has no start: block (height above ground, airspeed and path angle at "
                             "the first deployment); a profile needs it",

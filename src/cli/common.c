@@ -13,6 +13,7 @@
 
 #include "cli/cliplot.h"
 #include "output/fileio.h"
+#include "output/txn.h"
 #include "output/plot.h"
 #include "files/mission.h"
 #include "files/yamldoc.h"
@@ -252,14 +253,13 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
         }
         }
     }
-    /* the output paths before any work: a bad one fails first, with one
-     * line, and nothing is computed or written */
+    /* the outputs before any work: a bad one fails first, with one line,
+     * and nothing is computed; each gets its temporary now */
     int rc;
-    if (c->output && (rc = sr_cli_check_output(c, "-o", c->output)))
+    if (c->output && (rc = sr_cli_output(c, "-o", c->output)))
         return rc;
-    sr_error e;
-    if (c->plot_prefix && sr_plot_check_prefix(c->plot_prefix, c->plot_format ? c->plot_format : "png", &e))
-        return sr_cli_fail(c, "--plot: %s", e.msg);
+    if (c->plot_prefix && (rc = sr_cli_plot_reserve(c, c->plot_prefix)))
+        return rc;
     if (first_arg)
         *first_arg = optind;
     else if (optind < argc)
@@ -363,6 +363,9 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
     *mis = NULL;
     if (!path)
         return sr_cli_atmos(c, a, atm, ground);
+    int rc;
+    if ((rc = sr_cli_input(c, "the mission file", path)))
+        return rc;
     *mis = calloc(1, sizeof **mis);
     if (!*mis)
         return sr_cli_fail(c, "out of memory");
@@ -371,6 +374,8 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
         *mis = NULL;
         return sr_cli_fail(c, "--mission: %s", e.msg);
     }
+    if ((rc = sr_cli_mission_inputs(c, *mis)))
+        return rc;
     *ground = (*mis)->ground;
     if (sr_cli_atmos_given(a))
         return sr_cli_atmos(c, a, atm, ground);
@@ -396,6 +401,9 @@ int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground)
     if (a->sounding) {
         if (site || a->temp_offset)
             return sr_cli_fail(c, "--sounding: give either a sounding or the other atmosphere options, not both");
+        int rc = sr_cli_input(c, "--sounding", a->sounding);
+        if (rc)
+            return rc;
         if (sr_atmos_load_sounding(m, a->sounding, &e))
             return sr_cli_fail(c, "--sounding: %s", e.msg);
         double lo, hi;
@@ -504,6 +512,14 @@ int sr_cli_catalog(sr_cli *c, sr_catalog **cat)
         *cat = NULL;
         return sr_cli_fail(c, "%s", e.msg);
     }
+    for (size_t i = 0; i < (*cat)->n; i++) {
+        int rc = sr_cli_input(c, "a canopy family file of the catalog", (*cat)->fam[i].file);
+        if (rc) {
+            free(*cat);
+            *cat = NULL;
+            return rc;
+        }
+    }
     return 0;
 }
 
@@ -521,6 +537,8 @@ int sr_cli_canopy(sr_cli *c, const sr_catalog *cat, const sr_canopy_opts *o, int
             o->drag_coefficient)
             return sr_cli_fail(c, "--canopy: the canopy file already gives family, size and drag; drop the "
                                   "--family / size / --drag-coefficient options");
+        if ((rc = sr_cli_input(c, "--canopy", o->canopy)))
+            return rc;
         if (sr_catalog_load_canopy(out, cat, o->canopy, &e))
             return sr_cli_fail(c, "--canopy: %s", e.msg);
     } else {
@@ -661,32 +679,48 @@ void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t
     }
 }
 
-int sr_cli_check_output(sr_cli *c, const char *opt, const char *path)
+int sr_cli_output(sr_cli *c, const char *opt, const char *path)
 {
     sr_error e;
-    if (sr_file_check_writable(path, 0, &e))
-        return sr_cli_fail(c, "%s: %s", opt, e.msg);
+    if (sr_txn_reserve(c->txn, opt, path, 0, &e))
+        return sr_cli_fail(c, "%s", e.msg);
     return 0;
 }
 
-void sr_cli_made(sr_cli *c, const char *path)
+int sr_cli_input(sr_cli *c, const char *what, const char *path)
 {
-    struct stat st;
-    if (c->nmade >= (int)(sizeof c->made / sizeof c->made[0]) || lstat(path, &st) == 0)
-        return;
-    c->made[c->nmade] = strdup(path);
-    if (c->made[c->nmade])
-        c->nmade++;
+    sr_error e;
+    if (sr_txn_input(c->txn, what, path, &e))
+        return sr_cli_fail(c, "%s", e.msg);
+    return 0;
 }
 
-void sr_cli_made_end(sr_cli *c, int failed)
+int sr_cli_mission_inputs(sr_cli *c, const sr_mission *m)
 {
-    while (c->nmade > 0) {
-        char *p = c->made[--c->nmade];
-        if (failed)
-            remove(p); /* a directory goes only when empty */
-        free(p);
+    int rc = sr_cli_input(c, "the mission file", m->path);
+    if (!rc && m->atmos.kind == SR_ATMOS_SOUNDING)
+        rc = sr_cli_input(c, "the mission's sounding", m->atmos.source);
+    if (!rc && m->wind.source[0])
+        rc = sr_cli_input(c, "the mission's wind table", m->wind.source);
+    for (size_t k = 0; k < m->nstages && !rc; k++)
+        if (m->stages[k].file[0])
+            rc = sr_cli_input(c, "a canopy file of the mission", m->stages[k].file);
+    for (size_t k = 0; k < m->nsections && !rc; k++)
+        if (m->sections[k].has_body && m->sections[k].curve.path[0])
+            rc = sr_cli_input(c, "a drag table of the mission", m->sections[k].curve.path);
+    return rc;
+}
+
+void sr_cli_note(sr_cli *c, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    if (c->notes) {
+        fprintf(c->notes, "sinkrate %s: ", c->cmd ? c->cmd : "");
+        vfprintf(c->notes, fmt, ap);
+        fputc('\n', c->notes);
     }
+    va_end(ap);
 }
 
 int sr_cli_emit(sr_cli *c, const sr_report *r)
@@ -705,11 +739,10 @@ int sr_cli_emit(sr_cli *c, const sr_report *r)
         return sr_cli_fail(c, "%s", e.msg);
     }
     if (c->output) {
-        sr_cli_made(c, c->output);
-        rc = sr_file_write_atomic(c->output, buf, len, &e);
+        rc = sr_txn_write(c->txn, c->output, buf, len, &e);
         free(buf);
         if (rc)
-            return sr_cli_fail(c, "-o: %s", e.msg);
+            return sr_cli_fail(c, "%s", e.msg);
         return 0;
     }
     fwrite(buf, 1, len, c->out);

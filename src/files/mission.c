@@ -179,6 +179,7 @@ static int parse_stage(sr_mission *m, sr_yaml *y, yaml_node_t *n, const sr_catal
         if ((rc = sr_yaml_string(y, cf, file, sizeof file, err)))
             return rc;
         sr_mission_relative_path(path, sizeof path, m->path, file);
+        snprintf(s->file, sizeof s->file, "%s", path);
         sr_error e;
         if ((rc = sr_catalog_load_canopy(&s->canopy, cat, path, &e)))
             return sr_yaml_fail(y, cf, err, "%s", e.msg);
