@@ -657,6 +657,32 @@ static const bad_case BAD[] = {
      "needs sigma"},
     {{DISPERSION}, PMISSION "uncertainty: {drag: {main: uniform}, drag: x}\n", NULL, 0, "@IN@:10:38",
      "duplicate key 'drag'"},
+
+    /* ---- outputs that are inputs of the run, or each other (same path, link or inode) ---- */
+    {{PROFILE, "-o", "@IN@"}, PMISSION, NULL, 0, "-o: @IN@", "is also a file this run reads (the mission file)"},
+    {{DISPERSION, "--samples", "@IN@"}, PMISSION, NULL, 0, "--samples: @IN@",
+     "is also a file this run reads (the mission file)"},
+    {{AIR_SOUNDING, "-o", "@IN@"}, SOUNDING_HEAD "0,15,1013.25\n1000,8.5,898.7\n", NULL, 0, "-o: @IN@",
+     "is also a file this run reads (--sounding)"},
+    {{CHECK, "-o", "@IN@"}, MISSION, NULL, 0, "-o: @IN@", "is also a file this run reads (a file to check)"},
+    {{RATE_CANOPY, "-o", "@IN@"}, "canopy:\n  family: conical\n  nominal-diameter: 1 m\n", NULL, 0, "-o: @IN@",
+     "is also a file this run reads (--canopy)"},
+    {{PROFILE, "-o", "@IN2@"}, "mission: m\nsite: {sounding: second}\nsections:\n" SECTION STAGES START,
+     SOUNDING_HEAD "0,15,1013.25\n3000,-4.5,701.1\n", 0, "-o: @IN2@",
+     "is also a file this run reads (the mission's sounding)"},
+    {{PROFILE, "-o", "@IN2@"}, MISSION_HEAD SECTION "stages:\n  - {name: main, canopy: second}\n" START,
+     "canopy:\n  family: conical\n  nominal-diameter: 1.5 m\n", 0, "-o: @IN2@",
+     "is also a file this run reads (a canopy file of the mission)"},
+    {{FREEFALL, "--cd-table", "@IN@", "-o", "@IN@"}, CD_HEAD "1e2,1.0\n1e3,0.5\n", NULL, 0, "-o: @IN@",
+     "is also a file this run reads (--cd-table)"},
+    {{"canopies", "--data", "@DATA@", "-o", "@IN@"}, FAMILY, NULL, 0, "@IN@",
+     "is also a file this run reads (a canopy family file of the catalog)"},
+    {{DISPERSION, "-o", "@OUT@/x", "--samples", "@OUT@/x"}, PMISSION, NULL, 0, "--samples: @OUT@/x",
+     "is also written by -o"},
+    {{DISPERSION, "-o", "@OUT@/fig.dat", "--plot", "@OUT@/fig"}, PMISSION, NULL, 0, "--plot: @OUT@/fig.dat",
+     "is also written by -o"},
+    {{DISPERSION, "-o", "@OUT@/./x", "--samples", "@OUT@/x"}, PMISSION, NULL, 0, "--samples: @OUT@/x",
+     "is also written by -o"},
 };
 
 /* ---- the harness ---- */
