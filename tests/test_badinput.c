@@ -37,7 +37,8 @@ typedef enum gen {
     GEN_DEEP_BLOCK, /* @IN@ nests 40 block mappings */
     GEN_LAUGHS,     /* @IN@ multiplies one list through 9 levels of aliases */
     GEN_LONG_NUMBER, /* @IN@ is a mission whose mass has 300 digits */
-    GEN_BINARY2      /* @IN2@ is 256 bytes 0..255 (and @IN@ is `in`) */
+    GEN_BINARY2,     /* @IN2@ is 256 bytes 0..255 (and @IN@ is `in`) */
+    GEN_ANCHORS      /* @IN@ defines 58 000 anchors and uses each (0.9 MB) */
 } gen;
 
 typedef struct bad_case {
@@ -353,7 +354,32 @@ static const bad_case BAD[] = {
     {{CHECK}, "# only a comment\n", NULL, 0, "@IN@:1:1", "no YAML document"},
     {{SIZE_MISSION}, NULL, NULL, GEN_BINARY, "@IN@:1:1", "binary data"},
     {{CHECK}, "id: \xff\xfe\x80\x81\n", NULL, 0, "@IN@:1:5", "malformed YAML"},
-    {{CHECK}, "id: [[[[[[[[[[[[[[[[[[x]]]]]]]]]]]]]]]]]]\n", NULL, 0, "@IN@:1:21", "nested more than 16 levels"},
+    {{CHECK}, "id: [[[[[[[[[[[[[[[[[[x]]]]]]]]]]]]]]]]]]\n", NULL, 0, "@IN@:1:20", "nested more than 16 levels"},
+    {{SIZE_MISSION}, NULL, NULL, GEN_ANCHORS, "@IN@:1001:8", "more than 1000 anchors"},
+    /* an anchored value is judged, and reported, where it is used */
+    {{SIZE_MISSION}, "mission: m\nsite: {elevation: &e 100 m}\nsections:\n  - {name: a, mass: *e}\n" STAGES, NULL, 0,
+     "@IN@:4:21", "unknown mass unit 'm'"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: *nope}\n" STAGES, NULL, 0, "@IN@:4:21",
+     "the alias *nope names no anchor"},
+    /* a NUL character written as a YAML escape, in a value and in a key */
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: \"2 kg\\0 garbage\"}\n" STAGES, NULL, 0, "@IN@:4:21",
+     "a NUL character"},
+    {{SIZE_MISSION}, "\"mission\\0junk\": m\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:1:1", "a NUL character"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - name: main\n    family: \"conical\\0x\"\n"
+     "    nominal-diameter: 1.5 m\n", NULL, 0, "@IN@:7:13", "a NUL character"},
+    /* control characters in names: refused, never written to a report */
+    {{SIZE_MISSION}, "mission: \"m\\e[31mred\"\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:1:10",
+     "a control character (an escape (ESC), U+001B)"},
+    {{SIZE_MISSION}, "mission: \"\\e]0;title\\a\"\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:1:10",
+     "a control character"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: \"a\\nb\", mass: 2 kg}\n" STAGES, NULL, 0, "@IN@:4:12",
+     "a control character (a line break, U+000A)"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: \"a\\rb\", mass: 2 kg}\n" STAGES, NULL, 0, "@IN@:4:12",
+     "a control character (a carriage return"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - name: \"m\\bx\"\n    family: conical\n"
+     "    nominal-diameter: 1.5 m\n", NULL, 0, "@IN@:6:11", "a control character (a backspace"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - name: \"m\\x9bx\"\n    family: conical\n"
+     "    nominal-diameter: 1.5 m\n", NULL, 0, "@IN@:6:11", "a control character (U+009B)"},
     {{SIZE_MISSION}, NULL, NULL, GEN_DEEP_BLOCK, "@IN@:18:33", "too deeply nested"},
     {{SIZE_MISSION}, NULL, NULL, GEN_LAUGHS, "@IN@:", "too large or too deeply nested"},
     {{SIZE_MISSION}, NULL, NULL, GEN_BIG, "@IN@", "larger than 1 MiB"},
@@ -750,6 +776,12 @@ static char *generate(gen g, size_t *len)
             n += (size_t)snprintf(b + n, cap - n, "l%d: &l%d [*l%d, *l%d, *l%d, *l%d, *l%d, *l%d, *l%d, *l%d]\n", i, i,
                                   i - 1, i - 1, i - 1, i - 1, i - 1, i - 1, i - 1, i - 1);
         n += (size_t)snprintf(b + n, cap - n, "sections:\n" SECTION STAGES);
+        break;
+    case GEN_ANCHORS:
+        for (int i = 0; i < 29000 && n + 64 < cap; i++)
+            n += (size_t)snprintf(b + n, cap - n, "k%d: &a%d x\n", i, i);
+        for (int i = 0; i < 29000 && n + 64 < cap; i++)
+            n += (size_t)snprintf(b + n, cap - n, "r%d: *a%d\n", i, i);
         break;
     case GEN_LONG_NUMBER:
         n += (size_t)snprintf(b, cap, MISSION_HEAD "  - {name: a, mass: ");

@@ -624,6 +624,28 @@ static void test_signal_while_drawing(void **state)
     unlink(pidfile);
 }
 
+/* A control character in a file name reaches the report only escaped. */
+static void test_control_characters_escaped(void **state)
+{
+    (void)state;
+    const char *w = workdir("escapes");
+    char snd[4300];
+    snprintf(snd, sizeof snd, "%s/s\x1b[31mred\x07.csv", w);
+    const char *csv = "altitude [m],temperature [C],pressure [hPa]\n0,15,1013.25\n1000,8.5,898.7\n";
+    put(snd, csv, strlen(csv));
+    const char *F[] = {"text", "csv", "json"};
+    for (int k = 0; k < 3; k++) {
+        char *out, *err;
+        assert_int_equal(sr_test_cli(&out, &err, "air", "--sounding", snd, "--format", F[k], NULL), 0);
+        assert_null(strchr(out, 0x1b));
+        assert_null(strchr(out, 0x07));
+        if (k == 0) /* JSON escapes the backslash once more */
+            assert_non_null(strstr(out, "s\\e[31mred\\x07.csv"));
+        free(out);
+        free(err);
+    }
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -634,6 +656,7 @@ int main(void)
         cmocka_unit_test(test_nested_directories_removed),
         cmocka_unit_test(test_link_and_long_name),
         cmocka_unit_test(test_script_same_at_any_thread_count),
+        cmocka_unit_test(test_control_characters_escaped),
         cmocka_unit_test(test_signal_during_work),
         cmocka_unit_test(test_signal_while_drawing),
     };

@@ -54,7 +54,7 @@ static int read_band(const sr_yaml *y, yaml_node_t *map, const char *key, sr_qua
     b->lo = v[0];
     b->typ = v[1];
     b->hi = v[2];
-    return sr_yaml_string(y, sr_yaml_get(y, n, "source"), src, srclen, err);
+    return sr_yaml_text(y, sr_yaml_get(y, n, "source"), src, srclen, err);
 }
 
 static int read_value(const sr_yaml *y, yaml_node_t *map, const char *key, sr_quantity q, double min, double max,
@@ -70,7 +70,7 @@ static int read_value(const sr_yaml *y, yaml_node_t *map, const char *key, sr_qu
         return rc;
     if (!(*v >= min && *v <= max))
         return sr_yaml_fail(y, vn, err, "%s is outside the plausible range %g .. %g", key, min, max);
-    return sr_yaml_string(y, sr_yaml_get(y, n, "source"), src, srclen, err);
+    return sr_yaml_text(y, sr_yaml_get(y, n, "source"), src, srclen, err);
 }
 
 static int valid_id(const char *s)
@@ -144,7 +144,7 @@ int sr_catalog_parse_family(sr_family *f, sr_yaml *y, sr_error *err)
                          sizeof f->areal_source, err)))
         return rc;
     n = sr_yaml_get(y, root, "notes");
-    if (n && (rc = sr_yaml_string(y, n, f->notes, sizeof f->notes, err)))
+    if (n && (rc = sr_yaml_text(y, n, f->notes, sizeof f->notes, err)))
         return rc;
     return SR_OK;
 }
@@ -298,7 +298,7 @@ int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_ya
             return rc;
         if (sr_ref_parse(refs, &ref) != SR_OK)
             return sr_yaml_fail(y, rn, err, "reference must be nominal, projected or constructed, not '%s'", refs);
-        if ((rc = sr_yaml_string(y, sr_yaml_get(y, m, "source"), src, sizeof src, err)))
+        if ((rc = sr_yaml_text(y, sr_yaml_get(y, m, "source"), src, sizeof src, err)))
             return rc;
         if ((rc = sr_canopy_set_measured_cd(c, cd, ref, src, &e)))
             return sr_yaml_fail(y, sr_yaml_get(y, m, "value"), err, "%s", e.msg);
