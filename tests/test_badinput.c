@@ -89,7 +89,8 @@ typedef struct bad_case {
 
 static const bad_case BAD[] = {
     /* ---- options: values and units ---- */
-    {{SIZE_OK, "--mass", "-2 kg"}, NULL, NULL, 0, "--mass", "greater than zero"},
+    {{"size", "--mass", "-2 kg", "--speed", "5 m/s", "--family", "conical"}, NULL, NULL, 0, "--mass",
+     "greater than zero"},
     {{"size", "--mass", "0", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "greater than zero"},
     {{"size", "--mass", "nan", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "not a number"},
     {{"size", "--mass", "inf kg", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "not a number"},
@@ -709,6 +710,23 @@ static const bad_case BAD[] = {
      "is also written by -o"},
     {{DISPERSION, "-o", "@OUT@/./x", "--samples", "@OUT@/x"}, PMISSION, NULL, 0, "--samples: @OUT@/x",
      "is also written by -o"},
+
+    /* ---- options named in every message; given once ---- */
+    {{RATE_OK, "-n", "5"}, NULL, NULL, 0, "'-n'", "unknown option '-n' (see --help)"},
+    {{"air", "-o"}, NULL, NULL, 0, "-o", "-o needs a value"},
+    {{"dispersion", "@IN@", "-o", "@OUT@/r", "-n"}, PMISSION, NULL, 0, "-n", "-n needs a value"},
+    {{"air", "-o", "@OUT@/r", "--sounding"}, NULL, NULL, 0, "--sounding", "--sounding needs a value"},
+    {{"air", "-o", "@OUT@/r", "--help=yes"}, NULL, NULL, 0, "--help", "takes no value"},
+    {{SIZE_OK, "--mass", "3 kg"}, NULL, NULL, 0, "--mass", "given twice ('2 kg', then '3 kg')"},
+    {{RATE_OK, "--family", "cross"}, NULL, NULL, 0, "--family", "given twice"},
+    {{"air", "-o", "@OUT@/a", "-o", "@OUT@/b"}, NULL, NULL, 0, "-o", "given twice"},
+    {{"air", "--format", "csv", "--format", "json"}, NULL, NULL, 0, "--format", "given twice"},
+    {{DISPERSION, "-n", "10", "-n", "20"}, PMISSION, NULL, 0, "-n", "given twice"},
+    {{PROFILE, "--plot", "@OUT@/a", "--plot", "@OUT@/b"}, PMISSION, NULL, 0, "--plot", "given twice"},
+    {{SWEEP_OK, "--by", "site-elevation=20000m"}, NULL, NULL, 0, "--by: site 20000 m",
+     "puts the ground above the lowest swept altitude"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,\"15\n# a comment\n\",1013.25\n1000,8.5,898.7\n", NULL, 0, "@IN@:2:3",
+     "a quoted cell runs past the end of its line"},
 };
 
 /* ---- the harness ---- */

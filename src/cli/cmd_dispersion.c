@@ -658,6 +658,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     memset(&o, 0, sizeof o);
     char help[sizeof HELP + 4096];
     snprintf(help, sizeof help, "%s%s\n%s", HELP, SR_HELP_PLOT, SR_HELP_OUTPUT);
+    c->short_opts = "n:"; /* -n N, the number of samples */
     int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, help, &first);
     if (rc)
         return rc;

@@ -143,13 +143,55 @@ static const char *option_suggestion(const struct option *opts, const char *bad)
     return sr_yaml_suggest(bad, names);
 }
 
+/* How the user writes the option of code: "-o", "--mass". */
+static const char *option_name(const struct option *opts, int code)
+{
+    static const char *const SHORT[] = {"-o", "-n", "--help"};
+    if (code == 'o' || code == 'n' || code == 'h')
+        return SHORT[code == 'o' ? 0 : code == 'n' ? 1 : 2];
+    static char buf[64];
+    for (const struct option *o = opts; o->name; o++)
+        if (o->val == code) {
+            snprintf(buf, sizeof buf, "--%s", o->name);
+            return buf;
+        }
+    return "an option";
+}
+
+static int repeatable(const sr_cli *c, int code)
+{
+    for (const int *r = c->repeatable; r && *r; r++)
+        if (*r == code)
+            return 1;
+    return 0;
+}
+
 int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
                  const char *help, int *first_arg)
 {
     optind = 0; /* GNU: full re-initialisation, so in-process calls can repeat */
     opterr = 0;
+    /* a leading ':' makes a missing value ':' (not '?'), so it is named as such */
+    char shorts[32];
+    snprintf(shorts, sizeof shorts, ":ho:%s", c->short_opts ? c->short_opts : "");
+    /* options given once only: a second value would silently replace the first */
+    struct {
+        int code;
+        const char *arg;
+    } seen[64];
+    size_t nseen = 0;
     int code;
-    while ((code = getopt_long(argc, argv, "ho:n:", opts, NULL)) != -1) {
+    while ((code = getopt_long(argc, argv, shorts, opts, NULL)) != -1) {
+        if (code != '?' && code != ':' && optarg && !repeatable(c, code)) {
+            for (size_t k = 0; k < nseen; k++)
+                if (seen[k].code == code)
+                    return sr_cli_fail(c, "%s: given twice ('%s', then '%s'); give it once", option_name(opts, code),
+                                       seen[k].arg, optarg);
+            if (nseen < sizeof seen / sizeof seen[0]) {
+                seen[nseen].code = code;
+                seen[nseen++].arg = optarg;
+            }
+        }
         switch (code) {
         case 'h':
             help_with_groups(c, help, opts);
@@ -221,13 +263,8 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
             const char *bad = argv[optind - 1];
             if (optopt && optopt < 256 && bad[0] == '-' && bad[1] != '-')
                 return sr_cli_fail(c, "unknown option '-%c' (see --help)", optopt);
-            if (optopt) {
-                /* a known option missing its argument */
-                for (const struct option *o = opts; o->name; o++)
-                    if (o->val == optopt)
-                        return sr_cli_fail(c, "--%s needs a value", o->name);
-                return sr_cli_fail(c, "option '%s' needs a value", bad);
-            }
+            if (optopt) /* a long option that takes no value, given one */
+                return sr_cli_fail(c, "%s takes no value (got '%s')", option_name(opts, optopt), bad);
             char name[128];
             snprintf(name, sizeof name, "%s", bad + (bad[0] == '-' ? (bad[1] == '-' ? 2 : 1) : 0));
             char *eq = strchr(name, '=');
@@ -238,8 +275,8 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
                 return sr_cli_fail(c, "unknown option '%s'; did you mean '--%s'?", bad, s);
             return sr_cli_fail(c, "unknown option '%s' (see --help)", bad);
         }
-        case ':':
-            return sr_cli_fail(c, "option '%s' needs a value", argv[optind - 1]);
+        case ':': /* a known option at the end of the line, missing its value */
+            return sr_cli_fail(c, "%s needs a value (see --help)", option_name(opts, optopt));
         default: {
             int rc = handle ? handle(c, code, optarg, ud) : 1;
             if (rc == 1) {

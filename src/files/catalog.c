@@ -7,6 +7,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 
 #define PI 3.14159265358979323846
 
@@ -184,6 +185,13 @@ int sr_catalog_open(sr_catalog *c, const char *dir, sr_error *err)
     while ((e = readdir(d)) != NULL) {
         size_t l = strlen(e->d_name);
         if (l < 6 || strcmp(e->d_name + l - 5, ".yaml") != 0 || e->d_name[0] == '.')
+            continue;
+        /* a family is a regular file: a FIFO would block every command on its open, a device or a
+         * directory is no family */
+        char path[1024];
+        struct stat st;
+        snprintf(path, sizeof path, "%s/%s", dir, e->d_name);
+        if (stat(path, &st) != 0 || !S_ISREG(st.st_mode))
             continue;
         if (n >= SR_CATALOG_MAX) {
             rc = sr_error_set(err, SR_EINVAL, "%s: more than %d family files", dir, SR_CATALOG_MAX);
