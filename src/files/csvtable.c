@@ -340,7 +340,7 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
             /* a quoted cell open at the end of its line (libcsv: FIELD_BEGUN
              * inside quotes) would swallow the next lines, '#' ones too: a
              * numeric table keeps every cell on its line */
-            if (!s->failed && p.pstate == 2 && p.quoted)
+            if (!s->failed && end < len && p.pstate == 2 && p.quoted)
                 fail(s, s->field, "a quoted cell runs past the end of its line (its closing '\"' is missing)%s%s",
                      "", "");
         }
