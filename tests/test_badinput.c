@@ -727,6 +727,20 @@ static const bad_case BAD[] = {
      "puts the ground above the lowest swept altitude"},
     {{AIR_SOUNDING}, SOUNDING_HEAD "0,\"15\n# a comment\n\",1013.25\n1000,8.5,898.7\n", NULL, 0, "@IN@:2:3",
      "a quoted cell runs past the end of its line"},
+
+    /* ---- numbers: no input leads to an infinite or absurd result ---- */
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1e-306\n1000,8.5,1e-307\n", NULL, 0, "@IN@:2:1",
+     "pressure 1e-306 hPa at 0 m is not air"},
+    {{RATE_OK, "--sounding", "@IN@"}, SOUNDING_HEAD "0,15,1e-300\n1000,8.5,1e-301\n", NULL, 0, "--sounding: @IN@:2:1",
+     "is not air"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013.25\n1000,8.5,89.87\n", NULL, 0, "@IN@:3:1", "(check the unit)"},
+    {{PROFILE}, "mission: m\nsections:\n" SECTION
+     "stages:\n  - {name: main, family: conical, nominal-diameter: 1.5 m, deploy: {delay: 100 s}}\n"
+     "start: {height: 3000 m, speed: 1999 m/s, path-angle: -90 deg}\n", NULL, 0, "@IN@:6:8",
+     "climbs past 86000 m above sea level, the top of the atmosphere model"},
+    {{DISPERSION}, "mission: m\nsections:\n" SECTION STAGES "start: {height: 85500 m}\n"
+     "uncertainty: {first-deployment: {distribution: normal, sigma: 200 m}}\n", NULL, 0, "@IN@:9:63",
+     "six times sigma reaches above the top of the atmosphere model"},
 };
 
 /* ---- the harness ---- */

@@ -762,6 +762,14 @@ void sr_cli_note(sr_cli *c, const char *fmt, ...)
 
 int sr_cli_emit(sr_cli *c, const sr_report *r)
 {
+    /* an infinite number is no result: the inputs were outside what the models hold */
+    const char *inf = sr_report_infinite(r);
+    if (inf) {
+        char inputs[1024];
+        sr_txn_inputs(c->txn, inputs, sizeof inputs);
+        return sr_cli_fail(c, "'%s' came out infinite: %s is outside what the models hold; check %s", inf,
+                           inputs[0] ? "an input" : "a value given", inputs[0] ? inputs : "the options");
+    }
     char *buf = NULL;
     size_t len = 0;
     FILE *mem = open_memstream(&buf, &len);

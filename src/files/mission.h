@@ -79,6 +79,7 @@ typedef struct sr_mission {
     size_t nstages;
     sr_stage stages[SR_MISSION_MAX_STAGES];
     int has_start;
+    char start_at[600];      /* "file:line:column" of the start: block, for messages about it */
     double start_height;     /* first deployment: height above ground, m */
     double start_speed;      /* m/s */
     double start_path_angle; /* rad, below horizontal positive */

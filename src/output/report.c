@@ -240,6 +240,22 @@ size_t sr_report_warnings(const sr_report *r)
     return r->warnings.n;
 }
 
+const char *sr_report_infinite(const sr_report *r)
+{
+    for (size_t i = 0; i < r->nitems; i++) {
+        const item *it = &r->items[i];
+        if ((it->kind == IT_VALUE || it->kind == IT_BAND) && (isinf(it->v[0]) || isinf(it->v[1]) || isinf(it->v[2])))
+            return it->label ? it->label : it->key;
+    }
+    for (size_t k = 0; k < r->ntables; k++) {
+        const sr_rtable *t = r->tables[k];
+        for (size_t i = 0; i < t->nrows * t->ncols; i++)
+            if (!t->cols[i % t->ncols].is_text && isinf(t->nums[i]))
+                return t->cols[i % t->ncols].label;
+    }
+    return NULL;
+}
+
 sr_rtable *sr_report_table(sr_report *r, const char *key, const char *title)
 {
     sr_rtable **n = realloc(r->tables, (r->ntables + 1) * sizeof *n);

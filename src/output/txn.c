@@ -48,7 +48,7 @@ typedef struct out {
 
 typedef struct in {
     struct in *next;
-    char *what, *canon;
+    char *what, *canon, *given;
     dev_t dev;
     ino_t ino;
 } in;
@@ -190,9 +190,11 @@ int sr_txn_input(sr_txn *t, const char *what, const char *path, sr_error *err)
         return sr_error_set(err, SR_ENOMEM, "out of memory");
     i->what = strdup(what ? what : "an input");
     i->canon = realpath(path, NULL);
-    if (!i->what || !i->canon) {
+    i->given = strdup(path);
+    if (!i->what || !i->canon || !i->given) {
         free(i->what);
         free(i->canon);
+        free(i->given);
         free(i);
         return SR_OK; /* its reader reports what is wrong with it */
     }
@@ -207,6 +209,29 @@ int sr_txn_input(sr_txn *t, const char *what, const char *path, sr_error *err)
             rc = clash_input(o, i, err);
     pthread_mutex_unlock(&t->lock);
     return rc;
+}
+
+void sr_txn_inputs(const sr_txn *t, char *buf, size_t len)
+{
+    sr_txn *m = (sr_txn *)t; /* the lock only */
+    pthread_mutex_lock(&m->lock);
+    size_t at = 0;
+    buf[0] = '\0';
+    /* oldest first: the order the run read them */
+    size_t n = 0;
+    for (const in *i = t->ins; i; i = i->next)
+        n++;
+    for (size_t k = n; k-- > 0 && at < len;) {
+        const in *i = t->ins;
+        for (size_t j = 0; j < k; j++)
+            i = i->next;
+        int dup = 0; /* one file named once */
+        for (const in *o = i->next; o; o = o->next)
+            dup |= strcmp(o->canon, i->canon) == 0;
+        if (!dup)
+            at += (size_t)snprintf(buf + at, len - at, "%s%s %s", at ? ", " : "", i->what, i->given);
+    }
+    pthread_mutex_unlock(&m->lock);
 }
 
 /* ---- reserving an output ---- */
@@ -824,6 +849,7 @@ void sr_txn_free(sr_txn *t)
         in *next = i->next;
         free(i->what);
         free(i->canon);
+        free(i->given);
         free(i);
         i = next;
     }

@@ -30,6 +30,9 @@ void sr_txn_free(sr_txn *t);
  * device and inode -- is refused. A path that is not a regular file is not
  * recorded (a missing one is its reader's error). */
 int sr_txn_input(sr_txn *t, const char *what, const char *path, sr_error *err);
+/* The inputs recorded, for a message: "the mission file m.yaml, --sounding
+ * s.csv" (empty when none), in the order they were read. */
+void sr_txn_inputs(const sr_txn *t, char *buf, size_t len);
 
 /* Reserve an output before any work (what: the option that names it, "-o",
  * in every message about it). A regular file or a name that does not exist
