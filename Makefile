@@ -81,11 +81,13 @@ unit: $(TESTS) $(B)/sinkrate
 	    CMOCKA_MESSAGE_OUTPUT=stdout $$t || fail=1; \
 	done; exit $$fail
 
-# check = the suite, the suite and fuzz regressions under ASan+UBSan, the CLI
-# examples under valgrind, then docs/validation.md.
+# check = the Makefile's own order (pkg-config read only after the deps step,
+# scripts/makefile-order.sh), the suite, the suite and fuzz regressions under
+# ASan+UBSan, the CLI examples under valgrind, then docs/validation.md.
 # The deps step runs in its own make first, so the build after it reads the
 # pkg-config flags of packages it may just have installed.
 check:
+	@sh scripts/makefile-order.sh
 	@$(MAKE) --no-print-directory deps
 	@$(MAKE) --no-print-directory unit
 	@$(MAKE) --no-print-directory sanitize valgrind

@@ -22,7 +22,8 @@ const char SR_HELP_OUTPUT[] =
     "Output:\n"
     "  --format text|csv|json   output format (default text)\n"
     "  --units si|us            SI (default) or US customary units (ft, lb, ft/s, lbf)\n"
-    "  -o, --output FILE        write to FILE (atomically) instead of standard output\n"
+    "  -o, --output FILE        write to FILE instead of standard output; every file a run\n"
+    "                           writes is put in place only when the whole run succeeds\n"
     "  --data DIR               directory holding canopies/ (default: found next to the\n"
     "                           program, $SINKRATE_DATA, or the installed share directory)\n"
     "  -h, --help               this help\n";

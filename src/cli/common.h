@@ -1,6 +1,6 @@
 /* common.h - what the subcommands share: option groups (output, atmosphere,
  * canopy), parsing quantities with the option name in errors, loading the
- * catalog, and writing the report (atomically with -o). */
+ * catalog, and the run's outputs (through its transaction, output/txn.h). */
 #ifndef SR_CLI_COMMON_H
 #define SR_CLI_COMMON_H
 

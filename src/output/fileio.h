@@ -1,5 +1,5 @@
-/* fileio.h - writing files atomically: a temporary file in the same
- * directory, then rename, so a failed run never leaves half a file. */
+/* fileio.h - one file written atomically (a transaction of one output,
+ * output/txn.h) and bounded reads with plain errors. */
 #ifndef SR_FILEIO_H
 #define SR_FILEIO_H
 
