@@ -10,6 +10,7 @@
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "physics/descent.h"
 #include "files/mission.h"
 #include "physics/opening.h"
@@ -740,6 +741,17 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
         warn_common(r, &ds[i], &recalled, nd > 1);
         cluster |= ds[i].cp->count > 1;
     }
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    if (mis) {
+        sr_input_warnings_mission(&iw, mis, &atm, c->units);
+        if (o.mass)
+            sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "--mass", c->units);
+    } else {
+        sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "decelerated mass", c->units);
+        sr_input_warnings_canopy(&iw, &cp, "canopy", c->units);
+    }
+    sr_cli_report_input_warnings(r, &iw);
     notes_common(r, recalled, isnan(tw.design) ? 0 : tw.design, cluster);
     if (c->plot_prefix && (rc = figures(c, ds, nd, argc, argv)))
         goto out;

@@ -7,6 +7,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "cli/profile_failcase.h"
 #include "cli/profile_plot.h"
 #include "files/mission.h"
@@ -121,6 +122,11 @@ static void wind_text(const sr_cli *c, const sr_wind *w, char *buf, size_t len)
             fmt(h2, sizeof h2, c, w->d, SR_Q_LENGTH, 3);
             snprintf(buf, len, "log law, %s from %.0f deg at %s above ground, roughness length %s, displacement %s", v,
                      deg, h, v2, h2);
+        }
+        if (w->h_grad > 0.0) {
+            size_t l = strlen(buf);
+            fmt(h, sizeof h, c, w->h_grad, SR_Q_LENGTH, 3);
+            snprintf(buf + l, len > l ? len - l : 0, "; held constant above %s (gradient height)", h);
         }
         return;
     case SR_WIND_TABLE: {
@@ -621,6 +627,10 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     report_touchdown(r, m, R);
     int exceeded = report_limits(r, c, m, R, o.worst);
     report_warnings(r, c, m, ctx, R);
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    sr_input_warnings_mission(&iw, m, NULL, c->units);
+    sr_cli_report_input_warnings(r, &iw);
     report_notes(r, o.fast);
     sr_profile_report_failures(r, c, m);
     if ((rc = sr_cli_emit(c, r)))

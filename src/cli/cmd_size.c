@@ -6,6 +6,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "physics/descent.h"
 #include "files/mission.h"
 
@@ -123,42 +124,13 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail(c, "--altitude: %s", e.msg);
         goto out;
     }
-    /* the drag band on nominal area: from the family, or a measured value converted */
-    sr_band cd0 = cp.fam.cd0.v;
-    if (cp.measured) {
-        sr_band ratio = {1, 1, 1};
-        if (cp.cd.ref == SR_REF_PROJECTED)
-            ratio = cp.fam.dp_d0;
-        else if (cp.cd.ref == SR_REF_CONSTRUCTED)
-            ratio = cp.fam.dc_d0;
-        double v = cp.cd.v.typ;
-        cd0.lo = v * ratio.lo * ratio.lo;
-        cd0.typ = v * ratio.typ * ratio.typ;
-        cd0.hi = v * ratio.hi * ratio.hi;
-    }
-    sr_size_request req = {.mass = mass,
-                           .speed = speed,
-                           .rho = air.rho,
-                           .g = air.g,
-                           .count = cp.count,
-                           .cluster_factor = cp.cluster_factor,
-                           .areal_mass = cp.areal_mass > 0 ? cp.areal_mass : 0.0,
-                           .body_cds = body,
-                           .cd0 = cd0};
     sr_size_result res;
-    if (sr_descent_size(&req, &res, &e)) {
+    if (sr_descent_size_canopy(&cp, mass, speed, body, &air, &res, &e)) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
-    /* the same bounds a given size must meet (sr_canopy_from_size): outside them
-     * the answer is no canopy at all, usually a unit slip in mass or speed */
-    if (res.d0.lo < 0.01 || res.d0.hi > 200.0) {
-        sr_cli_fail(c, "no canopy fits: the nominal diameter needed, %.3g m .. %.3g m, is outside any canopy built "
-                       "(1 cm .. 200 m); check --mass and --speed",
-                    res.d0.lo, res.d0.hi);
-        rc = SR_EXIT_LIMIT;
-        goto out;
-    }
+    sr_band cd0 = sr_canopy_cd0_band(&cp);
+    double areal = cp.areal_mass > 0 ? cp.areal_mass : 0.0;
 
     r = sr_report_new("size", "canopy size for a target touchdown speed");
     sr_report_section(r, "Inputs");
@@ -172,8 +144,8 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_cli_report_canopy(r, &cp);
     if (body > 0)
         sr_report_value(r, "body_drag_area", "payload drag area", body, SR_Q_AREA, 4);
-    if (req.areal_mass > 0)
-        sr_report_value(r, "areal_mass", "canopy areal mass", req.areal_mass, SR_Q_AREAL_MASS, 3);
+    if (areal > 0)
+        sr_report_value(r, "areal_mass", "canopy areal mass", areal, SR_Q_AREAL_MASS, 3);
 
     sr_report_section(r, cp.count > 1 ? "Result (each canopy of the cluster)" : "Result");
     sr_report_band(r, "nominal_area", "nominal area S0", res.s0.lo, res.s0.typ, res.s0.hi, SR_Q_AREA, 4);
@@ -183,7 +155,7 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
                    res.d0.hi * dp.hi, SR_Q_LENGTH, 4);
     sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", res.d0.lo * dc.lo, res.d0.typ * dc.typ,
                    res.d0.hi * dc.hi, SR_Q_LENGTH, 4);
-    if (req.areal_mass > 0)
+    if (areal > 0)
         sr_report_band(r, "canopy_mass", "canopy fabric mass (all canopies)", res.canopy_mass.lo,
                        res.canopy_mass.typ, res.canopy_mass.hi, SR_Q_MASS, 3);
     sr_report_value(r, "drag_area", "drag area needed (total, typical)", res.cds_total, SR_Q_AREA, 4);
@@ -218,7 +190,7 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     typ.cds.hi = cd0.hi * res.s0.typ;
     typ.count = cp.count;
     typ.cluster_factor = cp.cluster_factor;
-    typ.areal_mass = req.areal_mass;
+    typ.areal_mass = areal;
     sr_rtable *t = sr_report_table(r, "rate_of_typical_size", "Descent rate of the typical size at altitude");
     sr_rtable_column(t, "altitude", "altitude", SR_Q_LENGTH, SR_FIXED(0));
     sr_rtable_column(t, "density", "density", SR_Q_DENSITY, 4);
@@ -244,6 +216,20 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     if (cp.measured)
         sr_report_note(r, "A measured drag coefficient on %s area was converted to nominal area through the family "
                           "ratio.", sr_ref_name(cp.cd.ref));
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "payload mass", c->units);
+    sr_input_warnings_value(&iw, SR_PLAUS_DESCENT_SPEED, speed, "target touchdown speed", c->units);
+    sr_input_warnings_value(&iw, SR_PLAUS_CANOPY_D0, res.d0.typ, "nominal diameter D0 needed (typical)", c->units);
+    if (areal > 0)
+        sr_input_warnings_value(&iw, SR_PLAUS_AREAL_MASS, areal, "canopy areal mass", c->units);
+    unsigned mj = sr_mach_judge(speed / air.a, cp.fam.mach_max);
+    if (mj) {
+        char msg[SR_INPUT_WARN_LEN];
+        sr_mach_describe(mj, speed / air.a, cp.fam.mach_max, cp.fam.id, "the target speed", msg, sizeof msg);
+        sr_input_warnings_add(&iw, msg);
+    }
+    sr_cli_report_input_warnings(r, &iw);
     if (cp.fam.cd0_source[0] && strstr(cp.fam.cd0_source, "memory"))
         sr_report_warning(r, "The family's drag data are recalled handbook values, not checked against the printed "
                              "table: confirm with a drop test before relying on the size.");

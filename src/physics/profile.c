@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "physics/opening.h"
+#include "physics/plausible.h"
 #include "physics/profile_int.h"
 
 #define PI 3.14159265358979323846
@@ -278,7 +279,7 @@ static int fire(run *R, body *b, size_t k)
     s->body = b->idx;
     double qlim = isnan(c->lim_q) ? c->o.q_warn : c->lim_q;
     s->warn_q = s->q_deploy > qlim;
-    s->warn_mach = s->mach_deploy > st->mach_max;
+    s->warn_mach = (sr_mach_judge(s->mach_deploy, st->mach_max) & SR_MACH_OVER_ENVELOPE) != 0;
     add_event(R, SR_EVENT_DEPLOY, (int)k, b);
     if ((c->o.failed >> k) & 1u) {
         s->deployed = 0;

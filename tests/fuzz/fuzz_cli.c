@@ -24,10 +24,10 @@
 static FILE *devnull;
 
 /* Long options that write files other than by sr_txn_write (--plot: a
- * rendered figure; --samples: streamed); commands that add such options add
- * them here. An abbreviation counts, as getopt_long accepts it ("--sam" for
- * --samples). */
-static const char *const WRITERS[] = {"plot", "plot-format", "plot-size", "samples", NULL};
+ * rendered figure; --samples: streamed; fit's --write-canopy and
+ * --write-wind); commands that add such options add them here. An
+ * abbreviation counts, as getopt_long accepts it ("--sam" for --samples). */
+static const char *const WRITERS[] = {"plot", "plot-format", "plot-size", "samples", "write-canopy", "write-wind", NULL};
 
 /* The reservation makes a temporary (and directories) where an argument
  * points: while fuzzing, only its checks of the name itself. */
