@@ -150,14 +150,15 @@ static int copy_node(builder *b, int src, yaml_mark_t m, int depth, int *out)
     if (rc)
         return rc;
     yaml_document_t *d = &b->y->doc;
+    /* adding a node may move the node array: n is not used after an add */
     yaml_node_t *n = yaml_document_get_node(d, src);
     int idx = 0;
     if (n->type == YAML_SCALAR_NODE) {
         idx = yaml_document_add_scalar(d, n->tag, n->data.scalar.value, (int)n->data.scalar.length,
                                        n->data.scalar.style);
     } else if (n->type == YAML_SEQUENCE_NODE) {
-        idx = yaml_document_add_sequence(d, n->tag, n->data.sequence.style);
         size_t items = (size_t)(n->data.sequence.items.top - n->data.sequence.items.start);
+        idx = yaml_document_add_sequence(d, n->tag, n->data.sequence.style);
         for (size_t i = 0; idx && !rc && i < items; i++) {
             int c;
             /* the array may move as nodes are added: look the item up again */
@@ -166,8 +167,8 @@ static int copy_node(builder *b, int src, yaml_mark_t m, int depth, int *out)
                 rc = SR_ENOMEM;
         }
     } else {
-        idx = yaml_document_add_mapping(d, n->tag, n->data.mapping.style);
         size_t pairs = (size_t)(n->data.mapping.pairs.top - n->data.mapping.pairs.start);
+        idx = yaml_document_add_mapping(d, n->tag, n->data.mapping.style);
         for (size_t i = 0; idx && !rc && i < pairs; i++) {
             yaml_node_pair_t pr = yaml_document_get_node(d, src)->data.mapping.pairs.start[i];
             int k, v;
