@@ -465,8 +465,8 @@ static int report_limits(sr_report *r, sr_cli *c, const sr_mission *m, const run
             char a[64], b[64];
             sr_report_format_value(a, sizeof a, bad_typ ? L[i].typ : L[i].worst, L[i].q, c->units, 4);
             sr_report_format_value(b, sizeof b, L[i].limit, L[i].q, c->units, 4);
-            fprintf(c->err, "sinkrate profile: limit exceeded: %s %s > %s%s\n", L[i].label, a, b,
-                    bad_typ ? "" : " (at the worse end of the drag band)");
+            sr_cli_note(c, "limit exceeded: %s %s > %s%s", L[i].label, a, b,
+                        bad_typ ? "" : " (at the worse end of the drag band)");
         } else if (bad_worst) {
             char a[64], b[64];
             sr_report_format_value(a, sizeof a, L[i].worst, L[i].q, c->units, 4);
@@ -567,8 +567,11 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     if (o.fast && (o.trajectory || o.geojson))
         return sr_cli_fail(c, "%s: the time history needs the full integration; drop --fast",
                            o.trajectory ? "--trajectory" : "--geojson");
-    if ((o.trajectory && (rc = sr_cli_check_output(c, "--trajectory", o.trajectory))) ||
-        (o.geojson && (rc = sr_cli_check_output(c, "--geojson", o.geojson))))
+    if ((o.trajectory && (rc = sr_cli_output(c, "--trajectory", o.trajectory))) ||
+        (o.geojson && (rc = sr_cli_output(c, "--geojson", o.geojson))))
+        return rc;
+
+    if ((rc = sr_profile_plot_reserve(c)) || (rc = sr_cli_input(c, "the mission file", argv[first])))
         return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
@@ -594,6 +597,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
+    if ((rc = sr_cli_mission_inputs(c, m)))
+        goto out;
     if (!m->has_start) {
         rc = sr_cli_fail(c, "%s: the mission has no start: block (height above ground, airspeed and path angle at "
                             "the first deployment); a profile needs it",
