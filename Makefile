@@ -40,7 +40,7 @@ TESTS    := $(TEST_SRC:tests/%.c=$(B)/tests/%)
 DEPS_OK  := $(B)/.deps-ok
 
 .SECONDARY:
-.PHONY: all deps check unit reference demo bench install uninstall clean plots validation validation-selftest \
+.PHONY: all deps check unit reference figures demo bench install uninstall clean plots validation validation-selftest \
         validation-doc sanitize valgrind fuzz fuzz-build fuzz-regress
 all: $(B)/sinkrate
 
@@ -93,6 +93,12 @@ reference: $(B)/sinkrate
 	    SR_VALIDATION_LOG=$(CURDIR)/$(B)/validation.tsv $(PYTHON) $$r $(CURDIR)/$(B)/sinkrate || fail=1; \
 	done; exit $$fail
 
+# Every README figure drawn again and checked from its .dat and .gp: no
+# legend or label box over data, no marker line on the frame, every legend
+# entry visible, no SI unit on a figure under --units us (tests/figures.py).
+figures: $(B)/sinkrate
+	@PYTHONDONTWRITEBYTECODE=1 SINKRATE_DATA=$(CURDIR) $(PYTHON) tests/figures.py $(B)/sinkrate
+
 # The generator of docs/validation.md refuses crafted bad logs (its self-test).
 validation-selftest:
 	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) tests/ref/selftest_validation.py $(PYTHON) scripts/validation.py
@@ -119,6 +125,7 @@ check:
 	@$(MAKE) --no-print-directory deps
 	@$(MAKE) --no-print-directory unit
 	@$(MAKE) --no-print-directory reference
+	@$(MAKE) --no-print-directory figures
 	@$(MAKE) --no-print-directory sanitize valgrind validation-selftest
 	@$(MAKE) --no-print-directory validation-doc
 

@@ -449,6 +449,60 @@ static void test_missing_style_falls_back(void **state)
     sr_plot_free(p);
 }
 
+/* A script moved with its data to another directory renders from a third
+ * one: the shared style is inside it and no path of the tree that wrote it
+ * is (the issue: "Cannot load input from 'sinkrate.gp'"). */
+static void test_moved_script_renders(void **state)
+{
+    (void)state;
+    sr_plot *p = full_figure("moved");
+    char made[600], moved[600], cwd[600], old[4096];
+    snprintf(made, sizeof made, "%s/made", tmpdir);
+    snprintf(moved, sizeof moved, "%s/moved elsewhere", tmpdir);
+    snprintf(cwd, sizeof cwd, "%s/another", tmpdir);
+    assert_int_equal(mkdir(made, 0755), 0);
+    assert_int_equal(mkdir(moved, 0755), 0);
+    assert_int_equal(mkdir(cwd, 0755), 0);
+    char prefix[700];
+    snprintf(prefix, sizeof prefix, "%s/fig", made);
+    sr_plot_out o = {.prefix = prefix, .style = sr_test_path("plots/sinkrate.gp"), .format = "png", .width = 700,
+                     .height = 450};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &o, &e), 0);
+    char *gp = slurp(tpath("made/fig.gp"), NULL);
+    assert_non_null(gp);
+    assert_null(strstr(gp, "set loadpath"));
+    assert_null(strstr(gp, sr_test_path("plots")));
+    assert_null(strstr(gp, made));
+    assert_non_null(strstr(gp, "sr_gridline")); /* the style is in it */
+    free(gp);
+    const char *ext[] = {"gp", "dat"};
+    for (int k = 0; k < 2; k++) {
+        char a[800], b[800];
+        snprintf(a, sizeof a, "%s/fig.%s", made, ext[k]);
+        snprintf(b, sizeof b, "%s/fig.%s", moved, ext[k]);
+        assert_int_equal(rename(a, b), 0);
+    }
+    assert_int_equal(rmdir(made), 0);
+    assert_non_null(getcwd(old, sizeof old));
+    assert_int_equal(chdir(cwd), 0);
+    char cmd[2048];
+    snprintf(cmd, sizeof cmd, "'%s' '../moved elsewhere/fig.gp' 2>&1", gnuplot);
+    FILE *f = popen(cmd, "r");
+    char out[1024] = "";
+    size_t n = f ? fread(out, 1, sizeof out - 1, f) : 0;
+    out[n] = '\0';
+    int rc = f ? pclose(f) : -1;
+    assert_int_equal(chdir(old), 0);
+    if (rc != 0 || out[0])
+        fail_msg("the moved script did not render cleanly (exit %d): %s", rc, out);
+    unsigned w, h;
+    assert_true(sr_test_png_size(tpath("moved elsewhere/fig.png"), &w, &h));
+    assert_int_equal(w, 700);
+    assert_int_equal(sr_plot_check_image(tpath("moved elsewhere/fig.png"), "png", "the moved figure", &e), 0);
+    sr_plot_free(p);
+}
+
 static void test_bad_requests(void **state)
 {
     (void)state;
@@ -561,6 +615,7 @@ int main(void)
         cmocka_unit_test(test_rejected_script),
         cmocka_unit_test(test_hostile_text),
         cmocka_unit_test(test_missing_style_falls_back),
+        cmocka_unit_test(test_moved_script_renders),
         cmocka_unit_test(test_bad_requests),
         cmocka_unit_test(test_find_gnuplot_follows_path),
     };
