@@ -549,6 +549,10 @@ static int write_panel_legend(FILE *f, const sr_plot *p, const plot_layout *L, i
         if (kind <= 1)
             fprintf(f, "set arrow %d from graph %.5f, graph %.5f to graph %.5f, graph %.5f nohead front lt %d dt %d\n",
                     tag++, x0, y, x1, y, lt, dt);
+        if (kind == 6)
+            fprintf(f, "set arrow %d from graph %.5f, graph %.5f to graph %.5f, graph %.5f nohead front lt %d lw 1 "
+                       "dt 3\n",
+                    tag++, x0, y, x1, y, lt);
         if (kind == 5)
             fprintf(f, "set arrow %d from graph %.5f, graph %.5f to graph %.5f, graph %.5f head filled "
                        "size screen 0.01,25 front lt %d dt %d\n",
@@ -756,7 +760,7 @@ static void write_strip_legend(FILE *f, const sr_plot *p, const plot_layout *L)
     for (size_t i = 0; i < p->nseries; i++)
         if (p->series[i].title)
             fprintf(f, "%s%d", k++ ? ", " : "", p->series[i].s.dash + 1);
-    /* 0 line, 1 line over a band patch, 2 point, 3 box, 4 open point, 5 arrow */
+    /* 0 line, 1 line over a band patch, 2 point, 3 box, 4 open point, 5 arrow, 6 thin dotted line */
     fprintf(f, "]\narray sr_key_kind[%zu] = [", n);
     k = 0;
     for (size_t i = 0; i < p->nseries; i++)
@@ -782,6 +786,10 @@ static void write_strip_legend(FILE *f, const sr_plot *p, const plot_layout *L)
                "    if (sr_key_kind[i] <= 1) {\n"
                "        set arrow 200 + i from screen sr_x / width, screen sr_y / height "
                "to screen (sr_x + 28) / width, screen sr_y / height nohead lt sr_key_lt[i] dt sr_key_dt[i]\n"
+               "    }\n"
+               "    if (sr_key_kind[i] == 6) {\n"
+               "        set arrow 200 + i from screen sr_x / width, screen sr_y / height "
+               "to screen (sr_x + 28) / width, screen sr_y / height nohead lt sr_key_lt[i] lw 1 dt 3\n"
                "    }\n"
                "    if (sr_key_kind[i] == 5) {\n"
                "        set arrow 200 + i from screen sr_x / width, screen sr_y / height "

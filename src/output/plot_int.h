@@ -124,7 +124,7 @@ void sr_plot_layout_compute(const sr_plot *p, const plot_metrics *m, int width, 
                             plot_layout *L);
 
 /* The legend sample of a titled series: 0 line, 1 line over a band patch,
- * 2 point, 3 box, 4 open point, 5 arrow. */
+ * 2 point, 3 box, 4 open point, 5 arrow, 6 thin dotted line (a band's edges). */
 int sr_plot_legend_kind(const sr_plot *p, size_t i);
 
 #endif

@@ -474,6 +474,8 @@ int sr_plot_legend_kind(const sr_plot *p, size_t i)
         return s->open ? 4 : 2;
     if (s->kind == SR_PLOT_VECTORS)
         return 5;
+    if ((s->kind == SR_PLOT_BAND || s->kind == SR_PLOT_BAND_X) && s->outline)
+        return 6; /* its edges' thin dotted lines */
     if (s->kind == SR_PLOT_BOXES || s->kind == SR_PLOT_BAND || s->kind == SR_PLOT_BAND_X)
         return 3;
     if (s->kind == SR_PLOT_ELLIPSES)
