@@ -1,5 +1,6 @@
 /* catalog.c - strict readers for canopy family files and user canopy files.
  * Every value in a family file carries its source; missing sources are errors. */
+#define _DEFAULT_SOURCE
 #include "files/catalog.h"
 
 #include <dirent.h>
@@ -206,15 +207,42 @@ static int cmp_name(const void *a, const void *b)
     return strcmp(*(char *const *)a, *(char *const *)b);
 }
 
-static int cmp_family(const void *a, const void *b)
+/* Families sorted by id, their origins along. */
+static void sort_families(sr_catalog *c)
 {
-    return strcmp(((const sr_family *)a)->id, ((const sr_family *)b)->id);
+    for (size_t i = 1; i < c->n; i++)
+        for (size_t j = i; j > 0 && strcmp(c->fam[j - 1].id, c->fam[j].id) > 0; j--) {
+            sr_family f = c->fam[j];
+            sr_catalog_origin o = c->origin[j];
+            c->fam[j] = c->fam[j - 1];
+            c->origin[j] = c->origin[j - 1];
+            c->fam[j - 1] = f;
+            c->origin[j - 1] = o;
+        }
 }
 
 int sr_catalog_open(sr_catalog *c, const char *dir, sr_error *err)
 {
     c->n = 0;
+    c->layers = 0;
     snprintf(c->dir, sizeof c->dir, "%s", dir);
+    return sr_catalog_add(c, dir, "built-in", err);
+}
+
+int sr_catalog_add(sr_catalog *c, const char *dir, const char *from, sr_error *err)
+{
+    /* the same directory twice (--data naming the built-in catalog) adds nothing */
+    char real[4096], other[4096];
+    if (realpath(dir, real))
+        for (size_t i = 0; i < c->n; i++) {
+            char fdir[256];
+            snprintf(fdir, sizeof fdir, "%s", c->fam[i].file);
+            char *slash = strrchr(fdir, '/');
+            if (slash)
+                *slash = '\0';
+            if (slash && realpath(fdir, other) && strcmp(real, other) == 0)
+                return SR_OK;
+        }
     DIR *d = opendir(dir);
     if (!d)
         return sr_error_set(err, SR_EIO, "cannot open the canopy catalog directory %s", dir);
@@ -243,24 +271,47 @@ int sr_catalog_open(sr_catalog *c, const char *dir, sr_error *err)
     if (!rc && n == 0)
         rc = sr_error_set(err, SR_EIO, "%s holds no canopy family files (*.yaml)", dir);
     qsort(names, n, sizeof names[0], cmp_name);
+    int layer = c->layers;
+    size_t n0 = c->n;
     for (size_t i = 0; i < n && !rc; i++) {
         char path[1024];
         snprintf(path, sizeof path, "%s/%s", dir, names[i]);
-        rc = sr_catalog_load_family(&c->fam[c->n], path, err);
-        if (!rc) {
-            for (size_t j = 0; j < c->n; j++)
-                if (strcmp(c->fam[j].id, c->fam[c->n].id) == 0)
-                    rc = sr_error_set(err, SR_EINVAL, "%s: id '%s' is already used by %s", path, c->fam[j].id,
-                                      c->fam[j].file);
-            c->n++;
+        sr_family f;
+        rc = sr_catalog_load_family(&f, path, err);
+        if (rc)
+            break;
+        size_t at = c->n;
+        for (size_t j = 0; j < c->n; j++)
+            if (strcmp(c->fam[j].id, f.id) == 0)
+                at = j;
+        if (at < c->n && c->origin[at].layer == layer) {
+            rc = sr_error_set(err, SR_EINVAL, "%s: id '%s' is already used by %s", path, f.id, c->fam[at].file);
+            break;
         }
+        if (at == c->n && c->n >= SR_CATALOG_MAX) {
+            rc = sr_error_set(err, SR_EINVAL, "%s: more than %d families in all", path, SR_CATALOG_MAX);
+            break;
+        }
+        sr_catalog_origin o = {.layer = layer};
+        snprintf(o.from, sizeof o.from, "%s", from ? from : dir);
+        if (at < c->n)
+            snprintf(o.replaces, sizeof o.replaces, "%s", c->fam[at].file);
+        c->fam[at] = f;
+        c->origin[at] = o;
+        if (at == c->n)
+            c->n++;
     }
     for (size_t i = 0; i < n; i++)
         free(names[i]);
-    if (rc)
-        c->n = 0;
-    else
-        qsort(c->fam, c->n, sizeof c->fam[0], cmp_family);
+    if (rc) {
+        if (layer == 0)
+            c->n = 0;
+        else
+            c->n = n0; /* a failed load is an error anyway; what was replaced is not restored */
+        return rc;
+    }
+    c->layers++;
+    sort_families(c);
     return rc;
 }
 
