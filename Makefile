@@ -7,6 +7,8 @@ DESTDIR ?=
 BINDIR   = $(PREFIX)/bin
 DATADIR  = $(PREFIX)/share/sinkrate
 MANDIR   = $(PREFIX)/share/man/man1
+DOCDIR   = $(PREFIX)/share/doc/sinkrate
+BASHCOMPDIR = $(PREFIX)/share/bash-completion/completions
 
 CC      ?= cc
 CSTD     = -std=c11 -D_POSIX_C_SOURCE=200809L
@@ -191,16 +193,23 @@ $(B)/bench: bench/bench.c $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
 bench: $(B)/bench $(B)/sinkrate
 	@SINKRATE_DATA=$(CURDIR) $(B)/bench $(B)/sinkrate
 
-install: $(B)/sinkrate
-	install -d $(DESTDIR)$(BINDIR) $(DESTDIR)$(DATADIR)/canopies $(DESTDIR)$(DATADIR)/plots $(DESTDIR)$(MANDIR)
+# The bash completion, written by the program from its own command and option tables.
+$(B)/sinkrate.bash: $(B)/sinkrate
+	@$(B)/sinkrate --completion bash > $@.tmp && mv $@.tmp $@
+
+install: $(B)/sinkrate $(B)/sinkrate.bash
+	install -d $(DESTDIR)$(BINDIR) $(DESTDIR)$(DATADIR)/canopies $(DESTDIR)$(DATADIR)/plots $(DESTDIR)$(MANDIR) \
+	  $(DESTDIR)$(DOCDIR) $(DESTDIR)$(BASHCOMPDIR)
 	install -m 755 $(B)/sinkrate $(DESTDIR)$(BINDIR)/sinkrate
 	install -m 644 canopies/*.yaml $(DESTDIR)$(DATADIR)/canopies/
 	install -m 644 plots/*.gp $(DESTDIR)$(DATADIR)/plots/ 2>/dev/null || true
 	install -m 644 docs/sinkrate.1 $(DESTDIR)$(MANDIR)/sinkrate.1
+	install -m 644 docs/files.md $(DESTDIR)$(DOCDIR)/files.md
+	install -m 644 $(B)/sinkrate.bash $(DESTDIR)$(BASHCOMPDIR)/sinkrate
 
 uninstall:
-	rm -f $(DESTDIR)$(BINDIR)/sinkrate $(DESTDIR)$(MANDIR)/sinkrate.1
-	rm -rf $(DESTDIR)$(DATADIR)
+	rm -f $(DESTDIR)$(BINDIR)/sinkrate $(DESTDIR)$(MANDIR)/sinkrate.1 $(DESTDIR)$(BASHCOMPDIR)/sinkrate
+	rm -rf $(DESTDIR)$(DATADIR) $(DESTDIR)$(DOCDIR)
 
 clean:
 	rm -rf $(B) build-*

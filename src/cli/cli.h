@@ -51,6 +51,9 @@ typedef struct sr_cli {
      * every other option with a value is refused when given twice) */
     const char *short_opts;
     const int *repeatable;
+    /* set by `sinkrate --completion bash`: sr_cli_parse lists the command's options
+     * ("--name 1" takes a value, "--name 0" does not) instead of parsing */
+    int list_options;
 } sr_cli;
 
 /* Run one command line. Standard output is written, and checked, when the

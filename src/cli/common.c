@@ -185,6 +185,15 @@ static int repeatable(const sr_cli *c, int code)
 int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
                  const char *help, int *first_arg)
 {
+    if (c->list_options) { /* the option table itself, for the shell completion (cli.c) */
+        fputs("-h 0\n-o 1\n", c->out);
+        for (const char *s = c->short_opts; s && *s; s++)
+            if (*s != ':')
+                fprintf(c->out, "-%c %d\n", *s, s[1] == ':');
+        for (const struct option *o = opts; o->name; o++)
+            fprintf(c->out, "--%s %d\n", o->name, o->has_arg != no_argument);
+        return -1;
+    }
     optind = 0; /* GNU: full re-initialisation, so in-process calls can repeat */
     opterr = 0;
     /* a leading ':' makes a missing value ':' (not '?'), so it is named as such */
