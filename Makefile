@@ -42,7 +42,7 @@ TESTS    := $(TEST_SRC:tests/%.c=$(B)/tests/%)
 DEPS_OK  := $(B)/.deps-ok
 
 .SECONDARY:
-.PHONY: all deps check unit reference figures demo bench install uninstall clean plots validation validation-selftest \
+.PHONY: all deps check unit reference figures readme readme-check demo bench install uninstall clean plots validation validation-selftest \
         validation-doc sanitize valgrind fuzz fuzz-build fuzz-regress
 all: $(B)/sinkrate
 
@@ -101,6 +101,14 @@ reference: $(B)/sinkrate
 figures: $(B)/sinkrate
 	@PYTHONDONTWRITEBYTECODE=1 SINKRATE_DATA=$(CURDIR) $(PYTHON) tests/figures.py $(B)/sinkrate
 
+# The README's console examples run for real and compared with its text
+# (scripts/readme_examples.py); `make readme` writes the real outputs into
+# README.md after an output changed (review git diff README.md).
+readme-check: $(B)/sinkrate
+	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) scripts/readme_examples.py $(B)/sinkrate
+readme: $(B)/sinkrate
+	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) scripts/readme_examples.py $(B)/sinkrate --update
+
 # The generator of docs/validation.md refuses crafted bad logs (its self-test).
 validation-selftest:
 	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) tests/ref/selftest_validation.py $(PYTHON) scripts/validation.py
@@ -117,7 +125,8 @@ validation-doc: $(B)/sinkrate
 	@sed -n 's/^\*\*\(.*\)\*\*$$/docs\/validation.md: \1/p' docs/validation.md | head -1
 
 # check = the Makefile's own order (pkg-config read only after the deps step,
-# scripts/makefile-order.sh), the suite, the reference libraries, the suite and
+# scripts/makefile-order.sh), the suite, the reference libraries, the README's
+# figures and console examples, the suite and
 # fuzz regressions under ASan+UBSan, the CLI examples under valgrind, then
 # docs/validation.md.
 # The deps step runs in its own make first, so the build after it reads the
@@ -127,7 +136,7 @@ check:
 	@$(MAKE) --no-print-directory deps
 	@$(MAKE) --no-print-directory unit
 	@$(MAKE) --no-print-directory reference
-	@$(MAKE) --no-print-directory figures
+	@$(MAKE) --no-print-directory figures readme-check
 	@$(MAKE) --no-print-directory sanitize valgrind validation-selftest
 	@$(MAKE) --no-print-directory validation-doc
 
