@@ -57,7 +57,7 @@ static const det_case CASES[] = {
     {{"profile", "@ROOT@/payloads/desert-club-rocket-revised.yaml"}, {NULL}},
     {{"profile", "@ROOT@/payloads/balloon-instrument.yaml"}, {NULL}},
     {{"profile", "@ROOT@/payloads/drone-cargo-drop.yaml"}, {NULL}},
-    {{"profile", DEMO, "--fail", "main", "--worst-case"}, {NULL}},
+    {{"profile", DEMO, "--fail", "main", "--limits-at", "typical"}, {NULL}},
     {{"loads", "--mission", DEMO}, {NULL}},
     {{"loads", "--mass", "5kg", "--speed", "30m/s", "--family", "conical", "--nominal-diameter", "1.5m",
       "--design-factor", "1.5", "--cluster", "2"},

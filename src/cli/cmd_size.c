@@ -6,6 +6,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/sizing.h"
 #include "physics/descent.h"
 #include "files/mission.h"
 
@@ -118,47 +119,24 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     z = ground;
     if (o.altitude && (rc = sr_cli_quantity(c, "--altitude", o.altitude, SR_Q_LENGTH, 0, &z)))
         goto out;
+    sr_sizing_request sreq = {.canopy = &cp, .mass = mass, .speed = speed, .body_cds = body, .atmos = &atm,
+                              .altitude = z};
+    sr_sizing_result res;
     sr_air air;
     if (sr_atmos_at(&atm, z, &air, &e)) {
         rc = sr_cli_fail(c, "--altitude: %s", e.msg);
         goto out;
     }
-    /* the drag band on nominal area: from the family, or a measured value converted */
-    sr_band cd0 = cp.fam.cd0.v;
-    if (cp.measured) {
-        sr_band ratio = {1, 1, 1};
-        if (cp.cd.ref == SR_REF_PROJECTED)
-            ratio = cp.fam.dp_d0;
-        else if (cp.cd.ref == SR_REF_CONSTRUCTED)
-            ratio = cp.fam.dc_d0;
-        double v = cp.cd.v.typ;
-        cd0.lo = v * ratio.lo * ratio.lo;
-        cd0.typ = v * ratio.typ * ratio.typ;
-        cd0.hi = v * ratio.hi * ratio.hi;
-    }
-    sr_size_request req = {.mass = mass,
-                           .speed = speed,
-                           .rho = air.rho,
-                           .g = air.g,
-                           .count = cp.count,
-                           .cluster_factor = cp.cluster_factor,
-                           .areal_mass = cp.areal_mass > 0 ? cp.areal_mass : 0.0,
-                           .body_cds = body,
-                           .cd0 = cd0};
-    sr_size_result res;
-    if (sr_descent_size(&req, &res, &e)) {
-        rc = sr_cli_fail_err(c, &e);
+    if (sr_sizing_run(&sreq, &res, &e)) {
+        if (e.code == SR_EIMPOSSIBLE && strncmp(e.msg, "no canopy fits", 14) == 0) {
+            sr_cli_fail(c, "%s; check --mass and --speed", e.msg);
+            rc = SR_EXIT_LIMIT;
+        } else {
+            rc = sr_cli_fail_err(c, &e);
+        }
         goto out;
     }
-    /* the same bounds a given size must meet (sr_canopy_from_size): outside them
-     * the answer is no canopy at all, usually a unit slip in mass or speed */
-    if (res.d0.lo < 0.01 || res.d0.hi > 200.0) {
-        sr_cli_fail(c, "no canopy fits: the nominal diameter needed, %.3g m .. %.3g m, is outside any canopy built "
-                       "(1 cm .. 200 m); check --mass and --speed",
-                    res.d0.lo, res.d0.hi);
-        rc = SR_EXIT_LIMIT;
-        goto out;
-    }
+    double areal = cp.areal_mass > 0 ? cp.areal_mass : 0.0;
 
     r = sr_report_new("size", "canopy size for a target touchdown speed");
     sr_report_section(r, "Inputs");
@@ -168,27 +146,26 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_report_value(r, "target_speed", "target touchdown speed", speed, SR_Q_SPEED, 4);
     sr_report_value(r, "altitude", "touchdown altitude (above sea level)", z, SR_Q_LENGTH, SR_FIXED(0));
     sr_cli_report_atmos(r, &atm);
-    sr_report_value(r, "density", "air density there", air.rho, SR_Q_DENSITY, 5);
+    sr_report_value(r, "density", "air density there", res.air.rho, SR_Q_DENSITY, 5);
     sr_cli_report_canopy(r, &cp);
     if (body > 0)
         sr_report_value(r, "body_drag_area", "payload drag area", body, SR_Q_AREA, 4);
-    if (req.areal_mass > 0)
-        sr_report_value(r, "areal_mass", "canopy areal mass", req.areal_mass, SR_Q_AREAL_MASS, 3);
+    if (areal > 0)
+        sr_report_value(r, "areal_mass", "canopy areal mass", areal, SR_Q_AREAL_MASS, 3);
 
     sr_report_section(r, cp.count > 1 ? "Result (each canopy of the cluster)" : "Result");
-    sr_report_band(r, "nominal_area", "nominal area S0", res.s0.lo, res.s0.typ, res.s0.hi, SR_Q_AREA, 4);
-    sr_report_band(r, "nominal_diameter", "nominal diameter D0", res.d0.lo, res.d0.typ, res.d0.hi, SR_Q_LENGTH, 4);
-    sr_band dp = cp.fam.dp_d0, dc = cp.fam.dc_d0;
-    sr_report_band(r, "projected_diameter", "projected diameter Dp", res.d0.lo * dp.lo, res.d0.typ * dp.typ,
-                   res.d0.hi * dp.hi, SR_Q_LENGTH, 4);
-    sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", res.d0.lo * dc.lo, res.d0.typ * dc.typ,
-                   res.d0.hi * dc.hi, SR_Q_LENGTH, 4);
-    if (req.areal_mass > 0)
-        sr_report_band(r, "canopy_mass", "canopy fabric mass (all canopies)", res.canopy_mass.lo,
-                       res.canopy_mass.typ, res.canopy_mass.hi, SR_Q_MASS, 3);
-    sr_report_value(r, "drag_area", "drag area needed (total, typical)", res.cds_total, SR_Q_AREA, 4);
-    sr_report_value(r, "touchdown_energy", "touchdown kinetic energy", 0.5 * (mass + res.canopy_mass.typ) * speed * speed,
-                    SR_Q_ENERGY, 4);
+    const sr_size_result *sz = &res.size;
+    sr_report_band(r, "nominal_area", "nominal area S0", sz->s0.lo, sz->s0.typ, sz->s0.hi, SR_Q_AREA, 4);
+    sr_report_band(r, "nominal_diameter", "nominal diameter D0", sz->d0.lo, sz->d0.typ, sz->d0.hi, SR_Q_LENGTH, 4);
+    sr_report_band(r, "projected_diameter", "projected diameter Dp", res.dp.lo, res.dp.typ, res.dp.hi, SR_Q_LENGTH,
+                   4);
+    sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", res.dc.lo, res.dc.typ, res.dc.hi,
+                   SR_Q_LENGTH, 4);
+    if (areal > 0)
+        sr_report_band(r, "canopy_mass", "canopy fabric mass (all canopies)", sz->canopy_mass.lo, sz->canopy_mass.typ,
+                       sz->canopy_mass.hi, SR_Q_MASS, 3);
+    sr_report_value(r, "drag_area", "drag area needed (total, typical)", sz->cds_total, SR_Q_AREA, 4);
+    sr_report_value(r, "touchdown_energy", "touchdown kinetic energy", res.energy, SR_Q_ENERGY, 4);
 
     if (mis && mis->stages[mis->nstages - 1].has_size && !sr_cli_canopy_given(&o.canopy)) {
         const sr_stage *st = &mis->stages[mis->nstages - 1];
@@ -199,41 +176,28 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         sr_report_text(r, "file_size", "size in the file", buf);
         sr_report_band(r, "file_nominal_area", "its nominal area S0", st->canopy.s0.lo, st->canopy.s0.typ,
                        st->canopy.s0.hi, SR_Q_AREA, 4);
-        if (st->canopy.s0.lo >= res.s0.hi)
+        switch (sr_sizing_compare(&res, &st->canopy)) {
+        case SR_SIZING_FITS_BAND:
             sr_report_note(r, "The file's canopy is at least as large as the high end of the band: it meets the "
                               "target speed over the whole drag range.");
-        else if (st->canopy.s0.typ >= res.s0.typ)
+            break;
+        case SR_SIZING_FITS_TYPICAL:
             sr_report_warning(r, "The file's canopy meets the target with the typical drag coefficient but not over "
-                                 "the whole range: it needs S0 = %.3g m2 to be sure.", res.s0.hi);
-        else
+                                 "the whole range: it needs S0 = %.3g m2 to be sure.", sz->s0.hi);
+            break;
+        default:
             sr_report_warning(r, "The file's canopy is smaller than the typical size needed (%.3g m2): it lands "
-                                 "faster than the target.", res.s0.typ);
+                                 "faster than the target.", sz->s0.typ);
+        }
     }
-    /* how the typical canopy behaves higher up */
-    sr_canopy typ;
-    sr_canopy_from_size(&typ, &cp.fam, SR_SIZE_NOMINAL_AREA, res.s0.typ, &e);
-    typ.cd.v = cd0;
-    typ.cds.lo = cd0.lo * res.s0.typ;
-    typ.cds.typ = cd0.typ * res.s0.typ;
-    typ.cds.hi = cd0.hi * res.s0.typ;
-    typ.count = cp.count;
-    typ.cluster_factor = cp.cluster_factor;
-    typ.areal_mass = req.areal_mass;
     sr_rtable *t = sr_report_table(r, "rate_of_typical_size", "Descent rate of the typical size at altitude");
     sr_rtable_column(t, "altitude", "altitude", SR_Q_LENGTH, SR_FIXED(0));
     sr_rtable_column(t, "density", "density", SR_Q_DENSITY, 4);
     sr_rtable_column(t, "rate_low", "rate low", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_typical", "rate typical", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_high", "rate high", SR_Q_SPEED, 3);
-    static const double DZ[] = {0, 500, 1000, 2000, 3000, 5000};
-    for (size_t i = 0; i < sizeof DZ / sizeof DZ[0]; i++) {
-        sr_air a;
-        if (sr_atmos_at(&atm, z + DZ[i], &a, NULL))
-            break;
-        sr_band v;
-        if (sr_descent_rate(&typ, mass, body, &a, &v, NULL))
-            break;
-        double row[] = {z + DZ[i], a.rho, v.lo, v.typ, v.hi};
+    for (size_t i = 0; i < res.nrates; i++) {
+        double row[] = {res.rate_altitude[i], res.rate_density[i], res.rate[i].lo, res.rate[i].typ, res.rate[i].hi};
         sr_rtable_row(t, row, NULL);
     }
     sr_report_note(r, "Sizes are on nominal area S0 (total canopy surface, vent included), D0 = sqrt(4 S0/pi). "
@@ -241,7 +205,7 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_report_note(r, "The band comes from the drag-coefficient range of the family: the high coefficient gives "
                       "the small canopy, the low one the large. Choose from the large end to meet the speed with "
                       "margin.");
-    if (cp.measured)
+    if (res.cd0_converted)
         sr_report_note(r, "A measured drag coefficient on %s area was converted to nominal area through the family "
                           "ratio.", sr_ref_name(cp.cd.ref));
     if (cp.fam.cd0_source[0] && strstr(cp.fam.cd0_source, "memory"))

@@ -48,6 +48,9 @@ typedef struct sr_family {
     char cx_source[SR_SOURCE_MAX];
     double fill_n;                  /* filling constant, t_f = n D0 / v */
     char fill_source[SR_SOURCE_MAX];
+    sr_band growth;                 /* exponent n of the drag-area growth (t/t_f)^n while filling: the
+                                     * class's band unless the file sets `growth-exponent:` */
+    char growth_source[SR_SOURCE_MAX];
     sr_band oscillation;            /* rad, typical range in steady descent */
     char osc_source[SR_SOURCE_MAX];
     double mach_max;                /* upper Mach number of the family's usual application */
@@ -73,6 +76,14 @@ const char *sr_size_kind_name(sr_size_kind k); /* "nominal diameter", ... */
  * was not read): 1 canopy 1.00, 2: 0.97, 3: 0.93, 4 or more: 0.90. */
 double sr_canopy_cluster_factor(int n);
 
+/* A measured opening of a specific canopy (`measured-opening:` in a canopy
+ * file or a mission stage): it replaces the three opening-load estimates. */
+typedef enum sr_measured_opening {
+    SR_OPENING_ESTIMATED = 0, /* none: the three estimates on the growth model */
+    SR_OPENING_MEASURED_FACTOR, /* peak force over CD0 S0 q1 at line stretch (CX X1 as measured) */
+    SR_OPENING_MEASURED_LOAD    /* the peak force itself, N, for the deployment of the mission */
+} sr_measured_opening;
+
 /* A specific canopy (or a cluster of identical ones). */
 typedef struct sr_canopy {
     sr_family fam;
@@ -87,6 +98,9 @@ typedef struct sr_canopy {
     int count;              /* canopies in the cluster */
     double cluster_factor;
     double areal_mass;      /* kg/m2 of nominal area, NaN if unknown */
+    sr_measured_opening opening;  /* a measured opening load or factor replaces the estimates */
+    double opening_value;         /* the factor, or the load in N */
+    char opening_source[SR_SOURCE_MAX];
 } sr_canopy;
 
 /* Build a canopy of family fam from a size. The drag band comes from the
