@@ -657,6 +657,34 @@ static const bad_case BAD[] = {
      "needs sigma"},
     {{DISPERSION}, PMISSION "uncertainty: {drag: {main: uniform}, drag: x}\n", NULL, 0, "@IN@:10:38",
      "duplicate key 'drag'"},
+    /* ---- the verdict: limits keys, --limits-at, measured openings, attitudes, bands ---- */
+    {{PROFILE}, PMISSION "limits: {rated-strength: 2 kN}\n", NULL, 0, "@IN@:10:10", "needs design-factor"},
+    {{PROFILE}, PMISSION "limits: {design-factor: 2}\n", NULL, 0, "@IN@:10:25", "goes with rated-strength"},
+    {{PROFILE}, PMISSION "limits: {rated-strength: {mian: 2 kN}, design-factor: 2}\n", NULL, 0, "@IN@:10:27",
+     "did you mean 'main'"},
+    {{PROFILE}, PMISSION "limits: {rated-strength: 2 kN, design-factor: 0.5}\n", NULL, 0, "@IN@:10:47", "1 .. 10"},
+    {{PROFILE}, PMISSION "limits: {rated-strength: 2 kg, design-factor: 2}\n", NULL, 0, "@IN@:10:26", "force"},
+    {{PROFILE}, PMISSION "limits: {landing-energy-basis: horizontal}\n", NULL, 0, "@IN@:10:32",
+     "descent-rate (the vertical speed"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: {low: 3 kg, high: 2 kg}}\n" STAGES START, NULL, 0, "@IN@:4:21",
+     "low <= typical <= high"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: {low: 3 kg, hi: 4 kg}}\n" STAGES START, NULL, 0, "@IN@:4:33",
+     "unknown key 'hi' in mass"},
+    {{PROFILE}, MISSION "    measured-opening: {factor: 1.3, load: 800 N, source: test}\n" START, NULL, 0,
+     "@IN@:9:23", "exactly one of factor"},
+    {{PROFILE}, MISSION "    measured-opening: {factor: 1.3}\n" START, NULL, 0, "@IN@:9:23", "source"},
+    {{PROFILE}, MISSION "    measured-opening: {load: 800 kg, source: test}\n" START, NULL, 0, "@IN@:9:30", "force"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: 2 kg, body: {shape: sphere, diameter: 10 cm, stable-end-on: true}}\n"
+     STAGES START, NULL, 0, "@IN@:4:81", "no end to fall on"},
+    {{PROFILE}, MISSION_HEAD "  - {name: a, mass: 2 kg, body: {shape: cylinder, diameter: 10 cm, length: 1 m, "
+     "stable-end-on: yes}}\n" STAGES START, NULL, 0, "@IN@:4:96", "true or false"},
+    {{CHECK}, FAMILY "growth-exponent: {low: 3, high: 1, source: s}\n", NULL, 0, "@IN@:11:18",
+     "low <= typical <= high"},
+    {{CHECK}, FAMILY "growth-exponent: {low: 1, high: 3}\n", NULL, 0, "@IN@:11:18", "source"},
+    {{PROFILE, "--limits-at", "worst"}, PMISSION, NULL, 0, "--limits-at", "not band-end"},
+    {{LOADS_CANOPY, "--speed", "30 m/s", "--limits-at", "typical"}, NULL, NULL, 0, "--limits-at", "needs --mission"},
+    {{"loads", "--mission", "@IN@", "--mass", "3 kg"}, PMISSION, NULL, 0, "--mass", "drop --mass"},
+    {{"loads", "--mission", "@IN@", "--limits-at", "loose"}, PMISSION, NULL, 0, "--limits-at", "not band-end"},
 };
 
 /* ---- the harness ---- */

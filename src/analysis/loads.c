@@ -45,8 +45,8 @@ void sr_loads_input(const sr_loads_canopy *c, const sr_loads_state *s, int drag,
     in->v_steady = s->v_steady;
 }
 
-/* One combination at two opening-load factors: the highest and lowest
- * estimate at cx_hi and cx_lo (a measured opening replaces them). */
+/* One combination at two opening-load factors: the governing (highest)
+ * estimate at cx_lo and at cx_hi (a measured opening replaces them). */
 static int combo(const sr_loads_canopy *c, const sr_loads_state *s, int drag, double n, double cx_lo, double cx_hi,
                  int fast, double *f_lo, double *f_hi, double *t_fill, int *slow, sr_error *err)
 {
@@ -58,7 +58,7 @@ static int combo(const sr_loads_canopy *c, const sr_loads_state *s, int drag, do
         if ((rc = sr_opening_solve_fast(&in, &q, err)) != SR_OK)
             return rc;
         *f_hi = sr_opening_quick_high(&q, cx_hi);
-        *f_lo = sr_opening_quick_low(&q, cx_lo);
+        *f_lo = sr_opening_quick_high(&q, cx_lo);
         *t_fill = q.t_fill;
         *slow = q.slow_deployment;
     } else {
@@ -73,7 +73,7 @@ static int combo(const sr_loads_canopy *c, const sr_loads_state *s, int drag, do
             if ((rc = sr_opening_solve(&in, &r, err)) != SR_OK)
                 return rc;
         }
-        *f_lo = r.f_low;
+        *f_lo = r.f_high;
     }
     if (c->measured == SR_OPENING_MEASURED_FACTOR)
         *f_lo = *f_hi = c->measured_value * in.count * in.cds0 * 0.5 * s->rho * s->v1 * s->v1;

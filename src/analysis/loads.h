@@ -56,7 +56,8 @@ typedef struct sr_loads_end {
 typedef struct sr_loads_band {
     int valid;          /* the typical state deployed and had a speed */
     int measured;       /* sr_measured_opening in force */
-    sr_loads_end lo, typ, hi;   /* lowest, typical and governing (highest) load */
+    sr_loads_end lo, typ, hi;   /* the governing estimate (the highest of the three methods) at the low end of
+                                 * the bands, at the typical values, and at the high end: hi governs */
     double v_lo, v_typ, v_hi;   /* airspeed at line stretch over the states, m/s */
     double q_lo, q_typ, q_hi;   /* dynamic pressure at line stretch, Pa */
     double mach_lo, mach_typ, mach_hi;

@@ -537,13 +537,13 @@ static int ode_failure(run *R, const body *b, const char *what)
         snprintf(who, sizeof who, "the fall before any canopy opens");
     double vt = steady_rate(R, b, b->y[2]), tf = 0.0;
     for (size_t k = 0; k < R->c->nstg; k++)
-        if (((b->open >> k) & 1u) && isfinite(R->t_f[k]))
-            tf = fmax(tf, R->t_f[k]);
+        if (((b->open >> k) & 1u) && isfinite(R->r->stage[k].t_fill))
+            tf = fmax(tf, R->r->stage[k].t_fill);
     char cause[256] = "";
     if (isfinite(vt) && vt < 0.5)
         snprintf(cause, sizeof cause, ": its steady descent rate is only %.3g m/s%s (is the mass or the canopy size "
                                       "in the wrong unit?)",
-                 vt, tf > 60.0 ? ", so slow that the canopy takes minutes to fill" : "");
+                 vt, tf > 60.0 ? ", so slow that the canopy would take minutes to fill" : "");
     else if (tf > 60.0)
         snprintf(cause, sizeof cause, ": the filling time n D0 / v is %.3g s (is the canopy size in the wrong unit?)",
                  tf);
@@ -564,6 +564,17 @@ static int ode_segment(run *R, body *b, double h_stop, double t_stop, int *why)
     R->r->ode_segments++;
     if (b->open == 0 && b->cd_sec == 0.0 && !b->free)
         R->r->body[b->idx].no_drag = 1;
+    /* a filling far longer than the motion's relaxation time vt / g needs about t_f g / vt steps of an
+     * explicit scheme: say so at once rather than after millions of steps */
+    double vt = steady_rate(R, b, b->y[2]);
+    for (size_t k = 0; k < R->c->nstg && isfinite(vt) && vt > 0.0; k++) {
+        double tf = R->r->stage[k].t_fill;
+        if (((b->open >> k) & 1u) && isfinite(tf) && tf * 9.80665 / vt > (double)MAX_ODE_STEPS) {
+            char what[96];
+            snprintf(what, sizeof what, "the transient would take more than %d ODE steps", MAX_ODE_STEPS);
+            return ode_failure(R, b, what);
+        }
+    }
     for (long n = 0; n < MAX_ODE_STEPS; n++) {
         line_stretch(R, b);
         double t1 = fmin(t_stop, next_kink(R, b));
