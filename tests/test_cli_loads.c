@@ -216,7 +216,7 @@ static void test_loads_equal_profile(void **state)
     (void)state;
     static const char *const DEMOS[] = {"payloads/desert-club-rocket.yaml", "payloads/desert-club-rocket-revised.yaml",
                                         "payloads/balloon-instrument.yaml", "payloads/drone-cargo-drop.yaml"};
-    static const int PROFILE_RC[] = {1, 0, 0, 1};
+    static const int PROFILE_RC[] = {1, 0, 0, 0};
     for (size_t d = 0; d < 4; d++) {
         const char *path = sr_test_path(DEMOS[d]);
         char tmp[1024];

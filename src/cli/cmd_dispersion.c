@@ -47,7 +47,9 @@ static const char HELP[] =
     "drag coefficient varies uniformly over its family's range). Reports, for every body that\n"
     "lands on its own, the mean landing point, the 1-sigma and 3-sigma ellipses, the radii\n"
     "holding 50 % and 95 % of the landings, percentiles of descent time, touchdown speed and\n"
-    "energy, and the probability of breaking each landing limit with its Monte Carlo error.\n"
+    "energy, and the probability of breaking each limit of the mission (judged as `sinkrate\n"
+    "profile` judges it, the Mach envelope at each deployment included) with its Monte\n"
+    "Carlo error. Without an uncertainty: block only the drag varies, and the page says so.\n"
     "Sample i depends only on (seed, i): the output is the same at any thread count.\n\n"
     "  -n N                     samples (default 10000, at most 10000000)\n"
     "  --seed N                 seed of the random streams (default 1)\n"
@@ -470,10 +472,10 @@ static int report_limits(sr_cli *c, sr_report *r, const sr_mission *m, const sr_
     for (int k = 0; k < SR_DISP_NLIMITS; k++)
         any |= isfinite(lim[k]);
     if (!any) {
-        sr_report_note(r, "The mission sets no landing limits, so no probability of breaking one is given.");
+        sr_report_note(r, "The mission sets no limits, so no probability of breaking one is given.");
         return 0;
     }
-    sr_rtable *t = sr_report_table(r, "limits", "Landing limits: share of samples that break each");
+    sr_rtable *t = sr_report_table(r, "limits", "Limits: share of samples that break each (the judge of `profile`)");
     sr_rtable_text_column(t, "limit", "limit");
     sr_rtable_text_column(t, "value", "value");
     sr_rtable_column(t, "samples_over", "samples over", SR_Q_NONE, SR_FIXED(0));

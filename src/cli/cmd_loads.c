@@ -788,6 +788,16 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
             if (!o.stage || strcmp(mis->stages[k].name, o.stage) == 0)
                 BR->loads[k] = ds[i++].band;
         sr_judge_band(&lim, BR, basis, &verdict);
+        if (o.stage) {
+            /* the page is about one stage: its rows only */
+            size_t n = 0;
+            for (size_t i = 0; i < verdict.nrows; i++)
+                if (verdict.row[i].index >= 0 && strcmp(mis->stages[verdict.row[i].index].name, o.stage) == 0 &&
+                    verdict.row[i].kind >= SR_JUDGE_DEPLOY_Q)
+                    verdict.row[n++] = verdict.row[i];
+            verdict.nrows = n;
+            verdict.binding = -1;
+        }
         judged = 1;
     }
 

@@ -146,9 +146,9 @@ static void attitude_note(sr_report *r, const sr_mission *m)
                       "run it tumbling through every orientation (cross-flow principle, Hoerner 1965, from memory: "
                       "drag as the cube of the normal flow share, averaged over the sphere, our derivation: a "
                       "cylinder 3 pi/16 = 0.59 of broadside plus a quarter of its ends' drag, a disk 1/4 of "
-                      "face-on)%s and judge each limit at the worse.",
-                   end ? ", and end-on (Cd 0.82 on the end area, Hoerner 1965, from memory) where the file marks "
-                         "a section stable-end-on (fins or a weighted nose keep it pointing into the flow)"
+                      "face-on)%s, and judge each limit at the worse.",
+                   end ? " and end-on (Cd 0.82 on the end area, Hoerner 1965, from memory) where the file marks a "
+                         "section stable-end-on (fins or a weighted nose keep it pointing into the flow)"
                        : "; a cylinder without fins is not stable end-on (common practice), so end-on is run only "
                          "for sections marked stable-end-on");
 }
