@@ -48,3 +48,7 @@ cp "$out/loads-main.png" plots/loads-main.png 2>/dev/null || cp "$out/loads.png"
 other freefall freefall --body cylinder --diameter 0.2m --length 1m --mass 9kg --altitude 0,5km,10km
 cp "$out/freefall.png" plots/freefall.png
 echo "plots: wrote $(ls plots/*.png | tr '\n' ' ')"
+# the invented demo flight log fitted: the fit over time with residuals, the drag area over height
+other fit fit payloads/demo-flight.csv --mission payloads/desert-club-rocket.yaml --pressure-altitude
+cp "$out/fit.png" plots/fit.png
+cp "$out/fit-drag.png" plots/fit-drag.png

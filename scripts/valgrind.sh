@@ -12,6 +12,7 @@ M="$root/payloads/desert-club-rocket.yaml"
 printf 'mission: x\nsections: [\n' > "$tmp/bad.yaml"
 printf 'altitude [m],temperature [C],pressure [hPa]\n0,15,1013.25\n1000,8.5,898.7\n3000,-4.5,701.1\n' > "$tmp/sounding.csv"
 printf 'Re,Cd\n1e3,0.47\n1e2,0.40\n' > "$tmp/bad-drag.csv"
+printf 'mission: w\nsite: {wind: {model: power-law, speed: 5 m/s, from: 250 deg, gradient-height: 300 m}}\nsections: [{name: a, mass: 0.35 kg}]\nstages: [{name: m, family: conical, nominal-diameter: 7 m}]\nstart: {height: 3000 m}\n' > "$tmp/windy.yaml"
 # valgrind's own failure code, distinct from the program's 0/1/2
 VG=97
 fail=0; n=0
@@ -64,6 +65,14 @@ done <<EOF_LIST
 2 profile "$tmp/bad.yaml"
 2 freefall --cd-table "$tmp/bad-drag.csv" --diameter 10cm --mass 1kg
 2 dispersion "$M" -n 200 --samples "$tmp/missing/dir/s.csv"
+0 fit "$root/payloads/demo-flight.csv" --mission "$M" --pressure-altitude --write-canopy "$tmp/main.yaml" --write-wind "$tmp/wind.csv" --plot "$tmp/fit"
+0 fit "$root/payloads/demo-flight.csv" "$root/payloads/demo-flight.csv" --mass 5.3kg --format json
+2 fit "$tmp/bad-drag.csv" --mass 2kg
+0 rate --mass 50kg --nominal-diameter 30cm --altitude 30km --family conical --units us
+0 sweep --mass 50kg --family conical --vary speed --values 0.8m/s,200m/s --altitude 20km
+1 sweep --mass 2kg --family conical --vary speed --values 0.01m/s
+0 check "$tmp/windy.yaml"
+2 rate --mass 2.65 --flat-diameter 36 --family flat-circular --units us
 EOF_LIST
 [ $fail -eq 0 ] && echo "valgrind: $n CLI examples clean (no memory errors, no definite or indirect leaks)"
 exit $fail

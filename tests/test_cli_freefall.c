@@ -151,8 +151,8 @@ static void test_units_and_csv(void **state)
     (void)state;
     char *o1, *o2, *e;
     char *si[] = {"freefall", "--body", "disk", "--diameter", "0.3", "--mass", "0.5", "--format", "json", NULL};
-    char *us[] = {"freefall", "--body", "disk", "--diameter", "0.3", "--mass", "0.5", "--format", "json", "--units",
-                  "us", NULL};
+    char *us[] = {"freefall", "--body", "disk", "--diameter", "0.3 m", "--mass", "0.5 kg", "--format", "json",
+                  "--units", "us", NULL};
     assert_int_equal(run(&o1, &e, si), 0);
     free(e);
     assert_int_equal(run(&o2, &e, us), 0);

@@ -72,6 +72,11 @@ static const det_case CASES[] = {
     {{"freefall", "--body", "cylinder", "--diameter", "10.2cm", "--length", "86cm", "--mass", "3.4kg", "--altitude",
       "0:4km:1km"},
      {NULL}},
+    {{"fit", "@ROOT@/payloads/demo-flight.csv", "--mission", DEMO, "--pressure-altitude"},
+     {"fit", "--pressure-altitude", "--mission", DEMO, "@ROOT@/payloads/demo-flight.csv"}},
+    {{"fit", "@ROOT@/payloads/demo-flight.csv", "--mass", "5.3 kg", "--stage-names", "drogue,main", "--family",
+      "conical", "--nominal-diameter", "2.2 m", "--site-elevation", "1380 m", "--surface-temp", "38 C"},
+     {NULL}},
     /* Monte Carlo: a fixed seed gives the same bytes, at one thread or two */
     {{"dispersion", DEMO, "-n", "2000", "--seed", "42", "--threads", "1"},
      {"dispersion", DEMO, "-n", "2000", "--seed", "42", "--threads", "2"}},

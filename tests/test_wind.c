@@ -178,11 +178,71 @@ static void test_csv(void **state)
     assert_non_null(strstr(e.msg, "no 'wind-speed'"));
 }
 
+#define SRC_GRADIENT                                                                                            \
+    "ASCE 7 exposure C gradient height z_g = 900 ft = 274.32 m; Davenport's open-country profile about 270-300 m " \
+    "(from memory)"
+
+/* Above the gradient height a law is held at its value there (when the
+ * mission gives one), and without one its use above it is warned about. */
+static void test_gradient_height(void **state)
+{
+    (void)state;
+    CHECK_REL_CLASS(SR_CHECK_MEMORY, "gradient height over open country (top of the layer a wind law describes)",
+                    SRC_GRADIENT, 274.32, SR_WIND_GRADIENT_HEIGHT, 0.1);
+    static const struct {
+        int log_law;
+        double alpha, z0;
+    } C[] = {{0, 1.0 / 7.0, 0}, {0, 0.3, 0}, {1, 0, 0.03}};
+    for (size_t i = 0; i < sizeof C / sizeof C[0]; i++) {
+        sr_wind w;
+        sr_error e;
+        int rc = C[i].log_law ? sr_wind_init_log(&w, 6.0, 250 * DEG, 10.0, C[i].z0, 0.0, &e)
+                              : sr_wind_init_power(&w, 6.0, 250 * DEG, 10.0, C[i].alpha, &e);
+        assert_int_equal(rc, SR_OK);
+        double free_below = speed_at(&w, 200.0), free_above = speed_at(&w, 2900.0);
+        /* the law reaches far above its gradient height unwarned no more */
+        char buf[600];
+        assert_int_equal(sr_wind_check_extrapolation(&w, 2900.0, SR_UNITS_SI, buf, sizeof buf), 1);
+        assert_non_null(strstr(buf, "extrapolated from its reference height (10 m) to 2900 m above ground"));
+        assert_int_equal(sr_wind_check_extrapolation(&w, 250.0, SR_UNITS_SI, buf, sizeof buf), 0);
+        assert_int_equal(sr_wind_set_gradient_height(&w, 300.0, &e), SR_OK);
+        assert_int_equal(sr_wind_check_extrapolation(&w, 2900.0, SR_UNITS_SI, buf, sizeof buf), 0);
+        /* below the gradient height the law is untouched; above it, its value there */
+        double at300 = C[i].log_law ? 6.0 * log(300.0 / C[i].z0) / log(10.0 / C[i].z0) : 6.0 * pow(30.0, C[i].alpha);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, C[i].log_law ? "log-law wind held above a 300 m gradient height"
+                                                      : "power-law wind held above a 300 m gradient height",
+                        C[i].log_law ? SRC_LOG : SRC_POWER, at300, speed_at(&w, 2900.0), 1e-12);
+        assert_true(speed_at(&w, 200.0) == free_below);
+        assert_true(speed_at(&w, 2900.0) < free_above);
+        size_t nk;
+        const double *k = sr_wind_knots(&w, &nk);
+        assert_true(nk == 1 && k[0] == 300.0);
+        sr_wind_describe(&w, buf, sizeof buf);
+        assert_non_null(strstr(buf, "held constant above 300 m"));
+    }
+    /* the case of the issue: exponent 0.3 from 10 m/s at 10 m reaches 55 m/s at 3 km, now with a warning */
+    sr_wind w;
+    sr_error e;
+    assert_int_equal(sr_wind_init_power(&w, 10.0, 0, 10.0, 0.3, &e), SR_OK);
+    char buf[600];
+    assert_int_equal(sr_wind_check_extrapolation(&w, 3000.0, SR_UNITS_SI, buf, sizeof buf), 1);
+    assert_non_null(strstr(buf, "blows 55.4 m/s"));
+    assert_int_equal(sr_wind_check_extrapolation(&w, 3000.0, SR_UNITS_US, buf, sizeof buf), 1);
+    assert_non_null(strstr(buf, "to 9843 ft above ground"));
+    /* only laws have a gradient height, and it lies above the reference */
+    assert_int_equal(sr_wind_set_gradient_height(&w, 5.0, &e), SR_EINVAL);
+    assert_int_equal(sr_wind_set_gradient_height(&w, 6000.0, &e), SR_EINVAL);
+    assert_int_equal(sr_wind_init_constant(&w, 5.0, 0, &e), SR_OK);
+    assert_int_equal(sr_wind_set_gradient_height(&w, 300.0, &e), SR_EINVAL);
+    assert_int_equal(sr_wind_check_extrapolation(&w, 3000.0, SR_UNITS_SI, buf, sizeof buf), 0);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_profile_ratios), cmocka_unit_test(test_direction_convention),
         cmocka_unit_test(test_table_components), cmocka_unit_test(test_bad_models), cmocka_unit_test(test_csv),
+        cmocka_unit_test(test_gradient_height),
     };
     return cmocka_run_group_tests_name("wind", tests, NULL, NULL);
 }

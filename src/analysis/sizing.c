@@ -5,10 +5,6 @@
 #include <math.h>
 #include <string.h>
 
-/* the bounds sr_canopy_from_size puts on a given size */
-#define D0_MIN 0.01
-#define D0_MAX 200.0
-
 int sr_sizing_run(const sr_sizing_request *req, sr_sizing_result *out, sr_error *err)
 {
     memset(out, 0, sizeof *out);
@@ -16,37 +12,12 @@ int sr_sizing_run(const sr_sizing_request *req, sr_sizing_result *out, sr_error 
     int rc;
     if ((rc = sr_atmos_at(req->atmos, req->altitude, &out->air, err)))
         return rc;
-    /* the drag band on nominal area: from the family, or a measured value converted */
-    sr_band cd0 = cp->fam.cd0.v;
-    if (cp->measured) {
-        sr_band ratio = {1, 1, 1};
-        if (cp->cd.ref == SR_REF_PROJECTED)
-            ratio = cp->fam.dp_d0;
-        else if (cp->cd.ref == SR_REF_CONSTRUCTED)
-            ratio = cp->fam.dc_d0;
-        double v = cp->cd.v.typ;
-        cd0.lo = v * ratio.lo * ratio.lo;
-        cd0.typ = v * ratio.typ * ratio.typ;
-        cd0.hi = v * ratio.hi * ratio.hi;
-        out->cd0_converted = cp->cd.ref != SR_REF_NOMINAL;
-    }
+    /* the drag band on nominal area and the inversion: the functions `sweep --vary speed` uses too */
+    sr_band cd0 = sr_canopy_cd0_band(cp);
     out->cd0 = cd0;
-    sr_size_request sq = {.mass = req->mass,
-                          .speed = req->speed,
-                          .rho = out->air.rho,
-                          .g = out->air.g,
-                          .count = cp->count,
-                          .cluster_factor = cp->cluster_factor,
-                          .areal_mass = cp->areal_mass > 0 ? cp->areal_mass : 0.0,
-                          .body_cds = req->body_cds,
-                          .cd0 = cd0};
-    if ((rc = sr_descent_size(&sq, &out->size, err)))
+    out->cd0_converted = cp->measured && cp->cd.ref != SR_REF_NOMINAL;
+    if ((rc = sr_descent_size_canopy(cp, req->mass, req->speed, req->body_cds, &out->air, &out->size, err)))
         return rc;
-    if (out->size.d0.lo < D0_MIN || out->size.d0.hi > D0_MAX)
-        return sr_error_set(err, SR_EIMPOSSIBLE,
-                            "no canopy fits: the nominal diameter needed, %.3g m .. %.3g m, is outside any canopy "
-                            "built (1 cm .. 200 m)",
-                            out->size.d0.lo, out->size.d0.hi);
     const sr_band *d0 = &out->size.d0, *dp = &cp->fam.dp_d0, *dc = &cp->fam.dc_d0;
     out->dp = (sr_band){d0->lo * dp->lo, d0->typ * dp->typ, d0->hi * dp->hi};
     out->dc = (sr_band){d0->lo * dc->lo, d0->typ * dc->typ, d0->hi * dc->hi};
@@ -62,7 +33,7 @@ int sr_sizing_run(const sr_sizing_request *req, sr_sizing_result *out, sr_error 
     typ.cds.hi = cd0.hi * out->size.s0.typ;
     typ.count = cp->count;
     typ.cluster_factor = cp->cluster_factor;
-    typ.areal_mass = sq.areal_mass;
+    typ.areal_mass = cp->areal_mass > 0 ? cp->areal_mass : 0.0;
     static const double DZ[SR_SIZING_RATES] = {0, 500, 1000, 2000, 3000, 5000};
     for (size_t i = 0; i < SR_SIZING_RATES; i++) {
         sr_air a;

@@ -37,9 +37,8 @@ typedef struct sr_sizing_result {
     sr_band rate[SR_SIZING_RATES];
 } sr_sizing_result;
 
-/* SR_EIMPOSSIBLE with one line when no canopy can reach the speed (its own
- * weight outgrows its drag, or the diameter needed lies outside 1 cm .. 200 m,
- * the bounds every given size must meet: usually a unit slip). */
+/* SR_EIMPOSSIBLE with one line when no canopy can reach the speed
+ * (sr_descent_size_canopy's message, the same as `sweep --vary speed`'s). */
 int sr_sizing_run(const sr_sizing_request *req, sr_sizing_result *out, sr_error *err);
 
 /* How a canopy a file already names compares with the band. */

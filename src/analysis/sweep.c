@@ -70,16 +70,7 @@ int sr_sweep_range(double from, double to, double step, size_t max, double **val
 
 sr_band sr_sweep_cd0_band(const sr_canopy *cp)
 {
-    if (!cp->measured)
-        return cp->fam.cd0.v;
-    sr_band ratio = {1, 1, 1};
-    if (cp->cd.ref == SR_REF_PROJECTED)
-        ratio = cp->fam.dp_d0;
-    else if (cp->cd.ref == SR_REF_CONSTRUCTED)
-        ratio = cp->fam.dc_d0;
-    double v = cp->cd.v.typ;
-    sr_band b = {v * ratio.lo * ratio.lo, v * ratio.typ * ratio.typ, v * ratio.hi * ratio.hi};
-    return b;
+    return sr_canopy_cd0_band(cp);
 }
 
 static int set_diameter(sr_canopy *cp, double d0, sr_error *err)
@@ -327,17 +318,8 @@ static int size_row(const sr_sweep_case *c, double speed, sr_sweep_row *r, sr_er
     int rc = sr_atmos_at(&c->atmos, z, &air, err);
     if (rc)
         return rc;
-    sr_size_request req = {.mass = c->mass,
-                           .speed = speed,
-                           .rho = air.rho,
-                           .g = air.g,
-                           .count = c->canopy.count,
-                           .cluster_factor = c->canopy.cluster_factor,
-                           .areal_mass = c->canopy.areal_mass > 0.0 ? c->canopy.areal_mass : 0.0,
-                           .body_cds = c->body_cds,
-                           .cd0 = sr_sweep_cd0_band(&c->canopy)};
     sr_size_result res;
-    if ((rc = sr_descent_size(&req, &res, err)))
+    if ((rc = sr_descent_size_canopy(&c->canopy, c->mass, speed, c->body_cds, &air, &res, err)))
         return rc;
     memset(r, 0, sizeof *r);
     r->x = speed;

@@ -27,6 +27,7 @@ static const command COMMANDS[] = {
     {"air", sr_cmd_air, "atmosphere table (standard, offset, site, sounding)"},
     {"canopies", sr_cmd_canopies, "list the canopy catalog, or show one family with its sources"},
     {"check", sr_cmd_check, "validate canopy, canopy-family and mission files"},
+    {"fit", sr_cmd_fit, "drag area of each canopy from flight logs, with an interval, into a canopy file"},
 };
 
 #define NCOMMANDS (sizeof COMMANDS / sizeof COMMANDS[0])

@@ -7,6 +7,7 @@
 #include "analysis/band.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "files/mission.h"
 #include "files/yamldoc.h"
 
@@ -23,7 +24,7 @@ static const char HELP[] =
     "rejected here too. Exit 0 when all are valid, 2 otherwise.\n\n";
 
 static int check_one(const sr_catalog *cat, const char *path, char *kind, size_t klen, char *what, size_t wlen,
-                     sr_error *e)
+                     sr_input_warnings *iw, sr_unit_system sys, sr_error *e)
 {
     sr_yaml y;
     int rc = sr_yaml_load_file(&y, path, e);
@@ -56,17 +57,21 @@ static int check_one(const sr_catalog *cat, const char *path, char *kind, size_t
             sr_band_ctx_free(bc);
             free(b);
         }
-        if (!rc)
+        if (!rc) {
             snprintf(what, wlen, "'%s': %zu section(s), %zu stage(s)%s", m->name, m->nsections, m->nstages,
                      m->has_start && sized ? ", its descent flies" : "");
+            sr_input_warnings_mission(iw, m, NULL, sys);
+        }
         sr_mission_free(m);
         free(m);
     } else if (sr_yaml_get(&y, root, "canopy")) {
         snprintf(kind, klen, "canopy");
         sr_canopy cp;
         rc = sr_catalog_parse_canopy(&cp, cat, &y, e);
-        if (!rc)
+        if (!rc) {
             snprintf(what, wlen, "%s, nominal diameter %.3g m", cp.fam.id, cp.d0.typ);
+            sr_input_warnings_canopy(iw, &cp, "canopy", sys);
+        }
     } else if (sr_yaml_get(&y, root, "id")) {
         snprintf(kind, klen, "canopy family");
         sr_family f;
@@ -98,10 +103,20 @@ int sr_cmd_check(sr_cli *c, int argc, char **argv)
     sr_rtable_text_column(t, "kind", "kind");
     sr_rtable_text_column(t, "result", "result");
     int bad = 0;
+    sr_input_warnings *iw = malloc(sizeof *iw);
+    if (!iw) {
+        sr_report_free(r);
+        free(cat);
+        return sr_cli_fail(c, "out of memory");
+    }
     for (int i = first; i < argc; i++) {
         char kind[32] = "?", what[256] = "";
         sr_error e;
-        int frc = check_one(cat, argv[i], kind, sizeof kind, what, sizeof what, &e);
+        sr_input_warnings_init(iw);
+        int frc = check_one(cat, argv[i], kind, sizeof kind, what, sizeof what, iw, c->units, &e);
+        /* a valid file's plausibility warnings, each named with the file */
+        for (size_t k = 0; !frc && k < iw->n; k++)
+            sr_report_warning(r, "%s: %s", argv[i], iw->msg[k]);
         char res[600];
         if (frc) {
             bad++;
@@ -113,6 +128,7 @@ int sr_cmd_check(sr_cli *c, int argc, char **argv)
         const char *row[] = {argv[i], kind, res};
         sr_rtable_row(t, NULL, row);
     }
+    free(iw);
     if (bad)
         sr_report_warning(r, "%d of %d file(s) invalid", bad, argc - first);
     rc = sr_cli_emit(c, r);

@@ -14,6 +14,7 @@
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "cli/progress.h"
 #include "analysis/dispersion.h"
 #include "analysis/dispersion_mission.h"
@@ -802,6 +803,10 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
         report_body(r, &dm, b, &st->body[b], &nom[b], res.nbodies);
     report_spread(r, &dm, st);
     int bad = report_limits(c, r, m, st, risk);
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    sr_input_warnings_mission(&iw, m, NULL, c->units);
+    sr_cli_report_input_warnings(r, &iw);
     sr_report_note(r, "Bearings are clockwise from north; east and north are measured from the launch point "
                       "(the ground point below the first deployment unless the mission gives an offset).");
     sr_report_note(r, "A 2-D normal scatter puts 39.3 %% of the landings inside the 1-sigma ellipse and 98.9 %% "

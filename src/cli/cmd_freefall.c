@@ -10,6 +10,7 @@
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 
 enum {
     OPT_BODY = OPT_COMMAND_BASE,
@@ -600,6 +601,13 @@ int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
                                  "so). Plan for the fastest stable one.", a, q->n, nstable);
         }
     }
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "mass", c->units);
+    sr_input_warnings_value(&iw, SR_PLAUS_BODY_SIZE, d, "body diameter", c->units);
+    if (shape == SR_BLUFF_CYLINDER)
+        sr_input_warnings_value(&iw, SR_PLAUS_BODY_SIZE, len, "body length", c->units);
+    sr_cli_report_input_warnings(r, &iw);
     for (unsigned bit = 1; bit <= SR_BLUFF_WARN_TRUNCATED; bit <<= 1)
         if (allwarn & bit)
             sr_report_warning(r, "%s.", sr_bluff_warn_text(bit));

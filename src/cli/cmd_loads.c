@@ -15,7 +15,9 @@
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "cli/verdict.h"
+#include "physics/descent.h"
 #include "files/mission.h"
 #include "files/yamldoc.h"
 #include "physics/opening.h"
@@ -835,6 +837,17 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
         cluster |= ds[i].cp->count > 1;
         measured |= ds[i].band.measured;
     }
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    if (mis) {
+        sr_input_warnings_mission(&iw, mis, &atm, c->units);
+        if (o.mass)
+            sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "--mass", c->units);
+    } else {
+        sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "decelerated mass", c->units);
+        sr_input_warnings_canopy(&iw, &cp, "canopy", c->units);
+    }
+    sr_cli_report_input_warnings(r, &iw);
     notes_common(r, recalled, isnan(tw.design) ? 0 : tw.design, cluster, measured);
     if (c->plot_prefix && (rc = figures(c, ds, nd, argc, argv)))
         goto out;

@@ -10,6 +10,7 @@
 #include "analysis/judge.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "cli/profile_failcase.h"
 #include "cli/profile_plot.h"
 #include "cli/verdict.h"
@@ -132,6 +133,11 @@ static void wind_text(const sr_cli *c, const sr_wind *w, char *buf, size_t len)
             fmt(h2, sizeof h2, c, w->d, SR_Q_LENGTH, 3);
             snprintf(buf, len, "log law, %s from %.0f deg at %s above ground, roughness length %s, displacement %s", v,
                      deg, h, v2, h2);
+        }
+        if (w->h_grad > 0.0) {
+            size_t l = strlen(buf);
+            fmt(h, sizeof h, c, w->h_grad, SR_Q_LENGTH, 3);
+            snprintf(buf + l, len > l ? len - l : 0, "; held constant above %s (gradient height)", h);
         }
         return;
     case SR_WIND_TABLE: {
@@ -643,6 +649,10 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         sr_report_note(r, "The mission file sets no limits: nothing was checked.");
     int exceeded = sr_cli_verdict_messages(r, c, m, &lim, &verdict, 0);
     report_warnings(r, c, m, B);
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    sr_input_warnings_mission(&iw, m, NULL, c->units);
+    sr_cli_report_input_warnings(r, &iw);
     report_notes(r, m, o.fast && !F);
     if (F)
         sr_profile_report_attitudes(r, c, m, F);

@@ -7,6 +7,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "physics/descent.h"
 #include "files/mission.h"
 
@@ -140,6 +141,8 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
     sr_rtable_column(t, "energy_typical", "typical", SR_Q_ENERGY, 3);
     sr_rtable_column(t, "energy_high", "high", SR_Q_ENERGY, 3);
     double mt = mass + (cp.areal_mass > 0 ? cp.count * cp.areal_mass * cp.s0.typ : 0.0);
+    /* the slowest typical rate and the highest Mach number over the rows, for the warnings */
+    double slow = INFINITY, slow_z = 0.0, mach = 0.0, mach_z = 0.0;
     for (size_t i = 0; i < nalt; i++) {
         sr_air a;
         if (sr_atmos_at(&atm, alt[i], &a, &e)) {
@@ -162,10 +165,31 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
                         0.5 * mt * v.typ * v.typ,
                         0.5 * mt * v.hi * v.hi};
         sr_rtable_row(t, row, NULL);
+        if (v.typ < slow)
+            slow = v.typ, slow_z = alt[i];
+        if (v.hi / a.a > mach)
+            mach = v.hi / a.a, mach_z = alt[i];
     }
     sr_report_note(r, "Equilibrium rate where drag equals weight: v = sqrt(2 m g / (rho CdS)). The energy "
                       "columns are the kinetic energy of the whole descending mass at that speed; per-section "
                       "energies are in `sinkrate profile`.");
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "descending mass", c->units);
+    sr_input_warnings_canopy(&iw, &cp, "canopy", c->units);
+    char what[160], az[48];
+    sr_report_format_value(az, sizeof az, slow_z, SR_Q_LENGTH, c->units, SR_FIXED(0));
+    snprintf(what, sizeof what, "descent rate (typical) at %s", az);
+    sr_input_warnings_value(&iw, SR_PLAUS_DESCENT_SPEED, slow, what, c->units);
+    unsigned mj = sr_mach_judge(mach, cp.fam.mach_max);
+    if (mj) {
+        char msg[SR_INPUT_WARN_LEN];
+        sr_report_format_value(az, sizeof az, mach_z, SR_Q_LENGTH, c->units, SR_FIXED(0));
+        snprintf(what, sizeof what, "the descent at %s (rate high)", az);
+        sr_mach_describe(mj, mach, cp.fam.mach_max, cp.fam.id, what, msg, sizeof msg);
+        sr_input_warnings_add(&iw, msg);
+    }
+    sr_cli_report_input_warnings(r, &iw);
     if (!cp.measured && strstr(cp.fam.cd0_source, "memory"))
         sr_report_warning(r, "The family's drag data are recalled handbook values, not checked against the printed "
                              "table: confirm with a drop test.");

@@ -6,6 +6,7 @@
 
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "analysis/input_warnings.h"
 #include "analysis/sizing.h"
 #include "physics/descent.h"
 #include "files/mission.h"
@@ -119,23 +120,20 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     z = ground;
     if (o.altitude && (rc = sr_cli_quantity(c, "--altitude", o.altitude, SR_Q_LENGTH, 0, &z)))
         goto out;
-    sr_sizing_request sreq = {.canopy = &cp, .mass = mass, .speed = speed, .body_cds = body, .atmos = &atm,
-                              .altitude = z};
-    sr_sizing_result res;
     sr_air air;
     if (sr_atmos_at(&atm, z, &air, &e)) {
         rc = sr_cli_fail(c, "--altitude: %s", e.msg);
         goto out;
     }
-    if (sr_sizing_run(&sreq, &res, &e)) {
-        if (e.code == SR_EIMPOSSIBLE && strncmp(e.msg, "no canopy fits", 14) == 0) {
-            sr_cli_fail(c, "%s; check --mass and --speed", e.msg);
-            rc = SR_EXIT_LIMIT;
-        } else {
-            rc = sr_cli_fail_err(c, &e);
-        }
+    /* the size and what is reported around it (analysis/sizing.h) */
+    sr_sizing_request sreq = {.canopy = &cp, .mass = mass, .speed = speed, .body_cds = body, .atmos = &atm,
+                              .altitude = z};
+    sr_sizing_result sz;
+    if (sr_sizing_run(&sreq, &sz, &e)) {
+        rc = sr_cli_fail_err(c, &e);
         goto out;
     }
+    const sr_size_result res = sz.size;
     double areal = cp.areal_mass > 0 ? cp.areal_mass : 0.0;
 
     r = sr_report_new("size", "canopy size for a target touchdown speed");
@@ -146,7 +144,7 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_report_value(r, "target_speed", "target touchdown speed", speed, SR_Q_SPEED, 4);
     sr_report_value(r, "altitude", "touchdown altitude (above sea level)", z, SR_Q_LENGTH, SR_FIXED(0));
     sr_cli_report_atmos(r, &atm);
-    sr_report_value(r, "density", "air density there", res.air.rho, SR_Q_DENSITY, 5);
+    sr_report_value(r, "density", "air density there", air.rho, SR_Q_DENSITY, 5);
     sr_cli_report_canopy(r, &cp);
     if (body > 0)
         sr_report_value(r, "body_drag_area", "payload drag area", body, SR_Q_AREA, 4);
@@ -154,18 +152,16 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         sr_report_value(r, "areal_mass", "canopy areal mass", areal, SR_Q_AREAL_MASS, 3);
 
     sr_report_section(r, cp.count > 1 ? "Result (each canopy of the cluster)" : "Result");
-    const sr_size_result *sz = &res.size;
-    sr_report_band(r, "nominal_area", "nominal area S0", sz->s0.lo, sz->s0.typ, sz->s0.hi, SR_Q_AREA, 4);
-    sr_report_band(r, "nominal_diameter", "nominal diameter D0", sz->d0.lo, sz->d0.typ, sz->d0.hi, SR_Q_LENGTH, 4);
-    sr_report_band(r, "projected_diameter", "projected diameter Dp", res.dp.lo, res.dp.typ, res.dp.hi, SR_Q_LENGTH,
-                   4);
-    sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", res.dc.lo, res.dc.typ, res.dc.hi,
+    sr_report_band(r, "nominal_area", "nominal area S0", res.s0.lo, res.s0.typ, res.s0.hi, SR_Q_AREA, 4);
+    sr_report_band(r, "nominal_diameter", "nominal diameter D0", res.d0.lo, res.d0.typ, res.d0.hi, SR_Q_LENGTH, 4);
+    sr_report_band(r, "projected_diameter", "projected diameter Dp", sz.dp.lo, sz.dp.typ, sz.dp.hi, SR_Q_LENGTH, 4);
+    sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", sz.dc.lo, sz.dc.typ, sz.dc.hi,
                    SR_Q_LENGTH, 4);
     if (areal > 0)
-        sr_report_band(r, "canopy_mass", "canopy fabric mass (all canopies)", sz->canopy_mass.lo, sz->canopy_mass.typ,
-                       sz->canopy_mass.hi, SR_Q_MASS, 3);
-    sr_report_value(r, "drag_area", "drag area needed (total, typical)", sz->cds_total, SR_Q_AREA, 4);
-    sr_report_value(r, "touchdown_energy", "touchdown kinetic energy", res.energy, SR_Q_ENERGY, 4);
+        sr_report_band(r, "canopy_mass", "canopy fabric mass (all canopies)", res.canopy_mass.lo,
+                       res.canopy_mass.typ, res.canopy_mass.hi, SR_Q_MASS, 3);
+    sr_report_value(r, "drag_area", "drag area needed (total, typical)", res.cds_total, SR_Q_AREA, 4);
+    sr_report_value(r, "touchdown_energy", "touchdown kinetic energy", sz.energy, SR_Q_ENERGY, 4);
 
     if (mis && mis->stages[mis->nstages - 1].has_size && !sr_cli_canopy_given(&o.canopy)) {
         const sr_stage *st = &mis->stages[mis->nstages - 1];
@@ -176,18 +172,18 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         sr_report_text(r, "file_size", "size in the file", buf);
         sr_report_band(r, "file_nominal_area", "its nominal area S0", st->canopy.s0.lo, st->canopy.s0.typ,
                        st->canopy.s0.hi, SR_Q_AREA, 4);
-        switch (sr_sizing_compare(&res, &st->canopy)) {
+        switch (sr_sizing_compare(&sz, &st->canopy)) {
         case SR_SIZING_FITS_BAND:
             sr_report_note(r, "The file's canopy is at least as large as the high end of the band: it meets the "
                               "target speed over the whole drag range.");
             break;
         case SR_SIZING_FITS_TYPICAL:
             sr_report_warning(r, "The file's canopy meets the target with the typical drag coefficient but not over "
-                                 "the whole range: it needs S0 = %.3g m2 to be sure.", sz->s0.hi);
+                                 "the whole range: it needs S0 = %.3g m2 to be sure.", res.s0.hi);
             break;
         default:
             sr_report_warning(r, "The file's canopy is smaller than the typical size needed (%.3g m2): it lands "
-                                 "faster than the target.", sz->s0.typ);
+                                 "faster than the target.", res.s0.typ);
         }
     }
     sr_rtable *t = sr_report_table(r, "rate_of_typical_size", "Descent rate of the typical size at altitude");
@@ -196,8 +192,8 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_rtable_column(t, "rate_low", "rate low", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_typical", "rate typical", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_high", "rate high", SR_Q_SPEED, 3);
-    for (size_t i = 0; i < res.nrates; i++) {
-        double row[] = {res.rate_altitude[i], res.rate_density[i], res.rate[i].lo, res.rate[i].typ, res.rate[i].hi};
+    for (size_t i = 0; i < sz.nrates; i++) {
+        double row[] = {sz.rate_altitude[i], sz.rate_density[i], sz.rate[i].lo, sz.rate[i].typ, sz.rate[i].hi};
         sr_rtable_row(t, row, NULL);
     }
     sr_report_note(r, "Sizes are on nominal area S0 (total canopy surface, vent included), D0 = sqrt(4 S0/pi). "
@@ -205,9 +201,23 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_report_note(r, "The band comes from the drag-coefficient range of the family: the high coefficient gives "
                       "the small canopy, the low one the large. Choose from the large end to meet the speed with "
                       "margin.");
-    if (res.cd0_converted)
+    if (sz.cd0_converted)
         sr_report_note(r, "A measured drag coefficient on %s area was converted to nominal area through the family "
                           "ratio.", sr_ref_name(cp.cd.ref));
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "payload mass", c->units);
+    sr_input_warnings_value(&iw, SR_PLAUS_DESCENT_SPEED, speed, "target touchdown speed", c->units);
+    sr_input_warnings_value(&iw, SR_PLAUS_CANOPY_D0, res.d0.typ, "nominal diameter D0 needed (typical)", c->units);
+    if (areal > 0)
+        sr_input_warnings_value(&iw, SR_PLAUS_AREAL_MASS, areal, "canopy areal mass", c->units);
+    unsigned mj = sr_mach_judge(speed / air.a, cp.fam.mach_max);
+    if (mj) {
+        char msg[SR_INPUT_WARN_LEN];
+        sr_mach_describe(mj, speed / air.a, cp.fam.mach_max, cp.fam.id, "the target speed", msg, sizeof msg);
+        sr_input_warnings_add(&iw, msg);
+    }
+    sr_cli_report_input_warnings(r, &iw);
     if (cp.fam.cd0_source[0] && strstr(cp.fam.cd0_source, "memory"))
         sr_report_warning(r, "The family's drag data are recalled handbook values, not checked against the printed "
                              "table: confirm with a drop test before relying on the size.");

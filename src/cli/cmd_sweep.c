@@ -12,6 +12,7 @@
 #include "cli/common.h"
 #include "physics/descent.h"
 #include "files/mission.h"
+#include "analysis/input_warnings.h"
 #include "analysis/sweep.h"
 
 enum {
@@ -581,6 +582,67 @@ static int x_sig(const run *R)
 static const char *X_KEY[] = {"altitude", "mass", "nominal_diameter", "temp_offset", "site_elevation", "target_speed"};
 static const char *X_LABEL[] = {"altitude", "mass", "D0", "temp offset", "site elevation", "target speed"};
 
+/* The plausibility and Mach warnings of a sweep: the shared judgements of
+ * physics/plausible, at the extremes of what was swept and found. */
+static void sweep_warnings(const run *R, sr_report *r, const double *mach, double slow, double dmin, double dmax)
+{
+    sr_unit_system sys = R->c->units;
+    sr_input_warnings iw;
+    sr_input_warnings_init(&iw);
+    double lo = INFINITY, hi = -INFINITY;
+    for (size_t i = 0; i < R->nx; i++)
+        lo = fmin(lo, R->xs[i]), hi = fmax(hi, R->xs[i]);
+    double blo = INFINITY, bhi = -INFINITY;
+    for (size_t i = 0; R->has_by && i < R->nby; i++)
+        blo = fmin(blo, R->byvals[i]), bhi = fmax(bhi, R->byvals[i]);
+    if (!uses(R, SR_SWEEP_MASS))
+        sr_input_warnings_value(&iw, SR_PLAUS_MASS, R->mass, "payload mass", sys);
+    const struct {
+        sr_sweep_var v;
+        sr_plaus_kind k;
+        const char *what;
+    } SWEPT[] = {{SR_SWEEP_MASS, SR_PLAUS_MASS, "swept mass"},
+                 {SR_SWEEP_DIAMETER, SR_PLAUS_CANOPY_D0, "swept nominal diameter"},
+                 {SR_SWEEP_SPEED, SR_PLAUS_DESCENT_SPEED, "target speed"}};
+    for (size_t j = 0; j < sizeof SWEPT / sizeof SWEPT[0]; j++) {
+        if (R->var == SWEPT[j].v) {
+            sr_input_warnings_value(&iw, SWEPT[j].k, lo, SWEPT[j].what, sys);
+            sr_input_warnings_value(&iw, SWEPT[j].k, hi, SWEPT[j].what, sys);
+        }
+        if (R->has_by && R->byvar == SWEPT[j].v) {
+            sr_input_warnings_value(&iw, SWEPT[j].k, blo, SWEPT[j].what, sys);
+            sr_input_warnings_value(&iw, SWEPT[j].k, bhi, SWEPT[j].what, sys);
+        }
+    }
+    int sized_by_sweep = uses(R, SR_SWEEP_DIAMETER) || R->var == SR_SWEEP_SPEED;
+    for (int i = 0; i < R->ncanopy && !sized_by_sweep; i++) {
+        char what[200];
+        if (R->ncanopy > 1)
+            snprintf(what, sizeof what, "canopy %d (%s)", i + 1, R->canopies[i].fam.id);
+        else
+            snprintf(what, sizeof what, "canopy (%s)", R->canopies[i].fam.id);
+        sr_input_warnings_canopy(&iw, &R->canopies[i], what, sys);
+    }
+    if (R->var == SR_SWEEP_SPEED) {
+        sr_input_warnings_value(&iw, SR_PLAUS_CANOPY_D0, dmin, "nominal diameter D0 needed (typical)", sys);
+        sr_input_warnings_value(&iw, SR_PLAUS_CANOPY_D0, dmax, "nominal diameter D0 needed (typical)", sys);
+    } else {
+        sr_input_warnings_value(&iw, SR_PLAUS_DESCENT_SPEED, slow, "slowest descent rate (typical)", sys);
+    }
+    for (int i = 0; i < R->ncanopy; i++) {
+        const sr_family *f = &R->canopies[i].fam;
+        unsigned mj = sr_mach_judge(mach[i], f->mach_max);
+        if (!mj)
+            continue;
+        char what[200], msg[SR_INPUT_WARN_LEN];
+        snprintf(what, sizeof what, "%s%s%s", R->var == SR_SWEEP_SPEED ? "the target speed" : "the descent",
+                 R->ncanopy > 1 ? " of " : "", R->ncanopy > 1 ? R->labels[i] : "");
+        sr_mach_describe(mj, mach[i], f->mach_max, f->id, what, msg, sizeof msg);
+        sr_input_warnings_add(&iw, msg);
+    }
+    sr_cli_report_input_warnings(r, &iw);
+}
+
 static void build_report(run *R, sr_report *r)
 {
     static const char *TITLES[] = {"descent rate over altitude", "descent rate over payload mass",
@@ -672,7 +734,9 @@ static void build_report(run *R, sr_report *r)
         sr_rtable_column(t, "time_typical", "typical", SR_Q_TIME, 4);
         sr_rtable_column(t, "time_high", "high", SR_Q_TIME, 4);
     }
-    double mach_over = 0.0;
+    /* for the warnings: per canopy the highest Mach number (rate high), over all rows the slowest
+     * typical rate and the extreme sizes found */
+    double mach[MAX_CANOPIES] = {0}, slow = INFINITY, dmin = INFINITY, dmax = 0.0;
     for (size_t k = 0; k < R->ncurves; k++) {
         const curve *cv = &R->curves[k];
         const char *txt[1] = {R->labels[cv->canopy]};
@@ -706,11 +770,14 @@ static void build_report(run *R, sr_report *r)
                 row[n++] = w->t.hi;
             }
             sr_rtable_row(t, row, multi_canopy ? txt : NULL);
-            double lim = R->canopies[cv->canopy].fam.mach_max;
-            if (lim > 0 && w->mach > lim && w->mach / lim > mach_over)
-                mach_over = w->mach / lim;
+            if (w->v.hi / w->a > mach[cv->canopy])
+                mach[cv->canopy] = w->v.hi / w->a;
+            slow = fmin(slow, w->v.typ);
+            dmin = fmin(dmin, w->d0.typ);
+            dmax = fmax(dmax, w->d0.typ);
         }
     }
+    sweep_warnings(R, r, mach, slow, dmin, dmax);
     if (speed)
         sr_report_note(r, "Sizes are nominal diameters D0 (from the nominal area S0, vent included) of one canopy; the "
                           "low size comes from the high drag coefficient. Choose from the large end to meet the speed "
@@ -728,10 +795,6 @@ static void build_report(run *R, sr_report *r)
     if (uses(R, SR_SWEEP_DIAMETER))
         sr_report_note(r, "The diameter swept is the nominal diameter D0; measured drag, cluster and areal mass of the "
                           "canopy are kept.");
-    if (mach_over > 1.0)
-        sr_report_warning(r, "Some rows exceed the Mach number of the family's usual application (by up to %.0f%%); "
-                             "the drag data do not cover them.",
-                          100.0 * (mach_over - 1.0));
     for (int i = 0; i < R->ncanopy; i++)
         if (!R->canopies[i].measured && strstr(R->canopies[i].fam.cd0_source, "memory")) {
             sr_report_warning(r, "The drag data of %s are recalled handbook values, not checked against the printed "

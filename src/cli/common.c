@@ -11,6 +11,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "analysis/input_warnings.h"
 #include "cli/cliplot.h"
 #include "output/fileio.h"
 #include "output/plot.h"
@@ -71,7 +72,8 @@ void sr_cli_help(sr_cli *c, const char *text)
     fputs(text, c->out);
     fputc('\n', c->out);
     fputs("Quantities take a unit (\"2.5 kg\", \"36in\", \"18 ft/s\", \"31 C\"); a bare number is SI\n"
-          "(kg, m, m/s, K, Pa), except angles, which are degrees.\n\n",
+          "(kg, m, m/s, K, Pa), except angles, which are degrees. Under --units us a bare\n"
+          "number is refused (0 excepted): give the unit. Files always need units.\n\n",
           c->out);
     /* the caution belongs in every help text */
     const char *p = sr_report_caution();
@@ -297,9 +299,32 @@ int sr_cli_take_canopy(sr_canopy_opts *o, int code, const char *arg)
     return 0;
 }
 
+/* An example unit for a bare number under --units us: inches for sizes, the
+ * US display unit otherwise. */
+static const char *us_example_unit(const char *opt, sr_quantity q)
+{
+    if (q == SR_Q_LENGTH && (strstr(opt, "diameter") || strstr(opt, "length")))
+        return "in";
+    if (q == SR_Q_PRESSURE)
+        return "inHg";
+    return sr_units_label(q, SR_UNITS_US);
+}
+
 int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q, int positive, double *out)
 {
     sr_error e;
+    /* under --units us a bare number would silently be SI (36 read as 36 m, not 36 in): refuse
+     * it; angles are degrees in both systems, dimensionless numbers have no unit, and a bare
+     * zero is zero in every unit of a quantity without an offset (absolute temperature has one) */
+    if (c->units == SR_UNITS_US && q != SR_Q_NONE && q != SR_Q_ANGLE &&
+        sr_units_parse_strict(text, q, out, &e) != SR_OK && strstr(e.msg, "needs a unit") &&
+        !(q != SR_Q_TEMP && sr_units_parse(text, q, out, NULL) == SR_OK && *out == 0.0)) {
+        char num[64];
+        snprintf(num, sizeof num, "%s", text + strspn(text, " \t"));
+        num[strcspn(num, " \t")] = '\0';
+        return sr_cli_fail(c, "%s: give a unit, e.g. %s%s (under --units us a bare number is not taken as SI)",
+                           opt, num, us_example_unit(opt, q));
+    }
     if (sr_units_parse(text, q, out, &e) != SR_OK)
         return sr_cli_fail(c, "%s: %s", opt, e.msg);
     if (positive && !(*out > 0.0))
@@ -715,4 +740,12 @@ int sr_cli_emit(sr_cli *c, const sr_report *r)
     fwrite(buf, 1, len, c->out);
     free(buf);
     return 0;
+}
+
+void sr_cli_report_input_warnings(sr_report *r, const sr_input_warnings *w)
+{
+    for (size_t i = 0; i < w->n; i++) /* a sentence starts with a capital, as the other warnings do */
+        sr_report_warning(r, "%c%s", w->msg[i][0] >= 'a' && w->msg[i][0] <= 'z' ? w->msg[i][0] - 'a' + 'A'
+                                                                                  : w->msg[i][0],
+                          w->msg[i][0] ? w->msg[i] + 1 : "");
 }

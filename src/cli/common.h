@@ -132,6 +132,10 @@ void sr_cli_report_atmos(sr_report *r, const sr_atmos *m);
 /* The atmosphere in a few words, for a figure's subtitle. */
 void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t len);
 
+/* Add gathered input warnings (analysis/input_warnings.h) to the report. */
+struct sr_input_warnings;
+void sr_cli_report_input_warnings(sr_report *r, const struct sr_input_warnings *w);
+
 /* Render the report in the chosen format to stdout or -o FILE (atomically). */
 int sr_cli_emit(sr_cli *c, const sr_report *r);
 

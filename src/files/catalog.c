@@ -258,7 +258,8 @@ static const char *const SIZE_KEYS[] = {"nominal-diameter", "projected-diameter"
                                         "nominal-area"};
 static const sr_size_kind SIZE_KIND[] = {SR_SIZE_NOMINAL_DIAMETER, SR_SIZE_PROJECTED_DIAMETER,
                                          SR_SIZE_FLAT_DIAMETER, SR_SIZE_NOMINAL_AREA};
-static const char *const MEASURED_KEYS[] = {"value", "reference", "source", NULL};
+static const char *const MEASURED_KEYS[] = {"value", "reference", "source", "low", "high", NULL};
+static const char *const MEASURED_REQUIRED[] = {"value", "reference", "source", NULL};
 static const char *const OPENING_KEYS[] = {"factor", "load", "source", NULL};
 static const char *const OPENING_REQ[] = {"source", NULL};
 
@@ -331,7 +332,7 @@ int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_ya
     }
     yaml_node_t *m = sr_yaml_get(y, n, "drag-coefficient");
     if (m) {
-        if ((rc = sr_yaml_check_map(y, m, "drag-coefficient", MEASURED_KEYS, MEASURED_KEYS, err)))
+        if ((rc = sr_yaml_check_map(y, m, "drag-coefficient", MEASURED_KEYS, MEASURED_REQUIRED, err)))
             return rc;
         double cd;
         char refs[32], src[SR_SOURCE_MAX];
@@ -345,8 +346,16 @@ int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_ya
             return sr_yaml_fail(y, rn, err, "reference must be nominal, projected or constructed, not '%s'", refs);
         if ((rc = sr_yaml_string(y, sr_yaml_get(y, m, "source"), src, sizeof src, err)))
             return rc;
-        if ((rc = sr_canopy_set_measured_cd(c, cd, ref, src, &e)))
-            return sr_yaml_fail(y, sr_yaml_get(y, m, "value"), err, "%s", e.msg);
+        /* optional low / high: a measured band (a fit's confidence interval) */
+        sr_band b = {cd, cd, cd};
+        yaml_node_t *ln = sr_yaml_get(y, m, "low"), *hn = sr_yaml_get(y, m, "high");
+        if ((ln != NULL) != (hn != NULL))
+            return sr_yaml_fail(y, ln ? ln : hn, err, "give both 'low' and 'high' of the measured band, or neither");
+        if (ln && ((rc = sr_yaml_number(y, ln, &b.lo, err)) || (rc = sr_yaml_number(y, hn, &b.hi, err))))
+            return rc;
+        if ((rc = sr_canopy_set_measured_band(c, b, ref, src, &e)))
+            return sr_yaml_fail(y, ln && !(b.lo <= cd && cd <= b.hi) ? ln : sr_yaml_get(y, m, "value"), err, "%s",
+                                e.msg);
     }
     long count = 1;
     yaml_node_t *cn = sr_yaml_get(y, n, "count");

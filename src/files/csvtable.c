@@ -8,6 +8,7 @@
 #include <ctype.h>
 #include <errno.h>
 #include <stdio.h>
+#include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -239,6 +240,10 @@ static void on_record(int ch, void *ctx_)
                 return;
             }
         }
+        for (size_t j = 0; j < s->nspecs; j++)
+            for (size_t k = 0; k < s->nfilecols; k++)
+                if (s->map[k] == (int)j)
+                    s->t->field[j] = k;
         s->header_done = 1;
         s->field = 0;
         return;
@@ -292,6 +297,8 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
                       const sr_csv_column *specs, size_t nspecs, sr_error *err)
 {
     memset(t, 0, sizeof *t);
+    for (size_t j = 0; j < SR_CSVTABLE_MAX_COLS; j++)
+        t->field[j] = SIZE_MAX;
     if (nspecs > SR_CSVTABLE_MAX_COLS)
         return sr_error_set(err, SR_EINVAL, "internal: too many columns");
     t->ncols = nspecs;
@@ -361,10 +368,10 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
     return SR_OK;
 }
 
-int sr_csvtable_load(sr_csvtable *t, const char *path, const sr_csv_column *specs, size_t nspecs,
-                     sr_error *err)
+int sr_csvtable_read_file(const char *path, char **out, size_t *outlen, sr_error *err)
 {
-    memset(t, 0, sizeof *t);
+    *out = NULL;
+    *outlen = 0;
     FILE *f;
     int rc = sr_file_open_read(path, &f, err);
     if (rc)
@@ -398,9 +405,46 @@ int sr_csvtable_load(sr_csvtable *t, const char *path, const sr_csv_column *spec
         free(buf);
         return sr_error_set(err, SR_EIO, "%s: read error: %s", path, strerror(bad_errno));
     }
+    *out = buf;
+    *outlen = len;
+    return SR_OK;
+}
+
+int sr_csvtable_load(sr_csvtable *t, const char *path, const sr_csv_column *specs, size_t nspecs,
+                     sr_error *err)
+{
+    memset(t, 0, sizeof *t);
+    char *buf;
+    size_t len;
+    int rc = sr_csvtable_read_file(path, &buf, &len, err);
+    if (rc)
+        return rc;
     rc = sr_csvtable_parse(t, path, buf ? buf : "", len, specs, nspecs, err);
     free(buf);
     return rc;
+}
+
+size_t sr_csvtable_cell_column(const char *buf, size_t len, size_t line, size_t field)
+{
+    size_t pos = 0, at = 1;
+    if (len >= 3 && memcmp(buf, "\xEF\xBB\xBF", 3) == 0)
+        pos = 3;
+    /* the same line ends as sr_csvtable_parse: LF, CRLF or a lone CR */
+    while (pos < len && at < line) {
+        if (buf[pos] == '\n' || (buf[pos] == '\r' && (pos + 1 == len || buf[pos + 1] != '\n')))
+            at++;
+        pos++;
+    }
+    if (at != line)
+        return 1;
+    parse_state s;
+    memset(&s, 0, sizeof s);
+    s.linebuf = buf + pos;
+    size_t end = pos;
+    while (end < len && buf[end] != '\n' && buf[end] != '\r')
+        end++;
+    s.linelen = end - pos;
+    return field_column(&s, field);
 }
 
 void sr_csvtable_free(sr_csvtable *t)

@@ -10,13 +10,13 @@
 
 static const char *const WIND_KEYS[] = {"model",        "speed",            "from",         "reference-height",
                                         "exponent",     "roughness-length", "displacement", "file",
-                                        "rows",         NULL};
+                                        "rows",         "gradient-height",  NULL};
 static const char *const MODELS[] = {"constant", "power-law", "log-law", "table", "sounding", NULL};
 /* keys each model takes (besides `model`) */
 static const char *const KEYS_CONSTANT[] = {"speed", "from", NULL};
-static const char *const KEYS_POWER[] = {"speed", "from", "reference-height", "exponent", NULL};
-static const char *const KEYS_LOG[] = {"speed", "from", "reference-height", "roughness-length", "displacement",
-                                       NULL};
+static const char *const KEYS_POWER[] = {"speed", "from", "reference-height", "exponent", "gradient-height", NULL};
+static const char *const KEYS_LOG[] = {"speed",        "from",            "reference-height", "roughness-length",
+                                       "displacement", "gradient-height", NULL};
 static const char *const KEYS_TABLE[] = {"file", "rows", NULL};
 static const char *const KEYS_SOUNDING[] = {NULL};
 static const char *const ROW_KEYS[] = {"height", "altitude", "speed", "from", NULL};
@@ -181,6 +181,14 @@ int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_er
         if (strstr(e.msg, "direction"))
             blame = sr_yaml_get(y, n, "from");
         return sr_yaml_fail(y, blame ? blame : n, err, "%s", e.msg);
+    }
+    yaml_node_t *gn = sr_yaml_get(y, n, "gradient-height");
+    if (gn) {
+        double hg;
+        if ((rc = sr_yaml_quantity(y, gn, SR_Q_LENGTH, &hg, err)))
+            return rc;
+        if (sr_wind_set_gradient_height(&m->wind, hg, &e))
+            return sr_yaml_fail(y, gn, err, "%s", e.msg);
     }
     return SR_OK;
 }

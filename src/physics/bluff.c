@@ -2,6 +2,7 @@
  * digitised data, see ../shared/references/drag-data.md), all equilibria of
  * drag = weight by scanning and GSL Brent, and the fixed-point trace. */
 #include "physics/bluff.h"
+#include "physics/plausible.h"
 
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_roots.h>
@@ -748,7 +749,7 @@ int sr_bluff_equilibria_find(const sr_bluff_body *b, const sr_air *air, sr_bluff
                     r->warn |= SR_BLUFF_WARN_STEP;
                 if (air->a > 0) {
                     r->mach = root / air->a;
-                    if (r->mach > 0.3)
+                    if (sr_mach_judge(r->mach, 0.0) & SR_MACH_OVER_INCOMPRESSIBLE)
                         r->warn |= SR_BLUFF_WARN_MACH;
                 }
                 out->warn |= r->warn;

@@ -97,8 +97,7 @@ int sr_canopy_from_size(sr_canopy *c, const sr_family *fam, sr_size_kind kind, d
     if (!isfinite(value) || value <= 0.0)
         return sr_error_set(err, SR_EINVAL, "the canopy %s must be a positive number (got %g)",
                             sr_size_kind_name(kind), value);
-    double maxlen = 200.0; /* m: larger than any canopy flown; catches unit slips (cm read as m) */
-    double minlen = 0.01;  /* m: smaller than any canopy that flies; catches the slip the other way */
+    double maxlen = SR_CANOPY_SIZE_MAX, minlen = SR_CANOPY_SIZE_MIN;
     if ((kind == SR_SIZE_NOMINAL_AREA && value > maxlen * maxlen) || (kind != SR_SIZE_NOMINAL_AREA && value > maxlen))
         return sr_error_set(err, SR_EINVAL, "a canopy %s of %g %s is beyond any canopy built; check the unit",
                             sr_size_kind_name(kind), value, kind == SR_SIZE_NOMINAL_AREA ? "m2" : "m");
@@ -148,12 +147,23 @@ static sr_ref ref_of_size(sr_size_kind k)
 
 int sr_canopy_set_measured_cd(sr_canopy *c, double cd, sr_ref ref, const char *source, sr_error *err)
 {
-    if (!isfinite(cd) || cd <= 0.0 || cd > 3.0)
-        return sr_error_set(err, SR_EINVAL,
-                            "measured drag coefficient %g is outside 0 .. 3 (on %s area); check the reference", cd,
-                            sr_ref_name(ref));
+    sr_band b = {cd, cd, cd};
+    return sr_canopy_set_measured_band(c, b, ref, source, err);
+}
+
+int sr_canopy_set_measured_band(sr_canopy *c, sr_band cd, sr_ref ref, const char *source, sr_error *err)
+{
+    const double v[3] = {cd.lo, cd.typ, cd.hi};
+    for (int k = 0; k < 3; k++)
+        if (!isfinite(v[k]) || v[k] <= 0.0 || v[k] > 3.0)
+            return sr_error_set(err, SR_EINVAL,
+                                "measured drag coefficient %g is outside 0 .. 3 (on %s area); check the reference", v[k],
+                                sr_ref_name(ref));
+    if (!(cd.lo <= cd.typ && cd.typ <= cd.hi))
+        return sr_error_set(err, SR_EINVAL, "measured drag coefficient band %g / %g / %g is not ordered low <= value "
+                                            "<= high", cd.lo, cd.typ, cd.hi);
     c->measured = 1;
-    c->cd.v.lo = c->cd.v.typ = c->cd.v.hi = cd;
+    c->cd.v = cd;
     c->cd.ref = ref;
     snprintf(c->cd_source, sizeof c->cd_source, "%s", source ? source : "measured");
     /* area on the coefficient's reference, from the size as given */
@@ -161,16 +171,18 @@ int sr_canopy_set_measured_cd(sr_canopy *c, double cd, sr_ref ref, const char *s
     double dgiven = c->size_kind == SR_SIZE_NOMINAL_AREA ? sr_canopy_d0_from_s0(c->size_value) : c->size_value;
     if (given == ref) {
         double s = sr_canopy_s0_from_d0(dgiven);
-        c->cds.lo = c->cds.typ = c->cds.hi = cd * s;
+        c->cds.lo = cd.lo * s;
+        c->cds.typ = cd.typ * s;
+        c->cds.hi = cd.hi * s;
         return SR_OK;
     }
     /* convert: D_ref = D0 * ratio_ref, D0 from the given size */
     sr_band rr = ratio_of(&c->fam, ref);
-    double lo = cd * sr_canopy_s0_from_d0(c->d0.lo * rr.lo);
-    double hi = cd * sr_canopy_s0_from_d0(c->d0.hi * rr.hi);
+    double lo = cd.lo * sr_canopy_s0_from_d0(c->d0.lo * rr.lo);
+    double hi = cd.hi * sr_canopy_s0_from_d0(c->d0.hi * rr.hi);
     c->cds.lo = fmin(lo, hi);
     c->cds.hi = fmax(lo, hi);
-    c->cds.typ = cd * sr_canopy_s0_from_d0(c->d0.typ * rr.typ);
+    c->cds.typ = cd.typ * sr_canopy_s0_from_d0(c->d0.typ * rr.typ);
     return SR_OK;
 }
 
@@ -191,5 +203,19 @@ sr_band sr_canopy_total_cds(const sr_canopy *c)
 {
     double k = c->count * c->cluster_factor;
     sr_band b = {c->cds.lo * k, c->cds.typ * k, c->cds.hi * k};
+    return b;
+}
+
+sr_band sr_canopy_cd0_band(const sr_canopy *c)
+{
+    if (!c->measured)
+        return c->fam.cd0.v;
+    sr_band ratio = {1, 1, 1};
+    if (c->cd.ref == SR_REF_PROJECTED)
+        ratio = c->fam.dp_d0;
+    else if (c->cd.ref == SR_REF_CONSTRUCTED)
+        ratio = c->fam.dc_d0;
+    double v = c->cd.v.typ;
+    sr_band b = {v * ratio.lo * ratio.lo, v * ratio.typ * ratio.typ, v * ratio.hi * ratio.hi};
     return b;
 }

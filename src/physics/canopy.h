@@ -103,6 +103,12 @@ typedef struct sr_canopy {
     char opening_source[SR_SOURCE_MAX];
 } sr_canopy;
 
+/* Sizes a canopy can have, m: 200 m is larger than any canopy flown and 1 cm
+ * smaller than any that flies; outside them a size is an input error (a unit
+ * slip, cm read as m) and a size found by sizing means no canopy fits. */
+#define SR_CANOPY_SIZE_MAX 200.0
+#define SR_CANOPY_SIZE_MIN 0.01
+
 /* Build a canopy of family fam from a size. The drag band comes from the
  * family's CD0 range; a diameter given on another reference is converted
  * through the family's Dp/D0 or Dc/D0 range, which widens the band. */
@@ -113,6 +119,9 @@ int sr_canopy_from_size(sr_canopy *c, const sr_family *fam, sr_size_kind kind, d
  * the size was given, the drag area is exact; otherwise it is converted
  * through the family ratios and stays a band. */
 int sr_canopy_set_measured_cd(sr_canopy *c, double cd, sr_ref ref, const char *source, sr_error *err);
+/* The same with a band low / value / high (a measured value with its
+ * confidence interval, as `sinkrate fit --write-canopy` writes it). */
+int sr_canopy_set_measured_band(sr_canopy *c, sr_band cd, sr_ref ref, const char *source, sr_error *err);
 
 /* Make it a cluster of n (1..16) canopies with the given factor (NaN: the
  * default from sr_canopy_cluster_factor). */
@@ -120,6 +129,10 @@ int sr_canopy_set_cluster(sr_canopy *c, int n, double factor, sr_error *err);
 
 /* Total drag area of the cluster (count x factor x one canopy), m2. */
 sr_band sr_canopy_total_cds(const sr_canopy *c);
+
+/* Drag-coefficient band on nominal area: the family's, or a measured
+ * coefficient converted through the family's diameter ratios. */
+sr_band sr_canopy_cd0_band(const sr_canopy *c);
 
 /* Conversions of one nominal area through the family ratios. */
 double sr_canopy_d0_from_s0(double s0);

@@ -69,12 +69,34 @@ int sr_descent_size(const sr_size_request *r, sr_size_result *res, sr_error *err
     res->d0.lo = sr_canopy_d0_from_s0(res->s0.lo);
     res->d0.typ = sr_canopy_d0_from_s0(res->s0.typ);
     res->d0.hi = sr_canopy_d0_from_s0(res->s0.hi);
+    /* the same bounds a given size must meet (sr_canopy_from_size): outside them the answer
+     * is no canopy at all, usually a unit slip in mass or speed */
+    if (res->d0.lo < SR_CANOPY_SIZE_MIN || res->d0.hi > SR_CANOPY_SIZE_MAX)
+        return sr_error_set(err, SR_EIMPOSSIBLE,
+                            "no canopy fits: the nominal diameter needed, %.3g m .. %.3g m, is outside any canopy "
+                            "built (%g cm .. %g m); check the mass and the target speed",
+                            res->d0.lo, res->d0.hi, SR_CANOPY_SIZE_MIN * 100.0, SR_CANOPY_SIZE_MAX);
     res->canopy_mass.lo = r->count * r->areal_mass * res->s0.lo;
     res->canopy_mass.typ = r->count * r->areal_mass * res->s0.typ;
     res->canopy_mass.hi = r->count * r->areal_mass * res->s0.hi;
     double mt = r->mass + res->canopy_mass.typ;
     res->cds_total = 2.0 * mt * r->g / (r->rho * r->speed * r->speed);
     return SR_OK;
+}
+
+int sr_descent_size_canopy(const sr_canopy *c, double mass, double speed, double body_cds, const sr_air *air,
+                           sr_size_result *res, sr_error *err)
+{
+    sr_size_request req = {.mass = mass,
+                           .speed = speed,
+                           .rho = air->rho,
+                           .g = air->g,
+                           .count = c->count,
+                           .cluster_factor = c->cluster_factor,
+                           .areal_mass = c->areal_mass > 0.0 ? c->areal_mass : 0.0,
+                           .body_cds = body_cds,
+                           .cd0 = sr_canopy_cd0_band(c)};
+    return sr_descent_size(&req, res, err);
 }
 
 double sr_descent_drop_height(double v, double g)

@@ -38,8 +38,16 @@ typedef struct sr_size_result {
 /* Exact inversion, canopy mass included:
  *   S0 = (m g - CdS_body q) / (N (k CD0 q - sigma g)),  q = rho v^2 / 2.
  * SR_EIMPOSSIBLE when the canopy's own weight outgrows its drag at that speed
- * (no size can reach the target), or the payload's own drag already suffices. */
+ * (no size can reach the target), the payload's own drag already suffices, or
+ * the diameter needed lies outside SR_CANOPY_SIZE_MIN .. _MAX (no canopy fits).
+ * `size` and `sweep --vary speed` both call it, so they agree on what is impossible. */
 int sr_descent_size(const sr_size_request *req, sr_size_result *res, sr_error *err);
+
+/* The size of a canopy's family (its drag band, cluster and areal mass; the
+ * canopy's own size is ignored) that carries mass at speed in the air state:
+ * the request sr_descent_size needs, built in one place for every caller. */
+int sr_descent_size_canopy(const sr_canopy *c, double mass, double speed, double body_cds, const sr_air *air,
+                           sr_size_result *res, sr_error *err);
 
 /* Equivalent drop height v^2 / (2 g): the free-fall height that lands as fast. */
 double sr_descent_drop_height(double v, double g);

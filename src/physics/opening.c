@@ -18,6 +18,7 @@
 #include <gsl/gsl_odeiv2.h>
 #include <gsl/gsl_roots.h>
 
+#include "physics/plausible.h"
 #include "physics/units.h"
 
 #ifndef M_PI
@@ -579,7 +580,7 @@ int sr_opening_solve(const sr_opening_input *in, sr_opening_result *out, sr_erro
         out->strength_canopy = in->design_factor * out->f_canopy_design;
     }
     out->v_terminal = in->g > 0 ? sqrt(2 * in->mass * in->g / (in->rho * out->cds_total)) : INFINITY;
-    out->above_envelope = in->mach_envelope > 0 && out->mach > in->mach_envelope;
+    out->above_envelope = (sr_mach_judge(out->mach, in->mach_envelope) & SR_MACH_OVER_ENVELOPE) != 0;
     out->slow_deployment = in->v1 < out->v_terminal;
     return SR_OK;
 }

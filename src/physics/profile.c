@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "physics/opening.h"
+#include "physics/plausible.h"
 #include "physics/profile_int.h"
 
 #define PI 3.14159265358979323846

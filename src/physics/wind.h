@@ -8,6 +8,7 @@
 #include <stddef.h>
 
 #include "base/error.h"
+#include "physics/units.h"
 
 typedef enum sr_wind_kind {
     SR_WIND_CALM = 0,
@@ -23,6 +24,11 @@ typedef enum sr_wind_kind {
 /* Height of the reference wind when none is given: 10 m, the usual
  * anemometer height of surface weather stations (common practice). */
 #define SR_WIND_REF_HEIGHT 10.0
+/* Gradient height over open country, m: the top of the layer a power or log
+ * law describes; above it the wind follows the weather, not the ground.
+ * About 270-300 m in wind engineering (ASCE 7 exposure C: 274 m; Davenport's
+ * open-country profile about 270 m; from memory): rounded up to 300 m. */
+#define SR_WIND_GRADIENT_HEIGHT 300.0
 #define SR_WIND_MAX_ROWS 4096
 #define SR_WIND_MAX_SPEED 100.0   /* m/s: beyond any wind a recovery is flown in; catches unit slips */
 
@@ -37,6 +43,8 @@ typedef struct sr_wind {
     double alpha;     /* power law exponent */
     double z0;        /* log law: roughness length, m */
     double d;         /* log law: displacement height, m */
+    double h_grad;    /* power/log: gradient height given (the law holds below, the wind is
+                       * held at its value there above), m; 0: none, the law goes on */
     /* table */
     size_t n;
     double *h;        /* heights above ground, m, strictly increasing */
@@ -64,6 +72,16 @@ int sr_wind_load_table(sr_wind *w, const char *path, double ground, sr_error *er
 int sr_wind_load_sounding(sr_wind *w, const char *path, double ground, sr_error *err);
 void sr_wind_free(sr_wind *w);
 
+/* Hold a power or log law constant above gradient height h (m above ground,
+ * above the reference height, at most 5000 m). Other kinds: SR_EINVAL. */
+int sr_wind_set_gradient_height(sr_wind *w, double h, sr_error *err);
+
+/* Whether a power or log law without a gradient height is used up to top
+ * (m above ground) beyond SR_WIND_GRADIENT_HEIGHT: 1 with a one-line warning
+ * in buf (values in the unit system sys), 0 otherwise. Every command that
+ * flies a mission's wind asks here. */
+int sr_wind_check_extrapolation(const sr_wind *w, double top, sr_unit_system sys, char *buf, size_t len);
+
 /* Velocity of the air at height h above ground as east and north
  * components (the direction it moves TOWARD). Below the lowest table row
  * the lowest row holds, above the highest the highest (callers check the
@@ -74,7 +92,8 @@ void sr_wind_at(const sr_wind *w, double h, double *east, double *north);
 /* Highest height the model is given for (INFINITY for the laws). */
 double sr_wind_top(const sr_wind *w);
 
-/* Table row heights where the profile has kinks (NULL when none). */
+/* Heights where the profile has kinks: table rows, a law's gradient height
+ * (NULL when none). */
 const double *sr_wind_knots(const sr_wind *w, size_t *n);
 
 /* Conversions between speed + from-direction and east/north components. */

@@ -26,7 +26,7 @@ static FILE *devnull;
  * (--plot: its directory and rendered figure; --samples: streamed to a
  * temporary and renamed); commands that add such options add them here.
  * An abbreviation counts, as getopt_long accepts it ("--sam" for --samples). */
-static const char *const WRITERS[] = {"plot", "plot-format", "plot-size", "samples", NULL};
+static const char *const WRITERS[] = {"plot", "plot-format", "plot-size", "samples", "write-canopy", "write-wind", NULL};
 
 /* The check before any work makes and removes a probe file in the directory
  * an argument names: while fuzzing, only its checks of the name itself. */
