@@ -4,6 +4,8 @@
 #include <math.h>
 #include <string.h>
 
+#include "physics/plausible.h"
+
 const char *sr_judge_kind_name(sr_limit_kind k)
 {
     switch (k) {
@@ -130,8 +132,14 @@ void sr_judge_bands(const sr_judge_limits *l, const sr_band_result *const *b, si
         row->judged = basis == SR_JUDGE_TYPICAL ? row->typical : row->band_end;
         row->margin = row->limit - row->judged;
         row->ratio = row->judged / row->limit;
-        row->exceeded_typical = row->known && row->typical > row->limit;
-        row->exceeded_band_end = row->known && row->band_end > row->limit;
+        if (s[i].kind == SR_JUDGE_MACH) {
+            /* the Mach judgement every command shares (physics/plausible.h) */
+            row->exceeded_typical = row->known && (sr_mach_judge(row->typical, row->limit) & SR_MACH_OVER_ENVELOPE);
+            row->exceeded_band_end = row->known && (sr_mach_judge(row->band_end, row->limit) & SR_MACH_OVER_ENVELOPE);
+        } else {
+            row->exceeded_typical = row->known && row->typical > row->limit;
+            row->exceeded_band_end = row->known && row->band_end > row->limit;
+        }
         row->exceeded = basis == SR_JUDGE_TYPICAL ? row->exceeded_typical : row->exceeded_band_end;
         v->exceeded += row->exceeded;
         v->exceeded_band_end += row->exceeded_band_end;
@@ -157,7 +165,9 @@ unsigned sr_judge_flags(const sr_judge_limits *l, const sr_profile_result *r, co
             v = loads && loads[s[i].index].valid ? loads[s[i].index].hi.force : NAN;
         else
             v = value_of(l, s[i].kind, s[i].index, r);
-        if (v > limit_of(l, s[i].kind, s[i].index))
+        double lim = limit_of(l, s[i].kind, s[i].index);
+        int over = s[i].kind == SR_JUDGE_MACH ? (sr_mach_judge(v, lim) & SR_MACH_OVER_ENVELOPE) != 0 : v > lim;
+        if (over)
             f |= 1u << s[i].kind;
     }
     return f;

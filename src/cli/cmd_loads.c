@@ -440,7 +440,8 @@ static void figure_subtitle(const deploy *d, sr_unit_system sys, char *buf, size
         snprintf(cl, sizeof cl, "%d x ", d->cp->count);
     snprintf(buf, len,
              "%s at %s, %s below the horizontal, altitude %s; %s%s D0 %s, CD0 S0 %s (typical). Line: the ODE's "
-             "drag without CX; level lines: each method's peak force with CX, with a point at its time.",
+             "drag without CX; level lines: each method's peak force with CX at the typical values, with a point at "
+             "its time, and the governing load at the band's high end.",
              m, v, a, z, cl, d->cp->fam.id, d0, cds);
 }
 
@@ -488,7 +489,7 @@ static int figure(sr_cli *c, const deploy *d, const char *prefix, int argc, char
     a.xmin = 0;
     a.xmax = tend;
     a.ymin = 0;
-    double top = fmax(t->ode.force, fmax(t->pflanz.force, t->olf.force));
+    double top = fmax(fmax(t->ode.force, d->band.hi.force), fmax(t->pflanz.force, t->olf.force));
     for (int i = 0; i < N; i++)
         top = fmax(top, fs[i]);
     a.ymax = round_top(sr_units_from_si(top, SR_Q_FORCE, sys));
@@ -504,12 +505,16 @@ static int figure(sr_cli *c, const deploy *d, const char *prefix, int argc, char
     sr_plot_series drag = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 2, .color = 1,
                            .title = "ODE drag, without CX"};
     int steady = t->ode.kind == SR_PEAK_STEADY;
+    /* the governing load of the band (every banded input), when above the typical estimates */
+    sr_opening_peak high = {.force = d->band.hi.force, .time = NAN};
+    int governs = d->band.hi.force > t->f_high * (1 + 1e-9);
     if (!rc)
         rc = sr_plot_add(p, &drag) ||
              peak_series(p, sys, steady ? "ODE peak, steady drag = weight" : "ODE peak \u00d7 CX", &t->ode, tend, 1,
                          1) ||
              peak_series(p, sys, "Pflanz, no gravity", &t->pflanz, tend, 2, 1) ||
              peak_series(p, sys, "opening-load factor", &t->olf, tend, 3, 2) ||
+             (governs && peak_series(p, sys, "governing, band high end", &high, tend, 4, 1)) ||
              sr_plot_marker(p, 0, 'x', t->t_fill, mark, 1);
     if (rc)
         rc = sr_cli_fail(c, "out of memory");
