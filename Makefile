@@ -32,12 +32,16 @@ LIB_OBJ  := $(LIB_SRC:src/%.c=$(B)/obj/%.o)
 CLI_OBJ  := $(CLI_SRC:src/cli/%.c=$(B)/obj/cli/%.o)
 CLI_LIBOBJ := $(filter-out $(B)/obj/cli/main.o,$(CLI_OBJ))
 TEST_SRC := $(sort $(wildcard tests/test_*.c))
+# The reference-library scripts (tests/ref/ref_*.py) run under Debian's python3,
+# whose packages scripts/deps.sh installs (python3-fluids, -scipy, -statsmodels).
+PYTHON  ?= $(firstword $(wildcard /usr/bin/python3) python3)
+REFS     := $(sort $(wildcard tests/ref/ref_*.py))
 TESTS    := $(TEST_SRC:tests/%.c=$(B)/tests/%)
 DEPS_OK  := $(B)/.deps-ok
 
 .SECONDARY:
-.PHONY: all deps check unit demo bench install uninstall clean plots validation sanitize valgrind fuzz \
-        fuzz-build fuzz-regress
+.PHONY: all deps check unit reference demo bench install uninstall clean plots validation validation-selftest \
+        validation-doc sanitize valgrind fuzz fuzz-build fuzz-regress
 all: $(B)/sinkrate
 
 # `make deps` installs everything the build and the tests need; the stamp a
@@ -81,16 +85,39 @@ unit: $(TESTS) $(B)/sinkrate
 	    CMOCKA_MESSAGE_OUTPUT=stdout $$t || fail=1; \
 	done; exit $$fail
 
-# check = the suite, the suite and fuzz regressions under ASan+UBSan, the CLI
-# examples under valgrind, then docs/validation.md.
+# The built sinkrate against the reference libraries: each script appends its
+# rows to the same validation log (run after `unit`, which starts the log).
+reference: $(B)/sinkrate
+	@fail=0; for r in $(REFS); do \
+	  PYTHONPATH=$(CURDIR)/tests/ref PYTHONDONTWRITEBYTECODE=1 SINKRATE_DATA=$(CURDIR) \
+	    SR_VALIDATION_LOG=$(CURDIR)/$(B)/validation.tsv $(PYTHON) $$r $(CURDIR)/$(B)/sinkrate || fail=1; \
+	done; exit $$fail
+
+# The generator of docs/validation.md refuses crafted bad logs (its self-test).
+validation-selftest:
+	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) tests/ref/selftest_validation.py $(PYTHON) scripts/validation.py
+
+# docs/validation.md from the log: fails on a row without a class, an outside
+# row without a source, a failed row, or a header that disagrees with its rows.
+VALIDATION_ARGS = $(B)/validation.tsv --sinkrate $(B)/sinkrate --data $(CURDIR) --legend README.md \
+                  --legend docs/method.md
+validation-doc: $(B)/sinkrate
+	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) scripts/validation.py $(VALIDATION_ARGS) > docs/validation.md.tmp \
+	  || { rm -f docs/validation.md.tmp; exit 1; }
+	@mv docs/validation.md.tmp docs/validation.md
+	@$(PYTHON) scripts/validation.py --verify docs/validation.md
+	@sed -n 's/^\*\*\(.*\)\*\*$$/docs\/validation.md: \1/p' docs/validation.md | head -1
+
+# check = the suite, the reference libraries, the suite and fuzz regressions
+# under ASan+UBSan, the CLI examples under valgrind, then docs/validation.md.
 # The deps step runs in its own make first, so the build after it reads the
 # pkg-config flags of packages it may just have installed.
 check:
 	@$(MAKE) --no-print-directory deps
 	@$(MAKE) --no-print-directory unit
-	@$(MAKE) --no-print-directory sanitize valgrind
-	@sh scripts/validation.sh $(B)/validation.tsv > docs/validation.md.tmp && mv docs/validation.md.tmp docs/validation.md
-	@echo "docs/validation.md: $$(grep -c '^| ' docs/validation.md) lines of outside checks"
+	@$(MAKE) --no-print-directory reference
+	@$(MAKE) --no-print-directory sanitize valgrind validation-selftest
+	@$(MAKE) --no-print-directory validation-doc
 
 validation: check
 

@@ -44,6 +44,7 @@ done <<EOF_LIST
 0 air --temp-offset 15C --altitude 0,1km,11km --units us --format json
 0 canopies
 0 canopies cross
+0 canopies --models --format json
 0 check "$M" "$root/canopies/conical.yaml"
 0 sweep --mass 2kg --family conical --nominal-diameter 1.5m --from 0 --to 3km --step 1km --by temp-offset=-20C,25C --plot "$tmp/sweep"
 1 profile "$M" --plot "$tmp/profile"

@@ -20,7 +20,9 @@
 #define SRC_USSA_CONST "U.S. Standard Atmosphere 1976, defining constants (as republished)"
 #define SRC_PDAS "U.S. Standard Atmosphere 1976, PDAS 2-km SI table (as republished)"
 #define SRC_ICAO "ICAO Doc 7488 (3rd ed. 1993), Table A/D (as republished)"
-#define SRC_DERIVED "derived from the 1976 constants"
+#define SRC_DERIVED "U.S. Standard Atmosphere 1976 formulas and constants, evaluated independently (references atmosphere-1976.md 1.5)"
+#define SRC_OURS_OFFSET "docs/method.md sec. 1: offset day, T + dT at the standard pressure"
+#define SRC_OURS_SITE "docs/method.md sec. 1: site model, standard values where a surface value is not given"
 #define SRC_GSL_QAGS "GSL 2.7 QAGS quadrature of the hydrostatic equation (Debian libgsl)"
 #define SRC_GSL_INTERP "GSL 2.7 gsl_interp_linear (Debian libgsl)"
 #define SRC_NIST "NIST SP 811 (2008) App. B"
@@ -88,23 +90,23 @@ static void test_printed_tables(void **state)
         sr_air a = std_at(r->z_km * 1000.0);
         if (r->T_abs > 0) {
             snprintf(q, sizeof q, "T at %g km (K)", r->z_km);
-            CHECK_ABS(q, r->src, r->T, a.T, r->T_abs);
+            CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, q, r->src, r->T, a.T, r->T_abs);
         }
         if (r->p_rel > 0) {
             snprintf(q, sizeof q, "p at %g km (Pa)", r->z_km);
-            CHECK_REL(q, r->src, r->p, a.p, r->p_rel);
+            CHECK_REL_CLASS(SR_CHECK_PUBLISHED, q, r->src, r->p, a.p, r->p_rel);
         }
         if (r->rho_abs > 0) {
             snprintf(q, sizeof q, "rho at %g km (kg/m3)", r->z_km);
-            CHECK_ABS(q, r->src, r->rho, a.rho, r->rho_abs);
+            CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, q, r->src, r->rho, a.rho, r->rho_abs);
         }
         if (r->a_abs > 0) {
             snprintf(q, sizeof q, "speed of sound at %g km (m/s)", r->z_km);
-            CHECK_ABS(q, r->src, r->a, a.a, r->a_abs);
+            CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, q, r->src, r->a, a.a, r->a_abs);
         }
         if (r->mu_abs > 0) {
             snprintf(q, sizeof q, "viscosity at %g km (Pa s)", r->z_km);
-            CHECK_ABS(q, r->src, r->mu, a.mu, r->mu_abs);
+            CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, q, r->src, r->mu, a.mu, r->mu_abs);
         }
     }
 }
@@ -146,19 +148,19 @@ static void test_full_precision(void **state)
         /* 7 significant digits in the oracle: half a unit is <= 5e-7 relative
          * (T and H are given to 4 and 2 decimals). */
         snprintf(q, sizeof q, "geopotential H at %g km (m')", r->z_km);
-        CHECK_ABS(q, SRC_DERIVED, r->H, sr_atmos_geopotential(z), 5e-3);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_DERIVED, r->H, sr_atmos_geopotential(z), 5e-3);
         snprintf(q, sizeof q, "T at %g km (K)", r->z_km);
-        CHECK_ABS(q, SRC_DERIVED, r->T, a.T, 5e-5);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_DERIVED, r->T, a.T, 5e-5);
         snprintf(q, sizeof q, "p at %g km (Pa)", r->z_km);
-        CHECK_REL(q, SRC_DERIVED, r->p, a.p, 5e-7);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_DERIVED, r->p, a.p, 5e-7);
         snprintf(q, sizeof q, "rho at %g km (kg/m3)", r->z_km);
-        CHECK_REL(q, SRC_DERIVED, r->rho, a.rho, 5e-7);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_DERIVED, r->rho, a.rho, 5e-7);
         snprintf(q, sizeof q, "speed of sound at %g km (m/s)", r->z_km);
-        CHECK_REL(q, SRC_DERIVED, r->a, a.a, 5e-7);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_DERIVED, r->a, a.a, 5e-7);
         snprintf(q, sizeof q, "viscosity at %g km (Pa s)", r->z_km);
-        CHECK_REL(q, SRC_DERIVED, r->mu, a.mu, 5e-7);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_DERIVED, r->mu, a.mu, 5e-7);
         snprintf(q, sizeof q, "gravity at %g km (m/s2)", r->z_km);
-        CHECK_ABS(q, SRC_DERIVED, r->g, a.g, 5e-6);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_DERIVED, r->g, a.g, 5e-6);
         /* internal consistency: the density-only path and the pieces */
         double rho;
         sr_atmos m;
@@ -179,16 +181,17 @@ static void test_full_precision(void **state)
 static void test_constants_and_sea_level(void **state)
 {
     (void)state;
-    CHECK_REL("hydrostatic constant g0 M0/R* (K/km)", SRC_USSA_CONST, 34.163195,
-              SR_ATMOS_G0 * SR_ATMOS_M0 / SR_ATMOS_R_STAR * 1000.0, 3e-8);
-    CHECK_REL("specific gas constant R*/M0 (J/(kg K))", SRC_DERIVED, 287.0531, SR_ATMOS_R_STAR / SR_ATMOS_M0,
-              2e-7);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "hydrostatic constant g0 M0/R* (K/km)", SRC_USSA_CONST, 34.163195,
+                    SR_ATMOS_G0 * SR_ATMOS_M0 / SR_ATMOS_R_STAR * 1000.0, 3e-8);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "specific gas constant R*/M0 (J/(kg K))", SRC_DERIVED, 287.0531,
+                    SR_ATMOS_R_STAR / SR_ATMOS_M0, 2e-7);
     sr_air a = std_at(0.0);
-    CHECK_REL("sea-level density, exact evaluation (kg/m3)", SRC_DERIVED, 1.2249992, a.rho, 1e-7);
-    CHECK_ABS("sea-level density, printed (kg/m3)", SRC_USSA, 1.2250, a.rho, 5e-5);
-    CHECK_REL("sea-level pressure (Pa)", SRC_USSA_CONST, 101325.0, a.p, 1e-15);
-    CHECK_REL("sea-level temperature (K)", SRC_USSA_CONST, 288.15, a.T, 1e-15);
-    CHECK_REL("standard gravity at sea level (m/s2)", SRC_USSA_CONST, 9.80665, a.g, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "sea-level density, exact evaluation (kg/m3)", SRC_DERIVED, 1.2249992, a.rho,
+                    1e-7);
+    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "sea-level density, printed (kg/m3)", SRC_USSA, 1.2250, a.rho, 5e-5);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "sea-level pressure (Pa)", SRC_USSA_CONST, 101325.0, a.p, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "sea-level temperature (K)", SRC_USSA_CONST, 288.15, a.T, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "standard gravity at sea level (m/s2)", SRC_USSA_CONST, 9.80665, a.g, 1e-15);
     /* CODATA's gas constant would give 1.224978: make sure we are not there. */
     assert_true(fabs(a.rho - 1.224978) > 1e-5);
 }
@@ -197,12 +200,13 @@ static void test_geometric_vs_geopotential(void **state)
 {
     (void)state;
     sr_air a = std_at(10000.0);
-    CHECK_ABS("T at 10 km geometric (K), not 223.15 K", SRC_USSA, 223.252, a.T, 5e-4);
+    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "T at 10 km geometric (K), not 223.15 K", SRC_USSA, 223.252, a.T, 5e-4);
     assert_true(fabs(a.T - 223.15) > 0.09); /* 223.15 K belongs to H = 10 km' */
-    CHECK_ABS("geopotential of 10 km geometric (m')", SRC_DERIVED, 9984.29, sr_atmos_geopotential(10000.0), 5e-3);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "geopotential of 10 km geometric (m')", SRC_DERIVED, 9984.29,
+                    sr_atmos_geopotential(10000.0), 5e-3);
     /* H = 10 km' is geometric 10015.8 m: there the temperature is 223.15 K. */
     double z = SR_ATMOS_R0 * 10000.0 / (SR_ATMOS_R0 - 10000.0);
-    CHECK_ABS("T at H = 10 km' (K)", SRC_DERIVED, 223.15, std_at(z).T, 1e-9);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "T at H = 10 km' (K)", SRC_DERIVED, 223.15, std_at(z).T, 1e-9);
 }
 
 /* Layer bases: geopotential H_b, exact and printed base pressures. */
@@ -229,16 +233,16 @@ static void test_layer_bases(void **state)
         double z = SR_ATMOS_R0 * r->H / (SR_ATMOS_R0 - r->H);
         sr_air a = std_at(z);
         snprintf(q, sizeof q, "T at layer base H = %g m' (K)", r->H);
-        CHECK_ABS(q, SRC_USSA_LAYERS, r->T, a.T, 5e-4);
+        CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, q, SRC_USSA_LAYERS, r->T, a.T, 5e-4);
         snprintf(q, sizeof q, "p at layer base H = %g m', exact (Pa)", r->H);
-        CHECK_REL(q, SRC_DERIVED, r->p_exact, a.p, 5e-7);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_DERIVED, r->p_exact, a.p, 5e-7);
         snprintf(q, sizeof q, "p at layer base H = %g m', printed (Pa)", r->H);
-        CHECK_REL(q, SRC_USSA_LAYERS, r->p_printed_mb * 100.0, a.p, 1e-4);
+        CHECK_REL_CLASS(SR_CHECK_PUBLISHED, q, SRC_USSA_LAYERS, r->p_printed_mb * 100.0, a.p, 1e-4);
         snprintf(q, sizeof q, "rho at layer base H = %g m' (kg/m3)", r->H);
-        CHECK_ABS(q, SRC_USSA_LAYERS, r->rho_printed, a.rho, r->rho_abs);
+        CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, q, SRC_USSA_LAYERS, r->rho_printed, a.rho, r->rho_abs);
         /* ICAO uses M0 = 28.964420: 2-5 ppm apart above 11 km */
         snprintf(q, sizeof q, "p at layer base H = %g m', ICAO (Pa)", r->H);
-        CHECK_REL(q, SRC_ICAO, r->p_icao, a.p, 2e-5);
+        CHECK_REL_CLASS(SR_CHECK_PUBLISHED, q, SRC_ICAO, r->p_icao, a.p, 2e-5);
         /* continuity across the base (the layer formulas meet) */
         if (r->H > 0) {
             sr_air lo = std_at(z - 1e-6), hi = std_at(z + 1e-6);
@@ -247,7 +251,8 @@ static void test_layer_bases(void **state)
         }
     }
     /* top of the model: H = 84.852 km' is 86 km geometric */
-    CHECK_ABS("geopotential of 86 km geometric (m')", SRC_USSA_LAYERS, 84852.0, sr_atmos_geopotential(86000.0), 0.5);
+    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "geopotential of 86 km geometric (m')", SRC_USSA_LAYERS, 84852.0,
+                    sr_atmos_geopotential(86000.0), 0.5);
 }
 
 /* ---- Sutherland viscosity, speed of sound, gravity ---------------------- */
@@ -262,20 +267,27 @@ static void test_viscosity_sound_gravity(void **state)
     char q[96];
     for (size_t i = 0; i < sizeof SUTH / sizeof SUTH[0]; i++) {
         snprintf(q, sizeof q, "Sutherland viscosity at %g K (Pa s)", SUTH[i].T);
-        CHECK_REL(q, "Sutherland law, 1976 beta form: derived from the 1976 constants", SUTH[i].mu,
-                  sr_atmos_viscosity(SUTH[i].T), 5e-7);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q,
+                        "Sutherland law, 1976 beta form, evaluated independently (references drag-data.md 3)",
+                        SUTH[i].mu, sr_atmos_viscosity(SUTH[i].T), 5e-7);
     }
-    CHECK_ABS("viscosity at 288.15 K, tabulated (Pa s)", SRC_ICAO, 1.7894e-5, sr_atmos_viscosity(288.15), 5e-10);
-    CHECK_ABS("viscosity at 216.65 K, tabulated (Pa s)", SRC_ICAO, 1.4216e-5, sr_atmos_viscosity(216.65), 5e-10);
-    CHECK_ABS("viscosity at 320.65 K, tabulated (Pa s)", SRC_ICAO, 1.9421e-5, sr_atmos_viscosity(320.65), 5e-10);
+    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "viscosity at 288.15 K, tabulated (Pa s)", SRC_ICAO, 1.7894e-5,
+                    sr_atmos_viscosity(288.15), 5e-10);
+    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "viscosity at 216.65 K, tabulated (Pa s)", SRC_ICAO, 1.4216e-5,
+                    sr_atmos_viscosity(216.65), 5e-10);
+    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "viscosity at 320.65 K, tabulated (Pa s)", SRC_ICAO, 1.9421e-5,
+                    sr_atmos_viscosity(320.65), 5e-10);
     /* White's reference form agrees with the beta form to 5e-5 (from memory for the form) */
     double white = 1.716e-5 * pow(250.0 / 273.15, 1.5) * (273.15 + 110.4) / (250.0 + 110.4);
-    CHECK_REL("Sutherland at 250 K, White's reference form (Pa s)", "from memory (White, Viscous Fluid Flow)", white,
-              sr_atmos_viscosity(250.0), 5e-5);
+    CHECK_REL_CLASS(SR_CHECK_MEMORY, "Sutherland at 250 K, White's reference form (Pa s)",
+                    "from memory (White, Viscous Fluid Flow)", white, sr_atmos_viscosity(250.0), 5e-5);
 
-    CHECK_REL("speed of sound at 288.15 K (m/s)", SRC_DERIVED, 340.2941, sr_atmos_sound_speed(288.15), 5e-7);
-    CHECK_ABS("speed of sound at 288.15 K, tabulated (m/s)", SRC_PDAS, 340.29, sr_atmos_sound_speed(288.15), 5e-3);
-    CHECK_REL("speed of sound at 216.65 K (m/s)", SRC_DERIVED, 295.0696, sr_atmos_sound_speed(216.65), 5e-7);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "speed of sound at 288.15 K (m/s)", SRC_DERIVED, 340.2941,
+                    sr_atmos_sound_speed(288.15), 5e-7);
+    CHECK_ABS_CLASS(SR_CHECK_PUBLISHED, "speed of sound at 288.15 K, tabulated (m/s)", SRC_PDAS, 340.29,
+                    sr_atmos_sound_speed(288.15), 5e-3);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "speed of sound at 216.65 K (m/s)", SRC_DERIVED, 295.0696,
+                    sr_atmos_sound_speed(216.65), 5e-7);
 
     static const struct {
         double z, g;
@@ -288,7 +300,8 @@ static void test_viscosity_sound_gravity(void **state)
     };
     for (size_t i = 0; i < sizeof GRAV / sizeof GRAV[0]; i++) {
         snprintf(q, sizeof q, "gravity at %g km (m/s2)", GRAV[i].z / 1000.0);
-        CHECK_ABS(q, GRAV[i].src, GRAV[i].g, sr_atmos_gravity(GRAV[i].z), GRAV[i].tol);
+        CHECK_ABS_CLASS(strcmp(GRAV[i].src, SRC_ICAO) == 0 ? SR_CHECK_PUBLISHED : SR_CHECK_METHOD, q, GRAV[i].src,
+                        GRAV[i].g, sr_atmos_gravity(GRAV[i].z), GRAV[i].tol);
     }
 }
 
@@ -345,11 +358,11 @@ static void test_hydrostatic_gsl(void **state)
     for (size_t i = 0; i < 7; i++) {
         double dp = std_at(zb[i]).p - std_at(zb[i + 1]).p;
         snprintf(q, sizeof q, "pressure drop over layer %zu, %.0f..%.0f m (Pa)", i, zb[i], zb[i + 1]);
-        CHECK_REL(q, SRC_GSL_QAGS, integrate_rho_g(&m, zb[i], zb[i + 1]), dp, 1e-8);
+        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, q, SRC_GSL_QAGS, integrate_rho_g(&m, zb[i], zb[i + 1]), dp, 1e-8);
     }
     /* below sea level too */
-    CHECK_REL("pressure drop -1000..0 m (Pa)", SRC_GSL_QAGS, integrate_rho_g(&m, -1000.0, 0.0),
-              std_at(-1000.0).p - std_at(0.0).p, 1e-8);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "pressure drop -1000..0 m (Pa)", SRC_GSL_QAGS,
+                    integrate_rho_g(&m, -1000.0, 0.0), std_at(-1000.0).p - std_at(0.0).p, 1e-8);
 
     /* geopotential height is the integral of g/g0 (its definition) */
     gsl_integration_workspace *w = gsl_integration_workspace_alloc(100);
@@ -359,8 +372,9 @@ static void test_hydrostatic_gsl(void **state)
         double r, abserr;
         assert_int_equal(gsl_integration_qags(&f, 0.0, Z[i], 1e-9, 1e-13, 100, w, &r, &abserr), GSL_SUCCESS);
         snprintf(q, sizeof q, "geopotential H(%g m) = integral of g/g0 (m')", Z[i]);
-        CHECK_REL(q, "GSL 2.7 QAGS quadrature of the geopotential definition (Debian libgsl)", r,
-                  sr_atmos_geopotential(Z[i]), 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, q,
+                        "GSL 2.7 QAGS quadrature of the geopotential definition (Debian libgsl)", r,
+                        sr_atmos_geopotential(Z[i]), 1e-12);
     }
     gsl_integration_workspace_free(w);
 }
@@ -383,16 +397,19 @@ static void test_offset(void **state)
             assert_true(o.p == s.p); /* same pressure at the same height */
             /* gas law at fixed pressure: rho ratio = T_std / (T_std + dT) */
             snprintf(q, sizeof q, "offset %+g K: density ratio at %g m", DT[i], Z[k]);
-            CHECK_REL(q, "ideal gas law at fixed pressure (derived from the 1976 constants)", s.T / (s.T + DT[i]),
-                      o.rho / s.rho, 1e-13);
+            CHECK_REL_CLASS(SR_CHECK_DERIVED, q,
+                            "docs/method.md sec. 1: offset day, T + dT at the standard pressure (ideal gas law)",
+                            s.T / (s.T + DT[i]), o.rho / s.rho, 1e-13);
             snprintf(q, sizeof q, "offset %+g K: speed of sound at %g m (m/s)", DT[i], Z[k]);
-            CHECK_REL(q, SRC_DERIVED, sqrt(1.4 * 8.31432 / 28.9644e-3 * (s.T + DT[i])), o.a, 1e-13);
+            CHECK_REL_CLASS(SR_CHECK_DERIVED, q, SRC_OURS_OFFSET, sqrt(1.4 * 8.31432 / 28.9644e-3 * (s.T + DT[i])), o.a,
+                            1e-13);
         }
     }
     /* hot day +15 K at sea level: rho = P0 M0 / (R* 303.15 K) */
     sr_atmos m;
     assert_int_equal(sr_atmos_init_offset(&m, 15.0, NULL), SR_OK);
-    CHECK_REL("sea-level density on a +15 K day (kg/m3)", SRC_DERIVED, 1.16438564, air_at(&m, 0.0).rho, 1e-8);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "sea-level density on a +15 K day (kg/m3)", SRC_OURS_OFFSET, 1.16438564,
+                    air_at(&m, 0.0).rho, 1e-8);
 
     sr_error e;
     assert_int_equal(sr_atmos_init_offset(&m, NAN, &e), SR_EINVAL);
@@ -416,33 +433,36 @@ static void test_site(void **state)
     sr_error e;
     assert_int_equal(sr_atmos_init_site(&m, zs, Ts, ps, &e), SR_OK);
     sr_air a = air_at(&m, zs);
-    CHECK_REL("site model: measured surface temperature reproduced (K)", "input (measured) surface temperature", Ts,
-              a.T, 1e-13);
-    CHECK_REL("site model: measured surface pressure reproduced (Pa)", "input (measured) surface pressure", ps, a.p,
-              1e-8);
-    CHECK_REL("site model: surface density from the gas law (kg/m3)", SRC_DERIVED,
-              ps * 28.9644e-3 / (8.31432 * Ts), a.rho, 1e-8);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "site model: measured surface temperature reproduced (K)",
+                    "input (measured) surface temperature", Ts, a.T, 1e-13);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "site model: measured surface pressure reproduced (Pa)",
+                    "input (measured) surface pressure", ps, a.p, 1e-8);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "site model: surface density from the gas law (kg/m3)",
+                    "U.S. Standard Atmosphere 1976 gas law rho = P M0/(R* T), evaluated in the test",
+                    ps * 28.9644e-3 / (8.31432 * Ts), a.rho, 1e-8);
     /* standard lapse above the site, shifted by the surface difference */
     sr_air s = std_at(zs), s5 = std_at(5000.0), a5 = air_at(&m, 5000.0);
     assert_true(fabs((a5.T - a.T) - (s5.T - s.T)) < 1e-8);
 
     /* hydrostatic consistency: GSL quadrature of rho g from the site up to 9 km
      * and down to -500 m equals the model's pressure drop */
-    CHECK_REL("site model: pressure drop 1400..9000 m (Pa)", SRC_GSL_QAGS, integrate_rho_g(&m, zs, 9000.0),
-              a.p - air_at(&m, 9000.0).p, 1e-8);
-    CHECK_REL("site model: pressure drop -500..1400 m (Pa)", SRC_GSL_QAGS, integrate_rho_g(&m, -500.0, zs),
-              air_at(&m, -500.0).p - a.p, 1e-8);
-    CHECK_REL("site model: pressure drop 9000..30000 m (Pa)", SRC_GSL_QAGS, integrate_rho_g(&m, 9000.0, 30000.0),
-              air_at(&m, 9000.0).p - air_at(&m, 30000.0).p, 1e-8);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "site model: pressure drop 1400..9000 m (Pa)", SRC_GSL_QAGS,
+                    integrate_rho_g(&m, zs, 9000.0), a.p - air_at(&m, 9000.0).p, 1e-8);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "site model: pressure drop -500..1400 m (Pa)", SRC_GSL_QAGS,
+                    integrate_rho_g(&m, -500.0, zs), air_at(&m, -500.0).p - a.p, 1e-8);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "site model: pressure drop 9000..30000 m (Pa)", SRC_GSL_QAGS,
+                    integrate_rho_g(&m, 9000.0, 30000.0), air_at(&m, 9000.0).p - air_at(&m, 30000.0).p, 1e-8);
 
     /* only a temperature: pressure standard at the site */
     assert_int_equal(sr_atmos_init_site(&m, zs, Ts, NAN, &e), SR_OK);
-    CHECK_REL("site model, T only: standard pressure at the site (Pa)", SRC_DERIVED, s.p, air_at(&m, zs).p, 1e-8);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "site model, T only: standard pressure at the site (Pa)", SRC_OURS_SITE, s.p,
+                    air_at(&m, zs).p, 1e-8);
     /* only a pressure: standard temperature at the site */
     assert_int_equal(sr_atmos_init_site(&m, zs, NAN, ps, &e), SR_OK);
-    CHECK_ABS("site model, p only: standard temperature at the site (K)", SRC_DERIVED, s.T, air_at(&m, zs).T, 1e-12);
-    CHECK_REL("site model, p only: pressure at the site (Pa)", "input (measured) surface pressure", ps,
-              air_at(&m, zs).p, 1e-8);
+    CHECK_ABS_CLASS(SR_CHECK_DERIVED, "site model, p only: standard temperature at the site (K)", SRC_OURS_SITE, s.T,
+                    air_at(&m, zs).T, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "site model, p only: pressure at the site (Pa)",
+                    "input (measured) surface pressure", ps, air_at(&m, zs).p, 1e-8);
     /* neither: the standard atmosphere itself */
     assert_int_equal(sr_atmos_init_site(&m, zs, NAN, NAN, &e), SR_OK);
     static const double Z[] = {-1000.0, 0.0, 1400.0, 20000.0, 86000.0};
@@ -494,13 +514,15 @@ static void test_sounding_csv(void **state)
         fail_msg("%s", e.msg);
     double lo, hi;
     sr_atmos_range(&m, &lo, &hi);
-    CHECK_REL("sounding top, 10000 ft (m)", SRC_NIST ": 1 ft = 0.3048 m", 3048.0, hi, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "sounding top, 10000 ft (m)", SRC_NIST ": 1 ft = 0.3048 m", 3048.0, hi, 1e-15);
     assert_true(lo == 0.0);
 
     /* rows reproduce, converted with exact factors */
     sr_air a = air_at(&m, 1000 * 0.3048);
-    CHECK_REL("sounding row: 18.5 C (K)", SRC_NIST ": T/K = t/C + 273.15", 291.65, a.T, 1e-15);
-    CHECK_REL("sounding row: 977.5 hPa (Pa)", SRC_NIST ": 1 hPa = 100 Pa", 97750.0, a.p, 1e-14);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "sounding row: 18.5 C (K)", SRC_NIST ": T/K = t/C + 273.15", 291.65, a.T,
+                    1e-15);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "sounding row: 977.5 hPa (Pa)", SRC_NIST ": 1 hPa = 100 Pa", 97750.0, a.p,
+                    1e-14);
 
     /* between rows: T linear and ln p linear, cross-checked with GSL */
     static const double zt[] = {0, 304.8, 1524.0, 3048.0};
@@ -517,9 +539,9 @@ static void test_sounding_csv(void **state)
         assert_int_equal(gsl_interp_eval_e(ip, zt, lnp, ZQ[i], NULL, &lpg), GSL_SUCCESS);
         sr_air x = air_at(&m, ZQ[i]);
         snprintf(q, sizeof q, "sounding T at %g m (K)", ZQ[i]);
-        CHECK_REL(q, SRC_GSL_INTERP, Tg, x.T, 1e-13);
+        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, q, SRC_GSL_INTERP, Tg, x.T, 1e-13);
         snprintf(q, sizeof q, "sounding p at %g m (Pa)", ZQ[i]);
-        CHECK_REL(q, SRC_GSL_INTERP " on ln p", exp(lpg), x.p, 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, q, SRC_GSL_INTERP " on ln p", exp(lpg), x.p, 1e-12);
         double rho;
         assert_int_equal(sr_atmos_density(&m, ZQ[i], &rho, NULL), SR_OK);
         assert_true(rho == x.rho);
@@ -527,8 +549,10 @@ static void test_sounding_csv(void **state)
     gsl_interp_free(iT);
     gsl_interp_free(ip);
     /* geometric mean of pressures at the midpoint of a layer */
-    CHECK_REL("sounding p at the midpoint 2286 m (Pa)", "ln p linear in altitude: geometric mean of the rows",
-              sqrt(84300.0 * 69700.0), air_at(&m, 2286.0).p, 1e-12);
+    CHECK_REL_CLASS(
+        SR_CHECK_DERIVED, "sounding p at the midpoint 2286 m (Pa)",
+        "docs/method.md sec. 1: ln p linear in altitude between sounding rows, the geometric mean at the midpoint",
+        sqrt(84300.0 * 69700.0), air_at(&m, 2286.0).p, 1e-12);
 
     /* never extrapolated */
     sr_air x;

@@ -198,6 +198,7 @@ static const bad_case BAD[] = {
     /* ---- canopies, data directory, commands ---- */
     {{"canopies", "parasol"}, NULL, NULL, 0, "'parasol'", "unknown canopy family"},
     {{"canopies", "conical", "cross"}, NULL, NULL, 0, "canopies", "at most one family id"},
+    {{"canopies", "--models", "conical"}, NULL, NULL, 0, "--models", "give no family id"},
     {{"canopies", "--data", "@DIR@"}, NULL, NULL, 0, "--data", "holds no canopies/"},
     {{"canopies", "--data", "@DATA@"}, "id: test\nname: \"Test\"\nclass: round\n" FAM_CD FAM_REST, NULL, 0, "@IN@:3:8",
      "class must be 'solid' or 'slotted'"},

@@ -31,10 +31,9 @@ static void test_demo_size_matches_hand_calculation(void **state)
     double rho = 85800.0 * 28.9644e-3 / (8.31432 * (38.0 + 273.15));
     double r = 6356766.0 / (6356766.0 + 1380.0), g = 9.80665 * r * r;
     double m = 3.4 + 1.9, v = 6.1, cd0 = 0.825; /* conical: midpoint of 0.75-0.90 */
-    CHECK_REL("demo main canopy S0 by hand", "hand calculation: 1976 gas law density, Knacke 1991 sec. 4.5 balance",
-              2 * m * g / (rho * v * v * cd0), s0, 5e-3);
-    CHECK_REL("demo main canopy S0 by hand (exact)", "hand calculation: 1976 gas law density, Knacke 1991 sec. 4.5",
-              2 * m * g / (rho * v * v * cd0), s0, 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "demo main canopy S0 by hand (exact)",
+                    "hand calculation: 1976 gas law density, Knacke 1991 sec. 4.5", 2 * m * g / (rho * v * v * cd0), s0,
+                    1e-9);
     json_decref(j);
     free(out);
     free(err);
@@ -373,15 +372,48 @@ static void test_us_units(void **state)
     json_t *a = json_loads(o1, 0, NULL), *b = json_loads(o2, 0, NULL);
     json_t *ra = json_array_get(json_object_get(json_object_get(json_object_get(a, "tables"), "rates"), "rows"), 0);
     json_t *rb = json_array_get(json_object_get(json_object_get(json_object_get(b, "tables"), "rates"), "rows"), 0);
-    CHECK_REL("rate in ft/s vs m/s", "NIST SP 811: 1 ft = 0.3048 m exactly", json_real_value(json_array_get(ra, 3)) / 0.3048,
-              json_real_value(json_array_get(rb, 3)), 1e-7);
-    CHECK_REL("descent rate, 10 kg under a 2 m flat circular (CD0 0.80)", "canopy-handbook.md 6.2 case A scaled: "
-              "8.243 m/s at CD0 0.75 -> x sqrt(0.75/0.80)", 8.243 * sqrt(0.75 / 0.80),
-              json_real_value(json_array_get(ra, 2)), 5e-4);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "rate in ft/s vs m/s", "NIST SP 811: 1 ft = 0.3048 m exactly",
+                    json_real_value(json_array_get(ra, 3)) / 0.3048, json_real_value(json_array_get(rb, 3)), 1e-7);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "descent rate, 10 kg under a 2 m flat circular (CD0 0.80)",
+                    "canopy-handbook.md 6.2 case A scaled: "
+                    "8.243 m/s at CD0 0.75 -> x sqrt(0.75/0.80)",
+                    8.243 * sqrt(0.75 / 0.80), json_real_value(json_array_get(ra, 2)), 1e-4);
     json_decref(a);
     json_decref(b);
     free(o1);
     free(o2);
+}
+
+/* The outside-check status of every catalog value and model is shown by the
+ * command (docs/validation.md reads it from there). */
+static void test_canopies_check_status(void **state)
+{
+    (void)state;
+    char *out, *err;
+    assert_int_equal(sr_test_cli(&out, &err, "canopies", "conical", NULL), 0);
+    assert_non_null(strstr(out, "Outside checks"));
+    assert_non_null(strstr(out, "would be checked by"));
+    assert_non_null(strstr(out, "Conical row"));
+    free(out);
+    free(err);
+    assert_int_equal(sr_test_cli(&out, &err, "canopies", "disk-gap-band", "--format", "json", NULL), 0);
+    json_t *j = json_loads(out, 0, NULL), *v = json_object_get(j, "values");
+    assert_string_equal(json_string_value(json_object_get(v, "drag_coefficient_outside_check")), "none");
+    assert_non_null(strstr(json_string_value(json_object_get(v, "projected_ratio_outside_check")), "published: "));
+    assert_string_equal(json_string_value(json_object_get(v, "growth_exponent_outside_check")), "none");
+    json_decref(j);
+    free(out);
+    free(err);
+    assert_int_equal(sr_test_cli(&out, &err, "canopies", "--models", "--format", "json", NULL), 0);
+    j = json_loads(out, 0, NULL);
+    v = json_object_get(j, "values");
+    assert_string_equal(json_string_value(json_object_get(v, "x1_envelope_outside_check")), "none");
+    assert_string_equal(json_string_value(json_object_get(v, "cluster_factor_value")),
+                        "0.97 for 2, 0.93 for 3, 0.90 for 4 or more canopies");
+    assert_non_null(strstr(json_string_value(json_object_get(v, "tumbling_drag_to_check")), "Hoerner 1965"));
+    json_decref(j);
+    free(out);
+    free(err);
 }
 
 int main(void)
@@ -396,6 +428,7 @@ int main(void)
         cmocka_unit_test(test_output_file_atomic),
         cmocka_unit_test(test_check_command),
         cmocka_unit_test(test_us_units),
+        cmocka_unit_test(test_canopies_check_status),
     };
     return cmocka_run_group_tests_name("cli_core", tests, NULL, NULL);
 }

@@ -41,6 +41,7 @@ static const det_case CASES[] = {
     {{"air", "--temp-offset", "15C", "--altitude", "0,1km,11km"}, {NULL}},
     {{"canopies"}, {NULL}},
     {{"canopies", "disk-gap-band"}, {NULL}},
+    {{"canopies", "--models"}, {NULL}},
     {{"check", DEMO, "@ROOT@/canopies/conical.yaml"}, {NULL}},
     /* later commands append their rows here (seeded runs: give --seed) */
     {{"sweep", "--mass", "2kg", "--family", "conical", "--nominal-diameter", "1.5m", "--from", "0", "--to", "3km",

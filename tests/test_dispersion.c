@@ -23,8 +23,8 @@
 #define G0 9.80665
 
 #define SRC_2X2 "closed-form eigenvalues/eigenvectors of a symmetric 2x2 matrix (linear algebra)"
-#define SRC_GSL_EIG "GSL 2.7 gsl_eigen_symmv (Debian libgsl) on the same matrix"
-#define SRC_GSL_BIV "GSL 2.7 gsl_ran_bivariate_gaussian sample (Debian libgsl), exact covariance"
+#define SRC_GSL_EIG "GSL 2.7 gsl_eigen_symmv (Debian libgsl) on the same matrix, the routine scatter.c calls"
+#define SRC_GSL_BIV "closed form of the exact covariance; sample drawn by GSL 2.7 gsl_ran_bivariate_gaussian (Debian libgsl)"
 #define SRC_LINEAR "closed form: a linear map A of independent normals has covariance A A^T"
 #define SRC_DRIFT "closed form: constant density and wind, drift = w t, so sd(drift) = t sd(w)"
 #define SRC_RAYLEIGH "Rayleigh quantile sigma sqrt(-2 ln(1-P)) (GSL 2.7 gsl_cdf_rayleigh_Pinv)"
@@ -129,13 +129,13 @@ static void test_ellipse_known_covariance(void **state)
         assert_int_equal(sr_scatter_ellipse(a, b, c, 1.0, &e1, &err), SR_OK);
         assert_int_equal(sr_scatter_ellipse(a, b, c, 3.0, &e3, &err), SR_OK);
         snprintf(q, sizeof q, "1-sigma major semi-axis, %s", COVS[i].what);
-        CHECK_REL(q, SRC_2X2, sqrt(l1), e1.major, 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_2X2, sqrt(l1), e1.major, 1e-12);
         snprintf(q, sizeof q, "1-sigma minor semi-axis, %s", COVS[i].what);
-        CHECK_REL(q, SRC_2X2, sqrt(l2), e1.minor, 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_2X2, sqrt(l2), e1.minor, 1e-12);
         snprintf(q, sizeof q, "3-sigma major semi-axis, %s", COVS[i].what);
-        CHECK_REL(q, SRC_2X2, 3.0 * sqrt(l1), e3.major, 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_2X2, 3.0 * sqrt(l1), e3.major, 1e-12);
         snprintf(q, sizeof q, "major-axis bearing (deg), %s", COVS[i].what);
-        CHECK_ABS(q, SRC_2X2, brg / DEG, e1.bearing / DEG, 1e-9);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_2X2, brg / DEG, e1.bearing / DEG, 1e-9);
 
         /* GSL directly, as the test's own call */
         double m[4] = {a, b, b, c}, val[2], vec[4];
@@ -147,18 +147,18 @@ static void test_ellipse_known_covariance(void **state)
         gsl_eigen_symmv_free(w);
         gsl_eigen_symmv_sort(&V.vector, &E.matrix, GSL_EIGEN_SORT_VAL_DESC);
         snprintf(q, sizeof q, "1-sigma major semi-axis^2 (m2), %s", COVS[i].what);
-        CHECK_REL(q, SRC_GSL_EIG, val[0], e1.major * e1.major, 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, q, SRC_GSL_EIG, val[0], e1.major * e1.major, 1e-12);
         snprintf(q, sizeof q, "1-sigma minor semi-axis^2 (m2), %s", COVS[i].what);
-        CHECK_ABS(q, SRC_GSL_EIG, val[1], e1.minor * e1.minor, 1e-12 * val[0]);
+        CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, q, SRC_GSL_EIG, val[1], e1.minor * e1.minor, 1e-12 * val[0]);
         /* the major axis is parallel to GSL's first eigenvector: |cross| = 0 */
         double ue = sin(e1.bearing), un = cos(e1.bearing);
         snprintf(q, sizeof q, "major axis x GSL eigenvector, %s", COVS[i].what);
-        CHECK_ABS(q, SRC_GSL_EIG, 0.0, ue * vec[2] - un * vec[0], 1e-12);
+        CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, q, SRC_GSL_EIG, 0.0, ue * vec[2] - un * vec[0], 1e-12);
     }
     /* a degenerate scatter (all points on a line) and an invalid matrix */
     sr_ellipse e;
     assert_int_equal(sr_scatter_ellipse(4.0, 2.0, 1.0, 1.0, &e, NULL), SR_OK);
-    CHECK_ABS("minor semi-axis of a line scatter (m)", SRC_2X2, 0.0, e.minor, 1e-7);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "minor semi-axis of a line scatter (m)", SRC_2X2, 0.0, e.minor, 1e-7);
     assert_int_equal(sr_scatter_ellipse(-1.0, 0.0, 1.0, 1.0, &e, NULL), SR_EINVAL);
     assert_int_equal(sr_scatter_ellipse(NAN, 0.0, 1.0, 1.0, &e, NULL), SR_EINVAL);
 }
@@ -192,15 +192,16 @@ static void test_ellipse_bivariate_sample(void **state)
     double brg = fmod(PI / 2 - 0.5 * atan2(2.0 * bb, a - c) + PI, PI);
     /* standard error of a sample standard deviation ~ sigma / sqrt(2n); 5 of them */
     double tol = 5.0 / sqrt(2.0 * (double)n);
-    CHECK_ABS("mean east (m)", SRC_GSL_BIV, 300.0, b->mean_east, 5.0 * sx / sqrt((double)n));
-    CHECK_ABS("mean north (m)", SRC_GSL_BIV, -200.0, b->mean_north, 5.0 * sy / sqrt((double)n));
-    CHECK_REL("variance east (m2)", SRC_GSL_BIV, a, b->cov_ee, 2.0 * tol);
-    CHECK_REL("covariance east-north (m2)", SRC_GSL_BIV, bb, b->cov_en, 3.0 * tol);
-    CHECK_REL("1-sigma major semi-axis (m)", SRC_GSL_BIV, sqrt(mid + rad), b->sigma1.major, tol);
-    CHECK_REL("1-sigma minor semi-axis (m)", SRC_GSL_BIV, sqrt(mid - rad), b->sigma1.minor, 2.0 * tol);
-    CHECK_ABS("major-axis bearing (deg)", SRC_GSL_BIV, brg / DEG, b->sigma1.bearing / DEG, 0.5);
-    CHECK_ABS("mean landing bearing (deg)", "atan2(east, north) of the mean (300, -200) m",
-              atan2(300.0, -200.0) / DEG + 0.0, b->mean_bearing / DEG, 0.2);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "mean east (m)", SRC_GSL_BIV, 300.0, b->mean_east, 5.0 * sx / sqrt((double)n));
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "mean north (m)", SRC_GSL_BIV, -200.0, b->mean_north, 5.0 * sy / sqrt((double)n));
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "variance east (m2)", SRC_GSL_BIV, a, b->cov_ee, 2.0 * tol);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "covariance east-north (m2)", SRC_GSL_BIV, bb, b->cov_en, 3.0 * tol);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "1-sigma major semi-axis (m)", SRC_GSL_BIV, sqrt(mid + rad), b->sigma1.major, tol);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "1-sigma minor semi-axis (m)", SRC_GSL_BIV, sqrt(mid - rad), b->sigma1.minor,
+                    2.0 * tol);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "major-axis bearing (deg)", SRC_GSL_BIV, brg / DEG, b->sigma1.bearing / DEG, 0.5);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "mean landing bearing (deg)", "atan2(east, north) of the mean (300, -200) m",
+                    atan2(300.0, -200.0) / DEG + 0.0, b->mean_bearing / DEG, 0.2);
     /* containment of the 1- and 3-sigma ellipses: 1 - exp(-k^2/2) */
     size_t in1 = 0, in3 = 0;
     double ue = sin(b->sigma1.bearing), un = cos(b->sigma1.bearing);
@@ -211,10 +212,12 @@ static void test_ellipse_bivariate_sample(void **state)
         in3 += u * u + v * v <= 9.0;
     }
     double p1 = 1.0 - exp(-0.5), p3 = 1.0 - exp(-4.5);
-    CHECK_ABS("fraction inside the 1-sigma ellipse", "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p1,
-              (double)in1 / (double)n, 5.0 * sqrt(p1 * (1 - p1) / (double)n));
-    CHECK_ABS("fraction inside the 3-sigma ellipse", "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p3,
-              (double)in3 / (double)n, 5.0 * sqrt(p3 * (1 - p3) / (double)n));
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "fraction inside the 1-sigma ellipse",
+                    "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p1, (double)in1 / (double)n,
+                    5.0 * sqrt(p1 * (1 - p1) / (double)n));
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "fraction inside the 3-sigma ellipse",
+                    "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p3, (double)in3 / (double)n,
+                    5.0 * sqrt(p3 * (1 - p3) / (double)n));
     sr_disp_result_free(&res);
 }
 
@@ -245,7 +248,8 @@ static void test_quantiles_against_gsl(void **state)
             double want = gsl_stats_quantile_from_sorted_data(y, 1, n, P[j]);
             if (j == 4) {
                 snprintf(q, sizeof q, "median of %zu values by selection", n);
-                CHECK_ABS(q, "GSL 2.7 gsl_stats_quantile_from_sorted_data on the sorted data", want, got[j], 1e-12);
+                CHECK_ABS_CLASS(SR_CHECK_LIBRARY, q, "GSL 2.7 gsl_stats_quantile_from_sorted_data on the sorted data",
+                                want, got[j], 1e-12);
             } else if (fabs(got[j] - want) > 1e-12) {
                 fail_msg("n %zu, P %g: %.17g, GSL says %.17g", n, P[j], got[j], want);
             }
@@ -274,12 +278,13 @@ static void test_engine_linear_covariance(void **state)
     double v = sqrt(2.0 * a.mass * G0 / (a.rho * a.cds)), t = a.height / v;
     /* drift along 045 deg only: sd along that axis t * 1.2, none across */
     double tol = 5.0 / sqrt(2.0 * (double)n);
-    CHECK_REL("1-sigma major semi-axis (m)", SRC_LINEAR, 1.2 * t, st.body[0].sigma1.major, tol);
-    CHECK_ABS("1-sigma minor semi-axis (m)", SRC_LINEAR, 0.0, st.body[0].sigma1.minor, 1e-6);
-    CHECK_ABS("major-axis bearing (deg)", SRC_LINEAR, 45.0, st.body[0].sigma1.bearing / DEG, 1e-6);
-    CHECK_REL("mean drift distance (m)", SRC_LINEAR, a.wind * t, st.body[0].mean_distance,
-              5.0 * 1.2 / a.wind / sqrt((double)n));
-    CHECK_ABS("mean drift bearing (deg)", SRC_LINEAR, 45.0, st.body[0].mean_bearing / DEG, 1e-6);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "1-sigma major semi-axis (m)", SRC_LINEAR, 1.2 * t, st.body[0].sigma1.major, tol);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "1-sigma minor semi-axis (m)", SRC_LINEAR, 0.0, st.body[0].sigma1.minor, 1e-6);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "major-axis bearing (deg)", SRC_LINEAR, 45.0, st.body[0].sigma1.bearing / DEG,
+                    1e-6);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "mean drift distance (m)", SRC_LINEAR, a.wind * t, st.body[0].mean_distance,
+                    5.0 * 1.2 / a.wind / sqrt((double)n));
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "mean drift bearing (deg)", SRC_LINEAR, 45.0, st.body[0].mean_bearing / DEG, 1e-6);
     sr_disp_result_free(&res);
 }
 
@@ -302,13 +307,14 @@ static void test_wind_speed_spread_analytic(void **state)
         double sd = sqrt(st.body[0].cov_ee);
         snprintf(q, sizeof q, "along-wind sd of the landing point, sd(w) = %.1f m/s (m)", sigmas[k]);
         /* 4 standard errors of a sample sd, sigma/sqrt(2(n-1)) */
-        CHECK_REL(q, SRC_DRIFT, sigmas[k] * t, sd, 4.0 / sqrt(2.0 * (double)(n - 1)));
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_DRIFT, sigmas[k] * t, sd, 4.0 / sqrt(2.0 * (double)(n - 1)));
         snprintf(q, sizeof q, "mean downwind drift, sd(w) = %.1f m/s (m)", sigmas[k]);
-        CHECK_ABS(q, SRC_DRIFT, a.wind * t, st.body[0].mean_east, 4.0 * sigmas[k] * t / sqrt((double)n));
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_DRIFT, a.wind * t, st.body[0].mean_east,
+                        4.0 * sigmas[k] * t / sqrt((double)n));
         snprintf(q, sizeof q, "cross-wind sd, sd(w) = %.1f m/s (m)", sigmas[k]);
-        CHECK_ABS(q, SRC_DRIFT, 0.0, sqrt(st.body[0].cov_nn), 1e-9);
-        CHECK_REL("descent time, no drag or mass spread (s)", "closed form t = h / v, v = sqrt(2 m g / (rho CdS))", t,
-                  st.body[0].time.pct[2], 1e-12);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_DRIFT, 0.0, sqrt(st.body[0].cov_nn), 1e-9);
+        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "descent time, no drag or mass spread (s)",
+                        "closed form t = h / v, v = sqrt(2 m g / (rho CdS))", t, st.body[0].time.pct[2], 1e-12);
         sr_disp_result_free(&res);
     }
 }
@@ -336,13 +342,13 @@ static void test_radii_rayleigh(void **state)
     char q[96];
     for (int k = 0; k < 2; k++) {
         double rp = gsl_cdf_rayleigh_Pinv(P[k], s);
-        CHECK_REL("Rayleigh quantile self-check (m)", "sigma sqrt(-2 ln(1-P))", s * sqrt(-2.0 * log(1.0 - P[k])), rp,
-                  1e-12);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, "Rayleigh quantile self-check (m)", "sigma sqrt(-2 ln(1-P))",
+                        s * sqrt(-2.0 * log(1.0 - P[k])), rp, 1e-12);
         double se = sqrt(P[k] * (1 - P[k]) / (double)n) / gsl_ran_rayleigh_pdf(rp, s);
         snprintf(q, sizeof q, "%.0f %% radius around the mean (m)", 100 * P[k]);
-        CHECK_ABS(q, SRC_RAYLEIGH, rp, got_mean[k], 5.0 * se + 0.5);
+        CHECK_ABS_CLASS(SR_CHECK_LIBRARY, q, SRC_RAYLEIGH, rp, got_mean[k], 5.0 * se + 0.5);
         snprintf(q, sizeof q, "%.0f %% radius around the launch point (m)", 100 * P[k]);
-        CHECK_ABS(q, SRC_RAYLEIGH, rp, got_launch[k], 5.0 * se);
+        CHECK_ABS_CLASS(SR_CHECK_LIBRARY, q, SRC_RAYLEIGH, rp, got_launch[k], 5.0 * se);
     }
     sr_disp_result_free(&res);
 }
@@ -370,16 +376,21 @@ static void test_percentiles_uniform_drag(void **state)
         /* quantile error: sqrt(P(1-P)/n) in the uniform's probability, times the slope */
         double dq = 5.0 * sqrt(P * (1 - P) / (double)n) * w;
         snprintf(q, sizeof q, "descent time, %g %% percentile (s)", 100 * P);
-        CHECK_ABS(q, SRC_ORDER, t0 * sqrt(kt), st.body[0].time.pct[k], t0 * 0.5 * dq / sqrt(kt) + 1e-9);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_ORDER, t0 * sqrt(kt), st.body[0].time.pct[k],
+                        t0 * 0.5 * dq / sqrt(kt) + 1e-9);
         snprintf(q, sizeof q, "touchdown speed, %g %% percentile (m/s)", 100 * P);
-        CHECK_ABS(q, SRC_ORDER, v0 / sqrt(kv), st.body[0].speed.pct[k], v0 * 0.5 * dq / pow(kv, 1.5) + 1e-9);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_ORDER, v0 / sqrt(kv), st.body[0].speed.pct[k],
+                        v0 * 0.5 * dq / pow(kv, 1.5) + 1e-9);
     }
-    CHECK_ABS("fastest touchdown (m/s)", SRC_ORDER, v0 / sqrt(0.90), st.body[0].speed.max, v0 * 1e-3);
-    CHECK_ABS("slowest touchdown (m/s)", SRC_ORDER, v0 / sqrt(1.15), st.body[0].speed.min, v0 * 1e-3);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "fastest touchdown (m/s)", SRC_ORDER, v0 / sqrt(0.90), st.body[0].speed.max,
+                    v0 * 1e-3);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "slowest touchdown (m/s)", SRC_ORDER, v0 / sqrt(1.15), st.body[0].speed.min,
+                    v0 * 1e-3);
     /* energy = m v^2 / 2 falls as 1/k: mean over uniform k is m v0^2/2 * ln(1.15/0.9)/0.25 */
     double e0 = 0.5 * a.mass * v0 * v0;
-    CHECK_REL("mean touchdown energy (J)", "closed form: E[1/k] for k uniform on [a, b] is ln(b/a)/(b - a)",
-              e0 * log(1.15 / 0.90) / w, st.body[0].energy.mean, 2e-3);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "mean touchdown energy (J)",
+                    "closed form: E[1/k] for k uniform on [a, b] is ln(b/a)/(b - a)", e0 * log(1.15 / 0.90) / w,
+                    st.body[0].energy.mean, 2e-3);
     sr_disp_result_free(&res);
 }
 
@@ -402,22 +413,24 @@ static void test_limit_probability(void **state)
     sr_disp_stats st;
     run_ok(&a, &u, n, 11, 2, &res, &st);
     const sr_proportion *pr = &st.limit[0];
-    CHECK_ABS("P(touchdown speed above the limit)", "closed form through the uniform drag scale", P, pr->p,
-              4.0 * sqrt(P * (1 - P) / (double)n));
-    CHECK_REL("its standard error", "binomial: sqrt(p(1-p)/n)", sqrt(pr->p * (1 - pr->p) / (double)n), pr->se, 1e-12);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "P(touchdown speed above the limit)", "closed form through the uniform drag scale",
+                    P, pr->p, 4.0 * sqrt(P * (1 - P) / (double)n));
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "its standard error", "binomial: sqrt(p(1-p)/n)",
+                    sqrt(pr->p * (1 - pr->p) / (double)n), pr->se, 1e-12);
     assert_true(pr->lo < P && P < pr->hi);
     assert_int_equal(st.limit[1].count, 0);
     assert_int_equal(st.any.count, pr->count);
     /* Wilson at the edges */
     sr_proportion z;
     sr_scatter_proportion(0, 1000, 1.96, &z);
-    CHECK_REL("upper 95 % bound at 0 of 1000", SRC_WILSON, 1.96 * 1.96 / (1000 + 1.96 * 1.96), z.hi, 1e-12);
-    CHECK_ABS("lower bound at 0 of 1000", SRC_WILSON, 0.0, z.lo, 0.0);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "upper 95 % bound at 0 of 1000", SRC_WILSON, 1.96 * 1.96 / (1000 + 1.96 * 1.96),
+                    z.hi, 1e-12);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "lower bound at 0 of 1000", SRC_WILSON, 0.0, z.lo, 0.0);
     sr_scatter_proportion(30, 100, 1.96, &z);
     /* Wilson interval for 30 of 100 at z = 1.96, the formula evaluated
      * independently (Python, double precision): 0.218948 .. 0.395850 */
-    CHECK_ABS("Wilson lower bound, 30 of 100", SRC_WILSON, 0.218948, z.lo, 2e-6);
-    CHECK_ABS("Wilson upper bound, 30 of 100", SRC_WILSON, 0.395850, z.hi, 2e-6);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "Wilson lower bound, 30 of 100", SRC_WILSON, 0.218948, z.lo, 2e-6);
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "Wilson upper bound, 30 of 100", SRC_WILSON, 0.395850, z.hi, 2e-6);
     sr_disp_result_free(&res);
 }
 
@@ -438,8 +451,8 @@ static void test_zero_uncertainty(void **state)
     run_ok(&a, &u, 1000, 3, 2, &res, &st);
     for (size_t i = 0; i < res.n; i++)
         assert_memory_equal(&res.land[i], &nom, sizeof nom);
-    CHECK_ABS("1-sigma major axis with nothing uncertain (m)", "definition: no spread", 0.0, st.body[0].sigma1.major,
-              0.0);
+    CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "1-sigma major axis with nothing uncertain (m)", "definition: no spread", 0.0,
+                    st.body[0].sigma1.major, 0.0);
     sr_disp_result_free(&res);
 }
 

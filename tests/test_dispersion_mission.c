@@ -144,12 +144,15 @@ static void test_zero_is_profile(void **state)
     run(&dm, &m->unc, 500, 2, &res, &st);
     for (size_t i = 0; i < res.n; i++)
         assert_memory_equal(&res.land[i], &nom, sizeof nom);
-    CHECK_REL("landing east of every sample (m)", SRC_PROFILE, r->body[0].east, st.body[0].mean_east, 1e-12);
-    CHECK_REL("descent time of every sample (s)", SRC_PROFILE, r->descent_time, st.body[0].time.max, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "landing east of every sample (m)", SRC_PROFILE, r->body[0].east,
+                    st.body[0].mean_east, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "descent time of every sample (s)", SRC_PROFILE, r->descent_time,
+                    st.body[0].time.max, 1e-12);
     /* and the fast nominal is the full nominal */
     const sr_profile_result *full = sr_profile_nominal(dm.ctx);
-    CHECK_REL("fast nominal landing distance vs full (m)", "the full staged descent (GSL rk8pd + QAG); fast-mode bound of profile.h",
-              full->body[0].drift, hypot(nom.east, nom.north), 1e-4);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "fast nominal landing distance vs full (m)",
+                    "the full staged descent (GSL rk8pd + QAG); fast-mode bound of profile.h", full->body[0].drift,
+                    hypot(nom.east, nom.north), 1e-4);
     sr_disp_result_free(&res);
     sr_disp_mission_free(&dm);
     free(r);
@@ -174,16 +177,18 @@ static void test_wind_speed_uniform_air(void **state)
         const sr_body_stats *b = &st.body[0];
         double t = b->time.mean;
         char q[128];
-        CHECK_ABS(full ? "spread of descent time, wind only, full mode (s)" : "spread of descent time, wind only (s)",
-                  "the wind does not act on the vertical motion", 0.0, b->time.max - b->time.min, 1e-9 * t);
+        CHECK_ABS_CLASS(SR_CHECK_DERIVED,
+                        full ? "spread of descent time, wind only, full mode (s)"
+                             : "spread of descent time, wind only (s)",
+                        "the wind does not act on the vertical motion", 0.0, b->time.max - b->time.min, 1e-9 * t);
         snprintf(q, sizeof q, "along-wind sd of the landing point, sd(w) = 1.5 m/s, %s mode (m)", full ? "full" : "fast");
-        CHECK_REL(q, SRC_DRIFT, 1.5 * t, sqrt(b->cov_ee), 4.0 / sqrt(2.0 * (double)(n - 1)));
+        CHECK_REL_CLASS(SR_CHECK_DERIVED, q, SRC_DRIFT, 1.5 * t, sqrt(b->cov_ee), 4.0 / sqrt(2.0 * (double)(n - 1)));
         snprintf(q, sizeof q, "cross-wind sd, %s mode (m)", full ? "full" : "fast");
-        CHECK_ABS(q, SRC_DRIFT, 0.0, sqrt(b->cov_nn), 1e-6 * t);
+        CHECK_ABS_CLASS(SR_CHECK_DERIVED, q, SRC_DRIFT, 0.0, sqrt(b->cov_nn), 1e-6 * t);
         snprintf(q, sizeof q, "ellipse major axis bearing, wind from 270 deg, %s mode (deg)", full ? "full" : "fast");
-        CHECK_ABS(q, SRC_DRIFT, 90.0, b->sigma1.bearing * 180.0 / PI, 1e-6);
+        CHECK_ABS_CLASS(SR_CHECK_DERIVED, q, SRC_DRIFT, 90.0, b->sigma1.bearing * 180.0 / PI, 1e-6);
         snprintf(q, sizeof q, "mean downwind drift, %s mode (m)", full ? "full" : "fast");
-        CHECK_ABS(q, SRC_DRIFT, 6.0 * t, b->mean_east, 4.0 * 1.5 * t / sqrt((double)n));
+        CHECK_ABS_CLASS(SR_CHECK_DERIVED, q, SRC_DRIFT, 6.0 * t, b->mean_east, 4.0 * 1.5 * t / sqrt((double)n));
         sr_disp_result_free(&res);
         sr_disp_mission_free(&dm);
     }
@@ -207,8 +212,8 @@ static void test_heights_uniform_air(void **state)
     for (size_t i = 0; i < n; i++)
         got += (res.land[i].time - mean) * (res.land[i].time - mean);
     got = sqrt(got / (double)(n - 1));
-    CHECK_REL("sd of descent time, first deployment sigma 40 m (s)", SRC_RATE, sd, got,
-              4.0 / sqrt(2.0 * (double)(n - 1)));
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "sd of descent time, first deployment sigma 40 m (s)", SRC_RATE, sd, got,
+                    4.0 / sqrt(2.0 * (double)(n - 1)));
     sr_disp_result_free(&res);
     sr_disp_mission_free(&dm);
     drop(m);
@@ -224,10 +229,11 @@ static void test_heights_uniform_air(void **state)
     for (size_t i = 0; i < n; i++)
         got += (res.land[i].time - mean) * (res.land[i].time - mean);
     got = sqrt(got / (double)(n - 1));
-    CHECK_REL("sd of descent time, main deployment +-30 m uniform (s)", SRC_SHIFT, want, got, 0.03);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "sd of descent time, main deployment +-30 m uniform (s)", SRC_SHIFT, want, got,
+                    0.03);
     /* the time is linear in the deployment height: its range is the full width */
-    CHECK_REL("range of descent time, main deployment +-30 m uniform (s)", SRC_SHIFT, 60.0 * (1.0 / vm - 1.0 / vd2),
-              st.body[0].time.max - st.body[0].time.min, 0.03);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "range of descent time, main deployment +-30 m uniform (s)", SRC_SHIFT,
+                    60.0 * (1.0 / vm - 1.0 / vd2), st.body[0].time.max - st.body[0].time.min, 0.03);
     sr_disp_result_free(&res);
     sr_disp_mission_free(&dm);
     drop(m);
@@ -257,9 +263,10 @@ static void test_delay_uniform_air(void **state)
     run(&dm, &m->unc, n, 2, &res, &st);
     /* heights of the main's deployment: 1500 m less about 40 s of drogue descent */
     double vd = steady(m, 0, 1000.0, 0.0), vm = steady(m, 1, 0.0, m->stages[0].canopy.cds.typ);
-    CHECK_REL("range of descent time, main delay +-2 s uniform (s)",
-              "closed form, uniform air: a deployment dt later in steady descent changes the time by dt (v_d/v_m - 1)",
-              4.0 * (vd / vm - 1.0), st.body[0].time.max - st.body[0].time.min, 0.01);
+    CHECK_REL_CLASS(
+        SR_CHECK_DERIVED, "range of descent time, main delay +-2 s uniform (s)",
+        "closed form, uniform air: a deployment dt later in steady descent changes the time by dt (v_d/v_m - 1)",
+        4.0 * (vd / vm - 1.0), st.body[0].time.max - st.body[0].time.min, 0.01);
     sr_disp_result_free(&res);
     sr_disp_mission_free(&dm);
     drop(m);
@@ -281,9 +288,10 @@ static void test_mass_uniform_air(void **state)
         s2 += (res.land[i].speed - mean) * (res.land[i].speed - mean);
     double got = sqrt(s2 / (double)(n - 1));
     double v = steady(m, 1, 0.0, m->stages[0].canopy.cds.typ);
-    CHECK_REL("median touchdown speed, nominal mass (m/s)", SRC_RATE, v, st.body[0].speed.pct[2], 2e-3);
-    CHECK_REL("sd of touchdown speed, mass sigma 4 % (m/s)", SRC_MASS, 0.02 * v, got,
-              4.0 / sqrt(2.0 * (double)(n - 1)) + 2e-3);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "median touchdown speed, nominal mass (m/s)", SRC_RATE, v, st.body[0].speed.pct[2],
+                    2e-3);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "sd of touchdown speed, mass sigma 4 % (m/s)", SRC_MASS, 0.02 * v, got,
+                    4.0 / sqrt(2.0 * (double)(n - 1)) + 2e-3);
     sr_disp_result_free(&res);
     sr_disp_mission_free(&dm);
     drop(m);

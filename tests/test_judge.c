@@ -25,7 +25,7 @@
 #define G0 9.80665
 #define RHO0 1.2250
 #define SRC_STEADY "Knacke 1991 sec. 4.5 (verified): steady descent v = sqrt(2 m g / (rho CD0 S0))"
-#define SRC_CONICAL "canopies/conical.yaml: CD0 0.75 / 0.825 / 0.90 on nominal area (Knacke 1991 Table 5-1, from memory)"
+#define SRC_CONICAL "with the catalog's conical CD0 band 0.75 / 0.825 / 0.90 on nominal area as the input"
 
 static sr_catalog *CAT;
 

@@ -21,7 +21,7 @@
 #include "physics/units.h"
 
 #define SRC_M8 "docs/method.md section 8 (our derivation on the K91 growth model)"
-#define SRC_BAND "trade-facts.md section 6: n = 2 solid, n = 1 slotted commonly used, fits spread about 0.5 .. 3"
+#define SRC_BAND "trade-facts.md section 6 (from memory): n = 2 solid, n = 1 slotted, fits spread about 0.5 .. 3"
 
 /* The handbook reference file's check case (section 6.3): D0 1.5 m, CD0 0.80
  * on nominal area, 30 m/s at sea level, CX 1.7, n_fill 8; one state. */

@@ -163,9 +163,9 @@ static void render_png(const char *name, int width, int height)
     assert_true(sr_test_png_size(png, &w, &h));
     char q[128];
     snprintf(q, sizeof q, "PNG width from IHDR, figure of %dx%d px", width, height);
-    CHECK_ABS(q, SR_SRC_PNG, width, w, 0);
+    CHECK_ABS_CLASS(SR_CHECK_FORMAT, q, SR_SRC_PNG, width, w, 0);
     snprintf(q, sizeof q, "PNG height from IHDR, figure of %dx%d px", width, height);
-    CHECK_ABS(q, SR_SRC_PNG, height, h, 0);
+    CHECK_ABS_CLASS(SR_CHECK_FORMAT, q, SR_SRC_PNG, height, h, 0);
     sr_plot_free(p);
 }
 
@@ -293,8 +293,8 @@ static void test_log_axes_open_points_labels(void **state)
         fail_msg("gnuplot warned: %s", diag);
     unsigned w, h;
     assert_true(sr_test_png_size(tpath("log.png"), &w, &h));
-    CHECK_ABS("PNG width from IHDR, log-axes figure of 800x500 px", SR_SRC_PNG, 800, w, 0);
-    CHECK_ABS("PNG height from IHDR, log-axes figure of 800x500 px", SR_SRC_PNG, 500, h, 0);
+    CHECK_ABS_CLASS(SR_CHECK_FORMAT, "PNG width from IHDR, log-axes figure of 800x500 px", SR_SRC_PNG, 800, w, 0);
+    CHECK_ABS_CLASS(SR_CHECK_FORMAT, "PNG height from IHDR, log-axes figure of 800x500 px", SR_SRC_PNG, 500, h, 0);
     sr_plot_free(p);
 }
 

@@ -291,23 +291,28 @@ static void test_against_standard_and_drag_balance(void **state)
     char *sw[] = {"sinkrate", "sweep", "--format", "csv", "--values", "0,1000m,10000m", "--mass", "5.3kg",
                   "--family", "conical", "--nominal-diameter", "2.2m", NULL};
     table s = run_csv(sw);
-    CHECK_REL("density at 0 m in a sweep row", USSA " (1.2250 kg/m3)", 1.2250, num(&s, 1, "density"), 5e-5);
-    CHECK_REL("density at 1000 m in a sweep row", USSA " (1.1117 kg/m3)", 1.1117, num(&s, 2, "density"), 5e-5);
-    CHECK_REL("density at 10 km in a sweep row", USSA " (0.41351 kg/m3)", 0.41351, num(&s, 3, "density"), 5e-5);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "density at 0 m in a sweep row", USSA " (1.2250 kg/m3)", 1.2250,
+                    num(&s, 1, "density"), 5e-5);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "density at 1000 m in a sweep row", USSA " (1.1117 kg/m3)", 1.1117,
+                    num(&s, 2, "density"), 5e-5);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "density at 10 km in a sweep row", USSA " (0.41351 kg/m3)", 0.41351,
+                    num(&s, 3, "density"), 5e-5);
     /* Mach: the rate over the speed of sound */
     double a10 = num(&s, 3, "rate_typical") / num(&s, 3, "mach");
-    CHECK_REL("speed of sound at 10 km from rate / Mach", USSA " (299.53 m/s)", 299.53, a10, 2e-5);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "speed of sound at 10 km from rate / Mach", USSA " (299.53 m/s)", 299.53, a10,
+                    2e-5);
     double a0 = num(&s, 1, "rate_typical") / num(&s, 1, "mach");
-    CHECK_REL("speed of sound at 0 m from rate / Mach", USSA " (340.29 m/s, PDAS table)", 340.29, a0, 2e-5);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "speed of sound at 0 m from rate / Mach", USSA " (340.29 m/s, PDAS table)",
+                    340.29, a0, 2e-5);
     /* at equilibrium the dynamic pressure is the weight over the drag area, whatever the air */
     double cds = 0.825 * M_PI / 4.0 * 2.2 * 2.2;
-    CHECK_REL("dynamic pressure at equilibrium at 0 m = m g0 / CdS",
-              "drag equation in steady descent, q CdS = m g (Knacke 1991, NWC TP 6575, sec. 4.5)",
-              5.3 * 9.80665 / cds, num(&s, 1, "dynamic_pressure"), 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "dynamic pressure at equilibrium at 0 m = m g0 / CdS",
+                    "drag equation in steady descent, q CdS = m g (Knacke 1991, NWC TP 6575, sec. 4.5)",
+                    5.3 * 9.80665 / cds, num(&s, 1, "dynamic_pressure"), 1e-9);
     double g10 = 9.80665 * pow(6356766.0 / (6356766.0 + 10000.0), 2);
-    CHECK_REL("dynamic pressure at equilibrium at 10 km = m g(z) / CdS",
-              "drag equation in steady descent; g(z) = g0 (r0/(r0+z))^2, U.S. Standard Atmosphere 1976",
-              5.3 * g10 / cds, num(&s, 3, "dynamic_pressure"), 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "dynamic pressure at equilibrium at 10 km = m g(z) / CdS",
+                    "drag equation in steady descent; g(z) = g0 (r0/(r0+z))^2, U.S. Standard Atmosphere 1976",
+                    5.3 * g10 / cds, num(&s, 3, "dynamic_pressure"), 1e-9);
     free_table(&s);
 
     /* sizing at sea level: D0 = sqrt(8 m g / (pi rho v^2 CD0)) with the printed sea-level density */
@@ -315,12 +320,12 @@ static void test_against_standard_and_drag_balance(void **state)
                   "5.3kg", "--family", "conical", NULL};
     table z = run_csv(sz);
     double d5 = sqrt(8.0 * 5.3 * 9.80665 / (M_PI * 1.2250 * 25.0 * 0.825));
-    CHECK_REL("D0 for 5 m/s, 5.3 kg, conical CD0 0.825, sea level",
-              "drag equation solved for S0 = 2 m g / (rho v^2 CD0), D0 = sqrt(4 S0/pi); rho0 " USSA, d5,
-              num(&z, 1, "nominal_diameter_typical"), 5e-5);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "D0 for 5 m/s, 5.3 kg, conical CD0 0.825, sea level",
+                    "drag equation solved for S0 = 2 m g / (rho v^2 CD0), D0 = sqrt(4 S0/pi); rho0 " USSA, d5,
+                    num(&z, 1, "nominal_diameter_typical"), 5e-5);
     double d7 = sqrt(8.0 * 5.3 * 9.80665 / (M_PI * 1.2250 * 49.0 * 0.90));
-    CHECK_REL("D0 for 7 m/s, 5.3 kg, conical CD0 0.90 (low size), sea level",
-              "drag equation solved for S0; rho0 " USSA, d7, num(&z, 2, "nominal_diameter_low"), 5e-5);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "D0 for 7 m/s, 5.3 kg, conical CD0 0.90 (low size), sea level",
+                    "drag equation solved for S0; rho0 " USSA, d7, num(&z, 2, "nominal_diameter_low"), 5e-5);
     free_table(&z);
 }
 
@@ -359,9 +364,9 @@ static void test_descent_time_closed_forms(void **state)
     /* with g(z) of the standard the integral of 1/v is h/v0 (1 + (z1 + z2)/(2 r0)) */
     double v0 = sqrt(2.0 * 4.0 * 9.80665 / (rho * cds));
     double want = 2500.0 / v0 * (1.0 + 2500.0 / (2.0 * 6356766.0));
-    CHECK_REL("descent time 2500 m in uniform air, flat circular 1.8 m, 4 kg",
-              "closed form t = h / v for constant density (common practice), g(z) of US Standard Atmosphere 1976",
-              want, t.typ, 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "descent time 2500 m in uniform air, flat circular 1.8 m, 4 kg",
+                    "closed form t = h / v for constant density (common practice), g(z) of US Standard Atmosphere 1976",
+                    want, t.typ, 1e-9);
     sr_atmos_free(&c.atmos);
 
     /* isothermal air: density falls exponentially with scale height H = ln-pressure slope */
@@ -373,11 +378,11 @@ static void test_descent_time_closed_forms(void **state)
     double rho300 = 101000.0 * exp(-300.0 / H) / (Rs * 270.0);
     double I = isothermal_integral(rho300, H, 300.0, 3000.0);
     sr_band cdsb = sr_canopy_total_cds(&c.canopy);
-    CHECK_REL("descent time 3000 m in isothermal air (typical drag)",
-              "closed form: integral of sqrt(rho/g) dz for rho = rho1 exp(-(z-z1)/H), g(z) of USSA 1976",
-              sqrt(cdsb.typ / (2.0 * 4.0)) * I, t.typ, 1e-9);
-    CHECK_REL("descent time 3000 m in isothermal air (low drag: short time)",
-              "closed form as above with the family's low CD0", sqrt(cdsb.lo / (2.0 * 4.0)) * I, t.lo, 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "descent time 3000 m in isothermal air (typical drag)",
+                    "closed form: integral of sqrt(rho/g) dz for rho = rho1 exp(-(z-z1)/H), g(z) of USSA 1976",
+                    sqrt(cdsb.typ / (2.0 * 4.0)) * I, t.typ, 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "descent time 3000 m in isothermal air (low drag: short time)",
+                    "closed form as above with the family's low CD0", sqrt(cdsb.lo / (2.0 * 4.0)) * I, t.lo, 1e-9);
 
     /* the sweep's running sum agrees with single integrals, in either order */
     double xs[5] = {3300.0, 300.0, 2000.0, 1200.5, 3999.0};
@@ -407,9 +412,10 @@ static void test_descent_time_closed_forms(void **state)
     table s = run_csv(sw);
     double Hc = 4000.0 / log(101000.0 / 61256.47757);
     double rho0 = 101000.0 / (Rs * 270.0);
-    CHECK_REL("descent time from 3000 m, isothermal sounding file",
-              "closed form: integral of sqrt(rho/g) dz, exponential density, g(z) of USSA 1976",
-              sqrt(cdsb.typ / 8.0) * isothermal_integral(rho0, Hc, 0.0, 3000.0), num(&s, 3, "time_typical"), 1e-8);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "descent time from 3000 m, isothermal sounding file",
+                    "closed form: integral of sqrt(rho/g) dz, exponential density, g(z) of USSA 1976",
+                    sqrt(cdsb.typ / 8.0) * isothermal_integral(rho0, Hc, 0.0, 3000.0), num(&s, 3, "time_typical"),
+                    1e-8);
     assert_true(num(&s, 1, "time_typical") == 0.0);
     free_table(&s);
     unlink(csv);
@@ -582,9 +588,9 @@ static void figure(const char *name, const char *const *args)
     assert_true(sr_test_png_size(png, &w, &h));
     char q[128];
     snprintf(q, sizeof q, "PNG width of the '%s' sweep figure (--plot-size 800x500)", name);
-    CHECK_ABS(q, SR_SRC_PNG, 800, w, 0);
+    CHECK_ABS_CLASS(SR_CHECK_FORMAT, q, SR_SRC_PNG, 800, w, 0);
     snprintf(q, sizeof q, "PNG height of the '%s' sweep figure (--plot-size 800x500)", name);
-    CHECK_ABS(q, SR_SRC_PNG, 500, h, 0);
+    CHECK_ABS_CLASS(SR_CHECK_FORMAT, q, SR_SRC_PNG, 500, h, 0);
     free(out);
     free(err);
 }

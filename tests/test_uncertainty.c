@@ -36,11 +36,12 @@ static void test_splitmix_reference(void **state)
     assert_non_null(r);
     sr_rng_seek(r, 0);
     for (int k = 0; k < 4; k++)
-        CHECK_ABS("SplitMix64 output, upper 32 bits", SRC_SM, (double)(REF[k] >> 32), (double)gsl_rng_get(r), 0.0);
+        CHECK_ABS_CLASS(SR_CHECK_MEMORY, "SplitMix64 output, upper 32 bits", SRC_SM, (double)(REF[k] >> 32),
+                        (double)gsl_rng_get(r), 0.0);
     sr_rng_seek(r, 0);
     for (int k = 0; k < 4; k++)
-        CHECK_ABS("SplitMix64 output as a double in [0,1)", SRC_SM, (double)(REF[k] >> 11) * 0x1.0p-53,
-                  gsl_rng_uniform(r), 0.0);
+        CHECK_ABS_CLASS(SR_CHECK_MEMORY, "SplitMix64 output as a double in [0,1)", SRC_SM,
+                        (double)(REF[k] >> 11) * 0x1.0p-53, gsl_rng_uniform(r), 0.0);
     assert_int_equal(gsl_rng_max(r), 0xffffffffUL);
     assert_int_equal(gsl_rng_min(r), 0);
     gsl_rng_free(r);
@@ -72,12 +73,13 @@ static void test_streams_uniform(void **state)
         chi2 += ((double)count[b] - e) * ((double)count[b] - e) / e;
     double pval = gsl_cdf_chisq_Q(chi2, bins - 1);
     assert_true(pval > 1e-4);
-    CHECK_ABS("chi-square p-value of first draws, 100 bins (> 1e-4)", SRC_CHI2, 0.5, pval, 0.5 - 1e-4);
+    CHECK_ABS_CLASS(SR_CHECK_LIBRARY, "chi-square p-value of first draws, 100 bins (> 1e-4)", SRC_CHI2, 0.5, pval,
+                    0.5 - 1e-4);
     double rho = gsl_stats_correlation(u, 1, u + 1, 1, n - 1);
-    CHECK_ABS("lag-1 correlation across sample streams", "independent streams: abs(r) < 4/sqrt(n)", 0.0, rho,
-              4.0 / sqrt((double)n));
-    CHECK_ABS("mean of first draws", "uniform on [0,1): mean 1/2, sd 1/sqrt(12n)", 0.5, gsl_stats_mean(u, 1, n),
-              5.0 / sqrt(12.0 * (double)n));
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "lag-1 correlation across sample streams",
+                    "independent streams: abs(r) < 4/sqrt(n)", 0.0, rho, 4.0 / sqrt((double)n));
+    CHECK_ABS_CLASS(SR_CHECK_METHOD, "mean of first draws", "uniform on [0,1): mean 1/2, sd 1/sqrt(12n)", 0.5,
+                    gsl_stats_mean(u, 1, n), 5.0 / sqrt(12.0 * (double)n));
     free(u);
     gsl_rng_free(r);
 }
@@ -138,15 +140,16 @@ static void test_distributions(void **state)
     for (size_t k = 0; k < sizeof D / sizeof D[0]; k++) {
         snprintf(q, sizeof q, "standard deviation of %s [%g, %g] sigma %g", sr_dist_name(D[k].kind), D[k].lo, D[k].hi,
                  D[k].sigma);
-        CHECK_REL(q, SRC_MOMENTS, sd[k], sr_dist_sd(&D[k]), 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_MOMENTS, sd[k], sr_dist_sd(&D[k]), 1e-12);
         sr_rng_seek(r, sr_rng_key(5, k, 0));
         for (size_t i = 0; i < n; i++)
             x[i] = sr_dist_draw(&D[k], r);
         snprintf(q, sizeof q, "sample sd of %s draws", sr_dist_name(D[k].kind));
-        CHECK_REL(q, SRC_MOMENTS, sd[k], gsl_stats_sd(x, 1, n), 5.0 / sqrt(2.0 * (double)n) * 1.5);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_MOMENTS, sd[k], gsl_stats_sd(x, 1, n),
+                        5.0 / sqrt(2.0 * (double)n) * 1.5);
         qsort(x, n, sizeof *x, cmp_double);
         snprintf(q, sizeof q, "KS distance of %s draws from its CDF (< 1 %% critical value)", sr_dist_name(D[k].kind));
-        CHECK_ABS(q, SRC_KS, 0.0, ks(x, n, cdf_closed, &D[k]), 1.63 / sqrt((double)n));
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_KS, 0.0, ks(x, n, cdf_closed, &D[k]), 1.63 / sqrt((double)n));
     }
     sr_dist fixed = {0};
     assert_true(sr_dist_draw(&fixed, r) == 0.0);
@@ -232,10 +235,12 @@ static void test_default_is_family_range(void **state)
         assert_int_equal(u->drag[s].kind, SR_DIST_UNIFORM);
         assert_int_equal(u->drag_family[s], 1);
         double typ = m.stages[s].canopy.cd.v.typ;
-        CHECK_REL(s ? "main drag scale, low end (CD0 lo / typ)" : "drogue drag scale, low end (CD0 lo / typ)",
-                  SRC_FAMILY, lo[s] / typ, 1.0 + u->drag[s].lo, 1e-12);
-        CHECK_REL(s ? "main drag scale, high end (CD0 hi / typ)" : "drogue drag scale, high end (CD0 hi / typ)",
-                  SRC_FAMILY, hi[s] / typ, 1.0 + u->drag[s].hi, 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY,
+                        s ? "main drag scale, low end (CD0 lo / typ)" : "drogue drag scale, low end (CD0 lo / typ)",
+                        SRC_FAMILY, lo[s] / typ, 1.0 + u->drag[s].lo, 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_CONSISTENCY,
+                        s ? "main drag scale, high end (CD0 hi / typ)" : "drogue drag scale, high end (CD0 hi / typ)",
+                        SRC_FAMILY, hi[s] / typ, 1.0 + u->drag[s].hi, 1e-12);
     }
     assert_int_equal(u->mass.kind, SR_DIST_FIXED);
     assert_int_equal(u->wind_speed.kind, SR_DIST_FIXED);
@@ -265,17 +270,22 @@ static void test_full_block(void **state)
     const sr_uncertainty *u = &m.unc;
     assert_int_equal(u->given, 1);
     assert_int_equal(u->drag[0].kind, SR_DIST_NORMAL);
-    CHECK_REL("drogue drag sigma, 5 % (relative)", "definition of a percentage", 0.05, u->drag[0].sigma, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "drogue drag sigma, 5 % (relative)", "definition of a percentage", 0.05,
+                    u->drag[0].sigma, 1e-15);
     assert_int_equal(u->drag[1].kind, SR_DIST_TRIANGULAR);
-    CHECK_REL("main drag half-width, 0.06 in CD over the typical CD0 (relative)", SRC_FAMILY,
-              0.06 / m.stages[1].canopy.cd.v.typ, u->drag[1].hi, 1e-12);
-    CHECK_REL("mass sigma 0.2 kg of 4 kg (relative)", "0.2 / 4", 0.05, u->mass.sigma, 1e-15);
-    CHECK_REL("wind-speed sigma 3 kn (m/s)", SRC_UNITS, 3.0 * 1852.0 / 3600.0, u->wind_speed.sigma, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "main drag half-width, 0.06 in CD over the typical CD0 (relative)",
+                    SRC_FAMILY, 0.06 / m.stages[1].canopy.cd.v.typ, u->drag[1].hi, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "mass sigma 0.2 kg of 4 kg (relative)", "0.2 / 4", 0.05, u->mass.sigma,
+                    1e-15);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "wind-speed sigma 3 kn (m/s)", SRC_UNITS, 3.0 * 1852.0 / 3600.0,
+                    u->wind_speed.sigma, 1e-15);
     assert_int_equal(u->wind_speed.relative, 0);
-    CHECK_REL("wind-direction half-width 20 deg (rad)", "NIST SP 811: 1 deg = pi/180 rad", 20 * DEG, u->wind_dir.hi,
-              1e-15);
-    CHECK_REL("first-deployment sigma 200 ft (m)", SRC_UNITS, 60.96, u->start_height.sigma, 1e-15);
-    CHECK_ABS("deployment-height low end (m)", "half-width 15 m", -15.0, u->deploy_height.lo, 0.0);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "wind-direction half-width 20 deg (rad)", "NIST SP 811: 1 deg = pi/180 rad",
+                    20 * DEG, u->wind_dir.hi, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "first-deployment sigma 200 ft (m)", SRC_UNITS, 60.96, u->start_height.sigma,
+                    1e-15);
+    CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "deployment-height low end (m)", "half-width 15 m", -15.0,
+                    u->deploy_height.lo, 0.0);
 
     /* the draws: each variable where it belongs, with the stated spread */
     gsl_rng *r = gsl_rng_alloc(sr_rng_splitmix64);
@@ -293,11 +303,12 @@ static void test_full_block(void **state)
         assert_true(p.drag_scale[1] >= 1.0 - u->drag[1].hi && p.drag_scale[1] <= 1.0 + u->drag[1].hi);
     }
     double tol = 5.0 / sqrt(2.0 * (double)n);
-    CHECK_REL("sd of the drawn mass scale", "normal, sigma 0.05", 0.05, gsl_stats_sd(ms, 1, n), tol);
-    CHECK_REL("sd of the drawn wind-direction offset (rad)", SRC_MOMENTS, 40 * DEG / sqrt(12.0), gsl_stats_sd(wd, 1, n),
-              tol);
-    CHECK_REL("sd of the drawn main deployment-height offset (m)", SRC_MOMENTS, 30.0 / sqrt(12.0),
-              gsl_stats_sd(dh, 1, n), tol);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "sd of the drawn mass scale", "normal, sigma 0.05", 0.05, gsl_stats_sd(ms, 1, n),
+                    tol);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "sd of the drawn wind-direction offset (rad)", SRC_MOMENTS, 40 * DEG / sqrt(12.0),
+                    gsl_stats_sd(wd, 1, n), tol);
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "sd of the drawn main deployment-height offset (m)", SRC_MOMENTS,
+                    30.0 / sqrt(12.0), gsl_stats_sd(dh, 1, n), tol);
     /* one stream per variable: fixing the mass leaves every other draw as it was */
     sr_uncertainty u2 = *u;
     u2.mass.kind = SR_DIST_FIXED;
@@ -328,7 +339,8 @@ static void test_short_forms(void **state)
     assert_int_equal(m.unc.drag[0].kind, SR_DIST_NORMAL);
     assert_int_equal(m.unc.drag[1].kind, SR_DIST_NORMAL);
     assert_int_equal(m.unc.wind_speed.relative, 1);
-    CHECK_REL("wind-speed sigma 20 % (relative)", "definition of a percentage", 0.2, m.unc.wind_speed.sigma, 1e-15);
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "wind-speed sigma 20 % (relative)", "definition of a percentage", 0.2,
+                    m.unc.wind_speed.sigma, 1e-15);
     /* `fixed` and the family range as words; nothing varies */
     if (parse(BASE "uncertainty:\n  drag:\n    drogue: fixed\n    main: uniform\n", &m, &e))
         fail_msg("%s", e.msg);

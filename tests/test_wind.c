@@ -16,7 +16,7 @@
 #define SRC_POWER "trade-facts.md sec. 6: u(100 m)/u(10 m) of the power law u = u_ref (z/z_ref)^alpha (derived)"
 #define SRC_LOG "trade-facts.md sec. 6: u(100 m)/u(10 m) of the neutral log law, z0 = 0.03 m, d = 0 (derived)"
 #define SRC_MET "WMO convention: wind direction is the bearing it blows FROM, clockwise from north (common practice)"
-#define SRC_VEC "linear interpolation of the east/north components (DESIGN.md model 5): |(a+b)/2| (derived)"
+#define SRC_VEC "linear interpolation of the east/north components (DESIGN.md model 5, docs/method.md 7): |(a+b)/2|"
 
 static double speed_at(const sr_wind *w, double h)
 {
@@ -48,7 +48,7 @@ static void test_profile_ratios(void **state)
         int rc = c->log_law ? sr_wind_init_log(&w, 6.0, 200 * DEG, 10.0, c->z0, 0.0, &e)
                             : sr_wind_init_power(&w, 6.0, 200 * DEG, 10.0, c->alpha, &e);
         assert_int_equal(rc, SR_OK);
-        CHECK_REL(c->what, c->src, c->expected, speed_at(&w, 100.0) / speed_at(&w, 10.0), 5e-6);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, c->what, c->src, c->expected, speed_at(&w, 100.0) / speed_at(&w, 10.0), 5e-6);
         /* the reference height gives the reference speed back */
         assert_true(fabs(speed_at(&w, 10.0) - 6.0) < 1e-12);
         /* calm at and below ground */
@@ -81,9 +81,9 @@ static void test_direction_convention(void **state)
         sr_wind_at(&w, 1234.0, &east, &north);
         char what[96];
         snprintf(what, sizeof what, "east component of 10 m/s from %.0f deg", DIRS[i].from_deg);
-        CHECK_ABS(what, SRC_MET, 10 * DIRS[i].east, east, 1e-6);
+        CHECK_ABS_CLASS(SR_CHECK_TRADE, what, SRC_MET, 10 * DIRS[i].east, east, 1e-6);
         snprintf(what, sizeof what, "north component of 10 m/s from %.0f deg", DIRS[i].from_deg);
-        CHECK_ABS(what, SRC_MET, 10 * DIRS[i].north, north, 1e-6);
+        CHECK_ABS_CLASS(SR_CHECK_TRADE, what, SRC_MET, 10 * DIRS[i].north, north, 1e-6);
         double s, from;
         sr_wind_polar(east, north, &s, &from);
         assert_true(fabs(s - 10.0) < 1e-12);
@@ -102,11 +102,13 @@ static void test_table_components(void **state)
     sr_wind_at(&w, 50.0, &east, &north);
     sr_wind_polar(east, north, &sp, &from);
     /* north wind and east wind averaged as vectors: 10/sqrt(2) from 45 deg, not 10 from 45 deg */
-    CHECK_REL("table wind speed halfway between 10 m/s from 0 deg and 10 m/s from 90 deg", SRC_VEC,
-              10.0 / sqrt(2.0), sp, 1e-12);
-    CHECK_ABS("table wind direction halfway between 0 deg and 90 deg", SRC_VEC, 45.0, from / DEG, 1e-9);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "table wind speed halfway between 10 m/s from 0 deg and 10 m/s from 90 deg",
+                    SRC_VEC, 10.0 / sqrt(2.0), sp, 1e-12);
+    CHECK_ABS_CLASS(SR_CHECK_DERIVED, "table wind direction halfway between 0 deg and 90 deg", SRC_VEC, 45.0,
+                    from / DEG, 1e-9);
     sr_wind_at(&w, 200.0, &east, &north);
-    CHECK_REL("table wind speed halfway between 10 and 4 m/s from 90 deg", SRC_VEC, 7.0, hypot(east, north), 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "table wind speed halfway between 10 and 4 m/s from 90 deg", SRC_VEC, 7.0,
+                    hypot(east, north), 1e-12);
     /* below the first row and above the last the end rows hold */
     sr_wind_at(&w, -10.0, &east, &north);
     assert_true(fabs(north + 10.0) < 1e-12 && fabs(east) < 1e-12);
@@ -151,8 +153,8 @@ static void test_csv(void **state)
     double east, north;
     sr_wind_at(&w, 0.0, &east, &north);
     /* 10 kn from 240 deg: 1 kn = 1852/3600 m/s exactly (NIST SP 811) */
-    CHECK_REL("table wind at the site from an altitude column in knots", "NIST SP 811 (2008) App. B: 1 kn = 1852/3600 m/s",
-              10 * 1852.0 / 3600.0, hypot(east, north), 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "table wind at the site from an altitude column in knots",
+                    "NIST SP 811 (2008) App. B: 1 kn = 1852/3600 m/s", 10 * 1852.0 / 3600.0, hypot(east, north), 1e-12);
     assert_true(fabs(sr_wind_top(&w) - 1000.0) < 1e-9);
     sr_wind_free(&w);
 
@@ -209,9 +211,11 @@ static void test_gradient_height(void **state)
         assert_int_equal(sr_wind_check_extrapolation(&w, 2900.0, SR_UNITS_SI, buf, sizeof buf), 0);
         /* below the gradient height the law is untouched; above it, its value there */
         double at300 = C[i].log_law ? 6.0 * log(300.0 / C[i].z0) / log(10.0 / C[i].z0) : 6.0 * pow(30.0, C[i].alpha);
-        CHECK_REL_CLASS(SR_CHECK_METHOD, C[i].log_law ? "log-law wind held above a 300 m gradient height"
-                                                      : "power-law wind held above a 300 m gradient height",
-                        C[i].log_law ? SRC_LOG : SRC_POWER, at300, speed_at(&w, 2900.0), 1e-12);
+        CHECK_REL_CLASS(SR_CHECK_DERIVED, C[i].log_law ? "log-law wind held above a 300 m gradient height"
+                                                       : "power-law wind held above a 300 m gradient height",
+                        C[i].log_law ? SRC_LOG "; held above the gradient height (docs/method.md 11, our rule)"
+                                     : SRC_POWER "; held above the gradient height (docs/method.md 11, our rule)",
+                        at300, speed_at(&w, 2900.0), 1e-12);
         assert_true(speed_at(&w, 200.0) == free_below);
         assert_true(speed_at(&w, 2900.0) < free_above);
         size_t nk;

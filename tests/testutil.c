@@ -24,6 +24,23 @@ void sr_test_check(const char *file, int line, sr_check_class cls, const char *q
     double dev = fabs(got - expected);
     double lim = absolute ? tol : tol * fabs(expected);
     int ok = isfinite(got) && dev <= lim;
+    /* the rules scripts/validation.py enforces on the log, caught here at the line */
+    const char *why = NULL;
+    int outside = cls == SR_CHECK_PUBLISHED || cls == SR_CHECK_LIBRARY || cls == SR_CHECK_METHOD;
+    if (cls <= SR_CHECK_UNCLASSIFIED || cls > SR_CHECK_FORMAT)
+        why = "a validation check needs its class";
+    else if (!source || strlen(source) < 4)
+        why = "a validation check needs its source";
+    else if (outside && strstr(source, "from memory"))
+        why = "a value from memory is not an outside check: class it SR_CHECK_MEMORY";
+    else if (cls == SR_CHECK_MEMORY && !strstr(source, "from memory"))
+        why = "a check of class SR_CHECK_MEMORY says \"from memory\" in its source";
+    else if (cls == SR_CHECK_TRADE && !strstr(source, "common practice"))
+        why = "a check of class SR_CHECK_TRADE says \"common practice\" in its source";
+    if (why) {
+        print_error("%s:%d: %s: %s [source: %s]\n", file, line, quantity, why, source ? source : "(none)");
+        fail();
+    }
     const char *log = getenv("SR_VALIDATION_LOG");
     if (log) {
         FILE *f = fopen(log, "a");
@@ -229,7 +246,7 @@ void sr_test_check_figure(const char *prefix, int rendered, unsigned w, unsigned
     }
     assert_true(sr_test_png_size(path, &pw, &ph));
     snprintf(q, sizeof q, "PNG width of the %s (--plot-size %ux%u)", what, w, h);
-    CHECK_ABS(q, SR_SRC_PNG, w, pw, 0);
+    CHECK_ABS_CLASS(SR_CHECK_FORMAT, q, SR_SRC_PNG, w, pw, 0);
     snprintf(q, sizeof q, "PNG height of the %s (--plot-size %ux%u)", what, w, h);
-    CHECK_ABS(q, SR_SRC_PNG, h, ph, 0);
+    CHECK_ABS_CLASS(SR_CHECK_FORMAT, q, SR_SRC_PNG, h, ph, 0);
 }

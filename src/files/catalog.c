@@ -19,16 +19,51 @@ static const char *const FAMILY_KEYS[] = {"id", "name", "class", "drag-coefficie
 static const char *const FAMILY_REQ[] = {"id", "name", "class", "drag-coefficient", "projected-ratio",
                                          "constructed-ratio", "opening-factor", "filling-constant",
                                          "oscillation", "mach-limit", NULL};
-static const char *const BAND_KEYS[] = {"low", "typical", "high", "source", NULL};
+static const char *const BAND_KEYS[] = {"low", "typical", "high", "source", "outside-check", "to-check", NULL};
 static const char *const BAND_REQ[] = {"low", "high", "source", NULL};
-static const char *const CD_KEYS[] = {"reference", "low", "typical", "high", "source", NULL};
+static const char *const CD_KEYS[] = {"reference", "low",           "typical",  "high",
+                                      "source",    "outside-check", "to-check", NULL};
 static const char *const CD_REQ[] = {"reference", "low", "high", "source", NULL};
-static const char *const VALUE_KEYS[] = {"value", "source", NULL};
+static const char *const VALUE_KEYS[] = {"value", "source", "outside-check", "to-check", NULL};
+static const char *const VALUE_REQ[] = {"value", "source", NULL};
+
+/* The classes an outside check may name (tests/testutil.h, docs/validation.md). */
+static const char *const OUTSIDE_CLASSES[] = {"published: ", "reference library: ", "independent method: ", NULL};
+
+/* The optional check status of a value block: outside-check is `none` (the
+ * default) or "<outside class>: <what it was checked against>"; to-check names
+ * the publication and table that would check it. */
+static int read_check(const sr_yaml *y, yaml_node_t *block, sr_value_check *c, sr_error *err)
+{
+    snprintf(c->outside, sizeof c->outside, "none");
+    c->to_check[0] = '\0';
+    yaml_node_t *n = sr_yaml_get(y, block, "outside-check");
+    int rc;
+    if (n) {
+        if ((rc = sr_yaml_string(y, n, c->outside, sizeof c->outside, err)))
+            return rc;
+        int ok = strcmp(c->outside, "none") == 0;
+        for (size_t i = 0; !ok && OUTSIDE_CLASSES[i]; i++) {
+            size_t l = strlen(OUTSIDE_CLASSES[i]);
+            ok = strncmp(c->outside, OUTSIDE_CLASSES[i], l) == 0 && strlen(c->outside) > l + 3;
+        }
+        if (!ok)
+            return sr_yaml_fail(y, n, err,
+                                "outside-check must be 'none' or name its check after 'published: ', "
+                                "'reference library: ' or 'independent method: '");
+        if (strstr(c->outside, "from memory"))
+            return sr_yaml_fail(y, n, err, "outside-check: a value from memory is not an outside check");
+    }
+    n = sr_yaml_get(y, block, "to-check");
+    if (n && (rc = sr_yaml_string(y, n, c->to_check, sizeof c->to_check, err)))
+        return rc;
+    return SR_OK;
+}
 
 /* A band of plain numbers (q == SR_Q_NONE) or quantities; typical defaults
  * to the midpoint. Checks lo <= typ <= hi and the physical range. */
 static int read_band(const sr_yaml *y, yaml_node_t *map, const char *key, sr_quantity q, double min, double max,
-                     sr_band *b, char *src, size_t srclen, sr_error *err)
+                     sr_band *b, char *src, size_t srclen, sr_value_check *chk, sr_error *err)
 {
     yaml_node_t *n = sr_yaml_get(y, map, key);
     int is_cd = strcmp(key, "drag-coefficient") == 0;
@@ -57,14 +92,16 @@ static int read_band(const sr_yaml *y, yaml_node_t *map, const char *key, sr_qua
     b->lo = v[0];
     b->typ = v[1];
     b->hi = v[2];
+    if ((rc = read_check(y, n, chk, err)))
+        return rc;
     return sr_yaml_string(y, sr_yaml_get(y, n, "source"), src, srclen, err);
 }
 
 static int read_value(const sr_yaml *y, yaml_node_t *map, const char *key, sr_quantity q, double min, double max,
-                      double *v, char *src, size_t srclen, sr_error *err)
+                      double *v, char *src, size_t srclen, sr_value_check *chk, sr_error *err)
 {
     yaml_node_t *n = sr_yaml_get(y, map, key);
-    int rc = sr_yaml_check_map(y, n, key, VALUE_KEYS, VALUE_KEYS, err);
+    int rc = sr_yaml_check_map(y, n, key, VALUE_KEYS, VALUE_REQ, err);
     if (rc)
         return rc;
     yaml_node_t *vn = sr_yaml_get(y, n, "value");
@@ -73,6 +110,8 @@ static int read_value(const sr_yaml *y, yaml_node_t *map, const char *key, sr_qu
         return rc;
     if (!(*v >= min && *v <= max))
         return sr_yaml_fail(y, vn, err, "%s is outside the plausible range %g .. %g", key, min, max);
+    if ((rc = read_check(y, n, chk, err)))
+        return rc;
     return sr_yaml_string(y, sr_yaml_get(y, n, "source"), src, srclen, err);
 }
 
@@ -121,32 +160,34 @@ int sr_catalog_parse_family(sr_family *f, sr_yaml *y, sr_error *err)
                             ref);
     f->cd0.ref = SR_REF_NOMINAL;
     if ((rc = read_band(y, root, "drag-coefficient", SR_Q_NONE, 0.05, 2.5, &f->cd0.v, f->cd0_source,
-                        sizeof f->cd0_source, err)))
+                        sizeof f->cd0_source, &f->check[SR_FV_DRAG], err)))
         return rc;
     if ((rc = read_band(y, root, "projected-ratio", SR_Q_NONE, 0.3, 1.2, &f->dp_d0, f->dp_source,
-                        sizeof f->dp_source, err)))
+                        sizeof f->dp_source, &f->check[SR_FV_PROJECTED], err)))
         return rc;
     if ((rc = read_band(y, root, "constructed-ratio", SR_Q_NONE, 0.3, 1.5, &f->dc_d0, f->dc_source,
-                        sizeof f->dc_source, err)))
+                        sizeof f->dc_source, &f->check[SR_FV_CONSTRUCTED], err)))
         return rc;
     if ((rc = read_band(y, root, "opening-factor", SR_Q_NONE, 0.5, 3.0, &f->cx, f->cx_source, sizeof f->cx_source,
-                        err)))
+                        &f->check[SR_FV_OPENING], err)))
         return rc;
     if ((rc = read_value(y, root, "filling-constant", SR_Q_NONE, 0.5, 50.0, &f->fill_n, f->fill_source,
-                         sizeof f->fill_source, err)))
+                         sizeof f->fill_source, &f->check[SR_FV_FILLING], err)))
         return rc;
     if ((rc = read_band(y, root, "oscillation", SR_Q_ANGLE, 0.0, PI / 2, &f->oscillation, f->osc_source,
-                        sizeof f->osc_source, err)))
+                        sizeof f->osc_source, &f->check[SR_FV_OSCILLATION], err)))
         return rc;
     if ((rc = read_value(y, root, "mach-limit", SR_Q_NONE, 0.01, 5.0, &f->mach_max, f->mach_source,
-                         sizeof f->mach_source, err)))
+                         sizeof f->mach_source, &f->check[SR_FV_MACH], err)))
         return rc;
     /* the growth exponent: the file's band, or the class's (from memory) */
     if (sr_yaml_get(y, root, "growth-exponent")) {
         if ((rc = read_band(y, root, "growth-exponent", SR_Q_NONE, 0.25, 6.0, &f->growth, f->growth_source,
-                            sizeof f->growth_source, err)))
+                            sizeof f->growth_source, &f->check[SR_FV_GROWTH], err)))
             return rc;
+        f->growth_given = 1;
     } else {
+        snprintf(f->check[SR_FV_GROWTH].outside, sizeof f->check[SR_FV_GROWTH].outside, "none");
         int slotted = strcmp(f->cls, SR_CANOPY_CLASS_SLOTTED) == 0;
         sr_opening_class_band(slotted ? SR_OPENING_SLOTTED : SR_OPENING_SOLID, &f->growth.lo, &f->growth.typ,
                               &f->growth.hi);
@@ -156,9 +197,10 @@ int sr_catalog_parse_family(sr_family *f, sr_yaml *y, sr_error *err)
                  slotted ? "slotted" : "solid cloth", f->growth.typ, f->growth.lo, f->growth.hi);
     }
     f->areal_mass = NAN;
+    snprintf(f->check[SR_FV_AREAL].outside, sizeof f->check[SR_FV_AREAL].outside, "none");
     if (sr_yaml_get(y, root, "areal-mass") &&
         (rc = read_value(y, root, "areal-mass", SR_Q_AREAL_MASS, 1e-3, 2.0, &f->areal_mass, f->areal_source,
-                         sizeof f->areal_source, err)))
+                         sizeof f->areal_source, &f->check[SR_FV_AREAL], err)))
         return rc;
     n = sr_yaml_get(y, root, "notes");
     if (n && (rc = sr_yaml_string(y, n, f->notes, sizeof f->notes, err)))

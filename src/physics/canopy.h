@@ -33,6 +33,33 @@ typedef struct sr_cd {
 #define SR_CANOPY_CLASS_SOLID "solid"
 #define SR_CANOPY_CLASS_SLOTTED "slotted"
 
+/* The values of a family that carry a check status, in the order
+ * `sinkrate canopies ID` shows them. */
+typedef enum sr_family_value {
+    SR_FV_DRAG = 0,     /* drag-coefficient (CD0 range on nominal area) */
+    SR_FV_PROJECTED,    /* projected-ratio Dp/D0 */
+    SR_FV_CONSTRUCTED,  /* constructed-ratio Dc/D0 */
+    SR_FV_OPENING,      /* opening-factor CX */
+    SR_FV_FILLING,      /* filling-constant */
+    SR_FV_OSCILLATION,  /* oscillation */
+    SR_FV_MACH,         /* mach-limit */
+    SR_FV_AREAL,        /* areal-mass (optional) */
+    SR_FV_GROWTH,       /* growth-exponent (optional: the class's band otherwise, physics/provenance.h) */
+    SR_FV_COUNT_
+} sr_family_value;
+
+#define SR_CHECK_MAX 240
+/* What a value has been checked against outside the project, and what would
+ * check it (docs/validation.md, "Not yet checked", reads the same). */
+typedef struct sr_value_check {
+    char outside[SR_CHECK_MAX];  /* "none", or "<class>: <the check>" of an outside class */
+    char to_check[SR_CHECK_MAX]; /* the publication and table that would check it ("" when not named) */
+} sr_value_check;
+
+/* The YAML key and the label of a family value. */
+const char *sr_family_value_key(sr_family_value v);
+const char *sr_family_value_label(sr_family_value v);
+
 /* One family from canopies/<id>.yaml. Angles in radians. */
 typedef struct sr_family {
     char id[48];
@@ -51,12 +78,14 @@ typedef struct sr_family {
     sr_band growth;                 /* exponent n of the drag-area growth (t/t_f)^n while filling: the
                                      * class's band unless the file sets `growth-exponent:` */
     char growth_source[SR_SOURCE_MAX];
+    int growth_given;               /* the file set growth-exponent: (else the class's band) */
     sr_band oscillation;            /* rad, typical range in steady descent */
     char osc_source[SR_SOURCE_MAX];
     double mach_max;                /* upper Mach number of the family's usual application */
     char mach_source[SR_SOURCE_MAX];
     double areal_mass;              /* kg/m2 of nominal area, NaN when not given */
     char areal_source[SR_SOURCE_MAX];
+    sr_value_check check[SR_FV_COUNT_]; /* outside-check / to-check of each value */
     char notes[512];
     char file[256];                 /* where it was loaded from */
 } sr_family;
