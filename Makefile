@@ -12,7 +12,7 @@ CC      ?= cc
 CSTD     = -std=c11 -D_POSIX_C_SOURCE=200809L
 WARN     = -Wall -Wextra -Werror -Wno-unused-parameter -Wno-format-truncation -Wno-unknown-warning-option
 OPT     ?= -O2 -g
-PKGS     = yaml-0.1 gsl jansson
+PKGS     = yaml-0.1 gsl jansson proj
 # Deferred and cached on first use: pkg-config runs when the first recipe needs
 # the flags, after the deps step, never when make reads this file (on a fresh
 # machine the packages do not exist yet at that moment).

@@ -5,7 +5,7 @@
 #   deps.sh install  install every missing package (build, tests, figures)
 #                    with apt-get as root or through sudo, or say how
 set -u
-BUILD="build-essential pkg-config libyaml-dev libgsl-dev libjansson-dev libcsv-dev"
+BUILD="build-essential pkg-config libyaml-dev libgsl-dev libjansson-dev libcsv-dev libproj-dev"
 # python3 and its libraries: the reference checks of tests/ref/ (make check)
 TEST="libcmocka-dev libudunits2-dev libudunits2-data gnuplot-nox valgrind clang libclang-rt-14-dev
       python3 python3-numpy python3-scipy python3-statsmodels python3-fluids"

@@ -74,6 +74,12 @@ done <<EOF_LIST
 1 sweep --mass 2kg --family conical --vary speed --values 0.01m/s
 0 check "$tmp/windy.yaml"
 2 rate --mass 2.65 --flat-diameter 36 --family flat-circular --units us
+0 profile "$root/payloads/desert-club-rocket-revised.yaml" --trajectory "$tmp/traj.csv" --geojson "$tmp/map.geojson" --band-ends --units us
+0 profile "$root/payloads/desert-club-rocket-revised.yaml" --trajectory "$tmp/traj.json" --format csv --table touchdown
+1 dispersion "$M" -n 200 --seed 3 --geojson "$tmp/disp.geojson" --geojson-samples 50 --table percentiles
+2 profile "$root/payloads/drone-cargo-drop.yaml" --geojson "$tmp/none.geojson"
+2 profile "$M" --table failure_case --format csv
+0 size --mass 12lbs --speed 23m/s --family cross --site-elevation 1380m --altitude 1580m --units us --table values
 EOF_LIST
 [ $fail -eq 0 ] && echo "valgrind: $n CLI examples clean (no memory errors, no definite or indirect leaks)"
 exit $fail

@@ -43,8 +43,8 @@ LEGEND_HEAD = "The first three classes are checks against the world; the others 
 # The quantities the header counts, in its order.
 TOPICS = ["atmosphere", "units", "canopy catalog and reference areas", "descent rate", "sizing",
           "descent time and landing", "wind and drift", "opening load", "filling time", "free fall",
-          "dispersion statistics", "random draws", "flight-log fit", "plausibility and Mach", "file formats",
-          "other"]
+          "dispersion statistics", "random draws", "flight-log fit", "plausibility and Mach",
+          "landing maps and trajectories", "file formats", "other"]
 
 # (file pattern, quantity pattern, topic): the first rule that matches wins.
 RULES = [
@@ -56,6 +56,8 @@ RULES = [
     (r".*", r"^dispersion: ", "dispersion statistics"),
     (r".*", r"^fit: ", "flight-log fit"),
     (r"^test_(fit|demo_flight|flightlog)\.c$", r"", "flight-log fit"),
+    (r"^test_(geodesy|maps)\.c$", r"", "landing maps and trajectories"),
+    (r"^test_us_customary\.c$", r"", "units"),
     (r"^test_plausible\.c$", r"", "plausibility and Mach"),
     (r"^test_atmos\.c$", r"", "atmosphere"),
     (r"^test_(units|csvtable)\.c$", r"", "units"),

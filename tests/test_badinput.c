@@ -90,6 +90,8 @@ typedef struct bad_case {
 #define LOADS_CANOPY "loads", "--mass", "5 kg", "--family", "conical", "--nominal-diameter", "1.5 m"
 #define FREEFALL "freefall", "--mass", "1 kg", "--diameter", "10 cm"
 #define DISPERSION "dispersion", "@IN@"
+/* a mission that can run, with this inside its site block (line 2, from column 8) */
+#define GEO_SITE(keys) "mission: m\nsite: {" keys "}\nsections:\n" SECTION STAGES START
 
 static const bad_case BAD[] = {
     /* ---- options: values and units ---- */
@@ -112,7 +114,7 @@ static const bad_case BAD[] = {
     {{"size", "--mass", "2 kg", "--speed", "0 m/s", "--family", "conical"}, NULL, NULL, 0, "--speed",
      "greater than zero"},
     {{"size", "--mass", "2 kg", "--speed", "400 m/s", "--family", "conical"}, NULL, NULL, 0, "--speed",
-     "not a touchdown speed"},
+     "not a descent speed"},
     {{"size", "--mass", "2 kg", "--speed", "5 kg", "--family", "conical"}, NULL, NULL, 0, "--speed",
      "unknown speed unit 'kg'"},
     {{"size", "--mass", "2 kg", "--family", "conical"}, NULL, NULL, 0, "--speed", "required"},
@@ -915,6 +917,44 @@ static const bad_case BAD[] = {
     {{RATE_CANOPY},
      "canopy:\n  family: conical\n  nominal-diameter: 1 m\n  areal-mass: 0.04\n", NULL, 0, "@IN@:4:15", "needs a unit"},
     {{CHECK}, FAMILY "areal-mass: {value: 0.04, source: s}\n", NULL, 0, "@IN@:11:21", "needs a unit"},
+
+    /* ---- trajectories and landing maps: the launch point and the files ---- */
+    {{PROFILE}, GEO_SITE("latitude: 91 deg, longitude: 0 deg"), NULL, 0, "@IN@:2:18", "outside -90 .. 90 deg"},
+    {{PROFILE}, GEO_SITE("latitude: 35 deg, longitude: 200 deg"), NULL, 0, "@IN@:2:37", "outside -180 .. 180 deg"},
+    {{PROFILE}, GEO_SITE("latitude: 35 deg"), NULL, 0, "@IN@:2:18", "give site.latitude and site.longitude together"},
+    {{PROFILE}, GEO_SITE("longitude: -106 deg"), NULL, 0, "@IN@:2:19", "give site.latitude and site.longitude"},
+    {{PROFILE}, GEO_SITE("latitude: 35, longitude: -106 deg"), NULL, 0, "@IN@:2:18", "needs a unit"},
+    {{PROFILE}, GEO_SITE("latitude: 35 m, longitude: -106 deg"), NULL, 0, "@IN@:2:18", "unknown angle unit 'm'"},
+    {{PROFILE}, GEO_SITE("lattitude: 35 deg, longitude: -106 deg"), NULL, 0, "@IN@:2:8", "did you mean 'latitude'"},
+    {{DISPERSION}, GEO_SITE("latitude: -95 deg, longitude: 10 deg"), NULL, 0, "@IN@:2:18", "outside -90 .. 90 deg"},
+    {{PROFILE, "--geojson", "@OUT@/m.geojson"}, PMISSION, NULL, 0, "--geojson", "no launch point on the map"},
+    {{DISPERSION, "--geojson", "@OUT@/m.geojson"}, PMISSION, NULL, 0, "--geojson", "no launch point on the map"},
+    {{PROFILE, "--geojson", "@OUT@"}, GEO_SITE("latitude: 35 deg, longitude: -106 deg"), NULL, 0, "--geojson: @OUT@",
+     "is a directory"},
+    {{PROFILE, "--geojson", ""}, PMISSION, NULL, 0, "--geojson", "empty output file name"},
+    {{PROFILE, "--trajectory", "@OUT@/no/such/t.csv"}, PMISSION, NULL, 0, "--trajectory: @OUT@/no/such/t.csv",
+     "cannot write"},
+    {{PROFILE, "--trajectory", "/proc/sinkrate-bad-input.csv"}, PMISSION, NULL, 0,
+     "--trajectory: /proc/sinkrate-bad-input.csv", "cannot write"},
+    {{PROFILE, "--band-ends"}, PMISSION, NULL, 0, "--band-ends", "goes with --trajectory or --geojson"},
+    {{PROFILE, "--fast", "--trajectory", "@OUT@/t.csv"}, PMISSION, NULL, 0, "--trajectory", "drop --fast"},
+    {{PROFILE, "--trajectory", "@OUT@/t.csv"}, MISSION, NULL, 0, "@IN@", "no start: block"},
+    {{DISPERSION, "--geojson-samples", "10"}, PMISSION, NULL, 0, "--geojson-samples", "goes with --geojson"},
+    {{DISPERSION, "--geojson", "@OUT@/m.geojson", "--geojson-samples", "-1"}, PMISSION, NULL, 0,
+     "--geojson-samples", "from 0 to 20000"},
+    {{DISPERSION, "--geojson", "@OUT@/m.geojson", "--geojson-samples", "many"}, PMISSION, NULL, 0,
+     "--geojson-samples", "not a whole number"},
+
+    /* ---- --table: one table of the output ---- */
+    {{RATE_OK, "--table", "rate"}, NULL, NULL, 0, "--table", "did you mean 'rates'"},
+    {{"air", "--table", "pressure"}, NULL, NULL, 0, "--table", "its tables: values, atmosphere"},
+    {{SIZE_OK, "--table", ""}, NULL, NULL, 0, "--table", "has no table ''"},
+    {{PROFILE, "--table", "failure_cases", "--format", "csv"}, PMISSION, NULL, 0, "--table",
+     "this output has no table 'failure_cases'"},
+    {{"freefall", "--mass", "1 kg", "--diameter", "10 cm", "--table", "trace_"}, NULL, NULL, 0, "--table",
+     "has no table 'trace_'"},
+    {{"canopies", "--table", "familes"}, NULL, NULL, 0, "--table", "did you mean 'families'"},
+    {{DISPERSION, "--table", "limit"}, PMISSION, NULL, 0, "--table", "did you mean 'limits'"},
 };
 
 /* ---- the harness ---- */

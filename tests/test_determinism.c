@@ -83,6 +83,12 @@ static const det_case CASES[] = {
      {"dispersion", DEMO, "-n", "2000", "--seed", "42", "--threads", "2"}},
     {{"dispersion", "@ROOT@/payloads/balloon-instrument.yaml", "-n", "2000", "--seed", "7", "--threads", "2"},
      {"dispersion", "@ROOT@/payloads/balloon-instrument.yaml", "-n", "2000", "--seed", "7", "--threads", "1"}},
+    /* one table of the output */
+    {{"profile", "@ROOT@/payloads/desert-club-rocket-revised.yaml", "--table", "touchdown"}, {NULL}},
+    {{"dispersion", DEMO, "-n", "500", "--seed", "3", "--table", "percentiles", "--threads", "1"},
+     {"dispersion", DEMO, "-n", "500", "--seed", "3", "--table", "percentiles", "--threads", "2"}},
+    {{"size", "--mass", "12 lbs", "--speed", "20 ft/s", "--family", "conical", "--table", "values"},
+     {"size", "--mass", "192 oz", "--speed", "20 ft/s", "--family", "conical", "--table", "values"}},
 };
 
 #define NCASES (sizeof CASES / sizeof CASES[0])
@@ -227,11 +233,62 @@ static void test_file_equals_stdout(void **state)
     assert_int_equal(rmdir(dir), 0); /* nothing else (no temporaries) was left */
 }
 
+/* The trajectory and the landing maps: the same bytes from two runs, and the
+ * dispersion map at one thread and at two. */
+static void test_map_files_same_bytes(void **state)
+{
+    (void)state;
+    char dir[] = "/tmp/sinkrate-det-maps-XXXXXX";
+    assert_non_null(mkdtemp(dir));
+    const char *root = getenv("SR_ROOT") ? getenv("SR_ROOT") : ".";
+    char revised[512], demo[512];
+    snprintf(revised, sizeof revised, "%s/payloads/desert-club-rocket-revised.yaml", root);
+    snprintf(demo, sizeof demo, "%s/payloads/desert-club-rocket.yaml", root);
+    static const char *const NAMES[] = {"t.csv", "t.json", "p.geojson", "d.geojson"};
+    char *first[4] = {NULL};
+    for (int pass = 0; pass < 2; pass++) {
+        char f[4][600];
+        for (int k = 0; k < 4; k++)
+            snprintf(f[k], sizeof f[k], "%s/%s", dir, NAMES[k]);
+        char *out, *err;
+        int rc = sr_test_cli(&out, &err, "profile", revised, "--trajectory", f[0], "--geojson", f[2], "--band-ends",
+                             "--units", "us", NULL);
+        assert_int_equal(rc, 0);
+        free(out);
+        free(err);
+        rc = sr_test_cli(&out, &err, "profile", revised, "--trajectory", f[1], NULL);
+        assert_int_equal(rc, 0);
+        free(out);
+        free(err);
+        rc = sr_test_cli(&out, &err, "dispersion", demo, "-n", "1000", "--seed", "5", "--threads", pass ? "2" : "1",
+                         "--geojson", f[3], "--geojson-samples", "100", NULL);
+        assert_int_equal(rc, 1);
+        free(out);
+        free(err);
+        for (int k = 0; k < 4; k++) {
+            char *b = slurp(f[k]);
+            assert_non_null(b);
+            if (!pass) {
+                first[k] = b;
+                continue;
+            }
+            if (strcmp(b, first[k]) != 0)
+                print_error("%s differs between two runs\n", NAMES[k]);
+            assert_string_equal(b, first[k]);
+            free(b);
+            free(first[k]);
+            unlink(f[k]);
+        }
+    }
+    assert_int_equal(rmdir(dir), 0);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_same_bytes_twice),
         cmocka_unit_test(test_file_equals_stdout),
+        cmocka_unit_test(test_map_files_same_bytes),
     };
     return cmocka_run_group_tests_name("determinism", tests, NULL, NULL);
 }

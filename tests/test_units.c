@@ -291,6 +291,8 @@ static const label_case LABELS[] = {
     {SR_Q_VISCOSITY, "Pa*s", "lbf*s/ft2", "Pa.s", "Pa.s", "lbf.s/ft2"},
     {SR_Q_KIN_VISCOSITY, "m2/s", "ft2/s", "m2/s", "m2/s", "ft2/s"},
     {SR_Q_ACCEL, "m/s2", "ft/s2", "m/s2", "m/s2", "ft/s2"},
+    {SR_Q_SIZE, "m", "in", "m", "m", "in"},           /* a canopy size: inches under US (see units.h) */
+    {SR_Q_BEARING, "deg", "deg", "rad", "degree", "degree"},
 };
 
 static void test_format_round_trip(void **state)
@@ -429,7 +431,7 @@ static const bad_case BAD[] = {
     {"", SR_Q_MASS, 0, "empty mass"},
     {"   ", SR_Q_SPEED, 0, "empty speed"},
     {"", SR_Q_NONE, 0, "empty"},
-    {"2 stone", SR_Q_MASS, 0, "accepted: kg, g, lb, lbm, oz, slug"},
+    {"2 stone", SR_Q_MASS, 0, "accepted: kg, g, lb, lbs, lbm, oz, slug"},
     {"18 ft/min", SR_Q_SPEED, 0, "accepted: m/s, km/h, ft/s, fps, mph, kn"},
     {"5 KG", SR_Q_MASS, 0, "unknown mass unit 'KG'"},
     {"3 kg", SR_Q_LENGTH, 0, "unknown length unit 'kg'"},
@@ -445,7 +447,7 @@ static const bad_case BAD[] = {
     {"two", SR_Q_NONE, 0, "not a number"},
     {"3 m", SR_Q_NONE, 0, "takes no unit"},
     {"3 %", SR_Q_NONE, 0, "takes no unit"},
-    {"2", SR_Q_MASS, 1, "needs a unit (a mass in kg, g, lb, lbm, oz, slug)"},
+    {"2", SR_Q_MASS, 1, "needs a unit (a mass in kg, g, lb, lbs, lbm, oz, slug)"},
     {"101325", SR_Q_PRESSURE, 1, "needs a unit"},
     {"1.5", SR_Q_LENGTH, 1, "needs a unit"},
     {"12345678901234567890123456789012345678901234567890123456789012345", SR_Q_NONE, 0, "too long"},
@@ -562,12 +564,66 @@ static void test_accepted_forms(void **state)
     }
 }
 
+/* US customary as hobby teams use it: canopy sizes in inches below 10 ft and
+ * in feet from there, masses below a pound in ounces, "lbs" read as pounds;
+ * a bearing never prints as 360. */
+static void test_us_customary_display(void **state)
+{
+    (void)state;
+    static const struct {
+        sr_quantity q;
+        double si, mag;
+        const char *unit;
+        double shown;
+        const char *src;
+    } T[] = {
+        {SR_Q_SIZE, 0.9144, 0.9144, "in", 36.0, NIST ": 1 in = 0.0254 m (36 in = 0.9144 m)"},
+        {SR_Q_SIZE, 3.0, 3.0, "in", 3.0 / 0.0254, NIST ": 1 in = 0.0254 m"},
+        {SR_Q_SIZE, 3.048, 3.048, "ft", 10.0, NIST ": 1 ft = 0.3048 m (10 ft, the switch to feet)"},
+        {SR_Q_SIZE, 1.2, 3.2, "ft", 1.2 / 0.3048, NIST ": 1 ft = 0.3048 m (a column reaching 10 ft)"},
+        {SR_Q_MASS, 0.45359237 / 16.0 * 12.0, 0.34, "oz", 12.0, NIST ": 1 oz = 1/16 lb = 28.349523125 g"},
+        {SR_Q_MASS, 0.45359237, 0.45359237, "lb", 1.0, NIST ": 1 lb = 0.45359237 kg (1 lb, the switch to pounds)"},
+        {SR_Q_MASS, 0.2, 5.3, "lb", 0.2 / 0.45359237, NIST ": 1 lb = 0.45359237 kg (a column reaching 1 lb)"},
+        {SR_Q_LENGTH, 0.9144, 0.9144, "ft", 3.0, NIST ": 1 ft = 0.3048 m (other lengths stay in ft)"},
+    };
+    for (size_t i = 0; i < sizeof T / sizeof T[0]; i++) {
+        assert_string_equal(sr_units_label_at(T[i].q, SR_UNITS_US, T[i].mag), T[i].unit);
+        char q[128];
+        snprintf(q, sizeof q, "%g SI %s shown in %s under --units us", T[i].si, sr_units_quantity_name(T[i].q),
+                 T[i].unit);
+        CHECK_REL_CLASS(SR_CHECK_PUBLISHED, q, T[i].src, T[i].shown,
+                        sr_units_from_si_at(T[i].si, T[i].q, SR_UNITS_US, T[i].mag), 1e-14);
+        /* SI stays SI */
+        assert_string_equal(sr_units_label_at(T[i].q, SR_UNITS_SI, T[i].mag), sr_units_label(T[i].q, SR_UNITS_SI));
+    }
+    double v;
+    sr_error e;
+    assert_int_equal(sr_units_parse("12 lbs", SR_Q_MASS, &v, &e), SR_OK);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "'12 lbs' in SI (kg)", NIST ": 1 lb = 0.45359237 kg", 12 * 0.45359237, v,
+                    1e-15);
+    assert_int_equal(sr_units_parse("36 in", SR_Q_SIZE, &v, &e), SR_OK);
+    assert_true(fabs(v - 0.9144) < 1e-15);
+    /* bearings: due north is 0, never 360, at any number of decimals */
+    static const struct {
+        double deg;
+        int dec;
+        double want;
+    } B[] = {{0.0, 0, 0.0},     {359.6, 0, 0.0},   {359.4, 0, 359.4},   {359.96, 1, 0.0},
+             {359.94, 1, 359.94}, {-90.0, 0, 270.0}, {720.0 + 45.0, 0, 45.0}, {360.0, 3, 0.0}};
+    for (size_t i = 0; i < sizeof B / sizeof B[0]; i++) {
+        double got = sr_units_bearing_deg(B[i].deg * 3.14159265358979323846 / 180.0, B[i].dec);
+        if (!(fabs(got - B[i].want) < 1e-9))
+            fail_msg("bearing %g deg at %d decimals: %g, want %g", B[i].deg, B[i].dec, got, B[i].want);
+    }
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_nist_definitions), cmocka_unit_test(test_udunits),
         cmocka_unit_test(test_format_round_trip), cmocka_unit_test(test_temperature),
         cmocka_unit_test(test_bad_input),         cmocka_unit_test(test_accepted_forms),
+        cmocka_unit_test(test_us_customary_display),
     };
     return cmocka_run_group_tests_name("units", tests, ud_setup, ud_teardown);
 }

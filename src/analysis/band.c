@@ -123,6 +123,14 @@ void sr_band_state(const sr_profile_ctx *ctx, const sr_profile_result *run, size
 int sr_band_run(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode, sr_band_work *w,
                 sr_band_result *r, sr_profile_track *track, sr_error *err)
 {
+    sr_profile_track *const tracks[SR_BAND_NRUNS] = {track, NULL, NULL};
+    return sr_band_run_tracked(bc, design, mode, w, r, tracks, err);
+}
+
+int sr_band_run_tracked(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode,
+                        sr_band_work *w, sr_band_result *r, sr_profile_track *const tracks[SR_BAND_NRUNS],
+                        sr_error *err)
+{
     sr_profile_perturb base;
     if (design)
         base = *design;
@@ -141,7 +149,7 @@ int sr_band_run(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_prof
             p.drag_scale[k] *= bc->drag[e][k];
         for (size_t i = 0; i < bc->nsections; i++)
             p.section_mass_scale[i] *= bc->mass[e][i];
-        rc = sr_profile_run(bc->ctx, &p, mode, w->w, &r->run[e], e == SR_BAND_TYPICAL ? track : NULL, err);
+        rc = sr_profile_run(bc->ctx, &p, mode, w->w, &r->run[e], tracks ? tracks[e] : NULL, err);
     }
     r->nstages = bc->nstages;
     for (size_t k = 0; k < bc->nstages && !rc; k++) {

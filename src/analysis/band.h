@@ -63,6 +63,12 @@ void sr_band_work_free(sr_band_work *w);
 int sr_band_run(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode, sr_band_work *w,
                 sr_band_result *r, sr_profile_track *track, sr_error *err);
 
+/* The same with points for plots and maps of each run (tracks[SR_BAND_*],
+ * NULL entries: none). */
+int sr_band_run_tracked(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode,
+                        sr_band_work *w, sr_band_result *r, sr_profile_track *const tracks[SR_BAND_NRUNS],
+                        sr_error *err);
+
 /* The state at line stretch of stage k in one run of a profile context (for
  * sr_loads_evaluate); valid = 0 when it did not deploy. The drag area is the
  * run's own (a band-end run's includes its band factor). */

@@ -35,6 +35,7 @@ sr_quantity sr_sweep_var_quantity(sr_sweep_var v)
     case SR_SWEEP_MASS: return SR_Q_MASS;
     case SR_SWEEP_TEMP_OFFSET: return SR_Q_TEMP_DIFF;
     case SR_SWEEP_SPEED: return SR_Q_SPEED;
+    case SR_SWEEP_DIAMETER: return SR_Q_SIZE;
     default: return SR_Q_LENGTH;
     }
 }

@@ -22,6 +22,7 @@ typedef struct sr_cli {
     sr_format format;
     sr_unit_system units;
     const char *output;      /* -o FILE, or NULL for stdout */
+    const char *table;       /* --table NAME: only this table of the output, or NULL */
     const char *data_dir;    /* --data DIR, or NULL to search */
     const char *plot_prefix; /* --plot PREFIX */
     const char *plot_format; /* png | svg */

@@ -14,6 +14,7 @@
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/maps.h"
 #include "analysis/input_warnings.h"
 #include "cli/progress.h"
 #include "analysis/dispersion.h"
@@ -29,7 +30,7 @@
 /* style colours: bodies take 1, 3, 4, 8; 2 is the limit, 5 nominal, 6 the ellipses and mean, 7 launch */
 static const int BODY_COLOR[4] = {1, 3, 4, 8};
 
-enum { OPT_SAMPLES = OPT_COMMAND_BASE, OPT_FULL, OPT_MAX_RISK };
+enum { OPT_SAMPLES = OPT_COMMAND_BASE, OPT_FULL, OPT_MAX_RISK, OPT_GEOJSON, OPT_GEOJSON_SAMPLES };
 
 static const struct option OPTS[] = {
     {"seed", required_argument, NULL, OPT_SEED},
@@ -37,6 +38,8 @@ static const struct option OPTS[] = {
     {"samples", required_argument, NULL, OPT_SAMPLES},
     {"full", no_argument, NULL, OPT_FULL},
     {"max-risk", required_argument, NULL, OPT_MAX_RISK},
+    {"geojson", required_argument, NULL, OPT_GEOJSON},
+    {"geojson-samples", required_argument, NULL, OPT_GEOJSON_SAMPLES},
     SR_OPTS_PLOT,
     SR_OPTS_OUTPUT,
     {NULL, 0, NULL, 0}};
@@ -61,11 +64,17 @@ static const char HELP[] =
     "                           path reuses the nominal transients (see `sinkrate profile`)\n"
     "  --max-risk P             exit 1 when a limit is broken in more than this share of the\n"
     "                           samples (\"0.5 %\" or 0.005; default 1 %, our choice, not a rule)\n"
+    "  --geojson FILE           the footprint as a map (GeoJSON, RFC 7946, WGS 84): nominal\n"
+    "                           tracks, nominal and mean landing points, 1- and 3-sigma\n"
+    "                           ellipses, 50 % and 95 % circles, the drift limit; the mission\n"
+    "                           needs site.latitude and site.longitude\n"
+    "  --geojson-samples N      ... and up to N sample landing points (every k-th sample;\n"
+    "                           default 0, at most 20000)\n"
     "The output does not name the thread count: it is the same bytes for any. The figure\n"
     "(--plot, below) is 1250x700 unless --plot-size is given.\n\n";
 
 typedef struct disp_opts {
-    const char *n, *samples, *risk;
+    const char *n, *samples, *risk, *geojson, *geojson_samples;
     int full;
 } disp_opts;
 
@@ -78,6 +87,8 @@ static int take(sr_cli *c, int code, const char *arg, void *ud)
     case OPT_SAMPLES: o->samples = arg; return 0;
     case OPT_FULL: o->full = 1; return 0;
     case OPT_MAX_RISK: o->risk = arg; return 0;
+    case OPT_GEOJSON: o->geojson = arg; return 0;
+    case OPT_GEOJSON_SAMPLES: o->geojson_samples = arg; return 0;
     }
     return 1;
 }
@@ -410,10 +421,10 @@ static void report_body(sr_report *r, const sr_disp_mission *dm, size_t b, const
     sr_report_value(r, K("mean_north"), "mean landing point, north", s->mean_north, SR_Q_LENGTH, SR_FIXED(0));
     sr_report_value(r, K("mean_distance"), "mean landing point, distance", s->mean_distance, SR_Q_LENGTH,
                     SR_FIXED(0));
-    sr_report_value(r, K("mean_bearing"), "mean landing point, bearing", s->mean_bearing, SR_Q_ANGLE, SR_FIXED(0));
+    sr_report_value(r, K("mean_bearing"), "mean landing point, bearing", s->mean_bearing, SR_Q_BEARING, SR_FIXED(0));
     sr_report_value(r, K("sigma1_major"), "1-sigma ellipse, semi-major axis", s->sigma1.major, SR_Q_LENGTH, 3);
     sr_report_value(r, K("sigma1_minor"), "1-sigma ellipse, semi-minor axis", s->sigma1.minor, SR_Q_LENGTH, 3);
-    sr_report_value(r, K("ellipse_bearing"), "ellipse major axis, bearing", s->sigma1.bearing, SR_Q_ANGLE,
+    sr_report_value(r, K("ellipse_bearing"), "ellipse major axis, bearing", s->sigma1.bearing, SR_Q_BEARING,
                     SR_FIXED(0));
     sr_report_value(r, K("sigma3_major"), "3-sigma ellipse, semi-major axis", s->sigma3.major, SR_Q_LENGTH, 3);
     sr_report_value(r, K("sigma3_minor"), "3-sigma ellipse, semi-minor axis", s->sigma3.minor, SR_Q_LENGTH, 3);
@@ -735,6 +746,13 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
         return rc;
     if (o.samples && (rc = sr_cli_check_output(c, "--samples", o.samples)))
         return rc;
+    long geo_samples = 0;
+    if (o.geojson_samples && !o.geojson)
+        return sr_cli_fail(c, "--geojson-samples: goes with --geojson FILE");
+    if (o.geojson_samples && (rc = sr_cli_count(c, "--geojson-samples", o.geojson_samples, 0, 20000, &geo_samples)))
+        return rc;
+    if (o.geojson && (rc = sr_cli_check_output(c, "--geojson", o.geojson)))
+        return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
     sr_disp_mission dm;
@@ -743,6 +761,8 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     memset(&res, 0, sizeof res);
     sr_disp_stats *st = NULL;
     sr_report *r = NULL;
+    char *gbuf = NULL;
+    size_t glen = 0;
     sr_error e;
     if ((rc = sr_cli_catalog(c, &cat)))
         goto out;
@@ -758,6 +778,8 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
+    if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+        goto out;
     if (sr_disp_mission_init(&dm, m, NULL, o.full, &e)) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
@@ -784,6 +806,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     r = sr_report_new("dispersion", "Monte Carlo landing dispersion");
     sr_report_section(r, "Inputs");
     sr_report_text(r, "mission", "mission", m->name);
+    sr_maps_report_position(r, m);
     sr_report_value(r, "samples", "samples", (double)n, SR_Q_NONE, SR_FIXED(0));
     sr_report_value(r, "seed", "seed", (double)seed, SR_Q_NONE, SR_FIXED(0));
     sr_report_text(r, "descent_model", "descent model",
@@ -817,14 +840,21 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
         sr_report_note(r, "A wind-speed deviation is added as a uniform wind along the height-averaged wind "
                           "direction (exact for a constant wind; for a profile or a table it shifts every height "
                           "alike).");
+    /* the map is built before anything is written */
+    if (o.geojson &&
+        (rc = sr_maps_dispersion_geojson(c, m, &dm, &res, st, nom, (size_t)geo_samples, &gbuf, &glen)))
+        goto out;
     if ((rc = sr_cli_emit(c, r)))
         goto out;
     if (o.samples && (rc = write_samples(c, o.samples, m, &dm, &res)))
+        goto out;
+    if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
     if (c->plot_prefix && (rc = figure(c, m, &dm, &res, st, nom, argc, argv)))
         goto out;
     rc = bad ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
+    free(gbuf);
     sr_report_free(r);
     sr_disp_result_free(&res);
     sr_disp_mission_free(&dm);

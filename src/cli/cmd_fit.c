@@ -751,7 +751,7 @@ int sr_cmd_fit(sr_cli *c, int argc, char **argv)
         sr_rtable_column(t, "east", "east", SR_Q_SPEED, 3);
         sr_rtable_column(t, "north", "north", SR_Q_SPEED, 3);
         sr_rtable_column(t, "speed", "speed", SR_Q_SPEED, 3);
-        sr_rtable_column(t, "from", "from", SR_Q_ANGLE, SR_FIXED(0));
+        sr_rtable_column(t, "from", "from", SR_Q_BEARING, SR_FIXED(0));
         for (size_t l = 0; l < nlogs; l++) {
             const char *b = strrchr(logs[l].path, '/');
             for (size_t i = 0; i < res[l]->nwind; i++) {

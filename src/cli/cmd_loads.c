@@ -307,7 +307,7 @@ static int report_one(sr_cli *c, sr_report *r, deploy *d, int mission_stage, con
         return 0;
     }
     band_or_value(r, "nominal_diameter", "nominal diameter D0", d->cp->d0.lo, d->cp->d0.typ, d->cp->d0.hi,
-                  SR_Q_LENGTH, 4);
+                  SR_Q_SIZE, 4);
     band_or_value(r, "drag_area", "drag area CD0 S0 (all canopies)", d->lc.count * d->st[0].cds0 * d->lc.cds_ratio[0],
                   d->lc.count * d->st[0].cds0, d->lc.count * d->st[0].cds0 * d->lc.cds_ratio[2], SR_Q_AREA, 4);
     char buf[512];
@@ -434,7 +434,7 @@ static void figure_subtitle(const deploy *d, sr_unit_system sys, char *buf, size
     sr_report_format_value(v, sizeof v, d->v[1], SR_Q_SPEED, sys, 3);
     sr_report_format_value(a, sizeof a, d->angle, SR_Q_ANGLE, sys, 3);
     sr_report_format_value(z, sizeof z, d->z, SR_Q_LENGTH, sys, SR_FIXED(0));
-    sr_report_format_value(d0, sizeof d0, d->in[1].d0, SR_Q_LENGTH, sys, 3);
+    sr_report_format_value(d0, sizeof d0, d->in[1].d0, SR_Q_SIZE, sys, 3);
     sr_report_format_value(cds, sizeof cds, d->res[1].cds_total, SR_Q_AREA, sys, 3);
     if (d->cp->count > 1)
         snprintf(cl, sizeof cl, "%d x ", d->cp->count);

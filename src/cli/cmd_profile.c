@@ -10,6 +10,7 @@
 #include "analysis/judge.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "cli/maps.h"
 #include "analysis/input_warnings.h"
 #include "cli/profile_failcase.h"
 #include "cli/profile_plot.h"
@@ -19,10 +20,13 @@
 
 #define PI 3.14159265358979323846
 
-enum { OPT_FAST = OPT_COMMAND_BASE, OPT_FAIL, OPT_LIMITS_AT };
+enum { OPT_FAST = OPT_COMMAND_BASE, OPT_FAIL, OPT_LIMITS_AT, OPT_TRAJECTORY, OPT_GEOJSON, OPT_BAND_ENDS };
 
 static const struct option OPTS[] = {
     {"fast", no_argument, NULL, OPT_FAST},
+    {"trajectory", required_argument, NULL, OPT_TRAJECTORY},
+    {"geojson", required_argument, NULL, OPT_GEOJSON},
+    {"band-ends", no_argument, NULL, OPT_BAND_ENDS},
     {"fail", required_argument, NULL, OPT_FAIL},
     {"limits-at", required_argument, NULL, OPT_LIMITS_AT},
     SR_OPTS_PLOT,
@@ -51,11 +55,20 @@ static const char HELP[] =
     SR_HELP_LIMITS_AT
     "  --fast                   the fast mode used for dispersion and design search (steady\n"
     "                           stages from tables, transients reused from the nominal\n"
-    "                           descent, opening loads by the fixed-step solver)\n\n";
+    "                           descent, opening loads by the fixed-step solver)\n"
+    "  --trajectory FILE        the time history of every body: time, height, altitude,\n"
+    "                           descent rate, airspeed, east, north, dynamic pressure, Mach,\n"
+    "                           stage, event; JSON when FILE ends in .json, CSV when in\n"
+    "                           .csv, otherwise as --format json (JSON) or CSV\n"
+    "  --geojson FILE           a landing map (GeoJSON, RFC 7946): tracks, landing points,\n"
+    "                           deployments and the drift limit on WGS 84; the mission needs\n"
+    "                           site.latitude and site.longitude\n"
+    "  --band-ends              trajectory and map also at both ends of the band: the fast\n"
+    "                           end (low drag, heavy) and the slow end (high drag, light)\n\n";
 
 typedef struct profile_opts {
-    int fast;
-    const char *fail, *limits_at;
+    int fast, band_ends;
+    const char *fail, *limits_at, *trajectory, *geojson;
 } profile_opts;
 
 static int take(sr_cli *c, int code, const char *arg, void *ud)
@@ -66,6 +79,9 @@ static int take(sr_cli *c, int code, const char *arg, void *ud)
     case OPT_FAST: o->fast = 1; return 0;
     case OPT_LIMITS_AT: o->limits_at = arg; return 0;
     case OPT_FAIL: o->fail = arg; return 0;
+    case OPT_TRAJECTORY: o->trajectory = arg; return 0;
+    case OPT_GEOJSON: o->geojson = arg; return 0;
+    case OPT_BAND_ENDS: o->band_ends = 1; return 0;
     }
     return 1;
 }
@@ -113,7 +129,7 @@ static void fmt(char *buf, size_t len, const sr_cli *c, double v, sr_quantity q,
 static void wind_text(const sr_cli *c, const sr_wind *w, char *buf, size_t len)
 {
     char v[64], h[64], v2[64], h2[64];
-    double deg = w->from * 180 / PI;
+    double deg = sr_units_bearing_deg(w->from, 0);
     switch (w->kind) {
     case SR_WIND_CALM:
         snprintf(buf, len, "calm");
@@ -149,7 +165,8 @@ static void wind_text(const sr_cli *c, const sr_wind *w, char *buf, size_t len)
         fmt(v2, sizeof v2, c, s1, SR_Q_SPEED, 3);
         fmt(h2, sizeof h2, c, w->h[w->n - 1], SR_Q_LENGTH, SR_FIXED(0));
         snprintf(buf, len, "table%s%s, %zu rows: %s from %.0f deg at %s to %s from %.0f deg at %s above ground",
-                 w->source[0] ? " " : "", w->source, w->n, v, f0 * 180 / PI, h, v2, f1 * 180 / PI, h2);
+                 w->source[0] ? " " : "", w->source, w->n, v, sr_units_bearing_deg(f0, 0), h, v2,
+                 sr_units_bearing_deg(f1, 0), h2);
         return;
     }
     }
@@ -186,6 +203,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
     sr_report_section(r, "Mission");
     sr_report_text(r, "mission", "mission", m->name);
     sr_report_text(r, "file", "file", m->path);
+    sr_maps_report_position(r, m);
     sr_cli_report_atmos(r, &m->atmos);
     wind_text(c, &m->wind, buf, sizeof buf);
     sr_report_text(r, "wind", "wind", buf);
@@ -197,9 +215,10 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
         double we, wn, s, from;
         sr_wind_at(&m->wind, m->start_height, &we, &wn);
         sr_wind_polar(we, wn, &s, &from);
-        snprintf(head, sizeof head, "%.0f deg (%s)", from * 180 / PI, s > 0 ? "into the wind" : "north: calm air");
+        snprintf(head, sizeof head, "%.0f deg (%s)", sr_units_bearing_deg(from, 0),
+                 s > 0 ? "into the wind" : "north: calm air");
     } else {
-        snprintf(head, sizeof head, "%.0f deg", m->start_heading * 180 / PI);
+        snprintf(head, sizeof head, "%.0f deg", sr_units_bearing_deg(m->start_heading, 0));
     }
     snprintf(buf, sizeof buf, "%s above ground, airspeed %s, path angle %s below horizontal, heading %s", v1, v2, v3,
              head);
@@ -244,7 +263,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
                                      "of the drag area while filling)");
     sr_rtable_text_column(t, "stage", "stage");
     sr_rtable_text_column(t, "canopy", "canopy");
-    sr_rtable_column(t, "nominal_diameter", "D0", SR_Q_LENGTH, 3);
+    sr_rtable_column(t, "nominal_diameter", "D0", SR_Q_SIZE, 3);
     sr_rtable_column(t, "drag_area_low", "CdS low", SR_Q_AREA, 3);
     sr_rtable_column(t, "drag_area_typical", "typ", SR_Q_AREA, 3);
     sr_rtable_column(t, "drag_area_high", "high", SR_Q_AREA, 3);
@@ -395,7 +414,7 @@ static void report_touchdown(sr_report *r, const sr_mission *m, const sr_band_re
     sr_rtable_column(t, "rate_high", "high", SR_Q_SPEED, 3);
     sr_rtable_column(t, "speed_ground_high", "ground-rel.", SR_Q_SPEED, 3);
     sr_rtable_column(t, "drift", "drift", SR_Q_LENGTH, SR_FIXED(0));
-    sr_rtable_column(t, "bearing", "bearing", SR_Q_ANGLE, SR_FIXED(0));
+    sr_rtable_column(t, "bearing", "bearing", SR_Q_BEARING, SR_FIXED(0));
     sr_rtable_column(t, "east", "east", SR_Q_LENGTH, SR_FIXED(0));
     sr_rtable_column(t, "north", "north", SR_Q_LENGTH, SR_FIXED(0));
     double wind = 0.0;
@@ -538,6 +557,14 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         return sr_cli_fail(c, "give a mission file (e.g. payloads/desert-club-rocket.yaml)");
     if (first + 1 < argc)
         return sr_cli_fail(c, "unexpected argument '%s' (profile takes one mission file)", argv[first + 1]);
+    if (o.band_ends && !o.trajectory && !o.geojson)
+        return sr_cli_fail(c, "--band-ends: goes with --trajectory or --geojson");
+    if (o.fast && (o.trajectory || o.geojson))
+        return sr_cli_fail(c, "%s: the time history needs the full integration; drop --fast",
+                           o.trajectory ? "--trajectory" : "--geojson");
+    if ((o.trajectory && (rc = sr_cli_check_output(c, "--trajectory", o.trajectory))) ||
+        (o.geojson && (rc = sr_cli_check_output(c, "--geojson", o.geojson))))
+        return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
     sr_band_ctx *bc = NULL;
@@ -545,7 +572,9 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     sr_band_result *B = NULL;
     sr_failcase_result *F = NULL;
     sr_report *r = NULL;
-    sr_profile_point *pts = NULL;
+    sr_profile_point *pts = NULL, *pts_lo = NULL, *pts_hi = NULL;
+    char *tbuf = NULL, *gbuf = NULL;
+    size_t tlen = 0, glen = 0;
     sr_error e;
     if ((rc = sr_cli_catalog(c, &cat)))
         goto out;
@@ -567,6 +596,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
                          m->path);
         goto out;
     }
+    if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+        goto out;
     sr_profile_opts po;
     sr_profile_opts_init(&po);
     if (o.fail && (rc = parse_fail(c, m, o.fail, &po.failed)))
@@ -594,9 +625,10 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
-    sr_profile_track track = {NULL, 0, 0, 0.5};
-    if (c->plot_prefix) {
-        track.cap = 20000;
+    sr_profile_track track = {NULL, 0, 0, 0.5}, track_lo = track, track_hi = track;
+    int maps = o.trajectory || o.geojson, want_track = c->plot_prefix || maps;
+    if (want_track) {
+        track.cap = maps ? SR_MAPS_TRACK_CAP : 20000;
         pts = malloc(track.cap * sizeof *pts);
         if (!pts) {
             rc = sr_cli_fail(c, "out of memory");
@@ -604,7 +636,18 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         }
         track.pt = pts;
     }
-    if (sr_band_run(bc, NULL, mode, w, B, c->plot_prefix ? &track : NULL, &e)) {
+    if (o.band_ends) {
+        track_lo.cap = track_hi.cap = SR_MAPS_TRACK_CAP;
+        track_lo.pt = pts_lo = malloc(SR_MAPS_TRACK_CAP * sizeof *pts_lo);
+        track_hi.pt = pts_hi = malloc(SR_MAPS_TRACK_CAP * sizeof *pts_hi);
+        if (!pts_lo || !pts_hi) {
+            rc = sr_cli_fail(c, "out of memory");
+            goto out;
+        }
+    }
+    sr_profile_track *const tracks[SR_BAND_NRUNS] = {want_track ? &track : NULL, o.band_ends ? &track_lo : NULL,
+                                                     o.band_ends ? &track_hi : NULL};
+    if (sr_band_run_tracked(bc, NULL, mode, w, B, tracks, &e)) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
@@ -658,13 +701,31 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         sr_profile_report_attitudes(r, c, m, F);
     if ((rc = sr_profile_report_failures(r, c, m, &lim, basis)))
         goto out;
+    /* the trajectory and the map are built before anything is written; the band-end runs are the fast end
+     * (low drag, heavy) and the slow end (high drag, light) */
+    sr_map_run mr[3] = {{"typical drag", &B->run[SR_BAND_TYPICAL], &track},
+                        {"low drag", &B->run[SR_BAND_FAST], &track_lo},
+                        {"high drag", &B->run[SR_BAND_SLOW], &track_hi}};
+    size_t nmr = o.band_ends ? 3 : 1;
+    if (o.trajectory && (rc = sr_maps_trajectory(c, o.trajectory, m, sr_band_profile(bc), mr, nmr, &tbuf, &tlen)))
+        goto out;
+    if (o.geojson && (rc = sr_maps_profile_geojson(c, m, mr, nmr, &gbuf, &glen)))
+        goto out;
     if ((rc = sr_cli_emit(c, r)))
+        goto out;
+    if (tbuf && (rc = sr_maps_write(c, "--trajectory", o.trajectory, tbuf, tlen)))
+        goto out;
+    if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
     if (c->plot_prefix && (rc = sr_profile_plot(c, m, sr_band_profile(bc), T, &track, argc, argv)))
         goto out;
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
     free(pts);
+    free(pts_lo);
+    free(pts_hi);
+    free(tbuf);
+    free(gbuf);
     sr_report_free(r);
     sr_band_work_free(w);
     sr_band_ctx_free(bc);

@@ -120,7 +120,7 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
     snprintf(buf, sizeof buf, "%s", sr_size_kind_name(cp.size_kind));
     sr_report_text(r, "size_given_as", "size given as", buf);
     sr_report_band(r, "nominal_area", "nominal area S0 (each)", cp.s0.lo, cp.s0.typ, cp.s0.hi, SR_Q_AREA, 4);
-    sr_report_band(r, "nominal_diameter", "nominal diameter D0", cp.d0.lo, cp.d0.typ, cp.d0.hi, SR_Q_LENGTH, 4);
+    sr_report_band(r, "nominal_diameter", "nominal diameter D0", cp.d0.lo, cp.d0.typ, cp.d0.hi, SR_Q_SIZE, 4);
     sr_band cds = sr_canopy_total_cds(&cp);
     sr_report_band(r, "drag_area", "drag area CdS (all canopies)", cds.lo, cds.typ, cds.hi, SR_Q_AREA, 4);
     if (body > 0)

@@ -28,13 +28,15 @@ static const char HELP[] =
     "usage: sinkrate size --mass M --speed V --family ID [options]\n"
     "       sinkrate size --mission FILE [options]\n\n"
     "Nominal area S0 and nominal, projected and flat diameters a canopy family needs\n"
-    "so that a payload of mass M descends at V at the touchdown altitude. The band\n"
+    "so that a payload of mass M descends at V at the touchdown altitude (or at\n"
+    "--altitude: a drogue sized for its descent rate where the main opens). The band\n"
     "(low / typical / high) comes from the family's drag-coefficient range: the high\n"
     "drag coefficient gives the smallest canopy.\n\n"
     "  --mass M                 payload mass, without the canopy (\"4.2 kg\", \"9 lb\")\n"
-    "  --speed V                target touchdown speed (\"5.5 m/s\", \"18 ft/s\")\n"
-    "  --altitude Z             touchdown altitude above sea level (default: the site\n"
-    "                           elevation, or 0)\n"
+    "  --speed V                target descent speed (\"5.5 m/s\", \"18 ft/s\"): at touchdown,\n"
+    "                           or at --altitude\n"
+    "  --altitude Z             altitude above sea level of the target speed (default: the\n"
+    "                           ground, the site elevation or 0: a touchdown speed)\n"
     "  --body-drag-area A       payload drag area CdA to count with the canopy (\"0.02 m2\")\n"
     "  --mission FILE           take mass (all sections), touchdown-speed limit, site and\n"
     "                           the last stage's family from a mission file; options given\n"
@@ -103,12 +105,12 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     if (o.speed && (rc = sr_cli_quantity(c, "--speed", o.speed, SR_Q_SPEED, 1, &speed)))
         goto out;
     if (isnan(speed)) {
-        rc = sr_cli_fail(c, "--speed: the target touchdown speed is required%s",
+        rc = sr_cli_fail(c, "--speed: the target descent speed is required%s",
                          mis ? " (the mission file has no touchdown-speed limit)" : "");
         goto out;
     }
     if (speed > 300.0) {
-        rc = sr_cli_fail(c, "--speed: %g m/s is not a touchdown speed a canopy is sized for", speed);
+        rc = sr_cli_fail(c, "--speed: %g m/s is not a descent speed a canopy is sized for", speed);
         goto out;
     }
     if (o.body && (rc = sr_cli_quantity(c, "--body-drag-area", o.body, SR_Q_AREA, 0, &body)))
@@ -128,21 +130,28 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     /* the size and what is reported around it (analysis/sizing.h) */
     sr_sizing_request sreq = {.canopy = &cp, .mass = mass, .speed = speed, .body_cds = body, .atmos = &atm,
                               .altitude = z};
-    sr_sizing_result sz;
-    if (sr_sizing_run(&sreq, &sz, &e)) {
+    sr_sizing_result szr;
+    if (sr_sizing_run(&sreq, &szr, &e)) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
-    const sr_size_result res = sz.size;
+    const sr_size_result res = szr.size;
     double areal = cp.areal_mass > 0 ? cp.areal_mass : 0.0;
 
-    r = sr_report_new("size", "canopy size for a target touchdown speed");
+    /* the words fit the stage: a touchdown speed at the ground, a descent
+     * speed anywhere above it (a drogue sized for where the main opens) */
+    int touchdown = fabs(z - ground) < 0.5;
+    r = sr_report_new("size", touchdown ? "canopy size for a target touchdown speed"
+                                        : "canopy size for a target descent speed");
     sr_report_section(r, "Inputs");
     if (mis)
         sr_report_text(r, "mission", "mission", mis->name);
     sr_report_value(r, "mass", "payload mass (without canopy)", mass, SR_Q_MASS, 4);
-    sr_report_value(r, "target_speed", "target touchdown speed", speed, SR_Q_SPEED, 4);
-    sr_report_value(r, "altitude", "touchdown altitude (above sea level)", z, SR_Q_LENGTH, SR_FIXED(0));
+    sr_report_value(r, "target_speed", touchdown ? "target touchdown speed" : "target descent speed", speed,
+                    SR_Q_SPEED, 4);
+    sr_report_value(r, "altitude", touchdown ? "touchdown altitude (above sea level)"
+                                             : "altitude of the target speed (above sea level)",
+                    z, SR_Q_LENGTH, SR_FIXED(0));
     sr_cli_report_atmos(r, &atm);
     sr_report_value(r, "density", "air density there", air.rho, SR_Q_DENSITY, 5);
     sr_cli_report_canopy(r, &cp);
@@ -153,26 +162,28 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
 
     sr_report_section(r, cp.count > 1 ? "Result (each canopy of the cluster)" : "Result");
     sr_report_band(r, "nominal_area", "nominal area S0", res.s0.lo, res.s0.typ, res.s0.hi, SR_Q_AREA, 4);
-    sr_report_band(r, "nominal_diameter", "nominal diameter D0", res.d0.lo, res.d0.typ, res.d0.hi, SR_Q_LENGTH, 4);
-    sr_report_band(r, "projected_diameter", "projected diameter Dp", sz.dp.lo, sz.dp.typ, sz.dp.hi, SR_Q_LENGTH, 4);
-    sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", sz.dc.lo, sz.dc.typ, sz.dc.hi,
-                   SR_Q_LENGTH, 4);
+    sr_report_band(r, "nominal_diameter", "nominal diameter D0", res.d0.lo, res.d0.typ, res.d0.hi, SR_Q_SIZE, 4);
+    sr_report_band(r, "projected_diameter", "projected diameter Dp", szr.dp.lo, szr.dp.typ, szr.dp.hi, SR_Q_SIZE, 4);
+    sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", szr.dc.lo, szr.dc.typ, szr.dc.hi,
+                   SR_Q_SIZE, 4);
     if (areal > 0)
         sr_report_band(r, "canopy_mass", "canopy fabric mass (all canopies)", res.canopy_mass.lo,
                        res.canopy_mass.typ, res.canopy_mass.hi, SR_Q_MASS, 3);
     sr_report_value(r, "drag_area", "drag area needed (total, typical)", res.cds_total, SR_Q_AREA, 4);
-    sr_report_value(r, "touchdown_energy", "touchdown kinetic energy", sz.energy, SR_Q_ENERGY, 4);
+    sr_report_value(r, "touchdown_energy", touchdown ? "touchdown kinetic energy" : "kinetic energy at that speed",
+                    szr.energy, SR_Q_ENERGY, 4);
 
     if (mis && mis->stages[mis->nstages - 1].has_size && !sr_cli_canopy_given(&o.canopy)) {
         const sr_stage *st = &mis->stages[mis->nstages - 1];
         sr_report_section(r, "Against the mission file");
-        char buf[300];
-        snprintf(buf, sizeof buf, "stage '%s': %s %.4g %s", st->name, sr_size_kind_name(st->canopy.size_kind),
-                 st->canopy.size_value, st->canopy.size_kind == SR_SIZE_NOMINAL_AREA ? "m2" : "m");
+        char buf[300], sz[64];
+        sr_report_format_value(sz, sizeof sz, st->canopy.size_value,
+                               st->canopy.size_kind == SR_SIZE_NOMINAL_AREA ? SR_Q_AREA : SR_Q_SIZE, c->units, 4);
+        snprintf(buf, sizeof buf, "stage '%s': %s %s", st->name, sr_size_kind_name(st->canopy.size_kind), sz);
         sr_report_text(r, "file_size", "size in the file", buf);
         sr_report_band(r, "file_nominal_area", "its nominal area S0", st->canopy.s0.lo, st->canopy.s0.typ,
                        st->canopy.s0.hi, SR_Q_AREA, 4);
-        switch (sr_sizing_compare(&sz, &st->canopy)) {
+        switch (sr_sizing_compare(&szr, &st->canopy)) {
         case SR_SIZING_FITS_BAND:
             sr_report_note(r, "The file's canopy is at least as large as the high end of the band: it meets the "
                               "target speed over the whole drag range.");
@@ -192,8 +203,8 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_rtable_column(t, "rate_low", "rate low", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_typical", "rate typical", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_high", "rate high", SR_Q_SPEED, 3);
-    for (size_t i = 0; i < sz.nrates; i++) {
-        double row[] = {sz.rate_altitude[i], sz.rate_density[i], sz.rate[i].lo, sz.rate[i].typ, sz.rate[i].hi};
+    for (size_t i = 0; i < szr.nrates; i++) {
+        double row[] = {szr.rate_altitude[i], szr.rate_density[i], szr.rate[i].lo, szr.rate[i].typ, szr.rate[i].hi};
         sr_rtable_row(t, row, NULL);
     }
     sr_report_note(r, "Sizes are on nominal area S0 (total canopy surface, vent included), D0 = sqrt(4 S0/pi). "
@@ -201,13 +212,14 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_report_note(r, "The band comes from the drag-coefficient range of the family: the high coefficient gives "
                       "the small canopy, the low one the large. Choose from the large end to meet the speed with "
                       "margin.");
-    if (sz.cd0_converted)
+    if (szr.cd0_converted)
         sr_report_note(r, "A measured drag coefficient on %s area was converted to nominal area through the family "
                           "ratio.", sr_ref_name(cp.cd.ref));
     sr_input_warnings iw;
     sr_input_warnings_init(&iw);
     sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "payload mass", c->units);
-    sr_input_warnings_value(&iw, SR_PLAUS_DESCENT_SPEED, speed, "target touchdown speed", c->units);
+    sr_input_warnings_value(&iw, SR_PLAUS_DESCENT_SPEED, speed,
+                            touchdown ? "target touchdown speed" : "target descent speed", c->units);
     sr_input_warnings_value(&iw, SR_PLAUS_CANOPY_D0, res.d0.typ, "nominal diameter D0 needed (typical)", c->units);
     if (areal > 0)
         sr_input_warnings_value(&iw, SR_PLAUS_AREAL_MASS, areal, "canopy areal mass", c->units);

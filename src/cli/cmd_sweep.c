@@ -193,7 +193,7 @@ static void size_label(char *buf, size_t len, const sr_canopy *cp, sr_unit_syste
 {
     char v[64];
     static const char *SYM[] = {"D0", "Dp", "Dc", "S0"};
-    sr_report_format_value(v, sizeof v, cp->size_value, cp->size_kind == SR_SIZE_NOMINAL_AREA ? SR_Q_AREA : SR_Q_LENGTH,
+    sr_report_format_value(v, sizeof v, cp->size_value, cp->size_kind == SR_SIZE_NOMINAL_AREA ? SR_Q_AREA : SR_Q_SIZE,
                            sys, 3);
     snprintf(buf, len, "%s %s", SYM[cp->size_kind], v);
 }
@@ -715,9 +715,9 @@ static void build_report(run *R, sr_report *r)
         if (R->canopies[i].areal_mass > 0)
             areal = 1;
     if (speed) {
-        sr_rtable_column(t, "nominal_diameter_low", "D0 low", SR_Q_LENGTH, 4);
-        sr_rtable_column(t, "nominal_diameter_typical", "typical", SR_Q_LENGTH, 4);
-        sr_rtable_column(t, "nominal_diameter_high", "high", SR_Q_LENGTH, 4);
+        sr_rtable_column(t, "nominal_diameter_low", "D0 low", SR_Q_SIZE, 4);
+        sr_rtable_column(t, "nominal_diameter_typical", "typical", SR_Q_SIZE, 4);
+        sr_rtable_column(t, "nominal_diameter_high", "high", SR_Q_SIZE, 4);
         sr_rtable_column(t, "nominal_area_typical", "S0 typ", SR_Q_AREA, 4);
         if (areal)
             sr_rtable_column(t, "canopy_mass_typical", "canopy mass typ", SR_Q_MASS, 3);
@@ -901,7 +901,7 @@ static int figure(run *R, int argc, char **argv)
         sr_plot_set_axes(p, 0, &a);
     } else if (R->var == SR_SWEEP_SPEED) {
         char dl[128];
-        snprintf(dl, sizeof dl, "nominal diameter D0 needed [%s]", ul);
+        snprintf(dl, sizeof dl, "nominal diameter D0 needed [%s]", sr_units_label(SR_Q_SIZE, sys));
         a.xlabel = xl;
         a.ylabel = dl;
         a.key = SR_PLOT_KEY_ABOVE;
@@ -922,7 +922,7 @@ static int figure(run *R, int argc, char **argv)
         char xname[48], n2[48], n3[48], n4[48], n5[48], n6[48], n7[48];
         snprintf(xname, sizeof xname, "%s[%s]", X_KEY[R->var], ux);
         const char *what = R->var == SR_SWEEP_SPEED ? "d0" : "rate";
-        const char *uw = R->var == SR_SWEEP_SPEED ? ul : uv;
+        const char *uw = R->var == SR_SWEEP_SPEED ? sr_units_label(SR_Q_SIZE, sys) : uv;
         snprintf(n2, sizeof n2, "%s_low[%s]", what, uw);
         snprintf(n3, sizeof n3, "%s_typical[%s]", what, uw);
         snprintf(n4, sizeof n4, "%s_high[%s]", what, uw);
@@ -939,7 +939,7 @@ static int figure(run *R, int argc, char **argv)
         for (size_t i = 0; i < R->nx; i++) {
             const sr_sweep_row *w = &cv->rows[i];
             sr_band y = R->var == SR_SWEEP_SPEED ? w->d0 : w->v;
-            sr_quantity qy = R->var == SR_SWEEP_SPEED ? SR_Q_LENGTH : SR_Q_SPEED;
+            sr_quantity qy = R->var == SR_SWEEP_SPEED ? SR_Q_SIZE : SR_Q_SPEED;
             double row[7] = {sr_units_from_si(w->x, qx, sys),     sr_units_from_si(y.lo, qy, sys),
                              sr_units_from_si(y.typ, qy, sys),    sr_units_from_si(y.hi, qy, sys),
                              sr_units_from_si(w->t.lo, SR_Q_TIME, sys), sr_units_from_si(w->t.typ, SR_Q_TIME, sys),

@@ -13,6 +13,7 @@
 
 #include "analysis/input_warnings.h"
 #include "cli/cliplot.h"
+#include "cli/tables.h"
 #include "output/fileio.h"
 #include "output/plot.h"
 #include "files/mission.h"
@@ -23,6 +24,8 @@ const char SR_HELP_OUTPUT[] =
     "  --format text|csv|json   output format (default text)\n"
     "  --units si|us            SI (default) or US customary units (ft, lb, ft/s, lbf)\n"
     "  -o, --output FILE        write to FILE (atomically) instead of standard output\n"
+    "  --table NAME             only this table of the output (with the caution and the\n"
+    "                           warnings): one clean table for a spreadsheet; names below\n"
     "  --data DIR               directory holding canopies/ (default: found next to the\n"
     "                           program, $SINKRATE_DATA, or the installed share directory)\n"
     "  -h, --help               this help\n";
@@ -130,6 +133,14 @@ static void help_with_groups(sr_cli *c, const char *help, const struct option *o
         snprintf(buf + l, len - l, "%s%s", l && buf[l - 1] == '\n' && (l < 2 || buf[l - 2] != '\n') ? "\n" : "",
                  G[i].text);
     }
+    /* the tables --table can pick */
+    if (has_option(opts, OPT_TABLE) && sr_cli_tables(c->cmd)) {
+        char names[512];
+        sr_cli_tables_list(c->cmd, names, sizeof names);
+        size_t l = strlen(buf);
+        snprintf(buf + l, len - l, "%sTables of its output (--table NAME): %s\n",
+                 l && buf[l - 1] == '\n' && (l < 2 || buf[l - 2] != '\n') ? "\n" : "", names);
+    }
     sr_cli_help(c, buf);
     free(buf);
 }
@@ -178,6 +189,18 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
             break;
         case OPT_DATA:
             c->data_dir = optarg;
+            break;
+        case OPT_TABLE:
+            if (!sr_cli_table_known(c->cmd, optarg)) {
+                char names[512];
+                const char *const *t = sr_cli_tables(c->cmd);
+                const char *s = t ? sr_yaml_suggest(optarg, t) : NULL;
+                sr_cli_tables_list(c->cmd, names, sizeof names);
+                if (s)
+                    return sr_cli_fail(c, "--table: %s has no table '%s'; did you mean '%s'?", c->cmd, optarg, s);
+                return sr_cli_fail(c, "--table: %s has no table '%s' (its tables: %s)", c->cmd, optarg, names);
+            }
+            c->table = optarg;
             break;
         case OPT_PLOT:
             if (!*optarg)
@@ -636,15 +659,27 @@ void sr_cli_report_atmos(sr_report *r, const sr_atmos *m)
 {
     char buf[512];
     switch (m->kind) {
-    case SR_ATMOS_SITE:
-        /* as values, so they follow --units */
+    case SR_ATMOS_SITE: {
+        /* say what the model does with what was given; values as values, so they follow --units */
+        int T = m->site_measured & SR_ATMOS_MEASURED_T, P = m->site_measured & SR_ATMOS_MEASURED_P;
         sr_report_text(r, "atmosphere", "atmosphere",
-                       "site model: measured surface values, 1976 standard lapse above, hydrostatic pressure");
+                       T && P ? "site model: measured surface temperature and pressure, 1976 standard lapse above, "
+                                "hydrostatic pressure"
+                       : T    ? "site model: measured surface temperature, the standard pressure of the elevation, "
+                                "1976 standard lapse above, hydrostatic pressure"
+                       : P    ? "site model: measured surface pressure, the standard temperature of the elevation, "
+                                "1976 standard lapse above, hydrostatic pressure"
+                              : "U.S. Standard Atmosphere 1976 unchanged, with the ground at the site elevation (no "
+                                "measured surface values)");
         sr_report_value(r, "site_elevation", "site elevation", m->site_z, SR_Q_LENGTH, SR_FIXED(0));
-        sr_report_value(r, "surface_temperature", "surface temperature", m->site_T, SR_Q_TEMP, SR_FIXED(1));
-        sr_report_value(r, "temperature_offset", "difference to standard", m->dT, SR_Q_TEMP_DIFF, 3);
-        sr_report_value(r, "surface_pressure", "surface pressure", m->site_p, SR_Q_PRESSURE, 5);
+        sr_report_value(r, "surface_temperature", T ? "surface temperature" : "surface temperature (standard)",
+                        m->site_T, SR_Q_TEMP, SR_FIXED(1));
+        if (T)
+            sr_report_value(r, "temperature_offset", "difference to standard", m->dT, SR_Q_TEMP_DIFF, 3);
+        sr_report_value(r, "surface_pressure", P ? "surface pressure" : "surface pressure (standard)", m->site_p,
+                        SR_Q_PRESSURE, 5);
         break;
+    }
     case SR_ATMOS_OFFSET:
         sr_report_text(r, "atmosphere", "atmosphere", "U.S. Standard Atmosphere 1976, offset temperature at "
                                                       "standard pressure");
@@ -668,11 +703,13 @@ void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t
         break;
     case SR_ATMOS_SITE: {
         sr_report_format_value(z, sizeof z, m->site_z, SR_Q_LENGTH, sys, SR_FIXED(0));
+        if (!m->site_measured) {
+            snprintf(buf, len, "U.S. Standard Atmosphere 1976, ground at %s", z);
+            break;
+        }
         double T = sys == SR_UNITS_US ? (m->site_T - 273.15) * 1.8 + 32.0 : m->site_T - 273.15;
-        if (sys == SR_UNITS_US)
-            snprintf(p, sizeof p, "%.2f inHg", m->site_p / 3386.389);
-        else
-            snprintf(p, sizeof p, "%.0f hPa", m->site_p / 100.0);
+        /* one pressure unit per output: the tables' (Pa, psf under US) */
+        sr_report_format_value(p, sizeof p, m->site_p, SR_Q_PRESSURE, sys, 4);
         snprintf(buf, len, "site %s, %.1f %s, %s", z, T, sys == SR_UNITS_US ? "\u00b0F" : "\u00b0C", p);
         break;
     }
@@ -723,11 +760,11 @@ int sr_cli_emit(sr_cli *c, const sr_report *r)
         return sr_cli_fail(c, "out of memory");
     sr_error e;
     static const sr_report_format F[] = {SR_REPORT_TEXT, SR_REPORT_CSV, SR_REPORT_JSON};
-    int rc = sr_report_write(r, mem, F[c->format], c->units, &e);
+    int rc = sr_report_write_part(r, mem, F[c->format], c->units, c->table, &e);
     fclose(mem);
     if (rc) {
         free(buf);
-        return sr_cli_fail(c, "%s", e.msg);
+        return sr_cli_fail(c, "%s%s", c->table ? "--table: " : "", e.msg);
     }
     if (c->output) {
         sr_cli_made(c, c->output);

@@ -21,7 +21,7 @@ enum {
     /* canopy */
     OPT_FAMILY, OPT_CANOPY, OPT_NOMINAL_DIAMETER, OPT_PROJECTED_DIAMETER, OPT_FLAT_DIAMETER, OPT_NOMINAL_AREA,
     OPT_CLUSTER, OPT_CLUSTER_FACTOR, OPT_AREAL_MASS, OPT_DRAG_COEFFICIENT, OPT_DRAG_REFERENCE,
-    OPT_PLOT_SIZE,
+    OPT_PLOT_SIZE, OPT_TABLE,
     /* first free code for a command's own options */
     OPT_COMMAND_BASE = 1100
 };
@@ -29,7 +29,7 @@ enum {
 #define SR_OPTS_OUTPUT                                                                                        \
     {"format", required_argument, NULL, OPT_FORMAT}, {"units", required_argument, NULL, OPT_UNITS},           \
         {"output", required_argument, NULL, 'o'}, {"data", required_argument, NULL, OPT_DATA},                \
-        {"help", no_argument, NULL, 'h'}
+        {"table", required_argument, NULL, OPT_TABLE}, {"help", no_argument, NULL, 'h'}
 
 #define SR_OPTS_PLOT                                                                                          \
     {"plot", required_argument, NULL, OPT_PLOT}, {"plot-format", required_argument, NULL, OPT_PLOT_FORMAT},   \

@@ -11,7 +11,8 @@
 static const char *const TOP_KEYS[] = {"mission", "description", "site",          "sections",    "stages",
                                        "start",   "limits",      "failure-cases", "uncertainty", NULL};
 static const char *const TOP_REQ[] = {"mission", "sections", "stages", NULL};
-static const char *const SITE_KEYS[] = {"elevation", "temperature", "pressure", "sounding", "wind", NULL};
+static const char *const SITE_KEYS[] = {"elevation", "temperature", "pressure", "sounding", "wind", "latitude",
+                                        "longitude", NULL};
 static const char *const SECTION_KEYS[] = {"name", "mass", "drag-area", "body", "rigid-with", NULL};
 static const char *const BODY_KEYS[] = {"shape", "diameter", "length", "curve", "cd-table", "area", "interpolation",
                                         "stable-end-on", NULL};
@@ -82,12 +83,41 @@ static int parse_atmos(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *e
     return SR_OK;
 }
 
+/* site.latitude and site.longitude: the launch or release point on WGS 84,
+ * in degrees with their unit, north and east positive; both or neither. */
+static int parse_position(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *err)
+{
+    int rc;
+    yaml_node_t *la = sr_yaml_get(y, site, "latitude"), *lo = sr_yaml_get(y, site, "longitude");
+    if (!la && !lo)
+        return SR_OK;
+    if (!la || !lo)
+        return sr_yaml_fail(y, la ? la : lo, err, "give site.latitude and site.longitude together (the launch or "
+                                                  "release point on WGS 84)");
+    double a, b;
+    if ((rc = sr_yaml_quantity(y, la, SR_Q_ANGLE, &a, err)) || (rc = sr_yaml_quantity(y, lo, SR_Q_ANGLE, &b, err)))
+        return rc;
+    a *= 180.0 / PI;
+    b *= 180.0 / PI;
+    if (!(a >= -90.0 && a <= 90.0))
+        return sr_yaml_fail(y, la, err, "latitude %g deg is outside -90 .. 90 deg (north positive, south negative)", a);
+    if (!(b >= -180.0 && b <= 180.0))
+        return sr_yaml_fail(y, lo, err, "longitude %g deg is outside -180 .. 180 deg (east positive, west negative)",
+                            b);
+    m->has_position = 1;
+    m->latitude = a;
+    m->longitude = b;
+    return SR_OK;
+}
+
 static int parse_site(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *err)
 {
     int rc;
     if ((rc = sr_yaml_check_map(y, site, "site", SITE_KEYS, NULL, err)))
         return rc;
     if ((rc = parse_atmos(m, y, site, err)))
+        return rc;
+    if ((rc = parse_position(m, y, site, err)))
         return rc;
     yaml_node_t *wn = sr_yaml_get(y, site, "wind");
     return wn ? sr_mission_parse_wind(m, y, wn, err) : SR_OK;

@@ -75,6 +75,9 @@ typedef struct sr_mission {
     char path[512];
     sr_atmos atmos;          /* site weather: standard, site model or sounding */
     double ground;           /* site elevation above mean sea level, m */
+    int has_position;        /* site.latitude / site.longitude given */
+    double latitude;         /* launch or release point (the origin of east and north) on WGS 84, deg north */
+    double longitude;        /* ... deg east */
     sr_wind wind;            /* site.wind; calm when absent */
     size_t nsections;
     sr_section sections[SR_MISSION_MAX_SECTIONS];

@@ -356,17 +356,57 @@ static void fmt_num(char *buf, size_t len, double x, int sig)
     }
 }
 
+/* Decimals a value is printed with: fixed, or about that many for a number
+ * of significant digits of a bearing (at most 360). */
+static int decimals_of(int sig)
+{
+    return sig >= SR_FIXED(0) ? sig - SR_FIXED(0) : sig > 3 ? sig - 3 : 0;
+}
+
+/* An SI value in the unit of its value, band or column (mag: the largest
+ * magnitude there, which picks inches or feet, ounces or pounds under US);
+ * a bearing wrapped so it never prints 360. */
+static double shown(double si, sr_quantity q, sr_unit_system sys, double mag, int decimals)
+{
+    if (isnan(si))
+        return si;
+    if (q == SR_Q_BEARING)
+        return sr_units_bearing_deg(si, decimals);
+    return sr_units_from_si_at(si, q, sys, mag);
+}
+
+static const char *unit_of(sr_quantity q, sr_unit_system sys, double mag)
+{
+    return sr_units_label_at(q, sys, mag);
+}
+
+/* The largest magnitude of an item (NaN when it has no number). */
+static double item_mag(const item *it)
+{
+    double m = NAN;
+    for (int k = 0; k < (it->kind == IT_BAND ? 3 : 1); k++)
+        if (isfinite(it->v[k]) && !(fabs(it->v[k]) <= m))
+            m = fabs(it->v[k]);
+    return m;
+}
+
+static double col_mag(const sr_rtable *t, size_t c)
+{
+    double m = NAN;
+    for (size_t i = 0; i < t->nrows; i++) {
+        double x = t->nums[i * t->ncols + c];
+        if (isfinite(x) && !(fabs(x) <= m))
+            m = fabs(x);
+    }
+    return m;
+}
+
 void sr_report_format_value(char *buf, size_t len, double si, sr_quantity q, sr_unit_system sys, int sig)
 {
     char num[64];
-    fmt_num(num, sizeof num, sr_units_from_si(si, q, sys), sig);
-    const char *u = sr_units_label(q, sys);
+    fmt_num(num, sizeof num, shown(si, q, sys, fabs(si), decimals_of(sig)), sig);
+    const char *u = unit_of(q, sys, fabs(si));
     snprintf(buf, len, "%s%s%s", num, u[0] ? " " : "", u);
-}
-
-static double disp(double si, sr_quantity q, sr_unit_system sys)
-{
-    return isnan(si) ? si : sr_units_from_si(si, q, sys);
 }
 
 /* ---- text ---- */
@@ -400,7 +440,14 @@ static void wrap(FILE *f, const char *prefix, const char *text, size_t width)
     fputc('\n', f);
 }
 
-static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
+/* Which parts a selection keeps (see sr_report_write_part). */
+typedef struct part {
+    int values, notes;
+    const sr_rtable *only; /* NULL: every table (when tables is set) */
+    int tables;
+} part;
+
+static void write_text(const sr_report *r, FILE *f, sr_unit_system sys, const part *sel)
 {
     fprintf(f, "sinkrate %s: %s\n", r->command, r->title);
     wrap(f, "", CAUTION, 78);
@@ -410,7 +457,7 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
     for (size_t i = 0; i < r->nitems; i++)
         if (r->items[i].kind != IT_SECTION && r->items[i].label && strlen(r->items[i].label) > lw)
             lw = strlen(r->items[i].label);
-    for (size_t i = 0; i < r->nitems; i++) {
+    for (size_t i = 0; sel->values && i < r->nitems; i++) {
         const item *it = &r->items[i];
         char a[64], b[64], c[64];
         switch (it->kind) {
@@ -418,16 +465,19 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
             fprintf(f, "\n%s\n", it->label);
             break;
         case IT_VALUE: {
-            fmt_num(a, sizeof a, disp(it->v[0], it->q, sys), it->sig);
-            const char *u = sr_units_label(it->q, sys);
+            double mg = item_mag(it);
+            fmt_num(a, sizeof a, shown(it->v[0], it->q, sys, mg, decimals_of(it->sig)), it->sig);
+            const char *u = unit_of(it->q, sys, mg);
             fprintf(f, "  %-*s  %s%s%s\n", (int)lw, it->label, a, u[0] ? " " : "", u);
             break;
         }
         case IT_BAND: {
-            fmt_num(a, sizeof a, disp(it->v[0], it->q, sys), it->sig);
-            fmt_num(b, sizeof b, disp(it->v[1], it->q, sys), it->sig);
-            fmt_num(c, sizeof c, disp(it->v[2], it->q, sys), it->sig);
-            const char *u = sr_units_label(it->q, sys);
+            double mg = item_mag(it);
+            int dec = decimals_of(it->sig);
+            fmt_num(a, sizeof a, shown(it->v[0], it->q, sys, mg, dec), it->sig);
+            fmt_num(b, sizeof b, shown(it->v[1], it->q, sys, mg, dec), it->sig);
+            fmt_num(c, sizeof c, shown(it->v[2], it->q, sys, mg, dec), it->sig);
+            const char *u = unit_of(it->q, sys, mg);
             fprintf(f, "  %-*s  %s / %s / %s%s%s  (low / typical / high)\n", (int)lw, it->label, a, b, c,
                     u[0] ? " " : "", u);
             break;
@@ -440,8 +490,10 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
         }
         }
     }
-    for (size_t k = 0; k < r->ntables; k++) {
+    for (size_t k = 0; sel->tables && k < r->ntables; k++) {
         const sr_rtable *t = r->tables[k];
+        if (sel->only && t != sel->only)
+            continue;
         if (t->title)
             fprintf(f, "\n%s\n", t->title);
         else
@@ -458,7 +510,8 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
         for (size_t c = 0; c < nc; c++) {
             const column *col = &t->cols[c];
             char u[64];
-            const char *ul = col->is_text ? "" : sr_units_label(col->q, sys);
+            double mg = col->is_text ? NAN : col_mag(t, c);
+            const char *ul = col->is_text ? "" : unit_of(col->q, sys, mg);
             snprintf(u, sizeof u, "%s%s%s", ul[0] ? "[" : "", ul, ul[0] ? "]" : "");
             cells[c] = strdup(col->label);
             cells[nc + c] = strdup(u);
@@ -467,7 +520,8 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
                 if (col->is_text)
                     snprintf(buf, sizeof buf, "%s", t->texts[i * nc + c] ? t->texts[i * nc + c] : "");
                 else
-                    fmt_num(buf, sizeof buf, disp(t->nums[i * nc + c], col->q, sys), col->sig);
+                    fmt_num(buf, sizeof buf, shown(t->nums[i * nc + c], col->q, sys, mg, decimals_of(col->sig)),
+                            col->sig);
                 cells[(i + 2) * nc + c] = strdup(buf);
             }
             for (size_t i = 0; i < nr + 2; i++) {
@@ -498,7 +552,7 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys)
         free(cells);
         free(w);
     }
-    if (r->notes.n) {
+    if (r->notes.n && sel->notes) {
         fputs("\nNotes\n", f);
         for (size_t i = 0; i < r->notes.n; i++)
             wrap(f, "  - ", r->notes.s[i], 78);
@@ -537,7 +591,7 @@ static void csv_comment(FILE *f, const char *text)
     fputc('\n', f);
 }
 
-static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
+static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys, const part *sel)
 {
     char buf[1200];
     snprintf(buf, sizeof buf, "sinkrate %s %s: %s", SR_VERSION, r->command, r->title);
@@ -551,11 +605,13 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
         snprintf(buf, sizeof buf, "warning: %s", r->warnings.s[i]);
         csv_comment(f, buf);
     }
-    for (size_t i = 0; i < r->notes.n; i++) {
+    for (size_t i = 0; sel->notes && i < r->notes.n; i++) {
         snprintf(buf, sizeof buf, "note: %s", r->notes.s[i]);
         csv_comment(f, buf);
     }
-    int values_as_rows = r->ntables == 0;
+    /* the values are a table of their own when there is no other, or when
+     * they are the part asked for; otherwise comment lines */
+    int values_as_rows = r->ntables == 0 || (sel->values && !sel->tables);
     if (values_as_rows) {
         csv_cell(f, "quantity", 1);
         csv_cell(f, "value", 0);
@@ -563,11 +619,12 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
         fputs("\r\n", f);
     }
     static const char *suffix[3] = {"_low", "_typical", "_high"};
-    for (size_t i = 0; i < r->nitems; i++) {
+    for (size_t i = 0; sel->values && i < r->nitems; i++) {
         const item *it = &r->items[i];
         if (it->kind == IT_SECTION)
             continue;
-        const char *u = it->kind == IT_TEXT ? "" : sr_units_label(it->q, sys);
+        double mg = item_mag(it);
+        const char *u = it->kind == IT_TEXT ? "" : unit_of(it->q, sys, mg);
         int n = it->kind == IT_BAND ? 3 : 1;
         for (int k = 0; k < n; k++) {
             char key[256];
@@ -577,21 +634,23 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
                 if (it->kind == IT_TEXT)
                     csv_cell(f, it->text, 0);
                 else
-                    csv_num(f, disp(it->v[k], it->q, sys), 0);
+                    csv_num(f, shown(it->v[k], it->q, sys, mg, 9), 0);
                 csv_cell(f, u, 0);
                 fputs("\r\n", f);
             } else {
                 if (it->kind == IT_TEXT)
                     snprintf(buf, sizeof buf, "%s = %s", key, it->text);
                 else
-                    snprintf(buf, sizeof buf, "%s = %.10g %s", key, disp(it->v[k], it->q, sys), u);
+                    snprintf(buf, sizeof buf, "%s = %.10g %s", key, shown(it->v[k], it->q, sys, mg, 9), u);
                 csv_comment(f, buf);
             }
         }
     }
-    for (size_t k = 0; k < r->ntables; k++) {
+    for (size_t k = 0; sel->tables && k < r->ntables; k++) {
         const sr_rtable *t = r->tables[k];
-        if (r->ntables > 1) {
+        if (sel->only && t != sel->only)
+            continue;
+        if (r->ntables > 1 && !sel->only) {
             if (k > 0)
                 fputs("\r\n", f);
             snprintf(buf, sizeof buf, "table: %s", t->key);
@@ -599,7 +658,7 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
         }
         for (size_t c = 0; c < t->ncols; c++) {
             const column *col = &t->cols[c];
-            const char *u = col->is_text ? "" : sr_units_label(col->q, sys);
+            const char *u = col->is_text ? "" : unit_of(col->q, sys, col_mag(t, c));
             if (u[0])
                 snprintf(buf, sizeof buf, "%s [%s]", col->key, u);
             else
@@ -607,12 +666,16 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys)
             csv_cell(f, buf, c == 0);
         }
         fputs("\r\n", f);
+        double mags[64];
+        for (size_t c = 0; c < t->ncols && c < 64; c++)
+            mags[c] = t->cols[c].is_text ? NAN : col_mag(t, c);
         for (size_t i = 0; i < t->nrows; i++) {
             for (size_t c = 0; c < t->ncols; c++) {
                 if (t->cols[c].is_text)
                     csv_cell(f, t->texts[i * t->ncols + c] ? t->texts[i * t->ncols + c] : "", c == 0);
                 else
-                    csv_num(f, disp(t->nums[i * t->ncols + c], t->cols[c].q, sys), c == 0);
+                    csv_num(f, shown(t->nums[i * t->ncols + c], t->cols[c].q, sys, c < 64 ? mags[c] : NAN, 9),
+                            c == 0);
             }
             fputs("\r\n", f);
         }
@@ -626,7 +689,7 @@ static json_t *jnum(double x)
     return isfinite(x) ? json_real(x) : json_null();
 }
 
-static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error *err)
+static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, const part *sel, sr_error *err)
 {
     json_t *root = json_object();
     json_object_set_new(root, "tool", json_string("sinkrate"));
@@ -638,35 +701,45 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error 
     for (size_t i = 0; i < r->header_keys.n; i++)
         json_object_set_new(root, r->header_keys.s[i], json_string(r->header_texts.s[i]));
     json_t *vals = json_object();
-    for (size_t i = 0; i < r->nitems; i++) {
+    for (size_t i = 0; sel->values && i < r->nitems; i++) {
         const item *it = &r->items[i];
         json_t *v = NULL;
+        double mg = item_mag(it);
         if (it->kind == IT_VALUE) {
             v = json_object();
-            json_object_set_new(v, "value", jnum(disp(it->v[0], it->q, sys)));
-            json_object_set_new(v, "unit", json_string(sr_units_label(it->q, sys)));
+            json_object_set_new(v, "value", jnum(shown(it->v[0], it->q, sys, mg, 9)));
+            json_object_set_new(v, "unit", json_string(unit_of(it->q, sys, mg)));
         } else if (it->kind == IT_BAND) {
             v = json_object();
-            json_object_set_new(v, "low", jnum(disp(it->v[0], it->q, sys)));
-            json_object_set_new(v, "typical", jnum(disp(it->v[1], it->q, sys)));
-            json_object_set_new(v, "high", jnum(disp(it->v[2], it->q, sys)));
-            json_object_set_new(v, "unit", json_string(sr_units_label(it->q, sys)));
+            json_object_set_new(v, "low", jnum(shown(it->v[0], it->q, sys, mg, 9)));
+            json_object_set_new(v, "typical", jnum(shown(it->v[1], it->q, sys, mg, 9)));
+            json_object_set_new(v, "high", jnum(shown(it->v[2], it->q, sys, mg, 9)));
+            json_object_set_new(v, "unit", json_string(unit_of(it->q, sys, mg)));
         } else if (it->kind == IT_TEXT) {
             v = json_string(it->text ? it->text : "");
         }
         if (v)
             json_object_set_new(vals, it->key, v);
     }
-    json_object_set_new(root, "values", vals);
+    if (sel->values)
+        json_object_set_new(root, "values", vals);
+    else
+        json_decref(vals);
     json_t *tabs = json_object();
-    for (size_t k = 0; k < r->ntables; k++) {
+    for (size_t k = 0; sel->tables && k < r->ntables; k++) {
         const sr_rtable *t = r->tables[k];
+        if (sel->only && t != sel->only)
+            continue;
         json_t *jt = json_object(), *cols = json_array(), *rows = json_array();
+        double mags[64];
+        for (size_t c = 0; c < t->ncols && c < 64; c++)
+            mags[c] = t->cols[c].is_text ? NAN : col_mag(t, c);
         for (size_t c = 0; c < t->ncols; c++) {
             json_t *jc = json_object();
             json_object_set_new(jc, "key", json_string(t->cols[c].key));
-            json_object_set_new(jc, "unit",
-                                json_string(t->cols[c].is_text ? "" : sr_units_label(t->cols[c].q, sys)));
+            json_object_set_new(jc, "unit", json_string(t->cols[c].is_text ? ""
+                                                                            : unit_of(t->cols[c].q, sys,
+                                                                                      c < 64 ? mags[c] : NAN)));
             json_array_append_new(cols, jc);
         }
         for (size_t i = 0; i < t->nrows; i++) {
@@ -676,7 +749,7 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error 
                 if (t->cols[c].is_text)
                     json_array_append_new(row, json_string(t->texts[at] ? t->texts[at] : ""));
                 else
-                    json_array_append_new(row, jnum(disp(t->nums[at], t->cols[c].q, sys)));
+                    json_array_append_new(row, jnum(shown(t->nums[at], t->cols[c].q, sys, c < 64 ? mags[c] : NAN, 9)));
             }
             json_array_append_new(rows, row);
         }
@@ -686,13 +759,19 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error 
         json_object_set_new(jt, "rows", rows);
         json_object_set_new(tabs, t->key, jt);
     }
-    json_object_set_new(root, "tables", tabs);
+    if (sel->tables)
+        json_object_set_new(root, "tables", tabs);
+    else
+        json_decref(tabs);
     json_t *notes = json_array(), *warns = json_array();
-    for (size_t i = 0; i < r->notes.n; i++)
+    for (size_t i = 0; sel->notes && i < r->notes.n; i++)
         json_array_append_new(notes, json_string(r->notes.s[i]));
     for (size_t i = 0; i < r->warnings.n; i++)
         json_array_append_new(warns, json_string(r->warnings.s[i]));
-    json_object_set_new(root, "notes", notes);
+    if (sel->notes)
+        json_object_set_new(root, "notes", notes);
+    else
+        json_decref(notes);
     json_object_set_new(root, "warnings", warns);
     int rc = json_dumpf(root, f, JSON_INDENT(2) | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(10));
     json_decref(root);
@@ -702,19 +781,45 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, sr_error 
     return SR_OK;
 }
 
-int sr_report_write(const sr_report *r, FILE *f, sr_report_format fmt, sr_unit_system sys, sr_error *err)
+int sr_report_write_part(const sr_report *r, FILE *f, sr_report_format fmt, sr_unit_system sys, const char *table,
+                         sr_error *err)
 {
+    part sel = {1, 1, NULL, 1};
+    if (table) {
+        sel.notes = 0;
+        if (strcmp(table, SR_REPORT_VALUES) == 0) {
+            sel.tables = 0;
+        } else {
+            sel.values = 0;
+            for (size_t k = 0; k < r->ntables && !sel.only; k++)
+                if (r->tables[k]->key && strcmp(r->tables[k]->key, table) == 0)
+                    sel.only = r->tables[k];
+            if (!sel.only) {
+                char have[512] = SR_REPORT_VALUES;
+                for (size_t k = 0; k < r->ntables; k++) {
+                    size_t l = strlen(have);
+                    snprintf(have + l, sizeof have - l, ", %s", r->tables[k]->key ? r->tables[k]->key : "?");
+                }
+                return sr_error_set(err, SR_EINVAL, "this output has no table '%s' (it has: %s)", table, have);
+            }
+        }
+    }
     switch (fmt) {
     case SR_REPORT_TEXT:
-        write_text(r, f, sys);
+        write_text(r, f, sys, &sel);
         break;
     case SR_REPORT_CSV:
-        write_csv(r, f, sys);
+        write_csv(r, f, sys, &sel);
         break;
     case SR_REPORT_JSON:
-        return write_json(r, f, sys, err);
+        return write_json(r, f, sys, &sel, err);
     }
     if (ferror(f))
         return sr_error_set(err, SR_EIO, "cannot write the output");
     return SR_OK;
+}
+
+int sr_report_write(const sr_report *r, FILE *f, sr_report_format fmt, sr_unit_system sys, sr_error *err)
+{
+    return sr_report_write_part(r, f, fmt, sys, NULL, err);
 }

@@ -62,6 +62,14 @@ size_t sr_rtable_rows(const sr_rtable *t);
 
 int sr_report_write(const sr_report *r, FILE *f, sr_report_format fmt, sr_unit_system sys, sr_error *err);
 
+/* Only one part of the report (the header, the caution and the warnings
+ * stay): the table whose key is `table`, or with "values" the single values
+ * (as a quantity,value,unit table in CSV). table NULL: the whole report. A
+ * table this report does not hold is an error that lists the ones it has. */
+#define SR_REPORT_VALUES "values"
+int sr_report_write_part(const sr_report *r, FILE *f, sr_report_format fmt, sr_unit_system sys, const char *table,
+                         sr_error *err);
+
 /* Format one SI value in a unit system with sig significant digits, with
  * its unit ("5.52 m/s"). */
 void sr_report_format_value(char *buf, size_t len, double si, sr_quantity q, sr_unit_system sys, int sig);

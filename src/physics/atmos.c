@@ -136,6 +136,7 @@ int sr_atmos_init_site(sr_atmos *m, double z_site, double T_s, double p_s, sr_er
                             z_site, pstd);
     m->kind = SR_ATMOS_SITE;
     m->site_z = z_site;
+    m->site_measured = (isnan(T_s) ? 0 : SR_ATMOS_MEASURED_T) | (isnan(p_s) ? 0 : SR_ATMOS_MEASURED_P);
     m->dT = isnan(T_s) ? 0.0 : T_s - Tstd;
     m->site_T = Tstd + m->dT;
     m->site_p = isnan(p_s) ? pstd : p_s;
@@ -340,9 +341,13 @@ void sr_atmos_describe(const sr_atmos *m, char *buf, size_t len)
         snprintf(buf, len, "U.S. Standard Atmosphere 1976, temperature %+.1f K at standard pressure", m->dT);
         break;
     case SR_ATMOS_SITE:
-        snprintf(buf, len,
-                 "site at %.0f m: surface %.2f K (%+.1f K from standard), %.0f Pa; standard lapse above", m->site_z,
-                 m->site_T, m->dT, m->site_p);
+        if (!m->site_measured)
+            snprintf(buf, len, "U.S. Standard Atmosphere 1976, ground at %.0f m (no measured surface values)",
+                     m->site_z);
+        else
+            snprintf(buf, len, "site at %.0f m: surface %.2f K (%+.1f K from standard%s), %.0f Pa%s; standard lapse above",
+                     m->site_z, m->site_T, m->dT, m->site_measured & SR_ATMOS_MEASURED_T ? "" : ": standard",
+                     m->site_p, m->site_measured & SR_ATMOS_MEASURED_P ? "" : " (standard)");
         break;
     case SR_ATMOS_SOUNDING:
         snprintf(buf, len, "sounding %s (%zu rows, %.0f m .. %.0f m)", m->source[0] ? m->source : "table", m->n,

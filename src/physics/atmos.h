@@ -47,8 +47,11 @@ typedef struct sr_atmos {
     double dT;        /* offset / site temperature offset from standard, K */
     double p_scale;   /* site: measured surface pressure over the offset-model pressure */
     double site_z;    /* site elevation (m), 0 when not a site model */
-    double site_T;    /* measured surface temperature, K (site) */
-    double site_p;    /* surface pressure, Pa (site) */
+    double site_T;    /* surface temperature, K (site): measured, or the standard one of the elevation */
+    double site_p;    /* surface pressure, Pa (site): measured, or the standard one of the elevation */
+    int site_measured; /* SR_ATMOS_MEASURED_T | SR_ATMOS_MEASURED_P: which surface values were given */
+#define SR_ATMOS_MEASURED_T 1
+#define SR_ATMOS_MEASURED_P 2
     /* ln p on nodes every SR_ATMOS_NODE_STEP m' of geopotential height, with
      * its exact slope -g0 M0/(R* T), for cubic Hermite evaluation */
 #define SR_ATMOS_NODE_H0 (-1500.0)

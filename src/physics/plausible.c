@@ -13,7 +13,7 @@ static const sr_plaus_rule RULES[SR_PLAUS_NKINDS] = {
     {SR_PLAUS_MASS, SR_Q_MASS, 0.005, 1.0e4, "lighter than any payload a canopy is sized for",
      "heavier than the payloads this tool is meant for", "is the unit right?"},
     /* the largest canopies flown are about 40-50 m across (from memory); pilot chutes about 0.1-0.2 m */
-    {SR_PLAUS_CANOPY_D0, SR_Q_LENGTH, 0.1, 50.0, "smaller than any recovery canopy",
+    {SR_PLAUS_CANOPY_D0, SR_Q_SIZE, 0.1, 50.0, "smaller than any recovery canopy",
      "wider than the largest canopies built (about 40-50 m)", "is the unit right?"},
     /* recovery canopies land at about 3-8 m/s (common practice); under 1 m/s the canopy is
      * far too large for the mass, which is what a unit slip in either produces */
@@ -35,8 +35,8 @@ const sr_plaus_rule *sr_plausible_rule(sr_plaus_kind kind)
 /* A value in the unit system with its unit, three significant digits. */
 static void fmt(char *buf, size_t len, double si, sr_quantity q, sr_unit_system sys)
 {
-    double v = sr_units_from_si(si, q, sys);
-    snprintf(buf, len, fabs(v) >= 1000.0 ? "%.0f %s" : "%.3g %s", v, sr_units_label(q, sys));
+    double v = sr_units_from_si_at(si, q, sys, fabs(si));
+    snprintf(buf, len, fabs(v) >= 1000.0 ? "%.0f %s" : "%.3g %s", v, sr_units_label_at(q, sys, fabs(si)));
 }
 
 int sr_plausible_check(sr_plaus_kind kind, double si, const char *what, sr_unit_system sys, char *buf, size_t len)

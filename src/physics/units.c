@@ -23,6 +23,7 @@ static const unit_def UNITS[] = {
     {SR_Q_MASS, "kg", 1.0, 0},
     {SR_Q_MASS, "g", 1e-3, 0},
     {SR_Q_MASS, "lb", SR_LB, 0},
+    {SR_Q_MASS, "lbs", SR_LB, 0},
     {SR_Q_MASS, "lbm", SR_LB, 0},
     {SR_Q_MASS, "oz", SR_LB / 16.0, 0},
     {SR_Q_MASS, "slug", SR_LBF / SR_FT, 0},
@@ -134,7 +135,7 @@ typedef struct display_def {
 
 static const display_def DISPLAY[SR_Q_COUNT_] = {
     [SR_Q_NONE] = {"number", "", "", "(none)"},
-    [SR_Q_MASS] = {"mass", "kg", "lb", "kg, g, lb, lbm, oz, slug"},
+    [SR_Q_MASS] = {"mass", "kg", "lb", "kg, g, lb, lbs, lbm, oz, slug"},
     [SR_Q_LENGTH] = {"length", "m", "ft", "m, cm, mm, km, ft, in"},
     [SR_Q_AREA] = {"area", "m2", "ft2", "m2, cm2, ft2, in2"},
     [SR_Q_SPEED] = {"speed", "m/s", "ft/s", "m/s, km/h, ft/s, fps, mph, kn"},
@@ -150,10 +151,19 @@ static const display_def DISPLAY[SR_Q_COUNT_] = {
     [SR_Q_VISCOSITY] = {"dynamic viscosity", "Pa*s", "lbf*s/ft2", "Pa*s, lbf*s/ft2"},
     [SR_Q_KIN_VISCOSITY] = {"kinematic viscosity", "m2/s", "ft2/s", "m2/s, ft2/s"},
     [SR_Q_ACCEL] = {"acceleration", "m/s2", "ft/s2", "m/s2, ft/s2, g"},
+    [SR_Q_SIZE] = {"length", "m", "in", "m, cm, mm, km, ft, in"},
+    [SR_Q_BEARING] = {"angle", "deg", "deg", "deg, rad"},
 };
+
+/* The quantity whose units a display-only quantity shares. */
+static sr_quantity base_of(sr_quantity q)
+{
+    return q == SR_Q_SIZE ? SR_Q_LENGTH : q == SR_Q_BEARING ? SR_Q_ANGLE : q;
+}
 
 int sr_units_lookup(const char *unit, sr_quantity q, double *factor, double *offset)
 {
+    q = base_of(q);
     for (size_t i = 0; i < N_UNITS; i++) {
         if (UNITS[i].q == q && strcmp(UNITS[i].name, unit) == 0) {
             *factor = UNITS[i].factor;
@@ -261,7 +271,7 @@ static int parse(const char *text, sr_quantity q, double *si, int need_unit, sr_
         if (q == SR_Q_TEMP && v < 0.0)
             return sr_error_set(err, SR_EINVAL, "'%s' is below absolute zero (a bare temperature is in K)", text);
         /* a bare angle is degrees: see units.h */
-        *si = q == SR_Q_ANGLE ? v * (PI / 180.0) : v;
+        *si = base_of(q) == SR_Q_ANGLE ? v * (PI / 180.0) : v;
         return SR_OK;
     }
     /* "2,5 kg": a decimal comma reads as a unit ",5 kg"; say what went wrong */
@@ -308,6 +318,39 @@ double sr_units_from_si(double si, sr_quantity q, sr_unit_system sys)
     if (sr_units_lookup(sr_units_label(q, sys), q, &f, &off) != SR_OK)
         return si;
     return si / f - off;
+}
+
+const char *sr_units_label_at(sr_quantity q, sr_unit_system sys, double mag)
+{
+    if (sys == SR_UNITS_US && isfinite(mag)) {
+        if (q == SR_Q_SIZE)
+            return fabs(mag) >= 10.0 * SR_FT ? "ft" : "in";
+        if (q == SR_Q_MASS)
+            return fabs(mag) < SR_LB ? "oz" : "lb";
+    }
+    return sr_units_label(q, sys);
+}
+
+double sr_units_from_si_at(double si, sr_quantity q, sr_unit_system sys, double mag)
+{
+    if (q <= SR_Q_NONE || q >= SR_Q_COUNT_)
+        return si;
+    double f, off;
+    if (sr_units_lookup(sr_units_label_at(q, sys, mag), q, &f, &off) != SR_OK)
+        return si;
+    return si / f - off;
+}
+
+double sr_units_bearing_deg(double rad, int decimals)
+{
+    double d = fmod(rad * (180.0 / PI), 360.0);
+    if (d < 0.0)
+        d += 360.0;
+    double scale = pow(10.0, decimals < 0 ? 0 : decimals > 12 ? 12 : decimals);
+    /* 359.96 at one decimal would print 360.0: that is north, 0.0 */
+    if (round(d * scale) / scale >= 360.0)
+        d = 0.0;
+    return d;
 }
 
 const char *sr_units_quantity_name(sr_quantity q)

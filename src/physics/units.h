@@ -23,6 +23,8 @@ typedef enum sr_quantity {
     SR_Q_VISCOSITY,    /* dynamic */
     SR_Q_KIN_VISCOSITY,
     SR_Q_ACCEL,
+    SR_Q_SIZE,         /* a canopy's diameter: a length shown in inches (feet from 10 ft on) under US */
+    SR_Q_BEARING,      /* a direction clockwise from north: an angle shown from 0 up to, never at, 360 deg */
     SR_Q_COUNT_
 } sr_quantity;
 
@@ -41,6 +43,18 @@ int sr_units_parse_strict(const char *text, sr_quantity q, double *si, sr_error 
 /* Display unit of a quantity in a unit system, and the SI value in it. */
 const char *sr_units_label(sr_quantity q, sr_unit_system sys);
 double sr_units_from_si(double si, sr_quantity q, sr_unit_system sys);
+
+/* US customary as hobby teams use it: the display unit of q for values up
+ * to the magnitude mag (SI; the largest of a value, a band or a table
+ * column; NaN: the plain unit). Under US a canopy size below 10 ft is in
+ * inches, from 10 ft on in feet; a mass below 1 lb in ounces. Otherwise as
+ * sr_units_label / sr_units_from_si. */
+const char *sr_units_label_at(sr_quantity q, sr_unit_system sys, double mag);
+double sr_units_from_si_at(double si, sr_quantity q, sr_unit_system sys, double mag);
+
+/* A bearing (rad) in degrees within [0, 360) that, printed with `decimals`
+ * decimals, never reads 360 (a due-north bearing prints 0). */
+double sr_units_bearing_deg(double rad, int decimals);
 
 /* Name of a quantity ("mass", "speed") and its accepted units,
  * comma-separated, for messages and help. */

@@ -339,7 +339,7 @@ const double *sr_wind_knots(const sr_wind *w, size_t *n)
 
 void sr_wind_describe(const sr_wind *w, char *buf, size_t len)
 {
-    double deg = w->from * 180.0 / PI;
+    double deg = sr_units_bearing_deg(w->from, 0);
     switch (w->kind) {
     case SR_WIND_CALM:
         snprintf(buf, len, "calm");
@@ -363,7 +363,8 @@ void sr_wind_describe(const sr_wind *w, char *buf, size_t len)
         sr_wind_polar(w->east[w->n - 1], w->north[w->n - 1], &s1, &f1);
         snprintf(buf, len, "table%s%s: %zu rows, %.1f m/s from %.0f deg at %.0f m to %.1f m/s from %.0f deg at %.0f m "
                  "above ground",
-                 w->source[0] ? " " : "", w->source, w->n, s0, f0 * 180 / PI, w->h[0], s1, f1 * 180 / PI,
+                 w->source[0] ? " " : "", w->source, w->n, s0, sr_units_bearing_deg(f0, 0), w->h[0], s1,
+                 sr_units_bearing_deg(f1, 0),
                  w->h[w->n - 1]);
         break;
     }

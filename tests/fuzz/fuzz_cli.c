@@ -25,8 +25,11 @@ static FILE *devnull;
 /* Long options that write files other than through sr_file_write_atomic
  * (--plot: its directory and rendered figure; --samples: streamed to a
  * temporary and renamed); commands that add such options add them here.
- * An abbreviation counts, as getopt_long accepts it ("--sam" for --samples). */
-static const char *const WRITERS[] = {"plot", "plot-format", "plot-size", "samples", "write-canopy", "write-wind", NULL};
+ * An abbreviation counts, as getopt_long accepts it ("--sam" for --samples).
+ * --trajectory and --geojson write through sr_file_write_atomic today; they
+ * stay listed until every output goes through one stubbed writer. */
+static const char *const WRITERS[] = {"plot",         "plot-format", "plot-size",  "samples", "write-canopy",
+                                      "write-wind",   "trajectory",  "geojson",    NULL};
 
 /* The check before any work makes and removes a probe file in the directory
  * an argument names: while fuzzing, only its checks of the name itself. */
