@@ -108,11 +108,14 @@ validation-doc: $(B)/sinkrate
 	@$(PYTHON) scripts/validation.py --verify docs/validation.md
 	@sed -n 's/^\*\*\(.*\)\*\*$$/docs\/validation.md: \1/p' docs/validation.md | head -1
 
-# check = the suite, the reference libraries, the suite and fuzz regressions
-# under ASan+UBSan, the CLI examples under valgrind, then docs/validation.md.
+# check = the Makefile's own order (pkg-config read only after the deps step,
+# scripts/makefile-order.sh), the suite, the reference libraries, the suite and
+# fuzz regressions under ASan+UBSan, the CLI examples under valgrind, then
+# docs/validation.md.
 # The deps step runs in its own make first, so the build after it reads the
 # pkg-config flags of packages it may just have installed.
 check:
+	@sh scripts/makefile-order.sh
 	@$(MAKE) --no-print-directory deps
 	@$(MAKE) --no-print-directory unit
 	@$(MAKE) --no-print-directory reference
@@ -128,7 +131,7 @@ FUZZ_SECONDS ?= 60
 FUZZ_NAMES  := $(sort $(patsubst tests/fuzz/fuzz_%.c,%,$(wildcard tests/fuzz/fuzz_*.c)))
 FUZZ_FLAGS   = -Itests/fuzz -DSR_SOURCE_ROOT='"$(CURDIR)"'
 # the command-line target must never write files: its stub replaces the writer
-FUZZ_WRAP_cli = -Wl,--wrap=sr_file_write_atomic -Wl,--wrap=sr_file_check_writable
+FUZZ_WRAP_cli = -Wl,--wrap=sr_txn_reserve -Wl,--wrap=sr_txn_write -Wl,--wrap=sr_txn_commit
 
 # Each fuzz target as a plain program replaying its seed corpus and the
 # regression inputs (crashes the fuzzer once found) ...

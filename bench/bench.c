@@ -22,6 +22,8 @@
 #include "analysis/judge.h"
 #include "analysis/sweep.h"
 #include <omp.h>
+#include "files/yamldoc.h"
+#include "output/fileio.h"
 #include "analysis/fit.h"
 #include "files/flightlog.h"
 
@@ -438,6 +440,51 @@ static void bench_dispersion(void)
     free(cat);
 }
 
+/* Seconds to load (or refuse) a YAML text, best of reps. */
+static double per_yaml_load(const char *buf, size_t len, int reps)
+{
+    double best = 1e9;
+    for (int r = 0; r < reps; r++) {
+        double t0 = now();
+        sr_yaml y;
+        sr_error e;
+        if (sr_yaml_load_string(&y, "bench", buf, len, &e) == SR_OK)
+            sr_yaml_free(&y);
+        best = fmin(best, now() - t0);
+    }
+    return best;
+}
+
+/* A hostile file costs about what a real one does: 0.9 MB of 29 000
+ * anchors and 29 000 aliases (libyaml's own loader searches every anchor
+ * for every alias: 16 s of CPU for such a file) against the demo mission. */
+static void bench_yaml(void)
+{
+    char *demo;
+    size_t dlen;
+    sr_error e;
+    if (sr_file_read("payloads/desert-club-rocket.yaml", 1u << 20, &demo, &dlen, &e)) {
+        printf("yaml: %s\n\n", e.msg);
+        return;
+    }
+    size_t cap = 1u << 20, n = 0;
+    char *hostile = malloc(cap);
+    if (!hostile) {
+        free(demo);
+        return;
+    }
+    for (int i = 0; i < 29000 && n + 64 < cap; i++)
+        n += (size_t)snprintf(hostile + n, cap - n, "k%d: &a%d x\n", i, i);
+    for (int i = 0; i < 29000 && n + 64 < cap; i++)
+        n += (size_t)snprintf(hostile + n, cap - n, "r%d: *a%d\n", i, i);
+    double t_demo = per_yaml_load(demo, dlen, 50), t_bad = per_yaml_load(hostile, n, 5);
+    printf("yaml: the demo mission (%zu bytes)        %7.1f us/load\n", dlen, t_demo * 1e6);
+    printf("yaml: 29k anchors x 29k aliases, refused %7.1f us      = %.0fx the demo mission (goal: < 1000x)\n\n",
+           t_bad * 1e6, t_bad / t_demo);
+    free(hostile);
+    free(demo);
+}
+
 static double process_time(const char *bin, char *const argv[], int reps)
 {
     double best = 1e9;
@@ -574,6 +621,7 @@ int main(int argc, char **argv)
     printf("opening loads, fast path (fixed steps)  %7.2f us/solve  = %.0fx faster than the adaptive solve\n\n",
            t_fast * 1e6, t_open / t_fast);
 
+    bench_yaml();
     bench_profile();
     bench_band();
     bench_fit();

@@ -12,6 +12,9 @@ M="$root/payloads/desert-club-rocket.yaml"
 printf 'mission: x\nsections: [\n' > "$tmp/bad.yaml"
 printf 'altitude [m],temperature [C],pressure [hPa]\n0,15,1013.25\n1000,8.5,898.7\n3000,-4.5,701.1\n' > "$tmp/sounding.csv"
 printf 'Re,Cd\n1e3,0.47\n1e2,0.40\n' > "$tmp/bad-drag.csv"
+printf 'mission: x\nsite: {elevation: &e 100 m}\nsections:\n  - {name: a, mass: *e}\n' > "$tmp/alias.yaml"
+printf 'mission: "x\\e[31m"\nsections: []\n' > "$tmp/escape.yaml"
+ln -s "$tmp/target.txt" "$tmp/dangling.txt"
 printf 'mission: w\nsite: {wind: {model: power-law, speed: 5 m/s, from: 250 deg, gradient-height: 300 m}}\nsections: [{name: a, mass: 0.35 kg}]\nstages: [{name: m, family: conical, nominal-diameter: 7 m}]\nstart: {height: 3000 m}\n' > "$tmp/windy.yaml"
 # valgrind's own failure code, distinct from the program's 0/1/2
 VG=97
@@ -63,6 +66,15 @@ done <<EOF_LIST
 2 check "$tmp/bad.yaml" "$tmp/nonexistent.yaml"
 2 frobnicate
 2 sweep --mass 2kg --family conical --nominal-diameter 1.5m --from 0 --to 1km --step 0
+0 air -o "$tmp/dangling.txt"
+0 freefall --mass 1kg --diameter 10cm --plot "$tmp/n1/n2/n3/ff"
+2 dispersion "$M" -n 10 -o "$tmp/x.txt" --samples "$tmp/x.txt"
+2 profile "$M" -o "$M"
+2 dispersion "$M" -n 0 --plot "$tmp/d1/d2/d3/fig" --samples "$tmp/s2.csv"
+2 size --mass 2kg --mass 3kg --speed 5m/s --family conical
+2 rate -n 5
+2 size --mission "$tmp/alias.yaml" --speed 5m/s
+2 check "$tmp/escape.yaml"
 2 profile "$tmp/bad.yaml"
 2 freefall --cd-table "$tmp/bad-drag.csv" --diameter 10cm --mass 1kg
 2 dispersion "$M" -n 200 --samples "$tmp/missing/dir/s.csv"

@@ -37,7 +37,8 @@ typedef enum gen {
     GEN_DEEP_BLOCK, /* @IN@ nests 40 block mappings */
     GEN_LAUGHS,     /* @IN@ multiplies one list through 9 levels of aliases */
     GEN_LONG_NUMBER, /* @IN@ is a mission whose mass has 300 digits */
-    GEN_BINARY2      /* @IN2@ is 256 bytes 0..255 (and @IN@ is `in`) */
+    GEN_BINARY2,     /* @IN2@ is 256 bytes 0..255 (and @IN@ is `in`) */
+    GEN_ANCHORS      /* @IN@ defines 58 000 anchors and uses each (0.9 MB) */
 } gen;
 
 typedef struct bad_case {
@@ -95,7 +96,8 @@ typedef struct bad_case {
 
 static const bad_case BAD[] = {
     /* ---- options: values and units ---- */
-    {{SIZE_OK, "--mass", "-2 kg"}, NULL, NULL, 0, "--mass", "greater than zero"},
+    {{"size", "--mass", "-2 kg", "--speed", "5 m/s", "--family", "conical"}, NULL, NULL, 0, "--mass",
+     "greater than zero"},
     {{"size", "--mass", "0", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "greater than zero"},
     {{"size", "--mass", "nan", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "not a number"},
     {{"size", "--mass", "inf kg", "--speed", "5", "--family", "conical"}, NULL, NULL, 0, "--mass", "not a number"},
@@ -361,7 +363,32 @@ static const bad_case BAD[] = {
     {{CHECK}, "# only a comment\n", NULL, 0, "@IN@:1:1", "no YAML document"},
     {{SIZE_MISSION}, NULL, NULL, GEN_BINARY, "@IN@:1:1", "binary data"},
     {{CHECK}, "id: \xff\xfe\x80\x81\n", NULL, 0, "@IN@:1:5", "malformed YAML"},
-    {{CHECK}, "id: [[[[[[[[[[[[[[[[[[x]]]]]]]]]]]]]]]]]]\n", NULL, 0, "@IN@:1:21", "nested more than 16 levels"},
+    {{CHECK}, "id: [[[[[[[[[[[[[[[[[[x]]]]]]]]]]]]]]]]]]\n", NULL, 0, "@IN@:1:20", "nested more than 16 levels"},
+    {{SIZE_MISSION}, NULL, NULL, GEN_ANCHORS, "@IN@:1001:8", "more than 1000 anchors"},
+    /* an anchored value is judged, and reported, where it is used */
+    {{SIZE_MISSION}, "mission: m\nsite: {elevation: &e 100 m}\nsections:\n  - {name: a, mass: *e}\n" STAGES, NULL, 0,
+     "@IN@:4:21", "unknown mass unit 'm'"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: *nope}\n" STAGES, NULL, 0, "@IN@:4:21",
+     "the alias *nope names no anchor"},
+    /* a NUL character written as a YAML escape, in a value and in a key */
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: a, mass: \"2 kg\\0 garbage\"}\n" STAGES, NULL, 0, "@IN@:4:21",
+     "a NUL character"},
+    {{SIZE_MISSION}, "\"mission\\0junk\": m\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:1:1", "a NUL character"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - name: main\n    family: \"conical\\0x\"\n"
+     "    nominal-diameter: 1.5 m\n", NULL, 0, "@IN@:7:13", "a NUL character"},
+    /* control characters in names: refused, never written to a report */
+    {{SIZE_MISSION}, "mission: \"m\\e[31mred\"\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:1:10",
+     "a control character (an escape (ESC), U+001B)"},
+    {{SIZE_MISSION}, "mission: \"\\e]0;title\\a\"\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:1:10",
+     "a control character"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: \"a\\nb\", mass: 2 kg}\n" STAGES, NULL, 0, "@IN@:4:12",
+     "a control character (a line break, U+000A)"},
+    {{SIZE_MISSION}, MISSION_HEAD "  - {name: \"a\\rb\", mass: 2 kg}\n" STAGES, NULL, 0, "@IN@:4:12",
+     "a control character (a carriage return"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - name: \"m\\bx\"\n    family: conical\n"
+     "    nominal-diameter: 1.5 m\n", NULL, 0, "@IN@:6:11", "a control character (a backspace"},
+    {{SIZE_MISSION}, MISSION_HEAD SECTION "stages:\n  - name: \"m\\x9bx\"\n    family: conical\n"
+     "    nominal-diameter: 1.5 m\n", NULL, 0, "@IN@:6:11", "a control character (U+009B)"},
     {{SIZE_MISSION}, NULL, NULL, GEN_DEEP_BLOCK, "@IN@:18:33", "too deeply nested"},
     {{SIZE_MISSION}, NULL, NULL, GEN_LAUGHS, "@IN@:", "too large or too deeply nested"},
     {{SIZE_MISSION}, NULL, NULL, GEN_BIG, "@IN@", "larger than 1 MiB"},
@@ -693,6 +720,63 @@ static const bad_case BAD[] = {
     {{LOADS_CANOPY, "--speed", "30 m/s", "--limits-at", "typical"}, NULL, NULL, 0, "--limits-at", "needs --mission"},
     {{"loads", "--mission", "@IN@", "--mass", "3 kg"}, PMISSION, NULL, 0, "--mass", "drop --mass"},
     {{"loads", "--mission", "@IN@", "--limits-at", "loose"}, PMISSION, NULL, 0, "--limits-at", "not band-end"},
+
+    /* ---- outputs that are inputs of the run, or each other (same path, link or inode) ---- */
+    {{PROFILE, "-o", "@IN@"}, PMISSION, NULL, 0, "-o: @IN@", "is also a file this run reads (the mission file)"},
+    {{DISPERSION, "--samples", "@IN@"}, PMISSION, NULL, 0, "--samples: @IN@",
+     "is also a file this run reads (the mission file)"},
+    {{AIR_SOUNDING, "-o", "@IN@"}, SOUNDING_HEAD "0,15,1013.25\n1000,8.5,898.7\n", NULL, 0, "-o: @IN@",
+     "is also a file this run reads (--sounding)"},
+    {{CHECK, "-o", "@IN@"}, MISSION, NULL, 0, "-o: @IN@", "is also a file this run reads (a file to check)"},
+    {{RATE_CANOPY, "-o", "@IN@"}, "canopy:\n  family: conical\n  nominal-diameter: 1 m\n", NULL, 0, "-o: @IN@",
+     "is also a file this run reads (--canopy)"},
+    {{PROFILE, "-o", "@IN2@"}, "mission: m\nsite: {sounding: second}\nsections:\n" SECTION STAGES START,
+     SOUNDING_HEAD "0,15,1013.25\n3000,-4.5,701.1\n", 0, "-o: @IN2@",
+     "is also a file this run reads (the mission's sounding)"},
+    {{PROFILE, "-o", "@IN2@"}, MISSION_HEAD SECTION "stages:\n  - {name: main, canopy: second}\n" START,
+     "canopy:\n  family: conical\n  nominal-diameter: 1.5 m\n", 0, "-o: @IN2@",
+     "is also a file this run reads (a canopy file of the mission)"},
+    {{FREEFALL, "--cd-table", "@IN@", "-o", "@IN@"}, CD_HEAD "1e2,1.0\n1e3,0.5\n", NULL, 0, "-o: @IN@",
+     "is also a file this run reads (--cd-table)"},
+    {{"canopies", "--data", "@DATA@", "-o", "@IN@"}, FAMILY, NULL, 0, "@IN@",
+     "is also a file this run reads (a canopy family file of the catalog)"},
+    {{DISPERSION, "-o", "@OUT@/x", "--samples", "@OUT@/x"}, PMISSION, NULL, 0, "--samples: @OUT@/x",
+     "is also written by -o"},
+    {{DISPERSION, "-o", "@OUT@/fig.dat", "--plot", "@OUT@/fig"}, PMISSION, NULL, 0, "--plot: @OUT@/fig.dat",
+     "is also written by -o"},
+    {{DISPERSION, "-o", "@OUT@/./x", "--samples", "@OUT@/x"}, PMISSION, NULL, 0, "--samples: @OUT@/x",
+     "is also written by -o"},
+
+    /* ---- options named in every message; given once ---- */
+    {{RATE_OK, "-n", "5"}, NULL, NULL, 0, "'-n'", "unknown option '-n' (see --help)"},
+    {{"air", "-o"}, NULL, NULL, 0, "-o", "-o needs a value"},
+    {{"dispersion", "@IN@", "-o", "@OUT@/r", "-n"}, PMISSION, NULL, 0, "-n", "-n needs a value"},
+    {{"air", "-o", "@OUT@/r", "--sounding"}, NULL, NULL, 0, "--sounding", "--sounding needs a value"},
+    {{"air", "-o", "@OUT@/r", "--help=yes"}, NULL, NULL, 0, "--help", "takes no value"},
+    {{SIZE_OK, "--mass", "3 kg"}, NULL, NULL, 0, "--mass", "given twice ('2 kg', then '3 kg')"},
+    {{RATE_OK, "--family", "cross"}, NULL, NULL, 0, "--family", "given twice"},
+    {{"air", "-o", "@OUT@/a", "-o", "@OUT@/b"}, NULL, NULL, 0, "-o", "given twice"},
+    {{"air", "--format", "csv", "--format", "json"}, NULL, NULL, 0, "--format", "given twice"},
+    {{DISPERSION, "-n", "10", "-n", "20"}, PMISSION, NULL, 0, "-n", "given twice"},
+    {{PROFILE, "--plot", "@OUT@/a", "--plot", "@OUT@/b"}, PMISSION, NULL, 0, "--plot", "given twice"},
+    {{SWEEP_OK, "--by", "site-elevation=20000m"}, NULL, NULL, 0, "--by: site 20000 m",
+     "puts the ground above the lowest swept altitude"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,\"15\n# a comment\n\",1013.25\n1000,8.5,898.7\n", NULL, 0, "@IN@:2:3",
+     "a quoted cell runs past the end of its line"},
+
+    /* ---- numbers: no input leads to an infinite or absurd result ---- */
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1e-306\n1000,8.5,1e-307\n", NULL, 0, "@IN@:2:1",
+     "pressure 1e-306 hPa at 0 m is not air"},
+    {{RATE_OK, "--sounding", "@IN@"}, SOUNDING_HEAD "0,15,1e-300\n1000,8.5,1e-301\n", NULL, 0, "--sounding: @IN@:2:1",
+     "is not air"},
+    {{AIR_SOUNDING}, SOUNDING_HEAD "0,15,1013.25\n1000,8.5,89.87\n", NULL, 0, "@IN@:3:1", "(check the unit)"},
+    {{PROFILE}, "mission: m\nsections:\n" SECTION
+     "stages:\n  - {name: main, family: conical, nominal-diameter: 1.5 m, deploy: {delay: 100 s}}\n"
+     "start: {height: 3000 m, speed: 1999 m/s, path-angle: -90 deg}\n", NULL, 0, "@IN@:6:8",
+     "climbs past 86000 m above sea level, the top of the atmosphere model"},
+    {{DISPERSION}, "mission: m\nsections:\n" SECTION STAGES "start: {height: 85500 m}\n"
+     "uncertainty: {first-deployment: {distribution: normal, sigma: 200 m}}\n", NULL, 0, "@IN@:9:63",
+     "six times sigma reaches above the top of the atmosphere model"},
     /* ---- fit: the flight log and its options ---- */
     {{"fit"}, NULL, NULL, 0, "fit", "give one or more flight logs"},
     {{FIT}, NULL, NULL, 0, "@IN@", "cannot open"},
@@ -1022,6 +1106,12 @@ static char *generate(gen g, size_t *len)
             n += (size_t)snprintf(b + n, cap - n, "l%d: &l%d [*l%d, *l%d, *l%d, *l%d, *l%d, *l%d, *l%d, *l%d]\n", i, i,
                                   i - 1, i - 1, i - 1, i - 1, i - 1, i - 1, i - 1, i - 1);
         n += (size_t)snprintf(b + n, cap - n, "sections:\n" SECTION STAGES);
+        break;
+    case GEN_ANCHORS:
+        for (int i = 0; i < 29000 && n + 64 < cap; i++)
+            n += (size_t)snprintf(b + n, cap - n, "k%d: &a%d x\n", i, i);
+        for (int i = 0; i < 29000 && n + 64 < cap; i++)
+            n += (size_t)snprintf(b + n, cap - n, "r%d: *a%d\n", i, i);
         break;
     case GEN_LONG_NUMBER:
         n += (size_t)snprintf(b, cap, MISSION_HEAD "  - {name: a, mass: ");

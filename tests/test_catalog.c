@@ -1,7 +1,11 @@
 /* test_catalog.c - the shipped canopy catalog and the strict YAML readers. */
+#define _DEFAULT_SOURCE
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
 
 #include "files/catalog.h"
 #include "testutil.h"
@@ -150,6 +154,35 @@ static void test_canopy_file(void **state)
     free(c);
 }
 
+/* What is not a regular file in the catalog directory is skipped: a FIFO
+ * named like a family would block every command on its open. */
+static void test_only_regular_files(void **state)
+{
+    (void)state;
+    char d[] = "/tmp/sinkrate-cat-XXXXXX";
+    assert_non_null(mkdtemp(d));
+    char p[256], q[256];
+    snprintf(p, sizeof p, "%s/conical.yaml", d);
+    assert_int_equal(symlink(sr_test_path("canopies/conical.yaml"), p), 0); /* a link to a family is one */
+    snprintf(q, sizeof q, "%s/stuck.yaml", d);
+    assert_int_equal(mkfifo(q, 0644), 0);
+    char sub[256];
+    snprintf(sub, sizeof sub, "%s/dir.yaml", d);
+    assert_int_equal(mkdir(sub, 0755), 0);
+    sr_catalog *c = malloc(sizeof *c);
+    sr_error e;
+    int rc = sr_catalog_open(c, d, &e);
+    if (rc)
+        print_error("%s\n", e.msg);
+    assert_int_equal(rc, 0);
+    assert_int_equal(c->n, 1);
+    free(c);
+    unlink(p);
+    unlink(q);
+    rmdir(sub);
+    rmdir(d);
+}
+
 /* Every shipped value carries its outside-check status and names the
  * publication that would check it (docs/validation.md, "Not yet checked");
  * where one is checked, the check is here. */
@@ -223,6 +256,7 @@ int main(void)
         cmocka_unit_test(test_catalog_complete_and_sourced), cmocka_unit_test(test_unknown_family_suggests),
         cmocka_unit_test(test_bad_family_files), cmocka_unit_test(test_value_errors),
         cmocka_unit_test(test_canopy_file),         cmocka_unit_test(test_check_status),
+        cmocka_unit_test(test_only_regular_files),
     };
     return cmocka_run_group_tests_name("catalog", tests, NULL, NULL);
 }

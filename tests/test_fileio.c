@@ -1,7 +1,7 @@
-/* test_fileio.c - atomic output: a new file, a replaced file, a file behind a
- * symbolic link (the link stays), a device (written to, never replaced), and
- * no temporary left behind when writing fails; the check made before any
- * work agrees with the writer and leaves nothing behind either. */
+/* test_fileio.c - one file written atomically: a new file, a replaced file, a
+ * file behind a symbolic link (the link stays), a device (written to, never
+ * replaced), and no temporary left behind when writing fails; bounded reads.
+ * The transaction underneath is tested in test_txn.c. */
 #define _DEFAULT_SOURCE
 #include <dirent.h>
 #include <stdio.h>
@@ -93,45 +93,33 @@ static void test_write_replace_link_device(void **state)
     assert_int_equal(rmdir(dir), 0);
 }
 
-/* The check before any work: what the writer refuses, it refuses with the
- * same words; what it accepts can be written; it makes nothing. */
-static void test_check_writable(void **state)
+/* What the writer refuses, with words that name the path; nothing is left. */
+static void test_refused(void **state)
 {
     (void)state;
     char d[] = "/tmp/sinkrate-check-XXXXXX";
     assert_non_null(mkdtemp(d));
     char p[512];
     sr_error e;
-    snprintf(p, sizeof p, "%s/a.txt", d);
-    assert_int_equal(sr_file_check_writable(p, 0, &e), SR_OK);
-    assert_int_equal(sr_file_check_writable("/dev/null", 0, &e), SR_OK);
-    assert_int_equal(sr_file_check_writable("relative-name.txt", 0, &e), SR_OK);
     static const struct {
         const char *path; /* %s: the directory */
-        int mkdirs;
         const char *msg;
     } BAD[] = {
-        {"", 0, "empty output file name"},
-        {"%s", 0, "is a directory"},
-        {"%s/", 0, "is a directory name"},
-        {"%s/no/such/x.txt", 0, "cannot write: No such file or directory"},
-        {"/proc/sinkrate-check.txt", 0, "cannot write"},
-        {"/proc/no/such/x.txt", 1, "cannot write"},
-        {"/dev/null/x.txt", 1, "cannot write: Not a directory"},
+        {"", "empty output file name"},
+        {"%s", "is a directory"},
+        {"%s/", "is a directory name"},
+        {"%s/no/such/x.txt", "cannot write: No such file or directory"},
+        {"/proc/sinkrate-check.txt", "cannot write"},
+        {"/dev/null/x.txt", "cannot write: Not a directory"},
     };
     for (size_t i = 0; i < sizeof BAD / sizeof BAD[0]; i++) {
         snprintf(p, sizeof p, BAD[i].path, d);
-        assert_int_not_equal(sr_file_check_writable(p, BAD[i].mkdirs, &e), SR_OK);
+        assert_int_not_equal(sr_file_write_atomic(p, "x", 1, &e), SR_OK);
         if (!strstr(e.msg, BAD[i].msg))
-            print_error("check row %zu: '%s'\n", i, e.msg);
+            print_error("refused row %zu: '%s'\n", i, e.msg);
         assert_non_null(strstr(e.msg, BAD[i].msg));
-        if (BAD[i].mkdirs == 0 && BAD[i].path[0]) /* the writer says the same */
-            assert_int_not_equal(sr_file_write_atomic(p, "x", 1, &e), SR_OK);
     }
-    /* a missing directory is fine when the writer may make it */
-    snprintf(p, sizeof p, "%s/new/deeper/x.txt", d);
-    assert_int_equal(sr_file_check_writable(p, 1, &e), SR_OK);
-    assert_int_equal(rmdir(d), 0); /* nothing was made: no probe, no directory */
+    assert_int_equal(rmdir(d), 0); /* nothing was made: no temporary, no directory */
 }
 
 static void test_read_limits(void **state)
@@ -156,7 +144,7 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_write_replace_link_device),
-        cmocka_unit_test(test_check_writable),
+        cmocka_unit_test(test_refused),
         cmocka_unit_test(test_read_limits),
     };
     return cmocka_run_group_tests_name("fileio", tests, NULL, NULL);

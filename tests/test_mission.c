@@ -278,6 +278,33 @@ static void test_values_read(void **state)
     free(cat);
 }
 
+/* What looks like nesting inside a string or a comment is text; anchors
+ * and aliases used sparingly work; a folded note reads as one line. */
+static void test_text_is_text(void **state)
+{
+    (void)state;
+    sr_catalog *cat = malloc(sizeof *cat);
+    sr_error e;
+    assert_int_equal(sr_catalog_open(cat, sr_test_path("canopies"), &e), SR_OK);
+    const char *yaml = "mission: brackets\n"
+                       "description: \"[[[[[[[[[[[[[[[[[[[[ {{{{{{{{{{{{{{{{{{{{\"\n"
+                       "# [[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[\n"
+                       "site: {elevation: 100 m}   # {{{{{{{{{{{{{{{{{{{{{{{{{\n"
+                       "sections:\n"
+                       "  - {name: 'a [[[[[[[[[[[[[[[[[[', mass: &m 2 kg}\n"
+                       "  - {name: b, mass: *m}\n"
+                       "stages:\n"
+                       "  - {name: main, family: conical, nominal-diameter: 1.5 m}\n";
+    sr_mission m;
+    int rc = sr_mission_load(&m, sr_test_tmpfile(".yaml", yaml), cat, &e);
+    if (rc)
+        fail_msg("%s", e.msg);
+    assert_string_equal(m.sections[0].name, "a [[[[[[[[[[[[[[[[[[");
+    assert_true(m.sections[1].mass == 2.0);
+    sr_mission_free(&m);
+    free(cat);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -285,6 +312,7 @@ int main(void)
         cmocka_unit_test(test_each_bad_case),
         cmocka_unit_test(test_no_start),
         cmocka_unit_test(test_values_read),
+        cmocka_unit_test(test_text_is_text),
     };
     return cmocka_run_group_tests_name("mission", tests, NULL, NULL);
 }

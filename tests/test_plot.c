@@ -151,7 +151,7 @@ static void render_png(const char *name, int width, int height)
     if (rc)
         fail_msg("%s", e.msg);
     char diag[4096];
-    rc = sr_plot_render(gnuplot, o.prefix, "png", diag, sizeof diag, &e);
+    rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", diag, sizeof diag, &e);
     if (rc)
         fail_msg("%s", e.msg);
     /* gnuplot said nothing: no warning about empty data, bad ranges or fonts */
@@ -215,7 +215,7 @@ static void test_stacked_outlined(void **state)
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
     char diag[2048];
-    int rc = sr_plot_render(gnuplot, o.prefix, "png", diag, sizeof diag, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", diag, sizeof diag, &e);
     if (rc)
         fail_msg("%s", e.msg);
     if (diag[0])
@@ -286,7 +286,7 @@ static void test_log_axes_open_points_labels(void **state)
     assert_non_null(strstr(gp, "'it''s open'"));
     free(gp);
     char diag[2048];
-    int rc = sr_plot_render(gnuplot, out.prefix, "png", diag, sizeof diag, &e);
+    int rc = sr_plot_render(NULL, gnuplot, out.prefix, "png", diag, sizeof diag, &e);
     if (rc)
         fail_msg("%s", e.msg);
     if (diag[0])
@@ -306,7 +306,7 @@ static void test_svg(void **state)
                      .width = 800, .height = 500};
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
-    int rc = sr_plot_render(gnuplot, o.prefix, "svg", NULL, 0, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "svg", NULL, 0, &e);
     if (rc)
         fail_msg("%s", e.msg);
     char *svg = slurp(tpath("svg.svg"), NULL);
@@ -380,7 +380,7 @@ static void test_rejected_script(void **state)
     assert_non_null(f);
     fputs("set xrange [1:\n", f);
     fclose(f);
-    int rc = sr_plot_render(gnuplot, o.prefix, "png", NULL, 0, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", NULL, 0, &e);
     assert_int_equal(rc, SR_EIO);
     assert_non_null(strstr(e.msg, "gnuplot rejected"));
     assert_non_null(strstr(e.msg, "line"));
@@ -418,7 +418,7 @@ static void test_hostile_text(void **state)
                      .format = "png", .width = 500, .height = 400};
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
-    int rc = sr_plot_render(gnuplot, o.prefix, "png", NULL, 0, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", NULL, 0, &e);
     if (rc)
         fail_msg("%s", e.msg);
     assert_int_not_equal(access(marker, F_OK), 0);
@@ -440,7 +440,7 @@ static void test_missing_style_falls_back(void **state)
     char *gp = slurp(tpath("nostyle.gp"), NULL);
     assert_non_null(strstr(gp, "set label 100 caution"));
     free(gp);
-    int rc = sr_plot_render(gnuplot, o.prefix, "png", NULL, 0, &e);
+    int rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", NULL, 0, &e);
     if (rc)
         fail_msg("%s", e.msg);
     unsigned w, h;
@@ -483,6 +483,59 @@ static void test_bad_requests(void **state)
     sr_plot_free(p);
 }
 
+/* A figure counts only when complete: the PNG chunk layout (ISO/IEC
+ * 15948:2004, sec. 5.2 signature, 5.3 chunk = length, type, data, CRC, 11.2.5
+ * IEND last) or an SVG closed by its root element. */
+static void test_image_complete(void **state)
+{
+    (void)state;
+    static const unsigned char SIG[8] = {0x89, 'P', 'N', 'G', 0x0d, 0x0a, 0x1a, 0x0a};
+    static const unsigned char IHDR[25] = {0, 0, 0, 13, 'I', 'H', 'D', 'R', 0, 0, 0, 1, 0, 0, 0, 1, 8, 2, 0, 0, 0,
+                                           0x90, 0x77, 0x53, 0xde};
+    static const unsigned char IDAT[16] = {0, 0, 0, 4, 'I', 'D', 'A', 'T', 1, 2, 3, 4, 9, 9, 9, 9};
+    static const unsigned char IEND[12] = {0, 0, 0, 0, 'I', 'E', 'N', 'D', 0xae, 0x42, 0x60, 0x82};
+    unsigned char png[8 + 25 + 16 + 12 + 4];
+    size_t n = 0;
+    memcpy(png + n, SIG, 8), n += 8;
+    memcpy(png + n, IHDR, 25), n += 25;
+    memcpy(png + n, IDAT, 16), n += 16;
+    memcpy(png + n, IEND, 12), n += 12;
+    memcpy(png + n, "junk", 4);
+    const char *svg = "<?xml version=\"1.0\"?>\n<svg width=\"10\" height=\"10\">\n<g/>\n</svg>\n\n";
+    static const struct {
+        const char *what, *format;
+        int svg;       /* content from svg, else from png */
+        size_t len;    /* bytes of it (SIZE_MAX: all of the string) */
+        int ok;
+    } ROWS[] = {
+        {"a complete PNG", "png", 0, 8 + 25 + 16 + 12, 1},
+        {"a PNG cut inside a chunk (a full disk)", "png", 0, 8 + 25 + 10, 0},
+        {"a PNG without its IEND chunk", "png", 0, 8 + 25 + 16, 0},
+        {"a PNG cut inside IEND", "png", 0, 8 + 25 + 16 + 8, 0},
+        {"bytes after IEND", "png", 0, sizeof png, 0},
+        {"no PNG signature", "png", 1, (size_t)-1, 0},
+        {"an empty file", "png", 0, 0, 0},
+        {"a complete SVG", "svg", 1, (size_t)-1, 1},
+        {"an SVG cut before </svg>", "svg", 1, 40, 0},
+        {"a PNG named .svg", "svg", 0, 8 + 25 + 16 + 12, 0},
+    };
+    for (size_t i = 0; i < sizeof ROWS / sizeof ROWS[0]; i++) {
+        FILE *f = fopen(tpath("img"), "wb");
+        assert_non_null(f);
+        size_t len = ROWS[i].svg ? (ROWS[i].len == (size_t)-1 ? strlen(svg) : ROWS[i].len) : ROWS[i].len;
+        fwrite(ROWS[i].svg ? (const void *)svg : (const void *)png, 1, len, f);
+        fclose(f);
+        sr_error e;
+        int rc = sr_plot_check_image(tpath("img"), ROWS[i].format, "fig", &e);
+        if ((rc == SR_OK) != ROWS[i].ok)
+            print_error("image row %zu (%s): rc %d %s\n", i, ROWS[i].what, rc, rc ? e.msg : "");
+        assert_int_equal(rc == SR_OK, ROWS[i].ok);
+        if (!ROWS[i].ok)
+            assert_non_null(strstr(e.msg, "fig: gnuplot wrote an incomplete"));
+    }
+    unlink(tpath("img"));
+}
+
 static void test_find_gnuplot_follows_path(void **state)
 {
     (void)state;
@@ -499,6 +552,7 @@ static void test_find_gnuplot_follows_path(void **state)
 int main(void)
 {
     const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_image_complete),
         cmocka_unit_test(test_png_sizes),
         cmocka_unit_test(test_stacked_outlined),
         cmocka_unit_test(test_log_axes_open_points_labels),

@@ -649,6 +649,46 @@ static void test_plot(void **state)
     }
 }
 
+/* A start that climbs far above itself: the canopy opens at 11 km and its
+ * transient ends at the equilibrium of the air there (the height tables
+ * reach the drag-free climb), not of the air where the tables used to end. */
+static void test_climbing_start(void **state)
+{
+    (void)state;
+    sr_mission *m = load("mission: climb\n"
+                         "sections:\n"
+                         "  - {name: a, mass: 2 kg}\n"
+                         "stages:\n"
+                         "  - {name: main, family: conical, nominal-diameter: 1.5 m, deploy: {delay: 20 s}}\n"
+                         "start: {height: 3000 m, speed: 500 m/s, path-angle: -90 deg}\n");
+    sr_profile_ctx *c = ctx_of(m, 0.01, NAN);
+    sr_profile_result r;
+    run(c, NULL, SR_PROFILE_FULL, &r);
+    const sr_profile_event *dep = NULL, *steady = NULL;
+    for (size_t i = 0; i < r.nevents; i++) {
+        if (r.events[i].kind == SR_EVENT_DEPLOY && !dep)
+            dep = &r.events[i];
+        if (r.events[i].kind == SR_EVENT_STEADY && !steady)
+            steady = &r.events[i];
+    }
+    assert_non_null(dep);
+    assert_non_null(steady);
+    /* no drag before the deployment: h = h0 + v t - g t^2 / 2 (g varies 0.3 % over the climb) */
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "height of a drag-free climb after 20 s",
+                    "kinematics, uniform gravity (docs/method.md, staged descent)", 3000.0 + 500.0 * 20 - 0.5 * G0 * 400,
+                    dep->h, 2e-3);
+    /* the equilibrium rate in the 1976 air at that height, as the transient ends within 1 % of it */
+    double rho;
+    sr_error e;
+    assert_int_equal(sr_atmos_density(&m->atmos, m->ground + steady->h, &rho, &e), SR_OK);
+    double cds = sr_canopy_total_cds(&m->stages[0].canopy).typ;
+    double v = sqrt(2.0 * 2.0 * sr_atmos_gravity(m->ground + steady->h) / (rho * cds));
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "descent rate where a climbing start's transient ends (11 km)",
+                    "equilibrium W = 1/2 rho v^2 CdS in the 1976 air at that height", v, steady->rate, 0.011);
+    sr_profile_ctx_free(c);
+    drop(m);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -658,6 +698,7 @@ int main(void)
         cmocka_unit_test(test_fast_bound),             cmocka_unit_test(test_threads),
         cmocka_unit_test(test_cli),                    cmocka_unit_test(test_plot),
         cmocka_unit_test(test_slow_descent),           cmocka_unit_test(test_no_drag_warning),
+        cmocka_unit_test(test_climbing_start),
     };
     return cmocka_run_group_tests_name("profile", tests, setup, teardown);
 }

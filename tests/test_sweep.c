@@ -666,7 +666,7 @@ static void test_without_gnuplot(void **state)
     assert_int_equal(chdir("/"), 0);
     sr_error e;
     char diag[2048];
-    rc = sr_plot_render(gp, prefix, "png", diag, sizeof diag, &e);
+    rc = sr_plot_render(NULL, gp, prefix, "png", diag, sizeof diag, &e);
     assert_int_equal(chdir(cwd), 0);
     if (rc)
         fail_msg("%s", e.msg);

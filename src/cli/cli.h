@@ -13,8 +13,11 @@ enum { SR_EXIT_OK = 0, SR_EXIT_LIMIT = 1, SR_EXIT_USAGE = 2 };
 
 typedef enum sr_format { SR_FMT_TEXT = 0, SR_FMT_CSV, SR_FMT_JSON } sr_format;
 
-/* What every subcommand shares: streams, the common options, and the
- * resolved catalog directory. */
+struct sr_txn;
+
+/* What every subcommand shares: streams (out collects standard output until
+ * the run ends, when it is written and checked), the common options, and
+ * the run's output transaction. */
 typedef struct sr_cli {
     FILE *out;
     FILE *err;
@@ -31,12 +34,26 @@ typedef struct sr_cli {
     int threads;             /* --threads N, 0 = all cores */
     unsigned long seed;      /* --seed N */
     int seed_set;
-    /* files and directories this run created, removed again when it ends
-     * with bad input or a failed write (exit 2): no half product stays */
-    char *made[32];
-    int nmade;
+    /* the run's output transaction: every file written through it is put
+     * in place only when the run succeeds (output/txn.h) */
+    struct sr_txn *txn;
+    /* lines for the error stream once the outputs are in place ("wrote
+     * fig.png"): said only of files that exist */
+    FILE *notes;
+    char *notes_buf;
+    size_t notes_len;
+    int keep_on_usage; /* check: its report stands at exit 2, so it is written */
+    /* set by a command before sr_cli_parse: its short options besides -h and
+     * -o ("n:"), and the option codes it takes more than once (0-terminated;
+     * every other option with a value is refused when given twice) */
+    const char *short_opts;
+    const int *repeatable;
 } sr_cli;
 
+/* Run one command line. Standard output is written, and checked, when the
+ * command has succeeded and before its files are put in place; a write
+ * error there is exit 2 ("standard output: No space left on device") and
+ * changes no file. */
 int sr_cli_run(int argc, char **argv, FILE *out, FILE *err);
 
 #endif

@@ -10,6 +10,7 @@
 #include <unistd.h>
 
 #include "cli/common.h"
+#include "output/txn.h"
 
 const char SR_HELP_PLOT[] =
     "Figure:\n"
@@ -19,28 +20,25 @@ const char SR_HELP_PLOT[] =
     "  --plot-format png|svg    the figure's format (default png)\n"
     "  --plot-size WxH          the figure's size in pixels (default 1000x650)\n";
 
-/* mkdir -p for the directory part of prefix; what it makes is the run's */
-static int make_parent(sr_cli *c, const char *prefix)
+/* The style file the script loads, absolute (empty when the data
+ * directory is not found). */
+static void style_path(sr_cli *c, char *style, size_t len)
 {
-    char dir[PATH_MAX];
-    snprintf(dir, sizeof dir, "%s", prefix);
-    char *slash = strrchr(dir, '/');
-    if (!slash || slash == dir)
-        return 0;
-    *slash = '\0';
-    for (char *p = dir + 1; *p; p++) {
-        if (*p != '/')
-            continue;
-        *p = '\0';
-        sr_cli_made(c, dir);
-        if (mkdir(dir, 0777) != 0 && errno != EEXIST)
-            return -1;
-        *p = '/';
-    }
-    sr_cli_made(c, dir);
-    if (mkdir(dir, 0777) != 0 && errno != EEXIST)
-        return -1;
-    return 0;
+    char dir[PATH_MAX], real[PATH_MAX];
+    style[0] = '\0';
+    if (sr_cli_data_dir(c, dir, sizeof dir) == 0 && realpath(dir, real))
+        snprintf(style, len, "%s/plots/sinkrate.gp", real);
+}
+
+int sr_cli_plot_reserve(sr_cli *c, const char *prefix)
+{
+    sr_error e;
+    if (sr_plot_reserve(c->txn, "--plot", prefix, c->plot_format ? c->plot_format : "png", &e))
+        return sr_cli_fail(c, "%s", e.msg);
+    /* the shared style is read by every figure: never a figure's file */
+    char style[PATH_MAX + 32];
+    style_path(c, style, sizeof style);
+    return style[0] ? sr_cli_input(c, "the shared plot style", style) : 0;
 }
 
 int sr_cli_plot(sr_cli *c, const sr_plot *p, int argc, char **argv)
@@ -48,53 +46,65 @@ int sr_cli_plot(sr_cli *c, const sr_plot *p, int argc, char **argv)
     return c->plot_prefix ? sr_cli_plot_to(c, p, c->plot_prefix, argc, argv) : 0;
 }
 
+/* The command line for the script's header, without what does not change
+ * the figure (--threads: the same bytes at any thread count). */
+static void command_line(char *cmd, size_t len, int argc, char **argv)
+{
+    size_t at = (size_t)snprintf(cmd, len, "sinkrate");
+    for (int i = 0; i < argc && at < len; i++) {
+        if (strcmp(argv[i], "--threads") == 0 && i + 1 < argc) {
+            i++;
+            continue;
+        }
+        if (strncmp(argv[i], "--threads=", 10) == 0)
+            continue;
+        at += (size_t)snprintf(cmd + at, len - at, " %s", argv[i]);
+    }
+}
+
 int sr_cli_plot_to(sr_cli *c, const sr_plot *p, const char *prefix, int argc, char **argv)
 {
-    char style[PATH_MAX + 32] = "", dir[PATH_MAX], real[PATH_MAX];
-    if (sr_cli_data_dir(c, dir, sizeof dir) == 0 && realpath(dir, real))
-        snprintf(style, sizeof style, "%s/plots/sinkrate.gp", real);
-    /* the command line, for the script's header */
+    /* reserved before the work for --plot; a figure of another prefix now */
+    int rc = sr_cli_plot_reserve(c, prefix);
+    if (rc)
+        return rc;
+    char style[PATH_MAX + 32];
+    style_path(c, style, sizeof style);
     char cmd[1024];
-    size_t at = (size_t)snprintf(cmd, sizeof cmd, "sinkrate");
-    for (int i = 0; i < argc && at < sizeof cmd; i++)
-        at += (size_t)snprintf(cmd + at, sizeof cmd - at, " %s", argv[i]);
-    if (make_parent(c, prefix) != 0)
-        return sr_cli_fail(c, "--plot: cannot create the directory of '%s': %s", prefix, strerror(errno));
+    command_line(cmd, sizeof cmd, argc, argv);
     sr_plot_out o = {.prefix = prefix,
                      .style = style[0] ? style : NULL,
                      .format = c->plot_format ? c->plot_format : "png",
                      .width = c->plot_width ? c->plot_width : SR_PLOT_DEFAULT_WIDTH,
                      .height = c->plot_height ? c->plot_height : SR_PLOT_DEFAULT_HEIGHT,
-                     .command = cmd};
-    char made[PATH_MAX + 8];
-    const char *ext[3] = {"dat", "gp", o.format};
-    for (int k = 0; k < 3; k++) {
-        sr_plot_path(made, sizeof made, prefix, ext[k]);
-        sr_cli_made(c, made);
-    }
+                     .command = cmd,
+                     .txn = c->txn};
     sr_error e;
     if (sr_plot_write(p, &o, &e))
         return sr_cli_fail(c, "--plot: %s", e.msg);
     if (!o.style || access(o.style, R_OK) != 0)
-        fprintf(c->err, "sinkrate %s: note: the shared plot style %s was not found; the script uses plain "
-                        "defaults\n",
-                c->cmd, style[0] ? style : "plots/sinkrate.gp");
+        sr_cli_note(c, "note: the shared plot style %s was not found; the script uses plain defaults",
+                    style[0] ? style : "plots/sinkrate.gp");
     char gp[PATH_MAX];
+    char *image = sr_plot_path_new(prefix, o.format);
+    if (!image)
+        return sr_cli_fail(c, "out of memory");
     if (!sr_plot_find_gnuplot(gp, sizeof gp)) {
-        fprintf(c->err,
-                "sinkrate %s: wrote %s.dat and %s.gp; gnuplot is not on PATH, so no figure was drawn. "
-                "Install gnuplot and run: gnuplot %s.gp\n",
-                c->cmd, prefix, prefix, prefix);
+        sr_txn_drop(c->txn, image); /* no figure: an older one stays as it was */
+        free(image);
+        sr_cli_note(c, "wrote %s.dat and %s.gp; gnuplot is not on PATH, so no figure was drawn. Install gnuplot "
+                       "and run: gnuplot %s.gp",
+                    prefix, prefix, prefix);
         return 0;
     }
+    free(image);
     char diag[2048];
-    if (sr_plot_render(gp, prefix, o.format, diag, sizeof diag, &e))
+    if (sr_plot_render(c->txn, gp, prefix, o.format, diag, sizeof diag, &e))
         return sr_cli_fail(c, "--plot: %s", e.msg);
     char *save = NULL;
     for (char *line = strtok_r(diag, "\n", &save); line; line = strtok_r(NULL, "\n", &save))
         if (strstr(line, "arning"))
-            fprintf(c->err, "sinkrate %s: gnuplot: %s\n", c->cmd, line);
-    fprintf(c->err, "sinkrate %s: wrote %s.%s (data %s.dat, script %s.gp)\n", c->cmd, prefix, o.format, prefix,
-            prefix);
+            sr_cli_note(c, "gnuplot: %s", line);
+    sr_cli_note(c, "wrote %s.%s (data %s.dat, script %s.gp)", prefix, o.format, prefix, prefix);
     return 0;
 }

@@ -94,6 +94,9 @@ int sr_cmd_check(sr_cli *c, int argc, char **argv)
         return rc;
     if (first >= argc)
         return sr_cli_fail(c, "give one or more files to check");
+    for (int i = first; i < argc; i++)
+        if ((rc = sr_cli_input(c, "a file to check", argv[i])))
+            return rc;
     sr_catalog *cat;
     if ((rc = sr_cli_catalog(c, &cat)))
         return rc;
@@ -132,8 +135,8 @@ int sr_cmd_check(sr_cli *c, int argc, char **argv)
     if (bad)
         sr_report_warning(r, "%d of %d file(s) invalid", bad, argc - first);
     rc = sr_cli_emit(c, r);
-    if (!rc) /* the report is the product even when a file is invalid: exit 2 keeps it */
-        sr_cli_made_end(c, 0);
+    if (!rc) /* the report is the product even when a file is invalid: exit 2 writes it */
+        c->keep_on_usage = 1;
     sr_report_free(r);
     free(cat);
     return rc ? rc : bad ? SR_EXIT_USAGE : SR_EXIT_OK;

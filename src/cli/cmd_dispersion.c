@@ -15,6 +15,7 @@
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "cli/maps.h"
+#include "output/txn.h"
 #include "analysis/input_warnings.h"
 #include "cli/progress.h"
 #include "analysis/dispersion.h"
@@ -255,39 +256,12 @@ static int write_samples(sr_cli *c, const char *path, const sr_mission *m, const
 {
     const sr_uncertainty *u = &m->unc;
     sr_unit_system sys = c->units;
-    /* The file can be large (one row a sample), so it is streamed, with the
-     * rules of sr_file_write_atomic: a device or pipe (/dev/stdout) is written
-     * in place, never replaced; through a symbolic link the file it names is
-     * replaced and the link kept; otherwise a temporary file is renamed. */
-    struct stat st;
-    if (stat(path, &st) == 0 && S_ISDIR(st.st_mode))
-        return sr_cli_fail(c, "--samples: %s is a directory", path);
-    int direct = stat(path, &st) == 0 && !S_ISREG(st.st_mode);
-    char *real = direct ? NULL : realpath(path, NULL);
-    char tmp[4096];
-    snprintf(tmp, sizeof tmp, "%s.tmp.XXXXXX", real ? real : path);
+    /* The file can be large (one row a sample): streamed into the run's
+     * transaction (to its temporary, or in place to a device or a pipe) */
     FILE *f;
-    if (direct) {
-        f = fopen(path, "w");
-        if (!f) {
-            free(real);
-            return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(errno));
-        }
-    } else {
-        sr_cli_made(c, path);
-        int fd = mkstemp(tmp);
-        if (fd < 0) {
-            free(real);
-            return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(errno));
-        }
-        f = fdopen(fd, "w");
-        if (!f) {
-            close(fd);
-            unlink(tmp);
-            free(real);
-            return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(errno));
-        }
-    }
+    sr_error e;
+    if (sr_txn_open(c->txn, path, &f, &e))
+        return sr_cli_fail(c, "%s", e.msg);
     /* the varied perturbations only, in a fixed order */
     col cols[4 * SR_MISSION_MAX_STAGES + 8];
     size_t nc = 0;
@@ -349,8 +323,7 @@ static int write_samples(sr_cli *c, const char *path, const sr_mission *m, const
     fputs("\r\n", f);
     gsl_rng *r = gsl_rng_alloc(sr_rng_splitmix64);
     if (!r) {
-        fclose(f);
-        unlink(tmp);
+        sr_txn_close(c->txn, f, &e);
         return sr_cli_fail(c, "out of memory");
     }
     for (size_t i = 0; i < res->n; i++) {
@@ -375,29 +348,8 @@ static int write_samples(sr_cli *c, const char *path, const sr_mission *m, const
         }
     }
     gsl_rng_free(r);
-    int bad = ferror(f);
-    if (direct) {
-        free(real);
-        if (fclose(f) != 0 || bad)
-            return sr_cli_fail(c, "--samples: writing %s failed: %s", path, strerror(errno));
-        return 0;
-    }
-    mode_t um = umask(0);
-    umask(um);
-    if (fchmod(fileno(f), 0666 & ~um) != 0 || fflush(f) != 0 || fsync(fileno(f)) != 0)
-        bad = 1;
-    if (fclose(f) != 0 || bad) {
-        unlink(tmp);
-        free(real);
-        return sr_cli_fail(c, "--samples: writing %s failed: %s", path, strerror(errno));
-    }
-    if (rename(tmp, real ? real : path) != 0) {
-        int e = errno;
-        unlink(tmp);
-        free(real);
-        return sr_cli_fail(c, "--samples: cannot write %s: %s", path, strerror(e));
-    }
-    free(real);
+    if (sr_txn_close(c->txn, f, &e))
+        return sr_cli_fail(c, "%s", e.msg);
     return 0;
 }
 
@@ -515,8 +467,8 @@ static int report_limits(sr_cli *c, sr_report *r, const sr_mission *m, const sr_
             sr_report_warning(r, "%s above %s in %.3g %% of the samples (95 %% interval %.3g .. %.3g %%), more than "
                                  "the accepted %.3g %%.",
                               sr_limit_name(k), v, 100.0 * p->p, 100.0 * p->lo, 100.0 * p->hi, 100.0 * risk);
-            fprintf(c->err, "sinkrate dispersion: limit exceeded: %s above %s in %.3g %% of the samples (accepted: %.3g %%)\n",
-                    sr_limit_name(k), v, 100.0 * p->p, 100.0 * risk);
+            sr_cli_note(c, "limit exceeded: %s above %s in %.3g %% of the samples (accepted: %.3g %%)",
+                        sr_limit_name(k), v, 100.0 * p->p, 100.0 * risk);
         }
     }
     return bad;
@@ -731,6 +683,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     memset(&o, 0, sizeof o);
     char help[sizeof HELP + 4096];
     snprintf(help, sizeof help, "%s%s\n%s", HELP, SR_HELP_PLOT, SR_HELP_OUTPUT);
+    c->short_opts = "n:"; /* -n N, the number of samples */
     int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, help, &first);
     if (rc)
         return rc;
@@ -744,14 +697,16 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
         return rc;
     if (o.risk && (rc = parse_share(c, o.risk, &risk)))
         return rc;
-    if (o.samples && (rc = sr_cli_check_output(c, "--samples", o.samples)))
+    if (o.samples && (rc = sr_cli_output(c, "--samples", o.samples)))
+        return rc;
+    if ((rc = sr_cli_input(c, "the mission file", argv[first])))
         return rc;
     long geo_samples = 0;
     if (o.geojson_samples && !o.geojson)
         return sr_cli_fail(c, "--geojson-samples: goes with --geojson FILE");
     if (o.geojson_samples && (rc = sr_cli_count(c, "--geojson-samples", o.geojson_samples, 0, 20000, &geo_samples)))
         return rc;
-    if (o.geojson && (rc = sr_cli_check_output(c, "--geojson", o.geojson)))
+    if (o.geojson && (rc = sr_cli_output(c, "--geojson", o.geojson)))
         return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
@@ -779,6 +734,8 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
         goto out;
     }
     if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+        goto out;
+    if ((rc = sr_cli_mission_inputs(c, m)))
         goto out;
     if (sr_disp_mission_init(&dm, m, NULL, o.full, &e)) {
         rc = sr_cli_fail_err(c, &e);

@@ -13,6 +13,7 @@
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
+#include "output/txn.h"
 #include "cli/fit_plot.h"
 #include "files/flightlog.h"
 #include "files/mission.h"
@@ -266,12 +267,11 @@ static int write_canopy(sr_cli *c, const char *path, const sr_fit_stage_spec *sp
         free(buf);
         return sr_cli_fail(c, "out of memory");
     }
-    sr_cli_made(c, path);
     sr_error e;
-    int rc = sr_file_write_atomic(path, buf, len, &e);
+    int rc = sr_txn_write(c->txn, path, buf, len, &e);
     free(buf);
     if (rc)
-        return sr_cli_fail(c, "--write-canopy: %s", e.msg);
+        return sr_cli_fail(c, "%s", e.msg);
     return 0;
 }
 
@@ -310,12 +310,11 @@ static int write_wind(sr_cli *c, const char *path, sr_fit_result **res, size_t n
         free(buf);
         return sr_cli_fail(c, "--write-wind: the log has too few positions under the canopies for a wind table");
     }
-    sr_cli_made(c, path);
     sr_error e;
-    int rc = sr_file_write_atomic(path, buf, len, &e);
+    int rc = sr_txn_write(c->txn, path, buf, len, &e);
     free(buf);
     if (rc)
-        return sr_cli_fail(c, "--write-wind: %s", e.msg);
+        return sr_cli_fail(c, "%s", e.msg);
     return 0;
 }
 
@@ -499,10 +498,13 @@ int sr_cmd_fit(sr_cli *c, int argc, char **argv)
         return sr_cli_fail(c, "give one or more flight logs (CSV), e.g. sinkrate fit flight.csv --mission m.yaml");
     if (nlogs > MAX_LOGS)
         return sr_cli_fail(c, "'%s': at most %d logs at once", argv[first + MAX_LOGS], MAX_LOGS);
-    if (o.write_canopy && (rc = sr_cli_check_output(c, "--write-canopy", o.write_canopy)))
+    if (o.write_canopy && (rc = sr_cli_output(c, "--write-canopy", o.write_canopy)))
         return rc;
-    if (o.write_wind && (rc = sr_cli_check_output(c, "--write-wind", o.write_wind)))
+    if (o.write_wind && (rc = sr_cli_output(c, "--write-wind", o.write_wind)))
         return rc;
+    for (int i = first; i < argc; i++)
+        if ((rc = sr_cli_input(c, "a flight log", argv[i])))
+            return rc;
     sr_catalog *cat = NULL;
     sr_mission *mis = NULL;
     sr_atmos atm;

@@ -446,6 +446,8 @@ int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
         return sr_cli_fail(c, "--cd-table: a table body needs its drag table (columns Re, Cd)");
     if (shape != SR_BLUFF_TABLE && o.cd_table)
         return sr_cli_fail(c, "--cd-table: a drag table goes with --body table, not --body %s", o.body);
+    if (o.cd_table && (rc = sr_cli_input(c, "--cd-table", o.cd_table)))
+        return rc;
     if (shape == SR_BLUFF_TABLE && o.curve)
         return sr_cli_fail(c, "--curve: a table body takes its curve from --cd-table");
     if (shape != SR_BLUFF_TABLE && (o.interp || o.area))

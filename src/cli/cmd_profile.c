@@ -562,8 +562,11 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     if (o.fast && (o.trajectory || o.geojson))
         return sr_cli_fail(c, "%s: the time history needs the full integration; drop --fast",
                            o.trajectory ? "--trajectory" : "--geojson");
-    if ((o.trajectory && (rc = sr_cli_check_output(c, "--trajectory", o.trajectory))) ||
-        (o.geojson && (rc = sr_cli_check_output(c, "--geojson", o.geojson))))
+    if ((o.trajectory && (rc = sr_cli_output(c, "--trajectory", o.trajectory))) ||
+        (o.geojson && (rc = sr_cli_output(c, "--geojson", o.geojson))))
+        return rc;
+
+    if ((rc = sr_profile_plot_reserve(c)) || (rc = sr_cli_input(c, "the mission file", argv[first])))
         return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
@@ -590,6 +593,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
+    if ((rc = sr_cli_mission_inputs(c, m)))
+        goto out;
     if (!m->has_start) {
         rc = sr_cli_fail(c, "%s: the mission has no start: block (height above ground, airspeed and path angle at "
                             "the first deployment); a profile needs it",

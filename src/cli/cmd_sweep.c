@@ -517,6 +517,20 @@ static int build_curves(run *R)
                 var_value_label(lab, sizeof lab, R->byvar, cv->by, SR_UNITS_SI);
                 return sr_cli_fail(c, "--by: %s: %s", lab, e.msg);
             }
+            if (R->has_by && R->byvar == SR_SWEEP_SITE_ELEVATION && R->var == SR_SWEEP_ALTITUDE) {
+                /* the swept altitudes are above sea level: none may lie under this site's ground */
+                double lowest = R->xs[0];
+                for (size_t i = 1; i < R->nx; i++)
+                    lowest = fmin(lowest, R->xs[i]);
+                if (lowest < cv->cs.ground) {
+                    char lab[64], low[64];
+                    var_value_label(lab, sizeof lab, R->byvar, cv->by, c->units);
+                    sr_report_format_value(low, sizeof low, lowest, SR_Q_LENGTH, c->units, SR_FIXED(0));
+                    return sr_cli_fail(c, "--by: %s puts the ground above the lowest swept altitude, %s above sea "
+                                          "level; sweep from the highest site up (--from)",
+                                       lab, low);
+                }
+            }
             if (R->has_by && R->byvar == SR_SWEEP_ALTITUDE) {
                 sr_air a;
                 if (sr_atmos_at(&cv->cs.atmos, cv->by, &a, &e))
@@ -549,7 +563,9 @@ static int compute(run *R)
         if (sr_sweep_run(&cv->cs, R->var, R->xs, R->nx, cv->rows, tty ? show_progress : NULL, &pg, &e)) {
             if (tty)
                 fputc('\n', c->err);
-            if (R->ncurves > 1)
+            if (R->has_by) /* the curve's --by value led here: name it */
+                sr_error_prefix(&e, "--by %s: ", cv->label);
+            else if (R->ncurves > 1)
                 sr_error_prefix(&e, "%s: ", cv->label);
             return sr_cli_fail_err(c, &e);
         }
@@ -1059,6 +1075,12 @@ int sr_cmd_sweep(sr_cli *c, int argc, char **argv)
     sr_report *r = NULL;
     char help[sizeof HELP + 4096];
     snprintf(help, sizeof help, "%s%s\n%s\n%s\n%s", HELP, SR_HELP_CANOPY, SR_HELP_ATMOS, SR_HELP_PLOT, SR_HELP_OUTPUT);
+    /* several canopies: --family/--canopy start each, and take() refuses a
+     * canopy option given twice for the same one */
+    static const int REPEATABLE[] = {OPT_FAMILY,          OPT_CANOPY,        OPT_NOMINAL_DIAMETER, OPT_PROJECTED_DIAMETER,
+                                     OPT_FLAT_DIAMETER,   OPT_NOMINAL_AREA,  OPT_CLUSTER,          OPT_CLUSTER_FACTOR,
+                                     OPT_AREAL_MASS,      OPT_DRAG_COEFFICIENT, OPT_DRAG_REFERENCE, 0};
+    c->repeatable = REPEATABLE;
     int rc = sr_cli_parse(c, argc, argv, OPTS, take, &R->o, help, NULL);
     if (rc)
         goto out;

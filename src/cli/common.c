@@ -15,6 +15,7 @@
 #include "cli/cliplot.h"
 #include "cli/tables.h"
 #include "output/fileio.h"
+#include "output/txn.h"
 #include "output/plot.h"
 #include "files/mission.h"
 #include "files/yamldoc.h"
@@ -23,7 +24,8 @@ const char SR_HELP_OUTPUT[] =
     "Output:\n"
     "  --format text|csv|json   output format (default text)\n"
     "  --units si|us            SI (default) or US customary units (ft, lb, ft/s, lbf)\n"
-    "  -o, --output FILE        write to FILE (atomically) instead of standard output\n"
+    "  -o, --output FILE        write to FILE instead of standard output; every file a run\n"
+    "                           writes is put in place only when the whole run succeeds\n"
     "  --table NAME             only this table of the output (with the caution and the\n"
     "                           warnings): one clean table for a spreadsheet; names below\n"
     "  --data DIR               directory holding canopies/ (default: found next to the\n"
@@ -155,13 +157,55 @@ static const char *option_suggestion(const struct option *opts, const char *bad)
     return sr_yaml_suggest(bad, names);
 }
 
+/* How the user writes the option of code: "-o", "--mass". */
+static const char *option_name(const struct option *opts, int code)
+{
+    static const char *const SHORT[] = {"-o", "-n", "--help"};
+    if (code == 'o' || code == 'n' || code == 'h')
+        return SHORT[code == 'o' ? 0 : code == 'n' ? 1 : 2];
+    static char buf[64];
+    for (const struct option *o = opts; o->name; o++)
+        if (o->val == code) {
+            snprintf(buf, sizeof buf, "--%s", o->name);
+            return buf;
+        }
+    return "an option";
+}
+
+static int repeatable(const sr_cli *c, int code)
+{
+    for (const int *r = c->repeatable; r && *r; r++)
+        if (*r == code)
+            return 1;
+    return 0;
+}
+
 int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
                  const char *help, int *first_arg)
 {
     optind = 0; /* GNU: full re-initialisation, so in-process calls can repeat */
     opterr = 0;
+    /* a leading ':' makes a missing value ':' (not '?'), so it is named as such */
+    char shorts[32];
+    snprintf(shorts, sizeof shorts, ":ho:%s", c->short_opts ? c->short_opts : "");
+    /* options given once only: a second value would silently replace the first */
+    struct {
+        int code;
+        const char *arg;
+    } seen[64];
+    size_t nseen = 0;
     int code;
-    while ((code = getopt_long(argc, argv, "ho:n:", opts, NULL)) != -1) {
+    while ((code = getopt_long(argc, argv, shorts, opts, NULL)) != -1) {
+        if (code != '?' && code != ':' && optarg && !repeatable(c, code)) {
+            for (size_t k = 0; k < nseen; k++)
+                if (seen[k].code == code)
+                    return sr_cli_fail(c, "%s: given twice ('%s', then '%s'); give it once", option_name(opts, code),
+                                       seen[k].arg, optarg);
+            if (nseen < sizeof seen / sizeof seen[0]) {
+                seen[nseen].code = code;
+                seen[nseen++].arg = optarg;
+            }
+        }
         switch (code) {
         case 'h':
             help_with_groups(c, help, opts);
@@ -245,13 +289,8 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
             const char *bad = argv[optind - 1];
             if (optopt && optopt < 256 && bad[0] == '-' && bad[1] != '-')
                 return sr_cli_fail(c, "unknown option '-%c' (see --help)", optopt);
-            if (optopt) {
-                /* a known option missing its argument */
-                for (const struct option *o = opts; o->name; o++)
-                    if (o->val == optopt)
-                        return sr_cli_fail(c, "--%s needs a value", o->name);
-                return sr_cli_fail(c, "option '%s' needs a value", bad);
-            }
+            if (optopt) /* a long option that takes no value, given one */
+                return sr_cli_fail(c, "%s takes no value (got '%s')", option_name(opts, optopt), bad);
             char name[128];
             snprintf(name, sizeof name, "%s", bad + (bad[0] == '-' ? (bad[1] == '-' ? 2 : 1) : 0));
             char *eq = strchr(name, '=');
@@ -262,8 +301,8 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
                 return sr_cli_fail(c, "unknown option '%s'; did you mean '--%s'?", bad, s);
             return sr_cli_fail(c, "unknown option '%s' (see --help)", bad);
         }
-        case ':':
-            return sr_cli_fail(c, "option '%s' needs a value", argv[optind - 1]);
+        case ':': /* a known option at the end of the line, missing its value */
+            return sr_cli_fail(c, "%s needs a value (see --help)", option_name(opts, optopt));
         default: {
             int rc = handle ? handle(c, code, optarg, ud) : 1;
             if (rc == 1) {
@@ -277,14 +316,13 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
         }
         }
     }
-    /* the output paths before any work: a bad one fails first, with one
-     * line, and nothing is computed or written */
+    /* the outputs before any work: a bad one fails first, with one line,
+     * and nothing is computed; each gets its temporary now */
     int rc;
-    if (c->output && (rc = sr_cli_check_output(c, "-o", c->output)))
+    if (c->output && (rc = sr_cli_output(c, "-o", c->output)))
         return rc;
-    sr_error e;
-    if (c->plot_prefix && sr_plot_check_prefix(c->plot_prefix, c->plot_format ? c->plot_format : "png", &e))
-        return sr_cli_fail(c, "--plot: %s", e.msg);
+    if (c->plot_prefix && (rc = sr_cli_plot_reserve(c, c->plot_prefix)))
+        return rc;
     if (first_arg)
         *first_arg = optind;
     else if (optind < argc)
@@ -411,6 +449,9 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
     *mis = NULL;
     if (!path)
         return sr_cli_atmos(c, a, atm, ground);
+    int rc;
+    if ((rc = sr_cli_input(c, "the mission file", path)))
+        return rc;
     *mis = calloc(1, sizeof **mis);
     if (!*mis)
         return sr_cli_fail(c, "out of memory");
@@ -419,6 +460,8 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
         *mis = NULL;
         return sr_cli_fail(c, "--mission: %s", e.msg);
     }
+    if ((rc = sr_cli_mission_inputs(c, *mis)))
+        return rc;
     *ground = (*mis)->ground;
     if (sr_cli_atmos_given(a))
         return sr_cli_atmos(c, a, atm, ground);
@@ -444,6 +487,9 @@ int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground)
     if (a->sounding) {
         if (site || a->temp_offset)
             return sr_cli_fail(c, "--sounding: give either a sounding or the other atmosphere options, not both");
+        int rc = sr_cli_input(c, "--sounding", a->sounding);
+        if (rc)
+            return rc;
         if (sr_atmos_load_sounding(m, a->sounding, &e))
             return sr_cli_fail(c, "--sounding: %s", e.msg);
         double lo, hi;
@@ -552,6 +598,14 @@ int sr_cli_catalog(sr_cli *c, sr_catalog **cat)
         *cat = NULL;
         return sr_cli_fail(c, "%s", e.msg);
     }
+    for (size_t i = 0; i < (*cat)->n; i++) {
+        int rc = sr_cli_input(c, "a canopy family file of the catalog", (*cat)->fam[i].file);
+        if (rc) {
+            free(*cat);
+            *cat = NULL;
+            return rc;
+        }
+    }
     return 0;
 }
 
@@ -569,6 +623,8 @@ int sr_cli_canopy(sr_cli *c, const sr_catalog *cat, const sr_canopy_opts *o, int
             o->drag_coefficient)
             return sr_cli_fail(c, "--canopy: the canopy file already gives family, size and drag; drop the "
                                   "--family / size / --drag-coefficient options");
+        if ((rc = sr_cli_input(c, "--canopy", o->canopy)))
+            return rc;
         if (sr_catalog_load_canopy(out, cat, o->canopy, &e))
             return sr_cli_fail(c, "--canopy: %s", e.msg);
     } else {
@@ -723,36 +779,60 @@ void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t
     }
 }
 
-int sr_cli_check_output(sr_cli *c, const char *opt, const char *path)
+int sr_cli_output(sr_cli *c, const char *opt, const char *path)
 {
     sr_error e;
-    if (sr_file_check_writable(path, 0, &e))
-        return sr_cli_fail(c, "%s: %s", opt, e.msg);
+    if (sr_txn_reserve(c->txn, opt, path, 0, &e))
+        return sr_cli_fail(c, "%s", e.msg);
     return 0;
 }
 
-void sr_cli_made(sr_cli *c, const char *path)
+int sr_cli_input(sr_cli *c, const char *what, const char *path)
 {
-    struct stat st;
-    if (c->nmade >= (int)(sizeof c->made / sizeof c->made[0]) || lstat(path, &st) == 0)
-        return;
-    c->made[c->nmade] = strdup(path);
-    if (c->made[c->nmade])
-        c->nmade++;
+    sr_error e;
+    if (sr_txn_input(c->txn, what, path, &e))
+        return sr_cli_fail(c, "%s", e.msg);
+    return 0;
 }
 
-void sr_cli_made_end(sr_cli *c, int failed)
+int sr_cli_mission_inputs(sr_cli *c, const sr_mission *m)
 {
-    while (c->nmade > 0) {
-        char *p = c->made[--c->nmade];
-        if (failed)
-            remove(p); /* a directory goes only when empty */
-        free(p);
+    int rc = sr_cli_input(c, "the mission file", m->path);
+    if (!rc && m->atmos.kind == SR_ATMOS_SOUNDING)
+        rc = sr_cli_input(c, "the mission's sounding", m->atmos.source);
+    if (!rc && m->wind.source[0])
+        rc = sr_cli_input(c, "the mission's wind table", m->wind.source);
+    for (size_t k = 0; k < m->nstages && !rc; k++)
+        if (m->stages[k].file[0])
+            rc = sr_cli_input(c, "a canopy file of the mission", m->stages[k].file);
+    for (size_t k = 0; k < m->nsections && !rc; k++)
+        if (m->sections[k].has_body && m->sections[k].curve.path[0])
+            rc = sr_cli_input(c, "a drag table of the mission", m->sections[k].curve.path);
+    return rc;
+}
+
+void sr_cli_note(sr_cli *c, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    if (c->notes) {
+        fprintf(c->notes, "sinkrate %s: ", c->cmd ? c->cmd : "");
+        vfprintf(c->notes, fmt, ap);
+        fputc('\n', c->notes);
     }
+    va_end(ap);
 }
 
 int sr_cli_emit(sr_cli *c, const sr_report *r)
 {
+    /* an infinite number is no result: the inputs were outside what the models hold */
+    const char *inf = sr_report_infinite(r);
+    if (inf) {
+        char inputs[1024];
+        sr_txn_inputs(c->txn, inputs, sizeof inputs);
+        return sr_cli_fail(c, "'%s' came out infinite: %s is outside what the models hold; check %s", inf,
+                           inputs[0] ? "an input" : "a value given", inputs[0] ? inputs : "the options");
+    }
     char *buf = NULL;
     size_t len = 0;
     FILE *mem = open_memstream(&buf, &len);
@@ -767,11 +847,10 @@ int sr_cli_emit(sr_cli *c, const sr_report *r)
         return sr_cli_fail(c, "%s%s", c->table ? "--table: " : "", e.msg);
     }
     if (c->output) {
-        sr_cli_made(c, c->output);
-        rc = sr_file_write_atomic(c->output, buf, len, &e);
+        rc = sr_txn_write(c->txn, c->output, buf, len, &e);
         free(buf);
         if (rc)
-            return sr_cli_fail(c, "-o: %s", e.msg);
+            return sr_cli_fail(c, "%s", e.msg);
         return 0;
     }
     fwrite(buf, 1, len, c->out);

@@ -1,6 +1,6 @@
 /* common.h - what the subcommands share: option groups (output, atmosphere,
  * canopy), parsing quantities with the option name in errors, loading the
- * catalog, and writing the report (atomically with -o). */
+ * catalog, and the run's outputs (through its transaction, output/txn.h). */
 #ifndef SR_CLI_COMMON_H
 #define SR_CLI_COMMON_H
 
@@ -136,20 +136,30 @@ void sr_cli_atmos_short(const sr_atmos *m, sr_unit_system sys, char *buf, size_t
 struct sr_input_warnings;
 void sr_cli_report_input_warnings(sr_report *r, const struct sr_input_warnings *w);
 
-/* Render the report in the chosen format to stdout or -o FILE (atomically). */
+/* Render the report in the chosen format to standard output or -o FILE
+ * (through the run's transaction). */
 int sr_cli_emit(sr_cli *c, const sr_report *r);
 
-/* Check before any work that an output file (opt: "-o", "--samples") can be
- * written; sr_cli_parse does it for -o and --plot. 0 or an exit code. */
-int sr_cli_check_output(sr_cli *c, const char *opt, const char *path);
+/* Reserve an output file (opt: "-o", "--samples") in the run's transaction
+ * before any work; sr_cli_parse does it for -o and --plot. 0 or an exit
+ * code (one line printed). */
+int sr_cli_output(sr_cli *c, const char *opt, const char *path);
 
-/* Before writing path (a file, or a directory about to be made): when it
- * does not exist yet, remember it, so sr_cli_made_end(c, 1) removes it if
- * the run fails. An existing file is never removed. */
-void sr_cli_made(sr_cli *c, const char *path);
-/* At the end of a run: failed != 0 removes what the run made (newest first);
- * 0 keeps it and forgets the list (check: its report stands at exit 2). */
-void sr_cli_made_end(sr_cli *c, int failed);
+/* A file the run reads (what: "the mission file", "--sounding"): an output
+ * naming the same file is refused. 0 or an exit code. */
+int sr_cli_input(sr_cli *c, const char *what, const char *path);
+/* Every file a loaded mission read: itself, its sounding, wind table, canopy
+ * files and drag tables. */
+struct sr_mission;
+int sr_cli_mission_inputs(sr_cli *c, const struct sr_mission *m);
+
+/* A line for the error stream once the run's files are in place ("wrote
+ * fig.png"); dropped when the run fails. */
+void sr_cli_note(sr_cli *c, const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 2, 3)))
+#endif
+    ;
 
 /* Help text pieces shared by the commands. */
 extern const char SR_HELP_OUTPUT[];

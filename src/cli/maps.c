@@ -1,5 +1,6 @@
 /* maps.c - the trajectory file (a report table in CSV or JSON) and the
- * GeoJSON landing maps of `profile` and `dispersion`, written atomically. */
+ * GeoJSON landing maps of `profile` and `dispersion`, written through the run's
+ * transaction. */
 #define _DEFAULT_SOURCE
 #include "cli/maps.h"
 
@@ -10,7 +11,7 @@
 
 #include "analysis/trajectory.h"
 #include "cli/common.h"
-#include "output/fileio.h"
+#include "output/txn.h"
 #include "output/geojson.h"
 #include "output/report.h"
 #include "physics/geodesy.h"
@@ -18,9 +19,9 @@
 int sr_maps_write(sr_cli *c, const char *opt, const char *path, const char *data, size_t len)
 {
     sr_error e;
-    sr_cli_made(c, path);
-    if (sr_file_write_atomic(path, data, len, &e))
-        return sr_cli_fail(c, "%s: %s", opt, e.msg);
+    (void)opt; /* the transaction's message names the option it was reserved under */
+    if (sr_txn_write(c->txn, path, data, len, &e))
+        return sr_cli_fail(c, "%s", e.msg);
     return 0;
 }
 

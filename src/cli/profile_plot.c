@@ -260,6 +260,18 @@ static int track_figure(const plot_ctx *P, sr_plot *p)
     return rc;
 }
 
+static void track_prefix(const sr_cli *c, char *buf, size_t len)
+{
+    snprintf(buf, len, "%s-track", c->plot_prefix);
+}
+
+int sr_profile_plot_reserve(sr_cli *c)
+{
+    char tprefix[4096];
+    track_prefix(c, tprefix, sizeof tprefix);
+    return c->plot_prefix ? sr_cli_plot_reserve(c, tprefix) : 0;
+}
+
 int sr_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, const sr_profile_result *r,
                     const sr_profile_track *tr, int argc, char **argv)
 {
@@ -283,7 +295,7 @@ int sr_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, c
     /* the second figure: PREFIX-track */
     const char *prefix = c->plot_prefix;
     char tprefix[4096];
-    snprintf(tprefix, sizeof tprefix, "%s-track", prefix);
+    track_prefix(c, tprefix, sizeof tprefix);
     p = sr_plot_new(m->name);
     if (!p)
         return sr_cli_fail(c, "out of memory");

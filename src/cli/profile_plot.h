@@ -14,4 +14,7 @@
 int sr_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, const sr_profile_result *r,
                     const sr_profile_track *tr, int argc, char **argv);
 
+/* Reserve the second figure's files (PREFIX-track) before any work. */
+int sr_profile_plot_reserve(sr_cli *c);
+
 #endif

@@ -138,10 +138,10 @@ int sr_cli_verdict_messages(sr_report *r, sr_cli *c, const sr_mission *m, const 
             sr_report_format_value(b, sizeof b, row->limit, q, c->units, 4);
             sr_report_format_value(t, sizeof t, row->typical, q, c->units, 4);
             if (v->basis == SR_JUDGE_TYPICAL || row->band_end == row->typical)
-                fprintf(c->err, "sinkrate %s: limit exceeded: %s %s > %s\n", c->cmd, label, a, b);
+                sr_cli_note(c, "limit exceeded: %s %s > %s", label, a, b);
             else
-                fprintf(c->err, "sinkrate %s: limit exceeded: %s %s > %s at the worse end of the band (typical %s)\n",
-                        c->cmd, label, a, b, t);
+                sr_cli_note(c, "limit exceeded: %s %s > %s at the worse end of the band (typical %s)", label, a, b,
+                            t);
         } else if (row->exceeded_band_end) {
             hidden++;
             sr_report_format_value(a, sizeof a, row->band_end, q, c->units, 4);

@@ -9,6 +9,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 
 #define PI 3.14159265358979323846
 
@@ -94,7 +95,7 @@ static int read_band(const sr_yaml *y, yaml_node_t *map, const char *key, sr_qua
     b->hi = v[2];
     if ((rc = read_check(y, n, chk, err)))
         return rc;
-    return sr_yaml_string(y, sr_yaml_get(y, n, "source"), src, srclen, err);
+    return sr_yaml_text(y, sr_yaml_get(y, n, "source"), src, srclen, err);
 }
 
 static int read_value(const sr_yaml *y, yaml_node_t *map, const char *key, sr_quantity q, double min, double max,
@@ -112,7 +113,7 @@ static int read_value(const sr_yaml *y, yaml_node_t *map, const char *key, sr_qu
         return sr_yaml_fail(y, vn, err, "%s is outside the plausible range %g .. %g", key, min, max);
     if ((rc = read_check(y, n, chk, err)))
         return rc;
-    return sr_yaml_string(y, sr_yaml_get(y, n, "source"), src, srclen, err);
+    return sr_yaml_text(y, sr_yaml_get(y, n, "source"), src, srclen, err);
 }
 
 static int valid_id(const char *s)
@@ -203,7 +204,7 @@ int sr_catalog_parse_family(sr_family *f, sr_yaml *y, sr_error *err)
                          sizeof f->areal_source, &f->check[SR_FV_AREAL], err)))
         return rc;
     n = sr_yaml_get(y, root, "notes");
-    if (n && (rc = sr_yaml_string(y, n, f->notes, sizeof f->notes, err)))
+    if (n && (rc = sr_yaml_text(y, n, f->notes, sizeof f->notes, err)))
         return rc;
     return SR_OK;
 }
@@ -243,6 +244,13 @@ int sr_catalog_open(sr_catalog *c, const char *dir, sr_error *err)
     while ((e = readdir(d)) != NULL) {
         size_t l = strlen(e->d_name);
         if (l < 6 || strcmp(e->d_name + l - 5, ".yaml") != 0 || e->d_name[0] == '.')
+            continue;
+        /* a family is a regular file: a FIFO would block every command on its open, a device or a
+         * directory is no family */
+        char path[1024];
+        struct stat st;
+        snprintf(path, sizeof path, "%s/%s", dir, e->d_name);
+        if (stat(path, &st) != 0 || !S_ISREG(st.st_mode))
             continue;
         if (n >= SR_CATALOG_MAX) {
             rc = sr_error_set(err, SR_EINVAL, "%s: more than %d family files", dir, SR_CATALOG_MAX);
@@ -386,7 +394,7 @@ int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_ya
             return rc;
         if (sr_ref_parse(refs, &ref) != SR_OK)
             return sr_yaml_fail(y, rn, err, "reference must be nominal, projected or constructed, not '%s'", refs);
-        if ((rc = sr_yaml_string(y, sr_yaml_get(y, m, "source"), src, sizeof src, err)))
+        if ((rc = sr_yaml_text(y, sr_yaml_get(y, m, "source"), src, sizeof src, err)))
             return rc;
         /* optional low / high: a measured band (a fit's confidence interval) */
         sr_band b = {cd, cd, cd};

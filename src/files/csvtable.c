@@ -344,6 +344,12 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
             if (csv_parse(&p, buf + pos, chunk, on_field, on_record, c) != chunk && !s->failed) {
                 fail(s, s->field, "malformed CSV: %s%s", csv_strerror(csv_error(&p)), "");
             }
+            /* a quoted cell open at the end of its line (libcsv: FIELD_BEGUN
+             * inside quotes) would swallow the next lines, '#' ones too: a
+             * numeric table keeps every cell on its line */
+            if (!s->failed && end < len && p.pstate == 2 && p.quoted)
+                fail(s, s->field, "a quoted cell runs past the end of its line (its closing '\"' is missing)%s%s",
+                     "", "");
         }
         pos = end + 1;
     }

@@ -213,6 +213,7 @@ static int parse_stage(sr_mission *m, sr_yaml *y, yaml_node_t *n, const sr_catal
         if ((rc = sr_yaml_string(y, cf, file, sizeof file, err)))
             return rc;
         sr_mission_relative_path(path, sizeof path, m->path, file);
+        snprintf(s->file, sizeof s->file, "%s", path);
         sr_error e;
         if ((rc = sr_catalog_load_canopy(&s->canopy, cat, path, &e)))
             return sr_yaml_fail(y, cf, err, "%s", e.msg);
@@ -524,6 +525,8 @@ static int parse_start(sr_mission *m, sr_yaml *y, yaml_node_t *start, yaml_node_
     int rc;
     if ((rc = sr_yaml_check_map(y, start, "start", START_KEYS, START_REQ, err)))
         return rc;
+    snprintf(m->start_at, sizeof m->start_at, "%s:%zu:%zu", y->name, start->start_mark.line + 1,
+             start->start_mark.column + 1);
     yaml_node_t *hn = sr_yaml_get(y, start, "height");
     if ((rc = sr_yaml_quantity(y, hn, SR_Q_LENGTH, &m->start_height, err)))
         return rc;

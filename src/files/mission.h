@@ -32,6 +32,7 @@ typedef unsigned sr_section_set;
 typedef struct sr_stage {
     char name[SR_NAME_MAX];
     sr_canopy canopy;
+    char file[512];          /* the canopy file it came from (`canopy:`), "" for a family and size */
     int has_size;            /* 0: no size in the file (size --mission sizes it) */
     sr_deploy_kind deploy;
     double deploy_value;     /* m above ground, or s after the previous deployment on the same sections */
@@ -84,6 +85,7 @@ typedef struct sr_mission {
     size_t nstages;
     sr_stage stages[SR_MISSION_MAX_STAGES];
     int has_start;
+    char start_at[600];      /* "file:line:column" of the start: block, for messages about it */
     double start_height;     /* first deployment: height above ground, m */
     double start_speed;      /* m/s */
     double start_path_angle; /* rad, below horizontal positive */

@@ -36,6 +36,8 @@ typedef struct dist_ctx {
     double nominal;    /* SPREAD_SCALE: the nominal value a quantity is divided by */
     double max_abs;    /* largest offset spread (same unit as q, SI), or 0 for no bound */
     const char *max_why;
+    double max_up;     /* largest upward reach (6 sigma, or the half-width), or 0 for no bound */
+    const char *up_why;
     sr_band family;    /* drag only: the canopy's drag-area band; family.typ > 0 */
     int is_drag;
 } dist_ctx;
@@ -177,11 +179,17 @@ static int parse_dist(sr_yaml *y, yaml_node_t *n, const dist_ctx *c, sr_dist *d,
                                 "uncertainty %s: %s is %.3g %% of the nominal value; at most %.0f %% is accepted "
                                 "(the value must stay positive)",
                                 c->what, key, 100.0 * v, 100.0 * cap);
-    } else if (c->max_abs > 0.0) {
+    } else {
         double reach = sig ? 3.0 * v : v;
-        if (!(reach < c->max_abs))
+        if (c->max_abs > 0.0 && !(reach < c->max_abs))
             return sr_yaml_fail(y, vn, err, "uncertainty %s: %s%s reaches %s", c->what, sig ? "three times " : "",
                                 key, c->max_why);
+        /* upward, every draw a run can make must have air to fall through: six sigma (a
+         * 1e-9 tail) or the half-width, as the dispersion's height tables are built */
+        double up = sig ? 6.0 * v : v;
+        if (c->max_up > 0.0 && !(up <= c->max_up))
+            return sr_yaml_fail(y, vn, err, "uncertainty %s: %s%s reaches %s", c->what, sig ? "six times " : "", key,
+                                c->up_why);
     }
     if (sig)
         d->sigma = v;
@@ -299,10 +307,21 @@ int sr_mission_parse_uncertainty(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_e
     char why[160];
     if ((v = sr_yaml_get(y, n, "first-deployment"))) {
         dist_ctx c = {.what = "first-deployment", .q = SR_Q_LENGTH, .mode = SPREAD_ABS};
+        char up_why[200];
         if (m->has_start) {
             snprintf(why, sizeof why, "the ground from the first deployment at %.0f m", m->start_height);
             c.max_abs = m->start_height;
             c.max_why = why;
+            double lo, hi;
+            sr_atmos_range(&m->atmos, &lo, &hi);
+            snprintf(up_why, sizeof up_why,
+                     "above the top of the atmosphere model (%.0f m above sea level) from the first deployment at "
+                     "%.0f m above sea level",
+                     hi, m->ground + m->start_height);
+            c.max_up = hi - m->ground - m->start_height;
+            c.up_why = up_why;
+            if (!(c.max_up > 0.0))
+                c.max_up = 1e-9; /* a start at the very top leaves no room at all */
         }
         if ((rc = parse_dist(y, v, &c, &u->start_height, NULL, err)))
             return rc;

@@ -25,58 +25,306 @@ int sr_yaml_fail(const sr_yaml *y, const yaml_node_t *n, sr_error *err, const ch
     return sr_error_set(err, SR_EINVAL, "%s: %s", y->name, msg);
 }
 
-/* Depth and size of the tree as the schema code walks it. Aliases are
- * followed, so every use of an anchor counts: a file that repeats one list
- * through nested aliases ("billion laughs") exhausts the budget instead of
- * making this walk, and later ones, exponential. */
-static int tree_ok(yaml_document_t *d, yaml_node_t *n, int depth, size_t *budget, yaml_node_t **bad)
-{
-    if (depth > SR_YAML_MAX_DEPTH || *budget == 0) {
-        *bad = n;
-        return 0;
-    }
-    (*budget)--;
-    if (n->type == YAML_SEQUENCE_NODE) {
-        for (yaml_node_item_t *it = n->data.sequence.items.start; it < n->data.sequence.items.top; it++) {
-            yaml_node_t *c = yaml_document_get_node(d, *it);
-            if (c && !tree_ok(d, c, depth + 1, budget, bad))
-                return 0;
-        }
-    } else if (n->type == YAML_MAPPING_NODE) {
-        for (yaml_node_pair_t *p = n->data.mapping.pairs.start; p < n->data.mapping.pairs.top; p++) {
-            yaml_node_t *k = yaml_document_get_node(d, p->key);
-            yaml_node_t *v = yaml_document_get_node(d, p->value);
-            if ((k && !tree_ok(d, k, depth + 1, budget, bad)) || (v && !tree_ok(d, v, depth + 1, budget, bad)))
-                return 0;
-        }
-    }
-    return 1;
-}
-
-/* Before libyaml builds anything: a NUL byte, or flow brackets nested deeper
- * than any sinkrate file needs (the usual vehicle of pathological nesting).
- * Reports the 1-based line and column of the offending byte. */
+/* Before libyaml reads anything: a NUL byte means binary data. */
 static int prescan(const sr_yaml *y, const char *buf, size_t len, sr_error *err)
 {
+    const char *nul = memchr(buf, '\0', len);
+    if (!nul)
+        return SR_OK;
     size_t line = 1, col = 1;
-    int flow = 0;
-    for (size_t i = 0; i < len; i++, col++) {
-        char ch = buf[i];
-        if (ch == '\0')
-            return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: binary data (a NUL byte); not a YAML text file", y->name,
-                                line, col);
-        if (ch == '\n') {
+    for (const char *p = buf; p < nul; p++, col++)
+        if (*p == '\n') {
             line++;
             col = 0;
-        } else if (ch == '[' || ch == '{') {
-            if (++flow > SR_YAML_MAX_DEPTH)
-                return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: nested more than %d levels deep; not a sinkrate file",
-                                    y->name, line, col, SR_YAML_MAX_DEPTH);
-        } else if ((ch == ']' || ch == '}') && flow > 0) {
-            flow--;
+        }
+    return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: binary data (a NUL byte); not a YAML text file", y->name, line,
+                        col);
+}
+
+/* The document is built here from libyaml's events rather than by
+ * yaml_parser_load, for three limits the loader lacks: nesting is counted on
+ * the collections themselves (never on brackets inside strings or comments);
+ * an alias is a copy of its anchor's nodes that counts against the node
+ * budget at every use, and its nodes carry the position of the use, so an
+ * error in an anchored value is reported where it is used; and anchors are
+ * few (SR_YAML_MAX_ANCHORS), so finding one is cheap, where the loader's
+ * search costs anchors x aliases (minutes for a crafted 1 MiB file). */
+typedef struct anchor {
+    char *name;
+    int node;
+} anchor;
+
+typedef struct frame {
+    int node;
+    int key; /* a mapping's key waiting for its value, 0 for none */
+} frame;
+
+typedef struct builder {
+    sr_yaml *y;
+    frame stack[SR_YAML_MAX_DEPTH + 2];
+    int depth;
+    anchor *anchors;
+    size_t nanchors, cap;
+    size_t nodes;
+    sr_error *err;
+} builder;
+
+static int fail_at(builder *b, yaml_mark_t m, const char *fmt, ...)
+#if defined(__GNUC__)
+    __attribute__((format(printf, 3, 4)))
+#endif
+    ;
+static int fail_at(builder *b, yaml_mark_t m, const char *fmt, ...)
+{
+    char msg[SR_ERROR_MSG_MAX];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(msg, sizeof msg, fmt, ap);
+    va_end(ap);
+    return sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: %s", b->y->name, m.line + 1, m.column + 1, msg);
+}
+
+static int too_deep(builder *b, yaml_mark_t m)
+{
+    return fail_at(b, m, "nested more than %d levels deep: too deeply nested for a sinkrate file", SR_YAML_MAX_DEPTH);
+}
+
+static int count_node(builder *b, yaml_mark_t m)
+{
+    if (++b->nodes > SR_YAML_MAX_NODES)
+        return fail_at(b, m, "too large or too deeply nested for a sinkrate file (more than %d values; aliases count "
+                             "at every use)",
+                       SR_YAML_MAX_NODES);
+    return SR_OK;
+}
+
+/* Hang a finished node on the collection open above it. */
+static int attach(builder *b, int node, yaml_mark_t m)
+{
+    if (b->depth == 0)
+        return SR_OK; /* the root */
+    frame *f = &b->stack[b->depth - 1];
+    yaml_node_t *parent = yaml_document_get_node(&b->y->doc, f->node);
+    int ok;
+    if (parent->type == YAML_SEQUENCE_NODE) {
+        ok = yaml_document_append_sequence_item(&b->y->doc, f->node, node);
+    } else if (!f->key) {
+        f->key = node;
+        ok = 1;
+    } else {
+        ok = yaml_document_append_mapping_pair(&b->y->doc, f->node, f->key, node);
+        f->key = 0;
+    }
+    if (!ok)
+        return sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
+    (void)m;
+    return SR_OK;
+}
+
+static int add_anchor(builder *b, const yaml_char_t *name, int node, yaml_mark_t m)
+{
+    if (!name)
+        return SR_OK;
+    if (b->nanchors >= SR_YAML_MAX_ANCHORS)
+        return fail_at(b, m, "more than %d anchors (&name); a sinkrate file needs few", SR_YAML_MAX_ANCHORS);
+    if (b->nanchors == b->cap) {
+        size_t cap = b->cap ? 2 * b->cap : 16;
+        anchor *n = realloc(b->anchors, cap * sizeof *n);
+        if (!n)
+            return SR_ENOMEM;
+        b->anchors = n;
+        b->cap = cap;
+    }
+    b->anchors[b->nanchors].name = strdup((const char *)name);
+    b->anchors[b->nanchors].node = node;
+    return b->anchors[b->nanchors++].name ? SR_OK : SR_ENOMEM;
+}
+
+/* A copy of node src (and all below it) at the position of an alias;
+ * *out receives the new node's index. depth: the level the copy starts at. */
+static int copy_node(builder *b, int src, yaml_mark_t m, int depth, int *out)
+{
+    if (depth > SR_YAML_MAX_DEPTH)
+        return too_deep(b, m);
+    int rc = count_node(b, m);
+    if (rc)
+        return rc;
+    yaml_document_t *d = &b->y->doc;
+    /* adding a node may move the node array: n is not used after an add */
+    yaml_node_t *n = yaml_document_get_node(d, src);
+    int idx = 0;
+    if (n->type == YAML_SCALAR_NODE) {
+        idx = yaml_document_add_scalar(d, n->tag, n->data.scalar.value, (int)n->data.scalar.length,
+                                       n->data.scalar.style);
+    } else if (n->type == YAML_SEQUENCE_NODE) {
+        size_t items = (size_t)(n->data.sequence.items.top - n->data.sequence.items.start);
+        idx = yaml_document_add_sequence(d, n->tag, n->data.sequence.style);
+        for (size_t i = 0; idx && !rc && i < items; i++) {
+            int c;
+            /* the array may move as nodes are added: look the item up again */
+            int item = yaml_document_get_node(d, src)->data.sequence.items.start[i];
+            if (!(rc = copy_node(b, item, m, depth + 1, &c)) && !yaml_document_append_sequence_item(d, idx, c))
+                rc = SR_ENOMEM;
+        }
+    } else {
+        size_t pairs = (size_t)(n->data.mapping.pairs.top - n->data.mapping.pairs.start);
+        idx = yaml_document_add_mapping(d, n->tag, n->data.mapping.style);
+        for (size_t i = 0; idx && !rc && i < pairs; i++) {
+            yaml_node_pair_t pr = yaml_document_get_node(d, src)->data.mapping.pairs.start[i];
+            int k, v;
+            if (!(rc = copy_node(b, pr.key, m, depth + 1, &k)) && !(rc = copy_node(b, pr.value, m, depth + 1, &v)) &&
+                !yaml_document_append_mapping_pair(d, idx, k, v))
+                rc = SR_ENOMEM;
         }
     }
+    if (!idx && !rc)
+        rc = SR_ENOMEM;
+    if (rc == SR_ENOMEM)
+        return sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
+    if (rc)
+        return rc;
+    n = yaml_document_get_node(d, idx);
+    n->start_mark = n->end_mark = m;
+    *out = idx;
     return SR_OK;
+}
+
+/* One event: a node made and hung in place, a collection opened or closed. */
+static int on_event(builder *b, yaml_event_t *ev)
+{
+    yaml_document_t *d = &b->y->doc;
+    yaml_mark_t m = ev->start_mark;
+    int idx = 0, rc;
+    switch (ev->type) {
+    case YAML_SCALAR_EVENT: {
+        const char *v = (const char *)ev->data.scalar.value;
+        if (memchr(v, '\0', ev->data.scalar.length))
+            return fail_at(b, m, "a NUL character (\\0) in a text or key; sinkrate files hold plain text");
+        if ((rc = count_node(b, m)))
+            return rc;
+        idx = yaml_document_add_scalar(d, ev->data.scalar.tag, ev->data.scalar.value, (int)ev->data.scalar.length,
+                                       ev->data.scalar.style);
+        if (!idx)
+            return SR_ENOMEM;
+        yaml_document_get_node(d, idx)->start_mark = m;
+        yaml_document_get_node(d, idx)->end_mark = ev->end_mark;
+        if ((rc = add_anchor(b, ev->data.scalar.anchor, idx, m)))
+            return rc;
+        return attach(b, idx, m);
+    }
+    case YAML_SEQUENCE_START_EVENT:
+    case YAML_MAPPING_START_EVENT: {
+        if (b->depth >= SR_YAML_MAX_DEPTH)
+            return too_deep(b, m);
+        if ((rc = count_node(b, m)))
+            return rc;
+        int seq = ev->type == YAML_SEQUENCE_START_EVENT;
+        idx = seq ? yaml_document_add_sequence(d, ev->data.sequence_start.tag, ev->data.sequence_start.style)
+                  : yaml_document_add_mapping(d, ev->data.mapping_start.tag, ev->data.mapping_start.style);
+        if (!idx)
+            return SR_ENOMEM;
+        yaml_document_get_node(d, idx)->start_mark = m;
+        b->stack[b->depth].node = idx;
+        b->stack[b->depth].key = 0;
+        b->depth++;
+        /* the anchor names the collection once it is complete: an alias inside it is undefined */
+        return SR_OK;
+    }
+    case YAML_SEQUENCE_END_EVENT:
+    case YAML_MAPPING_END_EVENT: {
+        frame f = b->stack[--b->depth];
+        yaml_node_t *n = yaml_document_get_node(d, f.node);
+        n->end_mark = ev->end_mark;
+        return attach(b, f.node, m);
+    }
+    case YAML_ALIAS_EVENT: {
+        const char *name = (const char *)ev->data.alias.anchor;
+        /* the newest anchor of that name counts (YAML lets a name be reused) */
+        int src = 0;
+        for (size_t i = b->nanchors; i-- > 0 && !src;)
+            if (strcmp(b->anchors[i].name, name) == 0)
+                src = b->anchors[i].node;
+        if (!src)
+            return fail_at(b, m, "the alias *%s names no anchor (&%s) defined before it", name, name);
+        if ((rc = copy_node(b, src, m, b->depth, &idx)))
+            return rc;
+        return attach(b, idx, m);
+    }
+    default:
+        return SR_OK;
+    }
+}
+
+/* Anchors on collections are known only when the collection closes; the
+ * events keep them, so they are recorded here, by start position. */
+typedef struct pending_anchor {
+    char *name;
+    int depth;
+} pending_anchor;
+
+static int build(builder *b, yaml_parser_t *p, const char *buf, size_t len)
+{
+    pending_anchor open[SR_YAML_MAX_DEPTH + 2];
+    int docs = 0, rc = SR_OK;
+    for (;;) {
+        yaml_event_t ev;
+        if (!yaml_parser_parse(p, &ev)) {
+            size_t line = p->problem_mark.line + 1, col = p->problem_mark.column + 1;
+            if (p->error == YAML_READER_ERROR) {
+                /* libyaml gives a reader error (bad UTF-8, control bytes) as a byte offset only */
+                line = col = 1;
+                for (size_t i = 0; i < p->problem_offset && i < len; i++, col++)
+                    if (buf[i] == '\n') {
+                        line++;
+                        col = 0;
+                    }
+            }
+            if (p->error == YAML_MEMORY_ERROR)
+                rc = sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
+            else
+                rc = sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: malformed YAML: %s%s%s", b->y->name, line, col,
+                                  p->problem ? p->problem : "syntax error", p->context ? " " : "",
+                                  p->context ? p->context : "");
+            break;
+        }
+        yaml_event_type_t type = ev.type;
+        if (type == YAML_DOCUMENT_START_EVENT) {
+            /* a second document in the same file is a mistake worth reporting */
+            if (++docs > 1)
+                rc = fail_at(b, ev.start_mark, "more than one YAML document (---); keep one per file");
+            else if (!yaml_document_initialize(&b->y->doc, NULL, NULL, NULL, 1, 1))
+                rc = SR_ENOMEM;
+            else
+                b->y->loaded = 1;
+        } else {
+            int depth_before = b->depth;
+            const yaml_char_t *anchor_name = type == YAML_SEQUENCE_START_EVENT ? ev.data.sequence_start.anchor
+                                             : type == YAML_MAPPING_START_EVENT ? ev.data.mapping_start.anchor
+                                                                                : NULL;
+            rc = on_event(b, &ev);
+            if (!rc && (type == YAML_SEQUENCE_START_EVENT || type == YAML_MAPPING_START_EVENT)) {
+                open[depth_before].name = anchor_name ? strdup((const char *)anchor_name) : NULL;
+                open[depth_before].depth = depth_before;
+                if (anchor_name && !open[depth_before].name)
+                    rc = SR_ENOMEM;
+            } else if (!rc && (type == YAML_SEQUENCE_END_EVENT || type == YAML_MAPPING_END_EVENT)) {
+                char *name = open[b->depth].name;
+                open[b->depth].name = NULL;
+                if (name)
+                    rc = add_anchor(b, (const yaml_char_t *)name, b->stack[b->depth].node, ev.start_mark);
+                free(name);
+            }
+        }
+        yaml_event_delete(&ev);
+        if (rc == SR_ENOMEM)
+            rc = sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
+        if (rc || type == YAML_STREAM_END_EVENT)
+            break;
+    }
+    /* anchors of collections left open by an error */
+    for (int i = 0; i < b->depth; i++)
+        free(open[i].name);
+    return rc;
 }
 
 int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t len, sr_error *err)
@@ -94,61 +342,22 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
     if (!yaml_parser_initialize(&p))
         return sr_error_set(err, SR_ENOMEM, "%s: cannot start the YAML parser", name);
     yaml_parser_set_input_string(&p, (const unsigned char *)buf, len);
-    if (!yaml_parser_load(&p, &y->doc)) {
-        size_t line = p.problem_mark.line + 1, col = p.problem_mark.column + 1;
-        if (p.error == YAML_READER_ERROR) {
-            /* libyaml gives a reader error (bad UTF-8, control bytes) as a byte offset only */
-            line = col = 1;
-            for (size_t i = 0; i < p.problem_offset && i < len; i++, col++)
-                if (buf[i] == '\n') {
-                    line++;
-                    col = 0;
-                }
-        }
-        if (p.error == YAML_MEMORY_ERROR)
-            sr_error_set(err, SR_ENOMEM, "%s: out of memory while reading YAML", name);
-        else
-            sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: malformed YAML: %s%s%s", name, line, col,
-                         p.problem ? p.problem : "syntax error", p.context ? " " : "", p.context ? p.context : "");
-        yaml_parser_delete(&p);
-        return err ? err->code : SR_EINVAL;
-    }
-    /* a second document in the same file is a mistake worth reporting, and
-     * a malformed one must not pass unseen */
-    yaml_document_t extra;
-    int more = 0;
-    size_t more_line = 0, more_col = 0;
-    if (yaml_parser_load(&p, &extra)) {
-        more = yaml_document_get_root_node(&extra) != NULL;
-        more_line = extra.start_mark.line + 1;
-        more_col = extra.start_mark.column + 1;
-        yaml_document_delete(&extra);
-    } else {
-        more = 1;
-        more_line = p.problem_mark.line + 1;
-        more_col = p.problem_mark.column + 1;
-    }
+    builder b;
+    memset(&b, 0, sizeof b);
+    b.y = y;
+    b.err = err;
+    rc = build(&b, &p, buf, len);
     yaml_parser_delete(&p);
-    y->loaded = 1;
-    yaml_node_t *root = yaml_document_get_root_node(&y->doc);
-    if (!root) {
+    for (size_t i = 0; i < b.nanchors; i++)
+        free(b.anchors[i].name);
+    free(b.anchors);
+    if (rc) {
+        sr_yaml_free(y);
+        return rc;
+    }
+    if (!sr_yaml_root(y)) {
         sr_yaml_free(y);
         return sr_error_set(err, SR_EINVAL, "%s:1:1: the file holds no YAML document", name);
-    }
-    if (more) {
-        sr_yaml_free(y);
-        return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: more than one YAML document (---); keep one per file", name,
-                            more_line, more_col);
-    }
-    size_t nodes = (size_t)(y->doc.nodes.top - y->doc.nodes.start), budget = SR_YAML_MAX_NODES;
-    yaml_node_t *bad = root;
-    if (nodes > SR_YAML_MAX_NODES || !tree_ok(&y->doc, root, 0, &budget, &bad)) {
-        size_t line = bad->start_mark.line + 1, col = bad->start_mark.column + 1;
-        sr_yaml_free(y);
-        return sr_error_set(err, SR_EINVAL,
-                            "%s:%zu:%zu: too large or too deeply nested for a sinkrate file (aliases count at "
-                            "every use)",
-                            name, line, col);
     }
     return SR_OK;
 }
@@ -308,17 +517,74 @@ yaml_node_t *sr_yaml_get(const sr_yaml *y, yaml_node_t *n, const char *key)
     return NULL;
 }
 
-int sr_yaml_string(const sr_yaml *y, yaml_node_t *n, char *buf, size_t len, sr_error *err)
+/* The first control character of s (C0, DEL, or C1 as UTF-8 C2 80..9F),
+ * or NULL; *len receives its length in bytes. */
+static const char *control_char(const char *s, size_t *len)
+{
+    for (const unsigned char *p = (const unsigned char *)s; *p; p++) {
+        if (*p < 0x20 || *p == 0x7f) {
+            *len = 1;
+            return (const char *)p;
+        }
+        if (p[0] == 0xc2 && p[1] >= 0x80 && p[1] <= 0x9f) {
+            *len = 2;
+            return (const char *)p;
+        }
+    }
+    return NULL;
+}
+
+static void describe_control(const char *c, size_t len, char *buf, size_t blen)
+{
+    unsigned v = len == 2 ? (unsigned char)c[1] : (unsigned char)c[0];
+    const char *name = v == '\n' ? "a line break" : v == '\r' ? "a carriage return" : v == '\t' ? "a tab"
+                     : v == 0x1b ? "an escape (ESC)" : v == '\b' ? "a backspace" : v == 0x07 ? "a bell" : NULL;
+    if (name)
+        snprintf(buf, blen, "%s, U+%04X", name, v);
+    else
+        snprintf(buf, blen, "U+%04X", v);
+}
+
+static int text_value(const sr_yaml *y, yaml_node_t *n, char *buf, size_t len, int free_text, sr_error *err)
 {
     const char *s = scalar_of(n);
     if (!s)
         return sr_yaml_fail(y, n, err, "expected a text value here");
     if (strlen(s) >= len)
         return sr_yaml_fail(y, n, err, "text longer than %zu characters", len - 1);
-    if (s[0] == '\0')
-        return sr_yaml_fail(y, n, err, "empty text value");
     snprintf(buf, len, "%s", s);
+    if (free_text) {
+        /* a folded or literal block: its line breaks and tabs read as spaces */
+        for (char *p = buf; *p; p++)
+            if (*p == '\n' || *p == '\r' || *p == '\t')
+                *p = ' ';
+        size_t l = strlen(buf);
+        while (l > 0 && buf[l - 1] == ' ')
+            buf[--l] = '\0';
+    }
+    size_t cl;
+    const char *c = control_char(buf, &cl);
+    if (c) {
+        /* names reach reports, tables and terminals: a terminal escape or a
+         * line break there would rewrite or break what a reader sees */
+        char what[64];
+        describe_control(c, cl, what, sizeof what);
+        return sr_yaml_fail(y, n, err, "a control character (%s) in the text; write it as plain printable text",
+                            what);
+    }
+    if (buf[0] == '\0')
+        return sr_yaml_fail(y, n, err, "empty text value");
     return SR_OK;
+}
+
+int sr_yaml_string(const sr_yaml *y, yaml_node_t *n, char *buf, size_t len, sr_error *err)
+{
+    return text_value(y, n, buf, len, 0, err);
+}
+
+int sr_yaml_text(const sr_yaml *y, yaml_node_t *n, char *buf, size_t len, sr_error *err)
+{
+    return text_value(y, n, buf, len, 1, err);
 }
 
 int sr_yaml_number(const sr_yaml *y, yaml_node_t *n, double *v, sr_error *err)

@@ -1,7 +1,9 @@
 /* yamldoc.h - strict access to a YAML document loaded with libyaml: every
  * key checked against a schema (unknown keys get a "did you mean"), no
  * duplicates, typed scalars, quantities that must carry units, and every
- * error at file:line:column (1-based). */
+ * error at file:line:column (1-based). Loading bounds the file's size, its
+ * nesting and its nodes (an alias counts at every use, and its nodes carry
+ * the position of the use); a NUL character in a text or key is refused. */
 #ifndef SR_YAMLDOC_H
 #define SR_YAMLDOC_H
 
@@ -14,6 +16,7 @@
 #define SR_YAML_MAX_BYTES (1u << 20)   /* 1 MiB: far above any canopy or mission file */
 #define SR_YAML_MAX_NODES 20000
 #define SR_YAML_MAX_DEPTH 16
+#define SR_YAML_MAX_ANCHORS 1000
 
 typedef struct sr_yaml {
     yaml_document_t doc;
@@ -46,8 +49,12 @@ yaml_node_t *sr_yaml_get(const sr_yaml *y, yaml_node_t *n, const char *key);
 yaml_node_t *sr_yaml_key_node(const sr_yaml *y, yaml_node_t *n, const char *key);
 
 /* Typed scalars. Each fails with a positioned message when n is not a scalar
- * of the right form. */
+ * of the right form. A string (a name, an id, a file name, a word) holds no
+ * control character at all (C0, DEL, C1): names reach reports and terminals. */
 int sr_yaml_string(const sr_yaml *y, yaml_node_t *n, char *buf, size_t len, sr_error *err);
+/* Free text (notes, sources): line breaks and tabs of a block scalar read as
+ * spaces; any other control character is refused as in sr_yaml_string. */
+int sr_yaml_text(const sr_yaml *y, yaml_node_t *n, char *buf, size_t len, sr_error *err);
 int sr_yaml_number(const sr_yaml *y, yaml_node_t *n, double *v, sr_error *err);
 int sr_yaml_int(const sr_yaml *y, yaml_node_t *n, long lo, long hi, long *v, sr_error *err);
 /* true or false (YAML 1.2 core schema spellings only). */

@@ -1,5 +1,5 @@
-/* fileio.h - writing files atomically: a temporary file in the same
- * directory, then rename, so a failed run never leaves half a file. */
+/* fileio.h - one file written atomically (a transaction of one output,
+ * output/txn.h) and bounded reads with plain errors. */
 #ifndef SR_FILEIO_H
 #define SR_FILEIO_H
 
@@ -8,15 +8,11 @@
 
 #include "base/error.h"
 
+/* One file written through a temporary next to it, fsync and rename (an
+ * output transaction of one file, output/txn.h): a failed write leaves the
+ * old file as it was. Through a symbolic link the file it names is replaced
+ * and the link kept; a device or a pipe is written in place. */
 int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_error *err);
-
-/* Whether sr_file_write_atomic(path) can succeed, checked before any work so
- * a bad output path fails first and nothing is written: the name is a file
- * name, not a directory, and a file can be created in its directory (a probe
- * file is made and removed). mkdirs != 0: a missing directory is fine when
- * the nearest existing one above it is writable (the writer creates it).
- * Errors read as sr_file_write_atomic's. */
-int sr_file_check_writable(const char *path, int mkdirs, sr_error *err);
 
 /* fopen(path, "rb") with the two errors users meet named plainly: the file
  * does not open (with the system's reason), or it is a directory. */

@@ -1,24 +1,21 @@
-/* plot.c - gnuplot data files and scripts with the shared style, and
- * rendering them by running gnuplot (the one place sinkrate runs a program). */
+/* plot.c - gnuplot data files and scripts with the shared style (rendering
+ * them is plot_render.c). */
 #define _DEFAULT_SOURCE
 #include "output/plot.h"
 
 #include <errno.h>
 #include <fcntl.h>
 #include <math.h>
-#include <spawn.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
-#include <sys/wait.h>
 #include <unistd.h>
 
 #include "output/fileio.h"
+#include "output/txn.h"
 #include "output/report.h"
 #include "base/version.h"
-
-extern char **environ;
 
 typedef struct pblock {
     char *title;
@@ -317,9 +314,9 @@ void sr_plot_path(char *buf, size_t len, const char *prefix, const char *ext)
 
 /* ---- writing ---- */
 
-/* A gnuplot single-quoted string: no escapes, no backquote or macro
- * expansion inside; a quote is doubled. Line breaks become spaces. */
-static void gpq(FILE *f, const char *s)
+#define gpq sr_plot_quote
+
+void sr_plot_quote(FILE *f, const char *s)
 {
     fputc('\'', f);
     for (const unsigned char *p = (const unsigned char *)(s ? s : ""); *p; p++) {
@@ -1031,7 +1028,8 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
     fputs("set output\n", f);
 }
 
-static int write_mem(const char *path, void (*fill)(FILE *, const void *), const void *ud, sr_error *err)
+static int write_mem(sr_txn *t, const char *path, void (*fill)(FILE *, const void *), const void *ud,
+                     sr_error *err)
 {
     char *buf = NULL;
     size_t len = 0;
@@ -1045,7 +1043,7 @@ static int write_mem(const char *path, void (*fill)(FILE *, const void *), const
         free(buf);
         return sr_error_set(err, SR_ENOMEM, "out of memory writing %s", path);
     }
-    int rc = sr_file_write_atomic(path, buf, len, err);
+    int rc = sr_txn_write(t, path, buf, len, err);
     free(buf);
     return rc;
 }
@@ -1084,14 +1082,16 @@ static int check_names(const char *prefix, const char *format, sr_error *err)
     return SR_OK;
 }
 
-int sr_plot_check_prefix(const char *prefix, const char *format, sr_error *err)
+int sr_plot_reserve(sr_txn *t, const char *what, const char *prefix, const char *format, sr_error *err)
 {
     int rc = check_names(prefix, format, err);
+    if (rc)
+        return what && *what ? sr_error_prefix(err, "%s: ", what) : rc;
     const char *ext[3] = {"dat", "gp", format};
     for (int k = 0; k < 3 && !rc; k++) {
-        char path[4096];
-        sr_plot_path(path, sizeof path, prefix, ext[k]);
-        rc = sr_file_check_writable(path, 1, err);
+        char *path = sr_plot_path_new(prefix, ext[k]);
+        rc = path ? sr_txn_reserve(t, what, path, SR_TXN_MKDIRS, err) : sr_error_set(err, SR_ENOMEM, "out of memory");
+        free(path);
     }
     return rc;
 }
@@ -1115,178 +1115,28 @@ int sr_plot_write(const sr_plot *p, const sr_plot_out *o, sr_error *err)
     }
     int style_ok = o->style && access(o->style, R_OK) == 0;
     wctx w = {p, o, name, style_ok};
-    char path[4096];
-    sr_plot_path(path, sizeof path, o->prefix, "dat");
-    rc = write_mem(path, fill_data, &w, err);
-    if (rc)
-        return rc;
-    sr_plot_path(path, sizeof path, o->prefix, "gp");
-    return write_mem(path, fill_script, &w, err);
-}
-
-/* ---- rendering ---- */
-
-int sr_plot_find_gnuplot(char *path, size_t len)
-{
-    const char *env = getenv("PATH");
-    if (!env || !*env)
-        return 0;
-    const char *p = env;
-    while (1) {
-        const char *end = strchr(p, ':');
-        size_t n = end ? (size_t)(end - p) : strlen(p);
-        char cand[4096];
-        snprintf(cand, sizeof cand, "%.*s%sgnuplot", (int)n, n ? p : ".", "/");
-        struct stat st;
-        if (stat(cand, &st) == 0 && S_ISREG(st.st_mode) && access(cand, X_OK) == 0) {
-            snprintf(path, len, "%s", cand);
-            return 1;
-        }
-        if (!end)
-            break;
-        p = end + 1;
-    }
-    return 0;
-}
-
-/* The line of gnuplot's complaint that says what went wrong. */
-static void gnuplot_message(const char *text, char *buf, size_t len)
-{
-    const char *best = NULL, *last = NULL;
-    for (const char *p = text; *p;) {
-        const char *e = strchr(p, '\n');
-        size_t n = e ? (size_t)(e - p) : strlen(p);
-        int blank = 1;
-        for (size_t i = 0; i < n; i++)
-            if (p[i] != ' ' && p[i] != '^' && p[i] != '\t')
-                blank = 0;
-        if (!blank) {
-            last = p;
-            if (!best) {
-                for (size_t i = 0; i + 7 <= n; i++)
-                    if (memcmp(p + i, "\" line ", 7) == 0) {
-                        best = p;
-                        break;
-                    }
-            }
-        }
-        if (!e)
-            break;
-        p = e + 1;
-    }
-    const char *s = best ? best : last;
-    if (!s) {
-        snprintf(buf, len, "no message");
-        return;
-    }
-    const char *e = strchr(s, '\n');
-    snprintf(buf, len, "%.*s", (int)(e ? (size_t)(e - s) : strlen(s)), s);
-}
-
-int sr_plot_render(const char *gnuplot, const char *prefix, const char *format, char *diag, size_t diaglen,
-                   sr_error *err)
-{
-    if (diag && diaglen)
-        diag[0] = '\0';
-    if (!format || (strcmp(format, "png") != 0 && strcmp(format, "svg") != 0))
-        return sr_error_set(err, SR_EINVAL, "plot format must be png or svg");
-    char script[4096], final[4096], tmp[4200];
-    sr_plot_path(script, sizeof script, prefix, "gp");
-    sr_plot_path(final, sizeof final, prefix, format);
-    snprintf(tmp, sizeof tmp, "%s.tmp.XXXXXX", final);
-    int fd = mkstemp(tmp);
-    if (fd < 0)
-        return sr_error_set(err, SR_EIO, "%s: cannot write: %s", final, strerror(errno));
-    mode_t um = umask(0);
-    umask(um);
-    int chm = fchmod(fd, 0666 & ~um);
-    close(fd);
-    if (chm != 0) {
-        unlink(tmp);
-        return sr_error_set(err, SR_EIO, "%s: cannot write: %s", final, strerror(errno));
-    }
-    /* the output goes to the temporary file; the script's format and output
-     * variables are set before it runs (single-quoted: taken literally) */
-    char *expr = NULL;
-    size_t elen = 0;
-    FILE *m = open_memstream(&expr, &elen);
-    if (!m) {
-        unlink(tmp);
+    /* both files or neither: the caller's transaction, or one of our own */
+    sr_txn *t = o->txn ? o->txn : sr_txn_new();
+    if (!t)
         return sr_error_set(err, SR_ENOMEM, "out of memory");
-    }
-    fputs("fmt=", m);
-    gpq(m, format);
-    fputs("; outfile=", m);
-    gpq(m, tmp);
-    fclose(m);
-    char *argv[] = {(char *)"gnuplot", (char *)"-e", expr, script, NULL};
+    char *dat = sr_plot_path_new(o->prefix, "dat"), *gp = sr_plot_path_new(o->prefix, "gp");
+    rc = !dat || !gp ? sr_error_set(err, SR_ENOMEM, "out of memory") : write_mem(t, dat, fill_data, &w, err);
+    if (!rc)
+        rc = write_mem(t, gp, fill_script, &w, err);
+    if (!rc && !o->txn)
+        rc = sr_txn_commit(t, err);
+    if (!o->txn)
+        sr_txn_free(t);
+    free(dat);
+    free(gp);
+    return rc;
+}
 
-    int pfd[2];
-    if (pipe(pfd) != 0) {
-        free(expr);
-        unlink(tmp);
-        return sr_error_set(err, SR_EIO, "cannot run gnuplot: %s", strerror(errno));
-    }
-    fcntl(pfd[0], F_SETFD, FD_CLOEXEC);
-    fcntl(pfd[1], F_SETFD, FD_CLOEXEC);
-    posix_spawn_file_actions_t fa;
-    posix_spawn_file_actions_init(&fa);
-    posix_spawn_file_actions_addopen(&fa, 0, "/dev/null", O_RDONLY, 0);
-    posix_spawn_file_actions_addopen(&fa, 1, "/dev/null", O_WRONLY, 0);
-    posix_spawn_file_actions_adddup2(&fa, pfd[1], 2);
-    pid_t pid;
-    int sp = posix_spawn(&pid, gnuplot, &fa, NULL, argv, environ);
-    posix_spawn_file_actions_destroy(&fa);
-    free(expr);
-    close(pfd[1]);
-    if (sp != 0) {
-        close(pfd[0]);
-        unlink(tmp);
-        return sr_error_set(err, SR_EIO, "cannot run %s: %s", gnuplot, strerror(sp));
-    }
-    char msg[8192];
-    size_t got = 0;
-    for (;;) {
-        char chunk[1024];
-        ssize_t r = read(pfd[0], chunk, sizeof chunk);
-        if (r < 0 && errno == EINTR)
-            continue;
-        if (r <= 0)
-            break;
-        size_t keep = (size_t)r;
-        if (got + keep > sizeof msg - 1)
-            keep = sizeof msg - 1 - got;
-        memcpy(msg + got, chunk, keep);
-        got += keep;
-    }
-    close(pfd[0]);
-    msg[got] = '\0';
-    int status = 0;
-    while (waitpid(pid, &status, 0) < 0) {
-        if (errno != EINTR) {
-            unlink(tmp);
-            return sr_error_set(err, SR_EIO, "gnuplot: %s", strerror(errno));
-        }
-    }
-    if (diag && diaglen)
-        snprintf(diag, diaglen, "%s", msg);
-    if (!WIFEXITED(status) || WEXITSTATUS(status) != 0) {
-        unlink(tmp);
-        char line[400];
-        gnuplot_message(msg, line, sizeof line);
-        if (WIFSIGNALED(status))
-            return sr_error_set(err, SR_EIO, "gnuplot stopped by signal %d on %s", WTERMSIG(status), script);
-        return sr_error_set(err, SR_EIO, "gnuplot rejected %s: %s", script, line);
-    }
-    struct stat st;
-    if (stat(tmp, &st) != 0 || st.st_size == 0) {
-        unlink(tmp);
-        return sr_error_set(err, SR_EIO, "gnuplot wrote no figure from %s", script);
-    }
-    if (rename(tmp, final) != 0) {
-        int e = errno;
-        unlink(tmp);
-        return sr_error_set(err, SR_EIO, "%s: cannot write: %s", final, strerror(e));
-    }
-    return SR_OK;
+char *sr_plot_path_new(const char *prefix, const char *ext)
+{
+    size_t n = strlen(prefix) + strlen(ext) + 2;
+    char *s = malloc(n);
+    if (s)
+        sr_plot_path(s, n, prefix, ext);
+    return s;
 }

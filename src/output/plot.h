@@ -6,7 +6,10 @@
 
 #include <stddef.h>
 
+#include <stdio.h>
+
 #include "base/error.h"
+#include "output/txn.h"
 
 #define SR_PLOT_MAX_PANELS 2
 #define SR_PLOT_COLORS 8          /* colours in the shared style, used in turn */
@@ -111,31 +114,48 @@ typedef struct sr_plot_out {
     const char *format;    /* "png" or "svg": the script's default output */
     int width, height;     /* pixels */
     const char *command;   /* the command line that made it, for the header (may be NULL) */
+    sr_txn *txn;           /* the run's output transaction; NULL: the two files are one of their own */
 } sr_plot_out;
 
-/* Write PREFIX.dat and PREFIX.gp atomically (each through a temporary file
- * and rename). The caution is in both files and on the figure. */
+/* Write PREFIX.dat and PREFIX.gp through o->txn (both or neither; without a
+ * transaction, each is committed together at once). The caution is in both
+ * files and on the figure. */
 int sr_plot_write(const sr_plot *p, const sr_plot_out *o, sr_error *err);
 
-/* Whether a figure can be written at prefix in format ("png" or "svg"):
- * the prefix names a file (not a directory, no control characters) and
- * PREFIX.dat, PREFIX.gp and PREFIX.<format> can be created, their directory
- * too if missing (sr_file_check_writable). Checked before any work. */
-int sr_plot_check_prefix(const char *prefix, const char *format, sr_error *err);
+/* Reserve PREFIX.dat, PREFIX.gp and PREFIX.<format> ("png" or "svg") in the
+ * transaction before any work (what: the option, for messages): the prefix
+ * names a file (not a directory, no control characters), and the three can
+ * be created, their directory too if missing. */
+int sr_plot_reserve(sr_txn *t, const char *what, const char *prefix, const char *format, sr_error *err);
 
 /* Path of the data file and script for a prefix ("out/a" -> "out/a.dat"). */
 void sr_plot_path(char *buf, size_t len, const char *prefix, const char *ext);
+/* The same, malloc'd (NULL when out of memory). */
+char *sr_plot_path_new(const char *prefix, const char *ext);
+
+/* Write s as a gnuplot single-quoted string: no escapes, no backquote or
+ * macro expansion inside; a quote is doubled, control characters become spaces. */
+void sr_plot_quote(FILE *f, const char *s);
 
 /* Look for an executable `gnuplot` on $PATH; 1 and its path when found. */
 int sr_plot_find_gnuplot(char *path, size_t len);
 
-/* Run gnuplot on PREFIX.gp to make PREFIX.<format>, written to a temporary
- * file and renamed, so a failed run leaves no half figure. This is the one
- * place in sinkrate that runs another program: posix_spawn of `gnuplot`
- * (argv only, no shell), stdin from /dev/null, its stderr collected into
- * diag (may be NULL) for warnings. A script gnuplot rejects is SR_EIO with
- * gnuplot's own message. */
-int sr_plot_render(const char *gnuplot, const char *prefix, const char *format, char *diag, size_t diaglen,
-                   sr_error *err);
+/* Run gnuplot on PREFIX.gp to make PREFIX.<format> in the transaction t
+ * (NULL: one of its own, committed at once): the script and its data are
+ * read where t holds them (their temporaries before the commit), the figure
+ * goes to its temporary, and gnuplot runs as t's child, so a stopped run
+ * stops it too. This is the one place in sinkrate that runs another
+ * program: posix_spawn of `gnuplot` (argv only, no shell), stdin from
+ * /dev/null, its stderr collected into diag (may be NULL) for warnings. The
+ * figure counts only when gnuplot exits 0 and the file is a complete PNG or
+ * SVG (sr_plot_check_image); else SR_EIO with gnuplot's own message. */
+int sr_plot_render(sr_txn *t, const char *gnuplot, const char *prefix, const char *format, char *diag,
+                   size_t diaglen, sr_error *err);
+
+/* Whether the file at path is a complete figure: a PNG whose chunks run from
+ * the signature to IEND at the end of the file (PNG specification, ISO/IEC
+ * 15948:2004, sec. 5), or an SVG document closed by </svg>. name: how to call
+ * the file in the message. */
+int sr_plot_check_image(const char *path, const char *format, const char *name, sr_error *err);
 
 #endif

@@ -64,9 +64,32 @@ struct sr_report {
     size_t ntables;
 };
 
+/* Every text a report holds, with its control characters (C0, DEL, C1)
+ * written visibly (as the text \e, \n, \x07, \u009b): a name or a file name
+ * can never move the cursor, retitle a terminal or break a table. */
 static char *dup(const char *s)
 {
-    return s ? strdup(s) : NULL;
+    if (!s)
+        return NULL;
+    size_t n = 0;
+    for (const unsigned char *p = (const unsigned char *)s; *p; p++)
+        n += *p < 0x20 || *p == 0x7f || (p[0] == 0xc2 && p[1] >= 0x80 && p[1] <= 0x9f) ? 6 : 1;
+    char *d = malloc(n + 1), *o = d;
+    if (!d)
+        return NULL;
+    for (const unsigned char *p = (const unsigned char *)s; *p; p++) {
+        if (p[0] == 0xc2 && p[1] >= 0x80 && p[1] <= 0x9f) {
+            o += sprintf(o, "\\u%04x", p[1]);
+            p++;
+        } else if (*p < 0x20 || *p == 0x7f) {
+            const char *e = *p == '\n' ? "\\n" : *p == '\r' ? "\\r" : *p == '\t' ? "\\t" : *p == 0x1b ? "\\e" : NULL;
+            o += e ? sprintf(o, "%s", e) : sprintf(o, "\\x%02x", *p);
+        } else {
+            *o++ = (char)*p;
+        }
+    }
+    *o = '\0';
+    return d;
 }
 
 sr_report *sr_report_new(const char *command, const char *title)
@@ -197,7 +220,7 @@ static int vpush(strlist *l, const char *fmt, va_list ap)
     if (!n)
         return SR_ENOMEM;
     l->s = n;
-    l->s[l->n++] = strdup(buf);
+    l->s[l->n++] = dup(buf);
     return SR_OK;
 }
 
@@ -246,6 +269,22 @@ int sr_report_warning(sr_report *r, const char *fmt, ...)
 size_t sr_report_warnings(const sr_report *r)
 {
     return r->warnings.n;
+}
+
+const char *sr_report_infinite(const sr_report *r)
+{
+    for (size_t i = 0; i < r->nitems; i++) {
+        const item *it = &r->items[i];
+        if ((it->kind == IT_VALUE || it->kind == IT_BAND) && (isinf(it->v[0]) || isinf(it->v[1]) || isinf(it->v[2])))
+            return it->label ? it->label : it->key;
+    }
+    for (size_t k = 0; k < r->ntables; k++) {
+        const sr_rtable *t = r->tables[k];
+        for (size_t i = 0; i < t->nrows * t->ncols; i++)
+            if (!t->cols[i % t->ncols].is_text && isinf(t->nums[i]))
+                return t->cols[i % t->ncols].label;
+    }
+    return NULL;
 }
 
 sr_rtable *sr_report_table(sr_report *r, const char *key, const char *title)

@@ -77,4 +77,9 @@ void sr_report_format_value(char *buf, size_t len, double si, sr_quantity q, sr_
 /* Number of warnings recorded (commands use it for exit decisions). */
 size_t sr_report_warnings(const sr_report *r);
 
+/* The label of the first number in the report that is infinite (a value, a
+ * band end or a table cell), or NULL: no such number may reach an output.
+ * NaN is "none" and prints as "-" (null in JSON). */
+const char *sr_report_infinite(const sr_report *r);
+
 #endif

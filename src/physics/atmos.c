@@ -158,6 +158,12 @@ void sr_atmos_free(sr_atmos *m)
     m->n = 0;
 }
 
+/* How far a sounding's pressure may lie from the 1976 standard's at the same
+ * height. Common practice (a fact of the trade): sea-level pressure spans
+ * about 870 .. 1085 hPa, and the seasonal and latitudinal spread of pressure
+ * aloft stays well inside a factor of 2 up to the mesosphere. */
+#define SOUNDING_P_FACTOR 3.0
+
 /* The rules a sounding must meet. On failure *bad is the offending row
  * (0-based) and the message names no row: callers say where it is. */
 static int check_sounding(const double *z, const double *T, const double *p, size_t n, size_t *bad,
@@ -176,6 +182,16 @@ static int check_sounding(const double *z, const double *T, const double *p, siz
             return sr_error_set(err, SR_EINVAL, "temperature %g K is outside 100 K .. 400 K", T[i]);
         if (!(p[i] > 0.0 && p[i] < 2e5))
             return sr_error_set(err, SR_EINVAL, "pressure %g Pa is outside 0 .. 200000 Pa", p[i]);
+        /* weather moves the pressure at a height by tens of percent, never by a factor of
+         * SOUNDING_P_FACTOR: beyond that the column is not air (a wrong unit, a typing slip),
+         * and a density from it would give descent rates without meaning */
+        double Ts, ps;
+        if (sr_atmos_standard_tp(z[i], 0.0, &Ts, &ps) == SR_OK &&
+            !(p[i] > ps / SOUNDING_P_FACTOR && p[i] < ps * SOUNDING_P_FACTOR))
+            return sr_error_set(err, SR_EINVAL,
+                                "pressure %.4g hPa at %.0f m is not air: the standard atmosphere has %.4g hPa there, "
+                                "and a sounding stays within a factor of %g of it (check the unit)",
+                                p[i] / 100.0, z[i], ps / 100.0, SOUNDING_P_FACTOR);
         if (i > 0 && !(p[i] < p[i - 1]))
             return sr_error_set(err, SR_EINVAL, "pressure must fall as altitude rises");
     }

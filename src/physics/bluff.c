@@ -354,7 +354,7 @@ static int load_yaml(sr_bluff_curve *c, const char *path, sr_bluff_interp kind, 
         goto out;
     if ((n = sr_yaml_get(&y, root, "name")) && (rc = sr_yaml_string(&y, n, name, sizeof name, err)))
         goto out;
-    if ((n = sr_yaml_get(&y, root, "source")) && (rc = sr_yaml_string(&y, n, source, sizeof source, err)))
+    if ((n = sr_yaml_get(&y, root, "source")) && (rc = sr_yaml_text(&y, n, source, sizeof source, err)))
         goto out;
     if ((n = sr_yaml_get(&y, root, "reference-area"))) {
         if ((rc = sr_yaml_quantity(&y, n, SR_Q_AREA, &area, err)))

@@ -552,6 +552,27 @@ static int ode_failure(run *R, const body *b, const char *what)
                         cause);
 }
 
+/* The trajectory rose above the heights the tables hold: they reach the
+ * drag-free climb of the start, so only the top of the atmosphere model
+ * stops it -- or a sample whose start was raised more than prepared for. */
+static int above_tables(run *R, const body *b)
+{
+    const sr_profile_ctx *c = R->c;
+    double lo, hi;
+    sr_atmos_range(&c->atmos, &lo, &hi);
+    if (c->top_is_model)
+        return sr_error_set(R->err, SR_EDOMAIN,
+                            "%s: from this start (%.0f m/s, %.0f deg above the horizontal) the trajectory climbs "
+                            "past %.0f m above sea level, the top of the atmosphere model, %.0f s after the start; "
+                            "nothing above it is modelled (a lower speed, a flatter path or an earlier deployment "
+                            "keeps it inside)",
+                            c->start_at, c->start_v, -c->start_gamma * 180.0 / PI, hi, b->t);
+    return sr_error_set(R->err, SR_EDOMAIN,
+                        "%s: the trajectory climbs past %.0f m above ground, above the heights prepared for this "
+                        "start and its uncertainty",
+                        c->start_at, c->top);
+}
+
 /* why: 0 steady, 1 reached h_stop, 2 reached t_stop */
 static int ode_segment(run *R, body *b, double h_stop, double t_stop, int *why)
 {
@@ -597,6 +618,8 @@ static int ode_segment(run *R, body *b, double h_stop, double t_stop, int *why)
             *why = 1;
             return SR_OK;
         }
+        if (b->y[2] > R->c->top)
+            return above_tables(R, b);
         record_full_open(R, b, tp);
         add_point(R, b);
         if (b->t >= t_stop) {
@@ -994,9 +1017,10 @@ static int check_perturb(const sr_profile_ctx *c, const sr_profile_perturb *p, s
     double h0 = c->start_h + p->start_height;
     if (!(h0 > 0.0 && h0 <= c->top))
         return sr_error_set(err, SR_EDOMAIN,
-                            "the sample's start at %.0f m above ground is outside the context's tables (0 .. %.0f m); "
-                            "raise top_margin",
-                            h0, c->top);
+                            "%s: a sample's first deployment at %.0f m above ground is outside the heights prepared "
+                            "from the uncertainty block (0 .. %.0f m): a draw beyond six sigma, or a spread that "
+                            "reaches the ground",
+                            c->start_at, h0, c->top);
     if (!(c->start_v + p->start_speed >= 0.0))
         return sr_error_set(err, SR_EINVAL, "the sample's start speed is negative");
     return SR_OK;

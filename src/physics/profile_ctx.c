@@ -169,10 +169,26 @@ int ctx_build_tables(sr_profile_ctx *c, sr_error *err)
     double zlo, zhi;
     sr_atmos_range(&c->atmos, &zlo, &zhi);
     double top = c->start_h * (1.0 + c->o.top_margin) + 200.0;
-    if (c->ground + top > zhi)
+    if (c->start_gamma < 0.0) {
+        /* a start that climbs: the tables reach the height it could coast to without drag,
+         * v^2 sin^2(gamma) / 2g (drag only lowers it; g at the model's top, the smallest) */
+        double vz = c->start_v * sin(-c->start_gamma), gmin = sr_atmos_gravity(zhi);
+        top += vz * vz / (2.0 * gmin);
+        /* and more cells, so the steps stay as fine as for a start of this height */
+        double grow = top / (c->start_h * (1.0 + c->o.top_margin) + 200.0);
+        if (grow > 1.0) {
+            n += (size_t)fmin(15.0 * (double)n, (grow - 1.0) * (double)n);
+            m = n + 1;
+        }
+    }
+    c->top_is_model = 0;
+    if (c->ground + top > zhi) {
         top = zhi - c->ground;
+        c->top_is_model = 1;
+    }
     if (!(top >= c->start_h))
-        return sr_error_set(err, SR_EDOMAIN, "the start at %.0f m above ground is above the atmosphere model", c->start_h);
+        return sr_error_set(err, SR_EDOMAIN, "%s: the start at %.0f m above ground is above the atmosphere model",
+                            c->start_at, c->start_h);
     if (c->ground < zlo)
         return sr_error_set(err, SR_EDOMAIN, "the ground at %.0f m is below the atmosphere model (%.0f m)", c->ground,
                             zlo);
@@ -446,6 +462,7 @@ static int copy_mission(sr_profile_ctx *c, const sr_mission *m, sr_error *err)
     c->start_h = m->start_height;
     c->start_v = m->start_speed;
     c->start_gamma = m->start_path_angle;
+    snprintf(c->start_at, sizeof c->start_at, "%s", m->start_at[0] ? m->start_at : m->path);
     c->start_e = m->start_east;
     c->start_n = m->start_north;
     c->heading = m->start_heading;

@@ -62,6 +62,8 @@ struct sr_profile_ctx {
     stage_c st[NS];
     double ground;
     double start_h, start_v, start_gamma, heading, start_e, start_n;
+    char start_at[600];  /* "file:line:column" of the mission's start: block, for messages */
+    int top_is_model;    /* the tables reach the top of the atmosphere model: above is no air we know */
     sr_atmos atmos;      /* deep copy (sounding arrays owned) */
     sr_wind wind;        /* deep copy (table arrays owned) */
     /* height grid h_i = i dh, i = 0..n */
