@@ -52,6 +52,9 @@ done <<EOF_LIST
 0 sweep --mass 2kg --family conical --nominal-diameter 1.5m --from 0 --to 3km --step 1km --by temp-offset=-20C,25C --plot "$tmp/sweep"
 1 profile "$M" --plot "$tmp/profile"
 0 loads --mission "$M" --plot "$tmp/loads"
+0 loads --mission "$root/payloads/desert-club-rocket-revised.yaml" --stage main --limits-at typical --format json
+0 profile "$root/payloads/desert-club-rocket-revised.yaml" --limits-at typical --format csv
+1 profile "$root/payloads/desert-club-rocket-revised.yaml" --fail drogue --fast
 0 freefall --body cylinder --diameter 10cm --length 80cm --mass 3kg --trace --altitude 0:4km:2km --plot "$tmp/ff"
 1 dispersion "$M" -n 200 --seed 3 --threads 2 --samples "$tmp/samples.csv" --plot "$tmp/disp"
 1 size --mass 0.1kg --speed 0.5m/s --family conical --areal-mass 1500g/m2

@@ -306,7 +306,7 @@ static void test_check_status(void **state)
     for (size_t i = 0; i < c->n; i++) {
         const sr_family *f = &c->fam[i];
         for (int v = 0; v < SR_FV_COUNT_; v++) {
-            if (v == SR_FV_AREAL && isnan(f->areal_mass))
+            if ((v == SR_FV_AREAL && isnan(f->areal_mass)) || (v == SR_FV_GROWTH && !f->growth_given))
                 continue;
             if (strlen(f->check[v].to_check) < 10)
                 print_error("%s: %s names no publication that would check it\n", f->id, sr_family_value_key(v));

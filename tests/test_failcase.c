@@ -11,6 +11,10 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include <gsl/gsl_integration.h>
+
+#include "analysis/failcase.h"
+#include "analysis/judge.h"
 #include "physics/atmos.h"
 #include "physics/bluff.h"
 #include "files/catalog.h"
@@ -449,6 +453,175 @@ static void test_threads(void **state)
     drop(m);
 }
 
+
+/* ---- attitudes: a tumbling body is not given its highest drag ---- */
+
+static double sin3(double a, void *p)
+{
+    (void)p;
+    double s = sin(a);
+    return s * s * s * 0.5 * sin(a); /* over the sphere: density sin(a)/2 on 0 .. pi */
+}
+
+static double cos3(double a, void *p)
+{
+    (void)p;
+    double c = fabs(cos(a));
+    return c * c * c * 0.5 * sin(a);
+}
+
+static void test_attitude_factors(void **state)
+{
+    (void)state;
+    gsl_integration_workspace *w = gsl_integration_workspace_alloc(200);
+    double s3, c3, err;
+    gsl_function F1 = {sin3, NULL}, F2 = {cos3, NULL};
+    assert_int_equal(gsl_integration_qags(&F1, 0, PI, 0, 1e-12, 200, w, &s3, &err), GSL_SUCCESS);
+    assert_int_equal(gsl_integration_qags(&F2, 0, PI, 0, 1e-12, 200, w, &c3, &err), GSL_SUCCESS);
+    gsl_integration_workspace_free(w);
+    double k, c, d = 0.1, end = 0.82 * PI * d * d / 4;
+    sr_bluff_attitude_drag(SR_BLUFF_CYLINDER, d, SR_ATTITUDE_TUMBLING, 0, &k, &c);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "tumbling cylinder: broadside share <sin^3> over the sphere",
+                    "bluff.h: cross-flow principle (Hoerner 1965, from memory), average by GSL qags (our derivation)",
+                    s3, k, 1e-10);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "tumbling cylinder: the ends' drag area <|cos|^3> 0.82 pi d^2/4 (m2)",
+                    "bluff.h: cross-flow principle, average by GSL qags (our derivation)", c3 * end, c, 1e-10);
+    sr_bluff_attitude_drag(SR_BLUFF_CYLINDER, d, SR_ATTITUDE_END_ON, 1, &k, &c);
+    CHECK_REL_CLASS(SR_CHECK_MEMORY, "end-on cylinder: Cd 0.82 on the end area (m2)",
+                    "Hoerner 1965, Fluid-Dynamic Drag, flat-ended cylinder in axial flow (from memory)", end, c, 1e-12);
+    assert_true(k == 0.0);
+    /* not stable end-on: it tumbles */
+    sr_bluff_attitude_drag(SR_BLUFF_CYLINDER, d, SR_ATTITUDE_END_ON, 0, &k, &c);
+    assert_true(fabs(k - s3) < 1e-9);
+    sr_bluff_attitude_drag(SR_BLUFF_DISK, d, SR_ATTITUDE_TUMBLING, 0, &k, &c);
+    CHECK_REL_CLASS(SR_CHECK_DERIVED, "tumbling disk: face-on share <|cos|^3> over the sphere",
+                    "bluff.h: cross-flow principle, average by GSL qags (our derivation)", c3, k, 1e-10);
+    sr_bluff_attitude_drag(SR_BLUFF_SPHERE, d, SR_ATTITUDE_TUMBLING, 0, &k, &c);
+    assert_true(k == 1.0 && c == 0.0);
+}
+
+/* The revised demo with no canopy: broadside and tumbling, judged at the
+ * worse; the tumbling fall balances its weight with the averaged drag. */
+static void test_tumbling_demo(void **state)
+{
+    (void)state;
+    sr_mission *m = calloc(1, sizeof *m);
+    sr_error e;
+    if (sr_mission_load(m, sr_test_path("payloads/desert-club-rocket-revised.yaml"), CAT, &e))
+        fail_msg("mission: %s", e.msg);
+    sr_judge_limits l;
+    sr_judge_limits_init(&l, m);
+    sr_failcase_result *f = calloc(1, sizeof *f);
+    assert_int_equal(sr_failcase_run(m, m->failures[0].failed, &l, SR_JUDGE_BAND_END, NULL, f, &e), SR_OK);
+    assert_int_equal(f->nattitudes, 2);
+    assert_int_equal(f->attitude[1], SR_ATTITUDE_TUMBLING);
+    assert_int_equal(f->worse, 1);
+    double broad = f->impact[0][0], tumble = f->impact[1][0];
+    assert_true(tumble > 1.2 * broad);
+    /* the estimate: a tumbling-average drag area of about 0.5 .. 0.7 of broadside gives about 36 .. 43 m/s */
+    CHECK_ABS_CLASS(SR_CHECK_TRADE, "demo booster tumbling, impact speed (m/s)",
+                    "tumbling drag area about 0.5-0.7 of broadside (common practice): about 36-43 m/s", 39.5, tumble,
+                    3.5);
+    /* judged at the worse: the energy rows take the tumbling fall */
+    for (size_t i = 0; i < f->verdict.nrows; i++)
+        if (f->verdict.row[i].kind == SR_JUDGE_ENERGY && f->verdict.row[i].index == 0)
+            CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "failure case judged at the worse attitude: booster energy (J)",
+                            "analysis/failcase.c", f->energy[1][0], f->verdict.row[i].band_end, 1e-12);
+    /* the tumbling fall's terminal speed balances the weight with the attitude-averaged drag */
+    const sr_profile_result *r = &f->band[1].run[SR_BAND_TYPICAL];
+    double v = r->body[0].v_terminal, drag = 0.0;
+    sr_air air;
+    assert_int_equal(sr_atmos_at(&m->atmos, m->ground, &air, &e), SR_OK);
+    for (size_t i = 0; i < m->nsections; i++) {
+        const sr_section *s = &m->sections[i];
+        sr_bluff_body b;
+        double k, c;
+        assert_int_equal(sr_bluff_body_init(&b, s->shape, &s->curve, s->body_d, s->body_length, s->mass, NAN, &e),
+                         SR_OK);
+        sr_bluff_attitude_drag(s->shape, s->body_d, SR_ATTITUDE_TUMBLING, 0, &k, &c);
+        drag += 0.5 * air.rho * v * v * (k * sr_bluff_body_cd(&b, air.rho * v * b.d / air.mu, NULL) * b.area + c);
+    }
+    CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "tumbling demo: attitude-averaged drag at the terminal speed = weight",
+                    "drag balance m g = 1/2 rho v^2 sum (k Cd_i(Re_i) A_i + c_i) (bluff.h attitudes)",
+                    sr_mission_total_mass(m) * air.g, drag, 1e-9);
+    free(f);
+    drop(m);
+}
+
+/* A stable-end-on section adds the end-on attitude; other shapes refuse it. */
+static void test_end_on(void **state)
+{
+    (void)state;
+    sr_mission *m = load("mission: finned booster\n"
+                         "sections:\n  - {name: booster, mass: 3 kg, body: {shape: cylinder, diameter: 10 cm, "
+                         "length: 80 cm, stable-end-on: true}}\n"
+                         "stages:\n  - {name: main, family: conical, nominal-diameter: 2 m, deploy: apogee}\n"
+                         "start: {height: 1000 m, speed: 10 m/s}\n"
+                         "limits: {landing-energy: 100 J}\n"
+                         "failure-cases: [no-canopy]\n");
+    sr_bluff_attitude a[SR_FAILCASE_MAX_ATTITUDES];
+    assert_int_equal(sr_failcase_attitudes(m, a), 3);
+    assert_int_equal(a[2], SR_ATTITUDE_END_ON);
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "profile", m->path, NULL);
+    assert_int_equal(rc, 0);
+    assert_non_null(strstr(out, "end-on"));
+    assert_non_null(strstr(out, "FAR BEYOND"));
+    free(out);
+    free(err);
+    rc = sr_test_cli(&out, &err, "profile", m->path, "--fail", "main", NULL);
+    assert_int_equal(rc, 1);
+    assert_non_null(strstr(out, "end-on (the worse of 3 attitudes"));
+    free(out);
+    free(err);
+    drop(m);
+    const char *bad = sr_test_tmpfile(".yaml", "mission: m\nsections:\n  - {name: s, mass: 1 kg, body: {shape: sphere, "
+                                               "diameter: 10 cm, stable-end-on: true}}\n"
+                                               "stages:\n  - {name: main, family: conical, nominal-diameter: 2 m}\n");
+    rc = sr_test_cli(&out, &err, "check", bad, NULL);
+    assert_int_equal(rc, 2);
+    assert_non_null(strstr(err, ":3:"));
+    assert_non_null(strstr(err, "stable-end-on"));
+    free(out);
+    free(err);
+}
+
+/* A failure case breaks the deployment pressure, the Mach envelope and the
+ * opening load, and its row says so; --fail makes it the descent, exit 1. */
+static void test_failure_breaches(void **state)
+{
+    (void)state;
+    const char *path = sr_test_tmpfile(".yaml", "mission: a dense instrument probe (invented test case)\n"
+                                                "sections:\n  - {name: probe, mass: 20 kg, body: {shape: sphere, "
+                                                "diameter: 15 cm}}\n"
+                                                "stages:\n"
+                                                "  - {name: drogue, family: conical-ribbon, nominal-diameter: 0.8 m, "
+                                                "deploy: apogee}\n"
+                                                "  - {name: main, family: conical, nominal-diameter: 5 m, deploy: "
+                                                "{height: 600 m}}\n"
+                                                "start: {height: 6000 m, speed: 20 m/s, path-angle: 0 deg}\n"
+                                                "limits:\n  touchdown-speed: 6 m/s\n  deployment-pressure: 1500 Pa\n"
+                                                "  rated-strength: 8 kN\n  design-factor: 1.5\n"
+                                                "failure-cases:\n  - fails: drogue\n");
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "profile", path, NULL);
+    assert_int_equal(rc, 0);
+    assert_string_equal(err, "");
+    assert_non_null(strstr(out, "deployment pressure main"));
+    assert_non_null(strstr(out, "Mach main"));
+    assert_non_null(strstr(out, "opening load main"));
+    free(out);
+    free(err);
+    rc = sr_test_cli(&out, &err, "profile", path, "--fail", "drogue", NULL);
+    assert_int_equal(rc, 1);
+    assert_int_equal(sr_test_lines(err), 3);
+    assert_non_null(strstr(err, "limit exceeded: dynamic pressure at deployment, main"));
+    assert_non_null(strstr(err, "limit exceeded: Mach at deployment, main"));
+    assert_non_null(strstr(err, "limit exceeded: opening load, main"));
+    free(out);
+    free(err);
+}
+
 /* ---- the demo ---- */
 
 static void test_demo(void **state)
@@ -461,9 +634,9 @@ static void test_demo(void **state)
     assert_string_equal(err, "");
     assert_non_null(strstr(out, "Failure cases"));
     assert_non_null(strstr(out, "never change the exit code"));
-    assert_non_null(strstr(out, "no canopy    booster"));
-    assert_non_null(strstr(out, "no canopy    payload bay"));
-    assert_non_null(strstr(out, "drogue only  booster"));
+    assert_non_null(strstr(out, "no canopy     booster"));
+    assert_non_null(strstr(out, "no canopy     payload bay"));
+    assert_non_null(strstr(out, "drogue only   booster"));
     assert_non_null(strstr(out, "no canopy: 'cylinder' Cd(Re) on 0.0877 m2"));
     assert_non_null(strstr(out, "FAR BEYOND the limits"));
     assert_non_null(strstr(out, "projected area d x L"));
@@ -475,7 +648,8 @@ static void test_demo(void **state)
     assert_int_equal(rc, 0);
     assert_non_null(strstr(out, "\"failure_cases\""));
     assert_non_null(strstr(out, "\"free_fall_drag\""));
-    assert_non_null(strstr(out, "\"impact_speed\""));
+    assert_non_null(strstr(out, "\"impact_speed_broadside\""));
+    assert_non_null(strstr(out, "\"impact_speed_tumbling\""));
     free(out);
     free(err);
     /* the first design breaks two limits: still exactly those two lines */
@@ -500,7 +674,7 @@ static void test_demo(void **state)
     sr_error e;
     if (sr_mission_load(m, sr_test_path("payloads/desert-club-rocket-revised.yaml"), CAT, &e))
         fail_msg("mission: %s", e.msg);
-    assert_int_equal(m->nfailures, 2);
+    assert_int_equal(m->nfailures, 3);
     sr_profile_ctx *c = ctx_failed(m, m->failures[0].failed, NAN);
     const sr_profile_result *r = sr_profile_nominal(c);
     assert_int_equal(r->nbodies, 1);
@@ -533,7 +707,9 @@ int main(void)
         cmocka_unit_test(test_terminal_speed), cmocka_unit_test(test_constant_cd_closed_form),
         cmocka_unit_test(test_drag_crisis),    cmocka_unit_test(test_schema_errors),
         cmocka_unit_test(test_table_body),     cmocka_unit_test(test_threads),
-        cmocka_unit_test(test_demo),
+        cmocka_unit_test(test_demo),           cmocka_unit_test(test_attitude_factors),
+        cmocka_unit_test(test_tumbling_demo),  cmocka_unit_test(test_end_on),
+        cmocka_unit_test(test_failure_breaches),
     };
     return cmocka_run_group_tests_name("failcase", tests, setup, teardown);
 }

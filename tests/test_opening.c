@@ -66,7 +66,7 @@ static void test_common_values(void **state)
                     1e-12);
 
     double tf;
-    assert_int_equal(sr_opening_fill_time(8, 1.5, 30, &tf, &e), SR_OK);
+    assert_int_equal(sr_opening_fill_time(8, 1.5, 30, NAN, &tf, &e), SR_OK);
     CHECK_ABS_CLASS(SR_CHECK_MEMORY, "sr_opening_fill_time (s)", SRC_FILL, 0.40, tf, 1e-12);
 }
 
@@ -416,7 +416,7 @@ static void test_bad_input(void **state)
     }
     double tf;
     sr_error e;
-    assert_int_equal(sr_opening_fill_time(0, 1.5, 30, &tf, &e), SR_EINVAL);
+    assert_int_equal(sr_opening_fill_time(0, 1.5, 30, NAN, &tf, &e), SR_EINVAL);
     assert_non_null(strstr(e.msg, "filling constant"));
 }
 

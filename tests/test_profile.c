@@ -11,6 +11,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <unistd.h>
+#include <jansson.h>
 
 #include "physics/atmos.h"
 #include "files/catalog.h"
@@ -466,6 +467,87 @@ static void test_threads(void **state)
     drop(m);
 }
 
+
+/* ---- slow and odd descents: they finish, or fail with one line naming the stage and the cause ---- */
+
+static void test_slow_descent(void **state)
+{
+    (void)state;
+    /* the case: a 0.35 kg payload under a 7 m canopy (a cm -> m slip), about 0.47 m/s */
+    const char *slow = sr_test_tmpfile(".yaml", "mission: slow\n"
+                                                "site: {elevation: 1380 m, temperature: 38 C, pressure: 858 hPa,\n"
+                                                "  wind: {model: power-law, speed: 5 m/s, from: 250 deg}}\n"
+                                                "sections: [{name: payload, mass: 0.35 kg}]\n"
+                                                "stages:\n  - {name: drogue, family: cross, nominal-diameter: 0.6 m,"
+                                                " deploy: apogee}\n"
+                                                "  - {name: main, family: conical, nominal-diameter: 7 m, deploy: "
+                                                "{height: 200 m}}\n"
+                                                "start: {height: 1000 m, speed: 12 m/s, path-angle: 0 deg}\n"
+                                                "limits: {touchdown-speed: 5 m/s}\n");
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "profile", slow, "--format", "json", NULL);
+    assert_int_equal(rc, 0);
+    json_error_t je;
+    json_t *j = json_loads(out, 0, &je);
+    assert_non_null(j);
+    double v = json_number_value(json_object_get(json_object_get(json_object_get(j, "values"), "touchdown_rate"),
+                                                 "typical"));
+    sr_air air;
+    sr_atmos a;
+    assert_int_equal(sr_atmos_init_site(&a, 1380, 311.15, 85800, NULL), SR_OK);
+    assert_int_equal(sr_atmos_at(&a, 1380, &air, NULL), SR_OK);
+    double cds = 0.825 * PI * 49 / 4 + 0.725 * PI * 0.36 / 4;
+    CHECK_REL_CLASS(SR_CHECK_METHOD, "0.35 kg under a 7 m conical main (and the drogue): touchdown rate (m/s)",
+                    "Knacke 1991 sec. 4.5 (verified): v = sqrt(2 m g / (rho CdS)), site air of the 1976 standard",
+                    sqrt(2 * 0.35 * air.g / (air.rho * cds)), v, 2e-3);
+    assert_true(v < 0.5);
+    json_decref(j);
+    free(out);
+    free(err);
+    /* so slow that no step size fits the filling: one line, the stage and the cause, at once; check says the same */
+    const char *stuck = sr_test_tmpfile(".yaml", "mission: a cm to m slip\n"
+                                                 "sections: [{name: payload, mass: 1 g}]\n"
+                                                 "stages:\n  - {name: main, family: conical, nominal-diameter: 20 m,"
+                                                 " deploy: release}\n"
+                                                 "start: {height: 300 m, speed: 0 m/s}\n");
+    rc = sr_test_cli(&out, &err, "profile", stuck, NULL);
+    assert_int_equal(rc, 2);
+    assert_int_equal(sr_test_lines(err), 1);
+    assert_string_equal(out, "");
+    assert_non_null(strstr(err, "stage 'main'"));
+    assert_non_null(strstr(err, "descent rate is only"));
+    assert_non_null(strstr(err, "wrong unit"));
+    free(out);
+    free(err);
+    rc = sr_test_cli(&out, &err, "check", stuck, NULL);
+    assert_int_equal(rc, 2);
+    assert_non_null(strstr(err, "`sinkrate profile` would fail: stage 'main'"));
+    free(out);
+    free(err);
+    /* and check accepts what profile accepts */
+    rc = sr_test_cli(&out, &err, "check", slow, NULL);
+    assert_int_equal(rc, 0);
+    assert_non_null(strstr(out, "its descent flies"));
+    free(out);
+    free(err);
+}
+
+/* A section with neither drag-area: nor body: falls in vacuum: a warning says so. */
+static void test_no_drag_warning(void **state)
+{
+    (void)state;
+    const char *path = sr_test_tmpfile(".yaml", "mission: m\nsections: [{name: box, mass: 2 kg}]\n"
+                                                "stages:\n  - {name: main, family: conical, nominal-diameter: 1.5 m,"
+                                                " deploy: {delay: 3 s}}\n"
+                                                "start: {height: 500 m, speed: 0 m/s}\n");
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "profile", path, NULL);
+    assert_int_equal(rc, 0);
+    assert_non_null(strstr(out, "no drag of its own at all"));
+    free(out);
+    free(err);
+}
+
 /* ---- the command ---- */
 
 static void test_cli(void **state)
@@ -615,6 +697,7 @@ int main(void)
         cmocka_unit_test(test_energy_per_section),     cmocka_unit_test(test_separation),
         cmocka_unit_test(test_fast_bound),             cmocka_unit_test(test_threads),
         cmocka_unit_test(test_cli),                    cmocka_unit_test(test_plot),
+        cmocka_unit_test(test_slow_descent),           cmocka_unit_test(test_no_drag_warning),
         cmocka_unit_test(test_climbing_start),
     };
     return cmocka_run_group_tests_name("profile", tests, setup, teardown);

@@ -35,6 +35,8 @@ static const run_case RUNS[] = {
     {"check", {"@canopies/conical.yaml", NULL}},
     {"fit", {"@payloads/demo-flight.csv", "@payloads/demo-flight.csv", "--mission", "@payloads/desert-club-rocket.yaml",
              "--pressure-altitude", NULL}},
+    /* a failure case as the descent: the impact speeds of every attitude */
+    {"profile", {"@" REVISED, "--fail", "main", NULL}},
 };
 
 static int run(const run_case *rc, const char *format, const char *table, char **out, char **err)

@@ -14,7 +14,8 @@
 #define BLOCK 256
 
 static const char *const LIMIT_NAMES[SR_DISP_NLIMITS] = {"touchdown speed", "landing energy", "descent time",
-                                                         "drift", "deployment pressure"};
+                                                         "drift",           "deployment pressure", "Mach envelope",
+                                                         "opening load"};
 
 const char *sr_limit_name(int k)
 {

@@ -15,15 +15,18 @@
 #define SR_DISP_MAX_SAMPLES 10000000  /* 1e7: 50 s at the speed goal, ~0.4 GB per body */
 #define SR_DISP_DEFAULT_SAMPLES 10000
 
-/* Landing limits a sample can break (bits of its flags). */
+/* Limits a sample can break (bits of its flags; the order of the judge's
+ * sr_limit_kind, analysis/judge.h). */
 enum sr_limit_bit {
-    SR_LIMIT_SPEED = 1u << 0,   /* touchdown speed */
-    SR_LIMIT_ENERGY = 1u << 1,  /* kinetic energy of a section */
-    SR_LIMIT_TIME = 1u << 2,    /* descent time */
-    SR_LIMIT_DRIFT = 1u << 3,   /* drift distance from the launch point */
-    SR_LIMIT_DEPLOY_Q = 1u << 4 /* dynamic pressure at a deployment */
+    SR_LIMIT_SPEED = 1u << 0,    /* touchdown speed */
+    SR_LIMIT_ENERGY = 1u << 1,   /* kinetic energy of a section */
+    SR_LIMIT_TIME = 1u << 2,     /* descent time */
+    SR_LIMIT_DRIFT = 1u << 3,    /* drift distance from the launch point */
+    SR_LIMIT_DEPLOY_Q = 1u << 4, /* dynamic pressure at a deployment */
+    SR_LIMIT_MACH = 1u << 5,     /* Mach at a deployment above the family's envelope */
+    SR_LIMIT_OPENING = 1u << 6   /* opening load above rated strength / design factor */
 };
-#define SR_DISP_NLIMITS 5
+#define SR_DISP_NLIMITS 7
 const char *sr_limit_name(int k); /* "touchdown speed", ... for bit 1u << k */
 
 /* Where and how one body came down. */

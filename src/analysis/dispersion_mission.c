@@ -55,8 +55,6 @@ void sr_disp_mission_map(const sr_disp_mission *dm, const sr_perturb *in, sr_pro
 void sr_disp_mission_outcome(const sr_disp_mission *dm, const sr_profile_result *r, sr_landing *out,
                              unsigned *flags)
 {
-    const sr_mission *m = dm->m;
-    unsigned f = 0;
     for (size_t b = 0; b < dm->nbodies; b++) {
         const sr_profile_body *B = &r->body[b];
         sr_landing *L = &out[b];
@@ -65,22 +63,30 @@ void sr_disp_mission_outcome(const sr_disp_mission *dm, const sr_profile_result 
         L->time = B->t_land;
         L->speed = B->rate_land;
         L->energy = 0.0;
-        for (size_t i = 0; i < r->nsections; i++)
-            if (r->section_body[i] == (int)b && r->section_energy[i] > L->energy)
-                L->energy = r->section_energy[i];
-        if (B->rate_land > m->limit_speed)
-            f |= SR_LIMIT_SPEED;
-        if (L->energy > m->limit_energy)
-            f |= SR_LIMIT_ENERGY;
-        if (B->drift > m->limit_drift)
-            f |= SR_LIMIT_DRIFT;
+        for (size_t i = 0; i < r->nsections; i++) {
+            double e = dm->limits.energy_ground ? r->section_energy_ground[i] : r->section_energy[i];
+            if (r->section_body[i] == (int)b && e > L->energy)
+                L->energy = e;
+        }
     }
-    if (r->descent_time > m->limit_time)
-        f |= SR_LIMIT_TIME;
-    for (size_t k = 0; k < r->nstages; k++)
-        if (r->stage[k].deployed && r->stage[k].q_deploy > m->limit_deploy_q)
-            f |= SR_LIMIT_DEPLOY_Q;
-    *flags = f;
+    sr_loads_band loads[SR_MISSION_MAX_STAGES];
+    const sr_loads_band *lp = NULL;
+    if (dm->judge_loads) {
+        /* the sample's own state at line stretch, over the canopy's growth-exponent and opening-load-factor
+         * bands (its drag is the sample's draw) */
+        for (size_t k = 0; k < r->nstages; k++) {
+            sr_loads_state st[SR_LOADS_NSTATES];
+            memset(st, 0, sizeof st);
+            sr_band_state(dm->ctx, r, k, &st[0]);
+            sr_loads_canopy lc = dm->lc[k];
+            lc.cds_ratio[0] = lc.cds_ratio[2] = 1.0;
+            lc.d0_ratio[0] = lc.d0_ratio[2] = 1.0;
+            if (sr_loads_evaluate(&lc, st, 1, &loads[k], NULL) != SR_OK)
+                loads[k].valid = 0;
+        }
+        lp = loads;
+    }
+    *flags = sr_judge_flags(&dm->limits, r, lp);
 }
 
 static int sample(const void *ctx, void *ws, const sr_perturb *p, sr_landing *out, unsigned *flags, sr_error *err)
@@ -120,6 +126,11 @@ int sr_disp_mission_init(sr_disp_mission *dm, const sr_mission *m, const sr_prof
     memset(dm, 0, sizeof *dm);
     dm->m = m;
     dm->mode = full ? SR_PROFILE_FULL : SR_PROFILE_FAST;
+    sr_judge_limits_init(&dm->limits, m);
+    for (size_t k = 0; k < m->nstages; k++) {
+        sr_loads_canopy_init(&dm->lc[k], &m->stages[k].canopy);
+        dm->judge_loads |= !isnan(m->limit_rated[k]);
+    }
     sr_profile_opts o;
     if (po)
         o = *po;

@@ -5,6 +5,8 @@
 #define SR_DISPERSION_MISSION_H
 
 #include "analysis/dispersion.h"
+#include "analysis/judge.h"
+#include "analysis/loads.h"
 #include "files/mission.h"
 #include "physics/profile.h"
 
@@ -18,6 +20,12 @@ typedef struct sr_disp_mission {
      * height-averaged wind direction (north for a calm mission), turned with
      * the sample's direction deviation: exact for a constant wind. */
     double along_east, along_north;
+    /* the one judge (judge.h) decides which limits a sample breaks; opening
+     * loads are computed per sample (fast solver) only when the mission sets a
+     * rated strength */
+    sr_judge_limits limits;
+    int judge_loads;
+    sr_loads_canopy lc[SR_MISSION_MAX_STAGES];
     sr_disp_model model;
 } sr_disp_mission;
 
@@ -33,7 +41,8 @@ void sr_disp_mission_free(sr_disp_mission *dm);
 void sr_disp_mission_map(const sr_disp_mission *dm, const sr_perturb *in, sr_profile_perturb *out);
 
 /* Landing outcome and limit flags of one profile result (also for the
- * nominal descent). */
+ * nominal descent): the flags are the judge's (sr_judge_flags); the energy
+ * follows the mission's landing-energy basis. */
 void sr_disp_mission_outcome(const sr_disp_mission *dm, const sr_profile_result *r, sr_landing *out,
                              unsigned *flags);
 

@@ -55,6 +55,8 @@ static void check_lines(sr_report *r, const char *yaml_key, const char *label, c
 
 static int has_value(const sr_family *f, int v)
 {
+    if (v == SR_FV_GROWTH)
+        return f->growth_given;
     return v != SR_FV_AREAL || !isnan(f->areal_mass);
 }
 
@@ -84,8 +86,11 @@ static sr_report *family_report(const sr_family *f, const sr_catalog_origin *o)
         snprintf(buf, sizeof buf, "%.0f g/m2   [%s]", f->areal_mass * 1e3, f->areal_source);
         sr_report_text(r, "areal_mass", "areal mass", buf);
     }
-    const sr_provenance *g = sr_provenance_growth(f->cls);
-    if (g) {
+    /* the growth exponent: the file's band, or the class's (physics/provenance.h) */
+    const sr_provenance *g = f->growth_given ? NULL : sr_provenance_growth(f->cls);
+    if (f->growth_given) {
+        band_line(r, "growth_exponent", "growth exponent n", f->growth, f->growth_source);
+    } else if (g) {
         char v[96];
         sr_provenance_value(g, v, sizeof v);
         snprintf(buf, sizeof buf, "%s   [%s]", v, g->source);
@@ -121,7 +126,7 @@ static void count_checked(const sr_family *f, int *checked, int *all)
             (*all)++;
             *checked += strcmp(f->check[v].outside, "none") != 0;
         }
-    const sr_provenance *g = sr_provenance_growth(f->cls);
+    const sr_provenance *g = f->growth_given ? NULL : sr_provenance_growth(f->cls);
     if (g) {
         (*all)++;
         *checked += strcmp(g->outside, "none") != 0;

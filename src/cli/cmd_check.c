@@ -7,6 +7,7 @@
 #include <string.h>
 #include <strings.h>
 
+#include "analysis/band.h"
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "analysis/input_warnings.h"
@@ -29,7 +30,11 @@ static const char HELP[] =
     "table (Re, Cd) or a flight log (time and height, altitude or pressure). Every\n"
     "file is checked and every problem of a file is listed with its file:line:column\n"
     "(a YAML file is read on after a problem wherever its structure allows; a tab\n"
-    "in YAML is named as such). Exit 0 when all are valid, 2 otherwise.\n\n";
+    "in YAML is named as such). A mission with a start block and every stage sized\n"
+    "is also flown as `sinkrate profile` flies it (every band end, every opening\n"
+    "load), so a file that profile would reject (a descent that cannot be\n"
+    "integrated, a supersonic deployment) is rejected here too. Exit 0 when all are\n"
+    "valid, 2 otherwise.\n\n";
 
 static int check_yaml(const sr_catalog *cat, const char *path, sr_yaml_errors *list, char *kind, size_t klen,
                       char *what, size_t wlen, sr_input_warnings *iw, sr_unit_system sys, sr_error *e)
@@ -50,8 +55,24 @@ static int check_yaml(const sr_catalog *cat, const char *path, sr_yaml_errors *l
         m->limit_speed = m->limit_energy = m->limit_time = m->limit_drift = 0.0 / 0.0;
         snprintf(m->path, sizeof m->path, "%s", path);
         rc = sr_mission_parse(m, &y, cat, e);
+        int sized = 1;
+        for (size_t k = 0; !rc && k < m->nstages; k++)
+            sized &= m->stages[k].has_size;
+        if (!rc && m->has_start && sized) {
+            /* what profile would reject: fly it as profile does */
+            sr_band_ctx *bc = NULL;
+            sr_band_result *b = malloc(sizeof *b);
+            sr_error pe;
+            if (!b)
+                rc = sr_error_set(e, SR_ENOMEM, "out of memory");
+            else if (sr_band_ctx_new(&bc, m, NULL, &pe) || sr_band_run(bc, NULL, SR_PROFILE_FULL, NULL, b, NULL, &pe))
+                rc = sr_error_set(e, SR_EINVAL, "%s: `sinkrate profile` would fail: %s", path, pe.msg);
+            sr_band_ctx_free(bc);
+            free(b);
+        }
         if (!rc) {
-            snprintf(what, wlen, "'%s': %zu section(s), %zu stage(s)", m->name, m->nsections, m->nstages);
+            snprintf(what, wlen, "'%s': %zu section(s), %zu stage(s)%s", m->name, m->nsections, m->nstages,
+                     m->has_start && sized ? ", its descent flies" : "");
             sr_input_warnings_mission(iw, m, NULL, sys);
         }
         sr_mission_free(m);

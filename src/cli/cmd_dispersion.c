@@ -52,7 +52,9 @@ static const char HELP[] =
     "drag coefficient varies uniformly over its family's range). Reports, for every body that\n"
     "lands on its own, the mean landing point, the 1-sigma and 3-sigma ellipses, the radii\n"
     "holding 50 % and 95 % of the landings, percentiles of descent time, touchdown speed and\n"
-    "energy, and the probability of breaking each landing limit with its Monte Carlo error.\n"
+    "energy, and the probability of breaking each limit of the mission (judged as `sinkrate\n"
+    "profile` judges it, the Mach envelope at each deployment included) with its Monte\n"
+    "Carlo error. Without an uncertainty: block only the drag varies, and the page says so.\n"
     "Sample i depends only on (seed, i): the output is the same at any thread count.\n\n"
     "  -n N                     samples (default 10000, at most 10000000)\n"
     "  --seed N                 seed of the random streams (default 1)\n"
@@ -421,17 +423,23 @@ static void report_spread(sr_report *r, const sr_disp_mission *dm, const sr_disp
 static int report_limits(sr_cli *c, sr_report *r, const sr_mission *m, const sr_disp_stats *st, double risk)
 {
     sr_unit_system sys = c->units;
+    double rated = NAN;
+    for (size_t k = 0; k < m->nstages; k++)
+        if (!isnan(m->limit_rated[k]))
+            rated = m->limit_rated[k] / m->limit_design_factor;
+    /* the judge's limits (analysis/judge.h); the Mach envelope is each stage's family's, always judged */
     const double lim[SR_DISP_NLIMITS] = {m->limit_speed, m->limit_energy, m->limit_time, m->limit_drift,
-                                         m->limit_deploy_q};
-    const sr_quantity q[SR_DISP_NLIMITS] = {SR_Q_SPEED, SR_Q_ENERGY, SR_Q_TIME, SR_Q_LENGTH, SR_Q_PRESSURE};
+                                         m->limit_deploy_q, 1.0, rated};
+    const sr_quantity q[SR_DISP_NLIMITS] = {SR_Q_SPEED, SR_Q_ENERGY, SR_Q_TIME, SR_Q_LENGTH, SR_Q_PRESSURE,
+                                            SR_Q_NONE, SR_Q_FORCE};
     int any = 0;
     for (int k = 0; k < SR_DISP_NLIMITS; k++)
         any |= isfinite(lim[k]);
     if (!any) {
-        sr_report_note(r, "The mission sets no landing limits, so no probability of breaking one is given.");
+        sr_report_note(r, "The mission sets no limits, so no probability of breaking one is given.");
         return 0;
     }
-    sr_rtable *t = sr_report_table(r, "limits", "Landing limits: share of samples that break each");
+    sr_rtable *t = sr_report_table(r, "limits", "Limits: share of samples that break each (the judge of `profile`)");
     sr_rtable_text_column(t, "limit", "limit");
     sr_rtable_text_column(t, "value", "value");
     sr_rtable_column(t, "samples_over", "samples over", SR_Q_NONE, SR_FIXED(0));
@@ -444,7 +452,12 @@ static int report_limits(sr_cli *c, sr_report *r, const sr_mission *m, const sr_
         if (!isfinite(lim[k]))
             continue;
         char v[64];
-        sr_report_format_value(v, sizeof v, lim[k], q[k], sys, 4);
+        if (k == 5)
+            snprintf(v, sizeof v, "each stage's family envelope");
+        else if (k == 6)
+            snprintf(v, sizeof v, "rated strength / design factor");
+        else
+            sr_report_format_value(v, sizeof v, lim[k], q[k], sys, 4);
         const char *tx[2] = {sr_limit_name(k), v};
         const sr_proportion *p = &st->limit[k];
         double row[5] = {(double)p->count, p->p, p->se, p->lo, p->hi};
@@ -758,6 +771,14 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
                           : "staged descent, fast path (steady stages from tables, nominal transients adjusted)");
     sr_cli_report_atmos(r, &m->atmos);
     report_uncertainty(r, m, c->units);
+    if (!m->unc.given)
+        sr_report_warning(r, "The mission has no uncertainty: block: only the drag of each stage varies (uniformly "
+                             "over its family's drag range); mass, wind, and deployment heights and delays stay at "
+                             "their nominal values, so the scatter lies along one line downwind instead of covering an "
+                             "area. Add an uncertainty: block (docs/files.md) for a real footprint.");
+    if (m->energy_ground)
+        sr_report_note(r, "Landing energy is relative to the ground (the mission's landing-energy-basis): the descent "
+                          "rate combined with the surface wind.");
     for (size_t b = 0; b < res.nbodies; b++)
         report_body(r, &dm, b, &st->body[b], &nom[b], res.nbodies);
     report_spread(r, &dm, st);

@@ -1,24 +1,30 @@
 /* cmd_loads.c - `sinkrate loads`: opening load of a canopy (or cluster) at
- * deployment by three methods, their spread, per-canopy loads and required
- * strengths; for a mission file, at every stage's deployment. */
+ * deployment by three methods on one growth model, over every banded input
+ * (analysis/loads.h); for a mission file, at every stage's deployment in the
+ * same band runs as `sinkrate profile` (analysis/band.h), judged against the
+ * mission's rated strength by the one judge. */
 #define _DEFAULT_SOURCE
 #include <ctype.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
+#include "analysis/band.h"
+#include "analysis/judge.h"
+#include "analysis/loads.h"
 #include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "analysis/input_warnings.h"
+#include "cli/verdict.h"
 #include "physics/descent.h"
 #include "files/mission.h"
-#include "physics/opening.h"
 #include "files/yamldoc.h"
+#include "physics/opening.h"
 
 enum {
     OPT_MASS = OPT_COMMAND_BASE, OPT_SPEED, OPT_ALTITUDE, OPT_PATH_ANGLE, OPT_DESIGN_FACTOR, OPT_EXPONENT,
-    OPT_FILL, OPT_CX, OPT_ALLOWANCE, OPT_MISSION, OPT_STAGE
+    OPT_FILL, OPT_CX, OPT_ALLOWANCE, OPT_MISSION, OPT_STAGE, OPT_LIMITS_AT
 };
 
 static const struct option OPTS[] = {
@@ -33,6 +39,7 @@ static const struct option OPTS[] = {
     {"cluster-allowance", required_argument, NULL, OPT_ALLOWANCE},
     {"mission", required_argument, NULL, OPT_MISSION},
     {"stage", required_argument, NULL, OPT_STAGE},
+    {"limits-at", required_argument, NULL, OPT_LIMITS_AT},
     SR_OPTS_CANOPY,
     SR_OPTS_ATMOS,
     SR_OPTS_PLOT,
@@ -44,10 +51,13 @@ static const char HELP[] =
     "       sinkrate loads --mass M --speed V --canopy FILE [options]\n"
     "       sinkrate loads --mission FILE [--stage NAME] [options]\n\n"
     "Peak opening force of a canopy or cluster deployed at speed V, by three methods\n"
-    "built on one drag-area growth model: the opening-load-factor method (X1 from the\n"
+    "built on ONE drag-area growth model: the opening-load-factor method (X1 from the\n"
     "ballistic mass ratio), the Pflanz closed form (gravity neglected) and an inflation\n"
-    "ODE with gravity and flight-path angle. Bands come from the family's drag and\n"
-    "opening-factor ranges; the highest estimate governs the design figures.\n\n"
+    "ODE with gravity and flight-path angle. Because they share the model, their spread\n"
+    "is not the real uncertainty: the band is taken over the canopy's drag range, its\n"
+    "growth-exponent range and its opening-load-factor range, and its high end governs.\n"
+    "A measured opening load or factor (measured-opening: in a canopy file) replaces the\n"
+    "three estimates.\n\n"
     "  --mass M                 mass the canopies decelerate\n"
     "  --speed V                speed at line stretch (deployment), subsonic\n"
     "  --altitude Z             deployment altitude above sea level (default: the site\n"
@@ -55,17 +65,20 @@ static const char HELP[] =
     "  --path-angle A           flight-path angle below the horizontal at deployment:\n"
     "                           90 straight down (default), 0 level as at apogee\n"
     "  --design-factor K        turn the peak into a required rated strength (1 to 10)\n"
-    "  --growth-exponent N      drag area grows as (t/t_f)^N while filling (default by the\n"
-    "                           family's class: solid 2, slotted 1, from memory)\n"
+    "  --growth-exponent N      drag area grows as (t/t_f)^N while filling (default: the\n"
+    "                           family's band, by class solid 1..3, slotted 0.5..2, from\n"
+    "                           memory; a value here replaces the band)\n"
     "  --filling-constant N     override the family's filling constant (t_f = N D0 / V)\n"
-    "  --opening-factor CX      override the family's opening-load factor\n"
+    "  --opening-factor CX      override the family's opening-load factor (its band)\n"
     "  --cluster-allowance K    per-canopy load over the equal share in a cluster (default:\n"
     "                           the bound with the lead canopy taking the whole mass)\n"
-    "  --mission FILE           mass, site and stages from a mission file: the first stage\n"
-    "                           deploys at the start state, later ones at the previous\n"
-    "                           stage's steady descent rate, straight down\n"
+    "  --mission FILE           the mission's staged descent, flown as `sinkrate profile`\n"
+    "                           flies it (line stretch, released canopies, section drag and\n"
+    "                           masses, every band): each stage at its line stretch; the\n"
+    "                           file's rated-strength limit is judged (exit 1 when broken)\n"
     "  --stage NAME             only this stage of the mission (then --speed and --path-angle\n"
-    "                           may replace its deployment state)\n\n"
+    "                           may replace its deployment state)\n"
+    SR_HELP_LIMITS_AT "\n"
     "The figure (with --plot): force vs time from the inflation ODE at the typical ends of\n"
     "the bands, with each method's peak marked; for a whole mission, one figure a stage,\n"
     "PREFIX-STAGE.png (in the stage's name, what is not a letter, digit, '.', '_' or '-'\n"
@@ -73,6 +86,7 @@ static const char HELP[] =
 
 typedef struct loads_opts {
     const char *mass, *speed, *altitude, *angle, *design, *exponent, *fill, *cx, *allowance, *mission, *stage;
+    const char *limits_at;
     sr_canopy_opts canopy;
     sr_atmos_opts atmos;
 } loads_opts;
@@ -92,6 +106,7 @@ static int take(sr_cli *c, int code, const char *arg, void *ud)
     case OPT_ALLOWANCE: o->allowance = arg; return 0;
     case OPT_MISSION: o->mission = arg; return 0;
     case OPT_STAGE: o->stage = arg; return 0;
+    case OPT_LIMITS_AT: o->limits_at = arg; return 0;
     }
     if (sr_cli_take_canopy(&o->canopy, code, arg) || sr_cli_take_atmos(&o->atmos, code, arg))
         return 0;
@@ -103,24 +118,21 @@ typedef struct tweaks {
     double exponent, fill, cx, design, allowance;
 } tweaks;
 
-/* One deployment, evaluated at the low, typical and high ends of the
- * canopy's drag band (with the opening factor's band and, in a mission,
- * the band of the speed the previous stage brings). */
+/* One deployment: its band over every banded input (analysis/loads.h), and
+ * the full three-method results at the low end, the typical and the high end
+ * (the combinations the band found). */
 typedef struct deploy {
     char name[SR_NAME_MAX];
     const sr_canopy *cp;
-    double mass, z, angle;
-    double v[3];
-    sr_air air;
+    sr_loads_canopy lc;
+    sr_loads_state st[SR_LOADS_NSTATES];
+    sr_loads_band band;
+    double mass, z, angle; /* the typical state: mass, altitude above sea level, path angle */
+    double v[3];           /* speed at line stretch: lowest, typical, highest over the states */
     sr_opening_input in[3];
     sr_opening_result res[3];
-    double exponent;
+    int at_rest;           /* it opens with no airspeed (released under an open canopy): no opening load */
 } deploy;
-
-static double band_at(const sr_band *b, int k)
-{
-    return k == 0 ? b->lo : k == 1 ? b->typ : b->hi;
-}
 
 /* Which option a library message is about, for the one-line error. */
 static const char *option_of(const char *msg, int mission)
@@ -138,47 +150,56 @@ static const char *option_of(const char *msg, int mission)
     return mission ? "--mission" : "--speed";
 }
 
-static int solve(sr_cli *c, deploy *d, const tweaks *tw, int mission)
+/* The family data with the command's overrides. */
+static void apply_tweaks(sr_loads_canopy *lc, const tweaks *tw)
 {
-    const sr_family *f = &d->cp->fam;
-    d->exponent = !isnan(tw->exponent) ? tw->exponent
-                  : strcmp(f->cls, SR_CANOPY_CLASS_SLOTTED) == 0 ? sr_opening_class_exponent(SR_OPENING_SLOTTED)
-                                                                 : sr_opening_class_exponent(SR_OPENING_SOLID);
-    for (int k = 0; k < 3; k++) {
-        sr_opening_input *in = &d->in[k];
-        sr_opening_input_init(in);
-        in->cds0 = d->cp->cluster_factor * band_at(&d->cp->cds, k);
-        in->d0 = band_at(&d->cp->d0, k);
-        in->count = d->cp->count;
-        in->mass = d->mass;
-        in->v1 = d->v[k];
-        in->path_angle = d->angle;
-        in->rho = d->air.rho;
-        in->a = d->air.a;
-        in->g = d->air.g;
-        in->n_fill = !isnan(tw->fill) ? tw->fill : f->fill_n;
-        in->cx = !isnan(tw->cx) ? tw->cx : band_at(&f->cx, k);
-        in->exponent = d->exponent;
-        in->design_factor = isnan(tw->design) ? 0 : tw->design;
-        in->cluster_allowance = isnan(tw->allowance) ? 0 : tw->allowance;
-        in->mach_envelope = isfinite(f->mach_max) ? f->mach_max : 0;
-        sr_error e;
-        if (sr_opening_solve(in, &d->res[k], &e) != SR_OK) {
-            const char *opt = option_of(e.msg, mission);
-            if (mission)
-                return sr_cli_fail(c, "%s: stage '%s': %s", opt, d->name, e.msg);
-            return sr_cli_fail(c, "%s: %s", opt, e.msg);
-        }
-    }
-    return 0;
+    if (!isnan(tw->exponent))
+        lc->growth.lo = lc->growth.typ = lc->growth.hi = tw->exponent;
+    if (!isnan(tw->fill))
+        lc->n_fill = tw->fill;
+    if (!isnan(tw->cx))
+        lc->cx.lo = lc->cx.typ = lc->cx.hi = tw->cx;
 }
 
-/* Lowest and highest of a result field over the three band ends. */
-#define SPAN(d, field, lo, hi)                                                                                \
-    do {                                                                                                      \
-        lo = fmin((d)->res[0].field, fmin((d)->res[1].field, (d)->res[2].field));                            \
-        hi = fmax((d)->res[0].field, fmax((d)->res[1].field, (d)->res[2].field));                            \
-    } while (0)
+/* The band (the same function as the profile's), then the three-method
+ * results of its three ends. */
+static int solve(sr_cli *c, deploy *d, const tweaks *tw, int mission)
+{
+    sr_error e;
+    const char *where = mission ? "--mission" : NULL;
+    if (sr_loads_evaluate(&d->lc, d->st, 0, &d->band, &e) != SR_OK) {
+        const char *opt = where ? where : option_of(e.msg, 0);
+        if (mission)
+            return sr_cli_fail(c, "%s: stage '%s': %s", opt, d->name, e.msg);
+        return sr_cli_fail(c, "%s: %s", option_of(e.msg, 0), e.msg);
+    }
+    const sr_loads_state *t = &d->st[0];
+    d->mass = t->mass;
+    d->angle = t->path_angle;
+    if (!d->band.valid) {
+        /* released under an open canopy: it fills as the payload speeds up, no opening shock */
+        d->at_rest = 1;
+        d->v[0] = d->v[1] = d->v[2] = t->v1;
+        for (int k = 0; k < 3; k++)
+            memset(&d->res[k], 0xff, sizeof d->res[k]); /* NaN everywhere: printed as "-" */
+        return 0;
+    }
+    const sr_loads_end *ends[3] = {&d->band.lo, &d->band.typ, &d->band.hi};
+    for (int k = 0; k < 3; k++) {
+        sr_loads_input(&d->lc, &d->st[ends[k]->state], ends[k]->drag, ends[k]->exponent, ends[k]->cx, &d->in[k]);
+        d->in[k].design_factor = isnan(tw->design) ? 0 : tw->design;
+        d->in[k].cluster_allowance = isnan(tw->allowance) ? 0 : tw->allowance;
+        if (sr_opening_solve(&d->in[k], &d->res[k], &e) != SR_OK) {
+            if (mission)
+                return sr_cli_fail(c, "%s: stage '%s': %s", option_of(e.msg, 1), d->name, e.msg);
+            return sr_cli_fail(c, "%s: %s", option_of(e.msg, 0), e.msg);
+        }
+    }
+    d->v[0] = d->band.v_lo;
+    d->v[1] = d->band.v_typ;
+    d->v[2] = d->band.v_hi;
+    return 0;
+}
 
 static const char *regime_text(int regime)
 {
@@ -198,36 +219,45 @@ static const char *kind_text(int kind)
 
 static void warn_common(sr_report *r, const deploy *d, int *recalled, int mission)
 {
-    const sr_opening_result *t = &d->res[1];
+    if (d->at_rest)
+        return;
     const char *pre = mission ? d->name : NULL;
-    if (t->above_envelope)
-        sr_report_warning(r, "%s%sMach %.2f at deployment is above the %s family's usual application (Mach %.2g, "
-                             "from memory).",
-                          pre ? pre : "", pre ? ": " : "", t->mach, d->cp->fam.id, d->cp->fam.mach_max);
-    if (d->res[2].slow_deployment)
+    if (d->band.above_envelope)
+        sr_report_warning(r, "%s%sMach %.2f at deployment (band end) is above the %s family's usual application "
+                             "(Mach %.2g, from memory).",
+                          pre ? pre : "", pre ? ": " : "", d->band.mach_hi, d->cp->fam.id, d->cp->fam.mach_max);
+    if (d->band.slow_deployment)
         sr_report_warning(r, "%s%sdeployment at or below the canopy's steady descent speed (%.3g m/s): the payload "
                              "speeds up while the canopy fills and the load is governed by the weight; the "
                              "filling-time law is not meant for such slow openings.",
-                          pre ? pre : "", pre ? ": " : "", t->v_terminal);
-    if (strstr(d->cp->fam.cx_source, "memory") || strstr(d->cp->fam.fill_source, "memory"))
+                          pre ? pre : "", pre ? ": " : "", d->res[1].v_terminal);
+    if (d->cp->opening == SR_OPENING_ESTIMATED &&
+        (strstr(d->cp->fam.cx_source, "memory") || strstr(d->cp->fam.fill_source, "memory") ||
+         strstr(d->cp->fam.growth_source, "memory")))
         *recalled = 1;
 }
 
-static void notes_common(sr_report *r, int recalled, double design, int cluster)
+static void notes_common(sr_report *r, int recalled, double design, int cluster, int measured)
 {
-    sr_report_note(r, "Three estimates on one drag-area growth model (CD S)(t) = CD0 S0 (t/t_f)^n, t_f = n_fill D0 / V: "
-                      "the opening-load-factor method takes X1 from the ballistic mass ratio R_m on the envelope "
-                      "of the solid (n = 2) and slotted (n = 1) curves; Pflanz uses the family's own exponent with "
-                      "gravity neglected; the ODE adds gravity and the flight-path angle. They differ by the "
-                      "filling shape (most for light payloads) and by gravity (most for steep, heavy deployments); "
-                      "the highest governs. Method and sources: docs/method.md, Opening loads.");
+    sr_report_note(r, "Three estimates on ONE drag-area growth model (CD S)(t) = CD0 S0 (t/t_f)^n, t_f = n_fill D0 / "
+                      "max(V, steady rate): the opening-load-factor method takes X1 from the ballistic mass ratio R_m "
+                      "on the envelope of the n = 1 and n = 2 curves; Pflanz uses the exponent n with gravity "
+                      "neglected; the ODE adds gravity and the flight-path angle. Sharing one model, their spread is "
+                      "not the real uncertainty: the band is taken over the canopy's drag range, its growth-exponent "
+                      "range and its opening-load-factor range (and the deployment states of the band runs for a "
+                      "mission), and its high end governs. A measured opening load or opening-load factor "
+                      "(measured-opening: in a canopy file) replaces the estimates. Method and sources: "
+                      "docs/method.md, Opening loads.");
+    if (measured)
+        sr_report_note(r, "A measured opening (measured-opening:) replaces the three estimates where it is given; the "
+                          "method table still shows the estimates for comparison.");
     if (cluster)
         sr_report_note(r, "Cluster: canopies do not fill in step and the leading one takes more than its share "
                           "(Knacke 1991, Ch. 6); without --cluster-allowance the per-canopy design load is the "
                           "bound of the same models with the lead canopy decelerating the whole mass alone.");
     if (recalled)
-        sr_report_warning(r, "The family's opening-load factor and filling constant are recalled handbook values, "
-                             "not checked against the printed tables: confirm the loads by test.");
+        sr_report_warning(r, "The family's opening-load factor, filling constant and growth exponent are recalled "
+                             "handbook values, not checked against the printed tables: confirm the loads by test.");
     if (design > 0)
         sr_report_warning(r, "The design factor and what a rating means (break strength or proof load) are the "
                              "rigger's and the applicable standard's call, not this tool's.");
@@ -243,52 +273,70 @@ static void band_or_value(sr_report *r, const char *key, const char *label, doub
         sr_report_band(r, key, label, lo, typ, hi, q, sig);
 }
 
+static void band_text(char *buf, size_t len, sr_band b, const char *why)
+{
+    if (b.lo == b.hi)
+        snprintf(buf, len, "%.3g (%s)", b.typ, why);
+    else
+        snprintf(buf, len, "%.3g / %.3g / %.3g (%s)", b.lo, b.typ, b.hi, why);
+}
+
 static int report_one(sr_cli *c, sr_report *r, deploy *d, int mission_stage, const tweaks *tw)
 {
     const sr_opening_result *lo = &d->res[0], *t = &d->res[1], *hi = &d->res[2];
-    double a, b;
+    const sr_loads_band *B = &d->band;
+    (void)c;
     sr_report_section(r, "Deployment");
     if (mission_stage)
         sr_report_text(r, "stage", "stage", d->name);
     sr_report_value(r, "mass", "decelerated mass", d->mass, SR_Q_MASS, 4);
-    if (d->v[0] != d->v[2])
-        band_or_value(r, "speed", "speed at deployment", d->v[0], d->v[1], d->v[2], SR_Q_SPEED, 4);
-    else
-        sr_report_value(r, "speed", "speed at deployment", d->v[1], SR_Q_SPEED, 4);
+    band_or_value(r, "speed", "speed at line stretch", d->v[0], d->v[1], d->v[2], SR_Q_SPEED, 4);
     sr_report_value(r, "path_angle", "path angle below horizontal", d->angle, SR_Q_ANGLE, 3);
     sr_report_value(r, "altitude", "altitude", d->z, SR_Q_LENGTH, SR_FIXED(0));
-    sr_report_value(r, "density", "air density", d->air.rho, SR_Q_DENSITY, 4);
-    sr_report_value(r, "speed_of_sound", "speed of sound", d->air.a, SR_Q_SPEED, 4);
-    SPAN(d, q1, a, b);
-    band_or_value(r, "dynamic_pressure", "dynamic pressure q1", a, t->q1, b, SR_Q_PRESSURE, 4);
-    SPAN(d, mach, a, b);
-    band_or_value(r, "mach", "Mach number", a, t->mach, b, SR_Q_NONE, 3);
+    sr_report_value(r, "density", "air density", d->st[0].rho, SR_Q_DENSITY, 4);
+    sr_report_value(r, "speed_of_sound", "speed of sound", d->st[0].a, SR_Q_SPEED, 4);
+    band_or_value(r, "dynamic_pressure", "dynamic pressure q1", B->q_lo, B->q_typ, B->q_hi, SR_Q_PRESSURE, 4);
+    band_or_value(r, "mach", "Mach number", B->mach_lo, B->mach_typ, B->mach_hi, SR_Q_NONE, 3);
 
     sr_report_section(r, "Canopy");
     sr_cli_report_canopy(r, d->cp);
+    if (d->at_rest) {
+        sr_report_note(r, "Stage '%s' opens with no airspeed (released under an open canopy): the canopy fills as the "
+                          "payload speeds up, and there is no opening shock above the weight.",
+                       d->name);
+        return 0;
+    }
     band_or_value(r, "nominal_diameter", "nominal diameter D0", d->cp->d0.lo, d->cp->d0.typ, d->cp->d0.hi,
-                   SR_Q_SIZE, 4);
-    band_or_value(r, "drag_area", "drag area CD0 S0 (all canopies)", lo->cds_total, t->cds_total, hi->cds_total,
-                   SR_Q_AREA, 4);
+                  SR_Q_SIZE, 4);
+    band_or_value(r, "drag_area", "drag area CD0 S0 (all canopies)", d->lc.count * d->st[0].cds0 * d->lc.cds_ratio[0],
+                  d->lc.count * d->st[0].cds0, d->lc.count * d->st[0].cds0 * d->lc.cds_ratio[2], SR_Q_AREA, 4);
     char buf[512];
-    snprintf(buf, sizeof buf, "%.3g%s", d->in[1].n_fill, isnan(tw->fill) ? " (family)" : " (given)");
+    snprintf(buf, sizeof buf, "%.3g%s", d->lc.n_fill, isnan(tw->fill) ? " (family)" : " (given)");
     sr_report_text(r, "filling_constant", "filling constant n_fill", buf);
-    band_or_value(r, "opening_factor", "opening-load factor CX", d->in[0].cx, d->in[1].cx, d->in[2].cx, SR_Q_NONE,
-                   3);
-    snprintf(buf, sizeof buf, "%.3g (%s)", d->exponent,
-             !isnan(tw->exponent) ? "given" : strcmp(d->cp->fam.cls, SR_CANOPY_CLASS_SLOTTED) == 0
-                                                  ? "slotted class, from memory"
-                                                  : "solid class, from memory");
+    band_text(buf, sizeof buf, d->lc.cx, isnan(tw->cx) ? "family" : "given");
+    sr_report_text(r, "opening_factor", "opening-load factor CX", buf);
+    band_text(buf, sizeof buf, d->lc.growth,
+              !isnan(tw->exponent) ? "given"
+              : strstr(d->cp->fam.growth_source, "class default")
+                  ? (strcmp(d->cp->fam.cls, SR_CANOPY_CLASS_SLOTTED) == 0 ? "slotted class, from memory"
+                                                                          : "solid class, from memory")
+                  : "family file");
     sr_report_text(r, "growth_exponent", "growth exponent n", buf);
-    SPAN(d, t_fill, a, b);
-    band_or_value(r, "filling_time", "filling time t_f", a, t->t_fill, b, SR_Q_TIME, 3);
-    SPAN(d, mass_ratio, a, b);
-    band_or_value(r, "mass_ratio", "mass ratio R_m (per canopy)", a, t->mass_ratio, b, SR_Q_NONE, 3);
-    SPAN(d, ballistic, a, b);
-    band_or_value(r, "ballistic_parameter", "Pflanz parameter A", a, t->ballistic, b, SR_Q_NONE, 3);
+    band_or_value(r, "filling_time", "filling time t_f", fmin(lo->t_fill, fmin(t->t_fill, hi->t_fill)), t->t_fill,
+                  fmax(lo->t_fill, fmax(t->t_fill, hi->t_fill)), SR_Q_TIME, 3);
+    sr_report_value(r, "mass_ratio", "mass ratio R_m (per canopy, typical)", t->mass_ratio, SR_Q_NONE, 3);
+    sr_report_value(r, "ballistic_parameter", "Pflanz parameter A (typical)", t->ballistic, SR_Q_NONE, 3);
     sr_report_text(r, "mass_regime", "mass regime", regime_text(t->regime));
+    if (d->cp->opening != SR_OPENING_ESTIMATED) {
+        snprintf(buf, sizeof buf, "%s %.4g%s (%s)",
+                 d->cp->opening == SR_OPENING_MEASURED_FACTOR ? "opening-load factor" : "opening load",
+                 d->cp->opening_value, d->cp->opening == SR_OPENING_MEASURED_LOAD ? " N" : "", d->cp->opening_source);
+        sr_report_text(r, "measured_opening", "measured (replaces the estimates)", buf);
+    }
 
-    sr_rtable *tab = sr_report_table(r, "methods", "Peak opening force by method (all canopies)");
+    sr_rtable *tab = sr_report_table(r, "methods",
+                                     "Peak opening force by method (all canopies; at the combinations of the band's "
+                                     "low end, typical, high end)");
     sr_rtable_text_column(tab, "method", "method");
     sr_rtable_column(tab, "force_low", "force low", SR_Q_FORCE, 4);
     sr_rtable_column(tab, "force_typical", "typical", SR_Q_FORCE, 4);
@@ -302,43 +350,40 @@ static int report_one(sr_cli *c, sr_report *r, deploy *d, int mission_stage, con
         const sr_opening_peak *p[3];
         for (int k = 0; k < 3; k++)
             p[k] = m == 0 ? &d->res[k].olf : m == 1 ? &d->res[k].pflanz : &d->res[k].ode;
-        double row[6] = {fmin(p[0]->force, fmin(p[1]->force, p[2]->force)),
-                         p[1]->force,
-                         fmax(p[0]->force, fmax(p[1]->force, p[2]->force)),
-                         p[1]->x1,
-                         p[1]->time,
-                         p[1]->decel_g};
+        double row[6] = {p[0]->force, p[1]->force, p[2]->force, p[1]->x1, p[1]->time, p[1]->decel_g};
         const char *texts[2] = {NAMES[m], kind_text(p[1]->kind)};
         sr_rtable_row(tab, row, texts);
     }
 
     sr_report_section(r, "Result");
-    SPAN(d, f_high, a, b);
-    band_or_value(r, "peak_force", "peak opening force (highest method)", a, t->f_high, b, SR_Q_FORCE, 4);
+    band_or_value(r, "peak_force", B->measured ? "peak opening force (measured)" : "peak opening force (highest method)",
+                  B->lo.force, B->typ.force, B->hi.force, SR_Q_FORCE, 4);
     char n_txt[64], lbf_txt[64];
-    sr_report_format_value(n_txt, sizeof n_txt, b, SR_Q_FORCE, SR_UNITS_SI, 4);
-    sr_report_format_value(lbf_txt, sizeof lbf_txt, b, SR_Q_FORCE, SR_UNITS_US, 4);
+    sr_report_format_value(n_txt, sizeof n_txt, B->hi.force, SR_Q_FORCE, SR_UNITS_SI, 4);
+    sr_report_format_value(lbf_txt, sizeof lbf_txt, B->hi.force, SR_Q_FORCE, SR_UNITS_US, 4);
     snprintf(buf, sizeof buf, "%s = %s", n_txt, lbf_txt);
-    sr_report_text(r, "peak_force_high_n_lbf", "highest peak in N and lbf", buf);
-    SPAN(d, spread, a, b);
-    band_or_value(r, "spread_percent", "spread of the methods (high-low)/low %", 100 * a, 100 * t->spread, 100 * b,
+    sr_report_text(r, "peak_force_high_n_lbf", "governing peak in N and lbf", buf);
+    snprintf(buf, sizeof buf, "%s drag, n = %.3g, CX = %.3g%s", B->hi.drag == 0 ? "low" : B->hi.drag == 2 ? "high" : "typical",
+             B->hi.exponent, B->hi.cx,
+             B->hi.state == 1 ? ", the fast band-end run" : B->hi.state == 2 ? ", the slow band-end run" : "");
+    sr_report_text(r, "governing_combination", "governing combination", buf);
+    sr_report_value(r, "spread_percent", "spread of the methods (high-low)/low %, typical", 100 * t->spread,
+                    SR_Q_NONE, 3);
+    band_or_value(r, "peak_deceleration_g", "peak deceleration (g)", B->lo.decel_g, B->typ.decel_g, B->hi.decel_g,
                   SR_Q_NONE, 3);
-    SPAN(d, decel_g_max, a, b);
-    band_or_value(r, "peak_deceleration_g", "peak deceleration (g)", a, t->decel_g_max, b, SR_Q_NONE, 3);
     if (d->cp->count > 1) {
-        SPAN(d, f_canopy_equal, a, b);
-        band_or_value(r, "canopy_force_equal", "per canopy, equal share", a, t->f_canopy_equal, b, SR_Q_FORCE, 4);
-        SPAN(d, f_canopy_design, a, b);
-        band_or_value(r, "canopy_force_design", "per canopy, with unequal inflation", a, t->f_canopy_design, b,
-                       SR_Q_FORCE, 4);
+        band_or_value(r, "canopy_force_equal", "per canopy, equal share", lo->f_canopy_equal, t->f_canopy_equal,
+                      hi->f_canopy_equal, SR_Q_FORCE, 4);
+        band_or_value(r, "canopy_force_design", "per canopy, with unequal inflation", lo->f_canopy_design,
+                      t->f_canopy_design, hi->f_canopy_design, SR_Q_FORCE, 4);
         snprintf(buf, sizeof buf, "%.3g (%s)", hi->allowance,
                  hi->allowance_derived ? "lead canopy alone with the whole mass, derived bound" : "given");
         sr_report_text(r, "cluster_allowance", "unequal-inflation allowance (high end)", buf);
     }
     if (t->design_factor > 0) {
         sr_report_value(r, "design_factor", "design factor", t->design_factor, SR_Q_NONE, 3);
-        sr_report_value(r, "required_strength", "required rated strength, whole system", hi->strength_total,
-                        SR_Q_FORCE, 4);
+        sr_report_value(r, "required_strength", "required rated strength, whole system",
+                        t->design_factor * B->hi.force, SR_Q_FORCE, 4);
         if (d->cp->count > 1)
             sr_report_value(r, "required_strength_canopy", "required rated strength, each canopy and riser",
                             hi->strength_canopy, SR_Q_FORCE, 4);
@@ -395,7 +440,8 @@ static void figure_subtitle(const deploy *d, sr_unit_system sys, char *buf, size
         snprintf(cl, sizeof cl, "%d x ", d->cp->count);
     snprintf(buf, len,
              "%s at %s, %s below the horizontal, altitude %s; %s%s D0 %s, CD0 S0 %s (typical). Line: the ODE's "
-             "drag without CX; level lines: each method's peak force with CX, with a point at its time.",
+             "drag without CX; level lines: each method's peak force with CX at the typical values, with a point at "
+             "its time, and the governing load at the band's high end.",
              m, v, a, z, cl, d->cp->fam.id, d0, cds);
 }
 
@@ -413,6 +459,8 @@ static double round_top(double v)
 
 static int figure(sr_cli *c, const deploy *d, const char *prefix, int argc, char **argv)
 {
+    if (d->at_rest)
+        return 0; /* no opening to draw */
     enum { N = 301 };
     const sr_opening_result *t = &d->res[1];
     sr_unit_system sys = c->units;
@@ -441,7 +489,7 @@ static int figure(sr_cli *c, const deploy *d, const char *prefix, int argc, char
     a.xmin = 0;
     a.xmax = tend;
     a.ymin = 0;
-    double top = fmax(t->ode.force, fmax(t->pflanz.force, t->olf.force));
+    double top = fmax(fmax(t->ode.force, d->band.hi.force), fmax(t->pflanz.force, t->olf.force));
     for (int i = 0; i < N; i++)
         top = fmax(top, fs[i]);
     a.ymax = round_top(sr_units_from_si(top, SR_Q_FORCE, sys));
@@ -457,12 +505,16 @@ static int figure(sr_cli *c, const deploy *d, const char *prefix, int argc, char
     sr_plot_series drag = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 2, .color = 1,
                            .title = "ODE drag, without CX"};
     int steady = t->ode.kind == SR_PEAK_STEADY;
+    /* the governing load of the band (every banded input), when above the typical estimates */
+    sr_opening_peak high = {.force = d->band.hi.force, .time = NAN};
+    int governs = d->band.hi.force > t->f_high * (1 + 1e-9);
     if (!rc)
         rc = sr_plot_add(p, &drag) ||
              peak_series(p, sys, steady ? "ODE peak, steady drag = weight" : "ODE peak \u00d7 CX", &t->ode, tend, 1,
                          1) ||
              peak_series(p, sys, "Pflanz, no gravity", &t->pflanz, tend, 2, 1) ||
              peak_series(p, sys, "opening-load factor", &t->olf, tend, 3, 2) ||
+             (governs && peak_series(p, sys, "governing, band high end", &high, tend, 4, 1)) ||
              sr_plot_marker(p, 0, 'x', t->t_fill, mark, 1);
     if (rc)
         rc = sr_cli_fail(c, "out of memory");
@@ -494,36 +546,39 @@ static int figures(sr_cli *c, const deploy *ds, size_t n, int argc, char **argv)
 
 /* ---- mission files ---------------------------------------------------- */
 
-static int mission_summary(sr_cli *c, sr_report *r, deploy *ds, size_t n, const tweaks *tw)
+static int mission_summary(sr_report *r, deploy *ds, size_t n, const tweaks *tw)
 {
-    sr_rtable *tab = sr_report_table(r, "stages", "Opening load at each deployment (typical; peak band high end)");
+    sr_rtable *tab = sr_report_table(r, "stages",
+                                     "Opening load at each deployment (at line stretch in the band runs; the load band "
+                                     "over every banded input, its high end governs)");
     sr_rtable_text_column(tab, "stage", "stage");
     sr_rtable_column(tab, "altitude", "altitude", SR_Q_LENGTH, SR_FIXED(0));
+    sr_rtable_column(tab, "mass", "mass", SR_Q_MASS, 3);
     sr_rtable_column(tab, "speed", "speed", SR_Q_SPEED, 3);
     sr_rtable_column(tab, "path_angle", "angle", SR_Q_ANGLE, 3);
     sr_rtable_column(tab, "dynamic_pressure", "q1", SR_Q_PRESSURE, 3);
     sr_rtable_column(tab, "mach", "Mach", SR_Q_NONE, 2);
     sr_rtable_column(tab, "filling_time", "t_f", SR_Q_TIME, 3);
-    sr_rtable_column(tab, "mass_ratio", "R_m", SR_Q_NONE, 3);
     sr_rtable_column(tab, "force_olf", "load-factor", SR_Q_FORCE, 4);
     sr_rtable_column(tab, "force_pflanz", "Pflanz", SR_Q_FORCE, 4);
     sr_rtable_column(tab, "force_ode", "ODE", SR_Q_FORCE, 4);
-    sr_rtable_column(tab, "force_high", "peak high", SR_Q_FORCE, 4);
-    sr_rtable_column(tab, "deceleration_g", "decel. (g)", SR_Q_NONE, 3);
+    sr_rtable_column(tab, "force_low", "load low", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "force_typical", "typical", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "force_high", "high", SR_Q_FORCE, 4);
+    sr_rtable_column(tab, "deceleration_g", "decel. high (g)", SR_Q_NONE, 3);
     if (!isnan(tw->design))
         sr_rtable_column(tab, "required_strength", "strength", SR_Q_FORCE, 4);
     sr_rtable_text_column(tab, "ode_peak", "ODE peak");
     sr_rtable_text_column(tab, "mass_regime", "mass regime");
     for (size_t i = 0; i < n; i++) {
         const sr_opening_result *t = &ds[i].res[1];
-        double a, b;
-        SPAN(&ds[i], f_high, a, b);
-        (void)a;
-        double row[13] = {ds[i].z,      ds[i].v[1],      ds[i].angle,   t->q1,         t->mach,
-                          t->t_fill,    t->mass_ratio,   t->olf.force,  t->pflanz.force, t->ode.force,
-                          b,            t->decel_g_max,  ds[i].res[2].strength_total};
-        const char *texts[3] = {ds[i].name, kind_text(t->ode.kind),
-                                t->regime == SR_OPENING_INFINITE_MASS ? "infinite" : "finite"};
+        const sr_loads_band *B = &ds[i].band;
+        double row[16] = {ds[i].z,      ds[i].mass,      ds[i].v[1],      ds[i].angle,    B->q_typ,
+                          B->mach_typ,  t->t_fill,       t->olf.force,    t->pflanz.force, t->ode.force,
+                          B->lo.force,  B->typ.force,    B->hi.force,     B->hi.decel_g,
+                          isnan(tw->design) ? NAN : tw->design * B->hi.force};
+        const char *texts[3] = {ds[i].name, ds[i].at_rest ? "opens at rest" : kind_text(t->ode.kind),
+                                ds[i].at_rest ? "-" : t->regime == SR_OPENING_INFINITE_MASS ? "infinite" : "finite"};
         sr_rtable_row(tab, row, texts);
     }
     return 0;
@@ -540,63 +595,6 @@ static int no_stage(sr_cli *c, const sr_mission *mis, const char *name)
     if (s)
         return sr_cli_fail(c, "--stage: the mission has no stage '%s'; did you mean '%s'?", name, s);
     return sr_cli_fail(c, "--stage: the mission has no stage '%s'", name);
-}
-
-/* Deployment states of a mission's stages: the first at the start state,
- * each later one at the previous stage's steady descent rate (its band),
- * straight down, at its deployment height. */
-static int mission_deploys(sr_cli *c, const sr_mission *mis, const sr_atmos *atm, double mass, deploy *ds,
-                           size_t *n, const char *only)
-{
-    sr_error e;
-    *n = 0;
-    int found = 0;
-    for (size_t i = 0; i < mis->nstages; i++) {
-        const sr_stage *s = &mis->stages[i];
-        if (only && strcmp(only, s->name) != 0)
-            continue;
-        found = 1;
-        deploy *d = &ds[(*n)++];
-        memset(d, 0, sizeof *d);
-        snprintf(d->name, sizeof d->name, "%s", s->name);
-        d->cp = &s->canopy;
-        d->mass = mass;
-        if (!s->has_size)
-            return sr_cli_fail(c, "--mission: stage '%s' has no size; give one in the file, or run `sinkrate size "
-                                  "--mission` first",
-                               s->name);
-        if (s->deploy == SR_DEPLOY_APOGEE) {
-            if (!mis->has_start)
-                return sr_cli_fail(c, "--mission: stage '%s' deploys at the start state, but the file has no "
-                                      "start block (height, speed, path angle)",
-                                   s->name);
-            d->z = mis->ground + mis->start_height;
-            d->v[0] = d->v[1] = d->v[2] = mis->start_speed;
-            d->angle = mis->start_path_angle;
-        } else if (s->deploy == SR_DEPLOY_ALTITUDE && i > 0) {
-            const sr_stage *prev = &mis->stages[i - 1];
-            d->z = mis->ground + s->deploy_value;
-            d->angle = M_PI / 2;
-            sr_air air;
-            sr_band v;
-            if (sr_atmos_at(atm, d->z, &air, &e) != SR_OK || sr_descent_rate(&prev->canopy, mass, 0, &air, &v, &e))
-                return sr_cli_fail(c, "--mission: stage '%s': %s", s->name, e.msg);
-            /* the fastest previous descent goes with the high end of this canopy's band */
-            d->v[0] = v.lo;
-            d->v[1] = v.typ;
-            d->v[2] = v.hi;
-        } else {
-            return sr_cli_fail(c, "--mission: stage '%s' deploys on a timer (or first, at a height); its speed at "
-                                  "deployment needs the trajectory: give --stage %s with --speed and --path-angle, "
-                                  "or see `sinkrate profile`",
-                               s->name, s->name);
-        }
-        if (sr_atmos_at(atm, d->z, &d->air, &e) != SR_OK)
-            return sr_cli_fail(c, "--mission: stage '%s': %s", s->name, e.msg);
-    }
-    if (only && !found)
-        return no_stage(c, mis, only);
-    return 0;
 }
 
 /* ---- entry point ------------------------------------------------------ */
@@ -622,6 +620,44 @@ static int parse_tweaks(sr_cli *c, const loads_opts *o, tweaks *tw)
     return 0;
 }
 
+/* A deployment state from the options (one state: the band is then over the
+ * canopy's own bands only). */
+static int state_from_options(sr_cli *c, const loads_opts *o, const sr_atmos *atm, double ground, double z_stage,
+                              double mass, deploy *d)
+{
+    int rc;
+    double v;
+    if (!o->speed)
+        return sr_cli_fail(c, "--speed: the speed at deployment is required");
+    if ((rc = sr_cli_quantity(c, "--speed", o->speed, SR_Q_SPEED, 1, &v)))
+        return rc;
+    double angle = M_PI / 2;
+    if (o->angle && (rc = sr_cli_quantity(c, "--path-angle", o->angle, SR_Q_ANGLE, 0, &angle)))
+        return rc;
+    if (fabs(angle) > M_PI / 2 + 1e-9)
+        return sr_cli_fail(c, "--path-angle: '%s' is outside -90..90 degrees below the horizontal", o->angle);
+    d->z = isnan(z_stage) ? ground : z_stage;
+    if (o->altitude && (rc = sr_cli_quantity(c, "--altitude", o->altitude, SR_Q_LENGTH, 0, &d->z)))
+        return rc;
+    sr_air air;
+    sr_error e;
+    if (sr_atmos_at(atm, d->z, &air, &e) != SR_OK)
+        return sr_cli_fail(c, "--altitude: %s", e.msg);
+    sr_loads_state *s = &d->st[0];
+    memset(d->st, 0, sizeof d->st);
+    s->valid = 1;
+    s->v1 = v;
+    s->path_angle = angle;
+    s->rho = air.rho;
+    s->a = air.a;
+    s->g = air.g;
+    s->mass = mass;
+    s->v_steady = NAN;
+    s->cds0 = d->cp->cluster_factor * d->cp->cds.typ;
+    s->d0 = d->cp->d0.typ;
+    return 0;
+}
+
 int sr_cmd_loads(sr_cli *c, int argc, char **argv)
 {
     loads_opts o;
@@ -632,13 +668,21 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
     tweaks tw;
     if ((rc = parse_tweaks(c, &o, &tw)))
         return rc;
+    sr_judge_basis basis = SR_JUDGE_BAND_END;
+    if (o.limits_at && (rc = sr_cli_limits_at(c, o.limits_at, &basis)))
+        return rc;
     if (o.stage && !o.mission)
         return sr_cli_fail(c, "--stage: needs --mission FILE");
+    if (o.limits_at && !o.mission)
+        return sr_cli_fail(c, "--limits-at: needs --mission FILE (the limits are the mission's)");
     if (o.mission && !o.stage && (o.speed || o.angle || o.altitude))
         return sr_cli_fail(c, "%s: with --mission, a deployment state applies to one stage; add --stage NAME",
                            o.speed ? "--speed" : o.angle ? "--path-angle" : "--altitude");
     if (o.mission && sr_cli_canopy_given(&o.canopy))
         return sr_cli_fail(c, "--mission: the stages give the canopies; drop --family / --canopy");
+    if (o.mission && o.mass)
+        return sr_cli_fail(c, "--mass: with --mission the mass under each canopy comes from the staged descent; drop "
+                              "--mass");
 
     sr_catalog *cat = NULL;
     sr_mission *mis = NULL;
@@ -647,99 +691,156 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
     sr_report *r = NULL;
     sr_error e;
     sr_canopy cp;
+    sr_band_ctx *bc = NULL;
+    sr_band_result *BR = NULL;
     deploy *ds = calloc(SR_MISSION_MAX_STAGES, sizeof *ds);
     size_t nd = 0;
     double mass = NAN, ground = 0;
+    int judged = 0, exceeded = 0;
+    sr_judge_limits lim;
+    sr_verdict verdict;
     if (!ds) {
         rc = sr_cli_fail(c, "out of memory");
         goto out;
     }
     if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
-    if (mis)
-        mass = sr_mission_total_mass(mis);
-    else if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
-        goto out;
-    if ((rc = sr_cli_mass(c, o.mass, "the mass the canopy decelerates", &mass)))
-        goto out;
-
-    if (mis && !o.speed) {
-        if ((rc = mission_deploys(c, mis, &atm, mass, ds, &nd, o.stage)))
+    if (!mis) {
+        if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)) ||
+            (rc = sr_cli_mass(c, o.mass, "the mass the canopy decelerates", &mass)))
+            goto out;
+        deploy *d = &ds[nd++];
+        d->cp = &cp;
+        sr_loads_canopy_init(&d->lc, &cp);
+        apply_tweaks(&d->lc, &tw);
+        if ((rc = state_from_options(c, &o, &atm, ground, NAN, mass, d)))
             goto out;
     } else {
-        deploy *d = &ds[nd++];
-        if (mis) {
-            size_t k;
-            for (k = 0; k < mis->nstages && strcmp(mis->stages[k].name, o.stage) != 0; k++)
+        size_t only = mis->nstages;
+        if (o.stage) {
+            for (only = 0; only < mis->nstages && strcmp(mis->stages[only].name, o.stage) != 0; only++)
                 ;
-            if (k == mis->nstages) {
+            if (only == mis->nstages) {
                 rc = no_stage(c, mis, o.stage);
                 goto out;
             }
-            snprintf(d->name, sizeof d->name, "%s", o.stage);
-            d->cp = &mis->stages[k].canopy;
-        } else {
-            d->cp = &cp;
         }
-        d->mass = mass;
-        if (!o.speed) {
-            rc = sr_cli_fail(c, "--speed: the speed at deployment is required");
+        if (!mis->has_start) {
+            rc = sr_cli_fail(c, "--mission: %s has no start block (start:); the deployment states come from the staged "
+                                "descent, which needs it",
+                             mis->path);
             goto out;
         }
-        double v;
-        if ((rc = sr_cli_quantity(c, "--speed", o.speed, SR_Q_SPEED, 1, &v)))
-            goto out;
-        d->v[0] = d->v[1] = d->v[2] = v;
-        d->angle = M_PI / 2;
-        if (o.angle && (rc = sr_cli_quantity(c, "--path-angle", o.angle, SR_Q_ANGLE, 0, &d->angle)))
-            goto out;
-        if (fabs(d->angle) > M_PI / 2 + 1e-9) {
-            rc = sr_cli_fail(c, "--path-angle: '%s' is outside -90..90 degrees below the horizontal", o.angle);
-            goto out;
-        }
-        d->z = ground;
-        if (mis) {
-            /* the stage's own deployment height, when the file fixes one */
-            for (size_t k = 0; k < mis->nstages; k++) {
-                const sr_stage *st = &mis->stages[k];
-                if (strcmp(st->name, o.stage) != 0)
-                    continue;
-                if (st->deploy == SR_DEPLOY_ALTITUDE)
-                    d->z = mis->ground + st->deploy_value;
-                else if (st->deploy == SR_DEPLOY_APOGEE && mis->has_start)
-                    d->z = mis->ground + mis->start_height;
+        for (size_t k = 0; k < mis->nstages; k++)
+            if (!mis->stages[k].has_size) {
+                rc = sr_cli_fail(c, "--mission: stage '%s' has no size; give one in the file, or run `sinkrate size "
+                                    "--mission` first",
+                                 mis->stages[k].name);
+                goto out;
             }
+        /* the same band runs as `sinkrate profile` */
+        BR = calloc(1, sizeof *BR);
+        if (!BR) {
+            rc = sr_cli_fail(c, "out of memory");
+            goto out;
         }
-        if (o.altitude && (rc = sr_cli_quantity(c, "--altitude", o.altitude, SR_Q_LENGTH, 0, &d->z)))
+        /* the air moved into atm (the file's, or the options' that replace it); the context copies it */
+        sr_atmos own = mis->atmos;
+        double own_ground = mis->ground;
+        mis->atmos = atm;
+        mis->ground = ground;
+        int bad = sr_band_ctx_new(&bc, mis, NULL, &e);
+        mis->atmos = own;
+        mis->ground = own_ground;
+        if (bad || sr_band_run(bc, NULL, SR_PROFILE_FULL, NULL, BR, NULL, &e)) {
+            rc = sr_cli_fail_err(c, &e);
             goto out;
-        if (sr_atmos_at(&atm, d->z, &d->air, &e) != SR_OK) {
-            rc = sr_cli_fail(c, "--altitude: %s", e.msg);
-            goto out;
+        }
+        for (size_t k = 0; k < mis->nstages; k++) {
+            if (o.stage && k != only)
+                continue;
+            deploy *d = &ds[nd++];
+            snprintf(d->name, sizeof d->name, "%s", mis->stages[k].name);
+            d->cp = &mis->stages[k].canopy;
+            d->lc = *sr_band_loads_canopy(bc, k);
+            apply_tweaks(&d->lc, &tw);
+            const sr_profile_stage *ps = &BR->run[SR_BAND_TYPICAL].stage[k];
+            if (o.speed) {
+                double z = ps->deployed ? mis->ground + ps->h_line : NAN;
+                double m = ps->deployed ? ps->mass : sr_mission_total_mass(mis);
+                if ((rc = state_from_options(c, &o, &atm, ground, z, m, d)))
+                    goto out;
+                continue;
+            }
+            if (!ps->deployed) {
+                rc = sr_cli_fail(c, "--mission: stage '%s' never deploys in the staged descent (its sections land "
+                                    "first)",
+                                 d->name);
+                goto out;
+            }
+            for (int e2 = 0; e2 < SR_BAND_NRUNS; e2++) {
+                sr_band_state(sr_band_profile(bc), &BR->run[e2], k, &d->st[e2]);
+                d->st[e2].cds0 /= sr_band_drag_factor(bc, k, e2);
+            }
+            d->z = mis->ground + ps->h_line;
         }
     }
     for (size_t i = 0; i < nd; i++)
         if ((rc = solve(c, &ds[i], &tw, mis != NULL && !o.speed)))
             goto out;
+    if (mis && !o.speed) {
+        /* the one judge on the mission's rated strength, with these loads */
+        sr_judge_limits_init(&lim, mis);
+        for (size_t i = 0, k = 0; k < mis->nstages; k++)
+            if (!o.stage || strcmp(mis->stages[k].name, o.stage) == 0)
+                BR->loads[k] = ds[i++].band;
+        sr_judge_band(&lim, BR, basis, &verdict);
+        if (o.stage) {
+            /* the page is about one stage: its rows only */
+            size_t n = 0;
+            for (size_t i = 0; i < verdict.nrows; i++)
+                if (verdict.row[i].index >= 0 && strcmp(mis->stages[verdict.row[i].index].name, o.stage) == 0 &&
+                    verdict.row[i].kind >= SR_JUDGE_DEPLOY_Q)
+                    verdict.row[n++] = verdict.row[i];
+            verdict.nrows = n;
+            verdict.binding = -1;
+        }
+        judged = 1;
+    }
 
     r = sr_report_new("loads", "opening load at deployment");
+    if (!r) {
+        rc = sr_cli_fail(c, "out of memory");
+        goto out;
+    }
+    if (judged)
+        sr_cli_verdict_header(r, basis);
     sr_report_section(r, "Inputs");
     if (mis)
         sr_report_text(r, "mission", "mission", mis->name);
     sr_cli_report_atmos(r, &atm);
-    int recalled = 0, cluster = 0;
+    int recalled = 0, cluster = 0, measured = 0;
     if (nd == 1) {
         if ((rc = report_one(c, r, &ds[0], mis != NULL, &tw)))
             goto out;
     } else {
-        sr_report_value(r, "mass", "decelerated mass", mass, SR_Q_MASS, 4);
-        if ((rc = mission_summary(c, r, ds, nd, &tw)))
+        if ((rc = mission_summary(r, ds, nd, &tw)))
             goto out;
-        sr_report_note(r, "Stages after the first deploy at the previous stage's steady descent rate, straight "
-                          "down; `sinkrate loads --mission FILE --stage NAME` shows one stage in full.");
+        sr_report_note(r, "Each stage at its line stretch in the staged descent of `sinkrate profile` (the same band "
+                          "runs and the same function: the numbers agree); `sinkrate loads --mission FILE --stage "
+                          "NAME` shows one stage in full.");
+    }
+    if (judged) {
+        unsigned only = 1u << SR_JUDGE_OPENING;
+        if (sr_cli_verdict_table(r, c, mis, &lim, &verdict, only))
+            exceeded = sr_cli_verdict_messages(r, c, mis, &lim, &verdict, only);
+        else
+            sr_report_note(r, "The mission sets no rated-strength limit: the loads are not judged.");
     }
     for (size_t i = 0; i < nd; i++) {
         warn_common(r, &ds[i], &recalled, nd > 1);
         cluster |= ds[i].cp->count > 1;
+        measured |= ds[i].band.measured;
     }
     sr_input_warnings iw;
     sr_input_warnings_init(&iw);
@@ -752,14 +853,18 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
         sr_input_warnings_canopy(&iw, &cp, "canopy", c->units);
     }
     sr_cli_report_input_warnings(r, &iw);
-    notes_common(r, recalled, isnan(tw.design) ? 0 : tw.design, cluster);
+    notes_common(r, recalled, isnan(tw.design) ? 0 : tw.design, cluster, measured);
     if (c->plot_prefix && (rc = figures(c, ds, nd, argc, argv)))
         goto out;
-    rc = sr_cli_emit(c, r);
+    if ((rc = sr_cli_emit(c, r)))
+        goto out;
+    rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
     sr_report_free(r);
     sr_atmos_free(&atm);
     sr_cli_mission_free(mis);
+    sr_band_ctx_free(bc);
+    free(BR);
     free(ds);
     free(cat);
     return rc;

@@ -5,18 +5,22 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "analysis/band.h"
+#include "analysis/failcase.h"
+#include "analysis/judge.h"
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "cli/maps.h"
 #include "analysis/input_warnings.h"
 #include "cli/profile_failcase.h"
 #include "cli/profile_plot.h"
+#include "cli/verdict.h"
 #include "files/mission.h"
 #include "physics/profile.h"
 
 #define PI 3.14159265358979323846
 
-enum { OPT_FAST = OPT_COMMAND_BASE, OPT_FAIL, OPT_WORST, OPT_TRAJECTORY, OPT_GEOJSON, OPT_BAND_ENDS };
+enum { OPT_FAST = OPT_COMMAND_BASE, OPT_FAIL, OPT_LIMITS_AT, OPT_TRAJECTORY, OPT_GEOJSON, OPT_BAND_ENDS };
 
 static const struct option OPTS[] = {
     {"fast", no_argument, NULL, OPT_FAST},
@@ -24,7 +28,7 @@ static const struct option OPTS[] = {
     {"geojson", required_argument, NULL, OPT_GEOJSON},
     {"band-ends", no_argument, NULL, OPT_BAND_ENDS},
     {"fail", required_argument, NULL, OPT_FAIL},
-    {"worst-case", no_argument, NULL, OPT_WORST},
+    {"limits-at", required_argument, NULL, OPT_LIMITS_AT},
     SR_OPTS_PLOT,
     SR_OPTS_OUTPUT,
     {NULL, 0, NULL, 0}};
@@ -34,17 +38,24 @@ static const char HELP[] =
     "The staged descent of a mission file: each deployment, the transient after it\n"
     "(adaptive ODE, drag area growing over the filling time, until the speed is within\n"
     "1% of steady), the steady stages (quadrature of dt = dh/v and of the wind drift),\n"
-    "the event timeline, per-stage descent rates, touchdown speed as a band from the\n"
-    "canopies' drag-coefficient range, kinetic energy of every section, descent time,\n"
-    "drift distance and bearing, and each limit of the file met or exceeded.\n"
-    "Exit 1 when a limit is exceeded (at the typical drag; with --worst-case at any\n"
-    "end of the band). --plot PREFIX draws two figures: PREFIX (height, descent rate\n"
-    "and airspeed against time) and PREFIX-track (the ground track with the wind and\n"
-    "the drift limit, and the wind profile).\n\n"
-    "  --fail STAGE[,STAGE]     failure case: these stages do not deploy ('all': no canopy)\n"
-    "  --worst-case             judge limits at the worst end of each band\n"
-    "  --fast                   the fast mode used for dispersion (steady stages from\n"
-    "                           tables, transients reused from the nominal descent)\n"
+    "the event timeline, per-stage descent rates and opening loads, touchdown speed,\n"
+    "kinetic energy of every section, descent time, drift distance and bearing, and each\n"
+    "limit of the file met or exceeded. Every result is a band: the descent is flown at\n"
+    "the typical values and at both ends of every band (drag range, mass band), and each\n"
+    "opening load over the growth-exponent and opening-load-factor ranges too.\n"
+    "Exit 1 when a limit is exceeded at the worse end of a band (the conservative\n"
+    "default; --limits-at typical relaxes it and the output says it is not conservative).\n"
+    "The failure cases of the file are judged against every limit but never change the\n"
+    "exit code. --plot PREFIX draws two figures: PREFIX (height, descent rate and airspeed\n"
+    "against time) and PREFIX-track (the ground track with the wind and the drift limit,\n"
+    "and the wind profile).\n\n"
+    "  --fail STAGE[,STAGE]     failure case: these stages do not deploy ('all': no canopy);\n"
+    "                           the limits and the exit code then judge it, falling bodies\n"
+    "                           in their worse attitude (broadside or tumbling)\n"
+    SR_HELP_LIMITS_AT
+    "  --fast                   the fast mode used for dispersion and design search (steady\n"
+    "                           stages from tables, transients reused from the nominal\n"
+    "                           descent, opening loads by the fixed-step solver)\n"
     "  --trajectory FILE        the time history of every body: time, height, altitude,\n"
     "                           descent rate, airspeed, east, north, dynamic pressure, Mach,\n"
     "                           stage, event; JSON when FILE ends in .json, CSV when in\n"
@@ -52,12 +63,12 @@ static const char HELP[] =
     "  --geojson FILE           a landing map (GeoJSON, RFC 7946): tracks, landing points,\n"
     "                           deployments and the drift limit on WGS 84; the mission needs\n"
     "                           site.latitude and site.longitude\n"
-    "  --band-ends              trajectory and map also at the low and the high end of the\n"
-    "                           drag band\n\n";
+    "  --band-ends              trajectory and map also at both ends of the band: the fast\n"
+    "                           end (low drag, heavy) and the slow end (high drag, light)\n\n";
 
 typedef struct profile_opts {
-    int fast, worst, band_ends;
-    const char *fail, *trajectory, *geojson;
+    int fast, band_ends;
+    const char *fail, *limits_at, *trajectory, *geojson;
 } profile_opts;
 
 static int take(sr_cli *c, int code, const char *arg, void *ud)
@@ -66,7 +77,7 @@ static int take(sr_cli *c, int code, const char *arg, void *ud)
     (void)c;
     switch (code) {
     case OPT_FAST: o->fast = 1; return 0;
-    case OPT_WORST: o->worst = 1; return 0;
+    case OPT_LIMITS_AT: o->limits_at = arg; return 0;
     case OPT_FAIL: o->fail = arg; return 0;
     case OPT_TRAJECTORY: o->trajectory = arg; return 0;
     case OPT_GEOJSON: o->geojson = arg; return 0;
@@ -186,17 +197,6 @@ static const char *deploy_text(const sr_cli *c, const sr_mission *m, size_t k, c
     return buf;
 }
 
-/* The three runs behind every band: typical drag, the low and the high end
- * of every stage's drag range at once. */
-typedef struct runs {
-    sr_profile_result typ, lo, hi; /* lo: low drag (fast, hard landing), hi: high drag */
-} runs;
-
-static double worst3(double a, double b, double c)
-{
-    return fmax(a, fmax(b, c));
-}
-
 static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, unsigned failed)
 {
     char buf[768], v1[64], v2[64], v3[64];
@@ -259,13 +259,16 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
     }
     sr_profile_report_free_drag(r, c, m);
 
-    t = sr_report_table(r, "stages", "Recovery stages (drag area band from the family's CD0 range)");
+    t = sr_report_table(r, "stages", "Recovery stages (drag area band from the family's CD0 range; n: growth exponent "
+                                     "of the drag area while filling)");
     sr_rtable_text_column(t, "stage", "stage");
     sr_rtable_text_column(t, "canopy", "canopy");
     sr_rtable_column(t, "nominal_diameter", "D0", SR_Q_SIZE, 3);
     sr_rtable_column(t, "drag_area_low", "CdS low", SR_Q_AREA, 3);
     sr_rtable_column(t, "drag_area_typical", "typ", SR_Q_AREA, 3);
     sr_rtable_column(t, "drag_area_high", "high", SR_Q_AREA, 3);
+    sr_rtable_column(t, "growth_exponent_low", "n low", SR_Q_NONE, 2);
+    sr_rtable_column(t, "growth_exponent_high", "n high", SR_Q_NONE, 2);
     sr_rtable_text_column(t, "carries", "carries");
     sr_rtable_text_column(t, "deploys", "deploys");
     for (size_t k = 0; k < m->nstages; k++) {
@@ -285,7 +288,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
             snprintf(car + l, sizeof car - l, "; earlier canopies released");
         }
         sr_band cds = sr_canopy_total_cds(&s->canopy);
-        double row[] = {s->canopy.d0.typ, cds.lo, cds.typ, cds.hi};
+        double row[] = {s->canopy.d0.typ, cds.lo, cds.typ, cds.hi, s->canopy.fam.growth.lo, s->canopy.fam.growth.hi};
         const char *txt[] = {s->name, can, car, deploy_text(c, m, k, dep, sizeof dep)};
         sr_rtable_row(t, row, txt);
     }
@@ -331,9 +334,12 @@ static void report_timeline(sr_report *r, const sr_mission *m, const sr_profile_
     }
 }
 
-static void report_stages(sr_report *r, const sr_mission *m, const sr_profile_result *p)
+static void report_stages(sr_report *r, const sr_mission *m, const sr_band_result *B)
 {
-    sr_rtable *t = sr_report_table(r, "stage_results", "Stages (typical drag)");
+    const sr_profile_result *p = &B->run[SR_BAND_TYPICAL];
+    sr_rtable *t = sr_report_table(r, "stage_results",
+                                   "Stages (typical drag; opening load over every band: low / typical / high, the "
+                                   "high end governs)");
     sr_rtable_text_column(t, "stage", "stage");
     sr_rtable_column(t, "deploy_height", "deployed at", SR_Q_LENGTH, SR_FIXED(0));
     sr_rtable_column(t, "deploy_airspeed", "airspeed", SR_Q_SPEED, 3);
@@ -344,15 +350,24 @@ static void report_stages(sr_report *r, const sr_mission *m, const sr_profile_re
     sr_rtable_column(t, "rate_bottom", "at bottom", SR_Q_SPEED, 3);
     sr_rtable_column(t, "time_in_stage", "time in stage", SR_Q_TIME, SR_FIXED(1));
     sr_rtable_column(t, "opening_load_low", "opening load low", SR_Q_FORCE, 3);
+    sr_rtable_column(t, "opening_load_typical", "typical", SR_Q_FORCE, 3);
     sr_rtable_column(t, "opening_load_high", "high", SR_Q_FORCE, 3);
-    sr_rtable_column(t, "opening_decel", "peak decel [g]", SR_Q_NONE, 3);
+    sr_rtable_column(t, "opening_decel_high", "decel. high [g]", SR_Q_NONE, 3);
     for (size_t k = 0; k < m->nstages; k++) {
         const sr_profile_stage *s = &p->stage[k];
-        double row[] = {s->h_deploy,  s->speed_deploy, s->q_deploy,    s->mach_deploy,
+        const sr_loads_band *L = &B->loads[k];
+        double row[] = {s->h_deploy,
+                        s->speed_deploy,
+                        s->q_deploy,
+                        s->mach_deploy,
                         s->deployed ? s->t_fill : NAN,
-                        s->deployed ? s->rate_top : NAN, s->deployed ? s->rate_bottom : NAN,
-                        s->deployed ? s->t_end - s->t_deploy : NAN, s->opening_force_low, s->opening_force,
-                        s->opening_decel};
+                        s->deployed ? s->rate_top : NAN,
+                        s->deployed ? s->rate_bottom : NAN,
+                        s->deployed ? s->t_end - s->t_deploy : NAN,
+                        L->valid ? L->lo.force : NAN,
+                        L->valid ? L->typ.force : NAN,
+                        L->valid ? L->hi.force : NAN,
+                        L->valid ? L->hi.decel_g : NAN};
         char name[96];
         snprintf(name, sizeof name, "%s%s", m->stages[k].name,
                  !s->deployed ? (isnan(s->t_deploy) ? " (not reached)" : " (fails)") : "");
@@ -361,129 +376,92 @@ static void report_stages(sr_report *r, const sr_mission *m, const sr_profile_re
     }
 }
 
-static void report_touchdown(sr_report *r, const sr_mission *m, const runs *R)
+/* lowest, typical and highest of a quantity over the band runs */
+typedef struct span {
+    double lo, typ, hi;
+} span;
+
+static span span_of(const sr_band_result *B, double (*get)(const sr_profile_result *, size_t), size_t i)
 {
-    const sr_profile_result *p = &R->typ;
+    span s = {get(&B->run[0], i), get(&B->run[0], i), get(&B->run[0], i)};
+    for (int e = 1; e < SR_BAND_NRUNS; e++) {
+        double v = get(&B->run[e], i);
+        s.lo = fmin(s.lo, v);
+        s.hi = fmax(s.hi, v);
+    }
+    return s;
+}
+
+static double get_rate(const sr_profile_result *r, size_t i) { return r->body[i].rate_land; }
+static double get_energy(const sr_profile_result *r, size_t i) { return r->section_energy[i]; }
+static double get_energy_ground(const sr_profile_result *r, size_t i) { return r->section_energy_ground[i]; }
+static double get_speed_ground(const sr_profile_result *r, size_t i) { return r->section_speed_ground[i]; }
+static double get_time(const sr_profile_result *r, size_t i) { (void)i; return r->descent_time; }
+static double get_max_rate(const sr_profile_result *r, size_t i) { (void)i; return r->max_rate; }
+static double get_max_energy(const sr_profile_result *r, size_t i) { (void)i; return r->max_energy; }
+static double get_drift(const sr_profile_result *r, size_t i) { (void)i; return r->max_drift; }
+
+static void report_touchdown(sr_report *r, const sr_mission *m, const sr_band_result *B, const sr_verdict *v)
+{
+    const sr_profile_result *p = &B->run[SR_BAND_TYPICAL];
     sr_rtable *t = sr_report_table(r, "touchdown",
-                                   "Touchdown (rates over the canopies' drag-coefficient range)");
+                                   "Touchdown (descent rates over the bands; ground-relative: with the surface "
+                                   "wind, at the band end)");
     sr_rtable_text_column(t, "body", "sections");
     sr_rtable_column(t, "time", "time", SR_Q_TIME, SR_FIXED(1));
     sr_rtable_column(t, "rate_low", "rate low", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_typical", "typical", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_high", "high", SR_Q_SPEED, 3);
+    sr_rtable_column(t, "speed_ground_high", "ground-rel.", SR_Q_SPEED, 3);
     sr_rtable_column(t, "drift", "drift", SR_Q_LENGTH, SR_FIXED(0));
     sr_rtable_column(t, "bearing", "bearing", SR_Q_BEARING, SR_FIXED(0));
     sr_rtable_column(t, "east", "east", SR_Q_LENGTH, SR_FIXED(0));
     sr_rtable_column(t, "north", "north", SR_Q_LENGTH, SR_FIXED(0));
+    double wind = 0.0;
+    for (int e = 0; e < SR_BAND_NRUNS; e++)
+        wind = fmax(wind, B->run[e].wind_surface);
     for (size_t i = 0; i < p->nbodies; i++) {
         const sr_profile_body *b = &p->body[i];
         char bn[256];
         body_name(m, p, (int)i, bn, sizeof bn);
-        /* the same body index in every run: the structure does not depend on drag */
-        double row[] = {b->t_land, R->hi.body[i].rate_land, b->rate_land, R->lo.body[i].rate_land, b->drift,
-                        b->bearing, b->east, b->north};
+        /* the same body index in every run: the structure does not depend on the bands */
+        span rate = span_of(B, get_rate, i);
+        double row[] = {b->t_land, rate.lo, rate.typ, rate.hi, hypot(rate.hi, wind), b->drift, b->bearing, b->east,
+                        b->north};
         const char *txt[] = {bn};
         sr_rtable_row(t, row, txt);
     }
-    t = sr_report_table(r, "energy", "Landing energy per section (1/2 m v^2 at its touchdown descent rate)");
+    t = sr_report_table(r, "energy",
+                        m->energy_ground
+                            ? "Landing energy per section (1/2 m v^2; the limit means the ground-relative speed)"
+                            : "Landing energy per section (1/2 m v^2 at its touchdown descent rate; the limit means "
+                              "the descent rate)");
     sr_rtable_text_column(t, "section", "section");
     sr_rtable_column(t, "mass", "mass", SR_Q_MASS, 3);
     sr_rtable_text_column(t, "lands_with", "lands with");
     sr_rtable_column(t, "energy_low", "energy low", SR_Q_ENERGY, 3);
     sr_rtable_column(t, "energy_typical", "typical", SR_Q_ENERGY, 3);
     sr_rtable_column(t, "energy_high", "high", SR_Q_ENERGY, 3);
+    sr_rtable_column(t, "speed_ground_high", "ground-rel. speed", SR_Q_SPEED, 3);
+    sr_rtable_column(t, "energy_ground_high", "energy", SR_Q_ENERGY, 3);
     sr_rtable_column(t, "margin", "margin to limit", SR_Q_ENERGY, 3);
     for (size_t s = 0; s < m->nsections; s++) {
         char bn[256];
         body_name(m, p, p->section_body[s], bn, sizeof bn);
-        double row[] = {m->sections[s].mass, R->hi.section_energy[s], p->section_energy[s], R->lo.section_energy[s],
-                        m->limit_energy - p->section_energy[s]};
+        span e = span_of(B, get_energy, s), eg = span_of(B, get_energy_ground, s), vg = span_of(B, get_speed_ground, s);
+        double margin = NAN;
+        for (size_t k = 0; k < v->nrows; k++)
+            if (v->row[k].kind == SR_JUDGE_ENERGY && v->row[k].index == (int)s)
+                margin = v->row[k].margin;
+        double row[] = {m->sections[s].mass, e.lo, e.typ, e.hi, vg.hi, eg.hi, margin};
         const char *txt[] = {m->sections[s].name, bn};
         sr_rtable_row(t, row, txt);
     }
 }
 
-typedef struct limit_row {
-    const char *key, *label;
-    sr_quantity q;
-    double limit, typ, worst;
-} limit_row;
-
-static double max_deploy_q(const sr_profile_result *p)
+static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_band_result *B)
 {
-    double q = 0.0;
-    for (size_t k = 0; k < p->nstages; k++)
-        if (p->stage[k].deployed && p->stage[k].q_deploy > q)
-            q = p->stage[k].q_deploy;
-    return q;
-}
-
-/* Returns the number of limits exceeded (typical, or any end with worst). */
-static int report_limits(sr_report *r, sr_cli *c, const sr_mission *m, const runs *R, int worst)
-{
-    limit_row L[] = {
-        {"touchdown_speed", "touchdown descent rate", SR_Q_SPEED, m->limit_speed, R->typ.max_rate,
-         worst3(R->typ.max_rate, R->lo.max_rate, R->hi.max_rate)},
-        {"landing_energy", "landing energy of any section", SR_Q_ENERGY, m->limit_energy, R->typ.max_energy,
-         worst3(R->typ.max_energy, R->lo.max_energy, R->hi.max_energy)},
-        {"descent_time", "descent time", SR_Q_TIME, m->limit_time, R->typ.descent_time,
-         worst3(R->typ.descent_time, R->lo.descent_time, R->hi.descent_time)},
-        {"drift", "drift from the launch point", SR_Q_LENGTH, m->limit_drift, R->typ.max_drift,
-         worst3(R->typ.max_drift, R->lo.max_drift, R->hi.max_drift)},
-        {"deployment_pressure", "dynamic pressure at deployment", SR_Q_PRESSURE, m->limit_deploy_q,
-         max_deploy_q(&R->typ), worst3(max_deploy_q(&R->typ), max_deploy_q(&R->lo), max_deploy_q(&R->hi))},
-    };
-    sr_rtable *t = sr_report_table(r, "limits", "Limits (worst: the worse end of the drag band)");
-    sr_rtable_text_column(t, "limit", "limit");
-    sr_rtable_column(t, "value", "allowed", SR_Q_NONE, 4);
-    sr_rtable_column(t, "typical", "typical", SR_Q_NONE, 4);
-    sr_rtable_column(t, "worst", "worst", SR_Q_NONE, 4);
-    sr_rtable_column(t, "margin", "margin", SR_Q_NONE, 4);
-    sr_rtable_text_column(t, "unit", "unit");
-    sr_rtable_text_column(t, "status", "status");
-    int exceeded = 0, any = 0;
-    for (size_t i = 0; i < sizeof L / sizeof L[0]; i++) {
-        if (isnan(L[i].limit))
-            continue;
-        any = 1;
-        const char *status;
-        int bad_typ = L[i].typ > L[i].limit, bad_worst = L[i].worst > L[i].limit;
-        if (bad_typ)
-            status = "EXCEEDED";
-        else if (bad_worst)
-            status = worst ? "EXCEEDED at the band end" : "met; exceeded at the band end";
-        else
-            status = "met";
-        double lim = sr_units_from_si(L[i].limit, L[i].q, c->units);
-        double typ = sr_units_from_si(L[i].typ, L[i].q, c->units);
-        double wst = sr_units_from_si(L[i].worst, L[i].q, c->units);
-        double row[] = {lim, typ, wst, lim - typ};
-        const char *txt[] = {L[i].label, sr_units_label(L[i].q, c->units), status};
-        sr_rtable_row(t, row, txt);
-        if (bad_typ || (worst && bad_worst)) {
-            exceeded++;
-            char a[64], b[64];
-            sr_report_format_value(a, sizeof a, bad_typ ? L[i].typ : L[i].worst, L[i].q, c->units, 4);
-            sr_report_format_value(b, sizeof b, L[i].limit, L[i].q, c->units, 4);
-            sr_cli_note(c, "limit exceeded: %s %s > %s%s", L[i].label, a, b,
-                        bad_typ ? "" : " (at the worse end of the drag band)");
-        } else if (bad_worst) {
-            char a[64], b[64];
-            sr_report_format_value(a, sizeof a, L[i].worst, L[i].q, c->units, 4);
-            sr_report_format_value(b, sizeof b, L[i].limit, L[i].q, c->units, 4);
-            sr_report_warning(r, "%s: met at the typical drag, but %s at the worse end of the drag band exceeds %s",
-                              L[i].label, a, b);
-        }
-    }
-    if (!any)
-        sr_report_note(r, "The mission file sets no limits: nothing was checked.");
-    return exceeded;
-}
-
-static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx,
-                            const runs *R)
-{
-    const sr_profile_result *p = &R->typ;
+    const sr_profile_result *p = &B->run[SR_BAND_TYPICAL];
     for (size_t k = 0; k < m->nstages; k++) {
         const sr_profile_stage *s = &p->stage[k];
         char a[64], b[64];
@@ -493,31 +471,38 @@ static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, 
         }
         if (!s->deployed)
             continue; /* a failure case: it does not open */
-        if (s->warn_q) {
-            sr_report_format_value(a, sizeof a, s->q_deploy, SR_Q_PRESSURE, c->units, 3);
-            if (isnan(m->limit_deploy_q)) {
-                sr_report_format_value(b, sizeof b, 2500.0, SR_Q_PRESSURE, c->units, 3);
-                sr_report_warning(r, "stage '%s' deploys at a high dynamic pressure, %s (warning level %s, our "
-                                     "choice; set limits.deployment-pressure for your hardware)",
-                                  m->stages[k].name, a, b);
-            }
+        double q = 0.0;
+        for (int e = 0; e < SR_BAND_NRUNS; e++)
+            if (B->run[e].stage[k].deployed)
+                q = fmax(q, B->run[e].stage[k].q_deploy);
+        /* without a limit in the file: a warning level of ours, not a published limit */
+        if (isnan(m->limit_deploy_q) && q > 2500.0) {
+            sr_report_format_value(a, sizeof a, q, SR_Q_PRESSURE, c->units, 3);
+            sr_report_format_value(b, sizeof b, 2500.0, SR_Q_PRESSURE, c->units, 3);
+            sr_report_warning(r, "stage '%s' deploys at a high dynamic pressure, %s at the band end (warning level "
+                                 "%s, our choice; set limits.deployment-pressure for your hardware)",
+                              m->stages[k].name, a, b);
         }
-        if (s->warn_mach)
-            sr_report_warning(r, "stage '%s' deploys at Mach %.2f, above the %s family's usual application limit "
-                                 "(Mach %.2f)",
-                              m->stages[k].name, s->mach_deploy, m->stages[k].canopy.fam.id,
-                              m->stages[k].canopy.fam.mach_max);
+        if (B->loads[k].slow_deployment)
+            sr_report_warning(r, "stage '%s' opens at or below its steady descent rate: the payload speeds up while "
+                                 "the canopy fills and the weight governs the opening load",
+                              m->stages[k].name);
     }
     for (size_t i = 0; i < p->nbodies; i++) {
         char bn[256];
         body_name(m, p, (int)i, bn, sizeof bn);
+        int plural = strchr(bn, '+') != NULL;
+        if (p->body[i].no_drag)
+            sr_report_warning(r, "%s fall%s with no canopy open and no drag of %s own at all (the file gives "
+                                 "neither drag-area: nor body:): a fall in vacuum, far faster than any real one; "
+                                 "describe %s",
+                              bn, plural ? "" : "s", plural ? "their" : "its", plural ? "them" : "it");
         if (p->body[i].canopies == 0)
-            sr_report_warning(r, "%s land%s without a canopy (free fall)", bn,
-                              strchr(bn, '+') ? "" : "s");
+            sr_report_warning(r, "%s land%s without a canopy (free fall)", bn, plural ? "" : "s");
         else if (!p->body[i].steady_land)
             sr_report_warning(r, "%s touch%s down before the descent has settled: the touchdown speed is that of "
                                  "the transient",
-                              bn, strchr(bn, '+') ? "" : "es");
+                              bn, plural ? "" : "es");
     }
     for (size_t k = 0; k < m->nstages; k++)
         if (!m->stages[k].canopy.measured && strstr(m->stages[k].canopy.fam.cd0_source, "memory")) {
@@ -529,26 +514,33 @@ static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, 
     if (p->events_dropped)
         sr_report_warning(r, "%d events beyond the first %d are not listed", p->events_dropped,
                           SR_PROFILE_MAX_EVENTS);
-    (void)ctx;
 }
 
-static void report_notes(sr_report *r, int fast)
+static void report_notes(sr_report *r, const sr_mission *m, int fast)
 {
+    sr_report_note(r, "Bands: the descent is flown at the typical values and at both ends of every band together: "
+                      "the fast end (every canopy at the low end of its drag range, every banded mass at its heavy "
+                      "end) and the slow end (high drag, light masses). Each limit is judged at the worst of them.");
     sr_report_note(r, "Steady stages: quadrature (GSL QAG) of dt = dh/v(h) and of the drift w(h)/v(h) dh, with "
                       "v = sqrt(2 m g / (rho CdS)) in the mission's air, plus the lag (v/g) dw of a body falling "
                       "through wind shear. After each deployment the motion is integrated (GSL rk8pd) with the drag "
-                      "area growing as (t/t_f)^n over the filling time t_f = n_fill D0 / v (n = 2 solid cloth, 1 "
-                      "slotted; Knacke 1991, from memory) until the airspeed is within 1%% of the steady one.");
+                      "area growing as (t/t_f)^n over the filling time t_f = n_fill D0 / max(v, steady rate) (the "
+                      "family's typical n) until the airspeed is within 1%% of the steady one.");
     sr_report_note(r, "Canopies already open stay on the line and keep their drag unless the stage says "
-                      "'previous: release'. The start airspeed is relative to the moving air. Landing energy "
-                      "uses the descent rate, as landing-energy limits usually do.");
-    sr_report_note(r, "Opening load: lowest and highest of the opening-load-factor, Pflanz and inflation-ODE "
-                      "estimates at the airspeed, density and path angle of line stretch, typical drag, with the "
-                      "mass of the sections under the canopy; `sinkrate loads --mission FILE` shows the methods "
-                      "in detail.");
+                      "'previous: release'. The start airspeed is relative to the moving air.");
+    sr_report_note(r, "Landing energy: %s. The ground-relative speed combines the descent rate with the surface wind "
+                      "(10 m above ground).",
+                   m->energy_ground ? "the file's limit means the speed relative to the ground"
+                                    : "the limit means the descent rate (vertical), as the trade's landing-energy "
+                                      "limits do");
+    sr_report_note(r, "Opening load: the highest of the opening-load-factor, Pflanz and inflation-ODE estimates "
+                      "(one growth model, so their spread is not the real uncertainty), at the state of line "
+                      "stretch in each band run, over the canopy's drag range, its growth-exponent range and its "
+                      "opening-load-factor range; the high end governs. `sinkrate loads --mission FILE --stage S` "
+                      "shows the methods for the same numbers.");
     if (fast)
         sr_report_note(r, "Fast mode: steady stages from the precomputed tables, transients from the nominal ODE "
-                          "solution; no transient events are listed.");
+                          "solution, opening loads by the fixed-step solver; no transient events are listed.");
 }
 
 int sr_cmd_profile(sr_cli *c, int argc, char **argv)
@@ -557,6 +549,9 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     memset(&o, 0, sizeof o);
     int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
     if (rc)
+        return rc;
+    sr_judge_basis basis = SR_JUDGE_BAND_END;
+    if (o.limits_at && (rc = sr_cli_limits_at(c, o.limits_at, &basis)))
         return rc;
     if (first >= argc)
         return sr_cli_fail(c, "give a mission file (e.g. payloads/desert-club-rocket.yaml)");
@@ -575,9 +570,10 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
-    sr_profile_ctx *ctx = NULL;
-    sr_profile_work *w = NULL;
-    runs *R = NULL;
+    sr_band_ctx *bc = NULL;
+    sr_band_work *w = NULL;
+    sr_band_result *B = NULL;
+    sr_failcase_result *F = NULL;
     sr_report *r = NULL;
     sr_profile_point *pts = NULL, *pts_lo = NULL, *pts_hi = NULL;
     char *tbuf = NULL, *gbuf = NULL;
@@ -586,8 +582,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     if ((rc = sr_cli_catalog(c, &cat)))
         goto out;
     m = calloc(1, sizeof *m);
-    R = calloc(1, sizeof *R);
-    if (!m || !R) {
+    B = calloc(1, sizeof *B);
+    if (!m || !B) {
         rc = sr_cli_fail(c, "out of memory");
         goto out;
     }
@@ -611,18 +607,28 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     sr_profile_opts_init(&po);
     if (o.fail && (rc = parse_fail(c, m, o.fail, &po.failed)))
         goto out;
-    if (sr_profile_ctx_new(&ctx, m, &po, &e) || sr_profile_work_new(&w, &e)) {
+    sr_judge_limits lim;
+    sr_judge_limits_init(&lim, m);
+    sr_verdict verdict;
+    sr_profile_mode mode = o.fast ? SR_PROFILE_FAST : SR_PROFILE_FULL;
+    if (po.failed) {
+        /* the failure case is the descent: every attitude its bodies can take, judged at the worse */
+        F = calloc(1, sizeof *F);
+        if (!F) {
+            rc = sr_cli_fail(c, "out of memory");
+            goto out;
+        }
+        if (sr_failcase_run(m, po.failed, &lim, basis, NULL, F, &e)) {
+            rc = sr_cli_fail_err(c, &e);
+            goto out;
+        }
+        verdict = F->verdict;
+        po.attitude = F->attitude[F->worse];
+        mode = SR_PROFILE_FULL;
+    }
+    if (sr_band_ctx_new(&bc, m, &po, &e) || sr_band_work_new(&w, &e)) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
-    }
-    sr_profile_mode mode = o.fast ? SR_PROFILE_FAST : SR_PROFILE_FULL;
-    sr_profile_perturb lo, hi;
-    sr_profile_perturb_init(&lo);
-    sr_profile_perturb_init(&hi);
-    for (size_t k = 0; k < m->nstages; k++) {
-        sr_band b = sr_canopy_total_cds(&m->stages[k].canopy);
-        lo.drag_scale[k] = b.lo / b.typ;
-        hi.drag_scale[k] = b.hi / b.typ;
     }
     sr_profile_track track = {NULL, 0, 0, 0.5}, track_lo = track, track_hi = track;
     int maps = o.trajectory || o.geojson, want_track = c->plot_prefix || maps;
@@ -644,43 +650,69 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
             goto out;
         }
     }
-    if (sr_profile_run(ctx, NULL, mode, w, &R->typ, want_track ? &track : NULL, &e) ||
-        sr_profile_run(ctx, &lo, mode, w, &R->lo, o.band_ends ? &track_lo : NULL, &e) ||
-        sr_profile_run(ctx, &hi, mode, w, &R->hi, o.band_ends ? &track_hi : NULL, &e)) {
+    sr_profile_track *const tracks[SR_BAND_NRUNS] = {want_track ? &track : NULL, o.band_ends ? &track_lo : NULL,
+                                                     o.band_ends ? &track_hi : NULL};
+    if (sr_band_run_tracked(bc, NULL, mode, w, B, tracks, &e)) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
+    if (!F)
+        sr_judge_band(&lim, B, basis, &verdict);
     r = sr_report_new("profile", "staged descent of a mission");
     if (!r) {
         rc = sr_cli_fail(c, "out of memory");
         goto out;
     }
+    sr_cli_verdict_header(r, basis);
     report_inputs(r, c, m, po.failed);
-    sr_report_section(r, "Result (low / typical / high over the canopies' drag-coefficient range)");
-    sr_report_band(r, "descent_time", "descent time (last touchdown)", fmin(R->lo.descent_time, R->hi.descent_time),
-                   R->typ.descent_time, fmax(R->lo.descent_time, R->hi.descent_time), SR_Q_TIME, SR_FIXED(1));
-    sr_report_band(r, "touchdown_rate", "highest touchdown descent rate", R->hi.max_rate, R->typ.max_rate,
-                   R->lo.max_rate, SR_Q_SPEED, 3);
-    sr_report_band(r, "landing_energy", "highest section landing energy", R->hi.max_energy, R->typ.max_energy,
-                   R->lo.max_energy, SR_Q_ENERGY, 3);
-    sr_report_band(r, "drift", "farthest landing point from launch", fmin(R->lo.max_drift, R->hi.max_drift),
-                   R->typ.max_drift, fmax(R->lo.max_drift, R->hi.max_drift), SR_Q_LENGTH, SR_FIXED(0));
-    report_timeline(r, m, &R->typ);
-    report_stages(r, m, &R->typ);
-    report_touchdown(r, m, R);
-    int exceeded = report_limits(r, c, m, R, o.worst);
-    report_warnings(r, c, m, ctx, R);
+    if (F && F->nattitudes > 1) {
+        char buf[256];
+        snprintf(buf, sizeof buf, "%s (the worse of %zu attitudes; the limits take the worst of all)",
+                 sr_bluff_attitude_name(F->attitude[F->worse]), F->nattitudes);
+        sr_report_text(r, "attitude", "falling bodies shown", buf);
+    }
+    const sr_profile_result *T = &B->run[SR_BAND_TYPICAL];
+    span time = span_of(B, get_time, 0), rate = span_of(B, get_max_rate, 0), en = span_of(B, get_max_energy, 0),
+         drift = span_of(B, get_drift, 0);
+    sr_report_section(r, "Result (low / typical / high over every band)");
+    sr_report_band(r, "descent_time", "descent time (last touchdown)", time.lo, T->descent_time, time.hi, SR_Q_TIME,
+                   SR_FIXED(1));
+    sr_report_band(r, "touchdown_rate", "highest touchdown descent rate", rate.lo, T->max_rate, rate.hi, SR_Q_SPEED,
+                   3);
+    sr_report_band(r, "landing_energy", "highest section landing energy", en.lo, T->max_energy, en.hi, SR_Q_ENERGY,
+                   3);
+    sr_report_band(r, "drift", "farthest landing point from launch", drift.lo, T->max_drift, drift.hi, SR_Q_LENGTH,
+                   SR_FIXED(0));
+    if (verdict.binding >= 0) {
+        char label[200], buf[320];
+        sr_cli_verdict_label(m, &lim, &verdict.row[verdict.binding], label, sizeof label);
+        snprintf(buf, sizeof buf, "%s (%.0f %% of its limit%s)", label, 100.0 * verdict.row[verdict.binding].ratio,
+                 basis == SR_JUDGE_TYPICAL ? ", typical" : ", band end");
+        sr_report_text(r, "binding_limit", "limit closest to breaking", buf);
+    }
+    report_timeline(r, m, T);
+    report_stages(r, m, B);
+    report_touchdown(r, m, B, &verdict);
+    if (!sr_cli_verdict_table(r, c, m, &lim, &verdict, 0))
+        sr_report_note(r, "The mission file sets no limits: nothing was checked.");
+    int exceeded = sr_cli_verdict_messages(r, c, m, &lim, &verdict, 0);
+    report_warnings(r, c, m, B);
     sr_input_warnings iw;
     sr_input_warnings_init(&iw);
     sr_input_warnings_mission(&iw, m, NULL, c->units);
     sr_cli_report_input_warnings(r, &iw);
-    report_notes(r, o.fast);
-    sr_profile_report_failures(r, c, m);
-    /* the trajectory and the map are built before anything is written */
-    sr_map_run mr[3] = {{"typical drag", &R->typ, &track}, {"low drag", &R->lo, &track_lo},
-                        {"high drag", &R->hi, &track_hi}};
+    report_notes(r, m, o.fast && !F);
+    if (F)
+        sr_profile_report_attitudes(r, c, m, F);
+    if ((rc = sr_profile_report_failures(r, c, m, &lim, basis)))
+        goto out;
+    /* the trajectory and the map are built before anything is written; the band-end runs are the fast end
+     * (low drag, heavy) and the slow end (high drag, light) */
+    sr_map_run mr[3] = {{"typical drag", &B->run[SR_BAND_TYPICAL], &track},
+                        {"low drag", &B->run[SR_BAND_FAST], &track_lo},
+                        {"high drag", &B->run[SR_BAND_SLOW], &track_hi}};
     size_t nmr = o.band_ends ? 3 : 1;
-    if (o.trajectory && (rc = sr_maps_trajectory(c, o.trajectory, m, ctx, mr, nmr, &tbuf, &tlen)))
+    if (o.trajectory && (rc = sr_maps_trajectory(c, o.trajectory, m, sr_band_profile(bc), mr, nmr, &tbuf, &tlen)))
         goto out;
     if (o.geojson && (rc = sr_maps_profile_geojson(c, m, mr, nmr, &gbuf, &glen)))
         goto out;
@@ -690,7 +722,7 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         goto out;
     if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
-    if (c->plot_prefix && (rc = sr_profile_plot(c, m, ctx, &R->typ, &track, argc, argv)))
+    if (c->plot_prefix && (rc = sr_profile_plot(c, m, sr_band_profile(bc), T, &track, argc, argv)))
         goto out;
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
@@ -700,13 +732,14 @@ out:
     free(tbuf);
     free(gbuf);
     sr_report_free(r);
-    sr_profile_work_free(w);
-    sr_profile_ctx_free(ctx);
+    sr_band_work_free(w);
+    sr_band_ctx_free(bc);
     if (m) {
         sr_mission_free(m);
         free(m);
     }
-    free(R);
+    free(B);
+    free(F);
     free(cat);
     return rc;
 }

@@ -7,6 +7,7 @@
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "analysis/input_warnings.h"
+#include "analysis/sizing.h"
 #include "physics/descent.h"
 #include "files/mission.h"
 
@@ -126,12 +127,15 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail(c, "--altitude: %s", e.msg);
         goto out;
     }
-    sr_size_result res;
-    if (sr_descent_size_canopy(&cp, mass, speed, body, &air, &res, &e)) {
+    /* the size and what is reported around it (analysis/sizing.h) */
+    sr_sizing_request sreq = {.canopy = &cp, .mass = mass, .speed = speed, .body_cds = body, .atmos = &atm,
+                              .altitude = z};
+    sr_sizing_result szr;
+    if (sr_sizing_run(&sreq, &szr, &e)) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
-    sr_band cd0 = sr_canopy_cd0_band(&cp);
+    const sr_size_result res = szr.size;
     double areal = cp.areal_mass > 0 ? cp.areal_mass : 0.0;
 
     /* the words fit the stage: a touchdown speed at the ground, a descent
@@ -159,17 +163,15 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_report_section(r, cp.count > 1 ? "Result (each canopy of the cluster)" : "Result");
     sr_report_band(r, "nominal_area", "nominal area S0", res.s0.lo, res.s0.typ, res.s0.hi, SR_Q_AREA, 4);
     sr_report_band(r, "nominal_diameter", "nominal diameter D0", res.d0.lo, res.d0.typ, res.d0.hi, SR_Q_SIZE, 4);
-    sr_band dp = cp.fam.dp_d0, dc = cp.fam.dc_d0;
-    sr_report_band(r, "projected_diameter", "projected diameter Dp", res.d0.lo * dp.lo, res.d0.typ * dp.typ,
-                   res.d0.hi * dp.hi, SR_Q_SIZE, 4);
-    sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", res.d0.lo * dc.lo, res.d0.typ * dc.typ,
-                   res.d0.hi * dc.hi, SR_Q_SIZE, 4);
+    sr_report_band(r, "projected_diameter", "projected diameter Dp", szr.dp.lo, szr.dp.typ, szr.dp.hi, SR_Q_SIZE, 4);
+    sr_report_band(r, "flat_diameter", "flat (constructed) diameter Dc", szr.dc.lo, szr.dc.typ, szr.dc.hi,
+                   SR_Q_SIZE, 4);
     if (areal > 0)
         sr_report_band(r, "canopy_mass", "canopy fabric mass (all canopies)", res.canopy_mass.lo,
                        res.canopy_mass.typ, res.canopy_mass.hi, SR_Q_MASS, 3);
     sr_report_value(r, "drag_area", "drag area needed (total, typical)", res.cds_total, SR_Q_AREA, 4);
     sr_report_value(r, "touchdown_energy", touchdown ? "touchdown kinetic energy" : "kinetic energy at that speed",
-                    0.5 * (mass + res.canopy_mass.typ) * speed * speed, SR_Q_ENERGY, 4);
+                    szr.energy, SR_Q_ENERGY, 4);
 
     if (mis && mis->stages[mis->nstages - 1].has_size && !sr_cli_canopy_given(&o.canopy)) {
         const sr_stage *st = &mis->stages[mis->nstages - 1];
@@ -181,41 +183,28 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         sr_report_text(r, "file_size", "size in the file", buf);
         sr_report_band(r, "file_nominal_area", "its nominal area S0", st->canopy.s0.lo, st->canopy.s0.typ,
                        st->canopy.s0.hi, SR_Q_AREA, 4);
-        if (st->canopy.s0.lo >= res.s0.hi)
+        switch (sr_sizing_compare(&szr, &st->canopy)) {
+        case SR_SIZING_FITS_BAND:
             sr_report_note(r, "The file's canopy is at least as large as the high end of the band: it meets the "
                               "target speed over the whole drag range.");
-        else if (st->canopy.s0.typ >= res.s0.typ)
+            break;
+        case SR_SIZING_FITS_TYPICAL:
             sr_report_warning(r, "The file's canopy meets the target with the typical drag coefficient but not over "
                                  "the whole range: it needs S0 = %.3g m2 to be sure.", res.s0.hi);
-        else
+            break;
+        default:
             sr_report_warning(r, "The file's canopy is smaller than the typical size needed (%.3g m2): it lands "
                                  "faster than the target.", res.s0.typ);
+        }
     }
-    /* how the typical canopy behaves higher up */
-    sr_canopy typ;
-    sr_canopy_from_size(&typ, &cp.fam, SR_SIZE_NOMINAL_AREA, res.s0.typ, &e);
-    typ.cd.v = cd0;
-    typ.cds.lo = cd0.lo * res.s0.typ;
-    typ.cds.typ = cd0.typ * res.s0.typ;
-    typ.cds.hi = cd0.hi * res.s0.typ;
-    typ.count = cp.count;
-    typ.cluster_factor = cp.cluster_factor;
-    typ.areal_mass = areal;
     sr_rtable *t = sr_report_table(r, "rate_of_typical_size", "Descent rate of the typical size at altitude");
     sr_rtable_column(t, "altitude", "altitude", SR_Q_LENGTH, SR_FIXED(0));
     sr_rtable_column(t, "density", "density", SR_Q_DENSITY, 4);
     sr_rtable_column(t, "rate_low", "rate low", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_typical", "rate typical", SR_Q_SPEED, 3);
     sr_rtable_column(t, "rate_high", "rate high", SR_Q_SPEED, 3);
-    static const double DZ[] = {0, 500, 1000, 2000, 3000, 5000};
-    for (size_t i = 0; i < sizeof DZ / sizeof DZ[0]; i++) {
-        sr_air a;
-        if (sr_atmos_at(&atm, z + DZ[i], &a, NULL))
-            break;
-        sr_band v;
-        if (sr_descent_rate(&typ, mass, body, &a, &v, NULL))
-            break;
-        double row[] = {z + DZ[i], a.rho, v.lo, v.typ, v.hi};
+    for (size_t i = 0; i < szr.nrates; i++) {
+        double row[] = {szr.rate_altitude[i], szr.rate_density[i], szr.rate[i].lo, szr.rate[i].typ, szr.rate[i].hi};
         sr_rtable_row(t, row, NULL);
     }
     sr_report_note(r, "Sizes are on nominal area S0 (total canopy surface, vent included), D0 = sqrt(4 S0/pi). "
@@ -223,7 +212,7 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_report_note(r, "The band comes from the drag-coefficient range of the family: the high coefficient gives "
                       "the small canopy, the low one the large. Choose from the large end to meet the speed with "
                       "margin.");
-    if (cp.measured)
+    if (szr.cd0_converted)
         sr_report_note(r, "A measured drag coefficient on %s area was converted to nominal area through the family "
                           "ratio.", sr_ref_name(cp.cd.ref));
     sr_input_warnings iw;

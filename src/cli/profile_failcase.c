@@ -6,7 +6,11 @@
 
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
+
+#include "cli/common.h"
+#include "cli/verdict.h"
 
 /* a what-if result this many times a limit is "far beyond" it */
 #define FAR_BEYOND 2.0
@@ -115,41 +119,6 @@ void sr_profile_free_fall_warnings(sr_report *r, const sr_cli *c, const sr_missi
     }
 }
 
-/* "FAR BEYOND the limits: energy 15.7x, speed 5.0x" */
-static void judge(const sr_mission *m, double speed, double energy, double time, double drift, char *buf,
-                  size_t len, double *worst)
-{
-    struct {
-        const char *what;
-        double v, lim;
-    } L[] = {{"energy", energy, m->limit_energy},
-             {"speed", speed, m->limit_speed},
-             {"time", time, m->limit_time},
-             {"drift", drift, m->limit_drift}};
-    char parts[160] = "";
-    int any = 0;
-    *worst = 0.0;
-    for (size_t i = 0; i < sizeof L / sizeof L[0]; i++) {
-        if (isnan(L[i].lim))
-            continue;
-        any = 1;
-        double ratio = L[i].v / L[i].lim;
-        if (!(ratio > 1.0))
-            continue;
-        *worst = fmax(*worst, ratio);
-        size_t l = strlen(parts);
-        snprintf(parts + l, sizeof parts - l, "%s%s %.1fx", l ? ", " : "", L[i].what, ratio);
-    }
-    if (!any)
-        snprintf(buf, len, "no limits set");
-    else if (!parts[0])
-        snprintf(buf, len, "within the limits");
-    else if (*worst >= FAR_BEYOND)
-        snprintf(buf, len, "FAR BEYOND the limits: %s the limit", parts);
-    else
-        snprintf(buf, len, "beyond the limits: %s the limit", parts);
-}
-
 static void stage_names(const sr_mission *m, unsigned set, char *buf, size_t len)
 {
     buf[0] = '\0';
@@ -160,73 +129,119 @@ static void stage_names(const sr_mission *m, unsigned set, char *buf, size_t len
         }
 }
 
-typedef struct fc_run {
-    sr_profile_ctx *ctx;
-    sr_profile_result lo; /* the low end of the drag range: the faster landing */
-} fc_run;
+static const char *ATT_KEY[3] = {"broadside", "tumbling", "end_on"};
 
-void sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission *m)
+/* The attitude models in a note, once. */
+static void attitude_note(sr_report *r, const sr_mission *m)
+{
+    int cyl = 0, disk = 0, end = 0;
+    for (size_t i = 0; i < m->nsections; i++) {
+        cyl |= m->sections[i].has_body && m->sections[i].shape == SR_BLUFF_CYLINDER;
+        disk |= m->sections[i].has_body && m->sections[i].shape == SR_BLUFF_DISK;
+        end |= m->sections[i].stable_end_on;
+    }
+    if (!cyl && !disk)
+        return;
+    sr_report_note(r, "Attitude of a falling body (failure cases): broadside is its highest drag, so the cases also "
+                      "run it tumbling through every orientation (cross-flow principle, Hoerner 1965, from memory: "
+                      "drag as the cube of the normal flow share, averaged over the sphere, our derivation: a "
+                      "cylinder 3 pi/16 = 0.59 of broadside plus a quarter of its ends' drag, a disk 1/4 of "
+                      "face-on)%s, and judge each limit at the worse.",
+                   end ? " and end-on (Cd 0.82 on the end area, Hoerner 1965, from memory) where the file marks a "
+                         "section stable-end-on (fins or a weighted nose keep it pointing into the flow)"
+                       : "; a cylinder without fins is not stable end-on (common practice), so end-on is run only "
+                         "for sections marked stable-end-on");
+}
+
+void sr_profile_report_attitudes(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_failcase_result *f)
+{
+    (void)c;
+    if (f->nattitudes < 2)
+        return;
+    sr_rtable *t = sr_report_table(r, "attitudes",
+                                   "Impact speed in each attitude (descent rate at the ground, band end)");
+    sr_rtable_text_column(t, "section", "section");
+    for (size_t a = 0; a < f->nattitudes; a++)
+        sr_rtable_column(t, ATT_KEY[f->attitude[a]], sr_bluff_attitude_name(f->attitude[a]), SR_Q_SPEED, 3);
+    for (size_t i = 0; i < m->nsections; i++) {
+        double row[SR_FAILCASE_MAX_ATTITUDES];
+        for (size_t a = 0; a < f->nattitudes; a++)
+            row[a] = f->impact[a][i];
+        const char *txt[] = {m->sections[i].name};
+        sr_rtable_row(t, row, txt);
+    }
+    attitude_note(r, m);
+}
+
+int sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_judge_limits *l,
+                               sr_judge_basis basis)
 {
     if (!m->nfailures)
-        return;
+        return 0;
+    sr_failcase_result *fr = calloc(m->nfailures, sizeof *fr);
+    if (!fr)
+        return sr_cli_fail((sr_cli *)c, "out of memory");
+    int ok[SR_MISSION_MAX_FAILURES] = {0};
+    size_t natt = 1;
+    sr_bluff_attitude atts[SR_FAILCASE_MAX_ATTITUDES];
+    natt = sr_failcase_attitudes(m, atts);
+    for (size_t i = 0; i < m->nfailures; i++) {
+        sr_error e;
+        if (sr_failcase_run(m, m->failures[i].failed, l, basis, NULL, &fr[i], &e)) {
+            sr_report_warning(r, "failure case '%s' could not be computed: %s", m->failures[i].name, e.msg);
+            continue;
+        }
+        ok[i] = 1;
+    }
     sr_rtable *t = sr_report_table(r, "failure_case_list",
-                                   "Failure cases (what-if descents listed in the file; they never change the exit "
-                                   "code)");
+                                   "Failure cases (what-if descents listed in the file; judged against every limit, "
+                                   "they never change the exit code)");
     sr_rtable_text_column(t, "case", "case");
     sr_rtable_text_column(t, "not_deploying", "stages that do not deploy");
+    sr_rtable_text_column(t, "worse_attitude", "worse attitude");
+    sr_rtable_text_column(t, "against_limits", "against the limits");
     for (size_t i = 0; i < m->nfailures; i++) {
-        char names[200];
+        char names[200], status[600] = "not computed", breaches[500];
         stage_names(m, m->failures[i].failed, names, sizeof names);
-        const char *txt[] = {m->failures[i].name, names};
+        const char *att = "-";
+        if (ok[i]) {
+            const sr_verdict *v = &fr[i].verdict;
+            double top = sr_cli_verdict_breaches(m, v, breaches, sizeof breaches);
+            if (!v->nrows)
+                snprintf(status, sizeof status, "no limits set");
+            else if (!breaches[0])
+                snprintf(status, sizeof status, "within the limits");
+            else
+                snprintf(status, sizeof status, "%s the limits: %s the limit", top >= FAR_BEYOND ? "FAR BEYOND" : "beyond",
+                         breaches);
+            att = sr_bluff_attitude_name(fr[i].attitude[fr[i].worse]);
+        }
+        const char *txt[] = {m->failures[i].name, names, att, status};
         sr_rtable_row(t, NULL, txt);
     }
     t = sr_report_table(r, "failure_cases",
-                                   "Failure cases per section (impact: descent rate at the ground; band end: the low "
-                                   "end of the open canopies' drag range)");
+                        "Failure cases per section (impact: descent rate at the ground at the band end, in each "
+                        "attitude; energy at the worse)");
     sr_rtable_text_column(t, "case", "case");
     sr_rtable_text_column(t, "section", "section");
     sr_rtable_text_column(t, "lands_under", "lands under");
-    sr_rtable_column(t, "impact_speed", "impact speed", SR_Q_SPEED, 3);
-    sr_rtable_column(t, "impact_speed_band_end", "band end", SR_Q_SPEED, 3);
+    for (size_t a = 0; a < natt; a++) {
+        char key[48];
+        snprintf(key, sizeof key, "impact_speed_%s", ATT_KEY[atts[a]]);
+        sr_rtable_column(t, key, a == 0 ? "impact broadside" : sr_bluff_attitude_name(atts[a]), SR_Q_SPEED, 3);
+    }
     sr_rtable_column(t, "energy", "energy", SR_Q_ENERGY, 3);
-    sr_rtable_column(t, "energy_band_end", "band end", SR_Q_ENERGY, 3);
     sr_rtable_column(t, "time_to_ground", "time to ground", SR_Q_TIME, SR_FIXED(1));
     sr_rtable_column(t, "drift", "drift", SR_Q_LENGTH, SR_FIXED(0));
-    sr_rtable_text_column(t, "against_limits", "against the limits");
-    sr_profile_work *w = NULL;
-    sr_error e;
-    if (sr_profile_work_new(&w, &e)) {
-        sr_report_warning(r, "failure cases not computed: %s", e.msg);
-        return;
-    }
-    int far = 0;
     for (size_t i = 0; i < m->nfailures; i++) {
-        const sr_failure_case *f = &m->failures[i];
-        sr_profile_opts po;
-        sr_profile_opts_init(&po);
-        po.failed = f->failed;
-        fc_run run;
-        run.ctx = NULL;
-        sr_profile_perturb lo;
-        sr_profile_perturb_init(&lo);
-        for (size_t k = 0; k < m->nstages; k++) {
-            sr_band b = sr_canopy_total_cds(&m->stages[k].canopy);
-            lo.drag_scale[k] = b.lo / b.typ;
-        }
-        if (sr_profile_ctx_new(&run.ctx, m, &po, &e) ||
-            sr_profile_run(run.ctx, &lo, SR_PROFILE_FULL, w, &run.lo, NULL, &e)) {
-            sr_report_warning(r, "failure case '%s' could not be computed: %s", f->name, e.msg);
-            sr_profile_ctx_free(run.ctx);
+        if (!ok[i])
             continue;
-        }
-        const sr_profile_result *p = sr_profile_nominal(run.ctx);
-        double worst_ratio = 0.0;
-        size_t worst_sec = 0;
+        const sr_failcase_result *f = &fr[i];
+        const sr_profile_result *p = &f->band[f->worse].run[SR_BAND_TYPICAL];
         for (size_t s = 0; s < m->nsections; s++) {
             const sr_profile_body *b = &p->body[p->section_body[s]];
-            char under[200], status[256];
+            char under[200], area[64];
             const sr_section *sec = &m->sections[s];
-            char area[64];
             fmt(area, sizeof area, c, sec->has_body ? sec->body_area : sec->drag_area, SR_Q_AREA, 3);
             if (b->canopies) {
                 double cds = 0.0;
@@ -237,66 +252,74 @@ void sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission 
                 stage_names(m, b->open, names, sizeof names);
                 fmt(cs, sizeof cs, c, cds, SR_Q_AREA, 3);
                 snprintf(under, sizeof under, "%s: drag area CdS %s", names, cs);
-            }
-            else if (sec->has_body)
+            } else if (sec->has_body)
                 snprintf(under, sizeof under, "no canopy: '%s' Cd(Re) on %s",
                          sec->shape == SR_BLUFF_TABLE ? sec->curve.path : sec->curve.name, area);
             else if (sec->drag_area > 0)
                 snprintf(under, sizeof under, "no canopy: drag area %s", area);
             else
                 snprintf(under, sizeof under, "no canopy: no drag of its own");
-            double ratio;
-            judge(m, run.lo.section_rate[s], run.lo.section_energy[s], b->t_land, b->drift, status, sizeof status,
-                  &ratio);
-            if (ratio > worst_ratio) {
-                worst_ratio = ratio;
-                worst_sec = s;
+            double row[SR_FAILCASE_MAX_ATTITUDES + 3];
+            size_t n = 0;
+            double energy = 0.0;
+            for (size_t a = 0; a < natt; a++) {
+                /* the attitudes of every case are the mission's */
+                row[n++] = a < f->nattitudes ? f->impact[a][s] : NAN;
+                if (a < f->nattitudes)
+                    energy = fmax(energy, f->energy[a][s]);
             }
-            double row[] = {p->section_rate[s], run.lo.section_rate[s], p->section_energy[s],
-                            run.lo.section_energy[s], b->t_land, b->drift};
-            const char *txt[] = {f->name, m->sections[s].name, under, status};
+            row[n++] = energy;
+            row[n++] = b->t_land;
+            row[n++] = b->drift;
+            const char *txt[] = {m->failures[i].name, m->sections[s].name, under};
             sr_rtable_row(t, row, txt);
         }
-        if (worst_ratio >= FAR_BEYOND) {
-            far = 1;
-            char v[64], en[64], lim[64];
-            fmt(v, sizeof v, c, run.lo.section_rate[worst_sec], SR_Q_SPEED, 3);
-            fmt(en, sizeof en, c, run.lo.section_energy[worst_sec], SR_Q_ENERGY, 3);
-            if (!isnan(m->limit_energy)) {
-                fmt(lim, sizeof lim, c, m->limit_energy, SR_Q_ENERGY, 4);
-                sr_report_warning(r, "failure case '%s': %s lands at %s with %s, %.1f times the %s landing-energy "
-                                     "limit: far beyond the limits (a what-if result; the exit code follows the "
-                                     "nominal descent)",
-                                  f->name, m->sections[worst_sec].name, v, en,
-                                  run.lo.section_energy[worst_sec] / m->limit_energy, lim);
-            } else {
-                sr_report_warning(r, "failure case '%s': %s lands at %s with %s, far beyond the limits (a what-if "
-                                     "result; the exit code follows the nominal descent)",
-                                  f->name, m->sections[worst_sec].name, v, en);
-            }
+        /* far beyond a limit: repeated as a warning, with the worst breach */
+        const sr_verdict *v = &f->verdict;
+        int worst = -1;
+        for (size_t k = 0; k < v->nrows; k++)
+            if (v->row[k].exceeded && (worst < 0 || v->row[k].ratio > v->row[worst].ratio))
+                worst = (int)k;
+        if (worst >= 0 && v->row[worst].ratio >= FAR_BEYOND) {
+            char label[200], a[64], b2[64];
+            sr_cli_verdict_label(m, l, &v->row[worst], label, sizeof label);
+            sr_quantity q = sr_cli_verdict_quantity(v->row[worst].kind);
+            fmt(a, sizeof a, c, v->row[worst].judged, q, 4);
+            fmt(b2, sizeof b2, c, v->row[worst].limit, q, 4);
+            sr_report_warning(r, "failure case '%s': %s %s, %.1f times the limit %s: far beyond the limits (a what-if "
+                                 "result; the exit code follows the nominal descent)",
+                              m->failures[i].name, label, a, v->row[worst].ratio, b2);
         }
         char prefix[160];
-        snprintf(prefix, sizeof prefix, "failure case '%s': ", f->name);
+        snprintf(prefix, sizeof prefix, "failure case '%s': ", m->failures[i].name);
         sr_profile_free_fall_warnings(r, c, m, p, prefix);
         for (size_t b = 0; b < p->nbodies; b++) {
             const sr_profile_body *pb = &p->body[b];
+            if (pb->no_drag) {
+                char bn[256];
+                sr_mission_set_name(m, pb->sections, bn, sizeof bn);
+                sr_report_warning(r, "failure case '%s': %s fall%s with no canopy and no drag of its own (neither "
+                                     "drag-area: nor body:): a fall in vacuum",
+                                  m->failures[i].name, bn, strchr(bn, '+') ? "" : "s");
+            }
             if (pb->free_fall && pb->equilibria == 1 && pb->speed_arrive < 0.99 * pb->v_terminal) {
                 char bn[256], va[64], vt[64];
                 sr_mission_set_name(m, pb->sections, bn, sizeof bn);
                 fmt(va, sizeof va, c, pb->speed_arrive, SR_Q_SPEED, 3);
                 fmt(vt, sizeof vt, c, pb->v_terminal, SR_Q_SPEED, 3);
                 sr_report_note(r, "Failure case '%s': %s reaches the ground at %s, before its terminal speed %s.",
-                               f->name, bn, va, vt);
+                               m->failures[i].name, bn, va, vt);
             }
         }
-        sr_profile_ctx_free(run.ctx);
     }
-    sr_profile_work_free(w);
-    sr_report_note(r, "Failure cases: the named stages do not deploy (no separation happens at them) and the "
-                      "descent runs like the nominal one, full integration, typical drag; a body with no canopy "
-                      "open falls with its sections' drag curves, integrated to the ground. Impact speed and "
-                      "energy use the descent rate, as the landing limits do. These what-if results are judged "
-                      "against the limits (speed and energy at the band end%s) but never change the exit code: "
-                      "only the nominal descent does.",
-                   far ? "; some are far beyond them" : "");
+    free(fr);
+    attitude_note(r, m);
+    sr_report_note(r, "Failure cases: the named stages do not deploy (no separation happens at them) and the descent "
+                      "runs like the nominal one, full integration, at every band end; a body with no canopy open "
+                      "falls with its sections' drag curves, integrated to the ground. They are judged against every "
+                      "limit of the file (landing, deployment pressure, Mach envelope, opening load) by the same "
+                      "judge as the nominal descent, at %s, but never change the exit code: only the nominal "
+                      "descent does (`--fail STAGE` makes a failure case the descent).",
+                   basis == SR_JUDGE_TYPICAL ? "the typical values (--limits-at typical)" : "the band end");
+    return 0;
 }

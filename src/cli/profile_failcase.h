@@ -4,6 +4,8 @@
 #ifndef SR_CLI_PROFILE_FAILCASE_H
 #define SR_CLI_PROFILE_FAILCASE_H
 
+#include "analysis/failcase.h"
+#include "analysis/judge.h"
 #include "cli/cli.h"
 #include "files/mission.h"
 #include "physics/profile.h"
@@ -19,10 +21,16 @@ void sr_profile_report_free_drag(sr_report *r, const sr_cli *c, const sr_mission
 void sr_profile_free_fall_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_profile_result *p,
                                    const char *prefix);
 
-/* Runs every failure case of the file (full mode, typical drag and the low
- * end of the drag range of the canopies that open) and adds the "Failure
- * cases" section. What-if results: nothing here changes the exit code; a
- * case that cannot be computed becomes a warning. */
-void sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission *m);
+/* Runs every failure case of the file through the analysis layer (failcase.h:
+ * full mode, every band end, every attitude the falling bodies can take),
+ * judges each against every limit with the one judge, and adds the "Failure
+ * cases" tables. What-if results: nothing here changes the exit code; a case
+ * that cannot be computed becomes a warning. Returns 0 or an exit code (out of
+ * memory). */
+int sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_judge_limits *l,
+                               sr_judge_basis basis);
+
+/* For `profile --fail`: each section's impact speed in every attitude. */
+void sr_profile_report_attitudes(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_failcase_result *f);
 
 #endif

@@ -3,6 +3,8 @@
 #define _DEFAULT_SOURCE
 #include "files/catalog.h"
 
+#include "physics/opening.h"
+
 #include <dirent.h>
 #include <math.h>
 #include <stdio.h>
@@ -14,7 +16,8 @@
 
 static const char *const FAMILY_KEYS[] = {"id", "name", "class", "drag-coefficient", "projected-ratio",
                                           "constructed-ratio", "opening-factor", "filling-constant",
-                                          "oscillation", "mach-limit", "areal-mass", "notes", NULL};
+                                          "oscillation", "mach-limit", "areal-mass", "growth-exponent", "notes",
+                                          NULL};
 static const char *const FAMILY_REQ[] = {"id", "name", "class", "drag-coefficient", "projected-ratio",
                                          "constructed-ratio", "opening-factor", "filling-constant",
                                          "oscillation", "mach-limit", NULL};
@@ -183,6 +186,21 @@ int sr_catalog_parse_family(sr_family *f, sr_yaml *y, sr_error *err)
     if (sr_yaml_get(y, root, "mach-limit"))
         SR_YAML_STEP(read_value(y, root, "mach-limit", SR_Q_NONE, 0.01, 5.0, &f->mach_max, f->mach_source,
                                 sizeof f->mach_source, &f->check[SR_FV_MACH], err));
+    /* the growth exponent: the file's band, or the class's (from memory) */
+    if (sr_yaml_get(y, root, "growth-exponent")) {
+        SR_YAML_STEP(rc = read_band(y, root, "growth-exponent", SR_Q_NONE, 0.25, 6.0, &f->growth, f->growth_source,
+                                    sizeof f->growth_source, &f->check[SR_FV_GROWTH], err));
+        f->growth_given = !rc;
+    } else {
+        snprintf(f->check[SR_FV_GROWTH].outside, sizeof f->check[SR_FV_GROWTH].outside, "none");
+        int slotted = strcmp(f->cls, SR_CANOPY_CLASS_SLOTTED) == 0;
+        sr_opening_class_band(slotted ? SR_OPENING_SLOTTED : SR_OPENING_SOLID, &f->growth.lo, &f->growth.typ,
+                              &f->growth.hi);
+        snprintf(f->growth_source, sizeof f->growth_source,
+                 "class default (%s): n = %g commonly used, drop-test fits spread about %g .. %g; from memory "
+                 "(trade-facts.md section 6)",
+                 slotted ? "slotted" : "solid cloth", f->growth.typ, f->growth.lo, f->growth.hi);
+    }
     f->areal_mass = NAN;
     snprintf(f->check[SR_FV_AREAL].outside, sizeof f->check[SR_FV_AREAL].outside, "none");
     if (sr_yaml_get(y, root, "areal-mass"))
@@ -338,13 +356,41 @@ const sr_family *sr_catalog_find(const sr_catalog *c, const char *id, sr_error *
 
 const char *const SR_CANOPY_KEYS[] = {"family", "nominal-diameter", "projected-diameter", "flat-diameter",
                                       "nominal-area", "drag-coefficient", "count", "cluster-factor",
-                                      "areal-mass", NULL};
+                                      "areal-mass", "measured-opening", NULL};
 static const char *const SIZE_KEYS[] = {"nominal-diameter", "projected-diameter", "flat-diameter",
                                         "nominal-area"};
 static const sr_size_kind SIZE_KIND[] = {SR_SIZE_NOMINAL_DIAMETER, SR_SIZE_PROJECTED_DIAMETER,
                                          SR_SIZE_FLAT_DIAMETER, SR_SIZE_NOMINAL_AREA};
 static const char *const MEASURED_KEYS[] = {"value", "reference", "source", "low", "high", NULL};
 static const char *const MEASURED_REQUIRED[] = {"value", "reference", "source", NULL};
+static const char *const OPENING_KEYS[] = {"factor", "load", "source", NULL};
+static const char *const OPENING_REQ[] = {"source", NULL};
+
+/* measured-opening: {factor: 1.3, source: ...} or {load: 850 N, source: ...} */
+static int parse_measured_opening(sr_canopy *c, const sr_yaml *y, yaml_node_t *m, sr_error *err)
+{
+    int rc;
+    if ((rc = sr_yaml_check_map(y, m, "measured-opening", OPENING_KEYS, OPENING_REQ, err)))
+        return rc;
+    yaml_node_t *fn = sr_yaml_get(y, m, "factor"), *ln = sr_yaml_get(y, m, "load");
+    if ((fn && ln) || (!fn && !ln))
+        return sr_yaml_fail(y, m, err, "measured-opening takes exactly one of factor: (the measured peak over CD0 S0 "
+                                       "q at line stretch) or load: (the measured peak force)");
+    if (fn) {
+        if ((rc = sr_yaml_number(y, fn, &c->opening_value, err)))
+            return rc;
+        if (!(c->opening_value >= 0.05 && c->opening_value <= 5.0))
+            return sr_yaml_fail(y, fn, err, "a measured opening-load factor must lie in 0.05 .. 5");
+        c->opening = SR_OPENING_MEASURED_FACTOR;
+    } else {
+        if ((rc = sr_yaml_quantity(y, ln, SR_Q_FORCE, &c->opening_value, err)))
+            return rc;
+        if (!(c->opening_value > 0 && c->opening_value <= 1e7))
+            return sr_yaml_fail(y, ln, err, "a measured opening load must lie above 0 and at most 10 MN");
+        c->opening = SR_OPENING_MEASURED_LOAD;
+    }
+    return sr_yaml_string(y, sr_yaml_get(y, m, "source"), c->opening_source, sizeof c->opening_source, err);
+}
 
 int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_yaml *y, yaml_node_t *n,
                                 int size_optional, int *has_size, sr_error *err)
@@ -440,6 +486,9 @@ int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_ya
         if (!rc && !(c->areal_mass > 0 && c->areal_mass < 2.0))
             SR_YAML_STEP(sr_yaml_fail(y, an, err, "areal mass must be between 0 and 2 kg/m2 (2000 g/m2)"));
     }
+    yaml_node_t *on = sr_yaml_get(y, n, "measured-opening");
+    if (on)
+        SR_YAML_STEP(parse_measured_opening(c, y, on, err));
     return acc;
 }
 
@@ -454,7 +503,7 @@ int sr_catalog_parse_canopy(sr_canopy *c, const sr_catalog *cat, sr_yaml *y, sr_
     yaml_node_t *n = sr_yaml_get(y, root, "canopy");
     static const char *const keys[] = {"name",          "family",           "nominal-diameter", "projected-diameter",
                                        "flat-diameter", "nominal-area",     "drag-coefficient", "count",
-                                       "cluster-factor", "areal-mass",      NULL};
+                                       "cluster-factor", "areal-mass",      "measured-opening", NULL};
     int acc = SR_OK;
     if (!n || n->type != YAML_MAPPING_NODE)
         return sr_yaml_check_map(y, n, "canopy", keys, NULL, err);

@@ -15,20 +15,24 @@ static const char *const SITE_KEYS[] = {"elevation", "temperature", "pressure", 
                                         "longitude", NULL};
 static const char *const SECTION_KEYS[] = {"name", "mass", "drag-area", "body", "rigid-with", NULL};
 static const char *const BODY_KEYS[] = {"shape", "diameter", "length", "curve", "cd-table", "area", "interpolation",
-                                        NULL};
+                                        "stable-end-on", NULL};
 static const char *const BODY_REQ[] = {"diameter", NULL};
 static const char *const FAILURE_KEYS[] = {"name", "fails", "only", NULL};
 static const char *const SECTION_REQ[] = {"name", "mass", NULL};
 static const char *const STAGE_KEYS[] = {"name",          "family",         "canopy",     "nominal-diameter",
                                          "projected-diameter", "flat-diameter", "nominal-area", "drag-coefficient",
                                          "count",         "cluster-factor", "areal-mass", "deploy",
-                                         "carries",       "previous",       "line-stretch", NULL};
+                                         "carries",       "previous",       "line-stretch", "measured-opening",
+                                         NULL};
 static const char *const STAGE_REQ[] = {"name", NULL};
 static const char *const DEPLOY_KEYS[] = {"height", "delay", NULL};
 static const char *const START_KEYS[] = {"height", "speed", "path-angle", "heading", "east", "north", NULL};
 static const char *const START_REQ[] = {"height", NULL};
-static const char *const LIMIT_KEYS[] = {"touchdown-speed", "landing-energy", "descent-time", "drift",
-                                        "deployment-pressure", NULL};
+static const char *const LIMIT_KEYS[] = {"touchdown-speed", "landing-energy",  "descent-time",
+                                        "drift",           "deployment-pressure", "rated-strength",
+                                        "design-factor",   "landing-energy-basis", NULL};
+static const char *const MASS_KEYS[] = {"low", "typical", "high", NULL};
+static const char *const MASS_REQ[] = {"low", "high", NULL};
 
 void sr_mission_relative_path(char *out, size_t len, const char *base, const char *file)
 {
@@ -365,11 +369,56 @@ static int parse_body(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_section *sec
     sr_bluff_body b;
     if (sr_bluff_body_init(&b, sec->shape, &sec->curve, d, len, sec->mass, area, &e))
         return sr_yaml_fail(y, n, err, "%s", e.msg);
+    yaml_node_t *sn = sr_yaml_get(y, n, "stable-end-on");
+    if (sn) {
+        if ((rc = sr_yaml_bool(y, sn, &sec->stable_end_on, err)))
+            return rc;
+        if (sec->stable_end_on && sec->shape != SR_BLUFF_CYLINDER)
+            return sr_yaml_fail(y, sn, err, "stable-end-on: applies to a cylinder (a section with fins or a "
+                                            "weighted nose); a %s has no end to fall on",
+                                sec->shape == SR_BLUFF_TABLE ? "drag table's body" : "sphere or disk");
+    }
     sec->has_body = 1;
     sec->body_d = d;
     sec->body_length = len;
     sec->body_area = b.area;
     snprintf(sec->body_area_ref, sizeof sec->body_area_ref, "%s", b.area_ref);
+    return SR_OK;
+}
+
+/* A section's mass: one value, or a band {low:, typical:, high:} (typical: the midpoint). */
+static int parse_mass(sr_yaml *y, yaml_node_t *mn, sr_section *sec, sr_error *err)
+{
+    int rc;
+    if (mn->type == YAML_MAPPING_NODE) {
+        /* a band: mass: {low: 3.3 kg, typical: 3.4 kg, high: 3.6 kg} (typical: the midpoint) */
+        if ((rc = sr_yaml_check_map(y, mn, "mass", MASS_KEYS, MASS_REQ, err)))
+            return rc;
+        const char *names[3] = {"low", "typical", "high"};
+        double v[3] = {NAN, NAN, NAN};
+        for (int k = 0; k < 3; k++) {
+            yaml_node_t *vn = sr_yaml_get(y, mn, names[k]);
+            if (!vn)
+                continue;
+            if ((rc = sr_yaml_quantity(y, vn, SR_Q_MASS, &v[k], err)))
+                return rc;
+            if (!(v[k] > 0.0 && v[k] <= 10000.0))
+                return sr_yaml_fail(y, vn, err, "section mass must be above 0 and at most 10000 kg");
+        }
+        if (isnan(v[1]))
+            v[1] = 0.5 * (v[0] + v[2]);
+        if (!(v[0] <= v[1] && v[1] <= v[2]))
+            return sr_yaml_fail(y, mn, err, "mass: low <= typical <= high does not hold");
+        sec->mass_lo = v[0];
+        sec->mass = v[1];
+        sec->mass_hi = v[2];
+    } else {
+        if ((rc = sr_yaml_quantity(y, mn, SR_Q_MASS, &sec->mass, err)))
+            return rc;
+        if (!(sec->mass > 0.0 && sec->mass <= 10000.0))
+            return sr_yaml_fail(y, mn, err, "section mass must be above 0 and at most 10000 kg");
+        sec->mass_lo = sec->mass_hi = sec->mass;
+    }
     return SR_OK;
 }
 
@@ -397,11 +446,8 @@ static int parse_sections(sr_mission *m, sr_yaml *y, yaml_node_t *secs, sr_error
                     SR_YAML_STEP(rc = sr_yaml_fail(y, s, err, "two sections are named '%s'", sec->name));
         }
         yaml_node_t *mn = sr_yaml_get(y, s, "mass");
-        if (mn) {
-            SR_YAML_STEP(rc = sr_yaml_quantity(y, mn, SR_Q_MASS, &sec->mass, err));
-            if (!rc && !(sec->mass > 0.0 && sec->mass <= 10000.0))
-                SR_YAML_STEP(sr_yaml_fail(y, mn, err, "section mass must be above 0 and at most 10000 kg"));
-        }
+        if (mn)
+            SR_YAML_STEP(parse_mass(y, mn, sec, err));
         yaml_node_t *an = sr_yaml_get(y, s, "drag-area");
         if (an) {
             SR_YAML_STEP(rc = sr_yaml_quantity(y, an, SR_Q_AREA, &sec->drag_area, err));
@@ -562,6 +608,68 @@ static int parse_start(sr_mission *m, sr_yaml *y, yaml_node_t *start, yaml_node_
     return SR_OK;
 }
 
+/* limits: landing-energy-basis, rated-strength with design-factor (first problem). */
+static int parse_limit_strength(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *err)
+{
+    int rc;
+    yaml_node_t *bn = sr_yaml_get(y, lim, "landing-energy-basis");
+    if (bn) {
+        char v[32];
+        if ((rc = sr_yaml_string(y, bn, v, sizeof v, err)))
+            return rc;
+        if (strcmp(v, "descent-rate") == 0)
+            m->energy_ground = 0;
+        else if (strcmp(v, "ground-relative") == 0)
+            m->energy_ground = 1;
+        else
+            return sr_yaml_fail(y, bn, err, "landing-energy-basis must be descent-rate (the vertical speed, the "
+                                            "default) or ground-relative (with the surface wind), not '%s'",
+                                v);
+    }
+    /* rated-strength: 2 kN (every stage) or {drogue: 1 kN, main: 2.5 kN}, with design-factor: */
+    yaml_node_t *rn = sr_yaml_get(y, lim, "rated-strength"), *fn = sr_yaml_get(y, lim, "design-factor");
+    if (fn && !rn)
+        return sr_yaml_fail(y, fn, err, "design-factor goes with rated-strength: (the strength the opening load is "
+                                        "judged against)");
+    if (!rn)
+        return SR_OK;
+    if (!fn)
+        return sr_yaml_fail(y, sr_yaml_key_node(y, lim, "rated-strength"), err,
+                            "rated-strength needs design-factor: beside it (the opening load may reach rated strength "
+                            "/ factor; the factor is the rigger's and the applicable standard's call, so it is never "
+                            "assumed)");
+    if ((rc = sr_yaml_number(y, fn, &m->limit_design_factor, err)))
+        return rc;
+    if (!(m->limit_design_factor >= 1.0 && m->limit_design_factor <= 10.0))
+        return sr_yaml_fail(y, fn, err, "design-factor must lie in 1 .. 10");
+    if (rn->type == YAML_MAPPING_NODE) {
+        const char *names[SR_MISSION_MAX_STAGES + 1];
+        for (size_t k = 0; k < m->nstages; k++)
+            names[k] = m->stages[k].name;
+        names[m->nstages] = NULL;
+        if ((rc = sr_yaml_check_map(y, rn, "rated-strength", names, NULL, err)))
+            return rc;
+        for (size_t k = 0; k < m->nstages; k++) {
+            yaml_node_t *vn = sr_yaml_get(y, rn, m->stages[k].name);
+            if (!vn)
+                continue;
+            if ((rc = sr_yaml_quantity(y, vn, SR_Q_FORCE, &m->limit_rated[k], err)))
+                return rc;
+            if (!(m->limit_rated[k] > 0.0 && m->limit_rated[k] <= 1e8))
+                return sr_yaml_fail(y, vn, err, "a rated strength must lie above 0 and at most 100 MN");
+        }
+        return SR_OK;
+    }
+    double v;
+    if ((rc = sr_yaml_quantity(y, rn, SR_Q_FORCE, &v, err)))
+        return rc;
+    if (!(v > 0.0 && v <= 1e8))
+        return sr_yaml_fail(y, rn, err, "a rated strength must lie above 0 and at most 100 MN");
+    for (size_t k = 0; k < m->nstages; k++)
+        m->limit_rated[k] = v;
+    return SR_OK;
+}
+
 static int parse_limits(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *err)
 {
     int rc, acc = SR_OK;
@@ -585,6 +693,7 @@ static int parse_limits(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *e
         if (!rc && !(*L[i].dst > 0.0))
             SR_YAML_STEP(sr_yaml_fail(y, n, err, "limit %s must be positive", L[i].key));
     }
+    SR_YAML_STEP(parse_limit_strength(m, y, lim, err));
     return acc;
 }
 
@@ -703,6 +812,9 @@ int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error 
     /* defaults of the keys this reader owns (callers may have zeroed the struct) */
     m->start_heading = NAN;
     m->limit_deploy_q = NAN;
+    m->limit_design_factor = NAN;
+    for (size_t k = 0; k < SR_MISSION_MAX_STAGES; k++)
+        m->limit_rated[k] = NAN;
     yaml_node_t *root = sr_yaml_root(y);
     if (!root || root->type != YAML_MAPPING_NODE)
         return sr_yaml_check_map(y, root, "the mission file", TOP_KEYS, TOP_REQ, err);
@@ -781,6 +893,15 @@ void sr_mission_free(sr_mission *m)
         sr_bluff_curve_free(&m->sections[i].curve);
     sr_atmos_free(&m->atmos);
     sr_wind_free(&m->wind);
+}
+
+int sr_mission_has_limits(const sr_mission *m)
+{
+    int any = !isnan(m->limit_speed) || !isnan(m->limit_energy) || !isnan(m->limit_time) || !isnan(m->limit_drift) ||
+              !isnan(m->limit_deploy_q);
+    for (size_t k = 0; k < m->nstages; k++)
+        any |= !isnan(m->limit_rated[k]);
+    return any;
 }
 
 double sr_mission_total_mass(const sr_mission *m)

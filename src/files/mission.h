@@ -46,7 +46,8 @@ typedef struct sr_stage {
 
 typedef struct sr_section {
     char name[SR_NAME_MAX];
-    double mass;             /* kg */
+    double mass;             /* kg (the typical value when the file gives a band) */
+    double mass_lo, mass_hi; /* the band `mass: {low:, typical:, high:}`; both equal mass when not banded */
     double drag_area;        /* m2, the section's own drag area CdA (0: neglected) */
     int rigid_with;          /* index of the section it lands as one piece with (`rigid-with:`), -1 none;
                               * tethered sections (the default) each land with their own energy */
@@ -59,6 +60,8 @@ typedef struct sr_section {
     double body_area;        /* reference area of its Cd, m2 */
     char body_area_ref[64];  /* what that area is, e.g. "projected area d x L" */
     sr_bluff_curve curve;    /* its drag curve (owned; freed by sr_mission_free) */
+    int stable_end_on;       /* `stable-end-on: true`: fins or a weighted nose keep it pointing into the flow
+                              * when it falls without a canopy, so falling end-on is judged too */
 } sr_section;
 
 /* A what-if case the profile reports besides the nominal descent
@@ -95,6 +98,12 @@ typedef struct sr_mission {
     double limit_time;       /* descent time, s */
     double limit_drift;      /* drift distance, m */
     double limit_deploy_q;   /* dynamic pressure at any deployment, Pa */
+    double limit_rated[SR_MISSION_MAX_STAGES]; /* rated strength of what carries each stage's opening load, N
+                                                * (`rated-strength:`, one value or one per stage); NaN: none */
+    double limit_design_factor; /* `design-factor:` the opening load may reach rated strength / factor */
+    int energy_ground;       /* `landing-energy-basis: ground-relative`: the landing-energy limit means the
+                              * speed relative to the ground (descent rate with the surface wind); 0: the
+                              * descent rate (the default, as the trade's landing-energy limits do) */
     size_t nfailures;        /* failure-cases: */
     sr_failure_case failures[SR_MISSION_MAX_FAILURES];
     sr_uncertainty unc;      /* what a dispersion run varies (mission_uncertainty.c) */
@@ -105,6 +114,9 @@ typedef struct sr_mission {
 int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err);
 int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err);
 void sr_mission_free(sr_mission *m);
+
+/* Whether the file sets any limit. */
+int sr_mission_has_limits(const sr_mission *m);
 
 /* Total mass of all sections, kg. */
 double sr_mission_total_mass(const sr_mission *m);

@@ -728,6 +728,18 @@ int sr_yaml_int(const sr_yaml *y, yaml_node_t *n, long lo, long hi, long *v, sr_
     return SR_OK;
 }
 
+int sr_yaml_bool(const sr_yaml *y, yaml_node_t *n, int *v, sr_error *err)
+{
+    const char *s = scalar_of(n);
+    if (s && strcmp(s, "true") == 0)
+        *v = 1;
+    else if (s && strcmp(s, "false") == 0)
+        *v = 0;
+    else
+        return sr_yaml_fail(y, n, err, "expected true or false, got '%s'", s ? s : "a mapping or list");
+    return SR_OK;
+}
+
 int sr_yaml_quantity(const sr_yaml *y, yaml_node_t *n, sr_quantity q, double *si, sr_error *err)
 {
     const char *s = scalar_of(n);

@@ -90,6 +90,8 @@ int sr_yaml_string(const sr_yaml *y, yaml_node_t *n, char *buf, size_t len, sr_e
 int sr_yaml_text(const sr_yaml *y, yaml_node_t *n, char *buf, size_t len, sr_error *err);
 int sr_yaml_number(const sr_yaml *y, yaml_node_t *n, double *v, sr_error *err);
 int sr_yaml_int(const sr_yaml *y, yaml_node_t *n, long lo, long hi, long *v, sr_error *err);
+/* true or false (YAML 1.2 core schema spellings only). */
+int sr_yaml_bool(const sr_yaml *y, yaml_node_t *n, int *v, sr_error *err);
 /* A quantity with a required unit ("1.2 kg"). */
 int sr_yaml_quantity(const sr_yaml *y, yaml_node_t *n, sr_quantity q, double *si, sr_error *err);
 

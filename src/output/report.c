@@ -56,6 +56,7 @@ typedef struct strlist {
 
 struct sr_report {
     char *command, *title;
+    strlist header_keys, header_texts;
     item *items;
     size_t nitems;
     strlist notes, warnings;
@@ -131,6 +132,12 @@ void sr_report_free(sr_report *r)
         free(r->notes.s[i]);
     for (size_t i = 0; i < r->warnings.n; i++)
         free(r->warnings.s[i]);
+    for (size_t i = 0; i < r->header_keys.n; i++) {
+        free(r->header_keys.s[i]);
+        free(r->header_texts.s[i]);
+    }
+    free(r->header_keys.s);
+    free(r->header_texts.s);
     free(r->notes.s);
     free(r->warnings.s);
     for (size_t i = 0; i < r->ntables; i++)
@@ -214,6 +221,30 @@ static int vpush(strlist *l, const char *fmt, va_list ap)
         return SR_ENOMEM;
     l->s = n;
     l->s[l->n++] = dup(buf);
+    return SR_OK;
+}
+
+static int push_str(strlist *l, const char *s)
+{
+    char **n = realloc(l->s, (l->n + 1) * sizeof *n);
+    if (!n)
+        return SR_ENOMEM;
+    l->s = n;
+    l->s[l->n] = strdup(s ? s : "");
+    if (!l->s[l->n])
+        return SR_ENOMEM;
+    l->n++;
+    return SR_OK;
+}
+
+int sr_report_header(sr_report *r, const char *key, const char *text)
+{
+    if (push_str(&r->header_keys, key))
+        return SR_ENOMEM;
+    if (push_str(&r->header_texts, text)) {
+        free(r->header_keys.s[--r->header_keys.n]);
+        return SR_ENOMEM;
+    }
     return SR_OK;
 }
 
@@ -459,6 +490,8 @@ static void write_text(const sr_report *r, FILE *f, sr_unit_system sys, const pa
 {
     fprintf(f, "sinkrate %s: %s\n", r->command, r->title);
     wrap(f, "", CAUTION, 78);
+    for (size_t i = 0; i < r->header_texts.n; i++)
+        wrap(f, "", r->header_texts.s[i], 78);
     size_t lw = 0;
     for (size_t i = 0; i < r->nitems; i++)
         if (r->items[i].kind != IT_SECTION && r->items[i].label && strlen(r->items[i].label) > lw)
@@ -603,6 +636,10 @@ static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys, const par
     snprintf(buf, sizeof buf, "sinkrate %s %s: %s", SR_VERSION, r->command, r->title);
     csv_comment(f, buf);
     csv_comment(f, CAUTION);
+    for (size_t i = 0; i < r->header_texts.n; i++) {
+        snprintf(buf, sizeof buf, "%s: %s", r->header_keys.s[i], r->header_texts.s[i]);
+        csv_comment(f, buf);
+    }
     for (size_t i = 0; i < r->warnings.n; i++) {
         snprintf(buf, sizeof buf, "warning: %s", r->warnings.s[i]);
         csv_comment(f, buf);
@@ -700,6 +737,8 @@ static int write_json(const sr_report *r, FILE *f, sr_unit_system sys, const par
     json_object_set_new(root, "title", json_string(r->title));
     json_object_set_new(root, "caution", json_string(CAUTION));
     json_object_set_new(root, "units", json_string(sys == SR_UNITS_US ? "us" : "si"));
+    for (size_t i = 0; i < r->header_keys.n; i++)
+        json_object_set_new(root, r->header_keys.s[i], json_string(r->header_texts.s[i]));
     json_t *vals = json_object();
     for (size_t i = 0; sel->values && i < r->nitems; i++) {
         const item *it = &r->items[i];

@@ -25,6 +25,11 @@ const char *sr_report_caution(void);
 sr_report *sr_report_new(const char *command, const char *title);
 void sr_report_free(sr_report *r);
 
+/* A line of the header, right below the caution: text output prints it
+ * there, CSV as a comment line after the caution, JSON as a top-level field
+ * `key` (e.g. the basis of a verdict). */
+int sr_report_header(sr_report *r, const char *key, const char *text);
+
 /* Start a group of values with a heading ("Inputs", "Result"). */
 int sr_report_section(sr_report *r, const char *heading);
 /* A value: key for CSV/JSON (snake_case), label for text, SI value with its

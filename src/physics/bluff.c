@@ -869,3 +869,34 @@ int sr_bluff_trace_run(const sr_bluff_body *b, const sr_air *air, double cd0, in
     }
     return SR_OK;
 }
+
+const char *sr_bluff_attitude_name(sr_bluff_attitude a)
+{
+    switch (a) {
+    case SR_ATTITUDE_TUMBLING: return "tumbling";
+    case SR_ATTITUDE_END_ON: return "end-on";
+    case SR_ATTITUDE_BROADSIDE:
+    default: return "broadside";
+    }
+}
+
+void sr_bluff_attitude_drag(sr_bluff_shape shape, double d, sr_bluff_attitude a, int stable_end_on, double *k,
+                            double *c)
+{
+    double end = SR_BLUFF_CD_END * 0.25 * PI * d * d;
+    *k = 1.0;
+    *c = 0.0;
+    if (a == SR_ATTITUDE_BROADSIDE)
+        return;
+    if (shape == SR_BLUFF_CYLINDER) {
+        if (a == SR_ATTITUDE_END_ON && stable_end_on) {
+            *k = 0.0;
+            *c = end;
+        } else {
+            *k = SR_BLUFF_TUMBLE_CROSS;
+            *c = 0.25 * end;
+        }
+    } else if (shape == SR_BLUFF_DISK) {
+        *k = 0.25; /* <|cos|^3> over the sphere; a thin disk's edge adds nothing */
+    }
+}

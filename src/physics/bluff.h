@@ -102,6 +102,38 @@ const char *sr_bluff_curve_name(sr_bluff_curve_id id);
 /* The default curve of a body shape. */
 sr_bluff_curve_id sr_bluff_default_curve(sr_bluff_shape shape);
 
+/* How a body meets the flow when it falls with no canopy (failure cases).
+ * Its drag area is k Cd(Re) A + c, with Cd(Re) and A those of the curve's own
+ * attitude (a cylinder broadside, a disk face-on: the highest drag):
+ *  - broadside: k = 1, c = 0;
+ *  - tumbling through every orientation, uniform on the sphere, by the
+ *    cross-flow (independence) principle, where only the flow component
+ *    normal to a face acts and the drag goes as the cube of that component's
+ *    share (Hoerner 1965, Fluid-Dynamic Drag, ch. 3, from memory): a
+ *    cylinder k = <sin^3> = 3 pi/16 = 0.589 plus its ends c = <|cos|^3> CD_end
+ *    pi d^2/4 = 0.25 CD_end pi d^2/4; a thin disk k = <|cos|^3> = 1/4
+ *    (the averages are our derivation);
+ *  - end-on (a cylinder that fins or a weighted nose keep pointing into the
+ *    flow): k = 0, c = CD_end pi d^2/4 with CD_end = 0.82, a flat-ended
+ *    cylinder in axial flow (Hoerner 1965, from memory);
+ *  - a sphere is the same in every attitude; a user table keeps its own
+ *    (its attitude is whatever the table was measured in). */
+typedef enum sr_bluff_attitude {
+    SR_ATTITUDE_BROADSIDE = 0, /* the curve's own attitude */
+    SR_ATTITUDE_TUMBLING,      /* tumbling through every orientation */
+    SR_ATTITUDE_END_ON         /* stable end-on where the body can be (a cylinder marked so), else tumbling */
+} sr_bluff_attitude;
+
+#define SR_BLUFF_CD_END 0.82            /* flat-ended cylinder in axial flow: Hoerner 1965, from memory */
+#define SR_BLUFF_TUMBLE_CROSS 0.58904862254808623 /* 3 pi / 16: <sin^3> over orientations on the sphere */
+
+const char *sr_bluff_attitude_name(sr_bluff_attitude a); /* "broadside", "tumbling", "end-on" */
+
+/* k and c of a body in an attitude; stable_end_on: the body can fall end-on
+ * (else end-on falls back to tumbling). */
+void sr_bluff_attitude_drag(sr_bluff_shape shape, double d, sr_bluff_attitude a, int stable_end_on, double *k,
+                            double *c);
+
 /* Cd at Reynolds number re > 0; ORs warning bits into *warn (may be NULL). */
 double sr_bluff_curve_cd(const sr_bluff_curve *c, double re, unsigned *warn);
 

@@ -43,10 +43,10 @@ const char *sr_size_kind_name(sr_size_kind k)
 
 static const char *const FV_KEY[SR_FV_COUNT_] = {"drag-coefficient", "projected-ratio", "constructed-ratio",
                                                  "opening-factor",   "filling-constant", "oscillation",
-                                                 "mach-limit",       "areal-mass"};
+                                                 "mach-limit",       "areal-mass",       "growth-exponent"};
 static const char *const FV_LABEL[SR_FV_COUNT_] = {"CD0 on nominal area",   "Dp/D0",       "Dc/D0",
                                                    "opening-load factor CX", "filling constant n", "oscillation",
-                                                   "Mach limit of usual use", "areal mass"};
+                                                   "Mach limit of usual use", "areal mass", "growth exponent n"};
 
 const char *sr_family_value_key(sr_family_value v)
 {

@@ -44,6 +44,7 @@ typedef enum sr_family_value {
     SR_FV_OSCILLATION,  /* oscillation */
     SR_FV_MACH,         /* mach-limit */
     SR_FV_AREAL,        /* areal-mass (optional) */
+    SR_FV_GROWTH,       /* growth-exponent (optional: the class's band otherwise, physics/provenance.h) */
     SR_FV_COUNT_
 } sr_family_value;
 
@@ -74,6 +75,10 @@ typedef struct sr_family {
     char cx_source[SR_SOURCE_MAX];
     double fill_n;                  /* filling constant, t_f = n D0 / v */
     char fill_source[SR_SOURCE_MAX];
+    sr_band growth;                 /* exponent n of the drag-area growth (t/t_f)^n while filling: the
+                                     * class's band unless the file sets `growth-exponent:` */
+    char growth_source[SR_SOURCE_MAX];
+    int growth_given;               /* the file set growth-exponent: (else the class's band) */
     sr_band oscillation;            /* rad, typical range in steady descent */
     char osc_source[SR_SOURCE_MAX];
     double mach_max;                /* upper Mach number of the family's usual application */
@@ -100,6 +105,14 @@ const char *sr_size_kind_name(sr_size_kind k); /* "nominal diameter", ... */
  * was not read): 1 canopy 1.00, 2: 0.97, 3: 0.93, 4 or more: 0.90. */
 double sr_canopy_cluster_factor(int n);
 
+/* A measured opening of a specific canopy (`measured-opening:` in a canopy
+ * file or a mission stage): it replaces the three opening-load estimates. */
+typedef enum sr_measured_opening {
+    SR_OPENING_ESTIMATED = 0, /* none: the three estimates on the growth model */
+    SR_OPENING_MEASURED_FACTOR, /* peak force over CD0 S0 q1 at line stretch (CX X1 as measured) */
+    SR_OPENING_MEASURED_LOAD    /* the peak force itself, N, for the deployment of the mission */
+} sr_measured_opening;
+
 /* A specific canopy (or a cluster of identical ones). */
 typedef struct sr_canopy {
     sr_family fam;
@@ -114,6 +127,9 @@ typedef struct sr_canopy {
     int count;              /* canopies in the cluster */
     double cluster_factor;
     double areal_mass;      /* kg/m2 of nominal area, NaN if unknown */
+    sr_measured_opening opening;  /* a measured opening load or factor replaces the estimates */
+    double opening_value;         /* the factor, or the load in N */
+    char opening_source[SR_SOURCE_MAX];
 } sr_canopy;
 
 /* Sizes a canopy can have, m: 200 m is larger than any canopy flown and 1 cm

@@ -47,6 +47,7 @@ void sr_opening_input_init(sr_opening_input *in)
     in->path_angle = M_PI / 2;
     in->g = SR_G0;
     in->exponent = 2.0;
+    in->v_steady = NAN;
 }
 
 double sr_opening_class_exponent(sr_opening_class c)
@@ -60,15 +61,42 @@ double sr_opening_class_exponent(sr_opening_class c)
     }
 }
 
-int sr_opening_fill_time(double n_fill, double d0, double v1, double *t_f, sr_error *err)
+void sr_opening_class_band(sr_opening_class c, double *lo, double *typ, double *hi)
+{
+    /* n = 2 solid and n = 1 slotted are the values commonly used; fits to drop
+     * tests spread about 0.5 .. 3 (from memory, trade-facts.md section 6) */
+    switch (c) {
+    case SR_OPENING_SLOTTED: *lo = 0.5, *typ = 1.0, *hi = 2.0; return;
+    case SR_OPENING_REEFED: *lo = 0.5, *typ = 0.5, *hi = 1.0; return;
+    case SR_OPENING_SOLID:
+    default: *lo = 1.0, *typ = 2.0, *hi = 3.0; return;
+    }
+}
+
+/* The steady rate the filling time falls back on: the caller's, or the full
+ * canopies' own with the mass they decelerate (0 without gravity). */
+static double steady_of(const sr_opening_input *in)
+{
+    if (isfinite(in->v_steady) && in->v_steady > 0)
+        return in->v_steady;
+    if (!(in->g > 0))
+        return 0;
+    return sqrt(2 * in->mass * in->g / (in->rho * in->count * in->cds0));
+}
+
+int sr_opening_fill_time(double n_fill, double d0, double v1, double v_steady, double *t_f, sr_error *err)
 {
     if (!(isfinite(n_fill) && n_fill > 0))
         return sr_error_set(err, SR_EINVAL, "filling constant must be positive (got %g)", n_fill);
     if (!(isfinite(d0) && d0 > 0))
         return sr_error_set(err, SR_EINVAL, "nominal diameter must be positive (got %g m)", d0);
-    if (!(isfinite(v1) && v1 > 0))
+    /* the law is for deployments at speed: slower than the steady rate, the
+     * canopy fills as at that rate (a canopy opening from rest has no speed of
+     * its own to fill with) */
+    double v = isfinite(v_steady) && v_steady > v1 ? v_steady : v1;
+    if (!(isfinite(v1) && v1 >= 0 && isfinite(v) && v > 0))
         return sr_error_set(err, SR_EINVAL, "deployment speed must be positive (got %g m/s)", v1);
-    *t_f = n_fill * d0 / v1;
+    *t_f = n_fill * d0 / v;
     return SR_OK;
 }
 
@@ -386,6 +414,8 @@ static int validate(const sr_opening_input *in, sr_error *err)
         (rc = need(in->cluster_allowance, "cluster allowance", err)) ||
         (rc = need(in->mach_envelope, "Mach envelope", err)))
         return rc;
+    if (!isnan(in->v_steady) && !(in->v_steady >= 0 && isfinite(in->v_steady)))
+        return sr_error_set(err, SR_EINVAL, "steady descent rate must be zero or positive (got %g m/s)", in->v_steady);
     if (in->cds0 <= 0)
         return sr_error_set(err, SR_EINVAL, "drag area must be positive (got %g m2)", in->cds0);
     if (in->d0 <= 0)
@@ -496,7 +526,7 @@ int sr_opening_solve(const sr_opening_input *in, sr_opening_result *out, sr_erro
         return rc;
     memset(out, 0, sizeof *out);
     double tf;
-    if ((rc = sr_opening_fill_time(in->n_fill, in->d0, in->v1, &tf, err)) != SR_OK)
+    if ((rc = sr_opening_fill_time(in->n_fill, in->d0, in->v1, steady_of(in), &tf, err)) != SR_OK)
         return rc;
     out->q1 = 0.5 * in->rho * in->v1 * in->v1;
     out->mach = in->v1 / in->a;
@@ -555,6 +585,169 @@ int sr_opening_solve(const sr_opening_input *in, sr_opening_result *out, sr_erro
     return SR_OK;
 }
 
+/* ---- the fast path ---------------------------------------------------- */
+
+/* Fixed steps over the filling time: at least FAST_STEPS, more where the
+ * drag's relaxation rate lambda = rho S v / m would make the classical
+ * Runge-Kutta scheme stiff (h lambda kept below 2/3, within its stability
+ * region), at most FAST_STEPS_MAX. */
+#ifndef FAST_STEPS
+#define FAST_STEPS 32
+#endif
+#define FAST_STEPS_MAX 4000
+
+/* tau^n without pow for the exponents of the class bands (multiples of 1/2
+ * up to 4): the fast path evaluates it a hundred times a solve. */
+static double tau_pow(double tau, double n, int half)
+{
+    if (half < 0)
+        return pow(tau, n);
+    double r = (half & 1) ? sqrt(tau) : 1.0;
+    for (int k = 0; k < half / 2; k++)
+        r *= tau;
+    return r;
+}
+
+typedef struct fast_ode {
+    double S, m, rho, g, tf, n;
+    double c; /* rho / 2m */
+    int steps;
+    int half; /* 2n when n is a multiple of 1/2 up to 4, else -1 */
+} fast_ode;
+
+static void fast_rhs(const fast_ode *p, double area, const double y[2], double d[2])
+{
+    double c = p->c * area * sqrt(y[0] * y[0] + y[1] * y[1]);
+    d[0] = -c * y[0];
+    d[1] = -c * y[1] - p->g;
+}
+
+/* F and dF/dt at tau = t/t_f <= 1 of state y, whose rates d are given; right:
+ * the growth rate just after t_f (zero). */
+static void fast_force(const fast_ode *p, double tau, double area, const double y[2], const double d[2], int right,
+                       double *F, double *dF)
+{
+    double v2 = y[0] * y[0] + y[1] * y[1];
+    double rate = 0;
+    if (!right && tau > 0)
+        rate = p->S * p->n * (p->half >= 2 ? tau_pow(tau, p->n - 1, p->half - 2) : pow(tau, p->n - 1)) / p->tf;
+    *F = 0.5 * p->rho * v2 * area;
+    *dF = p->rho * area * (y[0] * d[0] + y[1] * d[1]) + 0.5 * p->rho * v2 * rate;
+}
+
+/* Largest value of the cubic Hermite interpolant on [0, h] with end values
+ * F0, F1 and slopes D0 > 0 >= D1 (a maximum inside). */
+static double hermite_max(double F0, double F1, double D0, double D1, double h)
+{
+    /* p'(s) = a s^2 + b s + c on s in [0, 1] */
+    double a = 6 * (F0 - F1) + 3 * h * (D0 + D1), b = -6 * (F0 - F1) - 2 * h * (2 * D0 + D1), c = h * D0;
+    double s;
+    if (fabs(a) < 1e-14 * (fabs(b) + fabs(c)))
+        s = -c / b;
+    else {
+        double disc = b * b - 4 * a * c;
+        if (disc < 0)
+            disc = 0;
+        double q = -0.5 * (b + (b >= 0 ? sqrt(disc) : -sqrt(disc)));
+        double s1 = q / a, s2 = c / q;
+        s = (s1 >= 0 && s1 <= 1) ? s1 : s2;
+    }
+    if (!(s >= 0 && s <= 1))
+        return fmax(F0, F1);
+    double s2 = s * s, s3 = s2 * s;
+    return (2 * s3 - 3 * s2 + 1) * F0 + (s3 - 2 * s2 + s) * h * D0 + (-2 * s3 + 3 * s2) * F1 + (s3 - s2) * h * D1;
+}
+
+/* The ODE's dynamic peak at CX = 1 (interior maxima and the kink at t_f), the
+ * same rules as ode_peak; the weight is the caller's. */
+static double fast_ode_peak(const fast_ode *p, double v1, double path_angle)
+{
+    double y[2] = {v1 * cos(path_angle), -v1 * sin(path_angle)};
+    const int N = p->steps;
+    double h = p->tf / N, best = 0;
+    double F0 = 0, D0 = 1; /* F rises from zero at line stretch */
+    double a0 = 0, k1[2];
+    fast_rhs(p, 0, y, k1);
+    for (int i = 0; i < N; i++) {
+        double tm = (i + 0.5) / N, t1 = (i + 1.0) / N;
+        double am = p->S * tau_pow(tm, p->n, p->half), a1 = i + 1 == N ? p->S : p->S * tau_pow(t1, p->n, p->half);
+        double k2[2], k3[2], k4[2], yt[2];
+        yt[0] = y[0] + 0.5 * h * k1[0], yt[1] = y[1] + 0.5 * h * k1[1];
+        fast_rhs(p, am, yt, k2);
+        yt[0] = y[0] + 0.5 * h * k2[0], yt[1] = y[1] + 0.5 * h * k2[1];
+        fast_rhs(p, am, yt, k3);
+        yt[0] = y[0] + h * k3[0], yt[1] = y[1] + h * k3[1];
+        fast_rhs(p, a1, yt, k4);
+        y[0] += h / 6 * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]);
+        y[1] += h / 6 * (k1[1] + 2 * k2[1] + 2 * k3[1] + k4[1]);
+        /* the rates at the new state: dF/dt here, and the next step's first stage */
+        fast_rhs(p, a1, y, k1);
+        double F1, D1;
+        fast_force(p, t1, a1, y, k1, 0, &F1, &D1);
+        if (D0 > 0 && D1 <= 0)
+            best = fmax(best, hermite_max(F0, F1, D0, D1, h));
+        F0 = F1, D0 = D1, a0 = a1;
+    }
+    (void)a0;
+    /* the kink at full inflation: rising before, falling after */
+    double Fr, Dr;
+    fast_force(p, 1, p->S, y, k1, 1, &Fr, &Dr);
+    if (D0 > 0 && Dr <= 0)
+        best = fmax(best, F0);
+    return best;
+}
+
+int sr_opening_solve_fast(const sr_opening_input *in, sr_opening_quick *out, sr_error *err)
+{
+    int rc;
+    if ((rc = validate(in, err)) != SR_OK)
+        return rc;
+    double tf;
+    if ((rc = sr_opening_fill_time(in->n_fill, in->d0, in->v1, steady_of(in), &tf, err)) != SR_OK)
+        return rc;
+    double q1 = 0.5 * in->rho * in->v1 * in->v1, S = in->count * in->cds0, m = in->mass;
+    double f_inf = S * q1, x1, tau;
+    out->t_fill = tf;
+    out->q1 = q1;
+    out->mach = in->v1 / in->a;
+    out->mass = m;
+    double rm = sr_opening_mass_ratio(in->rho, in->cds0, m / in->count);
+    if ((rc = sr_opening_olf_x1(rm, in->cds0, in->d0, in->n_fill, &x1, err)) != SR_OK)
+        return rc;
+    out->olf = f_inf * x1;
+    double A = 2 * m / (S * in->rho * in->v1 * tf);
+    if ((rc = sr_opening_pflanz_x1(A, in->exponent, &x1, &tau, NULL, err)) != SR_OK)
+        return rc;
+    out->pflanz = f_inf * x1;
+    fast_ode p = {.S = S, .m = m, .rho = in->rho, .g = in->g, .tf = tf, .n = in->exponent, .half = -1,
+                  .c = 0.5 * in->rho / m};
+    /* the drag's relaxation rate is at most rho S v1 / m, or 2 g / v_s where the payload speeds up */
+    double vs = in->g > 0 ? sqrt(2 * m * in->g / (in->rho * S)) : 0;
+    double lam = fmax(in->rho * S * in->v1 / m, vs > 0 ? 2 * in->g / vs : 0);
+    double need = ceil(1.5 * lam * tf);
+    p.steps = need < FAST_STEPS ? FAST_STEPS : need > FAST_STEPS_MAX ? FAST_STEPS_MAX : (int)need;
+    double twice = 2 * in->exponent;
+    if (twice <= 8 && fabs(twice - round(twice)) < 1e-12)
+        p.half = (int)round(twice);
+    out->ode = fast_ode_peak(&p, in->v1, in->path_angle);
+    out->weight = in->g > 0 ? m * in->g : 0;
+    double vt = in->g > 0 ? sqrt(2 * m * in->g / (in->rho * S)) : INFINITY;
+    out->slow_deployment = in->v1 < vt;
+    return SR_OK;
+}
+
+double sr_opening_quick_high(const sr_opening_quick *q, double cx)
+{
+    double ode = fmax(cx * q->ode, q->weight);
+    return fmax(cx * fmax(q->olf, q->pflanz), ode);
+}
+
+double sr_opening_quick_low(const sr_opening_quick *q, double cx)
+{
+    double ode = fmax(cx * q->ode, q->weight);
+    return fmin(cx * fmin(q->olf, q->pflanz), ode);
+}
+
 int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double *t, double *force, sr_error *err)
 {
     int rc;
@@ -563,7 +756,7 @@ int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double 
     if (n < 2 || !t || !force)
         return sr_error_set(err, SR_EINVAL, "trace needs at least two points");
     double tf;
-    if ((rc = sr_opening_fill_time(in->n_fill, in->d0, in->v1, &tf, err)) != SR_OK)
+    if ((rc = sr_opening_fill_time(in->n_fill, in->d0, in->v1, steady_of(in), &tf, err)) != SR_OK)
         return rc;
     if (!(t_end > 0))
         t_end = 3 * tf;

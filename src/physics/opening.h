@@ -9,7 +9,9 @@
 #include "base/error.h"
 
 /* Growth-law exponent of the drag area by canopy class (K91 Pflanz curves,
- * exponents from memory: handbook reference file section 4.2). */
+ * exponents from memory: handbook reference file section 4.2). The typical
+ * value of each class; sr_opening_class_band gives the band the trade's
+ * drop-test fits spread over. */
 typedef enum sr_opening_class {
     SR_OPENING_SOLID = 0, /* solid cloth: slow start, fast finish, n = 2 */
     SR_OPENING_SLOTTED,   /* ribbon, ringslot, ringsail: near-linear, n = 1 */
@@ -59,6 +61,8 @@ typedef struct sr_opening_input {
     double cluster_allowance; /* per-canopy load over the equal share, 1 .. 10; 0 = derive the bound
                                * "lead canopy takes the whole mass alone" (default) */
     double mach_envelope;     /* the family's application limit; above it only a warning flag; 0 = none */
+    double v_steady;          /* steady descent rate after the opening, m/s, for the filling time (below);
+                               * NaN (default): the full canopies' own rate with this mass, rho and g */
 } sr_opening_input;
 
 /* One method's peak. Forces are totals on the payload (all canopies). */
@@ -114,9 +118,20 @@ void sr_opening_input_init(sr_opening_input *in);
 /* Growth exponent of a canopy class (from memory, see sr_opening_class). */
 double sr_opening_class_exponent(sr_opening_class c);
 
-/* Filling time t_f = n_fill * D0 / v1 (K91, from memory: handbook reference
- * file section 4.3). Errors for a non-positive constant, diameter or speed. */
-int sr_opening_fill_time(double n_fill, double d0, double v1, double *t_f, sr_error *err);
+/* The band of the growth exponent of a class: solid cloth 1 / 2 / 3, slotted
+ * 0.5 / 1 / 2, reefed 0.5 / 0.5 / 1 (n = 2 solid and 1 slotted are the values
+ * commonly used; fits to drop tests spread about 0.5 .. 3: from memory,
+ * trade-facts.md section 6). A family file may set its own. */
+void sr_opening_class_band(sr_opening_class c, double *lo, double *typ, double *hi);
+
+/* Filling time, the one definition every command uses:
+ *     t_f = n_fill * D0 / max(v1, v_steady)
+ * n_fill D0 / v1 is the handbook's law (K91, from memory: handbook reference
+ * file section 4.3), meant for deployments at speed; a canopy deployed slower
+ * than its steady descent rate v_steady (an opening from rest, a drogue at
+ * apogee) fills as at that rate. v_steady <= 0 or NaN: the law alone. Errors
+ * for a non-positive constant, diameter or speed. */
+int sr_opening_fill_time(double n_fill, double d0, double v1, double v_steady, double *t_f, sr_error *err);
 
 /* Ballistic mass ratio R_m = rho * cds^1.5 / m (one canopy's drag area and
  * the mass it carries). */
@@ -135,6 +150,31 @@ int sr_opening_olf_x1(double mass_ratio, double cds, double d0, double n_fill, d
 
 /* All three estimates, the cluster split and the design strengths. */
 int sr_opening_solve(const sr_opening_input *in, sr_opening_result *out, sr_error *err);
+
+/* The three estimates on the fast path (design search, dispersion): the two
+ * closed forms exactly, the inflation ODE by a fixed-step classical
+ * Runge-Kutta scheme on 32 steps over the filling time (more where the drag
+ * would make it stiff), the peak placed by cubic Hermite interpolation of F
+ * and dF/dt between steps. About 7 times faster than sr_opening_solve's
+ * adaptive solver; no allocation. The forces are for CX = 1 and without the
+ * weight, so every opening-load factor of a band is one multiplication (see
+ * sr_opening_quick_high/low). Within 0.5 % of sr_opening_solve's f_high on the
+ * grid of cases in tests/test_opening.c. Single canopies and the equal share
+ * of clusters; the cluster allowance is not computed here. */
+typedef struct sr_opening_quick {
+    double olf, pflanz, ode; /* peak forces at CX = 1, N (the ODE's dynamic peak, without the weight) */
+    double weight;           /* m g with gravity on, else 0: the ODE's steady peak */
+    double mass;             /* kg */
+    double t_fill, q1, mach; /* s, Pa, - */
+    int slow_deployment;     /* v1 below the steady rate */
+} sr_opening_quick;
+
+int sr_opening_solve_fast(const sr_opening_input *in, sr_opening_quick *out, sr_error *err);
+
+/* Highest and lowest of the three estimates at opening-load factor cx, as
+ * sr_opening_solve's f_high and f_low. */
+double sr_opening_quick_high(const sr_opening_quick *q, double cx);
+double sr_opening_quick_low(const sr_opening_quick *q, double cx);
 
 /* The inflation ODE's drag force of the growth model, all canopies, WITHOUT
  * CX (the over-inflation factor belongs to the peak, not to the steady drag

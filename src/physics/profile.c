@@ -58,6 +58,7 @@ typedef struct run {
     seg_cache *rec;
     wind_pert wp;
     double cds[NS];
+    double d0[NS];         /* nominal diameter of one canopy (area_scale) */
     double sec_mass[NSEC];
     double t_ls[NS], t_f[NS];
     int fired[NS];
@@ -140,7 +141,7 @@ static void body_mass(const run *R, body *b)
         }
     for (size_t k = 0; k < c->nstg; k++)
         if ((b->secs >> c->st[k].fabric_owner) & 1u)
-            b->mass += c->st[k].fabric * R->p.mass_scale;
+            b->mass += c->st[k].fabric * R->p.mass_scale * R->p.area_scale[k];
 }
 
 static double steady_rate(const run *R, const body *b, double h)
@@ -277,9 +278,6 @@ static int fire(run *R, body *b, size_t k)
     s->mach_deploy = V / a;
     s->rho_deploy = rho;
     s->body = b->idx;
-    double qlim = isnan(c->lim_q) ? c->o.q_warn : c->lim_q;
-    s->warn_q = s->q_deploy > qlim;
-    s->warn_mach = (sr_mach_judge(s->mach_deploy, st->mach_max) & SR_MACH_OVER_ENVELOPE) != 0;
     add_event(R, SR_EVENT_DEPLOY, (int)k, b);
     if ((c->o.failed >> k) & 1u) {
         s->deployed = 0;
@@ -321,10 +319,23 @@ static int fire(run *R, body *b, size_t k)
     s->cds = body_cd_full(R, d);
     s->mass = d->mass;
     s->rate_top = steady_rate(R, d, d->y[2]);
-    /* until line stretch is resolved by the ODE: the deployment speed */
+    s->d0 = R->d0[k];
+    s->cds_canopy = R->cds[k] / st->count;
+    /* until line stretch is resolved by the ODE: the deployment state, shifted in
+     * the fast mode as the nominal descent's line stretch was from its deployment */
     s->t_line = R->t_ls[k];
     s->speed_line = V;
-    s->t_fill = st->fill_n * st->d0 / fmax(V, s->rate_top);
+    s->h_line = d->y[2];
+    s->path_line = atan2(-d->y[5], hypot(ue, un));
+    if (R->mode == SR_PROFILE_FAST && st->line_stretch > 0.0) {
+        const sr_profile_stage *n = &c->nominal.stage[k];
+        if (n->deployed && isfinite(n->speed_line)) {
+            s->speed_line = fmax(0.0, V + n->speed_line - n->speed_deploy);
+            s->h_line = fmax(0.0, d->y[2] + n->h_line - n->h_deploy);
+            s->path_line = n->path_line;
+        }
+    }
+    sr_opening_fill_time(st->fill_n, R->d0[k], s->speed_line, s->rate_top, &s->t_fill, NULL);
     return SR_OK;
 }
 
@@ -424,38 +435,6 @@ static int is_steady(const run *R, const body *b)
     return sqrt(lx * lx + ly * ly + dz * dz) <= tol * vt;
 }
 
-/* The opening load at line stretch (opening.h); left NaN when the module has
- * no answer, e.g. a canopy that opens from rest. */
-static void opening_load(run *R, const body *b, size_t k, double V, double ue, double un)
-{
-    const stage_c *st = &R->c->st[k];
-    sr_profile_stage *s = &R->r->stage[k];
-    sr_opening_input in;
-    sr_opening_input_init(&in);
-    double rho, a, g;
-    ctx_air(R->c, b->y[2], &rho, &a, &g);
-    in.cds0 = R->cds[k] / st->count;
-    in.d0 = st->d0;
-    in.mass = b->mass;
-    in.v1 = V;
-    in.rho = rho;
-    in.a = a;
-    in.n_fill = st->fill_n;
-    in.cx = st->cx;
-    in.count = st->count;
-    in.path_angle = atan2(-b->y[5], hypot(ue, un));
-    in.g = g;
-    in.exponent = st->growth;
-    in.mach_envelope = st->mach_max;
-    sr_opening_result out;
-    sr_error e;
-    if (!(V > 0.1) || sr_opening_solve(&in, &out, &e) != SR_OK)
-        return;
-    s->opening_force = out.f_high;
-    s->opening_force_low = out.f_low;
-    s->opening_decel = out.decel_g_max;
-}
-
 /* Line stretch of canopies whose time has come: fix their filling time. */
 static void line_stretch(run *R, body *b)
 {
@@ -466,15 +445,16 @@ static void line_stretch(run *R, body *b)
         airspeed(R, b->y, &V, &ue, &un);
         const stage_c *st = &R->c->st[k];
         sr_profile_stage *s = &R->r->stage[k];
-        /* t_f = n D0 / v (Knacke 1991, from memory: canopy-handbook.md section 4.3); a deployment slower than
-         * the canopy's steady rate fills as at that rate (the law is for deployments at speed) */
-        R->t_f[k] = st->fill_n * st->d0 / fmax(V, s->rate_top);
+        /* the one filling-time definition (opening.h): t_f = n D0 / max(v, steady rate) */
+        if (sr_opening_fill_time(st->fill_n, R->d0[k], V, s->rate_top, &R->t_f[k], NULL) != SR_OK)
+            R->t_f[k] = INFINITY; /* no speed and no steady rate: it never fills */
         s->t_line = b->t;
         s->speed_line = V;
+        s->h_line = b->y[2];
+        s->path_line = atan2(-b->y[5], hypot(ue, un));
         s->t_fill = R->t_f[k];
         if (st->line_stretch > 0.0)
             add_event(R, SR_EVENT_LINE_STRETCH, (int)k, b);
-        opening_load(R, b, k, V, ue, un);
     }
 }
 
@@ -547,6 +527,31 @@ static void record_full_open(run *R, const body *b, double tp)
     }
 }
 
+/* One line on why the transient ODE gave up: the stage, where, and the likely
+ * cause (a descent so slow or a filling so long that no step size fits it). */
+static int ode_failure(run *R, const body *b, const char *what)
+{
+    char who[SR_NAME_MAX + 64];
+    if (b->cur >= 0)
+        snprintf(who, sizeof who, "stage '%s'", R->c->st[b->cur].name);
+    else
+        snprintf(who, sizeof who, "the fall before any canopy opens");
+    double vt = steady_rate(R, b, b->y[2]), tf = 0.0;
+    for (size_t k = 0; k < R->c->nstg; k++)
+        if (((b->open >> k) & 1u) && isfinite(R->r->stage[k].t_fill))
+            tf = fmax(tf, R->r->stage[k].t_fill);
+    char cause[256] = "";
+    if (isfinite(vt) && vt < 0.5)
+        snprintf(cause, sizeof cause, ": its steady descent rate is only %.3g m/s%s (is the mass or the canopy size "
+                                      "in the wrong unit?)",
+                 vt, tf > 60.0 ? ", so slow that the canopy would take minutes to fill" : "");
+    else if (tf > 60.0)
+        snprintf(cause, sizeof cause, ": the filling time n D0 / v is %.3g s (is the canopy size in the wrong unit?)",
+                 tf);
+    return sr_error_set(R->err, SR_ENUMERIC, "%s: %s at %.3f s, %.1f m above ground%s", who, what, b->t, b->y[2],
+                        cause);
+}
+
 /* The trajectory rose above the heights the tables hold: they reach the
  * drag-free climb of the start, so only the top of the atmosphere model
  * stops it -- or a sample whose start was raised more than prepared for. */
@@ -579,6 +584,19 @@ static int ode_segment(run *R, body *b, double h_stop, double t_stop, int *why)
     if (!(b->hstep > 0.0))
         b->hstep = 1e-3;
     R->r->ode_segments++;
+    if (b->open == 0 && b->cd_sec == 0.0 && !b->free)
+        R->r->body[b->idx].no_drag = 1;
+    /* a filling far longer than the motion's relaxation time vt / g needs about t_f g / vt steps of an
+     * explicit scheme: say so at once rather than after millions of steps */
+    double vt = steady_rate(R, b, b->y[2]);
+    for (size_t k = 0; k < R->c->nstg && isfinite(vt) && vt > 0.0; k++) {
+        double tf = R->r->stage[k].t_fill;
+        if (((b->open >> k) & 1u) && isfinite(tf) && tf * 9.80665 / vt > (double)MAX_ODE_STEPS) {
+            char what[96];
+            snprintf(what, sizeof what, "the transient would take more than %d ODE steps", MAX_ODE_STEPS);
+            return ode_failure(R, b, what);
+        }
+    }
     for (long n = 0; n < MAX_ODE_STEPS; n++) {
         line_stretch(R, b);
         double t1 = fmin(t_stop, next_kink(R, b));
@@ -587,9 +605,11 @@ static int ode_segment(run *R, body *b, double h_stop, double t_stop, int *why)
         double tp = b->t, yp[6];
         memcpy(yp, b->y, sizeof yp);
         int st = gsl_odeiv2_evolve_apply(w->evolve, w->control, w->step, &sys, &b->t, t1, &b->hstep, b->y);
-        if (st != GSL_SUCCESS)
-            return sr_error_set(R->err, SR_ENUMERIC, "the descent ODE failed (%s) at %.3f s, %.1f m", gsl_strerror(st),
-                                b->t, b->y[2]);
+        if (st != GSL_SUCCESS) {
+            char what[128];
+            snprintf(what, sizeof what, "the descent ODE failed (%s)", gsl_strerror(st));
+            return ode_failure(R, b, what);
+        }
         if (b->y[2] <= h_stop) {
             int rc = locate(R, b, &sys, tp, yp, h_stop);
             if (rc)
@@ -607,13 +627,15 @@ static int ode_segment(run *R, body *b, double h_stop, double t_stop, int *why)
             return SR_OK;
         }
         if (t1 > b->t + 1e-12 && b->t - tp <= 0.0)
-            return sr_error_set(R->err, SR_ENUMERIC, "the descent ODE made no progress at %.3f s", b->t);
+            return ode_failure(R, b, "the descent ODE made no progress");
         if (is_steady(R, b)) {
             *why = 0;
             return SR_OK;
         }
     }
-    return sr_error_set(R->err, SR_ENUMERIC, "the descent ODE took more than %d steps", MAX_ODE_STEPS);
+    char what[96];
+    snprintf(what, sizeof what, "the transient did not settle within %d ODE steps", MAX_ODE_STEPS);
+    return ode_failure(R, b, what);
 }
 
 /* ---- steady stages: quadrature ---- */
@@ -946,6 +968,12 @@ static void finish(run *R)
             }
         }
     }
+    /* relative to the ground: the descent rate with the surface wind, the wind 10 m above ground (the
+     * standard height of surface wind observations, common practice) */
+    double we, wn;
+    wind_of(R, 10.0, &we, &wn);
+    r->wind_surface = hypot(we, wn);
+    r->max_energy_ground = 0.0;
     for (size_t s = 0; s < c->nsec; s++) {
         double m = 0.0;
         for (size_t t = 0; t < c->nsec; t++)
@@ -953,6 +981,9 @@ static void finish(run *R)
                 m += R->sec_mass[t];
         r->section_energy[s] = 0.5 * m * r->section_rate[s] * r->section_rate[s];
         r->max_energy = fmax(r->max_energy, r->section_energy[s]);
+        r->section_speed_ground[s] = hypot(r->section_rate[s], r->wind_surface);
+        r->section_energy_ground[s] = 0.5 * m * r->section_speed_ground[s] * r->section_speed_ground[s];
+        r->max_energy_ground = fmax(r->max_energy_ground, r->section_energy_ground[s]);
     }
     /* events by time (insertion sort keeps equal times in order of occurrence) */
     for (size_t i = 1; i < r->nevents; i++) {
@@ -971,6 +1002,13 @@ static int check_perturb(const sr_profile_ctx *c, const sr_profile_perturb *p, s
     for (size_t k = 0; k < c->nstg; k++)
         if (!(p->drag_scale[k] > 0.0 && p->drag_scale[k] < 100.0))
             return sr_error_set(err, SR_EINVAL, "drag scale %g of stage %zu is outside 0 .. 100", p->drag_scale[k], k + 1);
+    for (size_t k = 0; k < c->nstg; k++)
+        if (!(p->area_scale[k] > 0.0 && p->area_scale[k] < 100.0))
+            return sr_error_set(err, SR_EINVAL, "area scale %g of stage %zu is outside 0 .. 100", p->area_scale[k], k + 1);
+    for (size_t i = 0; i < c->nsec; i++)
+        if (!(p->section_mass_scale[i] > 0.0 && p->section_mass_scale[i] < 100.0))
+            return sr_error_set(err, SR_EINVAL, "mass scale %g of section %zu is outside 0 .. 100",
+                                p->section_mass_scale[i], i + 1);
     if (!(p->mass_scale > 0.0 && p->mass_scale < 100.0))
         return sr_error_set(err, SR_EINVAL, "mass scale %g is outside 0 .. 100", p->mass_scale);
     if (!(p->wind_scale >= 0.0 && p->wind_scale < 100.0) || !isfinite(p->wind_turn) || !isfinite(p->wind_east) ||
@@ -1017,11 +1055,12 @@ int profile_run(const sr_profile_ctx *c, const sr_profile_perturb *p, sr_profile
     R.wp.de = R.p.wind_east;
     R.wp.dn = R.p.wind_north;
     for (size_t k = 0; k < c->nstg; k++) {
-        R.cds[k] = c->st[k].cds * R.p.drag_scale[k];
+        R.cds[k] = c->st[k].cds * R.p.drag_scale[k] * R.p.area_scale[k];
+        R.d0[k] = c->st[k].d0 * sqrt(R.p.area_scale[k]);
         R.t_ls[k] = R.t_f[k] = NAN;
     }
     for (size_t i = 0; i < c->nsec; i++)
-        R.sec_mass[i] = c->sec_mass[i] * R.p.mass_scale;
+        R.sec_mass[i] = c->sec_mass[i] * R.p.mass_scale * R.p.section_mass_scale[i];
     /* everything but the event array, which is filled up to nevents (it is
      * most of the struct, and the Monte Carlo path runs this per sample) */
     memset(r, 0, offsetof(sr_profile_result, events));
@@ -1034,7 +1073,7 @@ int profile_run(const sr_profile_ctx *c, const sr_profile_perturb *p, sr_profile
         s->t_deploy = s->h_deploy = s->speed_deploy = s->q_deploy = s->mach_deploy = s->rho_deploy = NAN;
         s->t_line = s->speed_line = s->t_fill = s->t_full = s->h_full = s->t_steady = s->h_steady = NAN;
         s->t_end = s->h_end = s->rate_top = s->rate_bottom = s->cds = s->mass = NAN;
-        s->opening_force = s->opening_force_low = s->opening_decel = NAN;
+        s->h_line = s->path_line = s->d0 = s->cds_canopy = NAN;
     }
     /* the start: airspeed along the heading and path angle, carried by the wind */
     body *b = &R.b[0];

@@ -44,8 +44,7 @@ typedef struct sr_profile_opts {
     size_t grid_cells;      /* cells of the precomputed height tables (default 1024) */
     double top_margin;      /* tables reach start height * (1 + top_margin) + 200 m (default 0.25), for
                              * samples that raise the start */
-    double q_warn;          /* Pa, dynamic pressure at deployment that draws a warning when the mission
-                             * sets no limit (default 2500 Pa: our choice, not a published limit) */
+    sr_bluff_attitude attitude; /* bodies falling with no canopy open (default: broadside; sr_bluff_attitude) */
 } sr_profile_opts;
 
 void sr_profile_opts_init(sr_profile_opts *o);
@@ -54,6 +53,9 @@ void sr_profile_opts_init(sr_profile_opts *o);
  * sr_profile_perturb_init gives the identity. */
 typedef struct sr_profile_perturb {
     double drag_scale[SR_MISSION_MAX_STAGES]; /* x drag area of each stage (1) */
+    double area_scale[SR_MISSION_MAX_STAGES]; /* x nominal area of each stage's canopies (1): a change of size,
+                                               * so the drag area, the fabric mass and D0^2 scale with it */
+    double section_mass_scale[SR_MISSION_MAX_SECTIONS]; /* x the mass of each section (1), with mass_scale */
     double mass_scale;                         /* x every section mass (1) */
     double wind_scale;                         /* x wind speed at every height (1) */
     double wind_turn;                          /* rad added to the wind direction at every height (0) */
@@ -98,21 +100,19 @@ typedef struct sr_profile_stage {
     double speed_deploy;    /* airspeed at the deployment event, m/s */
     double q_deploy, mach_deploy, rho_deploy;
     double t_line, speed_line;  /* line stretch: time and airspeed (the speed in the filling-time law) */
-    double t_fill;          /* filling time n D0 / v, s */
+    double h_line;          /* height of line stretch, m */
+    double path_line;       /* flight-path angle of the airspeed at line stretch, rad below the horizontal */
+    double t_fill;          /* filling time n D0 / max(v_line, rate_top) (sr_opening_fill_time), s */
+    double d0;              /* nominal diameter of one canopy in this run, m */
+    double cds_canopy;      /* full drag area of one canopy in this run (cluster factor included), m2 */
     double t_full, h_full;  /* full open (NaN in fast mode) */
     double t_steady, h_steady; /* steady again (NaN in fast mode or when never reached) */
     double t_end, h_end;    /* next deployment on the same body, or touchdown */
     double rate_top, rate_bottom; /* steady descent rate with this stage open at h_deploy and h_end, m/s */
     double cds;             /* drag area of the body with this stage fully open, m2 */
     double mass;            /* mass of the body under it, kg */
-    /* Opening load at line stretch by the opening module's three methods
-     * (opening-load factor, Pflanz, inflation ODE): full mode only, NaN in the
-     * fast mode or when it has no answer (a release at rest). */
-    double opening_force;   /* highest of the three, N */
-    double opening_force_low; /* lowest of the three, N */
-    double opening_decel;   /* highest peak deceleration, standard g */
-    int warn_q;             /* dynamic pressure at deployment above the limit or the warning level */
-    int warn_mach;          /* Mach at deployment above the family's application limit */
+    /* Line stretch in the fast mode: the ODE resolves it when it runs; over a
+     * reused transient it is the deployment state shifted as the nominal one was. */
 } sr_profile_stage;
 
 typedef struct sr_profile_body {
@@ -140,6 +140,8 @@ typedef struct sr_profile_body {
     double speed_arrive;    /* airspeed the integration arrived with, m/s (free fall; NaN otherwise) */
     double v_terminal;      /* fastest equilibrium speed at the ground, m/s (free fall; NaN otherwise) */
     unsigned drag_warn;     /* SR_BLUFF_WARN_* of the drag curves at touchdown (free fall) */
+    int no_drag;            /* it fell some way with no canopy open and no drag of its own at all (no drag-area:,
+                             * no body:): a vacuum fall */
 } sr_profile_body;
 
 typedef struct sr_profile_result {
@@ -156,9 +158,15 @@ typedef struct sr_profile_result {
     double section_rate[SR_MISSION_MAX_SECTIONS];   /* its touchdown descent rate, m/s */
     double section_energy[SR_MISSION_MAX_SECTIONS]; /* 1/2 m v^2 at that rate, J; a rigid pair counts as
                                                      * one piece: both carry the pair's energy */
+    /* relative to the ground: the descent rate combined with the surface wind (the wind 10 m above
+     * ground, the standard height of surface wind observations) */
+    double wind_surface;    /* m/s, the wind speed 10 m above ground (of this run's wind) */
+    double section_speed_ground[SR_MISSION_MAX_SECTIONS];  /* sqrt(rate^2 + wind_surface^2), m/s */
+    double section_energy_ground[SR_MISSION_MAX_SECTIONS]; /* 1/2 m v^2 at that speed, J */
     double descent_time;    /* last touchdown, s */
     double max_rate;        /* highest touchdown descent rate, m/s */
     double max_energy;      /* highest section energy, J */
+    double max_energy_ground; /* highest section energy relative to the ground, J */
     double max_drift;       /* farthest landing point from the launch point, m */
     int ode_segments;       /* transient segments integrated by the ODE (fast mode: fallbacks) */
 } sr_profile_result;

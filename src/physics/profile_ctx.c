@@ -25,14 +25,16 @@ void sr_profile_opts_init(sr_profile_opts *o)
     o->failed = 0;
     o->grid_cells = 1024;
     o->top_margin = 0.25;
-    o->q_warn = 2500.0;
+    o->attitude = SR_ATTITUDE_BROADSIDE;
 }
 
 void sr_profile_perturb_init(sr_profile_perturb *p)
 {
     memset(p, 0, sizeof *p);
     for (size_t i = 0; i < NS; i++)
-        p->drag_scale[i] = 1.0;
+        p->drag_scale[i] = p->area_scale[i] = 1.0;
+    for (size_t i = 0; i < NSEC; i++)
+        p->section_mass_scale[i] = 1.0;
     p->mass_scale = 1.0;
     p->wind_scale = 1.0;
 }
@@ -427,6 +429,7 @@ static int copy_mission(sr_profile_ctx *c, const sr_mission *m, sr_error *err)
                                     s->shape == SR_BLUFF_TABLE ? s->body_area : NAN, err);
         if (rc)
             return rc;
+        sr_bluff_attitude_drag(s->shape, s->body_d, c->o.attitude, s->stable_end_on, &c->att_k[i], &c->att_c[i]);
         c->free_secs |= 1u << i;
     }
     for (size_t k = 0; k < c->nstg; k++) {
@@ -437,14 +440,13 @@ static int copy_mission(sr_profile_ctx *c, const sr_mission *m, sr_error *err)
                                 "%s: stage '%s' has no size; give one in the file, or run `sinkrate size --mission` "
                                 "first",
                                 m->path, s->name);
+        snprintf(t->name, sizeof t->name, "%s", s->name);
         t->cds = sr_canopy_total_cds(&s->canopy).typ;
         t->d0 = s->canopy.d0.typ;
         t->fill_n = s->canopy.fam.fill_n;
-        /* drag-area growth (t/t_f)^n: n = 1 slotted, 2 solid cloth (Knacke 1991, Pflanz curves; from
-         * memory, canopy-handbook.md section 4.2) */
-        t->growth = strcmp(s->canopy.fam.cls, SR_CANOPY_CLASS_SLOTTED) == 0 ? 1.0 : 2.0;
-        t->mach_max = s->canopy.fam.mach_max;
-        t->cx = s->canopy.fam.cx.typ;
+        /* drag-area growth (t/t_f)^n: the family's typical exponent (n = 2 solid cloth, 1 slotted unless the
+         * family file sets its own; Knacke 1991, Pflanz curves, from memory) */
+        t->growth = s->canopy.fam.growth.typ;
         t->count = s->canopy.count;
         t->fabric = s->canopy.areal_mass > 0.0 ? s->canopy.count * s->canopy.areal_mass * s->canopy.s0.typ : 0.0;
         t->fabric_owner = 0;
@@ -470,11 +472,6 @@ static int copy_mission(sr_profile_ctx *c, const sr_mission *m, sr_error *err)
         sr_wind_at(&m->wind, m->start_height, &we, &wn);
         sr_wind_polar(we, wn, &s, &c->heading);
     }
-    c->lim_speed = m->limit_speed;
-    c->lim_energy = m->limit_energy;
-    c->lim_time = m->limit_time;
-    c->lim_drift = m->limit_drift;
-    c->lim_q = m->limit_deploy_q;
     if (copy_atmos(&c->atmos, &m->atmos) || copy_wind(&c->wind, &m->wind))
         return sr_error_set(err, SR_ENOMEM, "out of memory");
     return SR_OK;
@@ -497,6 +494,8 @@ int sr_profile_ctx_new(sr_profile_ctx **out, const sr_mission *m, const sr_profi
         rc = sr_error_set(err, SR_EINVAL, "ODE tolerance %g is outside 1e-13 .. 1e-3", c->o.ode_tol);
     else if (!isnan(c->o.uniform_density) && !(c->o.uniform_density > 0.0 && c->o.uniform_density < 10.0))
         rc = sr_error_set(err, SR_EINVAL, "uniform density %g kg/m3 is outside 0 .. 10", c->o.uniform_density);
+    else if (!(c->o.attitude >= SR_ATTITUDE_BROADSIDE && c->o.attitude <= SR_ATTITUDE_END_ON))
+        rc = sr_error_set(err, SR_EINVAL, "unknown attitude %d", (int)c->o.attitude);
     else if (c->o.grid_cells > 1000000)
         rc = sr_error_set(err, SR_EINVAL, "too many grid cells (%zu)", c->o.grid_cells);
     else

@@ -23,7 +23,7 @@ double free_cda(const sr_profile_ctx *c, sr_section_set secs, double V, double r
         /* at rest there is no Reynolds number: drag is zero there whatever Cd is */
         if (!(re > 0.0))
             continue;
-        C += sr_bluff_body_cd(b, re, warn) * b->area;
+        C += c->att_k[i] > 0.0 ? c->att_k[i] * sr_bluff_body_cd(b, re, warn) * b->area + c->att_c[i] : c->att_c[i];
     }
     return C;
 }

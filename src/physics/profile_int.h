@@ -21,12 +21,11 @@
 #define NKEYS (2 * NS + 1)
 
 typedef struct stage_c {
+    char name[SR_NAME_MAX];
     double cds;          /* total drag area, typical, m2 */
     double d0;           /* nominal diameter of one canopy, m */
     double fill_n;       /* filling constant */
-    double growth;       /* exponent of drag-area growth during filling */
-    double mach_max;
-    double cx;           /* opening-load factor, typical */
+    double growth;       /* exponent of drag-area growth during filling (the family's typical) */
     int count;           /* canopies in the cluster */
     double fabric;       /* canopy mass, kg (0 without an areal mass) */
     int fabric_owner;    /* section the packed canopy travels with */
@@ -59,12 +58,12 @@ struct sr_profile_ctx {
     sr_section_set free_secs;
     sr_bluff_curve sec_curve[NSEC]; /* owned copies */
     sr_bluff_body sec_body[NSEC];   /* .curve points into sec_curve */
+    double att_k[NSEC], att_c[NSEC]; /* attitude: drag area k Cd(Re) A + c (sr_bluff_attitude) */
     stage_c st[NS];
     double ground;
     double start_h, start_v, start_gamma, heading, start_e, start_n;
     char start_at[600];  /* "file:line:column" of the mission's start: block, for messages */
     int top_is_model;    /* the tables reach the top of the atmosphere model: above is no air we know */
-    double lim_speed, lim_energy, lim_time, lim_drift, lim_q;
     sr_atmos atmos;      /* deep copy (sounding arrays owned) */
     sr_wind wind;        /* deep copy (table arrays owned) */
     /* height grid h_i = i dh, i = 0..n */

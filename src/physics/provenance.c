@@ -12,12 +12,14 @@
 #define K91 "Knacke 1991, NWC TP 6575"
 
 static const sr_provenance MODELS[] = {
-    {"growth-exponent-solid", "drag-area growth exponent, solid cloth",
-     K91 ", the Pflanz curves (from memory)", "none",
+    {"growth-exponent-solid", "drag-area growth exponent, solid cloth: typical and band",
+     K91 ", the Pflanz curves (from memory); the band from drop-test fits spreading about 0.5 .. 3 "
+         "(trade-facts.md section 6, from memory)", "none",
      K91 ", sec. 5 opening-force section, the Pflanz X1(A, n) curves for n = 1/2, 1, 2 (figure number not "
          "verified); Pflanz 1942"},
-    {"growth-exponent-slotted", "drag-area growth exponent, slotted (ribbon, ringslot, ringsail)",
-     K91 ", the Pflanz curves (from memory)", "none",
+    {"growth-exponent-slotted", "drag-area growth exponent, slotted (ribbon, ringslot, ringsail): typical and band",
+     K91 ", the Pflanz curves (from memory); the band from drop-test fits spreading about 0.5 .. 3 "
+         "(trade-facts.md section 6, from memory)", "none",
      K91 ", sec. 5 opening-force section, the Pflanz X1(A, n) curves (figure number not verified)"},
     {"growth-exponent-reefed", "drag-area growth exponent, a reefed stage",
      K91 ", the Pflanz curves (from memory)", "none",
@@ -36,10 +38,13 @@ static const sr_provenance MODELS[] = {
     {"cx-method", "opening force F = CD0 S0 q1 CX X1, X1 = 1 at infinite mass",
      K91 ", sec. 5 opening-force section (from memory)", "none",
      K91 ", sec. 5 opening-force section and its worked examples"},
-    {"filling-time-law", "filling time t_f = n D0 / v1", K91 ", Ch. 5 (from memory)", "none",
+    {"filling-time-law", "filling time t_f = n D0 / max(v1, v_s)",
+     K91 ", Ch. 5 (from memory); the floor at the steady rate v_s is our choice (docs/method.md 8)", "none",
      K91 ", Ch. 5 filling-time section and the filling-constant table (number not verified)"},
-    {"tumbling-drag", "a tumbling section without canopy: broadside cylinder drag, finite-length factor",
-     "our model (docs/method.md 7.5a); the cylinder data are published (Wieselsberger 1922, DNV-RP-C205)",
+    {"tumbling-drag", "a section falling without canopy: broadside, tumbling (cross-flow average) and end-on",
+     "our model (docs/method.md 7.5a): the cross-flow principle (Hoerner 1965, from memory) averaged over the "
+     "sphere (our derivation); the cylinder data are published (Wieselsberger 1922, DNV-RP-C205); end-on Cd 0.82 "
+     "(Hoerner 1965, from memory)",
      "none",
      "Hoerner 1965, Fluid-Dynamic Drag, the chapter on tumbling and autorotating bodies (section not verified); "
      "drop tests of tumbling cylinders"},
@@ -78,12 +83,21 @@ const sr_provenance *sr_provenance_growth(const char *canopy_class)
 void sr_provenance_value(const sr_provenance *p, char *buf, size_t len)
 {
     const char *id = p->id;
-    if (strcmp(id, "growth-exponent-solid") == 0)
-        snprintf(buf, len, "n = %g", sr_opening_class_exponent(SR_OPENING_SOLID));
-    else if (strcmp(id, "growth-exponent-slotted") == 0)
-        snprintf(buf, len, "n = %g", sr_opening_class_exponent(SR_OPENING_SLOTTED));
-    else if (strcmp(id, "growth-exponent-reefed") == 0)
-        snprintf(buf, len, "n = %g", sr_opening_class_exponent(SR_OPENING_REEFED));
+    static const struct {
+        const char *id;
+        sr_opening_class c;
+    } G[] = {{"growth-exponent-solid", SR_OPENING_SOLID},
+             {"growth-exponent-slotted", SR_OPENING_SLOTTED},
+             {"growth-exponent-reefed", SR_OPENING_REEFED}};
+    for (size_t i = 0; i < sizeof G / sizeof G[0]; i++)
+        if (strcmp(id, G[i].id) == 0) {
+            double lo, typ, hi;
+            sr_opening_class_band(G[i].c, &lo, &typ, &hi);
+            snprintf(buf, len, "n = %g, band %g .. %g", typ, lo, hi);
+            return;
+        }
+    if (0)
+        ;
     else if (strcmp(id, "cluster-factor") == 0)
         snprintf(buf, len, "%.2f for 2, %.2f for 3, %.2f for 4 or more canopies", sr_canopy_cluster_factor(2),
                  sr_canopy_cluster_factor(3), sr_canopy_cluster_factor(4));
@@ -104,7 +118,8 @@ void sr_provenance_value(const sr_provenance *p, char *buf, size_t len)
     else if (strcmp(id, "filling-time-law") == 0)
         snprintf(buf, len, "n per family (catalog)");
     else if (strcmp(id, "tumbling-drag") == 0)
-        snprintf(buf, len, "Cd(Re) of the cylinder curve times the length factor, on d x L");
+        snprintf(buf, len, "broadside Cd(Re) d L; tumbling 3 pi/16 of it plus 1/4 of the ends' 0.82 pi d^2/4; judged "
+                           "at the worse");
     else
         snprintf(buf, len, "-");
 }

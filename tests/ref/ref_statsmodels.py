@@ -21,7 +21,8 @@ SM = "statsmodels %s (Debian python3-statsmodels)" % statsmodels.__version__
 SRC_W = SM + ": proportion_confint(count, n, alpha=0.05, method='wilson') (Wilson 1927)"
 SRC_P = "binomial standard error sqrt(p(1-p)/n) of the share counted in the test"
 FLAG = {"touchdown speed": "over touchdown speed", "landing energy": "over landing energy",
-        "descent time": "over descent time", "drift": "over drift", "deployment pressure": "over deployment pressure"}
+        "descent time": "over descent time", "drift": "over drift", "deployment pressure": "over deployment pressure",
+        "Mach envelope": "over Mach envelope", "opening load": "over opening load"}
 
 tmp = tempfile.mkdtemp(prefix="sinkrate-ref-")
 atexit.register(shutil.rmtree, tmp, True)

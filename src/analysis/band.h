@@ -1,0 +1,77 @@
+/* band.h - the band runs of a mission: its staged descent at the typical
+ * value of every banded input and at the two ends of the bands (the fast end:
+ * every canopy at the low end of its drag range and every banded mass at its
+ * heavy end; the slow end: high drag, light masses), and the opening load of
+ * every deployment over its bands (loads.h). `profile`, `loads --mission`, the
+ * failure cases and the design search all run these, so they cannot disagree.
+ *
+ * Use: build a context once per mission (sr_band_ctx_new), a workspace per
+ * thread (sr_band_work_new); sr_band_run fills a caller-owned result. In the
+ * fast mode a run allocates nothing. The context is read-only after it is
+ * built and may be shared by threads. Nothing here prints. */
+#ifndef SR_BAND_H
+#define SR_BAND_H
+
+#include "analysis/loads.h"
+#include "base/error.h"
+#include "files/mission.h"
+#include "physics/profile.h"
+
+enum {
+    SR_BAND_TYPICAL = 0, /* every banded input at its typical value */
+    SR_BAND_FAST = 1,    /* low drag of every canopy, heavy end of every mass band: fast, hard landings */
+    SR_BAND_SLOW = 2,    /* high drag, light end: long, far-drifting descents */
+    SR_BAND_NRUNS = 3
+};
+
+typedef struct sr_band_ctx sr_band_ctx;
+typedef struct sr_band_work sr_band_work;
+
+typedef struct sr_band_result {
+    sr_profile_result run[SR_BAND_NRUNS];  /* indexed by SR_BAND_* */
+    size_t nstages;
+    sr_loads_band loads[SR_MISSION_MAX_STAGES]; /* opening load of each stage over its bands */
+} sr_band_result;
+
+/* Build the band context of a mission (one profile context, built with the
+ * options po, NULL for the defaults: failure case, attitude, tolerances). The
+ * mission is copied where needed; it need not outlive the context. */
+int sr_band_ctx_new(sr_band_ctx **bc, const sr_mission *m, const sr_profile_opts *po, sr_error *err);
+void sr_band_ctx_free(sr_band_ctx *bc);
+
+/* The profile context inside (for air and wind look-ups, plots). */
+const sr_profile_ctx *sr_band_profile(const sr_band_ctx *bc);
+
+/* The band factors of stage k's drag area and section i's mass at the fast and
+ * slow ends (1 when not banded). */
+double sr_band_drag_factor(const sr_band_ctx *bc, size_t k, int end);
+double sr_band_mass_factor(const sr_band_ctx *bc, size_t i, int end);
+
+/* The loads canopy of stage k (its bands as the opening loads use them). */
+const sr_loads_canopy *sr_band_loads_canopy(const sr_band_ctx *bc, size_t k);
+
+int sr_band_work_new(sr_band_work **w, sr_error *err);
+void sr_band_work_free(sr_band_work *w);
+
+/* Run the three descents and the opening loads. design: changes of this
+ * candidate against the mission (sizes by area_scale, deployment heights, a
+ * sample's draws...), NULL for none; the band factors multiply its drag and
+ * mass scales. mode: SR_PROFILE_FULL (ODE transients, adaptive opening
+ * solver) or SR_PROFILE_FAST (tables, reused transients, the fast opening
+ * solver). w: a workspace (NULL allocates one for the call). track: points of
+ * the typical run for plots (NULL: none). */
+int sr_band_run(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode, sr_band_work *w,
+                sr_band_result *r, sr_profile_track *track, sr_error *err);
+
+/* The same with points for plots and maps of each run (tracks[SR_BAND_*],
+ * NULL entries: none). */
+int sr_band_run_tracked(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode,
+                        sr_band_work *w, sr_band_result *r, sr_profile_track *const tracks[SR_BAND_NRUNS],
+                        sr_error *err);
+
+/* The state at line stretch of stage k in one run of a profile context (for
+ * sr_loads_evaluate); valid = 0 when it did not deploy. The drag area is the
+ * run's own (a band-end run's includes its band factor). */
+void sr_band_state(const sr_profile_ctx *ctx, const sr_profile_result *run, size_t k, sr_loads_state *s);
+
+#endif

@@ -1,0 +1,144 @@
+/* loads.c - the opening load of a deployment over every banded input (the
+ * run's state, own drag, growth exponent, opening-load factor); the highest
+ * governs. */
+#include "analysis/loads.h"
+
+#include <math.h>
+#include <string.h>
+
+#include "physics/units.h"
+
+void sr_loads_canopy_init(sr_loads_canopy *lc, const sr_canopy *cp)
+{
+    memset(lc, 0, sizeof *lc);
+    const double cds[3] = {cp->cds.lo, cp->cds.typ, cp->cds.hi}, d0[3] = {cp->d0.lo, cp->d0.typ, cp->d0.hi};
+    for (int k = 0; k < 3; k++) {
+        lc->cds_ratio[k] = cp->cds.typ > 0 ? cds[k] / cp->cds.typ : 1.0;
+        lc->d0_ratio[k] = cp->d0.typ > 0 ? d0[k] / cp->d0.typ : 1.0;
+    }
+    lc->count = cp->count;
+    lc->n_fill = cp->fam.fill_n;
+    lc->cx = cp->fam.cx;
+    lc->growth = cp->fam.growth;
+    lc->mach_max = isfinite(cp->fam.mach_max) ? cp->fam.mach_max : 0.0;
+    lc->measured = cp->opening;
+    lc->measured_value = cp->opening_value;
+}
+
+void sr_loads_input(const sr_loads_canopy *c, const sr_loads_state *s, int drag, double exponent, double cx,
+                    sr_opening_input *in)
+{
+    sr_opening_input_init(in);
+    in->cds0 = s->cds0 * c->cds_ratio[drag];
+    in->d0 = s->d0 * c->d0_ratio[drag];
+    in->count = c->count;
+    in->mass = s->mass;
+    in->v1 = s->v1;
+    in->path_angle = s->path_angle;
+    in->rho = s->rho;
+    in->a = s->a;
+    in->g = s->g;
+    in->n_fill = c->n_fill;
+    in->cx = cx;
+    in->exponent = exponent;
+    in->mach_envelope = c->mach_max;
+    in->v_steady = s->v_steady;
+}
+
+/* One combination at two opening-load factors: the governing (highest)
+ * estimate at cx_lo and at cx_hi (a measured opening replaces them). */
+static int combo(const sr_loads_canopy *c, const sr_loads_state *s, int drag, double n, double cx_lo, double cx_hi,
+                 int fast, double *f_lo, double *f_hi, double *t_fill, int *slow, sr_error *err)
+{
+    sr_opening_input in;
+    sr_loads_input(c, s, drag, n, cx_hi, &in);
+    int rc;
+    if (fast) {
+        sr_opening_quick q;
+        if ((rc = sr_opening_solve_fast(&in, &q, err)) != SR_OK)
+            return rc;
+        *f_hi = sr_opening_quick_high(&q, cx_hi);
+        *f_lo = sr_opening_quick_high(&q, cx_lo);
+        *t_fill = q.t_fill;
+        *slow = q.slow_deployment;
+    } else {
+        sr_opening_result r;
+        if ((rc = sr_opening_solve(&in, &r, err)) != SR_OK)
+            return rc;
+        *f_hi = r.f_high;
+        *t_fill = r.t_fill;
+        *slow = r.slow_deployment;
+        if (cx_lo != cx_hi) {
+            in.cx = cx_lo;
+            if ((rc = sr_opening_solve(&in, &r, err)) != SR_OK)
+                return rc;
+        }
+        *f_lo = r.f_high;
+    }
+    if (c->measured == SR_OPENING_MEASURED_FACTOR)
+        *f_lo = *f_hi = c->measured_value * in.count * in.cds0 * 0.5 * s->rho * s->v1 * s->v1;
+    else if (c->measured == SR_OPENING_MEASURED_LOAD)
+        *f_lo = *f_hi = c->measured_value;
+    return SR_OK;
+}
+
+static void set_end(sr_loads_end *e, double f, double mass, int state, int drag, double n, double cx)
+{
+    e->force = f;
+    e->decel_g = f / (mass * SR_G0);
+    e->state = state;
+    e->drag = drag;
+    e->exponent = n;
+    e->cx = cx;
+}
+
+int sr_loads_evaluate(const sr_loads_canopy *c, const sr_loads_state st[SR_LOADS_NSTATES], int fast,
+                      sr_loads_band *out, sr_error *err)
+{
+    memset(out, 0, sizeof *out);
+    out->measured = c->measured != SR_OPENING_ESTIMATED;
+    const sr_loads_state *t = &st[0];
+    if (!t->valid || !(t->v1 > 0.0))
+        return SR_OK;
+    int rc, slow;
+    double lo, hi, tf;
+    if ((rc = combo(c, t, 1, c->growth.typ, c->cx.typ, c->cx.typ, fast, &lo, &hi, &tf, &slow, err)) != SR_OK)
+        return rc;
+    out->valid = 1;
+    set_end(&out->typ, hi, t->mass, 0, 1, c->growth.typ, c->cx.typ);
+    out->t_fill_typ = tf;
+    out->slow_deployment = slow;
+    /* the ends from the band-end runs where they deployed, else the typical */
+    int use[SR_LOADS_NSTATES] = {0, st[1].valid && st[1].v1 > 0.0, st[2].valid && st[2].v1 > 0.0};
+    if (!use[1] && !use[2])
+        use[0] = 1;
+    out->lo = out->hi = out->typ;
+    out->v_lo = out->v_hi = out->v_typ = t->v1;
+    out->q_lo = out->q_hi = out->q_typ = 0.5 * t->rho * t->v1 * t->v1;
+    out->mach_lo = out->mach_hi = out->mach_typ = t->v1 / t->a;
+    const int drags[2] = {0, 2};
+    const double ns[2] = {c->growth.lo, c->growth.hi};
+    for (int s = 0; s < SR_LOADS_NSTATES; s++) {
+        if (!use[s])
+            continue;
+        const sr_loads_state *x = &st[s];
+        double q = 0.5 * x->rho * x->v1 * x->v1, mach = x->v1 / x->a;
+        out->v_lo = fmin(out->v_lo, x->v1), out->v_hi = fmax(out->v_hi, x->v1);
+        out->q_lo = fmin(out->q_lo, q), out->q_hi = fmax(out->q_hi, q);
+        out->mach_lo = fmin(out->mach_lo, mach), out->mach_hi = fmax(out->mach_hi, mach);
+        for (int d = 0; d < 2; d++)
+            for (int j = 0; j < 2; j++) {
+                if (j == 1 && ns[1] == ns[0])
+                    continue;
+                if ((rc = combo(c, x, drags[d], ns[j], c->cx.lo, c->cx.hi, fast, &lo, &hi, &tf, &slow, err)) !=
+                    SR_OK)
+                    return rc;
+                if (hi > out->hi.force)
+                    set_end(&out->hi, hi, x->mass, s, drags[d], ns[j], c->cx.hi);
+                if (lo < out->lo.force)
+                    set_end(&out->lo, lo, x->mass, s, drags[d], ns[j], c->cx.lo);
+            }
+    }
+    out->above_envelope = c->mach_max > 0 && out->mach_hi > c->mach_max;
+    return SR_OK;
+}
