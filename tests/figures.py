@@ -358,7 +358,7 @@ def check_figure(gp):
           (name, len(panels), "s" if len(panels) > 1 else "", nboxes, "es" if nboxes != 1 else ""))
 
 
-SI_UNITS = re.compile(r"\[(m|m/s|kg|N|Pa|hPa|km|m2|kg/m2)\]|\b\d+(\.\d+)? (m|m/s|kg|N|Pa|hPa|km)\b|°C")
+SI_UNITS = re.compile(r"\[(m|m/s|kg|N|Pa|hPa|km|m2|kg/m2)\]|\b\d+(\.\d+)? (m|m/s|kg|N|Pa|hPa|km|K)\b(?! g /)|°C")
 
 
 def check_us(sinkrate, tmp):
@@ -370,6 +370,8 @@ def check_us(sinkrate, tmp):
         ("us-scatter", ["dispersion", "payloads/desert-club-rocket.yaml", "-n", "2000", "--seed", "1"]),
         ("us-freefall", ["freefall", "--body", "sphere", "--diameter", "4in", "--mass", "2lb", "--altitude",
                          "0ft,10000ft"]),
+        ("us-fit", ["fit", "payloads/demo-flight.csv", "--mission", "payloads/desert-club-rocket.yaml",
+                    "--pressure-altitude"]),
     ]
     for name, args in cases:
         prefix = os.path.join(tmp, name)

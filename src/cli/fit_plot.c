@@ -252,7 +252,15 @@ int sr_fit_plots(sr_cli *c, sr_fit_result **res, size_t nlogs, const sr_fit_setu
     sr_plot *p = sr_plot_new(title);
     if (!p)
         return sr_cli_fail(c, "out of memory");
-    int rc = sr_plot_subtitle(p, res[0]->conversion);
+    /* the analysis words the conversion in SI (the report's note); a figure speaks the units of --units */
+    char sub[600], air[256];
+    const char *conv = res[0]->conversion, *paren = strstr(conv, "site's air (");
+    if (c->units != SR_UNITS_SI && setups[0].atmos && paren) {
+        sr_cli_atmos_short(setups[0].atmos, c->units, air, sizeof air);
+        snprintf(sub, sizeof sub, "%.*s (%s)", (int)(paren + strlen("site's air") - conv), conv, air);
+        conv = sub;
+    }
+    int rc = sr_plot_subtitle(p, conv);
     rc = rc ? rc : time_figure(c, p, res, nlogs, setups);
     if (rc) {
         sr_plot_free(p);

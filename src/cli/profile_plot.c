@@ -238,8 +238,9 @@ static int track_figure(const plot_ctx *P, sr_plot *p)
             double row[] = {L(P, h), V(P, hypot(we, wn)), V(P, we), V(P, wn)};
             rc = sr_plot_row(p, fb, row);
         }
-        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 2, .y = 1, .title = "speed",
-                            .color = 1};
+        /* a colour of its own: in a legend strip above both panels it stands beside the tracks */
+        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 2, .y = 1, .title = "wind speed",
+                            .color = 7};
         sr_plot_series e = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 3, .y = 1,
                             .title = "toward east", .color = 3, .dash = 1};
         sr_plot_series n = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 4, .y = 1,

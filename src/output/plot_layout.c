@@ -163,6 +163,23 @@ static double tic_step(double range)
     return t * power;
 }
 
+/* The next tic step of the 1, 2, 5 sequence above step. */
+static double next_step(double step)
+{
+    double p = pow(10.0, floor(log10(step) + 1e-9)), m = step / p;
+    return (m < 1.5 ? 2.0 : m < 3.5 ? 5.0 : 10.0) * p;
+}
+
+/* gnuplot's step, made coarser until its tics are at least min_px apart on
+ * an axis px long (a short panel would get its labels on top of each other). */
+static double tic_step_px(double range, double px, double min_px)
+{
+    double st = tic_step(range);
+    while (px > 0 && range / st * min_px > px)
+        st = next_step(st);
+    return st;
+}
+
 /* 1, 2, 5 times a power of ten at or below (up = 0) or at or above v > 0. */
 static double nice125(double v, int up)
 {
@@ -183,8 +200,10 @@ static double nice125(double v, int up)
 /* The range of one axis: given ends kept, the rest from the data (whole tic
  * steps, or at the data for a tight axis), then every marker line at least
  * 1.5 % of the span inside the frame. */
-static void axis_range(const sr_plot *p, int panel, char axis, double *lo_out, double *hi_out, double *step)
+static void axis_range(const sr_plot *p, int panel, char axis, double px, double *lo_out, double *hi_out,
+                       double *step)
 {
+    double min_px = axis == 'x' ? 60.0 : 26.0; /* tic labels side by side need more room than stacked ones */
     const paxes *a = &p->axes[panel];
     int X = axis == 'x', log = X ? a->xlog : a->ylog, tight = X ? a->xtight : a->ytight;
     double fixlo = X ? a->xmin : a->ymin, fixhi = X ? a->xmax : a->ymax;
@@ -224,14 +243,15 @@ static void axis_range(const sr_plot *p, int panel, char axis, double *lo_out, d
                 hi = nice125(hi, 1);
         }
     } else {
-        double st = tic_step(hi - lo);
+        /* the ends at gnuplot's own step, the labelled tics as far apart as the panel needs */
+        double fine = tic_step(hi - lo), st = tic_step_px(hi - lo, px, min_px);
         if (!tight) {
             if (isnan(fixlo))
-                lo = st * floor(lo / st + 1e-9);
+                lo = fine * floor(lo / fine + 1e-9);
             if (isnan(fixhi))
-                hi = st * ceil(hi / st - 1e-9);
+                hi = fine * ceil(hi / fine - 1e-9);
         }
-        *step = tight || !isnan(fixlo) || !isnan(fixhi) ? tic_step(hi - lo) : st;
+        *step = tight || !isnan(fixlo) || !isnan(fixhi) ? tic_step_px(hi - lo, px, min_px) : st;
     }
     /* marker lines off the frame: the end moves out by a tic step (or 3 % of
      * the span when the end is at the data or given) */
@@ -242,16 +262,17 @@ static void axis_range(const sr_plot *p, int panel, char axis, double *lo_out, d
                 continue;
             double t = log ? log10(m->value) : m->value, tl = log ? log10(lo) : lo, th = log ? log10(hi) : hi;
             double span = th - tl, near = 0.015 * span;
-            double move = !log && !tight && *step > 0 ? fmax(*step, 0.03 * span) : 0.03 * span;
+            double fine = !log && !tight && *step > 0 ? tic_step(span) : 0.0;
+            double move = fine > 0 ? fmax(fine, 0.03 * span) : 0.03 * span;
             if (t - tl < near) {
                 tl = fmin(tl, t) - move;
-                if (!log && !tight && *step > 0)
-                    tl = *step * floor(tl / *step + 1e-9);
+                if (fine > 0)
+                    tl = fine * floor(tl / fine + 1e-9);
             }
             if (th - t < near) {
                 th = fmax(th, t) + move;
-                if (!log && !tight && *step > 0)
-                    th = *step * ceil(th / *step - 1e-9);
+                if (fine > 0)
+                    th = fine * ceil(th / fine - 1e-9);
             }
             lo = log ? pow(10.0, tl) : tl;
             hi = log ? pow(10.0, th) : th;
@@ -556,8 +577,8 @@ static void ranges(const sr_plot *p, plot_layout *L)
 {
     for (int k = 0; k < p->panels; k++) {
         panel_layout *P = &L->pan[k];
-        axis_range(p, k, 'x', &P->x0, &P->x1, &P->xstep);
-        axis_range(p, k, 'y', &P->y0, &P->y1, &P->ystep);
+        axis_range(p, k, 'x', P->fw, &P->x0, &P->x1, &P->xstep);
+        axis_range(p, k, 'y', P->fh, &P->y0, &P->y1, &P->ystep);
         const paxes *a = &p->axes[k];
         /* one scale on both axes: the shorter range widens about its middle to the frame's shape */
         if (a->equal && !a->xlog && !a->ylog && isfinite(P->x0) && isfinite(P->y0)) {
@@ -566,12 +587,12 @@ static void ranges(const sr_plot *p, plot_layout *L)
                 double c = 0.5 * (P->y0 + P->y1), h = 0.5 * sx * P->fh;
                 P->y0 = c - h;
                 P->y1 = c + h;
-                P->ystep = tic_step(P->y1 - P->y0);
+                P->ystep = tic_step_px(P->y1 - P->y0, P->fh, 26.0);
             } else {
                 double c = 0.5 * (P->x0 + P->x1), h = 0.5 * sy * P->fw;
                 P->x0 = c - h;
                 P->x1 = c + h;
-                P->xstep = tic_step(P->x1 - P->x0);
+                P->xstep = tic_step_px(P->x1 - P->x0, P->fw, 60.0);
             }
             /* a map shows its tics at the step of its longer side */
             P->xstep = P->ystep = fmax(P->xstep, P->ystep);
