@@ -566,8 +566,8 @@ static void test_sounding_csv(void **state)
     char d[512];
     sr_atmos_describe(&m, d, sizeof d);
     assert_non_null(strstr(d, path));
-    sr_atmos_free(&m);
-    sr_atmos_free(&m); /* idempotent */
+    sr_atmos_release(&m);
+    sr_atmos_release(&m); /* idempotent */
     unlink(path);
 }
 
@@ -635,7 +635,7 @@ static void test_sounding_errors(void **state)
     char d[128];
     sr_atmos_describe(&m, d, sizeof d);
     assert_string_equal(d, "sounding table (2 rows, 0 m .. 100 m)");
-    sr_atmos_free(&m);
+    sr_atmos_release(&m);
 }
 
 /* ---- out of range ------------------------------------------------------- */

@@ -60,7 +60,7 @@ static char *make_log(size_t *len_out)
     if (sr_mission_load(m, sr_test_path("payloads/desert-club-rocket.yaml"), cat, &e))
         fail_msg("%s", e.msg);
     sr_profile_ctx *ctx;
-    if (sr_profile_ctx_new(&ctx, m, NULL, &e))
+    if (sr_mission_profile(&ctx, m, NULL, &e))
         fail_msg("%s", e.msg);
     sr_profile_track tr = {.cap = 200000, .dt = 0.02};
     tr.pt = malloc(tr.cap * sizeof *tr.pt);
@@ -146,7 +146,7 @@ static char *make_log(size_t *len_out)
     free(res);
     free(tr.pt);
     sr_profile_ctx_free(ctx);
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
     free(cat);
     *len_out = len;

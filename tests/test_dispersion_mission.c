@@ -90,7 +90,7 @@ static sr_mission *load(const char *wind, const char *unc)
 
 static void drop(sr_mission *m)
 {
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
 }
 

@@ -66,7 +66,7 @@ static sr_mission *load(const char *yaml)
 
 static void drop(sr_mission *m)
 {
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
 }
 
@@ -79,7 +79,7 @@ static sr_profile_ctx *ctx_failed(const sr_mission *m, unsigned failed, double r
     o.uniform_density = rho;
     sr_profile_ctx *c;
     sr_error e;
-    if (sr_profile_ctx_new(&c, m, &o, &e))
+    if (sr_mission_profile(&c, m, &o, &e))
         fail_msg("context: %s", e.msg);
     return c;
 }

@@ -164,7 +164,7 @@ static int fit_synth(const synth *S, uint64_t seed, sr_fit_result *r, sr_error *
     s.mass = S->m;
     rc = sr_fit_log(&log, &s, r, e);
     sr_flightlog_free(&log);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     return rc;
 }
 
@@ -317,7 +317,7 @@ static void test_pressure_altitude_hot_day(void **state)
     assert_true(r.stage[0].cds < r.stage[0].cds_raw);
     sr_fit_result_free(&r);
     sr_flightlog_free(&log);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
 }
 
 /* ---- logs made by the staged descent of each demo mission, fitted back ---- */
@@ -338,7 +338,7 @@ static void test_profile_logs_fitted_back(void **state)
         if (sr_mission_load(m, sr_test_path(MISSIONS[q].file), CAT, &e))
             fail_msg("%s", e.msg);
         sr_profile_ctx *ctx;
-        if (sr_profile_ctx_new(&ctx, m, NULL, &e))
+        if (sr_mission_profile(&ctx, m, NULL, &e))
             fail_msg("%s", e.msg);
         sr_profile_track tr = {.cap = 400000, .dt = 0.05};
         tr.pt = malloc(tr.cap * sizeof *tr.pt);
@@ -393,7 +393,7 @@ static void test_profile_logs_fitted_back(void **state)
         free(res);
         free(tr.pt);
         sr_profile_ctx_free(ctx);
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     }
 }
@@ -463,7 +463,7 @@ static void test_cli_demo(void **state)
     sr_mission *m = calloc(1, sizeof *m);
     if (sr_mission_load(m, sr_test_tmpfile(".yaml", mission), CAT, &e))
         fail_msg("the wind table: %s", e.msg);
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
 }
 

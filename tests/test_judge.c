@@ -185,7 +185,7 @@ static sr_mission *load(const char *yaml)
 
 static void drop(sr_mission *m)
 {
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
 }
 

@@ -274,7 +274,7 @@ static void test_values_read(void **state)
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "10 kn from the west at the ground",
                     "NIST SP 811 (2008): 1 kn = 1852/3600 m/s; WMO direction convention", 10 * 1852.0 / 3600.0, east,
                     1e-12);
-    sr_mission_free(&m);
+    sr_mission_release(&m);
     free(cat);
 }
 
@@ -301,7 +301,7 @@ static void test_text_is_text(void **state)
         fail_msg("%s", e.msg);
     assert_string_equal(m.sections[0].name, "a [[[[[[[[[[[[[[[[[[");
     assert_true(m.sections[1].mass == 2.0);
-    sr_mission_free(&m);
+    sr_mission_release(&m);
     free(cat);
 }
 

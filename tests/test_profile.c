@@ -73,7 +73,7 @@ static sr_mission *load_file(const char *rel)
 
 static void drop(sr_mission *m)
 {
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
 }
 
@@ -85,7 +85,7 @@ static sr_profile_ctx *ctx_of(const sr_mission *m, double steady_tol, double rho
     o.uniform_density = rho;
     sr_profile_ctx *c;
     sr_error e;
-    if (sr_profile_ctx_new(&c, m, &o, &e))
+    if (sr_mission_profile(&c, m, &o, &e))
         fail_msg("context: %s", e.msg);
     return c;
 }
@@ -358,7 +358,7 @@ static void test_separation(void **state)
     o.uniform_density = RHO;
     o.failed = 1u << 1;
     sr_error e;
-    assert_int_equal(sr_profile_ctx_new(&c, m, &o, &e), SR_OK);
+    assert_int_equal(sr_mission_profile(&c, m, &o, &e), SR_OK);
     run(c, NULL, SR_PROFILE_FULL, &r);
     assert_int_equal(r.stage[1].deployed, 0);
     /* the payload main then carries part of the body: the payload separates with it */
@@ -367,7 +367,7 @@ static void test_separation(void **state)
                     sqrt(2 * 3 * G0 / (RHO * cd_dro)), r.body[0].rate_land, 1e-9);
     sr_profile_ctx_free(c);
     o.failed = 7;
-    assert_int_equal(sr_profile_ctx_new(&c, m, &o, &e), SR_OK);
+    assert_int_equal(sr_mission_profile(&c, m, &o, &e), SR_OK);
     run(c, NULL, SR_PROFILE_FULL, &r);
     /* no canopy, no body drag: free fall from 1200 m starting level at 10 m/s */
     CHECK_REL_CLASS(SR_CHECK_METHOD, "no canopy, no drag: impact descent rate sqrt(2 g h)",

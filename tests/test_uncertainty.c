@@ -215,7 +215,7 @@ static int parse(const char *text, sr_mission *m, sr_error *e)
         return rc;
     rc = sr_mission_parse(m, &y, CAT, e);
     sr_yaml_free(&y);
-    sr_mission_free(m);
+    sr_mission_release(m);
     return rc;
 }
 

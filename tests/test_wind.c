@@ -117,7 +117,7 @@ static void test_table_components(void **state)
     assert_true(sr_wind_top(&w) == 300.0);
     size_t nk;
     assert_true(sr_wind_knots(&w, &nk) == w.h && nk == 3);
-    sr_wind_free(&w);
+    sr_wind_release(&w);
 }
 
 static void test_bad_models(void **state)
@@ -156,7 +156,7 @@ static void test_csv(void **state)
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "table wind at the site from an altitude column in knots",
                     "NIST SP 811 (2008) App. B: 1 kn = 1852/3600 m/s", 10 * 1852.0 / 3600.0, hypot(east, north), 1e-12);
     assert_true(fabs(sr_wind_top(&w) - 1000.0) < 1e-9);
-    sr_wind_free(&w);
+    sr_wind_release(&w);
 
     struct {
         const char *text, *want;

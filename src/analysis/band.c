@@ -42,7 +42,7 @@ int sr_band_ctx_new(sr_band_ctx **out, const sr_mission *m, const sr_profile_opt
         bc->mass[SR_BAND_FAST][i] = s->mass_hi > 0 ? s->mass_hi / s->mass : 1.0;
         bc->mass[SR_BAND_SLOW][i] = s->mass_lo > 0 ? s->mass_lo / s->mass : 1.0;
     }
-    int rc = sr_profile_ctx_new(&bc->ctx, m, po, err);
+    int rc = sr_mission_profile(&bc->ctx, m, po, err);
     if (rc) {
         free(bc);
         return rc;

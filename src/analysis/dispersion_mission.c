@@ -141,7 +141,7 @@ int sr_disp_mission_init(sr_disp_mission *dm, const sr_mission *m, const sr_prof
         if (need > o.top_margin)
             o.top_margin = need;
     }
-    int rc = sr_profile_ctx_new(&dm->ctx, m, &o, err);
+    int rc = sr_mission_profile(&dm->ctx, m, &o, err);
     if (rc)
         return rc;
     const sr_profile_result *nom = sr_profile_nominal(dm->ctx);

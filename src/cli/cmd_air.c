@@ -123,6 +123,6 @@ int sr_cmd_air(sr_cli *c, int argc, char **argv)
 out:
     free(z);
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     return rc;
 }

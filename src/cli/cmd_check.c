@@ -75,7 +75,7 @@ static int check_yaml(const sr_catalog *cat, const char *path, sr_yaml_errors *l
                      m->has_start && sized ? ", its descent flies" : "");
             sr_input_warnings_mission(iw, m, NULL, sys);
         }
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     } else if (sr_yaml_get(&y, root, "canopy")) {
         snprintf(kind, klen, "canopy");
@@ -199,14 +199,14 @@ static int check_csv(const char *path, char *kind, size_t klen, char *what, size
         double lo, hi;
         sr_atmos_range(&a, &lo, &hi);
         snprintf(what, wlen, "%.0f .. %.0f m", lo, hi);
-        sr_atmos_free(&a);
+        sr_atmos_release(&a);
     } else if (has_name(names, n, "speed") || has_name(names, n, "from")) {
         snprintf(kind, klen, "wind table");
         sr_wind w;
         if ((rc = sr_wind_load_table(&w, path, 0.0, e)))
             return rc;
         snprintf(what, wlen, "%zu rows", w.n);
-        sr_wind_free(&w);
+        sr_wind_release(&w);
     } else if (has_name(names, n, "re") || has_name(names, n, "cd")) {
         snprintf(kind, klen, "drag table");
         sr_bluff_curve cv;

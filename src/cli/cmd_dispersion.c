@@ -816,7 +816,7 @@ out:
     sr_disp_result_free(&res);
     sr_disp_mission_free(&dm);
     if (m) {
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     }
     free(st);

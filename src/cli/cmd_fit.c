@@ -840,7 +840,7 @@ out:
     free(s);
     free(last);
     free(names);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     free(cat);
     return rc;

@@ -639,7 +639,7 @@ out:
     sr_report_free(r);
     free(res);
     free(alt);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_bluff_curve_free(&curve);
     return rc;
 }

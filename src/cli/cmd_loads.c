@@ -861,7 +861,7 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     sr_band_ctx_free(bc);
     free(BR);

@@ -735,7 +735,7 @@ out:
     sr_band_work_free(w);
     sr_band_ctx_free(bc);
     if (m) {
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     }
     free(B);

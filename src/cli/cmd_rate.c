@@ -197,7 +197,7 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
 out:
     free(alt);
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     free(cat);
     return rc;

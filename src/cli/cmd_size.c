@@ -236,7 +236,7 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     rc = sr_cli_emit(c, r);
 out:
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     free(cat);
     return rc;

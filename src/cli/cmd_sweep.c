@@ -1133,7 +1133,7 @@ out:
     free(R->xs);
     free(R->rows);
     free(R->curves);
-    sr_atmos_free(&R->atm);
+    sr_atmos_release(&R->atm);
     sr_cli_mission_free(R->mis);
     free(R->cat);
     free(R);

@@ -486,7 +486,7 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
 void sr_cli_mission_free(sr_mission *mis)
 {
     if (mis) {
-        sr_mission_free(mis);
+        sr_mission_release(mis);
         free(mis);
     }
 }

@@ -883,16 +883,16 @@ int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_e
     rc = sr_mission_parse(m, &y, cat, err);
     sr_yaml_free(&y);
     if (rc)
-        sr_mission_free(m);
+        sr_mission_release(m);
     return rc;
 }
 
-void sr_mission_free(sr_mission *m)
+void sr_mission_release(sr_mission *m)
 {
     for (size_t i = 0; i < SR_MISSION_MAX_SECTIONS; i++)
         sr_bluff_curve_free(&m->sections[i].curve);
-    sr_atmos_free(&m->atmos);
-    sr_wind_free(&m->wind);
+    sr_atmos_release(&m->atmos);
+    sr_wind_release(&m->wind);
 }
 
 int sr_mission_has_limits(const sr_mission *m)

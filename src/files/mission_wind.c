@@ -75,7 +75,7 @@ static int parse_rows(sr_mission *m, const sr_yaml *y, yaml_node_t *rows, sr_err
             rc = sr_yaml_fail(y, r, err, "%s", e.msg);
             break;
         }
-        sr_wind_free(&one);
+        sr_wind_release(&one);
     }
     if (!rc) {
         sr_error e;

@@ -147,7 +147,29 @@ int sr_atmos_init_site(sr_atmos *m, double z_site, double T_s, double p_s, sr_er
     return SR_OK;
 }
 
-void sr_atmos_free(sr_atmos *m)
+int sr_atmos_copy(sr_atmos *dst, const sr_atmos *src, sr_error *err)
+{
+    sr_atmos_release(dst);
+    *dst = *src;
+    dst->sz = dst->sT = dst->slnp = NULL;
+    if (src->kind != SR_ATMOS_SOUNDING)
+        return SR_OK;
+    size_t b = src->n * sizeof(double);
+    dst->sz = malloc(b);
+    dst->sT = malloc(b);
+    dst->slnp = malloc(b);
+    if (!dst->sz || !dst->sT || !dst->slnp) {
+        sr_atmos_release(dst);
+        sr_atmos_init_standard(dst);
+        return sr_error_set(err, SR_ENOMEM, "out of memory for a copy of the sounding");
+    }
+    memcpy(dst->sz, src->sz, b);
+    memcpy(dst->sT, src->sT, b);
+    memcpy(dst->slnp, src->slnp, b);
+    return SR_OK;
+}
+
+void sr_atmos_release(sr_atmos *m)
 {
     if (!m)
         return;
@@ -213,7 +235,7 @@ int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const 
     m->sT = malloc(n * sizeof *m->sT);
     m->slnp = malloc(n * sizeof *m->slnp);
     if (!m->sz || !m->sT || !m->slnp) {
-        sr_atmos_free(m);
+        sr_atmos_release(m);
         return sr_error_set(err, SR_ENOMEM, "out of memory for the sounding");
     }
     for (size_t i = 0; i < n; i++) {

@@ -41,7 +41,7 @@ typedef enum sr_atmos_kind {
 } sr_atmos_kind;
 
 /* Caller-owned model; initialise with one of the sr_atmos_init_* calls and
- * release with sr_atmos_free (only the sounding holds memory). */
+ * release with sr_atmos_release (only the sounding holds memory). */
 typedef struct sr_atmos {
     sr_atmos_kind kind;
     double dT;        /* offset / site temperature offset from standard, K */
@@ -80,7 +80,10 @@ int sr_atmos_init_site(sr_atmos *m, double z_site, double T_s, double p_s, sr_er
 int sr_atmos_load_sounding(sr_atmos *m, const char *path, sr_error *err);
 int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
                            sr_error *err);
-void sr_atmos_free(sr_atmos *m);
+/* Deep copy (a sounding's arrays are duplicated): dst, initialised or
+ * released before, afterwards owns its own memory. */
+int sr_atmos_copy(sr_atmos *dst, const sr_atmos *src, sr_error *err);
+void sr_atmos_release(sr_atmos *m);
 
 /* The air at geometric altitude z (m above mean sea level). Outside the
  * model's range: SR_EDOMAIN with a message naming the range. */

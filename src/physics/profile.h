@@ -14,9 +14,10 @@
 #include <stddef.h>
 
 #include "base/error.h"
-#include "files/mission.h"
+#include "physics/bluff.h"
+#include "physics/descent_spec.h"
 
-#define SR_PROFILE_MAX_BODIES SR_MISSION_MAX_SECTIONS
+#define SR_PROFILE_MAX_BODIES SR_DESCENT_MAX_SECTIONS
 #define SR_PROFILE_MAX_EVENTS 96
 
 typedef enum sr_profile_mode {
@@ -52,18 +53,18 @@ void sr_profile_opts_init(sr_profile_opts *o);
 /* Changes of one sample against the mission (issue: landing dispersion).
  * sr_profile_perturb_init gives the identity. */
 typedef struct sr_profile_perturb {
-    double drag_scale[SR_MISSION_MAX_STAGES]; /* x drag area of each stage (1) */
-    double area_scale[SR_MISSION_MAX_STAGES]; /* x nominal area of each stage's canopies (1): a change of size,
+    double drag_scale[SR_DESCENT_MAX_STAGES]; /* x drag area of each stage (1) */
+    double area_scale[SR_DESCENT_MAX_STAGES]; /* x nominal area of each stage's canopies (1): a change of size,
                                                * so the drag area, the fabric mass and D0^2 scale with it */
-    double section_mass_scale[SR_MISSION_MAX_SECTIONS]; /* x the mass of each section (1), with mass_scale */
+    double section_mass_scale[SR_DESCENT_MAX_SECTIONS]; /* x the mass of each section (1), with mass_scale */
     double mass_scale;                         /* x every section mass (1) */
     double wind_scale;                         /* x wind speed at every height (1) */
     double wind_turn;                          /* rad added to the wind direction at every height (0) */
     double wind_east, wind_north;              /* m/s, a uniform wind added after scale and turn (0) */
     double start_height;                       /* m added to the start height (0) */
     double start_speed;                        /* m/s added to the start speed (0) */
-    double deploy_height[SR_MISSION_MAX_STAGES]; /* m added to each height event (0) */
-    double deploy_delay[SR_MISSION_MAX_STAGES];  /* s added to each delay event (0) */
+    double deploy_height[SR_DESCENT_MAX_STAGES]; /* m added to each height event (0) */
+    double deploy_delay[SR_DESCENT_MAX_STAGES];  /* s added to each delay event (0) */
 } sr_profile_perturb;
 
 void sr_profile_perturb_init(sr_profile_perturb *p);
@@ -150,19 +151,19 @@ typedef struct sr_profile_result {
     int events_dropped;     /* events beyond SR_PROFILE_MAX_EVENTS */
     sr_profile_event events[SR_PROFILE_MAX_EVENTS]; /* sorted by time */
     size_t nstages;
-    sr_profile_stage stage[SR_MISSION_MAX_STAGES];
+    sr_profile_stage stage[SR_DESCENT_MAX_STAGES];
     size_t nbodies;
     sr_profile_body body[SR_PROFILE_MAX_BODIES];
     size_t nsections;
-    int section_body[SR_MISSION_MAX_SECTIONS];      /* body each section lands with */
-    double section_rate[SR_MISSION_MAX_SECTIONS];   /* its touchdown descent rate, m/s */
-    double section_energy[SR_MISSION_MAX_SECTIONS]; /* 1/2 m v^2 at that rate, J; a rigid pair counts as
+    int section_body[SR_DESCENT_MAX_SECTIONS];      /* body each section lands with */
+    double section_rate[SR_DESCENT_MAX_SECTIONS];   /* its touchdown descent rate, m/s */
+    double section_energy[SR_DESCENT_MAX_SECTIONS]; /* 1/2 m v^2 at that rate, J; a rigid pair counts as
                                                      * one piece: both carry the pair's energy */
     /* relative to the ground: the descent rate combined with the surface wind (the wind 10 m above
      * ground, the standard height of surface wind observations) */
     double wind_surface;    /* m/s, the wind speed 10 m above ground (of this run's wind) */
-    double section_speed_ground[SR_MISSION_MAX_SECTIONS];  /* sqrt(rate^2 + wind_surface^2), m/s */
-    double section_energy_ground[SR_MISSION_MAX_SECTIONS]; /* 1/2 m v^2 at that speed, J */
+    double section_speed_ground[SR_DESCENT_MAX_SECTIONS];  /* sqrt(rate^2 + wind_surface^2), m/s */
+    double section_energy_ground[SR_DESCENT_MAX_SECTIONS]; /* 1/2 m v^2 at that speed, J */
     double descent_time;    /* last touchdown, s */
     double max_rate;        /* highest touchdown descent rate, m/s */
     double max_energy;      /* highest section energy, J */
@@ -186,10 +187,12 @@ typedef struct sr_profile_track {
 typedef struct sr_profile_ctx sr_profile_ctx;
 typedef struct sr_profile_work sr_profile_work;
 
-/* Build the context of a mission: every stage must have a size and the
- * mission a start block. Runs the nominal profile once (full mode) to keep
- * its transients for the fast mode. o may be NULL for the defaults. */
-int sr_profile_ctx_new(sr_profile_ctx **ctx, const sr_mission *m, const sr_profile_opts *o, sr_error *err);
+/* Build the context of a descent (a mission's: sr_mission_descent, or
+ * sr_mission_profile in one call). The context copies what it keeps (the
+ * atmosphere, the wind, the drag curves): the spec and what it points to need
+ * not outlive it. Runs the nominal profile once (full mode) to keep its
+ * transients for the fast mode. o may be NULL for the defaults. */
+int sr_profile_ctx_new(sr_profile_ctx **ctx, const sr_descent_spec *spec, const sr_profile_opts *o, sr_error *err);
 void sr_profile_ctx_free(sr_profile_ctx *ctx);
 
 /* Per-thread scratch (ODE stepper, quadrature workspace). */

@@ -143,7 +143,29 @@ int sr_wind_check_extrapolation(const sr_wind *w, double top, sr_unit_system sys
     return 1;
 }
 
-void sr_wind_free(sr_wind *w)
+int sr_wind_copy(sr_wind *dst, const sr_wind *src, sr_error *err)
+{
+    sr_wind_release(dst);
+    *dst = *src;
+    dst->h = dst->east = dst->north = NULL;
+    if (src->kind != SR_WIND_TABLE)
+        return SR_OK;
+    size_t b = src->n * sizeof(double);
+    dst->h = malloc(b);
+    dst->east = malloc(b);
+    dst->north = malloc(b);
+    if (!dst->h || !dst->east || !dst->north) {
+        sr_wind_release(dst);
+        sr_wind_init_calm(dst);
+        return sr_error_set(err, SR_ENOMEM, "out of memory for a copy of the wind table");
+    }
+    memcpy(dst->h, src->h, b);
+    memcpy(dst->east, src->east, b);
+    memcpy(dst->north, src->north, b);
+    return SR_OK;
+}
+
+void sr_wind_release(sr_wind *w)
 {
     if (!w)
         return;
@@ -180,7 +202,7 @@ static int table_rows(sr_wind *w, const double *h, const double *speed, const do
     w->east = malloc(n * sizeof *w->east);
     w->north = malloc(n * sizeof *w->north);
     if (!w->h || !w->east || !w->north) {
-        sr_wind_free(w);
+        sr_wind_release(w);
         return sr_error_set(err, SR_ENOMEM, "out of memory for the wind table");
     }
     for (size_t i = 0; i < n; i++) {

@@ -32,7 +32,7 @@ typedef enum sr_wind_kind {
 #define SR_WIND_MAX_ROWS 4096
 #define SR_WIND_MAX_SPEED 100.0   /* m/s: beyond any wind a recovery is flown in; catches unit slips */
 
-/* Caller-owned; the table kind holds memory (release with sr_wind_free). The
+/* Caller-owned; the table kind holds memory (release with sr_wind_release). The
  * struct is never written by evaluation, so one model serves many threads. */
 typedef struct sr_wind {
     sr_wind_kind kind;
@@ -70,7 +70,10 @@ int sr_wind_load_table(sr_wind *w, const char *path, double ground, sr_error *er
 /* Table from the optional wind-speed and wind-from columns of a sounding CSV
  * (altitude above sea level); an error when the sounding has no wind. */
 int sr_wind_load_sounding(sr_wind *w, const char *path, double ground, sr_error *err);
-void sr_wind_free(sr_wind *w);
+/* Deep copy (a table's arrays are duplicated): dst, initialised or released
+ * before, afterwards owns its own memory. */
+int sr_wind_copy(sr_wind *dst, const sr_wind *src, sr_error *err);
+void sr_wind_release(sr_wind *w);
 
 /* Hold a power or log law constant above gradient height h (m above ground,
  * above the reference height, at most 5000 m). Other kinds: SR_EINVAL. */

@@ -64,7 +64,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
         }
         sr_air a;
         FUZZ_ASSERT(sr_atmos_at(&m, hi + 1.0, &a, &e) != SR_OK); /* never extrapolated */
-        sr_atmos_free(&m);
+        sr_atmos_release(&m);
     } else {
         FUZZ_MSG_OK(e.msg);
     }
@@ -72,13 +72,13 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
     sr_wind w;
     if (sr_wind_load_sounding(&w, path, 0.0, &e) == SR_OK) {
         wind_ok(&w);
-        sr_wind_free(&w);
+        sr_wind_release(&w);
     } else {
         FUZZ_MSG_OK(e.msg);
     }
     if (sr_wind_load_table(&w, path, 100.0, &e) == SR_OK) {
         wind_ok(&w);
-        sr_wind_free(&w);
+        sr_wind_release(&w);
     } else {
         FUZZ_MSG_OK(e.msg);
     }
