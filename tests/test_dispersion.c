@@ -370,7 +370,7 @@ static void test_percentiles_uniform_drag(void **state)
     double v0 = sqrt(2.0 * a.mass * G0 / (a.rho * a.cds)), t0 = a.height / v0, w = 0.25;
     char q[128];
     for (int k = 0; k < SR_SCATTER_NPCT; k++) {
-        double P = SR_SCATTER_PCT[k];
+        double P = sr_scatter_pct[k];
         double kt = 0.90 + P * w;         /* time grows with the drag scale */
         double kv = 0.90 + (1.0 - P) * w; /* speed falls with it */
         /* quantile error: sqrt(P(1-P)/n) in the uniform's probability, times the slope */

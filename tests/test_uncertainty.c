@@ -13,7 +13,7 @@
 #include "files/catalog.h"
 #include "files/mission.h"
 #include "base/rng.h"
-#include "analysis/uncertainty.h"
+#include "physics/uncertainty.h"
 #include "files/yamldoc.h"
 
 #define PI 3.14159265358979323846

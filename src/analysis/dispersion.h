@@ -9,7 +9,7 @@
 #include <stdint.h>
 
 #include "base/error.h"
-#include "analysis/uncertainty.h"
+#include "physics/uncertainty.h"
 
 #define SR_DISP_MAX_BODIES 8          /* bodies landing apart (= mission sections at most) */
 #define SR_DISP_MAX_SAMPLES 10000000  /* 1e7: 50 s at the speed goal, ~0.4 GB per body */

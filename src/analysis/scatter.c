@@ -11,7 +11,7 @@
 
 #define PI 3.14159265358979323846
 
-const double SR_SCATTER_PCT[SR_SCATTER_NPCT] = {0.01, 0.05, 0.50, 0.95, 0.99};
+const double sr_scatter_pct[SR_SCATTER_NPCT] = {0.01, 0.05, 0.50, 0.95, 0.99};
 
 int sr_scatter_ellipse(double cov_ee, double cov_en, double cov_nn, double k, sr_ellipse *e, sr_error *err)
 {
@@ -89,7 +89,7 @@ static void spread1(double *tmp, size_t n, sr_spread1 *s)
 {
     s->mean = gsl_stats_mean(tmp, 1, n);
     gsl_stats_minmax(&s->min, &s->max, tmp, 1, n);
-    sr_scatter_quantiles(tmp, n, SR_SCATTER_PCT, SR_SCATTER_NPCT, s->pct);
+    sr_scatter_quantiles(tmp, n, sr_scatter_pct, SR_SCATTER_NPCT, s->pct);
 }
 
 int sr_scatter_stats(const sr_disp_result *res, sr_disp_stats *st, sr_error *err)

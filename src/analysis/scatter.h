@@ -31,7 +31,7 @@ void sr_scatter_proportion(size_t count, size_t n, double z, sr_proportion *out)
 
 /* Percentiles reported for descent time, touchdown speed and energy. */
 #define SR_SCATTER_NPCT 5
-extern const double SR_SCATTER_PCT[SR_SCATTER_NPCT]; /* 0.01 0.05 0.50 0.95 0.99 */
+extern const double sr_scatter_pct[SR_SCATTER_NPCT]; /* 0.01 0.05 0.50 0.95 0.99 */
 
 typedef struct sr_spread1 {
     double mean, min, max;

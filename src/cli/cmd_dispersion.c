@@ -674,7 +674,7 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, con
 static void on_progress(size_t done, size_t n, void *ud)
 {
     (void)n;
-    sr_progress_update(ud, done);
+    sr_cli_progress_update(ud, done);
 }
 
 int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
@@ -733,7 +733,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
-    if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+    if (o.geojson && (rc = sr_cli_maps_need_position(c, "--geojson", m)))
         goto out;
     if ((rc = sr_cli_mission_inputs(c, m)))
         goto out;
@@ -744,10 +744,10 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     int threads = c->threads > 0 ? c->threads : omp_get_num_procs();
     uint64_t seed = c->seed_set ? (uint64_t)c->seed : 1u;
     sr_progress bar;
-    sr_progress_start(&bar, c->err, n, "samples");
+    sr_cli_progress_start(&bar, c->err, n, "samples");
     sr_disp_options opt = {.n = n, .seed = seed, .threads = threads, .progress = on_progress, .progress_ud = &bar};
     rc = sr_disp_run(&dm.model, &m->unc, &opt, &res, &e);
-    sr_progress_end(&bar);
+    sr_cli_progress_end(&bar);
     if (rc) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
@@ -763,7 +763,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     r = sr_report_new("dispersion", "Monte Carlo landing dispersion");
     sr_report_section(r, "Inputs");
     sr_report_text(r, "mission", "mission", m->name);
-    sr_maps_report_position(r, m);
+    sr_cli_maps_report_position(r, m);
     sr_report_value(r, "samples", "samples", (double)n, SR_Q_NONE, SR_FIXED(0));
     sr_report_value(r, "seed", "seed", (double)seed, SR_Q_NONE, SR_FIXED(0));
     sr_report_text(r, "descent_model", "descent model",
@@ -799,13 +799,13 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
                           "alike).");
     /* the map is built before anything is written */
     if (o.geojson &&
-        (rc = sr_maps_dispersion_geojson(c, m, &dm, &res, st, nom, (size_t)geo_samples, &gbuf, &glen)))
+        (rc = sr_cli_maps_dispersion_geojson(c, m, &dm, &res, st, nom, (size_t)geo_samples, &gbuf, &glen)))
         goto out;
     if ((rc = sr_cli_emit(c, r)))
         goto out;
     if (o.samples && (rc = write_samples(c, o.samples, m, &dm, &res)))
         goto out;
-    if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
+    if (gbuf && (rc = sr_cli_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
     if (c->plot_prefix && (rc = figure(c, m, &dm, &res, st, nom, argc, argv)))
         goto out;

@@ -823,8 +823,8 @@ int sr_cmd_fit(sr_cli *c, int argc, char **argv)
     }
     if ((rc = sr_cli_emit(c, r)))
         goto out;
-    if (c->plot_prefix && !(rc = sr_fit_plots(c, res, nlogs, setups, argc, argv)))
-        rc = sr_fit_plot_opening(c, res, setups, logs[0].acc, argc, argv);
+    if (c->plot_prefix && !(rc = sr_cli_fit_plots(c, res, nlogs, setups, argc, argv)))
+        rc = sr_cli_fit_plot_opening(c, res, setups, logs[0].acc, argc, argv);
 out:
     sr_report_free(r);
     for (size_t l = 0; l < nfitted + 1 && res && l < nlogs; l++)

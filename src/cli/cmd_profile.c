@@ -203,7 +203,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
     sr_report_section(r, "Mission");
     sr_report_text(r, "mission", "mission", m->name);
     sr_report_text(r, "file", "file", m->path);
-    sr_maps_report_position(r, m);
+    sr_cli_maps_report_position(r, m);
     sr_cli_report_atmos(r, &m->atmos);
     wind_text(c, &m->wind, buf, sizeof buf);
     sr_report_text(r, "wind", "wind", buf);
@@ -257,7 +257,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
         const char *txt[] = {s->name, lands};
         sr_rtable_row(t, row, txt);
     }
-    sr_profile_report_free_drag(r, c, m);
+    sr_cli_profile_report_free_drag(r, c, m);
 
     t = sr_report_table(r, "stages", "Recovery stages (drag area band from the family's CD0 range; n: growth exponent "
                                      "of the drag area while filling)");
@@ -510,7 +510,7 @@ static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, 
                                  "against the printed tables: confirm the rates with a drop test.");
             break;
         }
-    sr_profile_free_fall_warnings(r, c, m, p, "");
+    sr_cli_profile_free_fall_warnings(r, c, m, p, "");
     if (p->events_dropped)
         sr_report_warning(r, "%d events beyond the first %d are not listed", p->events_dropped,
                           SR_PROFILE_MAX_EVENTS);
@@ -566,7 +566,7 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         (o.geojson && (rc = sr_cli_output(c, "--geojson", o.geojson))))
         return rc;
 
-    if ((rc = sr_profile_plot_reserve(c)) || (rc = sr_cli_input(c, "the mission file", argv[first])))
+    if ((rc = sr_cli_profile_plot_reserve(c)) || (rc = sr_cli_input(c, "the mission file", argv[first])))
         return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
@@ -601,7 +601,7 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
                          m->path);
         goto out;
     }
-    if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+    if (o.geojson && (rc = sr_cli_maps_need_position(c, "--geojson", m)))
         goto out;
     sr_profile_opts po;
     sr_profile_opts_init(&po);
@@ -703,8 +703,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     sr_cli_report_input_warnings(r, &iw);
     report_notes(r, m, o.fast && !F);
     if (F)
-        sr_profile_report_attitudes(r, c, m, F);
-    if ((rc = sr_profile_report_failures(r, c, m, &lim, basis)))
+        sr_cli_profile_report_attitudes(r, c, m, F);
+    if ((rc = sr_cli_profile_report_failures(r, c, m, &lim, basis)))
         goto out;
     /* the trajectory and the map are built before anything is written; the band-end runs are the fast end
      * (low drag, heavy) and the slow end (high drag, light) */
@@ -712,17 +712,17 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
                         {"low drag", &B->run[SR_BAND_FAST], &track_lo},
                         {"high drag", &B->run[SR_BAND_SLOW], &track_hi}};
     size_t nmr = o.band_ends ? 3 : 1;
-    if (o.trajectory && (rc = sr_maps_trajectory(c, o.trajectory, m, sr_band_profile(bc), mr, nmr, &tbuf, &tlen)))
+    if (o.trajectory && (rc = sr_cli_maps_trajectory(c, o.trajectory, m, sr_band_profile(bc), mr, nmr, &tbuf, &tlen)))
         goto out;
-    if (o.geojson && (rc = sr_maps_profile_geojson(c, m, mr, nmr, &gbuf, &glen)))
+    if (o.geojson && (rc = sr_cli_maps_profile_geojson(c, m, mr, nmr, &gbuf, &glen)))
         goto out;
     if ((rc = sr_cli_emit(c, r)))
         goto out;
-    if (tbuf && (rc = sr_maps_write(c, "--trajectory", o.trajectory, tbuf, tlen)))
+    if (tbuf && (rc = sr_cli_maps_write(c, "--trajectory", o.trajectory, tbuf, tlen)))
         goto out;
-    if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
+    if (gbuf && (rc = sr_cli_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
-    if (c->plot_prefix && (rc = sr_profile_plot(c, m, sr_band_profile(bc), T, &track, argc, argv)))
+    if (c->plot_prefix && (rc = sr_cli_profile_plot(c, m, sr_band_profile(bc), T, &track, argc, argv)))
         goto out;
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:

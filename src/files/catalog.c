@@ -354,7 +354,7 @@ const sr_family *sr_catalog_find(const sr_catalog *c, const char *id, sr_error *
     return NULL;
 }
 
-const char *const SR_CANOPY_KEYS[] = {"family", "nominal-diameter", "projected-diameter", "flat-diameter",
+const char *const sr_canopy_keys[] = {"family", "nominal-diameter", "projected-diameter", "flat-diameter",
                                       "nominal-area", "drag-coefficient", "count", "cluster-factor",
                                       "areal-mass", "measured-opening", NULL};
 static const char *const SIZE_KEYS[] = {"nominal-diameter", "projected-diameter", "flat-diameter",

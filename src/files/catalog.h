@@ -56,7 +56,7 @@ int sr_catalog_parse_canopy(sr_canopy *c, const sr_catalog *cat, sr_yaml *y, sr_
  * drag-coefficient, count, cluster-factor, areal-mass. When no size key is
  * present and size_optional is set, *has_size is 0 and the canopy holds a
  * nominal area of 1 m2 as a placeholder for sizing. */
-extern const char *const SR_CANOPY_KEYS[];
+extern const char *const sr_canopy_keys[];
 int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_yaml *y, yaml_node_t *n,
                                 int size_optional, int *has_size, sr_error *err);
 

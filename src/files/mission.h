@@ -15,7 +15,7 @@
 #include "files/catalog.h"
 #include "base/error.h"
 #include "physics/wind.h"
-#include "analysis/uncertainty.h"
+#include "physics/uncertainty.h"
 
 /* the engine's bounds (physics/descent_spec.h): sections, stages, names;
  * sr_deploy_kind (`apogee` or `release`, `altitude`, `delay`) and
@@ -123,10 +123,6 @@ double sr_mission_mass_of(const sr_mission *m, sr_section_set s);
 /* "booster + payload bay" for a set of sections. */
 void sr_mission_set_name(const sr_mission *m, sr_section_set s, char *buf, size_t len);
 
-/* The site.wind block (mission_wind.c): model, speed, direction, heights;
- * a table from CSV or inline rows. `ground` converts table altitudes. */
-int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_error *err);
-
 /* The descent the profile engine flies (physics/descent_spec.h): every
  * stage must have a size and the mission a start: block (SR_EINVAL naming
  * the file otherwise). The spec borrows the mission's atmosphere, wind and
@@ -136,8 +132,5 @@ int sr_mission_descent(const sr_mission *m, sr_descent_spec *spec, sr_error *err
 /* sr_mission_descent and sr_profile_ctx_new in one call: the profile
  * context of the mission (it keeps its own copies; m need not outlive it). */
 int sr_mission_profile(sr_profile_ctx **ctx, const sr_mission *m, const sr_profile_opts *o, sr_error *err);
-
-/* Resolve a file name given inside a mission file relative to it. */
-void sr_mission_relative_path(char *out, size_t len, const char *mission_path, const char *file);
 
 #endif

@@ -776,3 +776,17 @@ int sr_yaml_require_seq(const sr_yaml *y, yaml_node_t *n, const char *what, size
         return sr_yaml_fail(y, n, err, "%s must have %zu to %zu items, it has %zu", what, min, max, len);
     return SR_OK;
 }
+
+void sr_yaml_relative_path(char *out, size_t len, const char *base, const char *file)
+{
+    if (file[0] == '/') {
+        snprintf(out, len, "%s", file);
+        return;
+    }
+    const char *slash = strrchr(base, '/');
+    if (!slash) {
+        snprintf(out, len, "%s", file);
+        return;
+    }
+    snprintf(out, len, "%.*s/%s", (int)(slash - base), base, file);
+}
