@@ -369,7 +369,7 @@ static void disp_rates(const sr_disp_mission *dm, const sr_uncertainty *u, size_
                 return;
             double t = now() - t0, c = cpu_now() - c0;
             sink = res.land[n - 1].east;
-            sr_disp_result_free(&res);
+            sr_disp_result_release(&res);
             if (t < best[k]) {
                 best[k] = t;
                 cpu[k] = c / (double)n;

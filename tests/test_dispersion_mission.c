@@ -153,7 +153,7 @@ static void test_zero_is_profile(void **state)
     CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "fast nominal landing distance vs full (m)",
                     "the full staged descent (GSL rk8pd + QAG); fast-mode bound of profile.h", full->body[0].drift,
                     hypot(nom.east, nom.north), 1e-4);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
     free(r);
     drop(m);
@@ -189,7 +189,7 @@ static void test_wind_speed_uniform_air(void **state)
         CHECK_ABS_CLASS(SR_CHECK_DERIVED, q, SRC_DRIFT, 90.0, b->sigma1.bearing * 180.0 / PI, 1e-6);
         snprintf(q, sizeof q, "mean downwind drift, %s mode (m)", full ? "full" : "fast");
         CHECK_ABS_CLASS(SR_CHECK_DERIVED, q, SRC_DRIFT, 6.0 * t, b->mean_east, 4.0 * 1.5 * t / sqrt((double)n));
-        sr_disp_result_free(&res);
+        sr_disp_result_release(&res);
         sr_disp_mission_free(&dm);
     }
     drop(m);
@@ -214,7 +214,7 @@ static void test_heights_uniform_air(void **state)
     got = sqrt(got / (double)(n - 1));
     CHECK_REL_CLASS(SR_CHECK_DERIVED, "sd of descent time, first deployment sigma 40 m (s)", SRC_RATE, sd, got,
                     4.0 / sqrt(2.0 * (double)(n - 1)));
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
     drop(m);
 
@@ -234,7 +234,7 @@ static void test_heights_uniform_air(void **state)
     /* the time is linear in the deployment height: its range is the full width */
     CHECK_REL_CLASS(SR_CHECK_DERIVED, "range of descent time, main deployment +-30 m uniform (s)", SRC_SHIFT,
                     60.0 * (1.0 / vm - 1.0 / vd2), st.body[0].time.max - st.body[0].time.min, 0.03);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
     drop(m);
 }
@@ -267,7 +267,7 @@ static void test_delay_uniform_air(void **state)
         SR_CHECK_DERIVED, "range of descent time, main delay +-2 s uniform (s)",
         "closed form, uniform air: a deployment dt later in steady descent changes the time by dt (v_d/v_m - 1)",
         4.0 * (vd / vm - 1.0), st.body[0].time.max - st.body[0].time.min, 0.01);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
     drop(m);
 }
@@ -292,7 +292,7 @@ static void test_mass_uniform_air(void **state)
                     2e-3);
     CHECK_REL_CLASS(SR_CHECK_METHOD, "sd of touchdown speed, mass sigma 4 % (m/s)", SRC_MASS, 0.02 * v, got,
                     4.0 / sqrt(2.0 * (double)(n - 1)) + 2e-3);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
     drop(m);
 }
@@ -331,8 +331,8 @@ static void test_threads_and_flags(void **state)
     assert_int_equal(sa.limit[3].count, over_d);
     assert_true(over_v > 0 && over_v < n);
     assert_true(over_d > 0 && over_d < n);
-    sr_disp_result_free(&a);
-    sr_disp_result_free(&b);
+    sr_disp_result_release(&a);
+    sr_disp_result_release(&b);
     sr_disp_mission_free(&dm);
     drop(m);
 }

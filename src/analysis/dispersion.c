@@ -30,7 +30,7 @@ int sr_disp_check_n(double n, const char *what, sr_error *err)
     return SR_OK;
 }
 
-void sr_disp_result_free(sr_disp_result *res)
+void sr_disp_result_release(sr_disp_result *res)
 {
     if (!res)
         return;
@@ -56,7 +56,7 @@ int sr_disp_run(const sr_disp_model *m, const sr_uncertainty *u, const sr_disp_o
     res->land = malloc(n * nb * sizeof *res->land);
     res->flags = malloc(n * sizeof *res->flags);
     if (!res->land || !res->flags) {
-        sr_disp_result_free(res);
+        sr_disp_result_release(res);
         return sr_error_set(err, SR_ENOMEM, "dispersion: no memory for %zu samples; use fewer (-n)", n);
     }
     res->n = n;
@@ -138,11 +138,41 @@ int sr_disp_run(const sr_disp_model *m, const sr_uncertainty *u, const sr_disp_o
     omp_destroy_lock(&progress_lock);
     res->threads = used;
     if (fail_at != SIZE_MAX) {
-        sr_disp_result_free(res);
+        sr_disp_result_release(res);
         if (fail_err.code == SR_ENOMEM)
             return sr_error_set(err, SR_ENOMEM, "%s", fail_err.msg);
         return sr_error_set(err, fail_err.code ? fail_err.code : SR_ENUMERIC, "sample %zu (--seed %llu): %s",
                             fail_at, (unsigned long long)o->seed, fail_err.msg);
     }
     return SR_OK;
+}
+
+/* ---- a program's dispersion result (include/sinkrate/analysis.h) ---- */
+
+void sr_disp_result_free(sr_disp_result *r)
+{
+    if (!r)
+        return;
+    sr_disp_result_release(r);
+    free(r);
+}
+
+size_t sr_disp_result_samples(const sr_disp_result *r)
+{
+    return r->n;
+}
+
+size_t sr_disp_result_bodies(const sr_disp_result *r)
+{
+    return r->nbodies;
+}
+
+const sr_landing *sr_disp_result_landing(const sr_disp_result *r, size_t i, size_t b)
+{
+    return i < r->n && b < r->nbodies ? &r->land[i * r->nbodies + b] : NULL;
+}
+
+unsigned sr_disp_result_flags(const sr_disp_result *r, size_t i)
+{
+    return i < r->n ? r->flags[i] : 0u;
 }

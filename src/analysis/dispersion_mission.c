@@ -185,3 +185,27 @@ void sr_disp_mission_free(sr_disp_mission *dm)
         dm->ctx = NULL;
     }
 }
+
+/* ---- a program's dispersion run (include/sinkrate/analysis.h) ---- */
+
+int sr_disp_mission_run(sr_disp_result **out, const sr_mission *m, size_t n, uint64_t seed, int threads, int full,
+                        sr_error *err)
+{
+    *out = NULL;
+    sr_disp_result *res = calloc(1, sizeof *res);
+    if (!res)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    sr_disp_mission dm;
+    int rc = sr_disp_mission_init(&dm, m, NULL, full, err);
+    if (!rc) {
+        sr_disp_options o = {.n = n, .seed = seed, .threads = threads};
+        rc = sr_disp_run(&dm.model, &m->unc, &o, res, err);
+        sr_disp_mission_free(&dm);
+    }
+    if (rc) {
+        free(res);
+        return rc;
+    }
+    *out = res;
+    return SR_OK;
+}

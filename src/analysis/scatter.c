@@ -164,3 +164,40 @@ int sr_scatter_stats(const sr_disp_result *res, sr_disp_stats *st, sr_error *err
     sr_scatter_proportion(any, n, 1.959963984540054, &st->any);
     return SR_OK;
 }
+
+/* ---- a program's scatter statistics (include/sinkrate/analysis.h) ---- */
+
+int sr_disp_stats_new(sr_disp_stats **out, const sr_disp_result *r, sr_error *err)
+{
+    *out = NULL;
+    sr_disp_stats *s = calloc(1, sizeof *s);
+    if (!s)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int rc = sr_scatter_stats(r, s, err);
+    if (rc) {
+        free(s);
+        return rc;
+    }
+    *out = s;
+    return SR_OK;
+}
+
+void sr_disp_stats_free(sr_disp_stats *s)
+{
+    free(s);
+}
+
+const sr_body_stats *sr_disp_stats_body(const sr_disp_stats *s, size_t b)
+{
+    return b < s->nbodies ? &s->body[b] : NULL;
+}
+
+const sr_proportion *sr_disp_stats_limit(const sr_disp_stats *s, sr_limit_kind k)
+{
+    return (int)k >= 0 && (int)k < SR_DISP_NLIMITS ? &s->limit[k] : NULL;
+}
+
+const sr_proportion *sr_disp_stats_any(const sr_disp_stats *s)
+{
+    return &s->any;
+}

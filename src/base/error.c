@@ -3,6 +3,7 @@
 
 #include <stdarg.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 void sr_error_printable(char *s)
@@ -62,4 +63,29 @@ const char *sr_error_name(int code)
     case SR_ENUMERIC: return "numerical failure";
     default: return "unknown error";
     }
+}
+
+/* ---- the error object of a program (include/sinkrate/base.h) ---- */
+
+sr_error *sr_error_new(void)
+{
+    sr_error *e = malloc(sizeof *e);
+    if (e)
+        sr_error_clear(e);
+    return e;
+}
+
+void sr_error_free(sr_error *err)
+{
+    free(err);
+}
+
+int sr_error_code(const sr_error *err)
+{
+    return err ? err->code : SR_OK;
+}
+
+const char *sr_error_message(const sr_error *err)
+{
+    return err ? err->msg : "";
 }

@@ -813,7 +813,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
 out:
     free(gbuf);
     sr_report_free(r);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
     if (m) {
         sr_mission_release(m);

@@ -522,3 +522,65 @@ int sr_catalog_load_canopy(sr_canopy *c, const sr_catalog *cat, const char *path
     sr_yaml_free(&y);
     return rc;
 }
+
+/* ---- a program's catalog (include/sinkrate/files.h) ---- */
+
+#ifndef SR_DATADIR
+#define SR_DATADIR "/usr/local/share/sinkrate"
+#endif
+
+void sr_catalog_default_dir(char *buf, size_t len)
+{
+    const char *env = getenv("SINKRATE_DATA");
+    snprintf(buf, len, "%s/canopies", env && env[0] ? env : SR_DATADIR);
+}
+
+int sr_catalog_new(sr_catalog **out, const char *dir, sr_error *err)
+{
+    *out = NULL;
+    char def[1024];
+    if (!dir) {
+        sr_catalog_default_dir(def, sizeof def);
+        dir = def;
+    }
+    sr_catalog *c = malloc(sizeof *c);
+    if (!c)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int rc = sr_catalog_open(c, dir, err);
+    if (rc) {
+        free(c);
+        return rc;
+    }
+    *out = c;
+    return SR_OK;
+}
+
+void sr_catalog_free(sr_catalog *c)
+{
+    free(c);
+}
+
+size_t sr_catalog_count(const sr_catalog *c)
+{
+    return c->n;
+}
+
+const sr_family *sr_catalog_family(const sr_catalog *c, size_t i)
+{
+    return i < c->n ? &c->fam[i] : NULL;
+}
+
+int sr_canopy_open(sr_canopy **out, const sr_catalog *cat, const char *path, sr_error *err)
+{
+    *out = NULL;
+    sr_canopy *c = malloc(sizeof *c);
+    if (!c)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int rc = sr_catalog_load_canopy(c, cat, path, err);
+    if (rc) {
+        free(c);
+        return rc;
+    }
+    *out = c;
+    return SR_OK;
+}

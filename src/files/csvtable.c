@@ -2,7 +2,7 @@
  * Lines are fed to libcsv one at a time so every cell knows its line. */
 #include "files/csvtable.h"
 
-#include "output/fileio.h"
+#include "base/fileread.h"
 
 #include <csv.h>
 #include <ctype.h>

@@ -16,6 +16,7 @@
 #include "base/error.h"
 #include "physics/wind.h"
 #include "physics/uncertainty.h"
+#include "sinkrate/files.h"
 
 /* the engine's bounds (physics/descent_spec.h): sections, stages, names;
  * sr_deploy_kind (`apogee` or `release`, `altitude`, `delay`) and
@@ -111,17 +112,12 @@ int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_e
 int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err);
 void sr_mission_release(sr_mission *m);
 
-/* Whether the file sets any limit. */
-int sr_mission_has_limits(const sr_mission *m);
-
-/* Total mass of all sections, kg. */
-double sr_mission_total_mass(const sr_mission *m);
+/* sr_mission_has_limits and sr_mission_total_mass are public. */
 
 /* Mass of a set of sections, kg. */
 double sr_mission_mass_of(const sr_mission *m, sr_section_set s);
 
-/* "booster + payload bay" for a set of sections. */
-void sr_mission_set_name(const sr_mission *m, sr_section_set s, char *buf, size_t len);
+/* sr_mission_set_name (public): "booster + payload bay" for a set of sections. */
 
 /* The descent the profile engine flies (physics/descent_spec.h): every
  * stage must have a size and the mission a start: block (SR_EINVAL naming
@@ -129,8 +125,7 @@ void sr_mission_set_name(const sr_mission *m, sr_section_set s, char *buf, size_
  * drag curves: it is valid while m is. */
 int sr_mission_descent(const sr_mission *m, sr_descent_spec *spec, sr_error *err);
 
-/* sr_mission_descent and sr_profile_ctx_new in one call: the profile
- * context of the mission (it keeps its own copies; m need not outlive it). */
-int sr_mission_profile(sr_profile_ctx **ctx, const sr_mission *m, const sr_profile_opts *o, sr_error *err);
+/* sr_mission_profile (public): sr_mission_descent and sr_profile_ctx_new in
+ * one call. */
 
 #endif

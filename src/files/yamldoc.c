@@ -2,7 +2,7 @@
  * strict schema helpers every YAML reader in sinkrate uses. */
 #include "files/yamldoc.h"
 
-#include "output/fileio.h"
+#include "base/fileread.h"
 
 #include <errno.h>
 #include <math.h>

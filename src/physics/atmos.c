@@ -393,3 +393,68 @@ void sr_atmos_describe(const sr_atmos *m, char *buf, size_t len)
         break;
     }
 }
+
+/* ---- a program's handles (include/sinkrate/physics.h) ---- */
+
+/* The model built in tmp moves into a new handle, or is released. */
+static int atmos_handle(sr_atmos **out, sr_atmos *tmp, int rc, sr_error *err)
+{
+    *out = NULL;
+    if (rc) {
+        sr_atmos_release(tmp);
+        return rc;
+    }
+    sr_atmos *m = malloc(sizeof *m);
+    if (!m) {
+        sr_atmos_release(tmp);
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    }
+    *m = *tmp;
+    *out = m;
+    return SR_OK;
+}
+
+int sr_atmos_new_standard(sr_atmos **out, sr_error *err)
+{
+    sr_atmos t;
+    sr_atmos_init_standard(&t);
+    return atmos_handle(out, &t, SR_OK, err);
+}
+
+int sr_atmos_new_offset(sr_atmos **out, double dT, sr_error *err)
+{
+    sr_atmos t;
+    int rc = sr_atmos_init_offset(&t, dT, err);
+    return atmos_handle(out, &t, rc, err);
+}
+
+int sr_atmos_new_site(sr_atmos **out, double z, double T, double p, sr_error *err)
+{
+    sr_atmos t;
+    int rc = sr_atmos_init_site(&t, z, T, p, err);
+    return atmos_handle(out, &t, rc, err);
+}
+
+int sr_atmos_new_sounding(sr_atmos **out, const double *z, const double *T, const double *p, size_t n,
+                          sr_error *err)
+{
+    sr_atmos t;
+    int rc = sr_atmos_init_sounding(&t, z, T, p, n, err);
+    return atmos_handle(out, &t, rc, err);
+}
+
+int sr_atmos_dup(sr_atmos **out, const sr_atmos *src, sr_error *err)
+{
+    sr_atmos t;
+    sr_atmos_init_standard(&t);
+    int rc = sr_atmos_copy(&t, src, err);
+    return atmos_handle(out, &t, rc, err);
+}
+
+void sr_atmos_free(sr_atmos *m)
+{
+    if (!m)
+        return;
+    sr_atmos_release(m);
+    free(m);
+}

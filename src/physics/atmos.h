@@ -7,6 +7,7 @@
 #include <stddef.h>
 
 #include "base/error.h"
+#include "sinkrate/physics.h"
 
 /* 1976 standard constants (U.S. Standard Atmosphere 1976, Table 2 / ICAO Doc 7488 Table A). */
 #define SR_ATMOS_R_STAR 8.31432      /* J/(mol K): the 1976 value, not CODATA */
@@ -21,18 +22,6 @@
 #define SR_ATMOS_Z_MIN (-1000.0)     /* m geometric */
 #define SR_ATMOS_Z_MAX 86000.0       /* m geometric */
 
-/* State of the air at one geometric altitude, SI. */
-typedef struct sr_air {
-    double z;   /* geometric altitude above mean sea level, m */
-    double T;   /* temperature, K (molecular-scale temperature T_M; equals kinetic T below 80 km) */
-    double p;   /* pressure, Pa */
-    double rho; /* density, kg/m3 */
-    double a;   /* speed of sound, m/s */
-    double mu;  /* dynamic viscosity, Pa s */
-    double nu;  /* kinematic viscosity, m2/s */
-    double g;   /* acceleration of gravity, m/s2 */
-} sr_air;
-
 typedef enum sr_atmos_kind {
     SR_ATMOS_STANDARD = 0,
     SR_ATMOS_OFFSET,   /* T + dT at the standard pressure */
@@ -40,8 +29,11 @@ typedef enum sr_atmos_kind {
     SR_ATMOS_SOUNDING  /* a table of altitude, temperature, pressure */
 } sr_atmos_kind;
 
-/* Caller-owned model; initialise with one of the sr_atmos_init_* calls and
- * release with sr_atmos_release (only the sounding holds memory). */
+/* Caller-owned model inside the library; initialise with one of the
+ * sr_atmos_init_* calls and release with sr_atmos_release (only the sounding
+ * holds memory). A program holds it as a handle (sr_atmos_new_*, public:
+ * include/sinkrate/physics.h with sr_air, sr_atmos_at, _density, _range,
+ * _describe). */
 typedef struct sr_atmos {
     sr_atmos_kind kind;
     double dT;        /* offset / site temperature offset from standard, K */
@@ -85,16 +77,6 @@ int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const 
 int sr_atmos_copy(sr_atmos *dst, const sr_atmos *src, sr_error *err);
 void sr_atmos_release(sr_atmos *m);
 
-/* The air at geometric altitude z (m above mean sea level). Outside the
- * model's range: SR_EDOMAIN with a message naming the range. */
-int sr_atmos_at(const sr_atmos *m, double z, sr_air *out, sr_error *err);
-
-/* Density only: the hot path of descent integrals. Same range rules. */
-int sr_atmos_density(const sr_atmos *m, double z, double *rho, sr_error *err);
-
-/* Valid altitude range of the model, m. */
-void sr_atmos_range(const sr_atmos *m, double *zmin, double *zmax);
-
 /* Pieces of the standard, exposed for tests and other modules. */
 double sr_atmos_geopotential(double z);           /* H from geometric z, m' */
 double sr_atmos_gravity(double z);                /* g(z), m/s2 */
@@ -103,8 +85,5 @@ double sr_atmos_sound_speed(double T);            /* m/s */
 /* Standard temperature and pressure at geometric z with a temperature offset
  * dT applied in the hydrostatic integral (dT = 0: the 1976 standard). */
 int sr_atmos_standard_tp(double z, double dT, double *T, double *p);
-
-/* One-line description ("U.S. Standard Atmosphere 1976 +15.0 K"). */
-void sr_atmos_describe(const sr_atmos *m, char *buf, size_t len);
 
 #endif

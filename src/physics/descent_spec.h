@@ -11,13 +11,13 @@
 #include "physics/atmos.h"
 #include "physics/bluff.h"
 #include "physics/wind.h"
+#include "sinkrate/physics.h"
 
 #define SR_DESCENT_MAX_SECTIONS 8
 #define SR_DESCENT_MAX_STAGES 6
 #define SR_DESCENT_NAME_MAX 64
 
-/* Sections as a bit set: bit i is section i. */
-typedef unsigned sr_section_set;
+/* sr_section_set (bit i is section i) is public: include/sinkrate/physics.h */
 
 typedef enum sr_deploy_kind {
     SR_DEPLOY_APOGEE = 0,   /* at the start state (apogee or release) */

@@ -400,3 +400,75 @@ void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t le
 #undef SPD
 #undef LEN
 }
+
+/* ---- a program's handles (include/sinkrate/physics.h) ---- */
+
+/* The model built in tmp moves into a new handle, or is released. */
+static int wind_handle(sr_wind **out, sr_wind *tmp, int rc, sr_error *err)
+{
+    *out = NULL;
+    if (rc) {
+        sr_wind_release(tmp);
+        return rc;
+    }
+    sr_wind *w = malloc(sizeof *w);
+    if (!w) {
+        sr_wind_release(tmp);
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    }
+    *w = *tmp;
+    *out = w;
+    return SR_OK;
+}
+
+int sr_wind_new_calm(sr_wind **out, sr_error *err)
+{
+    sr_wind t;
+    sr_wind_init_calm(&t);
+    return wind_handle(out, &t, SR_OK, err);
+}
+
+int sr_wind_new_constant(sr_wind **out, double speed, double from, sr_error *err)
+{
+    sr_wind t;
+    int rc = sr_wind_init_constant(&t, speed, from, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+int sr_wind_new_power(sr_wind **out, double speed_ref, double from, double h_ref, double alpha, sr_error *err)
+{
+    sr_wind t;
+    int rc = sr_wind_init_power(&t, speed_ref, from, h_ref, alpha, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+int sr_wind_new_log(sr_wind **out, double speed_ref, double from, double h_ref, double z0, double d, sr_error *err)
+{
+    sr_wind t;
+    int rc = sr_wind_init_log(&t, speed_ref, from, h_ref, z0, d, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+int sr_wind_new_table(sr_wind **out, const double *h, const double *speed, const double *from, size_t n,
+                      sr_error *err)
+{
+    sr_wind t;
+    int rc = sr_wind_init_table(&t, h, speed, from, n, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+int sr_wind_dup(sr_wind **out, const sr_wind *src, sr_error *err)
+{
+    sr_wind t;
+    sr_wind_init_calm(&t);
+    int rc = sr_wind_copy(&t, src, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+void sr_wind_free(sr_wind *w)
+{
+    if (!w)
+        return;
+    sr_wind_release(w);
+    free(w);
+}

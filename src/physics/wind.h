@@ -9,6 +9,7 @@
 
 #include "base/error.h"
 #include "physics/units.h"
+#include "sinkrate/physics.h"
 
 typedef enum sr_wind_kind {
     SR_WIND_CALM = 0,
@@ -33,7 +34,9 @@ typedef enum sr_wind_kind {
 #define SR_WIND_MAX_SPEED 100.0   /* m/s: beyond any wind a recovery is flown in; catches unit slips */
 
 /* Caller-owned; the table kind holds memory (release with sr_wind_release). The
- * struct is never written by evaluation, so one model serves many threads. */
+ * struct is never written by evaluation, so one model serves many threads. A
+ * program holds it as a handle (sr_wind_new_*, public:
+ * include/sinkrate/physics.h with sr_wind_at and sr_wind_describe). */
 typedef struct sr_wind {
     sr_wind_kind kind;
     double speed;     /* constant: the speed; power/log: the speed at h_ref, m/s */
@@ -85,12 +88,10 @@ int sr_wind_set_gradient_height(sr_wind *w, double h, sr_error *err);
  * flies a mission's wind asks here. */
 int sr_wind_check_extrapolation(const sr_wind *w, double top, sr_unit_system sys, char *buf, size_t len);
 
-/* Velocity of the air at height h above ground as east and north
- * components (the direction it moves TOWARD). Below the lowest table row
- * the lowest row holds, above the highest the highest (callers check the
- * range with sr_wind_top); power and log laws are calm at and below ground
- * (log law: below d + z0). Pure and thread-safe. */
-void sr_wind_at(const sr_wind *w, double h, double *east, double *north);
+/* sr_wind_at (public): below the lowest table row the lowest row holds,
+ * above the highest the highest (callers check the range with sr_wind_top);
+ * power and log laws are calm at and below ground (log law: below d + z0).
+ * Pure and thread-safe. */
 
 /* Highest height the model is given for (INFINITY for the laws). */
 double sr_wind_top(const sr_wind *w);
@@ -102,8 +103,5 @@ const double *sr_wind_knots(const sr_wind *w, size_t *n);
 /* Conversions between speed + from-direction and east/north components. */
 void sr_wind_components(double speed, double from, double *east, double *north);
 void sr_wind_polar(double east, double north, double *speed, double *from);
-
-/* One-line description ("power law: 5.0 m/s from 250 deg at 10 m, exponent 0.143"). */
-void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t len);
 
 #endif
