@@ -90,11 +90,16 @@ def main():
         env = dict(os.environ)
         env.update({"PKG_CONFIG_PATH": p + "/lib/pkgconfig", "PKG_CONFIG_SYSROOT_DIR": stage, "LC_ALL": "C"})
         flags = run(["pkg-config", "--cflags", "--libs", "sinkrate"], env=env).stdout.split()
-        sflags = run(["pkg-config", "--static", "--cflags", "--libs", "sinkrate"], env=env).stdout.split()
         if "-I%s/include" % p not in flags or "-L%s/lib" % p not in flags:
             fail("pkg-config --cflags --libs sinkrate does not point at the staged tree: %s" % " ".join(flags))
-        # the static build takes the archive by name (the shared library sits next to it)
-        sflags = ["-l:libsinkrate.a" if f == "-lsinkrate" else f for f in sflags]
+        # statically: the archive by name (the shared library sits next to it), then what sinkrate.pc says
+        # it needs (Libs.private, and the shared libraries of the Requires.private modules: a fully static
+        # link would need static builds of every library PROJ uses, which Debian does not ship)
+        pc = open(p + "/lib/pkgconfig/sinkrate.pc").read()
+        private = re.search(r"^Libs\.private:(.*)$", pc, re.M).group(1).split()
+        mods = run(["pkg-config", "--print-requires-private", "sinkrate"], env=env).stdout.split()
+        sflags = ["-l:libsinkrate.a" if f == "-lsinkrate" else f for f in flags] + private
+        sflags += run(["pkg-config", "--libs"] + mods, env=env).stdout.split()
         cc = os.environ.get("CC", "cc")
         renv = dict(os.environ)
         renv.update({"LD_LIBRARY_PATH": p + "/lib", "SINKRATE_DATA": p + "/share/sinkrate", "LC_ALL": "C"})
