@@ -116,8 +116,8 @@ static void test_caution_everywhere(void **state)
 static void test_caution_in_files(void **state)
 {
     (void)state;
-    char dir[] = "/tmp/sinkrate-caution-XXXXXX";
-    assert_non_null(mkdtemp(dir));
+    char dir[64];
+    sr_test_tmpdir(dir, sizeof dir, "caution");
     char pre[300], samples[300];
     snprintf(pre, sizeof pre, "%s/fig", dir);
     snprintf(samples, sizeof samples, "%s/samples.csv", dir);
@@ -282,8 +282,8 @@ static void test_impossible_is_exit_1(void **state)
 static void test_output_file_atomic(void **state)
 {
     (void)state;
-    char path[] = "/tmp/sinkrate-out-XXXXXX";
-    assert_non_null(mkdtemp(path));
+    char path[64];
+    sr_test_tmpdir(path, sizeof path, "out");
     char file[300];
     snprintf(file, sizeof file, "%s/air.csv", path);
     char *out, *err;

@@ -341,10 +341,8 @@ static double isothermal_integral(double rho1, double H, double z1, double h)
 static void test_descent_time_closed_forms(void **state)
 {
     (void)state;
-    sr_catalog cat;
     sr_error e;
-    assert_int_equal(sr_catalog_open(&cat, sr_test_path("canopies"), &e), 0);
-    const sr_family *fam = sr_catalog_find(&cat, "flat-circular", &e);
+    const sr_family *fam = sr_catalog_find(sr_test_catalog(), "flat-circular", &e);
     assert_non_null(fam);
     sr_sweep_case c;
     memset(&c, 0, sizeof c);
