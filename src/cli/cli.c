@@ -19,30 +19,33 @@ typedef struct command {
     const char *name;
     sr_command_fn fn;
     const char *summary;
+    const sr_command *def; /* a command with an option table (cli/options.h) */
 } command;
 
 static const command COMMANDS[] = {
-    {"size", sr_cmd_size, "nominal area and diameters a canopy family needs for a target touchdown speed"},
-    {"rate", sr_cmd_rate, "descent rate of a canopy or cluster at one or more altitudes"},
-    {"sweep", sr_cmd_sweep, "a table and figure over altitude, mass, diameter, temperature or site"},
-    {"profile", sr_cmd_profile, "staged descent of a mission file: events, time, drift, touchdown, limits"},
-    {"loads", sr_cmd_loads, "opening load of a canopy at deployment"},
-    {"freefall", sr_cmd_freefall, "free-fall speed of a body with Reynolds-dependent drag"},
-    {"dispersion", sr_cmd_dispersion, "Monte Carlo landing scatter of a mission file"},
-    {"air", sr_cmd_air, "atmosphere table (standard, offset, site, sounding)"},
-    {"canopies", sr_cmd_canopies, "list the canopy catalog, or show one family with its sources"},
-    {"check", sr_cmd_check, "validate canopy, canopy-family and mission files"},
-    {"fit", sr_cmd_fit, "drag area of each canopy from flight logs, with an interval, into a canopy file"},
+    {"size", NULL, NULL, &sr_cmd_size},
+    {"rate", sr_cmd_rate, "descent rate of a canopy or cluster at one or more altitudes", NULL},
+    {"sweep", sr_cmd_sweep, "a table and figure over altitude, mass, diameter, temperature or site", NULL},
+    {"profile", sr_cmd_profile, "staged descent of a mission file: events, time, drift, touchdown, limits", NULL},
+    {"loads", sr_cmd_loads, "opening load of a canopy at deployment", NULL},
+    {"freefall", sr_cmd_freefall, "free-fall speed of a body with Reynolds-dependent drag", NULL},
+    {"dispersion", sr_cmd_dispersion, "Monte Carlo landing scatter of a mission file", NULL},
+    {"air", sr_cmd_air, "atmosphere table (standard, offset, site, sounding)", NULL},
+    {"canopies", sr_cmd_canopies, "list the canopy catalog, or show one family with its sources", NULL},
+    {"check", sr_cmd_check, "validate canopy, canopy-family and mission files", NULL},
+    {"fit", sr_cmd_fit, "drag area of each canopy from flight logs, with an interval, into a canopy file", NULL},
 };
 
 #define NCOMMANDS (sizeof COMMANDS / sizeof COMMANDS[0])
+
+const sr_command *const sr_commands[] = {&sr_cmd_size, NULL};
 
 static void usage(FILE *f)
 {
     fprintf(f, "usage: sinkrate COMMAND [options]   (sinkrate COMMAND --help for its options)\n\n"
                "Sizes and checks parachute recovery systems for payloads.\n\nCommands:\n");
     for (size_t i = 0; i < NCOMMANDS; i++)
-        fprintf(f, "  %-11s %s\n", COMMANDS[i].name, COMMANDS[i].summary);
+        fprintf(f, "  %-11s %s\n", COMMANDS[i].name, COMMANDS[i].def ? COMMANDS[i].def->summary : COMMANDS[i].summary);
     fprintf(f, "\nOptions: --version, --help\n\n");
 }
 
@@ -65,8 +68,9 @@ static int dispatch(sr_cli *c, int argc, char **argv)
     for (size_t i = 0; i < NCOMMANDS; i++) {
         if (strcmp(COMMANDS[i].name, name) == 0) {
             c->cmd = COMMANDS[i].name;
+            c->command = COMMANDS[i].def;
             sr_cli_signals_watch(c->txn, c->cmd);
-            int rc = COMMANDS[i].fn(c, argc - 1, argv + 1);
+            int rc = COMMANDS[i].def ? COMMANDS[i].def->run(c, argc - 1, argv + 1) : COMMANDS[i].fn(c, argc - 1, argv + 1);
             return rc < 0 ? SR_EXIT_OK : rc;
         }
     }

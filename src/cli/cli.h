@@ -14,6 +14,7 @@ enum { SR_EXIT_OK = 0, SR_EXIT_LIMIT = 1, SR_EXIT_USAGE = 2 };
 typedef enum sr_format { SR_FMT_TEXT = 0, SR_FMT_CSV, SR_FMT_JSON } sr_format;
 
 struct sr_txn;
+struct sr_command;
 
 /* What every subcommand shares: streams (out collects standard output until
  * the run ends, when it is written and checked), the common options, and
@@ -22,6 +23,7 @@ typedef struct sr_cli {
     FILE *out;
     FILE *err;
     const char *cmd;         /* subcommand name, for messages */
+    const struct sr_command *command; /* its table (cli/options.h), set by the dispatch */
     sr_format format;
     sr_unit_system units;
     const char *output;      /* -o FILE, or NULL for stdout */

@@ -5,6 +5,7 @@
 #define SR_CLI_PLOT_H
 
 #include "cli/cli.h"
+#include "cli/options.h"
 #include "output/plot.h"
 
 #define SR_PLOT_DEFAULT_WIDTH 1000
@@ -12,6 +13,8 @@
 
 /* Help lines for the plot options. */
 extern const char SR_HELP_PLOT[];
+/* Figure: --plot, --plot-format, --plot-size (into sr_cli). */
+extern const sr_opt SR_GROUP_PLOT[];
 
 /* Write PREFIX.dat and PREFIX.gp (the style from the data directory's
  * plots/sinkrate.gp), creating PREFIX's directory if needed, then render

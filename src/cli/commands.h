@@ -5,10 +5,14 @@
 #define SR_CLI_COMMANDS_H
 
 #include "cli/cli.h"
+#include "cli/options.h"
 
 typedef int (*sr_command_fn)(sr_cli *c, int argc, char **argv);
 
-int sr_cmd_size(sr_cli *c, int argc, char **argv);
+extern const sr_command sr_cmd_size;
+
+/* Every command with an option table, NULL-terminated (cli.c). */
+extern const sr_command *const sr_commands[];
 int sr_cmd_rate(sr_cli *c, int argc, char **argv);
 int sr_cmd_sweep(sr_cli *c, int argc, char **argv);
 int sr_cmd_profile(sr_cli *c, int argc, char **argv);

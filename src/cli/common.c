@@ -54,6 +54,164 @@ const char SR_HELP_CANOPY[] =
     "  --cluster-factor K       drag per canopy in the cluster over single (default by N, from memory)\n"
     "  --areal-mass W           canopy mass per nominal area (\"40 g/m2\"); its weight then counts\n";
 
+/* ---- the shared option groups ---- */
+
+static int take_format(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    if (strcmp(arg, "text") == 0)
+        c->format = SR_FMT_TEXT;
+    else if (strcmp(arg, "csv") == 0)
+        c->format = SR_FMT_CSV;
+    else if (strcmp(arg, "json") == 0)
+        c->format = SR_FMT_JSON;
+    else
+        return sr_cli_fail(c, "--format: '%s' is not one of text, csv, json", arg);
+    return 0;
+}
+
+static int take_units(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    if (strcmp(arg, "si") == 0)
+        c->units = SR_UNITS_SI;
+    else if (strcmp(arg, "us") == 0)
+        c->units = SR_UNITS_US;
+    else
+        return sr_cli_fail(c, "--units: '%s' is not one of si, us", arg);
+    return 0;
+}
+
+static int take_table(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    if (!sr_cli_table_known(c->cmd, arg)) {
+        char names[512];
+        const char *const *t = sr_cli_tables(c->cmd);
+        const char *s = t ? sr_yaml_suggest(arg, t) : NULL;
+        sr_cli_tables_list(c->cmd, names, sizeof names);
+        if (s)
+            return sr_cli_fail(c, "--table: %s has no table '%s'; did you mean '%s'?", c->cmd, arg, s);
+        return sr_cli_fail(c, "--table: %s has no table '%s' (its tables: %s)", c->cmd, arg, names);
+    }
+    c->table = arg;
+    return 0;
+}
+
+static int take_threads(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    long t = 0;
+    int rc = sr_cli_count(c, "--threads", arg, 0, 256, &t);
+    if (rc)
+        return rc;
+    c->threads = (int)t;
+    return 0;
+}
+
+static int take_seed(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    char *end;
+    if (!arg[0] || arg[0] == '-')
+        return sr_cli_fail(c, "--seed: '%s' is not a whole number >= 0", arg);
+    unsigned long long s = strtoull(arg, &end, 10);
+    if (*end || s > 0xffffffffULL)
+        return sr_cli_fail(c, "--seed: '%s' is not a whole number from 0 to 4294967295", arg);
+    c->seed = (unsigned long)s;
+    c->seed_set = 1;
+    return 0;
+}
+
+const sr_opt SR_GROUP_OUTPUT[] = {
+    SR_OPT_HEADING("Output:"),
+    {.type = SR_OPTION_CALL, .name = "format", .value = "text|csv|json", .call = take_format, .flags = SR_OPT_IN_CLI,
+     .help = "output format (default text)"},
+    {.type = SR_OPTION_CALL, .name = "units", .value = "si|us", .call = take_units, .flags = SR_OPT_IN_CLI,
+     .help = "SI (default) or US customary units (ft, lb, ft/s, lbf)"},
+    {.type = SR_OPTION_STRING, .short_name = 'o', .name = "output", .value = "FILE", .offset = offsetof(sr_cli, output),
+     .flags = SR_OPT_IN_CLI,
+     .help = "write to FILE instead of standard output; every file a run writes is put in place only when the "
+             "whole run succeeds"},
+    {.type = SR_OPTION_CALL, .name = "table", .value = "NAME", .call = take_table, .flags = SR_OPT_IN_CLI,
+     .help = "only this table of the output (with the caution and the warnings): one clean table for a "
+             "spreadsheet; names below"},
+    {.type = SR_OPTION_STRING, .name = "data", .value = "DIR", .offset = offsetof(sr_cli, data_dir),
+     .flags = SR_OPT_IN_CLI,
+     .help = "directory holding canopies/ (default: found next to the program, $SINKRATE_DATA, or the installed "
+             "share directory)"},
+    {.type = SR_OPTION_HELP, .short_name = 'h', .name = "help", .help = "this help"},
+    SR_OPT_END};
+
+const sr_opt SR_GROUP_RUN[] = {
+    {.type = SR_OPTION_CALL, .name = "seed", .value = "N", .call = take_seed, .flags = SR_OPT_IN_CLI,
+     .help = "seed of the random streams (default 1)"},
+    {.type = SR_OPTION_CALL, .name = "threads", .value = "N", .call = take_threads, .flags = SR_OPT_IN_CLI,
+     .help = "threads (default 0: all cores)"},
+    SR_OPT_END};
+
+const sr_opt SR_GROUP_ATMOS[] = {
+    SR_OPT_HEADING("Atmosphere (default: U.S. Standard Atmosphere 1976):"),
+    SR_OPT_STRING("temp-offset", "DT", sr_atmos_opts, temp_offset,
+                  "hot or cold day: temperature + DT at standard pressure (\"15 C\")"),
+    SR_OPT_STRING("site-elevation", "Z", sr_atmos_opts, site_elevation,
+                  "site model: ground elevation above sea level"),
+    SR_OPT_STRING("surface-temp", "T", sr_atmos_opts, surface_temp,
+                  "site model: measured surface temperature (\"35 C\", \"95 F\")"),
+    SR_OPT_STRING("surface-pressure", "P", sr_atmos_opts, surface_pressure,
+                  "site model: measured surface (station) pressure (\"850 hPa\")"),
+    SR_OPT_STRING("sounding", "FILE", sr_atmos_opts, sounding,
+                  "CSV sounding: altitude, temperature, pressure columns with units"),
+    SR_OPT_END};
+
+const sr_opt SR_GROUP_CANOPY[] = {
+    SR_OPT_HEADING("Canopy:"),
+    SR_OPT_STRING("family", "ID", sr_canopy_opts, family, "catalog family (sinkrate canopies lists them)"),
+    SR_OPT_STRING("nominal-diameter", "D", sr_canopy_opts, nominal_diameter,
+                  "size as nominal diameter D0 (from S0, vent included)"),
+    SR_OPT_STRING("projected-diameter", "D", sr_canopy_opts, projected_diameter,
+                  "size as inflated projected diameter Dp (converted by Dp/D0)"),
+    SR_OPT_STRING("flat-diameter", "D", sr_canopy_opts, flat_diameter,
+                  "size as flat (constructed) diameter Dc (converted by Dc/D0)"),
+    SR_OPT_STRING("nominal-area", "S", sr_canopy_opts, nominal_area, "size as nominal area S0"),
+    SR_OPT_STRING("drag-coefficient", "CD", sr_canopy_opts, drag_coefficient,
+                  "measured drag coefficient instead of the family range, with --drag-reference"),
+    SR_OPT_STRING("drag-reference", "REF", sr_canopy_opts, drag_reference,
+                  "the reference area of --drag-coefficient: nominal, projected or constructed"),
+    SR_OPT_STRING("canopy", "FILE", sr_canopy_opts, canopy,
+                  "a canopy file (family, size, measured drag) instead of the above"),
+    SR_OPT_STRING("cluster", "N", sr_canopy_opts, cluster, "N identical canopies (default 1)"),
+    SR_OPT_STRING("cluster-factor", "K", sr_canopy_opts, cluster_factor,
+                  "drag per canopy in the cluster over single (default by N, from memory)"),
+    SR_OPT_STRING("areal-mass", "W", sr_canopy_opts, areal_mass,
+                  "canopy mass per nominal area (\"40 g/m2\"); its weight then counts"),
+    SR_OPT_END};
+
+const sr_opt SR_GROUP_PAYLOAD[] = {
+    SR_OPT_STRING("mass", "M", sr_payload_opts, mass, "payload mass, without the canopy (\"4.2 kg\", \"9 lb\")"),
+    SR_OPT_STRING("altitude", "Z", sr_payload_opts, altitude,
+                  "altitude above sea level (default: the ground, the site elevation or 0)"),
+    SR_OPT_STRING("body-drag-area", "A", sr_payload_opts, body,
+                  "payload drag area CdA counted with the canopy's (\"0.02 m2\")"),
+    SR_OPT_STRING("mission", "FILE", sr_payload_opts, mission,
+                  "mass (all sections), site and canopies from a mission file"),
+    SR_OPT_END};
+
+int sr_cli_body_drag(sr_cli *c, const char *text, double *area)
+{
+    int rc;
+    if (text && (rc = sr_cli_quantity(c, "--body-drag-area", text, SR_Q_AREA, 0, area)))
+        return rc;
+    if (*area < 0)
+        return sr_cli_fail(c, "--body-drag-area: must be zero or positive");
+    return 0;
+}
+
 int sr_cli_fail(sr_cli *c, const char *fmt, ...)
 {
     char msg[1024];
@@ -76,10 +234,12 @@ void sr_cli_help(sr_cli *c, const char *text)
 {
     fputs(text, c->out);
     fputc('\n', c->out);
-    fputs("Quantities take a unit (\"2.5 kg\", \"36in\", \"18 ft/s\", \"31 C\"); a bare number is SI\n"
-          "(kg, m, m/s, K, Pa), except angles, which are degrees. Under --units us a bare\n"
-          "number is refused (0 excepted): give the unit. Files always need units.\n\n",
-          c->out);
+    sr_cli_wrap(c->out,
+                "Quantities take a unit (\"2.5 kg\", \"36in\", \"18 ft/s\", \"31 C\"); a bare number is SI (kg, m, "
+                "m/s, K, Pa), except angles, which are degrees. Under --units us a bare number is refused (0 "
+                "excepted): give the unit. Files always need units.",
+                0, 0);
+    fputc('\n', c->out);
     /* the caution belongs in every help text */
     const char *p = sr_report_caution();
     size_t col = 0;

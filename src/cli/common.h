@@ -11,6 +11,7 @@
 #include "physics/canopy.h"
 #include "files/catalog.h"
 #include "cli/cli.h"
+#include "cli/options.h"
 #include "output/report.h"
 
 /* Option codes for long-only options. */
@@ -54,6 +55,26 @@ enum {
         {"drag-coefficient", required_argument, NULL, OPT_DRAG_COEFFICIENT},                                  \
         {"drag-reference", required_argument, NULL, OPT_DRAG_REFERENCE}
 
+/* ---- the shared option groups (cli/options.h), each declared once ---- */
+
+/* Output: --format, --units, -o, --table, --data, -h (into sr_cli). */
+extern const sr_opt SR_GROUP_OUTPUT[];
+/* --seed, --threads of a Monte Carlo run (into sr_cli). */
+extern const sr_opt SR_GROUP_RUN[];
+/* Atmosphere: --temp-offset, --site-elevation, --surface-temp,
+ * --surface-pressure, --sounding (into sr_atmos_opts). */
+extern const sr_opt SR_GROUP_ATMOS[];
+/* Canopy: --family, the sizes, the measured drag, --canopy, the cluster,
+ * --areal-mass (into sr_canopy_opts). */
+extern const sr_opt SR_GROUP_CANOPY[];
+/* The case: --mass, --altitude, --body-drag-area, --mission (into
+ * sr_payload_opts); a command says with SR_OPT_FOR what each means there. */
+extern const sr_opt SR_GROUP_PAYLOAD[];
+
+typedef struct sr_payload_opts {
+    const char *mass, *altitude, *body, *mission;
+} sr_payload_opts;
+
 typedef struct sr_atmos_opts {
     const char *temp_offset, *site_elevation, *surface_temp, *surface_pressure, *sounding;
 } sr_atmos_opts;
@@ -80,6 +101,10 @@ int sr_cli_fail_err(sr_cli *c, const sr_error *e);
 typedef int (*sr_opt_handler)(sr_cli *c, int code, const char *arg, void *ud);
 int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
                  const char *help, int *first_arg);
+
+/* --body-drag-area (text, NULL when not given): a drag area, zero or more,
+ * into *area (left as it is without the option). */
+int sr_cli_body_drag(sr_cli *c, const char *text, double *area);
 
 /* Consume atmosphere and canopy options; return 1 if taken. */
 int sr_cli_take_atmos(sr_atmos_opts *a, int code, const char *arg);
