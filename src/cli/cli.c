@@ -15,37 +15,18 @@
 #include "base/version.h"
 #include "files/yamldoc.h"
 
-typedef struct command {
-    const char *name;
-    sr_command_fn fn;
-    const char *summary;
-    const sr_command *def; /* a command with an option table (cli/options.h) */
-} command;
+const sr_command *const sr_commands[] = {&sr_cmd_size,       &sr_cmd_rate,     &sr_cmd_sweep,    &sr_cmd_profile,
+                                         &sr_cmd_loads,      &sr_cmd_freefall, &sr_cmd_dispersion, &sr_cmd_air,
+                                         &sr_cmd_canopies,   &sr_cmd_check,    &sr_cmd_fit,      NULL};
 
-static const command COMMANDS[] = {
-    {"size", NULL, NULL, &sr_cmd_size},
-    {"rate", sr_cmd_rate, "descent rate of a canopy or cluster at one or more altitudes", NULL},
-    {"sweep", sr_cmd_sweep, "a table and figure over altitude, mass, diameter, temperature or site", NULL},
-    {"profile", sr_cmd_profile, "staged descent of a mission file: events, time, drift, touchdown, limits", NULL},
-    {"loads", sr_cmd_loads, "opening load of a canopy at deployment", NULL},
-    {"freefall", sr_cmd_freefall, "free-fall speed of a body with Reynolds-dependent drag", NULL},
-    {"dispersion", sr_cmd_dispersion, "Monte Carlo landing scatter of a mission file", NULL},
-    {"air", sr_cmd_air, "atmosphere table (standard, offset, site, sounding)", NULL},
-    {"canopies", sr_cmd_canopies, "list the canopy catalog, or show one family with its sources", NULL},
-    {"check", sr_cmd_check, "validate canopy, canopy-family and mission files", NULL},
-    {"fit", sr_cmd_fit, "drag area of each canopy from flight logs, with an interval, into a canopy file", NULL},
-};
-
-#define NCOMMANDS (sizeof COMMANDS / sizeof COMMANDS[0])
-
-const sr_command *const sr_commands[] = {&sr_cmd_size, NULL};
+#define NCOMMANDS (sizeof sr_commands / sizeof sr_commands[0] - 1)
 
 static void usage(FILE *f)
 {
     fprintf(f, "usage: sinkrate COMMAND [options]   (sinkrate COMMAND --help for its options)\n\n"
                "Sizes and checks parachute recovery systems for payloads.\n\nCommands:\n");
     for (size_t i = 0; i < NCOMMANDS; i++)
-        fprintf(f, "  %-11s %s\n", COMMANDS[i].name, COMMANDS[i].def ? COMMANDS[i].def->summary : COMMANDS[i].summary);
+        fprintf(f, "  %-11s %s\n", sr_commands[i]->name, sr_commands[i]->summary);
     fprintf(f, "\nOptions: --version, --help\n\n");
 }
 
@@ -66,17 +47,17 @@ static int dispatch(sr_cli *c, int argc, char **argv)
         return SR_EXIT_OK;
     }
     for (size_t i = 0; i < NCOMMANDS; i++) {
-        if (strcmp(COMMANDS[i].name, name) == 0) {
-            c->cmd = COMMANDS[i].name;
-            c->command = COMMANDS[i].def;
+        if (strcmp(sr_commands[i]->name, name) == 0) {
+            c->cmd = sr_commands[i]->name;
+            c->command = sr_commands[i];
             sr_cli_signals_watch(c->txn, c->cmd);
-            int rc = COMMANDS[i].def ? COMMANDS[i].def->run(c, argc - 1, argv + 1) : COMMANDS[i].fn(c, argc - 1, argv + 1);
+            int rc = sr_commands[i]->run(c, argc - 1, argv + 1);
             return rc < 0 ? SR_EXIT_OK : rc;
         }
     }
     const char *names[NCOMMANDS + 1];
     for (size_t i = 0; i < NCOMMANDS; i++)
-        names[i] = COMMANDS[i].name;
+        names[i] = sr_commands[i]->name;
     names[NCOMMANDS] = NULL;
     const char *s = sr_yaml_suggest(name, names);
     if (s)

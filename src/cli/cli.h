@@ -45,11 +45,6 @@ typedef struct sr_cli {
     char *notes_buf;
     size_t notes_len;
     int keep_on_usage; /* check: its report stands at exit 2, so it is written */
-    /* set by a command before sr_cli_parse: its short options besides -h and
-     * -o ("n:"), and the option codes it takes more than once (0-terminated;
-     * every other option with a value is refused when given twice) */
-    const char *short_opts;
-    const int *repeatable;
 } sr_cli;
 
 /* Run one command line. Standard output is written, and checked, when the

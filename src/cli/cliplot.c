@@ -12,14 +12,6 @@
 #include "cli/common.h"
 #include "output/txn.h"
 
-const char SR_HELP_PLOT[] =
-    "Figure:\n"
-    "  --plot PREFIX            write PREFIX.dat and PREFIX.gp (a gnuplot script using the\n"
-    "                           shared style plots/sinkrate.gp) and, when gnuplot is on PATH,\n"
-    "                           render PREFIX.png; the directory is created if needed\n"
-    "  --plot-format png|svg    the figure's format (default png)\n"
-    "  --plot-size WxH          the figure's size in pixels (default 1000x650)\n";
-
 static int take_plot(sr_cli *c, const sr_opt *o, const char *arg, void *place)
 {
     (void)o;

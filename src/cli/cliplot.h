@@ -11,8 +11,6 @@
 #define SR_PLOT_DEFAULT_WIDTH 1000
 #define SR_PLOT_DEFAULT_HEIGHT 650
 
-/* Help lines for the plot options. */
-extern const char SR_HELP_PLOT[];
 /* Figure: --plot, --plot-format, --plot-size (into sr_cli). */
 extern const sr_opt SR_GROUP_PLOT[];
 

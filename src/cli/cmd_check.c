@@ -11,17 +11,27 @@
 #include "files/mission.h"
 #include "files/yamldoc.h"
 
-static const struct option OPTS[] = {SR_OPTS_OUTPUT, {NULL, 0, NULL, 0}};
+typedef struct check_opts {
+    int unused; /* check takes the output options only */
+} check_opts;
 
-static const char HELP[] =
-    "usage: sinkrate check FILE...\n\n"
-    "Validate YAML files of sinkrate: canopy families (top-level 'id'), canopy files\n"
-    "(top-level 'canopy') and mission files (top-level 'mission'). Every file is\n"
-    "checked; each bad file is reported with file:line:column of its first problem.\n"
-    "A mission with a start block and every stage sized is also flown as `sinkrate\n"
-    "profile` flies it (every band end, every opening load), so a file that profile\n"
-    "would reject (a descent that cannot be integrated, a supersonic deployment) is\n"
-    "rejected here too. Exit 0 when all are valid, 2 otherwise.\n\n";
+static const sr_opt OPTS[] = {SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT), SR_OPT_END};
+
+static int run_check(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_check = {
+    .name = "check",
+    .summary = "validate canopy, canopy-family and mission files",
+    .usage = "usage: sinkrate check FILE...\n",
+    .about = "Validate YAML files of sinkrate: canopy families (top-level 'id'), canopy files (top-level 'canopy') "
+             "and mission files (top-level 'mission'). Every file is checked; each bad file is reported with "
+             "file:line:column of its first problem. A mission with a start block and every stage sized is also "
+             "flown as `sinkrate profile` flies it (every band end, every opening load), so a file that profile "
+             "would reject (a descent that cannot be integrated, a supersonic deployment) is rejected here too. "
+             "Exit 0 when all are valid, 2 otherwise.",
+    .options = OPTS,
+    .run = run_check,
+};
 
 static int check_one(const sr_catalog *cat, const char *path, char *kind, size_t klen, char *what, size_t wlen,
                      sr_input_warnings *iw, sr_unit_system sys, sr_error *e)
@@ -87,9 +97,10 @@ static int check_one(const sr_catalog *cat, const char *path, char *kind, size_t
     return rc;
 }
 
-int sr_cmd_check(sr_cli *c, int argc, char **argv)
+static int run_check(sr_cli *c, int argc, char **argv)
 {
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, NULL, NULL, HELP, &first);
+    check_opts o = {0};
+    int first, rc = sr_cli_parse_options(c, argc, argv, &o, &first);
     if (rc)
         return rc;
     if (first >= argc)

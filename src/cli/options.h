@@ -38,8 +38,7 @@ typedef struct sr_opt sr_opt;
 /* A special case: called with the option's row, its value (NULL for an
  * option without one) and where the table says the value goes. Returns 0,
  * or an exit code after printing one line (sr_cli_fail). On a group row,
- * the call takes every option of the group instead (place: the command's
- * struct at the group's offset). */
+ * the call takes every option of the group instead (SR_OPT_GROUP_CALL). */
 typedef int (*sr_opt_call)(sr_cli *c, const sr_opt *opt, const char *arg, void *place);
 
 struct sr_opt {
@@ -75,9 +74,11 @@ struct sr_opt {
 #define SR_OPT_GROUP(GROUP, T, F) {.type = SR_OPTION_GROUP, .offset = offsetof(T, F), .group = (GROUP)}
 /* a group whose options all live in sr_cli (output, figure) */
 #define SR_OPT_CLI_GROUP(GROUP) {.type = SR_OPTION_GROUP, .group = (GROUP)}
-/* GROUP with CALL taking each of its options, at T.F; FLAGS e.g. SR_OPT_REPEAT */
-#define SR_OPT_GROUP_CALL(GROUP, T, F, CALL, FLAGS)                                                          \
-    {.type = SR_OPTION_GROUP, .offset = offsetof(T, F), .group = (GROUP), .call = (CALL), .flags = (FLAGS)}
+/* GROUP with CALL taking each of its options (place: the command's whole
+ * struct; the option's own offset is into the group's struct); FLAGS e.g.
+ * SR_OPT_REPEAT */
+#define SR_OPT_GROUP_CALL(GROUP, CALL, FLAGS)                                                                \
+    {.type = SR_OPTION_GROUP, .group = (GROUP), .call = (CALL), .flags = (FLAGS)}
 /* this command's words for --NAME of an included group */
 #define SR_OPT_FOR(NAME, VALUE, HELP) {.type = SR_OPTION_FOR, .name = (NAME), .value = (VALUE), .help = (HELP)}
 /* --NAME of an included group is not taken here */
