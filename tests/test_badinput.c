@@ -306,6 +306,9 @@ static const bad_case BAD[] = {
      "below absolute zero"},
     {{SIZE_MISSION}, "mission: m\nsite: {pressure: 0 hPa}\nsections:\n" SECTION STAGES, NULL, 0, "@IN@:2:18",
      "implausible"},
+    /* the site model names the key it refuses (the error's key), so the place is the pressure's */
+    {{SIZE_MISSION}, "mission: m\nsite: {temperature: 30 C, pressure: 100 hPa}\nsections:\n" SECTION STAGES, NULL, 0,
+     "@IN@:2:37", "implausible"},
     {{SIZE_MISSION}, MISSION "start: {height: 1000 m, speed: -5 m/s}\n", NULL, 0, "@IN@:9:32",
      "between 0 and 2000 m/s"},
     {{SIZE_MISSION}, MISSION "    deploy: {height: 0 m}\n", NULL, 0, "@IN@:9:22", "above ground"},

@@ -61,6 +61,17 @@ const sr_command sr_cmd_freefall = {
     .run = run_freefall,
 };
 
+/* The option a refusal of the body model is about (its error key). */
+static const char *option_of(const char *key)
+{
+    static const char *const MAP[][2] = {
+        {"curve", "--curve"}, {"diameter", "--diameter"}, {"length", "--length"}, {"mass", "--mass"}, {"area", "--area"}};
+    for (size_t i = 0; i < sizeof MAP / sizeof MAP[0]; i++)
+        if (strcmp(key, MAP[i][0]) == 0)
+            return MAP[i][1];
+    return "--body";
+}
+
 #define MAX_ALT 256
 /* Cd settled to 1e-6 of itself: well past the digits a worked example shows */
 #define TRACE_TOL 1e-6
@@ -456,7 +467,7 @@ static int run_freefall(sr_cli *c, int argc, char **argv)
     sr_bluff_body body;
     if (sr_bluff_body_init(&body, shape, &curve, d, len, mass, area, &e)) {
         sr_bluff_curve_free(&curve);
-        return sr_cli_fail(c, "%s: %s", strstr(e.msg, "curve") ? "--curve" : "--body", e.msg);
+        return sr_cli_fail(c, "%s: %s", option_of(e.key), e.msg);
     }
 
     sr_atmos atm;

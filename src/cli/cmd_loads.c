@@ -104,19 +104,23 @@ typedef struct deploy {
     int at_rest;           /* it opens with no airspeed (released under an open canopy): no opening load */
 } deploy;
 
-/* Which option a library message is about, for the one-line error. */
-static const char *option_of(const char *msg, int mission)
+/* Which option a refusal of the opening model is about, for the one-line
+ * error: its key names the field of sr_opening_input. With a mission the
+ * deployment state is the mission's. */
+static const char *option_of(const sr_error *e, int mission)
 {
-    static const struct {
-        const char *word, *opt;
-    } MAP[] = {{"deployment speed", "--speed"}, {"Mach", "--speed"},       {"filling constant", "--filling-constant"},
-               {"opening-load factor", "--opening-factor"}, {"growth exponent", "--growth-exponent"},
-               {"design factor", "--design-factor"},         {"payload mass", "--mass"},
-               {"flight-path angle", "--path-angle"},        {"cluster allowance", "--cluster-allowance"},
-               {"drag area", "--drag-coefficient"}};
+    static const char *const MAP[][2] = {{"v1", "--speed"},
+                                         {"n_fill", "--filling-constant"},
+                                         {"cx", "--opening-factor"},
+                                         {"exponent", "--growth-exponent"},
+                                         {"design_factor", "--design-factor"},
+                                         {"mass", "--mass"},
+                                         {"path_angle", "--path-angle"},
+                                         {"cluster_allowance", "--cluster-allowance"},
+                                         {"cds0", "--drag-coefficient"}};
     for (size_t i = 0; i < sizeof MAP / sizeof MAP[0]; i++)
-        if (strstr(msg, MAP[i].word))
-            return mission && strcmp(MAP[i].opt, "--speed") == 0 ? "--mission" : MAP[i].opt;
+        if (strcmp(e->key, MAP[i][0]) == 0)
+            return mission && strcmp(MAP[i][1], "--speed") == 0 ? "--mission" : MAP[i][1];
     return mission ? "--mission" : "--speed";
 }
 
@@ -138,10 +142,9 @@ static int solve(sr_cli *c, deploy *d, const tweaks *tw, int mission)
     sr_error e;
     const char *where = mission ? "--mission" : NULL;
     if (sr_loads_evaluate(&d->lc, d->st, 0, &d->band, &e) != SR_OK) {
-        const char *opt = where ? where : option_of(e.msg, 0);
         if (mission)
-            return sr_cli_fail(c, "%s: stage '%s': %s", opt, d->name, e.msg);
-        return sr_cli_fail(c, "%s: %s", option_of(e.msg, 0), e.msg);
+            return sr_cli_fail(c, "%s: stage '%s': %s", where, d->name, e.msg);
+        return sr_cli_fail(c, "%s: %s", option_of(&e, 0), e.msg);
     }
     const sr_loads_state *t = &d->st[0];
     d->mass = t->mass;
@@ -161,8 +164,8 @@ static int solve(sr_cli *c, deploy *d, const tweaks *tw, int mission)
         d->in[k].cluster_allowance = isnan(tw->allowance) ? 0 : tw->allowance;
         if (sr_opening_solve(&d->in[k], &d->res[k], &e) != SR_OK) {
             if (mission)
-                return sr_cli_fail(c, "%s: stage '%s': %s", option_of(e.msg, 1), d->name, e.msg);
-            return sr_cli_fail(c, "%s: %s", option_of(e.msg, 0), e.msg);
+                return sr_cli_fail(c, "%s: stage '%s': %s", option_of(&e, 1), d->name, e.msg);
+            return sr_cli_fail(c, "%s: %s", option_of(&e, 0), e.msg);
         }
     }
     d->v[0] = d->band.v_lo;

@@ -246,7 +246,7 @@ int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q,
      * it; angles are degrees in both systems, dimensionless numbers have no unit, and a bare
      * zero is zero in every unit of a quantity without an offset (absolute temperature has one) */
     if (c->units == SR_UNITS_US && q != SR_Q_NONE && q != SR_Q_ANGLE &&
-        sr_units_parse_strict(text, q, out, &e) != SR_OK && strstr(e.msg, "needs a unit") &&
+        sr_units_parse_strict(text, q, out, &e) != SR_OK && strcmp(e.key, "unit") == 0 &&
         !(q != SR_Q_TEMP && sr_units_parse(text, q, out, NULL) == SR_OK && *out == 0.0)) {
         char num[64];
         snprintf(num, sizeof num, "%s", text + strspn(text, " \t"));
@@ -389,9 +389,9 @@ int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground)
             return rc;
         if (sr_atmos_init_site(m, z, T, p, &e))
             return sr_cli_fail(c, "%s: %s",
-                               e.code == SR_EDOMAIN ? "--site-elevation"
-                               : isnan(p) || (!isnan(T) && strstr(e.msg, "temperature")) ? "--surface-temp"
-                                                                                           : "--surface-pressure",
+                               strcmp(e.key, "elevation") == 0     ? "--site-elevation"
+                               : strcmp(e.key, "temperature") == 0 ? "--surface-temp"
+                                                                   : "--surface-pressure",
                                e.msg);
         *ground = z;
     }

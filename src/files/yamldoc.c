@@ -20,9 +20,8 @@ int sr_yaml_fail(const sr_yaml *y, const yaml_node_t *n, sr_error *err, const ch
     va_end(ap);
     /* libyaml counts lines and columns from zero */
     if (n)
-        return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: %s", y->name, n->start_mark.line + 1,
-                            n->start_mark.column + 1, msg);
-    return sr_error_set(err, SR_EINVAL, "%s: %s", y->name, msg);
+        return sr_error_set_at(err, SR_EINVAL, y->name, n->start_mark.line + 1, n->start_mark.column + 1, "%s", msg);
+    return sr_error_set_at(err, SR_EINVAL, y->name, 0, 0, "%s", msg);
 }
 
 /* Before libyaml reads anything: a NUL byte means binary data. */
@@ -37,8 +36,7 @@ static int prescan(const sr_yaml *y, const char *buf, size_t len, sr_error *err)
             line++;
             col = 0;
         }
-    return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: binary data (a NUL byte); not a YAML text file", y->name, line,
-                        col);
+    return sr_error_set_at(err, SR_EINVAL, y->name, line, col, "binary data (a NUL byte); not a YAML text file");
 }
 
 /* The document is built here from libyaml's events rather than by
@@ -81,7 +79,7 @@ static int fail_at(builder *b, yaml_mark_t m, const char *fmt, ...)
     va_start(ap, fmt);
     vsnprintf(msg, sizeof msg, fmt, ap);
     va_end(ap);
-    return sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: %s", b->y->name, m.line + 1, m.column + 1, msg);
+    return sr_error_set_at(b->err, SR_EINVAL, b->y->name, m.line + 1, m.column + 1, "%s", msg);
 }
 
 static int too_deep(builder *b, yaml_mark_t m)
@@ -282,9 +280,9 @@ static int build(builder *b, yaml_parser_t *p, const char *buf, size_t len)
             if (p->error == YAML_MEMORY_ERROR)
                 rc = sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
             else
-                rc = sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: malformed YAML: %s%s%s", b->y->name, line, col,
-                                  p->problem ? p->problem : "syntax error", p->context ? " " : "",
-                                  p->context ? p->context : "");
+                rc = sr_error_set_at(b->err, SR_EINVAL, b->y->name, line, col, "malformed YAML: %s%s%s",
+                                     p->problem ? p->problem : "syntax error", p->context ? " " : "",
+                                     p->context ? p->context : "");
             break;
         }
         yaml_event_type_t type = ev.type;
@@ -334,7 +332,7 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
     if (len > SR_YAML_MAX_BYTES)
         return sr_error_set(err, SR_EINVAL, "%s: larger than 1 MiB; not a sinkrate file", name);
     if (len == 0)
-        return sr_error_set(err, SR_EINVAL, "%s:1:1: the file is empty", name);
+        return sr_error_set_at(err, SR_EINVAL, name, 1, 1, "the file is empty");
     int rc = prescan(y, buf, len, err);
     if (rc)
         return rc;
@@ -357,7 +355,7 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
     }
     if (!sr_yaml_root(y)) {
         sr_yaml_free(y);
-        return sr_error_set(err, SR_EINVAL, "%s:1:1: the file holds no YAML document", name);
+        return sr_error_set_at(err, SR_EINVAL, name, 1, 1, "the file holds no YAML document");
     }
     return SR_OK;
 }
