@@ -25,7 +25,7 @@ int sr_cli_plot(sr_cli *c, const sr_plot *p, int argc, char **argv);
 int sr_cli_plot_to(sr_cli *c, const sr_plot *p, const char *prefix, int argc, char **argv);
 
 /* Reserve PREFIX.dat, .gp and the figure in the run's transaction before
- * any work (sr_cli_parse does it for --plot; a command with figures of
+ * any work (sr_cli_parse_options does it for --plot; a command with figures of
  * other prefixes reserves those too). 0 or an exit code. */
 int sr_cli_plot_reserve(sr_cli *c, const char *prefix);
 
