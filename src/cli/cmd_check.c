@@ -155,29 +155,20 @@ static int has_name(char names[][32], size_t n, const char *name)
     return 0;
 }
 
-/* Line and column of a kept problem "path:L:C: ..." (0 when it has none). */
-static void position(const char *msg, size_t plen, long *line, long *col)
+/* The kept problems of a file in the order of the file, by their places
+ * (insertion sort: a handful). */
+static void sort_problems(sr_yaml_errors *l)
 {
-    *line = *col = 0;
-    if (sscanf(msg + plen, ":%ld:%ld:", line, col) != 2)
-        *line = *col = 0;
-}
-
-/* The kept problems of a file in the order of the file (insertion sort: a handful). */
-static void sort_problems(sr_yaml_errors *l, const char *path)
-{
-    size_t plen = strlen(path);
     for (size_t i = 1; i < l->n; i++)
         for (size_t j = i; j > 0; j--) {
-            long a1, a2, b1, b2;
-            position(l->msg[j - 1], plen, &a1, &a2);
-            position(l->msg[j], plen, &b1, &b2);
+            int a1 = l->line[j - 1], a2 = l->column[j - 1], b1 = l->line[j], b2 = l->column[j];
             if (a1 < b1 || (a1 == b1 && a2 <= b2))
                 break;
             char tmp[SR_ERROR_MSG_MAX];
             memcpy(tmp, l->msg[j], sizeof tmp);
             memcpy(l->msg[j], l->msg[j - 1], sizeof tmp);
             memcpy(l->msg[j - 1], tmp, sizeof tmp);
+            l->line[j - 1] = b1, l->column[j - 1] = b2, l->line[j] = a1, l->column[j] = a2;
         }
 }
 
@@ -287,9 +278,11 @@ static int run_check(sr_cli *c, int argc, char **argv)
         }
         bad++;
         /* every problem the readers kept, one row and one line each, in the order of the file */
-        if (list->n == 0)
+        if (list->n == 0) {
+            list->line[0] = list->column[0] = 0;
             snprintf(list->msg[list->n++], sizeof list->msg[0], "%s", e.msg);
-        sort_problems(list, argv[i]);
+        }
+        sort_problems(list);
         for (size_t k = 0; k < list->n; k++) {
             char res[SR_ERROR_MSG_MAX + 16];
             snprintf(res, sizeof res, "INVALID: %s", list->msg[k]);

@@ -38,8 +38,12 @@ void sr_yaml_keep(const sr_yaml *y, const sr_error *err)
     for (size_t i = 0; i < l->n; i++)
         if (strcmp(l->msg[i], err->msg) == 0)
             return;
-    if (l->n < SR_YAML_MAX_ERRORS)
+    if (l->n < SR_YAML_MAX_ERRORS) {
+        int here = strcmp(err->file, y->name) == 0;
+        l->line[l->n] = here ? err->line : 0;
+        l->column[l->n] = here ? err->column : 0;
         snprintf(l->msg[l->n++], sizeof l->msg[0], "%s", err->msg);
+    }
     else
         l->more++;
 }
