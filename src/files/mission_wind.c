@@ -100,8 +100,10 @@ int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_er
             const char *s = sr_yaml_suggest(model, MODELS);
             if (s)
                 return sr_yaml_fail(y, mn, err, "unknown wind model '%s'; did you mean '%s'?", model, s);
-            return sr_yaml_fail(y, mn, err, "unknown wind model '%s' (constant, power-law, log-law, table, sounding)",
-                                model);
+            char list[160] = "";
+            for (const char *const *k = MODELS; *k; k++)
+                snprintf(list + strlen(list), sizeof list - strlen(list), "%s%s", k == MODELS ? "" : ", ", *k);
+            return sr_yaml_fail(y, mn, err, "unknown wind model '%s' (%s)", model, list);
         }
     } else {
         /* without a model: a table when rows or a file are given, else constant */

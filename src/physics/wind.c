@@ -55,6 +55,20 @@ static double wrap_bearing(double b)
     return b < 0.0 ? b + 2.0 * PI : b;
 }
 
+/* A law of height fitted near the ground: it takes a gradient height, and
+ * is warned about when used far above it. A new law of that kind is added
+ * here once. */
+static int is_law(const sr_wind *w)
+{
+    return w->kind == SR_WIND_POWER || w->kind == SR_WIND_LOG;
+}
+
+/* The law's name in messages ("power-law"), as the mission file writes it. */
+static const char *law_name(const sr_wind *w)
+{
+    return w->kind == SR_WIND_POWER ? "power-law" : "log-law";
+}
+
 int sr_wind_init_constant(sr_wind *w, double speed, double from, sr_error *err)
 {
     sr_wind_init_calm(w);
@@ -118,7 +132,7 @@ int sr_wind_init_log(sr_wind *w, double speed_ref, double from, double h_ref, do
 
 int sr_wind_set_gradient_height(sr_wind *w, double h, sr_error *err)
 {
-    if (w->kind != SR_WIND_POWER && w->kind != SR_WIND_LOG)
+    if (!is_law(w))
         return sr_error_set(err, SR_EINVAL, "a gradient height belongs to a power-law or log-law wind");
     if (!(h > w->h_ref && h <= 5000.0))
         return sr_error_set_key(err, SR_EINVAL, "gradient-height",
@@ -130,7 +144,7 @@ int sr_wind_set_gradient_height(sr_wind *w, double h, sr_error *err)
 
 int sr_wind_check_extrapolation(const sr_wind *w, double top, sr_unit_system sys, char *buf, size_t len)
 {
-    if ((w->kind != SR_WIND_POWER && w->kind != SR_WIND_LOG) || w->h_grad > 0.0 || !(top > SR_WIND_GRADIENT_HEIGHT))
+    if (!is_law(w) || w->h_grad > 0.0 || !(top > SR_WIND_GRADIENT_HEIGHT))
         return 0;
     double e, n;
     sr_wind_at(w, top, &e, &n);
@@ -141,7 +155,7 @@ int sr_wind_check_extrapolation(const sr_wind *w, double top, sr_unit_system sys
                  "blows %.1f %s; such a law describes the wind near the ground, up to a gradient height of about "
                  "%.0f %s over open country (wind engineering, from memory): for drift you rely on, give a wind "
                  "table or a sounding, or set gradient-height: to hold the wind constant above it",
-                 w->kind == SR_WIND_POWER ? "power-law" : "log-law", sr_units_from_si(w->h_ref, SR_Q_LENGTH, sys), ul,
+                 law_name(w), sr_units_from_si(w->h_ref, SR_Q_LENGTH, sys), ul,
                  sr_units_from_si(top, SR_Q_LENGTH, sys), ul, sr_units_from_si(hypot(e, n), SR_Q_SPEED, sys), uv,
                  sr_units_from_si(SR_WIND_GRADIENT_HEIGHT, SR_Q_LENGTH, sys), ul);
     return 1;
@@ -329,7 +343,7 @@ const double *sr_wind_knots(const sr_wind *w, size_t *n)
         *n = w->n;
         return w->h;
     }
-    if ((w->kind == SR_WIND_POWER || w->kind == SR_WIND_LOG) && w->h_grad > 0.0) {
+    if (is_law(w) && w->h_grad > 0.0) {
         *n = 1;
         return &w->h_grad;
     }
@@ -371,7 +385,7 @@ void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t le
         break;
     }
     }
-    if ((w->kind == SR_WIND_POWER || w->kind == SR_WIND_LOG) && w->h_grad > 0.0) {
+    if (is_law(w) && w->h_grad > 0.0) {
         size_t l = strlen(buf);
         snprintf(buf + l, len > l ? len - l : 0, "; held constant above %.0f %s (gradient height)", LEN(w->h_grad), ul);
     }
