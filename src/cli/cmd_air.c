@@ -21,6 +21,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "atmosphere", NULL};
+
 static int run_air(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_air = {
@@ -32,6 +35,7 @@ const sr_command sr_cmd_air = {
              "every 1 km (from the site elevation with a site model). The 1976 standard covers -1 km to 86 km; a "
              "sounding covers its own rows and is never extrapolated.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_air,
 };
 

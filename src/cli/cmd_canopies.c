@@ -20,6 +20,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "families", NULL};
+
 static int run_canopies(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_canopies = {
@@ -32,6 +35,7 @@ const sr_command sr_cmd_canopies = {
              "its source and its outside check (none yet, or what checked it) and the publication that would check "
              "it. docs/validation.md lists the same.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_canopies,
 };
 

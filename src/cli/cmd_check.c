@@ -25,6 +25,9 @@ typedef struct check_opts {
 
 static const sr_opt OPTS[] = {SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT), SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "files", NULL};
+
 static int run_check(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_check = {
@@ -41,6 +44,7 @@ const sr_command sr_cmd_check = {
              "load), so a file that profile would reject (a descent that cannot be integrated, a supersonic "
              "deployment) is rejected here too. Exit 0 when all are valid, 2 otherwise.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_check,
 };
 

@@ -60,6 +60,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "uncertainty", "percentiles", "limits", NULL};
+
 static int run_dispersion(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_dispersion = {
@@ -75,6 +78,7 @@ const sr_command sr_cmd_dispersion = {
              "its Monte Carlo error. Without an uncertainty: block only the drag varies, and the page says so. "
              "Sample i depends only on (seed, i): the output is the same at any thread count.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_dispersion,
 };
 

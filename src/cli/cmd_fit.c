@@ -65,6 +65,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "segments", "windows", "drag", "rates", "opening", "wind", "pooled", NULL};
+
 static int run_fit(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_fit = {
@@ -84,6 +87,7 @@ const sr_command sr_cmd_fit = {
              "or altitude (above sea level) or pressure; optional acceleration (along the vehicle axis), east and "
              "north, or latitude and longitude.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_fit,
 };
 

@@ -46,6 +46,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "equilibria", "trace_N", NULL};
+
 static int run_freefall(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_freefall = {
@@ -58,6 +61,7 @@ const sr_command sr_cmd_freefall = {
              "each with its Reynolds number, drag coefficient and stability; --trace also shows the classical "
              "fixed-point iteration step by step.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_freefall,
 };
 

@@ -64,6 +64,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "methods", "stages", "limits", NULL};
+
 static int run_loads(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_loads = {
@@ -80,6 +83,7 @@ const sr_command sr_cmd_loads = {
              "governs. A measured opening load or factor (measured-opening: in a canopy file) replaces the three "
              "estimates.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_loads,
 };
 

@@ -48,6 +48,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "sections", "free_fall_drag", "stages", "timeline", "stage_results", "touchdown", "energy", "limits", "attitudes", "failure_case_list", "failure_cases", NULL};
+
 static int run_profile(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_profile = {
@@ -66,6 +69,7 @@ const sr_command sr_cmd_profile = {
              "exit code. --plot PREFIX draws two figures: PREFIX (height, descent rate and airspeed against time) "
              "and PREFIX-track (the ground track with the wind and the drift limit, and the wind profile).",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_profile,
 };
 

@@ -29,6 +29,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "rates", NULL};
+
 static int run_rate(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_rate = {
@@ -41,6 +44,7 @@ const sr_command sr_cmd_rate = {
              "the drag-coefficient range (or exact for a measured coefficient on the reference the size is given "
              "on), with dynamic pressure, the equivalent drop height v^2/2g and the kinetic energy at that speed.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_rate,
 };
 

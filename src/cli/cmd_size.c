@@ -34,6 +34,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "rate_of_typical_size", NULL};
+
 static int run_size(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_size = {
@@ -46,6 +49,7 @@ const sr_command sr_cmd_size = {
              "where the main opens). The band (low / typical / high) comes from the family's drag-coefficient "
              "range: the high drag coefficient gives the smallest canopy.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_size,
 };
 

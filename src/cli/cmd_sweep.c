@@ -105,6 +105,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
     SR_OPT_END};
 
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "sweep", NULL};
+
 static int run_sweep(sr_cli *c, int argc, char **argv);
 
 const sr_command sr_cmd_sweep = {
@@ -117,6 +120,7 @@ const sr_command sr_cmd_sweep = {
              "dynamic pressure and Mach number over one variable, one row per value and one curve per canopy (and "
              "per --by value); --plot draws it.",
     .options = OPTS,
+    .tables = TABLES,
     .run = run_sweep,
 };
 

@@ -95,6 +95,11 @@ typedef struct sr_command {
     const char *usage;    /* the usage lines, as written */
     const char *about;    /* what it does: paragraphs, wrapped like help texts */
     const sr_opt *options;
+    /* the keys of the tables its report holds ("values" first: its single
+     * values), NULL-terminated, for --table and --help; a name ending in "_N"
+     * stands for a numbered family (trace_1, trace_2, ...);
+     * tests/test_tables.c checks them against real runs */
+    const char *const *tables;
     /* argv starts at the command's name; an exit code, or -1 after --help */
     int (*run)(sr_cli *c, int argc, char **argv);
 } sr_command;
