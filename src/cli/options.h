@@ -3,7 +3,7 @@
  * table, the option list of --help and the shell completion are all made
  * from it, so adding an option is one row. Shared groups (payload, canopy,
  * atmosphere, figure, output: cli/common.h) are declared once and included.
- * Recipe: DEVELOPERS.md, "Add an option". */
+ * Recipe: DEVELOPERS.md, "Adding an option". */
 #ifndef SR_CLI_OPTIONS_H
 #define SR_CLI_OPTIONS_H
 
