@@ -83,6 +83,12 @@ static void test_no_two_options_collide(void **state)
     for (const sr_command *const *cmd = sr_commands; *cmd; cmd++) {
         sr_opt_flat flat[SR_OPT_MAX];
         size_t n = sr_opt_flatten((*cmd)->options, flat, SR_OPT_MAX);
+        /* every command takes the output options, -h/--help among them */
+        int help = 0;
+        for (size_t i = 0; i < n; i++)
+            help |= flat[i].opt->type == SR_OPTION_HELP && flat[i].group && flat[i].group->group == SR_GROUP_OUTPUT;
+        if (!help)
+            fail_msg("%s does not include SR_GROUP_OUTPUT (-o, --format, --help, ...)", (*cmd)->name);
         for (size_t i = 0; i < n; i++) {
             const sr_opt *a = flat[i].opt;
             assert_true(a->name || a->short_name);
