@@ -70,6 +70,11 @@ struct sr_opt {
 #define SR_OPT_CALL(NAME, VALUE, T, F, CALL, HELP)                                                           \
     {.type = SR_OPTION_CALL, .name = (NAME), .value = (VALUE), .offset = offsetof(T, F), .call = (CALL),     \
      .help = (HELP)}
+/* --NAME VALUE that may be given several times: CALL keeps each value
+ * (e.g. appends it to a list at &T.F) */
+#define SR_OPT_REPEATED(NAME, VALUE, T, F, CALL, HELP)                                                       \
+    {.type = SR_OPTION_CALL, .name = (NAME), .value = (VALUE), .offset = offsetof(T, F), .call = (CALL),     \
+     .help = (HELP), .flags = SR_OPT_REPEAT}
 /* every option of GROUP, its struct at T.F */
 #define SR_OPT_GROUP(GROUP, T, F) {.type = SR_OPTION_GROUP, .offset = offsetof(T, F), .group = (GROUP)}
 /* a group whose options all live in sr_cli (output, figure) */
