@@ -9,6 +9,7 @@
 #include <unistd.h>
 #include <jansson.h>
 
+#include "cli/commands.h"
 #include "output/report.h"
 #include "testutil.h"
 
@@ -61,7 +62,16 @@ static void test_caution_everywhere(void **state)
         {"canopies", NULL},
         {"canopies", "ringslot", NULL},
         {"check", "@" REVISED, NULL},
+        {"fit", "@payloads/demo-flight.csv", "--mission", "@payloads/desert-club-rocket.yaml", NULL},
     };
+    /* every command is here: a new one fails until it has a line */
+    for (const sr_command *const *cmd = sr_commands; *cmd; cmd++) {
+        int found = 0;
+        for (size_t i = 0; i < sizeof CMDS / sizeof CMDS[0]; i++)
+            found |= strcmp(CMDS[i][0], (*cmd)->name) == 0;
+        if (!found)
+            fail_msg("the caution test has no line for the command '%s'", (*cmd)->name);
+    }
     for (size_t i = 0; i < sizeof CMDS / sizeof CMDS[0]; i++) {
         for (size_t f = 0; f < 3; f++) {
             char *argv[20];

@@ -1,6 +1,7 @@
 /* error.c - filling and prefixing the error struct. */
 #include "base/error.h"
 
+#include <limits.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -15,6 +16,20 @@ void sr_error_printable(char *s)
             *p = '?';
 }
 
+static void fields_clear(sr_error *err)
+{
+    err->key[0] = '\0';
+    err->file[0] = '\0';
+    err->line = err->column = 0;
+}
+
+static void set_place(sr_error *err, const char *file, size_t line, size_t column)
+{
+    snprintf(err->file, sizeof err->file, "%s", file ? file : "");
+    err->line = line > INT_MAX ? INT_MAX : (int)line;
+    err->column = line == 0 ? 0 : column > INT_MAX ? INT_MAX : (int)column;
+}
+
 int sr_error_set(sr_error *err, int code, const char *fmt, ...)
 {
     if (err) {
@@ -24,8 +39,56 @@ int sr_error_set(sr_error *err, int code, const char *fmt, ...)
         va_end(ap);
         sr_error_printable(err->msg);
         err->code = code;
+        fields_clear(err);
     }
     return code;
+}
+
+int sr_error_set_key(sr_error *err, int code, const char *key, const char *fmt, ...)
+{
+    if (err) {
+        va_list ap;
+        va_start(ap, fmt);
+        vsnprintf(err->msg, sizeof err->msg, fmt, ap);
+        va_end(ap);
+        sr_error_printable(err->msg);
+        err->code = code;
+        fields_clear(err);
+        snprintf(err->key, sizeof err->key, "%s", key ? key : "");
+    }
+    return code;
+}
+
+int sr_error_set_at(sr_error *err, int code, const char *file, size_t line, size_t column, const char *fmt, ...)
+{
+    if (err) {
+        char text[SR_ERROR_MSG_MAX];
+        va_list ap;
+        va_start(ap, fmt);
+        vsnprintf(text, sizeof text, fmt, ap);
+        va_end(ap);
+        if (line)
+            snprintf(err->msg, sizeof err->msg, "%s:%zu:%zu: %s", file ? file : "", line, column, text);
+        else
+            snprintf(err->msg, sizeof err->msg, "%s: %s", file ? file : "", text);
+        sr_error_printable(err->msg);
+        err->code = code;
+        fields_clear(err);
+        set_place(err, file, line, column);
+    }
+    return code;
+}
+
+int sr_error_locate(sr_error *err, const char *file, size_t line, size_t column)
+{
+    if (!err)
+        return SR_EINVAL;
+    if (line)
+        sr_error_prefix(err, "%s:%zu:%zu: ", file ? file : "", line, column);
+    else
+        sr_error_prefix(err, "%s: ", file ? file : "");
+    set_place(err, file, line, column);
+    return err->code;
 }
 
 int sr_error_prefix(sr_error *err, const char *fmt, ...)
@@ -48,6 +111,7 @@ void sr_error_clear(sr_error *err)
     if (err) {
         err->code = SR_OK;
         err->msg[0] = '\0';
+        fields_clear(err);
     }
 }
 

@@ -8,6 +8,7 @@
 #include "analysis/band.h"
 #include "analysis/failcase.h"
 #include "analysis/judge.h"
+#include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "cli/maps.h"
@@ -20,71 +21,57 @@
 
 #define PI 3.14159265358979323846
 
-enum { OPT_FAST = OPT_COMMAND_BASE, OPT_FAIL, OPT_LIMITS_AT, OPT_TRAJECTORY, OPT_GEOJSON, OPT_BAND_ENDS };
-
-static const struct option OPTS[] = {
-    {"fast", no_argument, NULL, OPT_FAST},
-    {"trajectory", required_argument, NULL, OPT_TRAJECTORY},
-    {"geojson", required_argument, NULL, OPT_GEOJSON},
-    {"band-ends", no_argument, NULL, OPT_BAND_ENDS},
-    {"fail", required_argument, NULL, OPT_FAIL},
-    {"limits-at", required_argument, NULL, OPT_LIMITS_AT},
-    SR_OPTS_PLOT,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate profile FILE [options]\n\n"
-    "The staged descent of a mission file: each deployment, the transient after it\n"
-    "(adaptive ODE, drag area growing over the filling time, until the speed is within\n"
-    "1% of steady), the steady stages (quadrature of dt = dh/v and of the wind drift),\n"
-    "the event timeline, per-stage descent rates and opening loads, touchdown speed,\n"
-    "kinetic energy of every section, descent time, drift distance and bearing, and each\n"
-    "limit of the file met or exceeded. Every result is a band: the descent is flown at\n"
-    "the typical values and at both ends of every band (drag range, mass band), and each\n"
-    "opening load over the growth-exponent and opening-load-factor ranges too.\n"
-    "Exit 1 when a limit is exceeded at the worse end of a band (the conservative\n"
-    "default; --limits-at typical relaxes it and the output says it is not conservative).\n"
-    "The failure cases of the file are judged against every limit but never change the\n"
-    "exit code. --plot PREFIX draws two figures: PREFIX (height, descent rate and airspeed\n"
-    "against time) and PREFIX-track (the ground track with the wind and the drift limit,\n"
-    "and the wind profile).\n\n"
-    "  --fail STAGE[,STAGE]     failure case: these stages do not deploy ('all': no canopy);\n"
-    "                           the limits and the exit code then judge it, falling bodies\n"
-    "                           in their worse attitude (broadside or tumbling)\n"
-    SR_HELP_LIMITS_AT
-    "  --fast                   the fast mode used for dispersion and design search (steady\n"
-    "                           stages from tables, transients reused from the nominal\n"
-    "                           descent, opening loads by the fixed-step solver)\n"
-    "  --trajectory FILE        the time history of every body: time, height, altitude,\n"
-    "                           descent rate, airspeed, east, north, dynamic pressure, Mach,\n"
-    "                           stage, event; JSON when FILE ends in .json, CSV when in\n"
-    "                           .csv, otherwise as --format json (JSON) or CSV\n"
-    "  --geojson FILE           a landing map (GeoJSON, RFC 7946): tracks, landing points,\n"
-    "                           deployments and the drift limit on WGS 84; the mission needs\n"
-    "                           site.latitude and site.longitude\n"
-    "  --band-ends              trajectory and map also at both ends of the band: the fast\n"
-    "                           end (low drag, heavy) and the slow end (high drag, light)\n\n";
-
 typedef struct profile_opts {
     int fast, band_ends;
     const char *fail, *limits_at, *trajectory, *geojson;
 } profile_opts;
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    profile_opts *o = ud;
-    (void)c;
-    switch (code) {
-    case OPT_FAST: o->fast = 1; return 0;
-    case OPT_LIMITS_AT: o->limits_at = arg; return 0;
-    case OPT_FAIL: o->fail = arg; return 0;
-    case OPT_TRAJECTORY: o->trajectory = arg; return 0;
-    case OPT_GEOJSON: o->geojson = arg; return 0;
-    case OPT_BAND_ENDS: o->band_ends = 1; return 0;
-    }
-    return 1;
-}
+static const sr_opt OPTS[] = {
+    SR_OPT_STRING("fail", "STAGE[,STAGE]", profile_opts, fail,
+                  "failure case: these stages do not deploy ('all': no canopy); the limits and the exit code then "
+                  "judge it, falling bodies in their worse attitude (broadside or tumbling)"),
+    SR_OPT_LIMITS_AT(profile_opts, limits_at),
+    SR_OPT_FLAG("fast", profile_opts, fast,
+                "the fast mode used for dispersion and design search (steady stages from tables, transients reused "
+                "from the nominal descent, opening loads by the fixed-step solver)"),
+    SR_OPT_STRING("trajectory", "FILE", profile_opts, trajectory,
+                  "the time history of every body: time, height, altitude, descent rate, airspeed, east, north, "
+                  "dynamic pressure, Mach, stage, event; JSON when FILE ends in .json, CSV when in .csv, otherwise "
+                  "as --format json (JSON) or CSV"),
+    SR_OPT_STRING("geojson", "FILE", profile_opts, geojson,
+                  "a landing map (GeoJSON, RFC 7946): tracks, landing points, deployments and the drift limit on "
+                  "WGS 84; the mission needs site.latitude and site.longitude"),
+    SR_OPT_FLAG("band-ends", profile_opts, band_ends,
+                "trajectory and map also at both ends of the band: the fast end (low drag, heavy) and the slow end "
+                "(high drag, light)"),
+    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
+    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "sections", "free_fall_drag", "stages", "timeline", "stage_results", "touchdown", "energy", "limits", "attitudes", "failure_case_list", "failure_cases", NULL};
+
+static int run_profile(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_profile = {
+    .name = "profile",
+    .summary = "staged descent of a mission file: events, time, drift, touchdown, limits",
+    .usage = "usage: sinkrate profile FILE [options]\n",
+    .about = "The staged descent of a mission file: each deployment, the transient after it (adaptive ODE, drag "
+             "area growing over the filling time, until the speed is within 1% of steady), the steady stages "
+             "(quadrature of dt = dh/v and of the wind drift), the event timeline, per-stage descent rates and "
+             "opening loads, touchdown speed, kinetic energy of every section, descent time, drift distance and "
+             "bearing, and each limit of the file met or exceeded. Every result is a band: the descent is flown at "
+             "the typical values and at both ends of every band (drag range, mass band), and each opening load over "
+             "the growth-exponent and opening-load-factor ranges too. Exit 1 when a limit is exceeded at the worse "
+             "end of a band (the conservative default; --limits-at typical relaxes it and the output says it is not "
+             "conservative). The failure cases of the file are judged against every limit but never change the "
+             "exit code. --plot PREFIX draws two figures: PREFIX (height, descent rate and airspeed against time) "
+             "and PREFIX-track (the ground track with the wind and the drift limit, and the wind profile).",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_profile,
+};
 
 static int parse_fail(sr_cli *c, const sr_mission *m, const char *text, unsigned *mask)
 {
@@ -543,11 +530,11 @@ static void report_notes(sr_report *r, const sr_mission *m, int fast)
                           "solution, opening loads by the fixed-step solver; no transient events are listed.");
 }
 
-int sr_cmd_profile(sr_cli *c, int argc, char **argv)
+static int run_profile(sr_cli *c, int argc, char **argv)
 {
     profile_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int first, rc = sr_cli_parse_options(c, argc, argv, &o, &first);
     if (rc)
         return rc;
     sr_judge_basis basis = SR_JUDGE_BAND_END;

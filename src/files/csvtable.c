@@ -54,7 +54,7 @@ static void fail_at(parse_state *s, size_t column, const char *fmt, const char *
     s->failed = 1;
     char msg[SR_ERROR_MSG_MAX];
     snprintf(msg, sizeof msg, fmt, a, b);
-    sr_error_set(s->err, SR_EINVAL, "%s:%zu:%zu: %s", s->name, s->line, column, msg);
+    sr_error_set_at(s->err, SR_EINVAL, s->name, s->line, column, "%s", msg);
 }
 
 static void fail(parse_state *s, size_t field, const char *fmt, const char *a, const char *b)
@@ -360,10 +360,10 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
     csv_free(&p);
     int failed = s->failed;
     if (!failed && !s->header_done) {
-        sr_error_set(err, SR_EINVAL, "%s:1:1: empty table (expected a header row and data rows)", name);
+        sr_error_set_at(err, SR_EINVAL, name, 1, 1, "empty table (expected a header row and data rows)");
         failed = 1;
     } else if (!failed && t->nrows == 0) {
-        sr_error_set(err, SR_EINVAL, "%s:%zu:1: the table has a header but no data rows", name, s->line);
+        sr_error_set_at(err, SR_EINVAL, name, s->line, 1, "the table has a header but no data rows");
         failed = 1;
     }
     free(c);
@@ -471,7 +471,7 @@ int sr_csvtable_require_increasing(const sr_csvtable *t, size_t c, const char *p
         return SR_OK;
     for (size_t i = 1; i < t->nrows; i++)
         if (!(t->col[c][i] > t->col[c][i - 1]))
-            return sr_error_set(err, SR_EINVAL, "%s:%zu:1: %s must increase strictly from row to row", path,
-                                t->row_line[i], what);
+            return sr_error_set_at(err, SR_EINVAL, path, t->row_line[i], 1, "%s must increase strictly from row to row",
+                                   what);
     return SR_OK;
 }

@@ -81,9 +81,9 @@ static size_t header_line(const char *buf, size_t len)
 
 static int fail_cell(const sr_flightlog *l, size_t i, size_t f, sr_error *err, const char *msg)
 {
-    char w[600];
-    sr_flightlog_where(l, i, f, w, sizeof w);
-    return sr_error_set(err, SR_EINVAL, "%s: %s", w, msg);
+    size_t line = i < l->n ? l->line[i] : l->header_line;
+    size_t col = l->text ? sr_csvtable_cell_column(l->text, l->text_len, line, f) : 1;
+    return sr_error_set_at(err, SR_EINVAL, l->path, line, col, "%s", msg);
 }
 
 static int check(sr_flightlog *l, const sr_csvtable *t, double max_gap, sr_error *err)

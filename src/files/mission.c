@@ -67,8 +67,11 @@ static int parse_atmos(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *e
                                 z, lo, hi);
         return SR_OK;
     }
-    if ((rc = sr_atmos_init_site(&m->atmos, z, T, p, &e)))
-        return sr_yaml_fail(y, tn ? tn : pn ? pn : en, err, "%s", e.msg);
+    if ((rc = sr_atmos_init_site(&m->atmos, z, T, p, &e))) {
+        /* the key the site model refuses: elevation, temperature or pressure */
+        yaml_node_t *blame = sr_yaml_get(y, site, e.key);
+        return sr_yaml_fail(y, blame ? blame : tn ? tn : pn ? pn : en, err, "%s", e.msg);
+    }
     return SR_OK;
 }
 

@@ -101,8 +101,10 @@ int sr_mission_wind_parse(sr_wind *w, const sr_yaml *y, yaml_node_t *n, const ch
             const char *s = sr_yaml_suggest(model, MODELS);
             if (s)
                 return sr_yaml_fail(y, mn, err, "unknown wind model '%s'; did you mean '%s'?", model, s);
-            return sr_yaml_fail(y, mn, err, "unknown wind model '%s' (constant, power-law, log-law, table, sounding)",
-                                model);
+            char list[160] = "";
+            for (const char *const *k = MODELS; *k; k++)
+                snprintf(list + strlen(list), sizeof list - strlen(list), "%s%s", k == MODELS ? "" : ", ", *k);
+            return sr_yaml_fail(y, mn, err, "unknown wind model '%s' (%s)", model, list);
         }
     } else {
         /* without a model: a table when rows or a file are given, else constant */
@@ -157,30 +159,19 @@ int sr_mission_wind_parse(sr_wind *w, const sr_yaml *y, yaml_node_t *n, const ch
     yaml_node_t *xn = sr_yaml_get(y, n, "exponent");
     if (xn && (rc = sr_yaml_number(y, xn, &alpha, err)))
         return rc;
-    yaml_node_t *blame = sr_yaml_get(y, n, "speed");
     if (strcmp(model, "constant") == 0) {
         rc = sr_wind_init_constant(w, speed, from, &e);
     } else if (strcmp(model, "power-law") == 0) {
         rc = sr_wind_init_power(w, speed, from, href, alpha, &e);
-        if (rc && strstr(e.msg, "exponent"))
-            blame = xn;
-        else if (rc && strstr(e.msg, "height"))
-            blame = sr_yaml_get(y, n, "reference-height");
     } else {
         if (isnan(z0))
             return sr_yaml_fail(y, n, err, "the log-law wind needs roughness-length: (e.g. \"0.03 m\" for open "
                                            "grassland)");
         rc = sr_wind_init_log(w, speed, from, href, z0, disp, &e);
-        if (rc && strstr(e.msg, "reference height"))
-            blame = sr_yaml_get(y, n, "reference-height");
-        else if (rc && strstr(e.msg, "roughness"))
-            blame = sr_yaml_get(y, n, "roughness-length");
-        else if (rc && strstr(e.msg, "displacement"))
-            blame = sr_yaml_get(y, n, "displacement");
     }
     if (rc) {
-        if (strstr(e.msg, "direction"))
-            blame = sr_yaml_get(y, n, "from");
+        /* the wind model names the key it refuses (its keys are the file's) */
+        yaml_node_t *blame = sr_yaml_get(y, n, e.key[0] ? e.key : "speed");
         return sr_yaml_fail(y, blame ? blame : n, err, "%s", e.msg);
     }
     yaml_node_t *gn = sr_yaml_get(y, n, "gradient-height");

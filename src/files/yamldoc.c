@@ -23,10 +23,9 @@ int sr_yaml_fail(const sr_yaml *y, const yaml_node_t *n, sr_error *err, const ch
         err = &local;
     /* libyaml counts lines and columns from zero */
     if (n)
-        sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: %s", y->name, n->start_mark.line + 1, n->start_mark.column + 1,
-                     msg);
+        sr_error_set_at(err, SR_EINVAL, y->name, n->start_mark.line + 1, n->start_mark.column + 1, "%s", msg);
     else
-        sr_error_set(err, SR_EINVAL, "%s: %s", y->name, msg);
+        sr_error_set_at(err, SR_EINVAL, y->name, 0, 0, "%s", msg);
     sr_yaml_keep(y, err);
     return SR_EINVAL;
 }
@@ -39,8 +38,12 @@ void sr_yaml_keep(const sr_yaml *y, const sr_error *err)
     for (size_t i = 0; i < l->n; i++)
         if (strcmp(l->msg[i], err->msg) == 0)
             return;
-    if (l->n < SR_YAML_MAX_ERRORS)
+    if (l->n < SR_YAML_MAX_ERRORS) {
+        int here = strcmp(err->file, y->name) == 0;
+        l->line[l->n] = here ? err->line : 0;
+        l->column[l->n] = here ? err->column : 0;
         snprintf(l->msg[l->n++], sizeof l->msg[0], "%s", err->msg);
+    }
     else
         l->more++;
 }
@@ -83,8 +86,7 @@ static int prescan(const sr_yaml *y, const char *buf, size_t len, sr_error *err)
             line++;
             col = 0;
         }
-    return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: binary data (a NUL byte); not a YAML text file", y->name, line,
-                        col);
+    return sr_error_set_at(err, SR_EINVAL, y->name, line, col, "binary data (a NUL byte); not a YAML text file");
 }
 
 /* The document is built here from libyaml's events rather than by
@@ -127,7 +129,7 @@ static int fail_at(builder *b, yaml_mark_t m, const char *fmt, ...)
     va_start(ap, fmt);
     vsnprintf(msg, sizeof msg, fmt, ap);
     va_end(ap);
-    return sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: %s", b->y->name, m.line + 1, m.column + 1, msg);
+    return sr_error_set_at(b->err, SR_EINVAL, b->y->name, m.line + 1, m.column + 1, "%s", msg);
 }
 
 static int too_deep(builder *b, yaml_mark_t m)
@@ -329,12 +331,12 @@ static int build(builder *b, yaml_parser_t *p, const char *buf, size_t len)
             if (p->error == YAML_MEMORY_ERROR)
                 rc = sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
             else if (tab)
-                rc = sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: a tab character: YAML indents with spaces, never "
-                                  "tabs (replace it with spaces)", b->y->name, line, tab);
+                rc = sr_error_set_at(b->err, SR_EINVAL, b->y->name, line, tab,
+                                     "a tab character: YAML indents with spaces, never tabs (replace it with spaces)");
             else
-                rc = sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: malformed YAML: %s%s%s", b->y->name, line, col,
-                                  p->problem ? p->problem : "syntax error", p->context ? " " : "",
-                                  p->context ? p->context : "");
+                rc = sr_error_set_at(b->err, SR_EINVAL, b->y->name, line, col, "malformed YAML: %s%s%s",
+                                     p->problem ? p->problem : "syntax error", p->context ? " " : "",
+                                     p->context ? p->context : "");
             break;
         }
         yaml_event_type_t type = ev.type;
@@ -394,8 +396,8 @@ static void keep_tab_lines(sr_yaml *y, const char *buf, size_t len)
         }
         if (tab && i < len && buf[i] != '\n' && buf[i] != '#') {
             sr_error e;
-            sr_error_set(&e, SR_EINVAL, "%s:%zu:%d: a tab character: YAML indents with spaces, never tabs (replace "
-                         "it with spaces)", y->name, line, tab);
+            sr_error_set_at(&e, SR_EINVAL, y->name, line, (size_t)tab,
+                            "a tab character: YAML indents with spaces, never tabs (replace it with spaces)");
             sr_yaml_keep(y, &e);
         }
         while (i < len && buf[i] != '\n')
@@ -421,7 +423,7 @@ static int load_string(sr_yaml *y, const char *name, const char *buf, size_t len
     if (len > SR_YAML_MAX_BYTES)
         return sr_error_set(err, SR_EINVAL, "%s: larger than 1 MiB; not a sinkrate file", name);
     if (len == 0)
-        return sr_error_set(err, SR_EINVAL, "%s:1:1: the file is empty", name);
+        return sr_error_set_at(err, SR_EINVAL, name, 1, 1, "the file is empty");
     int rc = prescan(y, buf, len, err);
     if (rc)
         return rc;
@@ -447,7 +449,7 @@ static int load_string(sr_yaml *y, const char *name, const char *buf, size_t len
     }
     if (!sr_yaml_root(y)) {
         sr_yaml_free(y);
-        return sr_error_set(err, SR_EINVAL, "%s:1:1: the file holds no YAML document", name);
+        return sr_error_set_at(err, SR_EINVAL, name, 1, 1, "the file holds no YAML document");
     }
     return SR_OK;
 }

@@ -25,6 +25,7 @@
 #define SR_YAML_MAX_ERRORS 64
 typedef struct sr_yaml_errors {
     char msg[SR_YAML_MAX_ERRORS][SR_ERROR_MSG_MAX];
+    int line[SR_YAML_MAX_ERRORS], column[SR_YAML_MAX_ERRORS]; /* each one's place in this file (0: none) */
     size_t n;      /* kept */
     size_t more;   /* beyond SR_YAML_MAX_ERRORS, counted only */
 } sr_yaml_errors;

@@ -124,16 +124,17 @@ int sr_atmos_init_site(sr_atmos *m, double z_site, double T_s, double p_s, sr_er
 {
     sr_atmos_init_standard(m);
     if (!isfinite(z_site) || z_site < SR_ATMOS_Z_MIN || z_site > 20000.0)
-        return sr_error_set(err, SR_EDOMAIN, "site elevation %g m is outside -1000 m .. 20000 m", z_site);
+        return sr_error_set_key(err, SR_EDOMAIN, "elevation", "site elevation %g m is outside -1000 m .. 20000 m",
+                                z_site);
     double Tstd, pstd;
     sr_atmos_standard_tp(z_site, 0.0, &Tstd, &pstd);
     if (!isnan(T_s) && (!isfinite(T_s) || T_s < 173.15 || T_s > 343.15))
-        return sr_error_set(err, SR_EINVAL,
-                            "surface temperature %.2f K is outside 173.15 K .. 343.15 K (-100 C .. +70 C)", T_s);
+        return sr_error_set_key(err, SR_EINVAL, "temperature",
+                                "surface temperature %.2f K is outside 173.15 K .. 343.15 K (-100 C .. +70 C)", T_s);
     if (!isnan(p_s) && (!isfinite(p_s) || p_s < 0.3 * pstd || p_s > 1.3 * pstd))
-        return sr_error_set(err, SR_EINVAL,
-                            "surface pressure %.0f Pa is implausible at %.0f m (standard there: %.0f Pa)", p_s,
-                            z_site, pstd);
+        return sr_error_set_key(err, SR_EINVAL, "pressure",
+                                "surface pressure %.0f Pa is implausible at %.0f m (standard there: %.0f Pa)", p_s,
+                                z_site, pstd);
     m->kind = SR_ATMOS_SITE;
     m->site_z = z_site;
     m->site_measured = (isnan(T_s) ? 0 : SR_ATMOS_MEASURED_T) | (isnan(p_s) ? 0 : SR_ATMOS_MEASURED_P);
@@ -267,7 +268,7 @@ int sr_atmos_load_sounding(sr_atmos *m, const char *path, sr_error *err)
     size_t bad;
     rc = check_sounding(t.col[0], t.col[1], t.col[2], t.nrows, &bad, err);
     if (rc)
-        sr_error_prefix(err, "%s:%zu:1: ", path, t.row_line[bad]);
+        sr_error_locate(err, path, t.row_line[bad], 1);
     else
         rc = sr_atmos_init_sounding(m, t.col[0], t.col[1], t.col[2], t.nrows, err);
     if (!rc)

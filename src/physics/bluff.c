@@ -270,35 +270,45 @@ int sr_bluff_curve_init(sr_bluff_curve *c, sr_bluff_curve_id id, sr_error *err)
     return curve_build(c, re, cd, n, SR_BLUFF_LOGLOG, err);
 }
 
+/* A bad row i of a user table: file:line:column when the lines are known,
+ * else "name: row N: ". */
+static int row_fail(sr_error *err, const char *name, const size_t *line, const size_t *col, size_t i, const char *msg)
+{
+    if (line)
+        return sr_error_set_at(err, SR_EINVAL, name, line[i], col ? col[i] : 1, "%s", msg);
+    return sr_error_set(err, SR_EINVAL, "%s: row %zu: %s", name, i + 1, msg);
+}
+
 /* Checks of a user table; `line` gives source lines for messages (may be NULL). */
 static int table_check(const double *re, const double *cd, size_t n, sr_bluff_interp kind, const char *name,
                        const size_t *line, const size_t *col, sr_error *err)
 {
     size_t need = kind == SR_BLUFF_STEFFEN ? 3 : 2;
+    char msg[SR_ERROR_MSG_MAX];
     if (n < need) {
-        char at[300]; /* the last row there is, so the message names file:line:column */
+        snprintf(msg, sizeof msg, "a drag table needs at least %zu rows%s, this one has %zu", need,
+                 kind == SR_BLUFF_STEFFEN ? " for monotone interpolation" : "", n);
+        /* the last row there is, so the message names file:line:column */
         if (line && n > 0)
-            snprintf(at, sizeof at, "%s:%zu:%zu", name, line[n - 1], col ? col[n - 1] : 1);
-        else
-            snprintf(at, sizeof at, "%s", name);
-        return sr_error_set(err, SR_EINVAL, "%s: a drag table needs at least %zu rows%s, this one has %zu", at, need,
-                            kind == SR_BLUFF_STEFFEN ? " for monotone interpolation" : "", n);
+            return sr_error_set_at(err, SR_EINVAL, name, line[n - 1], col ? col[n - 1] : 1, "%s", msg);
+        return sr_error_set_at(err, SR_EINVAL, name, 0, 0, "%s", msg);
     }
     for (size_t i = 0; i < n; i++) {
-        char where[300];
-        if (line)
-            snprintf(where, sizeof where, "%s:%zu:%zu", name, line[i], col ? col[i] : 1);
-        else
-            snprintf(where, sizeof where, "%s: row %zu", name, i + 1);
-        if (!(isfinite(re[i]) && re[i] > 0))
-            return sr_error_set(err, SR_EINVAL, "%s: Reynolds number %g must be positive", where, re[i]);
-        if (!(isfinite(cd[i]) && cd[i] > 0))
-            return sr_error_set(err, SR_EINVAL, "%s: drag coefficient %g must be positive", where, cd[i]);
-        if (i > 0 && !(re[i] > re[i - 1]))
-            return sr_error_set(err, SR_EINVAL,
-                                "%s: Reynolds number %g does not increase (previous entry: %g); the table must "
-                                "list Re in strictly increasing order",
-                                where, re[i], re[i - 1]);
+        if (!(isfinite(re[i]) && re[i] > 0)) {
+            snprintf(msg, sizeof msg, "Reynolds number %g must be positive", re[i]);
+            return row_fail(err, name, line, col, i, msg);
+        }
+        if (!(isfinite(cd[i]) && cd[i] > 0)) {
+            snprintf(msg, sizeof msg, "drag coefficient %g must be positive", cd[i]);
+            return row_fail(err, name, line, col, i, msg);
+        }
+        if (i > 0 && !(re[i] > re[i - 1])) {
+            snprintf(msg, sizeof msg,
+                     "Reynolds number %g does not increase (previous entry: %g); the table must list Re in strictly "
+                     "increasing order",
+                     re[i], re[i - 1]);
+            return row_fail(err, name, line, col, i, msg);
+        }
     }
     return SR_OK;
 }
@@ -541,14 +551,14 @@ int sr_bluff_body_init(sr_bluff_body *b, sr_bluff_shape shape, const sr_bluff_cu
 {
     memset(b, 0, sizeof *b);
     if (!curve)
-        return sr_error_set(err, SR_EINVAL, "no drag curve given for the %s", shape_name(shape));
+        return sr_error_set_key(err, SR_EINVAL, "curve", "no drag curve given for the %s", shape_name(shape));
     if (shape != SR_BLUFF_TABLE && curve->shape != shape)
-        return sr_error_set(err, SR_EINVAL, "drag curve '%s' is for a %s, not a %s", curve->name,
+        return sr_error_set_key(err, SR_EINVAL, "curve", "drag curve '%s' is for a %s, not a %s", curve->name,
                             shape_name(curve->shape), shape_name(shape));
     if (!(isfinite(d) && d > 0))
-        return sr_error_set(err, SR_EINVAL, "diameter %g m must be positive", d);
+        return sr_error_set_key(err, SR_EINVAL, "diameter", "diameter %g m must be positive", d);
     if (!(isfinite(mass) && mass > 0))
-        return sr_error_set(err, SR_EINVAL, "mass %g kg must be positive", mass);
+        return sr_error_set_key(err, SR_EINVAL, "mass", "mass %g kg must be positive", mass);
     b->shape = shape;
     b->curve = curve;
     b->d = d;
@@ -556,7 +566,7 @@ int sr_bluff_body_init(sr_bluff_body *b, sr_bluff_shape shape, const sr_bluff_cu
     switch (shape) {
     case SR_BLUFF_CYLINDER:
         if (!(isfinite(length) && length > 0))
-            return sr_error_set(err, SR_EINVAL, "a cylinder needs a positive length (got %g m)", length);
+            return sr_error_set_key(err, SR_EINVAL, "length", "a cylinder needs a positive length (got %g m)", length);
         b->length = length;
         b->area = d * length;
         snprintf(b->area_ref, sizeof b->area_ref, "projected area d x L");
@@ -566,7 +576,7 @@ int sr_bluff_body_init(sr_bluff_body *b, sr_bluff_shape shape, const sr_bluff_cu
             b->area = area;
             snprintf(b->area_ref, sizeof b->area_ref, "reference area given with the table");
         } else if (!(isnan(area) || area == 0)) {
-            return sr_error_set(err, SR_EINVAL, "reference area %g m2 must be positive", area);
+            return sr_error_set_key(err, SR_EINVAL, "area", "reference area %g m2 must be positive", area);
         } else if (curve->table_area > 0) {
             b->area = curve->table_area;
             snprintf(b->area_ref, sizeof b->area_ref, "reference area stated in the table file");

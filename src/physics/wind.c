@@ -41,9 +41,11 @@ void sr_wind_init_calm(sr_wind *w)
 static int check_speed_dir(double speed, double from, sr_error *err)
 {
     if (!(speed >= 0.0 && speed <= SR_WIND_MAX_SPEED))
-        return sr_error_set(err, SR_EINVAL, "wind speed %g m/s is outside 0 .. %g m/s", speed, SR_WIND_MAX_SPEED);
+        return sr_error_set_key(err, SR_EINVAL, "speed", "wind speed %g m/s is outside 0 .. %g m/s", speed,
+                                SR_WIND_MAX_SPEED);
     if (!(from >= -2.0 * PI && from <= 4.0 * PI))
-        return sr_error_set(err, SR_EINVAL, "wind direction %g deg is outside -360 .. 720 deg", from * 180.0 / PI);
+        return sr_error_set_key(err, SR_EINVAL, "from", "wind direction %g deg is outside -360 .. 720 deg",
+                                from * 180.0 / PI);
     return SR_OK;
 }
 
@@ -51,6 +53,20 @@ static double wrap_bearing(double b)
 {
     b = fmod(b, 2.0 * PI);
     return b < 0.0 ? b + 2.0 * PI : b;
+}
+
+/* A law of height fitted near the ground: it takes a gradient height, and
+ * is warned about when used far above it. A new law of that kind is added
+ * here once. */
+static int is_law(const sr_wind *w)
+{
+    return w->kind == SR_WIND_POWER || w->kind == SR_WIND_LOG;
+}
+
+/* The law's name in messages ("power-law"), as the mission file writes it. */
+static const char *law_name(const sr_wind *w)
+{
+    return w->kind == SR_WIND_POWER ? "power-law" : "log-law";
 }
 
 int sr_wind_init_constant(sr_wind *w, double speed, double from, sr_error *err)
@@ -73,10 +89,11 @@ int sr_wind_init_power(sr_wind *w, double speed_ref, double from, double h_ref, 
     if (rc)
         return rc;
     if (!(h_ref > 0.0 && h_ref <= 1000.0))
-        return sr_error_set(err, SR_EINVAL, "wind reference height %g m is outside 0 .. 1000 m", h_ref);
+        return sr_error_set_key(err, SR_EINVAL, "reference-height", "wind reference height %g m is outside 0 .. 1000 m",
+                                h_ref);
     /* 0.05 .. 0.8 spans open water to very stable air (trade-facts.md section 6) */
     if (!(alpha >= 0.05 && alpha <= 0.8))
-        return sr_error_set(err, SR_EINVAL, "power-law exponent %g is outside 0.05 .. 0.8", alpha);
+        return sr_error_set_key(err, SR_EINVAL, "exponent", "power-law exponent %g is outside 0.05 .. 0.8", alpha);
     w->kind = SR_WIND_POWER;
     w->speed = speed_ref;
     w->from = wrap_bearing(from);
@@ -94,14 +111,15 @@ int sr_wind_init_log(sr_wind *w, double speed_ref, double from, double h_ref, do
         return rc;
     /* typical z0 runs from 0.0002 m (open water) to 1 m (forest), trade-facts.md section 6 */
     if (!(z0 >= 1e-5 && z0 <= 5.0))
-        return sr_error_set(err, SR_EINVAL, "roughness length %g m is outside 0.00001 .. 5 m", z0);
+        return sr_error_set_key(err, SR_EINVAL, "roughness-length", "roughness length %g m is outside 0.00001 .. 5 m",
+                                z0);
     if (!(d >= 0.0 && d <= 100.0))
-        return sr_error_set(err, SR_EINVAL, "displacement height %g m is outside 0 .. 100 m", d);
+        return sr_error_set_key(err, SR_EINVAL, "displacement", "displacement height %g m is outside 0 .. 100 m", d);
     if (!(h_ref > d + z0 && h_ref <= 1000.0))
-        return sr_error_set(err, SR_EINVAL,
-                            "wind reference height %g m must lie above displacement + roughness (%g m) and "
-                            "at most 1000 m",
-                            h_ref, d + z0);
+        return sr_error_set_key(err, SR_EINVAL, "reference-height",
+                                "wind reference height %g m must lie above displacement + roughness (%g m) and "
+                                "at most 1000 m",
+                                h_ref, d + z0);
     w->kind = SR_WIND_LOG;
     w->speed = speed_ref;
     w->from = wrap_bearing(from);
@@ -114,19 +132,19 @@ int sr_wind_init_log(sr_wind *w, double speed_ref, double from, double h_ref, do
 
 int sr_wind_set_gradient_height(sr_wind *w, double h, sr_error *err)
 {
-    if (w->kind != SR_WIND_POWER && w->kind != SR_WIND_LOG)
+    if (!is_law(w))
         return sr_error_set(err, SR_EINVAL, "a gradient height belongs to a power-law or log-law wind");
     if (!(h > w->h_ref && h <= 5000.0))
-        return sr_error_set(err, SR_EINVAL, "gradient height %g m must lie above the reference height (%g m) and at "
-                                            "most 5000 m",
-                            h, w->h_ref);
+        return sr_error_set_key(err, SR_EINVAL, "gradient-height",
+                                "gradient height %g m must lie above the reference height (%g m) and at most 5000 m",
+                                h, w->h_ref);
     w->h_grad = h;
     return SR_OK;
 }
 
 int sr_wind_check_extrapolation(const sr_wind *w, double top, sr_unit_system sys, char *buf, size_t len)
 {
-    if ((w->kind != SR_WIND_POWER && w->kind != SR_WIND_LOG) || w->h_grad > 0.0 || !(top > SR_WIND_GRADIENT_HEIGHT))
+    if (!is_law(w) || w->h_grad > 0.0 || !(top > SR_WIND_GRADIENT_HEIGHT))
         return 0;
     double e, n;
     sr_wind_at(w, top, &e, &n);
@@ -137,7 +155,7 @@ int sr_wind_check_extrapolation(const sr_wind *w, double top, sr_unit_system sys
                  "blows %.1f %s; such a law describes the wind near the ground, up to a gradient height of about "
                  "%.0f %s over open country (wind engineering, from memory): for drift you rely on, give a wind "
                  "table or a sounding, or set gradient-height: to hold the wind constant above it",
-                 w->kind == SR_WIND_POWER ? "power-law" : "log-law", sr_units_from_si(w->h_ref, SR_Q_LENGTH, sys), ul,
+                 law_name(w), sr_units_from_si(w->h_ref, SR_Q_LENGTH, sys), ul,
                  sr_units_from_si(top, SR_Q_LENGTH, sys), ul, sr_units_from_si(hypot(e, n), SR_Q_SPEED, sys), uv,
                  sr_units_from_si(SR_WIND_GRADIENT_HEIGHT, SR_Q_LENGTH, sys), ul);
     return 1;
@@ -237,10 +255,7 @@ static int table_from_csv(sr_wind *w, const char *path, const sr_csvtable *t, co
     int rc = table_rows(w, h, t->col[cs], t->col[cf], t->nrows, &bad, err);
     free(h);
     if (rc) {
-        if (bad != (size_t)-1)
-            sr_error_prefix(err, "%s:%zu:1: ", path, t->row_line[bad]);
-        else
-            sr_error_prefix(err, "%s: ", path);
+        sr_error_locate(err, path, bad != (size_t)-1 ? t->row_line[bad] : 0, 1);
         return rc;
     }
     snprintf(w->source, sizeof w->source, "%s", path);
@@ -262,10 +277,9 @@ int sr_wind_load_table(sr_wind *w, const char *path, double ground, sr_error *er
         return rc;
     if ((t.col[0] != NULL) == (t.col[1] != NULL)) {
         sr_csvtable_free(&t);
-        return sr_error_set(err, SR_EINVAL,
-                            "%s:1:1: a wind table needs exactly one of the columns 'height' (above ground) or "
-                            "'altitude' (above sea level)",
-                            path);
+        return sr_error_set_at(err, SR_EINVAL, path, 1, 1,
+                               "a wind table needs exactly one of the columns 'height' (above ground) or "
+                               "'altitude' (above sea level)");
     }
     rc = table_from_csv(w, path, &t, t.col[0] ? t.col[0] : t.col[1], t.col[0] ? 0.0 : ground, 2, 3, err);
     sr_csvtable_free(&t);
@@ -286,7 +300,7 @@ int sr_wind_load_sounding(sr_wind *w, const char *path, double ground, sr_error 
         return rc;
     if (!t.col[3] || !t.col[4]) {
         sr_csvtable_free(&t);
-        return sr_error_set(err, SR_EINVAL, "%s:1:1: the sounding has no 'wind-speed' and 'wind-from' columns", path);
+        return sr_error_set_at(err, SR_EINVAL, path, 1, 1, "the sounding has no 'wind-speed' and 'wind-from' columns");
     }
     rc = table_from_csv(w, path, &t, t.col[0], ground, 3, 4, err);
     sr_csvtable_free(&t);
@@ -351,7 +365,7 @@ const double *sr_wind_knots(const sr_wind *w, size_t *n)
         *n = w->n;
         return w->h;
     }
-    if ((w->kind == SR_WIND_POWER || w->kind == SR_WIND_LOG) && w->h_grad > 0.0) {
+    if (is_law(w) && w->h_grad > 0.0) {
         *n = 1;
         return &w->h_grad;
     }
@@ -393,7 +407,7 @@ void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t le
         break;
     }
     }
-    if ((w->kind == SR_WIND_POWER || w->kind == SR_WIND_LOG) && w->h_grad > 0.0) {
+    if (is_law(w) && w->h_grad > 0.0) {
         size_t l = strlen(buf);
         snprintf(buf + l, len > l ? len - l : 0, "; held constant above %.0f %s (gradient height)", LEN(w->h_grad), ul);
     }
