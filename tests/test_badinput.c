@@ -1304,7 +1304,7 @@ static void test_bad_input_catalogue(void **state)
     print_message("bad-input catalogue: %zu rows, %zu failed\n", n, failed);
     assert_true(n >= 100);
     /* every command has rows (a new command fails here until it has them) */
-    for (const sr_command *const *cmd = sr_commands; *cmd; cmd++) {
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {
         size_t rows = 0;
         for (size_t i = 0; i < n; i++)
             rows += strcmp(BAD[i].args[0], (*cmd)->name) == 0;

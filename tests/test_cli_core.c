@@ -65,7 +65,7 @@ static void test_caution_everywhere(void **state)
         {"fit", "@payloads/demo-flight.csv", "--mission", "@payloads/desert-club-rocket.yaml", NULL},
     };
     /* every command is here: a new one fails until it has a line */
-    for (const sr_command *const *cmd = sr_commands; *cmd; cmd++) {
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {
         int found = 0;
         for (size_t i = 0; i < sizeof CMDS / sizeof CMDS[0]; i++)
             found |= strcmp(CMDS[i][0], (*cmd)->name) == 0;

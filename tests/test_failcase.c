@@ -20,6 +20,7 @@
 #include "files/catalog.h"
 #include "files/mission.h"
 #include "physics/profile.h"
+#include "files/dragtable.h"
 
 #define PI 3.14159265358979323846
 #define G0 9.80665
@@ -343,7 +344,7 @@ static void test_table_body(void **state)
     sr_bluff_curve cv;
     sr_bluff_body b;
     sr_bluff_equilibria q;
-    assert_int_equal(sr_bluff_curve_load(&cv, table, SR_BLUFF_LOGLOG, &e), SR_OK);
+    assert_int_equal(sr_dragtable_load(&cv, table, SR_BLUFF_LOGLOG, &e), SR_OK);
     assert_int_equal(sr_bluff_body_init(&b, SR_BLUFF_TABLE, &cv, 0.2, 0, 2.0, NAN, &e), SR_OK);
     assert_int_equal(sr_bluff_equilibria_find(&b, &air, &q, &e), SR_OK);
     assert_int_equal(q.n, 1);

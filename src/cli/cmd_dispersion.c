@@ -38,7 +38,7 @@ typedef struct disp_opts {
 
 static const sr_opt OPTS[] = {
     SR_OPT_SHORT_STRING('n', NULL, "N", disp_opts, n, "samples (default 10000, at most 10000000)"),
-    SR_OPT_CLI_GROUP(SR_GROUP_RUN),
+    SR_OPT_CLI_GROUP(sr_cli_group_run),
     SR_OPT_STRING("samples", "FILE", disp_opts, samples,
                   "every sample's landing point, touchdown state, limit flags and drawn deviations as CSV (one row "
                   "per sample and body)"),
@@ -56,8 +56,8 @@ static const sr_opt OPTS[] = {
                   "... and up to N sample landing points (every k-th sample; default 0, at most 20000)"),
     SR_OPT_TEXT("The output does not name the thread count: it is the same bytes for any. The figure (--plot, "
                 "below) is 1250x700 unless --plot-size is given."),
-    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */

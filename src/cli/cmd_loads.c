@@ -31,7 +31,7 @@ typedef struct loads_opts {
 } loads_opts;
 
 static const sr_opt OPTS[] = {
-    SR_OPT_GROUP(SR_GROUP_PAYLOAD, loads_opts, payload),
+    SR_OPT_GROUP(sr_cli_group_payload, loads_opts, payload),
     SR_OPT_WITHOUT("body-drag-area"),
     SR_OPT_FOR("mass", "M", "mass the canopies decelerate"),
     SR_OPT_FOR("altitude", "Z", "deployment altitude above sea level (default: the site elevation, or 0)"),
@@ -58,10 +58,10 @@ static const sr_opt OPTS[] = {
     SR_OPT_TEXT("The figure (with --plot): force vs time from the inflation ODE at the typical ends of the bands, "
                 "with each method's peak marked; for a whole mission, one figure a stage, PREFIX-STAGE.png (in the "
                 "stage's name, what is not a letter, digit, '.', '_' or '-' becomes '-')."),
-    SR_OPT_GROUP(SR_GROUP_CANOPY, loads_opts, canopy),
-    SR_OPT_GROUP(SR_GROUP_ATMOS, loads_opts, atmos),
-    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_GROUP(sr_cli_group_canopy, loads_opts, canopy),
+    SR_OPT_GROUP(sr_cli_group_atmos, loads_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */

@@ -44,8 +44,8 @@ static const sr_opt OPTS[] = {
     SR_OPT_FLAG("band-ends", profile_opts, band_ends,
                 "trajectory and map also at both ends of the band: the fast end (low drag, heavy) and the slow end "
                 "(high drag, light)"),
-    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */

@@ -1,6 +1,8 @@
 /* mission.c - the strict mission-file reader. */
 #include "files/mission.h"
 #include "files/mission_int.h"
+#include "files/sounding.h"
+#include "files/dragtable.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -58,7 +60,7 @@ static int parse_atmos(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *e
         if ((rc = sr_yaml_string(y, sn, file, sizeof file, err)))
             return rc;
         sr_yaml_relative_path(path, sizeof path, m->path, file);
-        if ((rc = sr_atmos_load_sounding(&m->atmos, path, &e)))
+        if ((rc = sr_sounding_load(&m->atmos, path, &e)))
             return sr_yaml_fail(y, sn, err, "%s", e.msg);
         double lo, hi;
         sr_atmos_range(&m->atmos, &lo, &hi);
@@ -348,7 +350,7 @@ static int parse_body(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_section *sec
         if ((rc = sr_yaml_string(y, tn, file, sizeof file, err)))
             return rc;
         sr_yaml_relative_path(path, sizeof path, m->path, file);
-        if (sr_bluff_curve_load(&sec->curve, path, kind, &e))
+        if (sr_dragtable_load(&sec->curve, path, kind, &e))
             return sr_yaml_fail(y, tn, err, "%s", e.msg);
         if (!an && !(sec->curve.table_area > 0.0))
             return sr_yaml_fail(y, n, err, "give area: (the reference area of the table's Cd values); %s states "

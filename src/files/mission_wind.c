@@ -7,6 +7,7 @@
 #include <string.h>
 
 #include "files/mission_int.h"
+#include "files/windtable.h"
 
 static const char *const WIND_KEYS[] = {"model",        "speed",            "from",         "reference-height",
                                         "exponent",     "roughness-length", "displacement", "file",
@@ -135,7 +136,7 @@ int sr_mission_wind_parse(sr_wind *w, const sr_yaml *y, yaml_node_t *n, const ch
         if ((rc = sr_yaml_string(y, fn, file, sizeof file, err)))
             return rc;
         sr_yaml_relative_path(path, sizeof path, mission_path, file);
-        if (sr_wind_load_table(w, path, ground, &e))
+        if (sr_windtable_load(w, path, ground, &e))
             return sr_yaml_fail(y, fn, err, "%s", e.msg);
         return SR_OK;
     }
@@ -143,7 +144,7 @@ int sr_mission_wind_parse(sr_wind *w, const sr_yaml *y, yaml_node_t *n, const ch
         if (atmos->kind != SR_ATMOS_SOUNDING)
             return sr_yaml_fail(y, mn, err, "wind model 'sounding' takes the wind columns of site.sounding, and the "
                                             "site has no sounding");
-        if (sr_wind_load_sounding(w, atmos->source, ground, &e))
+        if (sr_windtable_load_sounding(w, atmos->source, ground, &e))
             return sr_yaml_fail(y, mn, err, "%s", e.msg);
         return SR_OK;
     }

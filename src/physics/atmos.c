@@ -9,7 +9,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "files/csvtable.h"
 
 #define NLAYER 7
 /* Geopotential base heights (m'), lapse rates (K/m'), base temperatures (K). */
@@ -224,14 +223,21 @@ static int check_sounding(const double *z, const double *T, const double *p, siz
 int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
                            sr_error *err)
 {
-    sr_atmos_init_standard(m);
     size_t bad;
-    int rc = check_sounding(z, T, p, n, &bad, err);
-    if (rc) {
-        if (n >= 2)
-            sr_error_prefix(err, "sounding row %zu: ", bad + 1);
+    int rc = sr_atmos_init_sounding_rows(m, z, T, p, n, &bad, err);
+    if (rc && n >= 2 && bad != (size_t)-1)
+        sr_error_prefix(err, "sounding row %zu: ", bad + 1);
+    return rc;
+}
+
+int sr_atmos_init_sounding_rows(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
+                                size_t *bad, sr_error *err)
+{
+    sr_atmos_init_standard(m);
+    int rc = check_sounding(z, T, p, n, bad, err);
+    if (rc)
         return rc;
-    }
+    *bad = (size_t)-1;
     m->sz = malloc(n * sizeof *m->sz);
     m->sT = malloc(n * sizeof *m->sT);
     m->slnp = malloc(n * sizeof *m->slnp);
@@ -247,34 +253,6 @@ int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const 
     m->n = n;
     m->kind = SR_ATMOS_SOUNDING;
     return SR_OK;
-}
-
-static const sr_csv_column SOUNDING_COLS[] = {
-    {"altitude", SR_Q_LENGTH, 1},
-    {"temperature", SR_Q_TEMP, 1},
-    {"pressure", SR_Q_PRESSURE, 1},
-    {"wind-speed", SR_Q_SPEED, 0},
-    {"wind-from", SR_Q_ANGLE, 0},
-};
-
-int sr_atmos_load_sounding(sr_atmos *m, const char *path, sr_error *err)
-{
-    sr_atmos_init_standard(m);
-    sr_csvtable t;
-    int rc = sr_csvtable_load(&t, path, SOUNDING_COLS, sizeof SOUNDING_COLS / sizeof SOUNDING_COLS[0], err);
-    if (rc)
-        return rc;
-    /* check first so a bad row is reported as file:line:column of the CSV */
-    size_t bad;
-    rc = check_sounding(t.col[0], t.col[1], t.col[2], t.nrows, &bad, err);
-    if (rc)
-        sr_error_locate(err, path, t.row_line[bad], 1);
-    else
-        rc = sr_atmos_init_sounding(m, t.col[0], t.col[1], t.col[2], t.nrows, err);
-    if (!rc)
-        snprintf(m->source, sizeof m->source, "%s", path);
-    sr_csvtable_free(&t);
-    return rc;
 }
 
 void sr_atmos_range(const sr_atmos *m, double *zmin, double *zmax)

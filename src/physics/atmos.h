@@ -65,13 +65,15 @@ int sr_atmos_init_offset(sr_atmos *m, double dT, sr_error *err);
  * elevation". The temperature difference to standard is kept at all
  * altitudes, the pressure follows the hydrostatic equation from the surface. */
 int sr_atmos_init_site(sr_atmos *m, double z_site, double T_s, double p_s, sr_error *err);
-/* Sounding from CSV: a header row naming the columns altitude, temperature,
- * pressure, each with its unit in brackets ("altitude [m],temperature [C],
- * pressure [hPa]"), then rows in increasing altitude. Extra columns (e.g. wind)
- * are ignored here. Between rows: T linear, ln p linear in altitude. */
-int sr_atmos_load_sounding(sr_atmos *m, const char *path, sr_error *err);
+/* A sounding from rows of altitude (m, increasing), temperature (K) and
+ * pressure (Pa); between rows T linear, ln p linear in altitude. A file is
+ * read by files/sounding.h. */
 int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
                            sr_error *err);
+/* The same with the failing row in *bad ((size_t)-1 when the error is about
+ * no row) and no row in the message, for a reader that names its line. */
+int sr_atmos_init_sounding_rows(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
+                                size_t *bad, sr_error *err);
 /* Deep copy (a sounding's arrays are duplicated): dst, initialised or
  * released before, afterwards owns its own memory. */
 int sr_atmos_copy(sr_atmos *dst, const sr_atmos *src, sr_error *err);

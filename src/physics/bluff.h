@@ -51,7 +51,7 @@ typedef enum sr_bluff_interp {
 } sr_bluff_interp;
 
 /* A drag curve Cd(Re). Caller-owned: fill with sr_bluff_curve_init,
- * sr_bluff_curve_table or sr_bluff_curve_load, release with
+ * sr_bluff_curve_table or a reader (sr_dragtable_load), release with
  * sr_bluff_curve_free. Read-only once built, so one curve can serve many
  * threads. */
 typedef struct sr_bluff_curve {
@@ -78,13 +78,10 @@ int sr_bluff_curve_init(sr_bluff_curve *c, sr_bluff_curve_id id, sr_error *err);
  * (3 for Steffen). */
 int sr_bluff_curve_table(sr_bluff_curve *c, const double *re, const double *cd, size_t n,
                          sr_bluff_interp kind, const char *name, sr_error *err);
-/* User curve from a file, errors at file:line:column. CSV: the columns "Re"
- * and "Cd" (no units). YAML (.yaml, .yml): the keys
- *   name: "..."                optional description
- *   source: "..."              optional: where the numbers come from
- *   reference-area: "0.02 m2"  optional: the area the Cd values are based on
- *   points: [[Re, Cd], ...]    required, Re increasing */
-int sr_bluff_curve_load(sr_bluff_curve *c, const char *path, sr_bluff_interp kind, sr_error *err);
+/* The same with the file positions of its rows (line[i], col[i]; either may
+ * be NULL) for messages: the drag-table reader's (files/dragtable.h). */
+int sr_bluff_curve_table_at(sr_bluff_curve *c, const double *re, const double *cd, size_t n, sr_bluff_interp kind,
+                            const char *name, const size_t *line, const size_t *col, sr_error *err);
 void sr_bluff_curve_free(sr_bluff_curve *c);
 /* Deep copy of a curve (a table's knots and interpolation are duplicated),
  * so that a copy can outlive the original. */

@@ -8,7 +8,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "files/csvtable.h"
 
 #define PI 3.14159265358979323846
 
@@ -194,8 +193,7 @@ void sr_wind_release(sr_wind *w)
     w->n = 0;
 }
 
-/* Row checks shared by the table readers; *bad receives the failing row. */
-static int table_rows(sr_wind *w, const double *h, const double *speed, const double *from, size_t n, size_t *bad,
+int sr_wind_init_table_rows(sr_wind *w, const double *h, const double *speed, const double *from, size_t n, size_t *bad,
                       sr_error *err)
 {
     sr_wind_init_calm(w);
@@ -236,74 +234,9 @@ int sr_wind_init_table(sr_wind *w, const double *h, const double *speed, const d
                        sr_error *err)
 {
     size_t bad;
-    int rc = table_rows(w, h, speed, from, n, &bad, err);
+    int rc = sr_wind_init_table_rows(w, h, speed, from, n, &bad, err);
     if (rc && bad != (size_t)-1)
         sr_error_prefix(err, "wind row %zu: ", bad + 1);
-    return rc;
-}
-
-/* Shared by the table and sounding readers: heights are alt - ground. */
-static int table_from_csv(sr_wind *w, const char *path, const sr_csvtable *t, const double *alt, double ground,
-                          size_t cs, size_t cf, sr_error *err)
-{
-    double *h = malloc((t->nrows ? t->nrows : 1) * sizeof *h);
-    if (!h)
-        return sr_error_set(err, SR_ENOMEM, "out of memory for the wind table");
-    for (size_t i = 0; i < t->nrows; i++)
-        h[i] = alt[i] - ground;
-    size_t bad;
-    int rc = table_rows(w, h, t->col[cs], t->col[cf], t->nrows, &bad, err);
-    free(h);
-    if (rc) {
-        sr_error_locate(err, path, bad != (size_t)-1 ? t->row_line[bad] : 0, 1);
-        return rc;
-    }
-    snprintf(w->source, sizeof w->source, "%s", path);
-    return SR_OK;
-}
-
-int sr_wind_load_table(sr_wind *w, const char *path, double ground, sr_error *err)
-{
-    static const sr_csv_column COLS[] = {
-        {"height", SR_Q_LENGTH, 0},
-        {"altitude", SR_Q_LENGTH, 0},
-        {"speed", SR_Q_SPEED, 1},
-        {"from", SR_Q_ANGLE, 1},
-    };
-    sr_wind_init_calm(w);
-    sr_csvtable t;
-    int rc = sr_csvtable_load(&t, path, COLS, sizeof COLS / sizeof COLS[0], err);
-    if (rc)
-        return rc;
-    if ((t.col[0] != NULL) == (t.col[1] != NULL)) {
-        sr_csvtable_free(&t);
-        return sr_error_set_at(err, SR_EINVAL, path, 1, 1,
-                               "a wind table needs exactly one of the columns 'height' (above ground) or "
-                               "'altitude' (above sea level)");
-    }
-    rc = table_from_csv(w, path, &t, t.col[0] ? t.col[0] : t.col[1], t.col[0] ? 0.0 : ground, 2, 3, err);
-    sr_csvtable_free(&t);
-    return rc;
-}
-
-int sr_wind_load_sounding(sr_wind *w, const char *path, double ground, sr_error *err)
-{
-    /* the sounding's own columns, as the atmosphere reads them */
-    static const sr_csv_column COLS[] = {
-        {"altitude", SR_Q_LENGTH, 1},  {"temperature", SR_Q_TEMP, 1}, {"pressure", SR_Q_PRESSURE, 1},
-        {"wind-speed", SR_Q_SPEED, 0}, {"wind-from", SR_Q_ANGLE, 0},
-    };
-    sr_wind_init_calm(w);
-    sr_csvtable t;
-    int rc = sr_csvtable_load(&t, path, COLS, sizeof COLS / sizeof COLS[0], err);
-    if (rc)
-        return rc;
-    if (!t.col[3] || !t.col[4]) {
-        sr_csvtable_free(&t);
-        return sr_error_set_at(err, SR_EINVAL, path, 1, 1, "the sounding has no 'wind-speed' and 'wind-from' columns");
-    }
-    rc = table_from_csv(w, path, &t, t.col[0], ground, 3, 4, err);
-    sr_csvtable_free(&t);
     return rc;
 }
 

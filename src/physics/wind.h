@@ -65,14 +65,11 @@ int sr_wind_init_log(sr_wind *w, double speed_ref, double from, double h_ref, do
  * (m/s) and the direction it blows from (rad). Copies the data. */
 int sr_wind_init_table(sr_wind *w, const double *h, const double *speed, const double *from, size_t n,
                        sr_error *err);
-/* Table from CSV: columns `height` (above ground) or `altitude` (above sea
- * level, converted with `ground`, the site elevation), `speed` and `from`,
- * each with its unit in the header ("height [m],speed [m/s],from [deg]").
- * Errors carry file:line:column. */
-int sr_wind_load_table(sr_wind *w, const char *path, double ground, sr_error *err);
-/* Table from the optional wind-speed and wind-from columns of a sounding CSV
- * (altitude above sea level); an error when the sounding has no wind. */
-int sr_wind_load_sounding(sr_wind *w, const char *path, double ground, sr_error *err);
+/* As sr_wind_init_table, with the failing row in *bad ((size_t)-1 when the
+ * error is about no row) and no row in the message: for readers that name
+ * the row's place in a file (files/windtable.h). */
+int sr_wind_init_table_rows(sr_wind *w, const double *h, const double *speed, const double *from, size_t n,
+                            size_t *bad, sr_error *err);
 /* Deep copy (a table's arrays are duplicated): dst, initialised or released
  * before, afterwards owns its own memory. */
 int sr_wind_copy(sr_wind *dst, const sr_wind *src, sr_error *err);
