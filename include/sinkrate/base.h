@@ -80,6 +80,17 @@ SR_API sr_error *sr_error_new(void); /* NULL when out of memory */
 SR_API void sr_error_free(sr_error *err);
 SR_API int sr_error_code(const sr_error *err);          /* enum sr_status of the last failure, SR_OK if none */
 SR_API const char *sr_error_message(const sr_error *err); /* one line, "" if none */
+/* What the error is about, for a program to act on without reading the
+ * message; each is "" (or 0) when the code that failed did not know it. The
+ * key: the input refused, by the name a file gives it ("exponent",
+ * "temperature", as docs/files.md names the keys), or the parameter of the
+ * function ("v1", "mass"), or "unit" for a value without its unit. The
+ * file, and the line and column there (1-based; the message then starts with
+ * "file:line:column: "). */
+SR_API const char *sr_error_key(const sr_error *err);
+SR_API const char *sr_error_file(const sr_error *err);
+SR_API int sr_error_line(const sr_error *err);
+SR_API int sr_error_column(const sr_error *err);
 
 /* A range: low, typical, high, always ordered lo <= typ <= hi. */
 typedef struct sr_band {

@@ -166,6 +166,13 @@ int sr_loads_deployment(sr_loads_band **out, const sr_canopy *c, double mass, do
                         const sr_air *air, sr_error *err)
 {
     *out = NULL;
+    if (!(isfinite(v1) && v1 > 0.0))
+        return sr_error_set_key(err, SR_EINVAL, "v1", "the speed at line stretch must be positive (got %g m/s)", v1);
+    if (!(isfinite(mass) && mass > 0.0))
+        return sr_error_set_key(err, SR_EINVAL, "mass", "the mass must be positive (got %g kg)", mass);
+    if (!(fabs(path_angle) <= 1.57079632679489662 + 1e-9)) /* pi/2 */
+        return sr_error_set_key(err, SR_EINVAL, "path_angle",
+                                "the path angle %g rad is outside -pi/2 .. pi/2 below the horizontal", path_angle);
     sr_loads_canopy lc;
     sr_loads_canopy_init(&lc, c);
     /* one deployment state, the typical one: the band ends come from the canopy's own bands */

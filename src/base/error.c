@@ -153,3 +153,23 @@ const char *sr_error_message(const sr_error *err)
 {
     return err ? err->msg : "";
 }
+
+const char *sr_error_key(const sr_error *err)
+{
+    return err ? err->key : "";
+}
+
+const char *sr_error_file(const sr_error *err)
+{
+    return err ? err->file : "";
+}
+
+int sr_error_line(const sr_error *err)
+{
+    return err ? err->line : 0;
+}
+
+int sr_error_column(const sr_error *err)
+{
+    return err ? err->column : 0;
+}

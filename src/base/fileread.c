@@ -11,12 +11,12 @@ int sr_file_open_read(const char *path, FILE **f, sr_error *err)
 {
     *f = fopen(path, "rb");
     if (!*f)
-        return sr_error_set(err, SR_EIO, "%s: cannot open: %s", path, strerror(errno));
+        return sr_error_set_at(err, SR_EIO, path, 0, 0, "cannot open: %s", strerror(errno));
     struct stat st;
     if (fstat(fileno(*f), &st) == 0 && S_ISDIR(st.st_mode)) {
         fclose(*f);
         *f = NULL;
-        return sr_error_set(err, SR_EIO, "%s: is a directory, not a file", path);
+        return sr_error_set_at(err, SR_EIO, path, 0, 0, "is a directory, not a file");
     }
     return SR_OK;
 }
@@ -32,18 +32,18 @@ int sr_file_read(const char *path, size_t max, char **data, size_t *len, sr_erro
     char *buf = malloc(max + 1);
     if (!buf) {
         fclose(f);
-        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", path);
+        return sr_error_set_at(err, SR_ENOMEM, path, 0, 0, "out of memory");
     }
     size_t n = fread(buf, 1, max + 1, f);
     int bad = ferror(f), bad_errno = errno;
     fclose(f);
     if (bad) {
         free(buf);
-        return sr_error_set(err, SR_EIO, "%s: read error: %s", path, strerror(bad_errno));
+        return sr_error_set_at(err, SR_EIO, path, 0, 0, "read error: %s", strerror(bad_errno));
     }
     if (n > max) {
         free(buf);
-        return sr_error_set(err, SR_EINVAL, "%s: larger than %zu bytes", path, max);
+        return sr_error_set_at(err, SR_EINVAL, path, 0, 0, "larger than %zu bytes", max);
     }
     buf[n] = '\0';
     *data = buf;

@@ -620,18 +620,9 @@ static int state_from_options(sr_cli *c, const loads_opts *o, const sr_atmos *at
     sr_error e;
     if (sr_atmos_at(atm, d->z, &air, &e) != SR_OK)
         return sr_cli_fail(c, "--altitude: %s", e.msg);
-    sr_loads_state *s = &d->st[0];
+    /* the state sr_loads_deployment takes too: a program and this command agree */
     memset(d->st, 0, sizeof d->st);
-    s->valid = 1;
-    s->v1 = v;
-    s->path_angle = angle;
-    s->rho = air.rho;
-    s->a = air.a;
-    s->g = air.g;
-    s->mass = mass;
-    s->v_steady = NAN;
-    s->cds0 = d->cp->cluster_factor * d->cp->cds.typ;
-    s->d0 = d->cp->d0.typ;
+    sr_loads_state_of(&d->st[0], d->cp, mass, v, angle, &air);
     return 0;
 }
 

@@ -283,7 +283,7 @@ int sr_catalog_add(sr_catalog *c, const char *dir, const char *from, sr_error *e
         if (stat(path, &st) != 0 || !S_ISREG(st.st_mode))
             continue;
         if (n >= SR_CATALOG_MAX) {
-            rc = sr_error_set(err, SR_EINVAL, "%s: more than %d family files", dir, SR_CATALOG_MAX);
+            rc = sr_error_set_at(err, SR_EINVAL, dir, 0, 0, "more than %d family files", SR_CATALOG_MAX);
             break;
         }
         names[n++] = strdup(e->d_name);
@@ -306,11 +306,11 @@ int sr_catalog_add(sr_catalog *c, const char *dir, const char *from, sr_error *e
             if (strcmp(c->fam[j].id, f.id) == 0)
                 at = j;
         if (at < c->n && c->origin[at].layer == layer) {
-            rc = sr_error_set(err, SR_EINVAL, "%s: id '%s' is already used by %s", path, f.id, c->fam[at].file);
+            rc = sr_error_set_at(err, SR_EINVAL, path, 0, 0, "id '%s' is already used by %s", f.id, c->fam[at].file);
             break;
         }
         if (at == c->n && c->n >= SR_CATALOG_MAX) {
-            rc = sr_error_set(err, SR_EINVAL, "%s: more than %d families in all", path, SR_CATALOG_MAX);
+            rc = sr_error_set_at(err, SR_EINVAL, path, 0, 0, "more than %d families in all", SR_CATALOG_MAX);
             break;
         }
         sr_catalog_origin o = {.layer = layer};
@@ -347,10 +347,10 @@ const sr_family *sr_catalog_find(const sr_catalog *c, const char *id, sr_error *
     ids[c->n] = NULL;
     const char *s = sr_yaml_suggest(id, ids);
     if (s)
-        sr_error_set(err, SR_EINVAL, "unknown canopy family '%s'; did you mean '%s'? (sinkrate canopies lists them)",
-                     id, s);
+        sr_error_set_key(err, SR_EINVAL, "family",
+                         "unknown canopy family '%s'; did you mean '%s'? (sinkrate canopies lists them)", id, s);
     else
-        sr_error_set(err, SR_EINVAL, "unknown canopy family '%s' (sinkrate canopies lists them)", id);
+        sr_error_set_key(err, SR_EINVAL, "family", "unknown canopy family '%s' (sinkrate canopies lists them)", id);
     return NULL;
 }
 

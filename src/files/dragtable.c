@@ -60,7 +60,7 @@ static int load_yaml(sr_bluff_curve *c, const char *path, sr_bluff_interp kind, 
     line = malloc(np * sizeof *line);
     col = malloc(np * sizeof *col);
     if (!re || !cd || !line || !col) {
-        rc = sr_error_set(err, SR_ENOMEM, "%s: out of memory", path);
+        rc = sr_error_set_at(err, SR_ENOMEM, path, 0, 0, "out of memory");
         goto out;
     }
     for (size_t i = 0; i < np; i++) {

@@ -10,10 +10,9 @@ int sr_mission_descent(const sr_mission *m, sr_descent_spec *d, sr_error *err)
 {
     memset(d, 0, sizeof *d);
     if (!m->has_start)
-        return sr_error_set(err, SR_EINVAL,
-                            "%s: the mission has no start: block; a profile needs the height above ground, speed and "
-                            "path angle at the first deployment (apogee or release)",
-                            m->path);
+        return sr_error_set_at(err, SR_EINVAL, m->path, 0, 0,
+                               "the mission has no start: block; a profile needs the height above ground, speed and "
+                               "path angle at the first deployment (apogee or release)");
     d->atmos = &m->atmos;
     d->wind = &m->wind;
     d->ground = m->ground;
@@ -36,10 +35,10 @@ int sr_mission_descent(const sr_mission *m, sr_descent_spec *d, sr_error *err)
         const sr_stage *s = &m->stages[k];
         sr_descent_stage *t = &d->stage[k];
         if (!s->has_size)
-            return sr_error_set(err, SR_EINVAL,
-                                "%s: stage '%s' has no size; give one in the file, or run `sinkrate size --mission` "
-                                "first",
-                                m->path, s->name);
+            return sr_error_set_at(err, SR_EINVAL, m->path, 0, 0,
+                                   "stage '%s' has no size; give one in the file, or run `sinkrate size --mission` "
+                                   "first",
+                                   s->name);
         snprintf(t->name, sizeof t->name, "%s", s->name);
         t->cds = sr_canopy_total_cds(&s->canopy).typ;
         t->d0 = s->canopy.d0.typ;
