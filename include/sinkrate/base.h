@@ -34,7 +34,11 @@
  * that changes a handle (*_set_*, *_add) needs it to itself. Running a
  * profile or band context from several threads is the intended use (one
  * workspace or result per thread). The dispersion run uses OpenMP threads of
- * its own.
+ * its own. One process-wide setting: the first atmosphere, wind, catalog,
+ * mission or falling body a program makes turns GSL's error handler off
+ * (once, safely from any thread), because GSL's default handler would abort
+ * the program on a numerical failure that the library reports as an error;
+ * a program that wants a handler for its own GSL calls sets one after.
  *
  * Caution. Every output of results made with this library carries the
  * caution of sr_caution() (sinkrate/output.h): nothing here is for

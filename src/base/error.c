@@ -2,6 +2,8 @@
 #include "base/error.h"
 
 #include <limits.h>
+#include <gsl/gsl_errno.h>
+#include <pthread.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -172,4 +174,16 @@ int sr_error_line(const sr_error *err)
 int sr_error_column(const sr_error *err)
 {
     return err ? err->column : 0;
+}
+
+static void gsl_off(void)
+{
+    gsl_set_error_handler_off();
+}
+
+void sr_error_gsl_off(void)
+{
+    /* pthread_once: the one process-wide setting of the library, made once and race-free */
+    static pthread_once_t once = PTHREAD_ONCE_INIT;
+    pthread_once(&once, gsl_off);
 }

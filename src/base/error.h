@@ -71,6 +71,12 @@ int sr_error_prefix(sr_error *err, const char *fmt, ...)
 
 void sr_error_clear(sr_error *err);
 
+/* GSL's default error handler aborts the process; the library checks every
+ * GSL status itself and reports it in an sr_error, so the handler goes off
+ * the first time a program makes one of its handles (once per process, safe
+ * from any thread; the CLI does it in sr_cli_run). */
+void sr_error_gsl_off(void);
+
 /* Keep a message on one printable line: a tab becomes a space, any other
  * control byte (a newline or terminal escape quoted from the input) a '?'. */
 void sr_error_printable(char *s);

@@ -182,7 +182,7 @@ static int finish(sr_cli *c, int rc, const char *obuf, size_t olen, FILE *out)
 int sr_cli_run(int argc, char **argv, FILE *out, FILE *err)
 {
     /* GSL's default handler aborts; every GSL return code is checked instead */
-    gsl_set_error_handler_off();
+    sr_error_gsl_off();
     sr_cli c;
     memset(&c, 0, sizeof c);
     c.err = err;

@@ -537,6 +537,7 @@ void sr_catalog_default_dir(char *buf, size_t len)
 
 int sr_catalog_new(sr_catalog **out, const char *dir, sr_error *err)
 {
+    sr_error_gsl_off();
     *out = NULL;
     char def[1024];
     if (!dir) {

@@ -6,6 +6,7 @@
 
 int sr_mission_open(sr_mission **out, const char *path, const sr_catalog *cat, sr_error *err)
 {
+    sr_error_gsl_off();
     *out = NULL;
     sr_mission *m = malloc(sizeof *m);
     if (!m)

@@ -37,6 +37,7 @@ int sr_sounding_load(sr_atmos *m, const char *path, sr_error *err)
 
 int sr_atmos_open_sounding(sr_atmos **out, const char *path, sr_error *err)
 {
+    sr_error_gsl_off();
     *out = NULL;
     sr_atmos *m = malloc(sizeof *m);
     if (!m)

@@ -378,6 +378,7 @@ void sr_atmos_describe(const sr_atmos *m, char *buf, size_t len)
 /* The model built in tmp moves into a new handle, or is released. */
 static int atmos_handle(sr_atmos **out, sr_atmos *tmp, int rc, sr_error *err)
 {
+    sr_error_gsl_off();
     *out = NULL;
     if (rc) {
         sr_atmos_release(tmp);

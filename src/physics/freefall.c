@@ -24,6 +24,7 @@ static int finish(sr_freefall **out, sr_freefall *f, int rc)
 int sr_freefall_new(sr_freefall **out, sr_bluff_shape shape, const char *curve, double d, double length,
                     double mass, sr_error *err)
 {
+    sr_error_gsl_off();
     *out = NULL;
     if (shape == SR_BLUFF_TABLE)
         return sr_error_set(err, SR_EINVAL, "a body on a table of its own: sr_freefall_new_table");
@@ -43,6 +44,7 @@ int sr_freefall_new(sr_freefall **out, sr_bluff_shape shape, const char *curve, 
 int sr_freefall_new_table(sr_freefall **out, const double *re, const double *cd, size_t n, double d, double area,
                           double mass, sr_error *err)
 {
+    sr_error_gsl_off();
     *out = NULL;
     sr_freefall *f = calloc(1, sizeof *f);
     if (!f)

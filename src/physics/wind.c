@@ -353,6 +353,7 @@ void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t le
 /* The model built in tmp moves into a new handle, or is released. */
 static int wind_handle(sr_wind **out, sr_wind *tmp, int rc, sr_error *err)
 {
+    sr_error_gsl_off();
     *out = NULL;
     if (rc) {
         sr_wind_release(tmp);
