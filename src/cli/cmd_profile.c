@@ -112,51 +112,11 @@ static void fmt(char *buf, size_t len, const sr_cli *c, double v, sr_quantity q,
     sr_report_format_value(buf, len, v, q, c->units, sig);
 }
 
-/* The wind in words, in the chosen units. */
-static void wind_text(const sr_cli *c, const sr_wind *w, char *buf, size_t len)
+/* A number of the wind's description as the report writes it. */
+static void wind_value(char *buf, size_t len, double si, sr_quantity q, int sig, void *ctx)
 {
-    char v[64], h[64], v2[64], h2[64];
-    double deg = sr_units_bearing_deg(w->from, 0);
-    switch (w->kind) {
-    case SR_WIND_CALM:
-        snprintf(buf, len, "calm");
-        return;
-    case SR_WIND_CONSTANT:
-        fmt(v, sizeof v, c, w->speed, SR_Q_SPEED, 3);
-        snprintf(buf, len, "constant, %s from %.0f deg at every height", v, deg);
-        return;
-    case SR_WIND_POWER:
-    case SR_WIND_LOG:
-        fmt(v, sizeof v, c, w->speed, SR_Q_SPEED, 3);
-        fmt(h, sizeof h, c, w->h_ref, SR_Q_LENGTH, 3);
-        if (w->kind == SR_WIND_POWER) {
-            snprintf(buf, len, "power law, %s from %.0f deg at %s above ground, exponent %.3f", v, deg, h, w->alpha);
-        } else {
-            fmt(v2, sizeof v2, c, w->z0, SR_Q_LENGTH, 3);
-            fmt(h2, sizeof h2, c, w->d, SR_Q_LENGTH, 3);
-            snprintf(buf, len, "log law, %s from %.0f deg at %s above ground, roughness length %s, displacement %s", v,
-                     deg, h, v2, h2);
-        }
-        if (w->h_grad > 0.0) {
-            size_t l = strlen(buf);
-            fmt(h, sizeof h, c, w->h_grad, SR_Q_LENGTH, 3);
-            snprintf(buf + l, len > l ? len - l : 0, "; held constant above %s (gradient height)", h);
-        }
-        return;
-    case SR_WIND_TABLE: {
-        double s0, f0, s1, f1;
-        sr_wind_polar(w->east[0], w->north[0], &s0, &f0);
-        sr_wind_polar(w->east[w->n - 1], w->north[w->n - 1], &s1, &f1);
-        fmt(v, sizeof v, c, s0, SR_Q_SPEED, 3);
-        fmt(h, sizeof h, c, w->h[0], SR_Q_LENGTH, SR_FIXED(0));
-        fmt(v2, sizeof v2, c, s1, SR_Q_SPEED, 3);
-        fmt(h2, sizeof h2, c, w->h[w->n - 1], SR_Q_LENGTH, SR_FIXED(0));
-        snprintf(buf, len, "table%s%s, %zu rows: %s from %.0f deg at %s to %s from %.0f deg at %s above ground",
-                 w->source[0] ? " " : "", w->source, w->n, v, sr_units_bearing_deg(f0, 0), h, v2,
-                 sr_units_bearing_deg(f1, 0), h2);
-        return;
-    }
-    }
+    const sr_cli *c = ctx;
+    fmt(buf, len, c, si, q, sig > 0 ? sig : SR_FIXED(0));
 }
 
 static const char *deploy_text(const sr_cli *c, const sr_mission *m, size_t k, char *buf, size_t len)
@@ -192,7 +152,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
     sr_report_text(r, "file", "file", m->path);
     sr_cli_maps_report_position(r, m);
     sr_cli_report_atmos(r, &m->atmos);
-    wind_text(c, &m->wind, buf, sizeof buf);
+    sr_wind_describe_fmt(&m->wind, wind_value, (void *)c, buf, sizeof buf);
     sr_report_text(r, "wind", "wind", buf);
     fmt(v1, sizeof v1, c, m->start_height, SR_Q_LENGTH, SR_FIXED(0));
     fmt(v2, sizeof v2, c, m->start_speed, SR_Q_SPEED, 3);

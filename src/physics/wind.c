@@ -306,46 +306,64 @@ const double *sr_wind_knots(const sr_wind *w, size_t *n)
     return NULL;
 }
 
-void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t len)
+/* The library's own numbers: three significant figures in the chosen units. */
+static void plain_value(char *buf, size_t len, double si, sr_quantity q, int sig, void *ctx)
 {
+    sr_unit_system sys = *(const sr_unit_system *)ctx;
+    (void)sig;
+    const char *u = sr_units_label(q, sys);
+    snprintf(buf, len, "%.3g%s%s", sr_units_from_si(si, q, sys), u[0] ? " " : "", u);
+}
+
+void sr_wind_describe_fmt(const sr_wind *w, sr_wind_value_fn value, void *ctx, char *buf, size_t len)
+{
+    char v[64], h[64], v2[64], h2[64];
     double deg = sr_units_bearing_deg(w->from, 0);
-    const char *uv = sr_units_label(SR_Q_SPEED, sys), *ul = sr_units_label(SR_Q_LENGTH, sys);
-#define SPD(x) sr_units_from_si((x), SR_Q_SPEED, sys)
-#define LEN(x) sr_units_from_si((x), SR_Q_LENGTH, sys)
     switch (w->kind) {
     case SR_WIND_CALM:
         snprintf(buf, len, "calm");
-        break;
+        return;
     case SR_WIND_CONSTANT:
-        snprintf(buf, len, "constant: %.1f %s from %.0f deg at every height", SPD(w->speed), uv, deg);
-        break;
+        value(v, sizeof v, w->speed, SR_Q_SPEED, 3, ctx);
+        snprintf(buf, len, "constant, %s from %.0f deg at every height", v, deg);
+        return;
     case SR_WIND_POWER:
-        snprintf(buf, len, "power law: %.1f %s from %.0f deg at %.0f %s above ground, exponent %.3f", SPD(w->speed),
-                 uv, deg, LEN(w->h_ref), ul, w->alpha);
-        break;
     case SR_WIND_LOG:
-        snprintf(buf, len,
-                 "log law: %.1f %s from %.0f deg at %.0f %s above ground, roughness length %.3g %s, displacement "
-                 "%.3g %s",
-                 SPD(w->speed), uv, deg, LEN(w->h_ref), ul, LEN(w->z0), ul, LEN(w->d), ul);
-        break;
+        value(v, sizeof v, w->speed, SR_Q_SPEED, 3, ctx);
+        value(h, sizeof h, w->h_ref, SR_Q_LENGTH, 3, ctx);
+        if (w->kind == SR_WIND_POWER) {
+            snprintf(buf, len, "power law, %s from %.0f deg at %s above ground, exponent %.3f", v, deg, h, w->alpha);
+        } else {
+            value(v2, sizeof v2, w->z0, SR_Q_LENGTH, 3, ctx);
+            value(h2, sizeof h2, w->d, SR_Q_LENGTH, 3, ctx);
+            snprintf(buf, len, "log law, %s from %.0f deg at %s above ground, roughness length %s, displacement %s", v,
+                     deg, h, v2, h2);
+        }
+        if (w->h_grad > 0.0) {
+            size_t l = strlen(buf);
+            value(h, sizeof h, w->h_grad, SR_Q_LENGTH, 3, ctx);
+            snprintf(buf + l, len > l ? len - l : 0, "; held constant above %s (gradient height)", h);
+        }
+        return;
     case SR_WIND_TABLE: {
         double s0, f0, s1, f1;
         sr_wind_polar(w->east[0], w->north[0], &s0, &f0);
         sr_wind_polar(w->east[w->n - 1], w->north[w->n - 1], &s1, &f1);
-        snprintf(buf, len, "table%s%s: %zu rows, %.1f %s from %.0f deg at %.0f %s to %.1f %s from %.0f deg at %.0f %s "
-                 "above ground",
-                 w->source[0] ? " " : "", w->source, w->n, SPD(s0), uv, sr_units_bearing_deg(f0, 0), LEN(w->h[0]), ul,
-                 SPD(s1), uv, sr_units_bearing_deg(f1, 0), LEN(w->h[w->n - 1]), ul);
-        break;
+        value(v, sizeof v, s0, SR_Q_SPEED, 3, ctx);
+        value(h, sizeof h, w->h[0], SR_Q_LENGTH, 0, ctx);
+        value(v2, sizeof v2, s1, SR_Q_SPEED, 3, ctx);
+        value(h2, sizeof h2, w->h[w->n - 1], SR_Q_LENGTH, 0, ctx);
+        snprintf(buf, len, "table%s%s, %zu rows: %s from %.0f deg at %s to %s from %.0f deg at %s above ground",
+                 w->source[0] ? " " : "", w->source, w->n, v, sr_units_bearing_deg(f0, 0), h, v2,
+                 sr_units_bearing_deg(f1, 0), h2);
+        return;
     }
     }
-    if (is_law(w) && w->h_grad > 0.0) {
-        size_t l = strlen(buf);
-        snprintf(buf + l, len > l ? len - l : 0, "; held constant above %.0f %s (gradient height)", LEN(w->h_grad), ul);
-    }
-#undef SPD
-#undef LEN
+}
+
+void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t len)
+{
+    sr_wind_describe_fmt(w, plain_value, &sys, buf, len);
 }
 
 /* ---- a program's handles (include/sinkrate/physics.h) ---- */

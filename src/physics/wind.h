@@ -100,5 +100,11 @@ const double *sr_wind_knots(const sr_wind *w, size_t *n);
 /* Conversions between speed + from-direction and east/north components. */
 void sr_wind_components(double speed, double from, double *east, double *north);
 void sr_wind_polar(double east, double north, double *speed, double *from);
+/* Writes one number of a description: si in quantity q, sig significant
+ * figures (0: a whole number), with its unit. */
+typedef void (*sr_wind_value_fn)(char *buf, size_t len, double si, sr_quantity q, int sig, void *ctx);
+/* The wind in words, its numbers written by value: the one description the
+ * report and the figure titles share (sr_wind_describe writes them plainly). */
+void sr_wind_describe_fmt(const sr_wind *w, sr_wind_value_fn value, void *ctx, char *buf, size_t len);
 
 #endif
