@@ -207,7 +207,7 @@ static void bench_band(void)
     printf("banded staged descents judged, fast path %8.0f /s at 1 thread, %8.0f at 2  (goal >= 20000 at 2)\n\n",
            rate[0], rate[1]);
     sr_band_ctx_free(bc);
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
     free(cat);
 }
@@ -255,7 +255,7 @@ static void bench_profile(void)
     for (int rep = 0; rep < 5; rep++) {
         double t0 = now();
         sr_profile_ctx_free(ctx);
-        if (sr_profile_ctx_new(&ctx, m, NULL, &e)) {
+        if (sr_mission_profile(&ctx, m, NULL, &e)) {
             printf("staged descent: %s\n\n", e.msg);
             return;
         }
@@ -296,7 +296,7 @@ static void bench_profile(void)
            best[2] * 1e6, 1.0 / best[2]);
     sr_profile_work_free(w);
     sr_profile_ctx_free(ctx);
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
     free(cat);
 }
@@ -369,7 +369,7 @@ static void disp_rates(const sr_disp_mission *dm, const sr_uncertainty *u, size_
                 return;
             double t = now() - t0, c = cpu_now() - c0;
             sink = res.land[n - 1].east;
-            sr_disp_result_free(&res);
+            sr_disp_result_release(&res);
             if (t < best[k]) {
                 best[k] = t;
                 cpu[k] = c / (double)n;
@@ -412,7 +412,7 @@ static void bench_dispersion(void)
                 v[i] = 3.0 + 1.5 * (double)i;
                 from[i] = (240.0 + 3.0 * i) * 3.14159265358979 / 180.0;
             }
-            sr_wind_free(&m->wind);
+            sr_wind_release(&m->wind);
             if (sr_wind_init_table(&m->wind, h, v, from, 12, &e)) {
                 printf("dispersion: %s\n", e.msg);
                 break;
@@ -435,7 +435,7 @@ static void bench_dispersion(void)
         sr_disp_mission_free(&dm);
     }
     printf("\n");
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
     free(cat);
 }

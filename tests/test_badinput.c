@@ -1152,31 +1152,10 @@ static int count_entries(const char *dir)
     return n;
 }
 
-static void remove_tree(const char *dir)
-{
-    DIR *d = opendir(dir);
-    if (d) {
-        struct dirent *e;
-        while ((e = readdir(d)) != NULL) {
-            if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
-                continue;
-            char sub[1024];
-            snprintf(sub, sizeof sub, "%s/%s", dir, e->d_name);
-            struct stat st;
-            if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
-                remove_tree(sub);
-            else
-                unlink(sub);
-        }
-        closedir(d);
-    }
-    rmdir(dir);
-}
-
 static int run_case(size_t i, const bad_case *c, int show)
 {
-    char dir[] = "/tmp/sinkrate-bad-XXXXXX";
-    assert_non_null(mkdtemp(dir));
+    char dir[64];
+    sr_test_tmpdir(dir, sizeof dir, "bad");
     char p[1024];
     snprintf(p, sizeof p, "%s/in", dir);
     assert_int_equal(mkdir(p, 0755), 0);
@@ -1276,7 +1255,7 @@ static int run_case(size_t i, const bad_case *c, int show)
     }
     free(out);
     free(err);
-    remove_tree(dir);
+    sr_test_rmtree(dir);
     return ok;
 }
 
@@ -1325,7 +1304,7 @@ static void test_bad_input_catalogue(void **state)
     print_message("bad-input catalogue: %zu rows, %zu failed\n", n, failed);
     assert_true(n >= 100);
     /* every command has rows (a new command fails here until it has them) */
-    for (const sr_command *const *cmd = sr_commands; *cmd; cmd++) {
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {
         size_t rows = 0;
         for (size_t i = 0; i < n; i++)
             rows += strcmp(BAD[i].args[0], (*cmd)->name) == 0;

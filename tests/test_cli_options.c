@@ -42,9 +42,9 @@ static void help_label(const sr_opt *o, char *buf, size_t len)
 static void test_every_option_in_help(void **state)
 {
     (void)state;
-    for (const sr_command *const *cmd = sr_commands; *cmd; cmd++) {
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {
         sr_opt_flat flat[SR_OPT_MAX];
-        size_t n = sr_opt_flatten((*cmd)->options, flat, SR_OPT_MAX);
+        size_t n = sr_cli_opt_flatten((*cmd)->options, flat, SR_OPT_MAX);
         assert_true(n > 0 && n < SR_OPT_MAX);
         char *out, *err;
         assert_int_equal(sr_test_cli(&out, &err, (*cmd)->name, "--help", NULL), 0);
@@ -80,15 +80,15 @@ static void test_every_option_in_help(void **state)
 static void test_no_two_options_collide(void **state)
 {
     (void)state;
-    for (const sr_command *const *cmd = sr_commands; *cmd; cmd++) {
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {
         sr_opt_flat flat[SR_OPT_MAX];
-        size_t n = sr_opt_flatten((*cmd)->options, flat, SR_OPT_MAX);
+        size_t n = sr_cli_opt_flatten((*cmd)->options, flat, SR_OPT_MAX);
         /* every command takes the output options, -h/--help among them */
         int help = 0;
         for (size_t i = 0; i < n; i++)
-            help |= flat[i].opt->type == SR_OPTION_HELP && flat[i].group && flat[i].group->group == SR_GROUP_OUTPUT;
+            help |= flat[i].opt->type == SR_OPTION_HELP && flat[i].group && flat[i].group->group == sr_cli_group_output;
         if (!help)
-            fail_msg("%s does not include SR_GROUP_OUTPUT (-o, --format, --help, ...)", (*cmd)->name);
+            fail_msg("%s does not include sr_cli_group_output (-o, --format, --help, ...)", (*cmd)->name);
         for (size_t i = 0; i < n; i++) {
             const sr_opt *a = flat[i].opt;
             assert_true(a->name || a->short_name);
@@ -173,13 +173,13 @@ static char *man_part(const char *man, const char *heading, const char *command)
  * the command's own entry of COMMAND OPTIONS). */
 static const char *group_section(const sr_opt *group)
 {
-    if (group == SR_GROUP_OUTPUT)
+    if (group == sr_cli_group_output)
         return "COMMON OPTIONS";
-    if (group == SR_GROUP_ATMOS)
+    if (group == sr_cli_group_atmos)
         return "ATMOSPHERE OPTIONS";
-    if (group == SR_GROUP_CANOPY)
+    if (group == sr_cli_group_canopy)
         return "CANOPY OPTIONS";
-    if (group == SR_GROUP_PLOT)
+    if (group == sr_cli_group_plot)
         return "FIGURES";
     return NULL;
 }
@@ -189,9 +189,9 @@ static void test_every_option_in_man_page(void **state)
     (void)state;
     char *man = man_text();
     int missing = 0;
-    for (const sr_command *const *cmd = sr_commands; *cmd; cmd++) {
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {
         sr_opt_flat flat[SR_OPT_MAX];
-        size_t n = sr_opt_flatten((*cmd)->options, flat, SR_OPT_MAX);
+        size_t n = sr_cli_opt_flatten((*cmd)->options, flat, SR_OPT_MAX);
         char *entry = man_part(man, "COMMAND OPTIONS", (*cmd)->name);
         for (size_t i = 0; i < n; i++) {
             const sr_opt *o = flat[i].opt;

@@ -53,7 +53,7 @@ static void test_syntax_and_every_option(void **state)
     char cmd[1024];
     snprintf(cmd, sizeof cmd, "bash -n '%s'", path);
     assert_int_equal(system(cmd), 0);
-    for (const sr_command *const *cmd = sr_commands; *cmd; cmd++) {
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {
         const char *name = (*cmd)->name;
         char *opts = opts_of(s, name);
         if (!opts)

@@ -15,6 +15,7 @@
 #include "physics/units.h"
 #include "physics/wind.h"
 #include "testutil.h"
+#include "files/sounding.h"
 
 static void test_setters(void **state)
 {
@@ -71,7 +72,7 @@ static void test_readers_fill_the_place(void **state)
     const char *path = sr_test_tmpfile(".csv", "altitude [m], temperature [K], pressure [Pa]\n0, 288.15, 101325\n"
                                                "1000, 281.65, 89876\n500, 285, 95000\n");
     sr_atmos a;
-    assert_int_not_equal(sr_atmos_load_sounding(&a, path, &e), SR_OK);
+    assert_int_not_equal(sr_sounding_load(&a, path, &e), SR_OK);
     assert_string_equal(e.file, path);
     assert_int_equal(e.line, 4);
     assert_int_equal(e.column, 1);

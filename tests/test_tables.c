@@ -75,7 +75,7 @@ static void test_registry_matches_outputs(void **state)
     /* every command: a new one fails here until RUNS write each table it lists */
     const char *CMDS[64];
     size_t ncmds = 0;
-    for (const sr_command *const *cmd = sr_commands; *cmd && ncmds < 64; cmd++)
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd && ncmds < 64; cmd++)
         CMDS[ncmds++] = (*cmd)->name;
     for (size_t c = 0; c < ncmds; c++) {
         const char *const *names = sr_cli_tables(CMDS[c]);

@@ -2,8 +2,11 @@
 #include "base/error.h"
 
 #include <limits.h>
+#include <gsl/gsl_errno.h>
+#include <pthread.h>
 #include <stdarg.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 void sr_error_printable(char *s)
@@ -126,4 +129,61 @@ const char *sr_error_name(int code)
     case SR_ENUMERIC: return "numerical failure";
     default: return "unknown error";
     }
+}
+
+/* ---- the error object of a program (include/sinkrate/base.h) ---- */
+
+sr_error *sr_error_new(void)
+{
+    sr_error *e = malloc(sizeof *e);
+    if (e)
+        sr_error_clear(e);
+    return e;
+}
+
+void sr_error_free(sr_error *err)
+{
+    free(err);
+}
+
+int sr_error_code(const sr_error *err)
+{
+    return err ? err->code : SR_OK;
+}
+
+const char *sr_error_message(const sr_error *err)
+{
+    return err ? err->msg : "";
+}
+
+const char *sr_error_key(const sr_error *err)
+{
+    return err ? err->key : "";
+}
+
+const char *sr_error_file(const sr_error *err)
+{
+    return err ? err->file : "";
+}
+
+int sr_error_line(const sr_error *err)
+{
+    return err ? err->line : 0;
+}
+
+int sr_error_column(const sr_error *err)
+{
+    return err ? err->column : 0;
+}
+
+static void gsl_off(void)
+{
+    gsl_set_error_handler_off();
+}
+
+void sr_error_gsl_off(void)
+{
+    /* pthread_once: the one process-wide setting of the library, made once and race-free */
+    static pthread_once_t once = PTHREAD_ONCE_INIT;
+    pthread_once(&once, gsl_off);
 }

@@ -5,15 +5,9 @@
 
 #include <stddef.h>
 
-enum sr_status {
-    SR_OK = 0,
-    SR_EINVAL = 1,      /* bad input: malformed, wrong unit, unphysical value */
-    SR_EDOMAIN = 2,     /* outside a model's range (altitude above 86 km, ...) */
-    SR_EIMPOSSIBLE = 3, /* valid request with no answer (no canopy size can reach the target) */
-    SR_ENOMEM = 4,
-    SR_EIO = 5,         /* cannot open, read or write a file */
-    SR_ENUMERIC = 6     /* a solver failed to converge */
-};
+/* enum sr_status, sr_error_name and the object's accessors are public:
+ * include/sinkrate/base.h */
+#include "sinkrate/base.h"
 
 #define SR_ERROR_MSG_MAX 512
 #define SR_ERROR_KEY_MAX 48
@@ -77,11 +71,14 @@ int sr_error_prefix(sr_error *err, const char *fmt, ...)
 
 void sr_error_clear(sr_error *err);
 
+/* GSL's default error handler aborts the process; the library checks every
+ * GSL status itself and reports it in an sr_error, so the handler goes off
+ * the first time a program makes one of its handles (once per process, safe
+ * from any thread; the CLI does it in sr_cli_run). */
+void sr_error_gsl_off(void);
+
 /* Keep a message on one printable line: a tab becomes a space, any other
  * control byte (a newline or terminal escape quoted from the input) a '?'. */
 void sr_error_printable(char *s);
-
-/* Short name of a status code, e.g. "invalid input". */
-const char *sr_error_name(int code);
 
 #endif

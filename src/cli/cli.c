@@ -16,18 +16,18 @@
 #include "base/version.h"
 #include "files/yamldoc.h"
 
-const sr_command *const sr_commands[] = {&sr_cmd_size,       &sr_cmd_rate,     &sr_cmd_sweep,    &sr_cmd_profile,
+const sr_command *const sr_cli_commands[] = {&sr_cmd_size,       &sr_cmd_rate,     &sr_cmd_sweep,    &sr_cmd_profile,
                                          &sr_cmd_loads,      &sr_cmd_freefall, &sr_cmd_dispersion, &sr_cmd_air,
                                          &sr_cmd_canopies,   &sr_cmd_check,    &sr_cmd_fit,      NULL};
 
-#define NCOMMANDS (sizeof sr_commands / sizeof sr_commands[0] - 1)
+#define NCOMMANDS (sizeof sr_cli_commands / sizeof sr_cli_commands[0] - 1)
 
 static void usage(FILE *f)
 {
     fprintf(f, "usage: sinkrate COMMAND [options]   (sinkrate COMMAND --help for its options)\n\n"
                "Sizes and checks parachute recovery systems for payloads.\n\nCommands:\n");
     for (size_t i = 0; i < NCOMMANDS; i++)
-        fprintf(f, "  %-11s %s\n", sr_commands[i]->name, sr_commands[i]->summary);
+        fprintf(f, "  %-11s %s\n", sr_cli_commands[i]->name, sr_cli_commands[i]->summary);
     fprintf(f, "\nOptions: --version, --help, --completion bash (the shell completion script)\n\n");
 }
 
@@ -48,7 +48,7 @@ static int completion(sr_cli *c, const char *shell)
                "        COMPREPLY=($(compgen -W \"",
             SR_VERSION);
     for (size_t i = 0; i < NCOMMANDS; i++)
-        fprintf(f, "%s ", sr_commands[i]->name);
+        fprintf(f, "%s ", sr_cli_commands[i]->name);
     fputs("--help --version --completion\" -- \"$cur\"))\n"
           "        return\n"
           "    fi\n"
@@ -58,10 +58,10 @@ static int completion(sr_cli *c, const char *shell)
     if (!flat)
         return sr_cli_fail(c, "out of memory");
     for (size_t i = 0; i < NCOMMANDS; i++) {
-        size_t n = sr_opt_flatten(sr_commands[i]->options, flat, SR_OPT_MAX);
+        size_t n = sr_cli_opt_flatten(sr_cli_commands[i]->options, flat, SR_OPT_MAX);
         /* every option, then those that take a value (a file name is completed after them) */
         for (int values = 0; values < 2; values++) {
-            fprintf(f, values ? "'\n        vals='" : "    %s)\n        opts='", sr_commands[i]->name);
+            fprintf(f, values ? "'\n        vals='" : "    %s)\n        opts='", sr_cli_commands[i]->name);
             const char *sep = "";
             for (size_t k = 0; k < n; k++) {
                 const sr_opt *o = flat[k].opt;
@@ -78,8 +78,8 @@ static int completion(sr_cli *c, const char *shell)
             }
         }
         char names[512] = "";
-        if (sr_cli_tables(sr_commands[i]->name))
-            sr_cli_tables_list(sr_commands[i]->name, names, sizeof names);
+        if (sr_cli_tables(sr_cli_commands[i]->name))
+            sr_cli_tables_list(sr_cli_commands[i]->name, names, sizeof names);
         for (char *p = names; *p; p++)
             if (*p == ',')
                 *p = ' ';
@@ -133,17 +133,17 @@ static int dispatch(sr_cli *c, int argc, char **argv)
         return SR_EXIT_OK;
     }
     for (size_t i = 0; i < NCOMMANDS; i++) {
-        if (strcmp(sr_commands[i]->name, name) == 0) {
-            c->cmd = sr_commands[i]->name;
-            c->command = sr_commands[i];
+        if (strcmp(sr_cli_commands[i]->name, name) == 0) {
+            c->cmd = sr_cli_commands[i]->name;
+            c->command = sr_cli_commands[i];
             sr_cli_signals_watch(c->txn, c->cmd);
-            int rc = sr_commands[i]->run(c, argc - 1, argv + 1);
+            int rc = sr_cli_commands[i]->run(c, argc - 1, argv + 1);
             return rc < 0 ? SR_EXIT_OK : rc;
         }
     }
     const char *names[NCOMMANDS + 1];
     for (size_t i = 0; i < NCOMMANDS; i++)
-        names[i] = sr_commands[i]->name;
+        names[i] = sr_cli_commands[i]->name;
     names[NCOMMANDS] = NULL;
     const char *s = sr_yaml_suggest(name, names);
     if (s)
@@ -182,7 +182,7 @@ static int finish(sr_cli *c, int rc, const char *obuf, size_t olen, FILE *out)
 int sr_cli_run(int argc, char **argv, FILE *out, FILE *err)
 {
     /* GSL's default handler aborts; every GSL return code is checked instead */
-    gsl_set_error_handler_off();
+    sr_error_gsl_off();
     sr_cli c;
     memset(&c, 0, sizeof c);
     c.err = err;

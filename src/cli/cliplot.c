@@ -44,7 +44,7 @@ static int take_plot_size(sr_cli *c, const sr_opt *o, const char *arg, void *pla
     return 0;
 }
 
-const sr_opt SR_GROUP_PLOT[] = {
+const sr_opt sr_cli_group_plot[] = {
     SR_OPT_HEADING("Figure:"),
     {.type = SR_OPTION_CALL, .name = "plot", .value = "PREFIX", .call = take_plot, .flags = SR_OPT_IN_CLI,
      .help = "write PREFIX.dat and PREFIX.gp (a gnuplot script using the shared style plots/sinkrate.gp) and, when "

@@ -12,7 +12,7 @@
 #define SR_PLOT_DEFAULT_HEIGHT 650
 
 /* Figure: --plot, --plot-format, --plot-size (into sr_cli). */
-extern const sr_opt SR_GROUP_PLOT[];
+extern const sr_opt sr_cli_group_plot[];
 
 /* Write PREFIX.dat and PREFIX.gp (the style from the data directory's
  * plots/sinkrate.gp), creating PREFIX's directory if needed, then render

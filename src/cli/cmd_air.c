@@ -17,8 +17,8 @@ static const sr_opt OPTS[] = {
     SR_OPT_STRING("to", "Z1", air_opts, to, "its last altitude"),
     SR_OPT_STRING("step", "DZ", air_opts, step, "its step"),
     SR_OPT_STRING("altitude", "Z[,Z...]", air_opts, altitude, "a list of altitudes"),
-    SR_OPT_GROUP(SR_GROUP_ATMOS, air_opts, atmos),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_GROUP(sr_cli_group_atmos, air_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
@@ -117,6 +117,6 @@ static int run_air(sr_cli *c, int argc, char **argv)
 out:
     free(z);
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     return rc;
 }

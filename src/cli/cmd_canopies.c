@@ -17,7 +17,7 @@ static const sr_opt OPTS[] = {
     SR_OPT_FLAG("models", canopies_opts, models,
                 "the models behind the numbers that are not catalog values (growth exponents, cluster factors, the "
                 "X1 envelope, ...) with their sources and outside checks"),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */

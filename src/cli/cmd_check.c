@@ -18,12 +18,15 @@
 #include "physics/atmos.h"
 #include "physics/bluff.h"
 #include "physics/wind.h"
+#include "files/sounding.h"
+#include "files/windtable.h"
+#include "files/dragtable.h"
 
 typedef struct check_opts {
     int unused; /* check takes the output options only */
 } check_opts;
 
-static const sr_opt OPTS[] = {SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT), SR_OPT_END};
+static const sr_opt OPTS[] = {SR_OPT_CLI_GROUP(sr_cli_group_output), SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
 static const char *const TABLES[] = {"values", "files", NULL};
@@ -87,7 +90,7 @@ static int check_yaml(const sr_catalog *cat, const char *path, sr_yaml_errors *l
                      m->has_start && sized ? ", its descent flies" : "");
             sr_input_warnings_mission(iw, m, NULL, sys);
         }
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     } else if (sr_yaml_get(&y, root, "canopy")) {
         snprintf(kind, klen, "canopy");
@@ -197,23 +200,23 @@ static int check_csv(const char *path, char *kind, size_t klen, char *what, size
     } else if (has_name(names, n, "temperature")) {
         snprintf(kind, klen, "sounding");
         sr_atmos a;
-        if ((rc = sr_atmos_load_sounding(&a, path, e)))
+        if ((rc = sr_sounding_load(&a, path, e)))
             return rc;
         double lo, hi;
         sr_atmos_range(&a, &lo, &hi);
         snprintf(what, wlen, "%.0f .. %.0f m", lo, hi);
-        sr_atmos_free(&a);
+        sr_atmos_release(&a);
     } else if (has_name(names, n, "speed") || has_name(names, n, "from")) {
         snprintf(kind, klen, "wind table");
         sr_wind w;
-        if ((rc = sr_wind_load_table(&w, path, 0.0, e)))
+        if ((rc = sr_windtable_load(&w, path, 0.0, e)))
             return rc;
         snprintf(what, wlen, "%zu rows", w.n);
-        sr_wind_free(&w);
+        sr_wind_release(&w);
     } else if (has_name(names, n, "re") || has_name(names, n, "cd")) {
         snprintf(kind, klen, "drag table");
         sr_bluff_curve cv;
-        if ((rc = sr_bluff_curve_load(&cv, path, SR_BLUFF_LOGLOG, e)))
+        if ((rc = sr_dragtable_load(&cv, path, SR_BLUFF_LOGLOG, e)))
             return rc;
         snprintf(what, wlen, "Cd over Re");
         sr_bluff_curve_free(&cv);

@@ -38,7 +38,7 @@ typedef struct disp_opts {
 
 static const sr_opt OPTS[] = {
     SR_OPT_SHORT_STRING('n', NULL, "N", disp_opts, n, "samples (default 10000, at most 10000000)"),
-    SR_OPT_CLI_GROUP(SR_GROUP_RUN),
+    SR_OPT_CLI_GROUP(sr_cli_group_run),
     SR_OPT_STRING("samples", "FILE", disp_opts, samples,
                   "every sample's landing point, touchdown state, limit flags and drawn deviations as CSV (one row "
                   "per sample and body)"),
@@ -56,8 +56,8 @@ static const sr_opt OPTS[] = {
                   "... and up to N sample landing points (every k-th sample; default 0, at most 20000)"),
     SR_OPT_TEXT("The output does not name the thread count: it is the same bytes for any. The figure (--plot, "
                 "below) is 1250x700 unless --plot-size is given."),
-    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
@@ -662,7 +662,7 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, con
 static void on_progress(size_t done, size_t n, void *ud)
 {
     (void)n;
-    sr_progress_update(ud, done);
+    sr_cli_progress_update(ud, done);
 }
 
 static int run_dispersion(sr_cli *c, int argc, char **argv)
@@ -718,7 +718,7 @@ static int run_dispersion(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
-    if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+    if (o.geojson && (rc = sr_cli_maps_need_position(c, "--geojson", m)))
         goto out;
     if ((rc = sr_cli_mission_inputs(c, m)))
         goto out;
@@ -729,10 +729,10 @@ static int run_dispersion(sr_cli *c, int argc, char **argv)
     int threads = c->threads > 0 ? c->threads : omp_get_num_procs();
     uint64_t seed = c->seed_set ? (uint64_t)c->seed : 1u;
     sr_progress bar;
-    sr_progress_start(&bar, c->err, n, "samples");
+    sr_cli_progress_start(&bar, c->err, n, "samples");
     sr_disp_options opt = {.n = n, .seed = seed, .threads = threads, .progress = on_progress, .progress_ud = &bar};
     rc = sr_disp_run(&dm.model, &m->unc, &opt, &res, &e);
-    sr_progress_end(&bar);
+    sr_cli_progress_end(&bar);
     if (rc) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
@@ -748,7 +748,7 @@ static int run_dispersion(sr_cli *c, int argc, char **argv)
     r = sr_report_new("dispersion", "Monte Carlo landing dispersion");
     sr_report_section(r, "Inputs");
     sr_report_text(r, "mission", "mission", m->name);
-    sr_maps_report_position(r, m);
+    sr_cli_maps_report_position(r, m);
     sr_report_value(r, "samples", "samples", (double)n, SR_Q_NONE, SR_FIXED(0));
     sr_report_value(r, "seed", "seed", (double)seed, SR_Q_NONE, SR_FIXED(0));
     sr_report_text(r, "descent_model", "descent model",
@@ -784,13 +784,13 @@ static int run_dispersion(sr_cli *c, int argc, char **argv)
                           "alike).");
     /* the map is built before anything is written */
     if (o.geojson &&
-        (rc = sr_maps_dispersion_geojson(c, m, &dm, &res, st, nom, (size_t)geo_samples, &gbuf, &glen)))
+        (rc = sr_cli_maps_dispersion_geojson(c, m, &dm, &res, st, nom, (size_t)geo_samples, &gbuf, &glen)))
         goto out;
     if ((rc = sr_cli_emit(c, r)))
         goto out;
     if (o.samples && (rc = write_samples(c, o.samples, m, &dm, &res)))
         goto out;
-    if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
+    if (gbuf && (rc = sr_cli_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
     if (c->plot_prefix && (rc = figure(c, m, &dm, &res, st, nom, argc, argv)))
         goto out;
@@ -798,10 +798,10 @@ static int run_dispersion(sr_cli *c, int argc, char **argv)
 out:
     free(gbuf);
     sr_report_free(r);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
     if (m) {
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     }
     free(st);

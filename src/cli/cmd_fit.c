@@ -31,7 +31,7 @@ typedef struct fit_opts {
 } fit_opts;
 
 static const sr_opt OPTS[] = {
-    SR_OPT_GROUP(SR_GROUP_PAYLOAD, fit_opts, payload),
+    SR_OPT_GROUP(sr_cli_group_payload, fit_opts, payload),
     SR_OPT_WITHOUT("altitude"),
     SR_OPT_WITHOUT("body-drag-area"),
     SR_OPT_FOR("mission", "FILE", "site weather, masses, canopies, stage names and deployment events from a mission "
@@ -59,10 +59,10 @@ static const sr_opt OPTS[] = {
     SR_OPT_STRING("write-wind", "FILE", fit_opts, write_wind,
                   "the drift under the canopies by height, as a wind table (needs positions in the log)"),
     SR_OPT_TEXT("Exit 1 when a fit does not converge or its interval is unbounded (no number then)."),
-    SR_OPT_GROUP(SR_GROUP_CANOPY, fit_opts, canopy),
-    SR_OPT_GROUP(SR_GROUP_ATMOS, fit_opts, atmos),
-    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_GROUP(sr_cli_group_canopy, fit_opts, canopy),
+    SR_OPT_GROUP(sr_cli_group_atmos, fit_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
@@ -804,8 +804,8 @@ static int run_fit(sr_cli *c, int argc, char **argv)
     }
     if ((rc = sr_cli_emit(c, r)))
         goto out;
-    if (c->plot_prefix && !(rc = sr_fit_plots(c, res, nlogs, setups, argc, argv)))
-        rc = sr_fit_plot_opening(c, res, setups, logs[0].acc, argc, argv);
+    if (c->plot_prefix && !(rc = sr_cli_fit_plots(c, res, nlogs, setups, argc, argv)))
+        rc = sr_cli_fit_plot_opening(c, res, setups, logs[0].acc, argc, argv);
 out:
     sr_report_free(r);
     for (size_t l = 0; l < nfitted + 1 && res && l < nlogs; l++)
@@ -821,7 +821,7 @@ out:
     free(s);
     free(last);
     free(names);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     free(cat);
     return rc;

@@ -11,6 +11,7 @@
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "analysis/input_warnings.h"
+#include "files/dragtable.h"
 
 typedef struct ff_opts {
     const char *body, *diameter, *length, *mass, *cd_table, *interp, *area, *curve, *start_cd, *steps, *altitude;
@@ -41,9 +42,9 @@ static const sr_opt OPTS[] = {
     SR_OPT_STRING("steps", "N", ff_opts, steps, "its step limit (default 50, at most 200)"),
     SR_OPT_TEXT("The figure (with --plot): the drag curve Cd(Re) with the weight lines and every equilibrium on it "
                 "and, with several altitudes, the equilibrium speeds over altitude."),
-    SR_OPT_GROUP(SR_GROUP_ATMOS, ff_opts, atmos),
-    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_GROUP(sr_cli_group_atmos, ff_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
@@ -459,7 +460,7 @@ static int run_freefall(sr_cli *c, int argc, char **argv)
     sr_bluff_curve curve;
     memset(&curve, 0, sizeof curve);
     if (shape == SR_BLUFF_TABLE) {
-        if (sr_bluff_curve_load(&curve, o.cd_table, kind, &e))
+        if (sr_dragtable_load(&curve, o.cd_table, kind, &e))
             return sr_cli_fail(c, "--cd-table: %s", e.msg);
     } else {
         sr_bluff_curve_id id = sr_bluff_default_curve(shape);
@@ -612,7 +613,7 @@ out:
     sr_report_free(r);
     free(res);
     free(alt);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_bluff_curve_free(&curve);
     return rc;
 }

@@ -31,7 +31,7 @@ typedef struct loads_opts {
 } loads_opts;
 
 static const sr_opt OPTS[] = {
-    SR_OPT_GROUP(SR_GROUP_PAYLOAD, loads_opts, payload),
+    SR_OPT_GROUP(sr_cli_group_payload, loads_opts, payload),
     SR_OPT_WITHOUT("body-drag-area"),
     SR_OPT_FOR("mass", "M", "mass the canopies decelerate"),
     SR_OPT_FOR("altitude", "Z", "deployment altitude above sea level (default: the site elevation, or 0)"),
@@ -58,10 +58,10 @@ static const sr_opt OPTS[] = {
     SR_OPT_TEXT("The figure (with --plot): force vs time from the inflation ODE at the typical ends of the bands, "
                 "with each method's peak marked; for a whole mission, one figure a stage, PREFIX-STAGE.png (in the "
                 "stage's name, what is not a letter, digit, '.', '_' or '-' becomes '-')."),
-    SR_OPT_GROUP(SR_GROUP_CANOPY, loads_opts, canopy),
-    SR_OPT_GROUP(SR_GROUP_ATMOS, loads_opts, atmos),
-    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_GROUP(sr_cli_group_canopy, loads_opts, canopy),
+    SR_OPT_GROUP(sr_cli_group_atmos, loads_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
@@ -620,18 +620,9 @@ static int state_from_options(sr_cli *c, const loads_opts *o, const sr_atmos *at
     sr_error e;
     if (sr_atmos_at(atm, d->z, &air, &e) != SR_OK)
         return sr_cli_fail(c, "--altitude: %s", e.msg);
-    sr_loads_state *s = &d->st[0];
+    /* the state sr_loads_deployment takes too: a program and this command agree */
     memset(d->st, 0, sizeof d->st);
-    s->valid = 1;
-    s->v1 = v;
-    s->path_angle = angle;
-    s->rho = air.rho;
-    s->a = air.a;
-    s->g = air.g;
-    s->mass = mass;
-    s->v_steady = NAN;
-    s->cds0 = d->cp->cluster_factor * d->cp->cds.typ;
-    s->d0 = d->cp->d0.typ;
+    sr_loads_state_of(&d->st[0], d->cp, mass, v, angle, &air);
     return 0;
 }
 
@@ -838,7 +829,7 @@ static int run_loads(sr_cli *c, int argc, char **argv)
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     sr_band_ctx_free(bc);
     free(BR);

@@ -44,8 +44,8 @@ static const sr_opt OPTS[] = {
     SR_OPT_FLAG("band-ends", profile_opts, band_ends,
                 "trajectory and map also at both ends of the band: the fast end (low drag, heavy) and the slow end "
                 "(high drag, light)"),
-    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
@@ -112,51 +112,11 @@ static void fmt(char *buf, size_t len, const sr_cli *c, double v, sr_quantity q,
     sr_report_format_value(buf, len, v, q, c->units, sig);
 }
 
-/* The wind in words, in the chosen units. */
-static void wind_text(const sr_cli *c, const sr_wind *w, char *buf, size_t len)
+/* A number of the wind's description as the report writes it. */
+static void wind_value(char *buf, size_t len, double si, sr_quantity q, int sig, void *ctx)
 {
-    char v[64], h[64], v2[64], h2[64];
-    double deg = sr_units_bearing_deg(w->from, 0);
-    switch (w->kind) {
-    case SR_WIND_CALM:
-        snprintf(buf, len, "calm");
-        return;
-    case SR_WIND_CONSTANT:
-        fmt(v, sizeof v, c, w->speed, SR_Q_SPEED, 3);
-        snprintf(buf, len, "constant, %s from %.0f deg at every height", v, deg);
-        return;
-    case SR_WIND_POWER:
-    case SR_WIND_LOG:
-        fmt(v, sizeof v, c, w->speed, SR_Q_SPEED, 3);
-        fmt(h, sizeof h, c, w->h_ref, SR_Q_LENGTH, 3);
-        if (w->kind == SR_WIND_POWER) {
-            snprintf(buf, len, "power law, %s from %.0f deg at %s above ground, exponent %.3f", v, deg, h, w->alpha);
-        } else {
-            fmt(v2, sizeof v2, c, w->z0, SR_Q_LENGTH, 3);
-            fmt(h2, sizeof h2, c, w->d, SR_Q_LENGTH, 3);
-            snprintf(buf, len, "log law, %s from %.0f deg at %s above ground, roughness length %s, displacement %s", v,
-                     deg, h, v2, h2);
-        }
-        if (w->h_grad > 0.0) {
-            size_t l = strlen(buf);
-            fmt(h, sizeof h, c, w->h_grad, SR_Q_LENGTH, 3);
-            snprintf(buf + l, len > l ? len - l : 0, "; held constant above %s (gradient height)", h);
-        }
-        return;
-    case SR_WIND_TABLE: {
-        double s0, f0, s1, f1;
-        sr_wind_polar(w->east[0], w->north[0], &s0, &f0);
-        sr_wind_polar(w->east[w->n - 1], w->north[w->n - 1], &s1, &f1);
-        fmt(v, sizeof v, c, s0, SR_Q_SPEED, 3);
-        fmt(h, sizeof h, c, w->h[0], SR_Q_LENGTH, SR_FIXED(0));
-        fmt(v2, sizeof v2, c, s1, SR_Q_SPEED, 3);
-        fmt(h2, sizeof h2, c, w->h[w->n - 1], SR_Q_LENGTH, SR_FIXED(0));
-        snprintf(buf, len, "table%s%s, %zu rows: %s from %.0f deg at %s to %s from %.0f deg at %s above ground",
-                 w->source[0] ? " " : "", w->source, w->n, v, sr_units_bearing_deg(f0, 0), h, v2,
-                 sr_units_bearing_deg(f1, 0), h2);
-        return;
-    }
-    }
+    const sr_cli *c = ctx;
+    fmt(buf, len, c, si, q, sig > 0 ? sig : SR_FIXED(0));
 }
 
 static const char *deploy_text(const sr_cli *c, const sr_mission *m, size_t k, char *buf, size_t len)
@@ -190,9 +150,9 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
     sr_report_section(r, "Mission");
     sr_report_text(r, "mission", "mission", m->name);
     sr_report_text(r, "file", "file", m->path);
-    sr_maps_report_position(r, m);
+    sr_cli_maps_report_position(r, m);
     sr_cli_report_atmos(r, &m->atmos);
-    wind_text(c, &m->wind, buf, sizeof buf);
+    sr_wind_describe_fmt(&m->wind, wind_value, (void *)c, buf, sizeof buf);
     sr_report_text(r, "wind", "wind", buf);
     fmt(v1, sizeof v1, c, m->start_height, SR_Q_LENGTH, SR_FIXED(0));
     fmt(v2, sizeof v2, c, m->start_speed, SR_Q_SPEED, 3);
@@ -244,7 +204,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
         const char *txt[] = {s->name, lands};
         sr_rtable_row(t, row, txt);
     }
-    sr_profile_report_free_drag(r, c, m);
+    sr_cli_profile_report_free_drag(r, c, m);
 
     t = sr_report_table(r, "stages", "Recovery stages (drag area band from the family's CD0 range; n: growth exponent "
                                      "of the drag area while filling)");
@@ -497,7 +457,7 @@ static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, 
                                  "against the printed tables: confirm the rates with a drop test.");
             break;
         }
-    sr_profile_free_fall_warnings(r, c, m, p, "");
+    sr_cli_profile_free_fall_warnings(r, c, m, p, "");
     if (p->events_dropped)
         sr_report_warning(r, "%d events beyond the first %d are not listed", p->events_dropped,
                           SR_PROFILE_MAX_EVENTS);
@@ -553,7 +513,7 @@ static int run_profile(sr_cli *c, int argc, char **argv)
         (o.geojson && (rc = sr_cli_output(c, "--geojson", o.geojson))))
         return rc;
 
-    if ((rc = sr_profile_plot_reserve(c)) || (rc = sr_cli_input(c, "the mission file", argv[first])))
+    if ((rc = sr_cli_profile_plot_reserve(c)) || (rc = sr_cli_input(c, "the mission file", argv[first])))
         return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
@@ -588,7 +548,7 @@ static int run_profile(sr_cli *c, int argc, char **argv)
                          m->path);
         goto out;
     }
-    if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+    if (o.geojson && (rc = sr_cli_maps_need_position(c, "--geojson", m)))
         goto out;
     sr_profile_opts po;
     sr_profile_opts_init(&po);
@@ -690,8 +650,8 @@ static int run_profile(sr_cli *c, int argc, char **argv)
     sr_cli_report_input_warnings(r, &iw);
     report_notes(r, m, o.fast && !F);
     if (F)
-        sr_profile_report_attitudes(r, c, m, F);
-    if ((rc = sr_profile_report_failures(r, c, m, &lim, basis)))
+        sr_cli_profile_report_attitudes(r, c, m, F);
+    if ((rc = sr_cli_profile_report_failures(r, c, m, &lim, basis)))
         goto out;
     /* the trajectory and the map are built before anything is written; the band-end runs are the fast end
      * (low drag, heavy) and the slow end (high drag, light) */
@@ -699,17 +659,17 @@ static int run_profile(sr_cli *c, int argc, char **argv)
                         {"low drag", &B->run[SR_BAND_FAST], &track_lo},
                         {"high drag", &B->run[SR_BAND_SLOW], &track_hi}};
     size_t nmr = o.band_ends ? 3 : 1;
-    if (o.trajectory && (rc = sr_maps_trajectory(c, o.trajectory, m, sr_band_profile(bc), mr, nmr, &tbuf, &tlen)))
+    if (o.trajectory && (rc = sr_cli_maps_trajectory(c, o.trajectory, m, sr_band_profile(bc), mr, nmr, &tbuf, &tlen)))
         goto out;
-    if (o.geojson && (rc = sr_maps_profile_geojson(c, m, mr, nmr, &gbuf, &glen)))
+    if (o.geojson && (rc = sr_cli_maps_profile_geojson(c, m, mr, nmr, &gbuf, &glen)))
         goto out;
     if ((rc = sr_cli_emit(c, r)))
         goto out;
-    if (tbuf && (rc = sr_maps_write(c, "--trajectory", o.trajectory, tbuf, tlen)))
+    if (tbuf && (rc = sr_cli_maps_write(c, "--trajectory", o.trajectory, tbuf, tlen)))
         goto out;
-    if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
+    if (gbuf && (rc = sr_cli_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
-    if (c->plot_prefix && (rc = sr_profile_plot(c, m, sr_band_profile(bc), T, &track, argc, argv)))
+    if (c->plot_prefix && (rc = sr_cli_profile_plot(c, m, sr_band_profile(bc), T, &track, argc, argv)))
         goto out;
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
@@ -722,7 +682,7 @@ out:
     sr_band_work_free(w);
     sr_band_ctx_free(bc);
     if (m) {
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     }
     free(B);

@@ -18,15 +18,15 @@ typedef struct rate_opts {
 } rate_opts;
 
 static const sr_opt OPTS[] = {
-    SR_OPT_GROUP(SR_GROUP_PAYLOAD, rate_opts, payload),
+    SR_OPT_GROUP(sr_cli_group_payload, rate_opts, payload),
     SR_OPT_FOR("mass", "M",
                "descending mass (payload; the canopy's own mass is added when --areal-mass is given)"),
     SR_OPT_FOR("altitude", "Z[,Z...]", "altitudes above sea level (default: the site elevation, or 0)"),
     SR_OPT_FOR("body-drag-area", "A", "payload drag area CdA added to the canopy's (\"0.02 m2\")"),
     SR_OPT_FOR("mission", "FILE", "mass (all sections), site and the last stage's canopy from a mission file"),
-    SR_OPT_GROUP(SR_GROUP_CANOPY, rate_opts, canopy),
-    SR_OPT_GROUP(SR_GROUP_ATMOS, rate_opts, atmos),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_GROUP(sr_cli_group_canopy, rate_opts, canopy),
+    SR_OPT_GROUP(sr_cli_group_atmos, rate_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
@@ -183,7 +183,7 @@ static int run_rate(sr_cli *c, int argc, char **argv)
 out:
     free(alt);
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     free(cat);
     return rc;

@@ -19,7 +19,7 @@ typedef struct size_opts {
 } size_opts;
 
 static const sr_opt OPTS[] = {
-    SR_OPT_GROUP(SR_GROUP_PAYLOAD, size_opts, payload),
+    SR_OPT_GROUP(sr_cli_group_payload, size_opts, payload),
     SR_OPT_FOR("altitude", "Z",
                "altitude above sea level of the target speed (default: the ground, the site elevation or 0: a "
                "touchdown speed)"),
@@ -29,9 +29,9 @@ static const sr_opt OPTS[] = {
                "file; options given as well override it"),
     SR_OPT_STRING("speed", "V", size_opts, speed,
                   "target descent speed (\"5.5 m/s\", \"18 ft/s\"): at touchdown, or at --altitude"),
-    SR_OPT_GROUP(SR_GROUP_CANOPY, size_opts, canopy),
-    SR_OPT_GROUP(SR_GROUP_ATMOS, size_opts, atmos),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_GROUP(sr_cli_group_canopy, size_opts, canopy),
+    SR_OPT_GROUP(sr_cli_group_atmos, size_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
@@ -222,7 +222,7 @@ static int run_size(sr_cli *c, int argc, char **argv)
     rc = sr_cli_emit(c, r);
 out:
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     free(cat);
     return rc;

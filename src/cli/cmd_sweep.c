@@ -79,7 +79,7 @@ static const sr_opt OPTS[] = {
                   "a second variable (any of the first five): one curve per value, e.g. --by "
                   "temp-offset=-20C,0C,25C; at most 100000 rows in all (values x curves)"),
     SR_OPT_HEADING("The case:"),
-    SR_OPT_GROUP(SR_GROUP_PAYLOAD, sweep_opts, payload),
+    SR_OPT_GROUP(sr_cli_group_payload, sweep_opts, payload),
     SR_OPT_FOR("mass", "M", "payload mass (the canopy's fabric is added with --areal-mass)"),
     SR_OPT_FOR("altitude", "Z",
                "where mass, diameter, temp-offset and speed rows are evaluated (default: the ground)"),
@@ -99,10 +99,10 @@ static const sr_opt OPTS[] = {
                   "marker lines at these speeds (a touchdown-speed limit)"),
     SR_OPT_STRING("mark-altitude", "Z,...", sweep_opts, mark_altitude,
                   "marker lines at these altitudes above sea level"),
-    SR_OPT_GROUP_CALL(SR_GROUP_CANOPY, take_canopy, SR_OPT_REPEAT),
-    SR_OPT_GROUP(SR_GROUP_ATMOS, sweep_opts, atmos),
-    SR_OPT_CLI_GROUP(SR_GROUP_PLOT),
-    SR_OPT_CLI_GROUP(SR_GROUP_OUTPUT),
+    SR_OPT_GROUP_CALL(sr_cli_group_canopy, take_canopy, SR_OPT_REPEAT),
+    SR_OPT_GROUP(sr_cli_group_atmos, sweep_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
     SR_OPT_END};
 
 /* the tables of its output, for --table ("values": its single values) */
@@ -1080,7 +1080,7 @@ out:
     free(R->xs);
     free(R->rows);
     free(R->curves);
-    sr_atmos_free(&R->atm);
+    sr_atmos_release(&R->atm);
     sr_cli_mission_free(R->mis);
     free(R->cat);
     free(R);

@@ -11,6 +11,6 @@ extern const sr_command sr_cmd_size, sr_cmd_rate, sr_cmd_sweep, sr_cmd_profile, 
     sr_cmd_dispersion, sr_cmd_air, sr_cmd_canopies, sr_cmd_check, sr_cmd_fit;
 
 /* Every command, in the order of `sinkrate --help`, NULL-terminated (cli.c). */
-extern const sr_command *const sr_commands[];
+extern const sr_command *const sr_cli_commands[];
 
 #endif

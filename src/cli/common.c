@@ -20,6 +20,7 @@
 #include "output/plot.h"
 #include "files/mission.h"
 #include "files/yamldoc.h"
+#include "files/sounding.h"
 
 /* ---- the shared option groups ---- */
 
@@ -105,7 +106,7 @@ static int take_seed(sr_cli *c, const sr_opt *o, const char *arg, void *place)
     return 0;
 }
 
-const sr_opt SR_GROUP_OUTPUT[] = {
+const sr_opt sr_cli_group_output[] = {
     SR_OPT_HEADING("Output:"),
     {.type = SR_OPTION_CALL, .name = "format", .value = "text|csv|json", .call = take_format, .flags = SR_OPT_IN_CLI,
      .help = "output format (default text)"},
@@ -124,14 +125,14 @@ const sr_opt SR_GROUP_OUTPUT[] = {
     {.type = SR_OPTION_HELP, .short_name = 'h', .name = "help", .help = "this help"},
     SR_OPT_END};
 
-const sr_opt SR_GROUP_RUN[] = {
+const sr_opt sr_cli_group_run[] = {
     {.type = SR_OPTION_CALL, .name = "seed", .value = "N", .call = take_seed, .flags = SR_OPT_IN_CLI,
      .help = "seed of the random streams (default 1)"},
     {.type = SR_OPTION_CALL, .name = "threads", .value = "N", .call = take_threads, .flags = SR_OPT_IN_CLI,
      .help = "threads (default 0: all cores)"},
     SR_OPT_END};
 
-const sr_opt SR_GROUP_ATMOS[] = {
+const sr_opt sr_cli_group_atmos[] = {
     SR_OPT_HEADING("Atmosphere (default: U.S. Standard Atmosphere 1976):"),
     SR_OPT_STRING("temp-offset", "DT", sr_atmos_opts, temp_offset,
                   "hot or cold day: temperature + DT at standard pressure (\"15 C\")"),
@@ -145,7 +146,7 @@ const sr_opt SR_GROUP_ATMOS[] = {
                   "CSV sounding: altitude, temperature, pressure columns with units"),
     SR_OPT_END};
 
-const sr_opt SR_GROUP_CANOPY[] = {
+const sr_opt sr_cli_group_canopy[] = {
     SR_OPT_HEADING("Canopy:"),
     SR_OPT_STRING("family", "ID", sr_canopy_opts, family, "catalog family (sinkrate canopies lists them)"),
     SR_OPT_STRING("nominal-diameter", "D", sr_canopy_opts, nominal_diameter,
@@ -168,7 +169,7 @@ const sr_opt SR_GROUP_CANOPY[] = {
                   "canopy mass per nominal area (\"40 g/m2\"); its weight then counts"),
     SR_OPT_END};
 
-const sr_opt SR_GROUP_PAYLOAD[] = {
+const sr_opt sr_cli_group_payload[] = {
     SR_OPT_STRING("mass", "M", sr_payload_opts, mass, "payload mass, without the canopy (\"4.2 kg\", \"9 lb\")"),
     SR_OPT_STRING("altitude", "Z", sr_payload_opts, altitude,
                   "altitude above sea level (default: the ground, the site elevation or 0)"),
@@ -351,7 +352,7 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
 void sr_cli_mission_free(sr_mission *mis)
 {
     if (mis) {
-        sr_mission_free(mis);
+        sr_mission_release(mis);
         free(mis);
     }
 }
@@ -368,7 +369,7 @@ int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground)
         int rc = sr_cli_input(c, "--sounding", a->sounding);
         if (rc)
             return rc;
-        if (sr_atmos_load_sounding(m, a->sounding, &e))
+        if (sr_sounding_load(m, a->sounding, &e))
             return sr_cli_fail(c, "--sounding: %s", e.msg);
         double lo, hi;
         sr_atmos_range(m, &lo, &hi);

@@ -16,18 +16,18 @@
 /* ---- the shared option groups (cli/options.h), each declared once ---- */
 
 /* Output: --format, --units, -o, --table, --data, -h (into sr_cli). */
-extern const sr_opt SR_GROUP_OUTPUT[];
+extern const sr_opt sr_cli_group_output[];
 /* --seed, --threads of a Monte Carlo run (into sr_cli). */
-extern const sr_opt SR_GROUP_RUN[];
+extern const sr_opt sr_cli_group_run[];
 /* Atmosphere: --temp-offset, --site-elevation, --surface-temp,
  * --surface-pressure, --sounding (into sr_atmos_opts). */
-extern const sr_opt SR_GROUP_ATMOS[];
+extern const sr_opt sr_cli_group_atmos[];
 /* Canopy: --family, the sizes, the measured drag, --canopy, the cluster,
  * --areal-mass (into sr_canopy_opts). */
-extern const sr_opt SR_GROUP_CANOPY[];
+extern const sr_opt sr_cli_group_canopy[];
 /* The case: --mass, --altitude, --body-drag-area, --mission (into
  * sr_payload_opts); a command says with SR_OPT_FOR what each means there. */
-extern const sr_opt SR_GROUP_PAYLOAD[];
+extern const sr_opt sr_cli_group_payload[];
 
 typedef struct sr_payload_opts {
     const char *mass, *altitude, *body, *mission;

@@ -59,12 +59,12 @@ static size_t flatten(const sr_opt *top, const sr_opt *t, const sr_opt *group, s
     return n;
 }
 
-size_t sr_opt_flatten(const sr_opt *table, sr_opt_flat *out, size_t max)
+size_t sr_cli_opt_flatten(const sr_opt *table, sr_opt_flat *out, size_t max)
 {
     return table ? flatten(table, table, NULL, 0, out, 0, max) : 0;
 }
 
-const char *sr_opt_display(const sr_opt *o, char *buf, size_t len)
+const char *sr_cli_opt_display(const sr_opt *o, char *buf, size_t len)
 {
     if (o->short_name && (o->type != SR_OPTION_HELP || !o->name))
         snprintf(buf, len, "-%c", o->short_name);
@@ -115,7 +115,7 @@ int sr_cli_parse_options(sr_cli *c, int argc, char **argv, void *opts, int *firs
         free(names);
         return sr_cli_fail(c, "out of memory");
     }
-    size_t n = sr_opt_flatten(c->command->options, flat, SR_OPT_MAX), nl = 0;
+    size_t n = sr_cli_opt_flatten(c->command->options, flat, SR_OPT_MAX), nl = 0;
     /* a leading ':' makes a missing value ':' (not '?'), so it is named as such */
     char shorts[64] = ":";
     int short_of[128] = {0}; /* 1 + the index of a short option's row */
@@ -154,7 +154,7 @@ int sr_cli_parse_options(sr_cli *c, int argc, char **argv, void *opts, int *firs
                 rc = sr_cli_fail(c, "unknown option '-%c' (see --help)", optopt);
             } else if (optopt >= CODE_BASE) { /* a long option that takes no value, given one */
                 rc = sr_cli_fail(c, "%s takes no value (got '%s')",
-                                 sr_opt_display(flat[optopt - CODE_BASE].opt, name, sizeof name), bad);
+                                 sr_cli_opt_display(flat[optopt - CODE_BASE].opt, name, sizeof name), bad);
             } else {
                 snprintf(name, sizeof name, "%s", bad + (bad[0] == '-' ? (bad[1] == '-' ? 2 : 1) : 0));
                 char *eq = strchr(name, '=');
@@ -173,7 +173,7 @@ int sr_cli_parse_options(sr_cli *c, int argc, char **argv, void *opts, int *firs
                        : optopt > 0 && optopt < 128 && short_of[optopt] ? (size_t)(short_of[optopt] - 1)
                                                                       : n;
             if (i < n)
-                rc = sr_cli_fail(c, "%s needs a value (see --help)", sr_opt_display(flat[i].opt, name, sizeof name));
+                rc = sr_cli_fail(c, "%s needs a value (see --help)", sr_cli_opt_display(flat[i].opt, name, sizeof name));
             else
                 rc = sr_cli_fail(c, "an option needs a value (see --help)");
             break;
@@ -187,7 +187,7 @@ int sr_cli_parse_options(sr_cli *c, int argc, char **argv, void *opts, int *firs
             for (size_t k = 0; k < nseen && !rc; k++)
                 if (seen[k].i == i)
                     rc = sr_cli_fail(c, "%s: given twice ('%s', then '%s'); give it once",
-                                     sr_opt_display(flat[i].opt, name, sizeof name), seen[k].arg, optarg);
+                                     sr_cli_opt_display(flat[i].opt, name, sizeof name), seen[k].arg, optarg);
             if (rc)
                 break;
             if (nseen < sizeof seen / sizeof seen[0]) {
@@ -382,7 +382,7 @@ void sr_cli_print_help(sr_cli *c)
     print_entries(f, &buf, &len, cmd->options, cmd->options, 0);
     /* the tables --table can pick */
     sr_opt_flat *flat = malloc(SR_OPT_MAX * sizeof *flat);
-    size_t n = flat ? sr_opt_flatten(cmd->options, flat, SR_OPT_MAX) : 0;
+    size_t n = flat ? sr_cli_opt_flatten(cmd->options, flat, SR_OPT_MAX) : 0;
     int has_table = 0;
     for (size_t i = 0; i < n; i++)
         has_table |= flat[i].opt->name && strcmp(flat[i].opt->name, "table") == 0;

@@ -122,11 +122,11 @@ typedef struct sr_opt_flat {
 #define SR_OPT_MAX 128
 
 /* The options of a table in order; returns how many (at most max). */
-size_t sr_opt_flatten(const sr_opt *table, sr_opt_flat *out, size_t max);
+size_t sr_cli_opt_flatten(const sr_opt *table, sr_opt_flat *out, size_t max);
 
 /* How messages name an option: "-o" for one with a short name (but
  * "--help"), else "--name". */
-const char *sr_opt_display(const sr_opt *o, char *buf, size_t len);
+const char *sr_cli_opt_display(const sr_opt *o, char *buf, size_t len);
 
 /* Read the options of c->command into opts (the command's struct, zeroed
  * by the caller). Returns 0 to go on, -1 when help was printed (exit 0), or

@@ -12,7 +12,7 @@
 
 const char *const *sr_cli_tables(const char *cmd)
 {
-    for (const sr_command *const *c = sr_commands; cmd && *c; c++)
+    for (const sr_command *const *c = sr_cli_commands; cmd && *c; c++)
         if (strcmp((*c)->name, cmd) == 0)
             return (*c)->tables;
     return NULL;

@@ -105,4 +105,8 @@ int sr_yaml_require_seq(const sr_yaml *y, yaml_node_t *n, const char *what, size
  * edit distance, or NULL. */
 const char *sr_yaml_suggest(const char *word, const char *const *candidates);
 
+/* A file name given inside the document at doc_path, taken relative to that
+ * document's directory (an absolute name stays as it is). */
+void sr_yaml_relative_path(char *out, size_t len, const char *doc_path, const char *file);
+
 #endif

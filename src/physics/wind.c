@@ -8,7 +8,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "files/csvtable.h"
 
 #define PI 3.14159265358979323846
 
@@ -161,7 +160,29 @@ int sr_wind_check_extrapolation(const sr_wind *w, double top, sr_unit_system sys
     return 1;
 }
 
-void sr_wind_free(sr_wind *w)
+int sr_wind_copy(sr_wind *dst, const sr_wind *src, sr_error *err)
+{
+    sr_wind_release(dst);
+    *dst = *src;
+    dst->h = dst->east = dst->north = NULL;
+    if (src->kind != SR_WIND_TABLE)
+        return SR_OK;
+    size_t b = src->n * sizeof(double);
+    dst->h = malloc(b);
+    dst->east = malloc(b);
+    dst->north = malloc(b);
+    if (!dst->h || !dst->east || !dst->north) {
+        sr_wind_release(dst);
+        sr_wind_init_calm(dst);
+        return sr_error_set(err, SR_ENOMEM, "out of memory for a copy of the wind table");
+    }
+    memcpy(dst->h, src->h, b);
+    memcpy(dst->east, src->east, b);
+    memcpy(dst->north, src->north, b);
+    return SR_OK;
+}
+
+void sr_wind_release(sr_wind *w)
 {
     if (!w)
         return;
@@ -172,8 +193,7 @@ void sr_wind_free(sr_wind *w)
     w->n = 0;
 }
 
-/* Row checks shared by the table readers; *bad receives the failing row. */
-static int table_rows(sr_wind *w, const double *h, const double *speed, const double *from, size_t n, size_t *bad,
+int sr_wind_init_table_rows(sr_wind *w, const double *h, const double *speed, const double *from, size_t n, size_t *bad,
                       sr_error *err)
 {
     sr_wind_init_calm(w);
@@ -198,7 +218,7 @@ static int table_rows(sr_wind *w, const double *h, const double *speed, const do
     w->east = malloc(n * sizeof *w->east);
     w->north = malloc(n * sizeof *w->north);
     if (!w->h || !w->east || !w->north) {
-        sr_wind_free(w);
+        sr_wind_release(w);
         return sr_error_set(err, SR_ENOMEM, "out of memory for the wind table");
     }
     for (size_t i = 0; i < n; i++) {
@@ -214,74 +234,9 @@ int sr_wind_init_table(sr_wind *w, const double *h, const double *speed, const d
                        sr_error *err)
 {
     size_t bad;
-    int rc = table_rows(w, h, speed, from, n, &bad, err);
+    int rc = sr_wind_init_table_rows(w, h, speed, from, n, &bad, err);
     if (rc && bad != (size_t)-1)
         sr_error_prefix(err, "wind row %zu: ", bad + 1);
-    return rc;
-}
-
-/* Shared by the table and sounding readers: heights are alt - ground. */
-static int table_from_csv(sr_wind *w, const char *path, const sr_csvtable *t, const double *alt, double ground,
-                          size_t cs, size_t cf, sr_error *err)
-{
-    double *h = malloc((t->nrows ? t->nrows : 1) * sizeof *h);
-    if (!h)
-        return sr_error_set(err, SR_ENOMEM, "out of memory for the wind table");
-    for (size_t i = 0; i < t->nrows; i++)
-        h[i] = alt[i] - ground;
-    size_t bad;
-    int rc = table_rows(w, h, t->col[cs], t->col[cf], t->nrows, &bad, err);
-    free(h);
-    if (rc) {
-        sr_error_locate(err, path, bad != (size_t)-1 ? t->row_line[bad] : 0, 1);
-        return rc;
-    }
-    snprintf(w->source, sizeof w->source, "%s", path);
-    return SR_OK;
-}
-
-int sr_wind_load_table(sr_wind *w, const char *path, double ground, sr_error *err)
-{
-    static const sr_csv_column COLS[] = {
-        {"height", SR_Q_LENGTH, 0},
-        {"altitude", SR_Q_LENGTH, 0},
-        {"speed", SR_Q_SPEED, 1},
-        {"from", SR_Q_ANGLE, 1},
-    };
-    sr_wind_init_calm(w);
-    sr_csvtable t;
-    int rc = sr_csvtable_load(&t, path, COLS, sizeof COLS / sizeof COLS[0], err);
-    if (rc)
-        return rc;
-    if ((t.col[0] != NULL) == (t.col[1] != NULL)) {
-        sr_csvtable_free(&t);
-        return sr_error_set_at(err, SR_EINVAL, path, 1, 1,
-                               "a wind table needs exactly one of the columns 'height' (above ground) or "
-                               "'altitude' (above sea level)");
-    }
-    rc = table_from_csv(w, path, &t, t.col[0] ? t.col[0] : t.col[1], t.col[0] ? 0.0 : ground, 2, 3, err);
-    sr_csvtable_free(&t);
-    return rc;
-}
-
-int sr_wind_load_sounding(sr_wind *w, const char *path, double ground, sr_error *err)
-{
-    /* the sounding's own columns, as the atmosphere reads them */
-    static const sr_csv_column COLS[] = {
-        {"altitude", SR_Q_LENGTH, 1},  {"temperature", SR_Q_TEMP, 1}, {"pressure", SR_Q_PRESSURE, 1},
-        {"wind-speed", SR_Q_SPEED, 0}, {"wind-from", SR_Q_ANGLE, 0},
-    };
-    sr_wind_init_calm(w);
-    sr_csvtable t;
-    int rc = sr_csvtable_load(&t, path, COLS, sizeof COLS / sizeof COLS[0], err);
-    if (rc)
-        return rc;
-    if (!t.col[3] || !t.col[4]) {
-        sr_csvtable_free(&t);
-        return sr_error_set_at(err, SR_EINVAL, path, 1, 1, "the sounding has no 'wind-speed' and 'wind-from' columns");
-    }
-    rc = table_from_csv(w, path, &t, t.col[0], ground, 3, 4, err);
-    sr_csvtable_free(&t);
     return rc;
 }
 
@@ -351,44 +306,135 @@ const double *sr_wind_knots(const sr_wind *w, size_t *n)
     return NULL;
 }
 
-void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t len)
+/* The library's own numbers: three significant figures in the chosen units. */
+static void plain_value(char *buf, size_t len, double si, sr_quantity q, int sig, void *ctx)
 {
+    sr_unit_system sys = *(const sr_unit_system *)ctx;
+    (void)sig;
+    const char *u = sr_units_label(q, sys);
+    snprintf(buf, len, "%.3g%s%s", sr_units_from_si(si, q, sys), u[0] ? " " : "", u);
+}
+
+void sr_wind_describe_fmt(const sr_wind *w, sr_wind_value_fn value, void *ctx, char *buf, size_t len)
+{
+    char v[64], h[64], v2[64], h2[64];
     double deg = sr_units_bearing_deg(w->from, 0);
-    const char *uv = sr_units_label(SR_Q_SPEED, sys), *ul = sr_units_label(SR_Q_LENGTH, sys);
-#define SPD(x) sr_units_from_si((x), SR_Q_SPEED, sys)
-#define LEN(x) sr_units_from_si((x), SR_Q_LENGTH, sys)
     switch (w->kind) {
     case SR_WIND_CALM:
         snprintf(buf, len, "calm");
-        break;
+        return;
     case SR_WIND_CONSTANT:
-        snprintf(buf, len, "constant: %.1f %s from %.0f deg at every height", SPD(w->speed), uv, deg);
-        break;
+        value(v, sizeof v, w->speed, SR_Q_SPEED, 3, ctx);
+        snprintf(buf, len, "constant, %s from %.0f deg at every height", v, deg);
+        return;
     case SR_WIND_POWER:
-        snprintf(buf, len, "power law: %.1f %s from %.0f deg at %.0f %s above ground, exponent %.3f", SPD(w->speed),
-                 uv, deg, LEN(w->h_ref), ul, w->alpha);
-        break;
     case SR_WIND_LOG:
-        snprintf(buf, len,
-                 "log law: %.1f %s from %.0f deg at %.0f %s above ground, roughness length %.3g %s, displacement "
-                 "%.3g %s",
-                 SPD(w->speed), uv, deg, LEN(w->h_ref), ul, LEN(w->z0), ul, LEN(w->d), ul);
-        break;
+        value(v, sizeof v, w->speed, SR_Q_SPEED, 3, ctx);
+        value(h, sizeof h, w->h_ref, SR_Q_LENGTH, 3, ctx);
+        if (w->kind == SR_WIND_POWER) {
+            snprintf(buf, len, "power law, %s from %.0f deg at %s above ground, exponent %.3f", v, deg, h, w->alpha);
+        } else {
+            value(v2, sizeof v2, w->z0, SR_Q_LENGTH, 3, ctx);
+            value(h2, sizeof h2, w->d, SR_Q_LENGTH, 3, ctx);
+            snprintf(buf, len, "log law, %s from %.0f deg at %s above ground, roughness length %s, displacement %s", v,
+                     deg, h, v2, h2);
+        }
+        if (w->h_grad > 0.0) {
+            size_t l = strlen(buf);
+            value(h, sizeof h, w->h_grad, SR_Q_LENGTH, 3, ctx);
+            snprintf(buf + l, len > l ? len - l : 0, "; held constant above %s (gradient height)", h);
+        }
+        return;
     case SR_WIND_TABLE: {
         double s0, f0, s1, f1;
         sr_wind_polar(w->east[0], w->north[0], &s0, &f0);
         sr_wind_polar(w->east[w->n - 1], w->north[w->n - 1], &s1, &f1);
-        snprintf(buf, len, "table%s%s: %zu rows, %.1f %s from %.0f deg at %.0f %s to %.1f %s from %.0f deg at %.0f %s "
-                 "above ground",
-                 w->source[0] ? " " : "", w->source, w->n, SPD(s0), uv, sr_units_bearing_deg(f0, 0), LEN(w->h[0]), ul,
-                 SPD(s1), uv, sr_units_bearing_deg(f1, 0), LEN(w->h[w->n - 1]), ul);
-        break;
+        value(v, sizeof v, s0, SR_Q_SPEED, 3, ctx);
+        value(h, sizeof h, w->h[0], SR_Q_LENGTH, 0, ctx);
+        value(v2, sizeof v2, s1, SR_Q_SPEED, 3, ctx);
+        value(h2, sizeof h2, w->h[w->n - 1], SR_Q_LENGTH, 0, ctx);
+        snprintf(buf, len, "table%s%s, %zu rows: %s from %.0f deg at %s to %s from %.0f deg at %s above ground",
+                 w->source[0] ? " " : "", w->source, w->n, v, sr_units_bearing_deg(f0, 0), h, v2,
+                 sr_units_bearing_deg(f1, 0), h2);
+        return;
     }
     }
-    if (is_law(w) && w->h_grad > 0.0) {
-        size_t l = strlen(buf);
-        snprintf(buf + l, len > l ? len - l : 0, "; held constant above %.0f %s (gradient height)", LEN(w->h_grad), ul);
+}
+
+void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t len)
+{
+    sr_wind_describe_fmt(w, plain_value, &sys, buf, len);
+}
+
+/* ---- a program's handles (include/sinkrate/physics.h) ---- */
+
+/* The model built in tmp moves into a new handle, or is released. */
+static int wind_handle(sr_wind **out, sr_wind *tmp, int rc, sr_error *err)
+{
+    sr_error_gsl_off();
+    *out = NULL;
+    if (rc) {
+        sr_wind_release(tmp);
+        return rc;
     }
-#undef SPD
-#undef LEN
+    sr_wind *w = malloc(sizeof *w);
+    if (!w) {
+        sr_wind_release(tmp);
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    }
+    *w = *tmp;
+    *out = w;
+    return SR_OK;
+}
+
+int sr_wind_new_calm(sr_wind **out, sr_error *err)
+{
+    sr_wind t;
+    sr_wind_init_calm(&t);
+    return wind_handle(out, &t, SR_OK, err);
+}
+
+int sr_wind_new_constant(sr_wind **out, double speed, double from, sr_error *err)
+{
+    sr_wind t;
+    int rc = sr_wind_init_constant(&t, speed, from, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+int sr_wind_new_power(sr_wind **out, double speed_ref, double from, double h_ref, double alpha, sr_error *err)
+{
+    sr_wind t;
+    int rc = sr_wind_init_power(&t, speed_ref, from, h_ref, alpha, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+int sr_wind_new_log(sr_wind **out, double speed_ref, double from, double h_ref, double z0, double d, sr_error *err)
+{
+    sr_wind t;
+    int rc = sr_wind_init_log(&t, speed_ref, from, h_ref, z0, d, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+int sr_wind_new_table(sr_wind **out, const double *h, const double *speed, const double *from, size_t n,
+                      sr_error *err)
+{
+    sr_wind t;
+    int rc = sr_wind_init_table(&t, h, speed, from, n, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+int sr_wind_dup(sr_wind **out, const sr_wind *src, sr_error *err)
+{
+    sr_wind t;
+    sr_wind_init_calm(&t);
+    int rc = sr_wind_copy(&t, src, err);
+    return wind_handle(out, &t, rc, err);
+}
+
+void sr_wind_free(sr_wind *w)
+{
+    if (!w)
+        return;
+    sr_wind_release(w);
+    free(w);
 }
