@@ -33,6 +33,7 @@ static const command COMMANDS[] = {
     {"canopies", sr_cmd_canopies, "list the canopy catalog, or show one family with its sources"},
     {"check", sr_cmd_check, "validate canopy, canopy-family and mission files"},
     {"fit", sr_cmd_fit, "drag area of each canopy from flight logs, with an interval, into a canopy file"},
+    {"design", sr_cmd_design, "search the lightest design of a mission that meets every limit at the band end"},
 };
 
 #define NCOMMANDS (sizeof COMMANDS / sizeof COMMANDS[0])

@@ -19,5 +19,6 @@ int sr_cmd_air(sr_cli *c, int argc, char **argv);
 int sr_cmd_canopies(sr_cli *c, int argc, char **argv);
 int sr_cmd_check(sr_cli *c, int argc, char **argv);
 int sr_cmd_fit(sr_cli *c, int argc, char **argv);
+int sr_cmd_design(sr_cli *c, int argc, char **argv);
 
 #endif

@@ -26,6 +26,7 @@ static const cmd_tables TABLES[] = {
     {"canopies", {"values", "families", NULL}},
     {"check", {"values", "files", NULL}},
     {"fit", {"values", "segments", "windows", "drag", "rates", "opening", "wind", "pooled", NULL}},
+    {"design", {"values", "designs", "margins", "limits", "packing", "misses", "pareto", "risk", NULL}},
 };
 
 const char *const *sr_cli_tables(const char *cmd)

@@ -9,7 +9,7 @@
 #define PI 3.14159265358979323846
 
 static const char *const TOP_KEYS[] = {"mission", "description", "site",          "sections",    "stages",
-                                       "start",   "limits",      "failure-cases", "uncertainty", NULL};
+                                       "start",   "limits",      "failure-cases", "uncertainty", "design", NULL};
 static const char *const TOP_REQ[] = {"mission", "sections", "stages", NULL};
 static const char *const SITE_KEYS[] = {"elevation", "temperature", "pressure", "sounding", "wind", "latitude",
                                         "longitude", NULL};
@@ -819,18 +819,50 @@ int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error 
     yaml_node_t *fc = sr_yaml_get(y, root, "failure-cases");
     if (fc && (rc = parse_failures(m, y, fc, err)))
         return rc;
-    return sr_mission_parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err);
+    if ((rc = sr_mission_parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err)))
+        return rc;
+    return sr_mission_parse_design(m, y, sr_yaml_get(y, root, "design"), cat, err);
 }
 
-int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err)
+static void mission_init(sr_mission *m, const char *path)
 {
     memset(m, 0, sizeof *m);
     sr_atmos_init_standard(&m->atmos);
     sr_wind_init_calm(&m->wind);
     m->limit_speed = m->limit_energy = m->limit_time = m->limit_drift = m->limit_deploy_q = NAN;
+    sr_design_spec_init(&m->design);
     snprintf(m->path, sizeof m->path, "%s", path);
+}
+
+int sr_mission_load_doc(sr_mission *m, const char *path, const sr_catalog *cat, sr_yaml *y, sr_error *err)
+{
+    mission_init(m, path);
+    int rc = sr_yaml_load_file(y, path, err);
+    if (rc)
+        return rc;
+    rc = sr_mission_parse(m, y, cat, err);
+    if (rc) {
+        sr_yaml_free(y);
+        sr_mission_free(m);
+    }
+    return rc;
+}
+
+int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err)
+{
     sr_yaml y;
-    int rc = sr_yaml_load_file(&y, path, err);
+    int rc = sr_mission_load_doc(m, path, cat, &y, err);
+    if (!rc)
+        sr_yaml_free(&y);
+    return rc;
+}
+
+int sr_mission_load_text(sr_mission *m, const char *path, const char *text, size_t len, const sr_catalog *cat,
+                         sr_error *err)
+{
+    mission_init(m, path);
+    sr_yaml y;
+    int rc = sr_yaml_load_string(&y, path, text, len, err);
     if (rc)
         return rc;
     rc = sr_mission_parse(m, &y, cat, err);

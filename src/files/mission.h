@@ -14,6 +14,7 @@
 #include "base/error.h"
 #include "physics/wind.h"
 #include "analysis/uncertainty.h"
+#include "files/mission_design.h"
 
 #define SR_MISSION_MAX_SECTIONS 8
 #define SR_MISSION_MAX_STAGES 6
@@ -107,11 +108,19 @@ typedef struct sr_mission {
     size_t nfailures;        /* failure-cases: */
     sr_failure_case failures[SR_MISSION_MAX_FAILURES];
     sr_uncertainty unc;      /* what a dispersion run varies (mission_uncertainty.c) */
+    sr_design_spec design;   /* what the design search varies (`design:`, mission_design.c) */
 } sr_mission;
 
 /* Load and validate; relative file names inside (sounding, canopy files) are
  * taken relative to the mission file. Release with sr_mission_free. */
 int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err);
+/* The same, keeping the YAML document in *y for the caller (who frees it with
+ * sr_yaml_free; on failure nothing is kept). */
+int sr_mission_load_doc(sr_mission *m, const char *path, const sr_catalog *cat, sr_yaml *y, sr_error *err);
+/* A mission from text, as if read from the file `path` (its messages name it
+ * and relative file names inside are taken relative to it). */
+int sr_mission_load_text(sr_mission *m, const char *path, const char *text, size_t len, const sr_catalog *cat,
+                         sr_error *err);
 int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err);
 void sr_mission_free(sr_mission *m);
 
