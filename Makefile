@@ -7,6 +7,8 @@ DESTDIR ?=
 BINDIR   = $(PREFIX)/bin
 DATADIR  = $(PREFIX)/share/sinkrate
 MANDIR   = $(PREFIX)/share/man/man1
+DOCDIR   = $(PREFIX)/share/doc/sinkrate
+BASHCOMPDIR = $(PREFIX)/share/bash-completion/completions
 
 CC      ?= cc
 CSTD     = -std=c11 -D_POSIX_C_SOURCE=200809L
@@ -40,7 +42,7 @@ TESTS    := $(TEST_SRC:tests/%.c=$(B)/tests/%)
 DEPS_OK  := $(B)/.deps-ok
 
 .SECONDARY:
-.PHONY: all deps check unit reference demo bench install uninstall clean plots validation validation-selftest \
+.PHONY: all deps check unit reference figures readme readme-check demo bench install uninstall clean plots validation validation-selftest \
         validation-doc sanitize valgrind fuzz fuzz-build fuzz-regress
 all: $(B)/sinkrate
 
@@ -93,6 +95,20 @@ reference: $(B)/sinkrate
 	    SR_VALIDATION_LOG=$(CURDIR)/$(B)/validation.tsv $(PYTHON) $$r $(CURDIR)/$(B)/sinkrate || fail=1; \
 	done; exit $$fail
 
+# Every README figure drawn again and checked from its .dat and .gp: no
+# legend or label box over data, no marker line on the frame, every legend
+# entry visible, no SI unit on a figure under --units us (tests/figures.py).
+figures: $(B)/sinkrate
+	@PYTHONDONTWRITEBYTECODE=1 SINKRATE_DATA=$(CURDIR) $(PYTHON) tests/figures.py $(B)/sinkrate
+
+# The README's console examples run for real and compared with its text
+# (scripts/readme_examples.py); `make readme` writes the real outputs into
+# README.md after an output changed (review git diff README.md).
+readme-check: $(B)/sinkrate
+	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) scripts/readme_examples.py $(B)/sinkrate
+readme: $(B)/sinkrate
+	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) scripts/readme_examples.py $(B)/sinkrate --update
+
 # The generator of docs/validation.md refuses crafted bad logs (its self-test).
 validation-selftest:
 	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) tests/ref/selftest_validation.py $(PYTHON) scripts/validation.py
@@ -109,7 +125,8 @@ validation-doc: $(B)/sinkrate
 	@sed -n 's/^\*\*\(.*\)\*\*$$/docs\/validation.md: \1/p' docs/validation.md | head -1
 
 # check = the Makefile's own order (pkg-config read only after the deps step,
-# scripts/makefile-order.sh), the suite, the reference libraries, the suite and
+# scripts/makefile-order.sh), the suite, the reference libraries, the README's
+# figures and console examples, the suite and
 # fuzz regressions under ASan+UBSan, the CLI examples under valgrind, then
 # docs/validation.md.
 # The deps step runs in its own make first, so the build after it reads the
@@ -119,6 +136,7 @@ check:
 	@$(MAKE) --no-print-directory deps
 	@$(MAKE) --no-print-directory unit
 	@$(MAKE) --no-print-directory reference
+	@$(MAKE) --no-print-directory figures readme-check
 	@$(MAKE) --no-print-directory sanitize valgrind validation-selftest
 	@$(MAKE) --no-print-directory validation-doc
 
@@ -184,16 +202,23 @@ $(B)/bench: bench/bench.c $(B)/libsinkrate-cli.a $(B)/libsinkrate.a
 bench: $(B)/bench $(B)/sinkrate
 	@SINKRATE_DATA=$(CURDIR) $(B)/bench $(B)/sinkrate
 
-install: $(B)/sinkrate
-	install -d $(DESTDIR)$(BINDIR) $(DESTDIR)$(DATADIR)/canopies $(DESTDIR)$(DATADIR)/plots $(DESTDIR)$(MANDIR)
+# The bash completion, written by the program from its own command and option tables.
+$(B)/sinkrate.bash: $(B)/sinkrate
+	@$(B)/sinkrate --completion bash > $@.tmp && mv $@.tmp $@
+
+install: $(B)/sinkrate $(B)/sinkrate.bash
+	install -d $(DESTDIR)$(BINDIR) $(DESTDIR)$(DATADIR)/canopies $(DESTDIR)$(DATADIR)/plots $(DESTDIR)$(MANDIR) \
+	  $(DESTDIR)$(DOCDIR) $(DESTDIR)$(BASHCOMPDIR)
 	install -m 755 $(B)/sinkrate $(DESTDIR)$(BINDIR)/sinkrate
 	install -m 644 canopies/*.yaml $(DESTDIR)$(DATADIR)/canopies/
 	install -m 644 plots/*.gp $(DESTDIR)$(DATADIR)/plots/ 2>/dev/null || true
 	install -m 644 docs/sinkrate.1 $(DESTDIR)$(MANDIR)/sinkrate.1
+	install -m 644 docs/files.md $(DESTDIR)$(DOCDIR)/files.md
+	install -m 644 $(B)/sinkrate.bash $(DESTDIR)$(BASHCOMPDIR)/sinkrate
 
 uninstall:
-	rm -f $(DESTDIR)$(BINDIR)/sinkrate $(DESTDIR)$(MANDIR)/sinkrate.1
-	rm -rf $(DESTDIR)$(DATADIR)
+	rm -f $(DESTDIR)$(BINDIR)/sinkrate $(DESTDIR)$(MANDIR)/sinkrate.1 $(DESTDIR)$(BASHCOMPDIR)/sinkrate
+	rm -rf $(DESTDIR)$(DATADIR) $(DESTDIR)$(DOCDIR)
 
 clean:
 	rm -rf $(B) build-*

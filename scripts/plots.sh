@@ -1,18 +1,20 @@
 #!/bin/sh
 # plots.sh - the README's figures from the invented demo scenario, made by
-# `sinkrate sweep --plot` and rendered by gnuplot: scripts and data go to
-# build/plots/, the PNGs to plots/.
+# `sinkrate sweep --plot` and the other commands and rendered by gnuplot:
+# scripts and data go to OUT (build/plots/), the PNGs to IMG (plots/).
+# usage: plots.sh [SINKRATE [OUT [IMG]]]   (tests/figures.py renders them all in a temporary directory)
 set -eu
 bin=${1:-build/sinkrate}
 mission=payloads/desert-club-rocket.yaml
-out=build/plots
-mkdir -p "$out" plots
+out=${2:-build/plots}
+img=${3:-plots}
+mkdir -p "$out" "$img"
 command -v gnuplot >/dev/null 2>&1 || { echo "plots: gnuplot is not on PATH (Debian: gnuplot-nox)"; exit 1; }
 
 fig() {
   name=$1; shift
   "$bin" sweep --mission "$mission" --plot "$out/$name" "$@" > "$out/$name.txt"
-  cp "$out/$name.png" "plots/$name.png"
+  cp "$out/$name.png" "$img/$name.png"
 }
 
 # drogue and main of the demo rocket over its descent, touchdown limit and main deployment marked
@@ -36,19 +38,20 @@ other() {
 }
 # the revised demo flown down: height, rates and airspeed over time; the ground track
 other profile profile payloads/desert-club-rocket-revised.yaml
-cp "$out/profile.png" plots/profile.png
-cp "$out/profile-track.png" plots/profile-track.png
+cp "$out/profile.png" "$img"/profile.png
+cp "$out/profile-track.png" "$img"/profile-track.png
 # the landing scatter of the original demo under its uncertainty block
 other scatter dispersion "$mission" -n 100000 --seed 1
-cp "$out/scatter.png" plots/scatter.png
+cp "$out/scatter.png" "$img"/scatter.png
 # opening load of the demo main, the ODE force against time and the closed-form peaks
 other loads loads --mission payloads/desert-club-rocket-revised.yaml --stage main
-cp "$out/loads-main.png" plots/loads-main.png 2>/dev/null || cp "$out/loads.png" plots/loads-main.png
+cp "$out/loads-main.png" "$img"/loads-main.png 2>/dev/null || cp "$out/loads.png" "$img"/loads-main.png
 # a 1 kg, 0.2 m cylinder through the drag crisis: three equilibria
 other freefall freefall --body cylinder --diameter 0.2m --length 1m --mass 9kg --altitude 0,5km,10km
-cp "$out/freefall.png" plots/freefall.png
-echo "plots: wrote $(ls plots/*.png | tr '\n' ' ')"
+cp "$out/freefall.png" "$img"/freefall.png
+
 # the invented demo flight log fitted: the fit over time with residuals, the drag area over height
 other fit fit payloads/demo-flight.csv --mission payloads/desert-club-rocket.yaml --pressure-altitude
-cp "$out/fit.png" plots/fit.png
-cp "$out/fit-drag.png" plots/fit-drag.png
+cp "$out/fit.png" "$img"/fit.png
+cp "$out/fit-drag.png" "$img"/fit-drag.png
+echo "plots: wrote $(ls "$img"/*.png | tr '\n' ' ')"

@@ -12,6 +12,8 @@ M="$root/payloads/desert-club-rocket.yaml"
 printf 'mission: x\nsections: [\n' > "$tmp/bad.yaml"
 printf 'altitude [m],temperature [C],pressure [hPa]\n0,15,1013.25\n1000,8.5,898.7\n3000,-4.5,701.1\n' > "$tmp/sounding.csv"
 printf 'Re,Cd\n1e3,0.47\n1e2,0.40\n' > "$tmp/bad-drag.csv"
+printf 'mission: x\nsite:\n\televation: 10 m\n\ttemperature: 3 C\n' > "$tmp/tabs.yaml"
+mkdir "$tmp/mine" && sed 's/^name: .*/name: "Conical, mine"/' "$root/canopies/conical.yaml" > "$tmp/mine/conical.yaml"
 printf 'mission: x\nsite: {elevation: &e 100 m}\nsections:\n  - {name: a, mass: *e}\n' > "$tmp/alias.yaml"
 printf 'mission: "x\\e[31m"\nsections: []\n' > "$tmp/escape.yaml"
 ln -s "$tmp/target.txt" "$tmp/dangling.txt"
@@ -49,6 +51,11 @@ done <<EOF_LIST
 0 canopies cross
 0 canopies --models --format json
 0 check "$M" "$root/canopies/conical.yaml"
+2 check "$root/payloads/four-mistakes.yaml" "$tmp/sounding.csv" "$tmp/bad-drag.csv" "$root/payloads/demo-flight.csv" "$root/payloads/balloon-winds.csv"
+2 check "$tmp/tabs.yaml"
+0 --completion bash
+0 canopies --data "$tmp/mine" --data "$root" --format csv
+0 rate --mass 2kg --family conical --nominal-diameter 1.5m --data "$tmp/mine"
 0 sweep --mass 2kg --family conical --nominal-diameter 1.5m --from 0 --to 3km --step 1km --by temp-offset=-20C,25C --plot "$tmp/sweep"
 1 profile "$M" --plot "$tmp/profile"
 0 loads --mission "$M" --plot "$tmp/loads"

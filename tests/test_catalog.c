@@ -183,6 +183,117 @@ static void test_only_regular_files(void **state)
     rmdir(d);
 }
 
+/* A file of the built-in catalog with its id and name changed (the rest as shipped). */
+static void write_variant(const char *path, const char *from_id, const char *id, const char *name)
+{
+    FILE *in = fopen(sr_test_path("canopies/conical.yaml"), "r"), *out = fopen(path, "w");
+    assert_non_null(in);
+    assert_non_null(out);
+    char line[1024];
+    (void)from_id;
+    while (fgets(line, sizeof line, in)) {
+        if (strncmp(line, "id:", 3) == 0)
+            fprintf(out, "id: %s\n", id);
+        else if (strncmp(line, "name:", 5) == 0)
+            fprintf(out, "name: \"%s\"\n", name);
+        else
+            fputs(line, out);
+    }
+    fclose(in);
+    fclose(out);
+}
+
+/* User directories go in front of the built-in catalog: a new family is
+ * added, one with a built-in id replaces it and the output says so, the
+ * first --data wins over a later one and over $SINKRATE_PATH, and
+ * `canopies` lists where each family came from (the issue: after adding one
+ * family, --family cross was unknown). */
+static void test_user_catalog_in_front(void **state)
+{
+    (void)state;
+    char a[] = "/tmp/sinkrate-user-a-XXXXXX", b[] = "/tmp/sinkrate-user-b-XXXXXX";
+    assert_non_null(mkdtemp(a));
+    assert_non_null(mkdtemp(b));
+    char p1[300], p2[300], p3[300], sub[300];
+    snprintf(p1, sizeof p1, "%s/my-cone.yaml", a);
+    write_variant(p1, "conical", "my-cone", "Our cone");
+    snprintf(p2, sizeof p2, "%s/conical.yaml", a);
+    write_variant(p2, "conical", "conical", "Conical, first directory");
+    snprintf(sub, sizeof sub, "%s/canopies", b); /* the other layout: DIR/canopies/ */
+    assert_int_equal(mkdir(sub, 0755), 0);
+    snprintf(p3, sizeof p3, "%s/conical.yaml", sub);
+    write_variant(p3, "conical", "conical", "Conical, second directory");
+
+    /* the library: the built-in catalog, then a directory in front */
+    sr_catalog *c = load();
+    size_t n0 = c->n;
+    sr_error e;
+    assert_int_equal(sr_catalog_add(c, sub, "--data b", &e), SR_OK);
+    assert_int_equal(sr_catalog_add(c, a, "--data a", &e), SR_OK);
+    assert_int_equal(c->n, n0 + 1);
+    const sr_family *f = sr_catalog_find(c, "conical", &e);
+    assert_non_null(f);
+    assert_string_equal(f->name, "Conical, first directory");
+    size_t k = (size_t)(f - c->fam);
+    assert_string_equal(c->origin[k].from, "--data a");
+    assert_string_equal(c->origin[k].replaces, p3);
+    assert_non_null(sr_catalog_find(c, "cross", &e));
+    assert_non_null(sr_catalog_find(c, "my-cone", &e));
+    /* the built-in directory again adds nothing */
+    assert_int_equal(sr_catalog_add(c, sr_test_path("canopies"), "--data .", &e), SR_OK);
+    assert_int_equal(c->n, n0 + 1);
+    free(c);
+
+    /* the command line: --data twice, the first wins; cross is still known */
+    char *out, *err;
+    int rc = sr_test_cli(&out, &err, "rate", "--family", "conical", "--nominal-diameter", "2m", "--mass", "5kg",
+                         "--data", a, "--data", b, NULL);
+    assert_int_equal(rc, 0);
+    assert_non_null(strstr(out, "Conical, first directory"));
+    assert_non_null(strstr(out, "family 'conical' is yours"));
+    assert_non_null(strstr(out, "it replaces the one in"));
+    free(out);
+    free(err);
+    rc = sr_test_cli(&out, &err, "rate", "--family", "cross", "--nominal-diameter", "1m", "--mass", "2kg", "--data", a,
+                     NULL);
+    assert_int_equal(rc, 0);
+    free(out);
+    free(err);
+    /* $SINKRATE_PATH comes after --data, before the built-in catalog */
+    setenv("SINKRATE_PATH", b, 1);
+    rc = sr_test_cli(&out, &err, "canopies", "--format", "csv", NULL);
+    assert_int_equal(rc, 0);
+    assert_non_null(strstr(out, "Conical, second directory"));
+    assert_non_null(strstr(out, "SINKRATE_PATH"));
+    assert_non_null(strstr(out, "replaces built-in"));
+    free(out);
+    free(err);
+    rc = sr_test_cli(&out, &err, "canopies", "--data", a, "--format", "json", NULL);
+    assert_int_equal(rc, 0);
+    assert_non_null(strstr(out, "Conical, first directory"));
+    assert_non_null(strstr(out, "\"built-in\""));
+    free(out);
+    free(err);
+    rc = sr_test_cli(&out, &err, "canopies", "conical", "--data", a, NULL);
+    assert_int_equal(rc, 0);
+    assert_non_null(strstr(out, "--data"));
+    free(out);
+    free(err);
+    unsetenv("SINKRATE_PATH");
+    /* a directory of nothing is an error naming it */
+    rc = sr_test_cli(&out, &err, "canopies", "--data", "/nonexistent-dir", NULL);
+    assert_int_equal(rc, 2);
+    assert_non_null(strstr(err, "--data: /nonexistent-dir holds no canopies/"));
+    free(out);
+    free(err);
+    unlink(p1);
+    unlink(p2);
+    unlink(p3);
+    rmdir(sub);
+    rmdir(a);
+    rmdir(b);
+}
+
 /* Every shipped value carries its outside-check status and names the
  * publication that would check it (docs/validation.md, "Not yet checked");
  * where one is checked, the check is here. */
@@ -257,6 +368,7 @@ int main(void)
         cmocka_unit_test(test_bad_family_files), cmocka_unit_test(test_value_errors),
         cmocka_unit_test(test_canopy_file),         cmocka_unit_test(test_check_status),
         cmocka_unit_test(test_only_regular_files),
+        cmocka_unit_test(test_user_catalog_in_front),
     };
     return cmocka_run_group_tests_name("catalog", tests, NULL, NULL);
 }

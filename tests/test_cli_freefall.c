@@ -256,8 +256,8 @@ static void test_plot(void **state)
     assert_int_equal(n, 3);
     check_figure(prefix, have, n, ns);
     snprintf(path, sizeof path, "%s.gp", prefix);
-    assert_true(sr_test_file_has(path, " m/s, stable' at first "));
-    assert_true(sr_test_file_has(path, " m/s, unstable' at first "));
+    assert_true(sr_test_file_has(path, " m/s, stable' at graph "));
+    assert_true(sr_test_file_has(path, " m/s, unstable' at graph "));
     char cmd[400];
     snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
     assert_int_equal(system(cmd), 0);

@@ -43,6 +43,8 @@ static const det_case CASES[] = {
     {{"canopies", "disk-gap-band"}, {NULL}},
     {{"canopies", "--models"}, {NULL}},
     {{"check", DEMO, "@ROOT@/canopies/conical.yaml"}, {NULL}},
+    {{"check", "@ROOT@/payloads/balloon-winds.csv", "@ROOT@/payloads/demo-flight.csv"}, {NULL}},
+    {{"canopies", "--data", "@ROOT@/canopies"}, {NULL}},
     /* later commands append their rows here (seeded runs: give --seed) */
     {{"sweep", "--mass", "2kg", "--family", "conical", "--nominal-diameter", "1.5m", "--from", "0", "--to", "3km",
       "--step", "500m", "--by", "temp-offset=-20C,0C,25C"},

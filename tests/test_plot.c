@@ -282,7 +282,7 @@ static void test_log_axes_open_points_labels(void **state)
     assert_non_null(gp);
     assert_non_null(strstr(gp, "set logscale x\nset logscale y\n"));
     assert_non_null(strstr(gp, "with points lt 7 pt 6"));
-    assert_non_null(strstr(gp, "'22.9 m/s, stable' at first 10000, first 0.47"));
+    assert_non_null(strstr(gp, "'22.9 m/s, stable' at graph ")); /* beside its point, where it hides no data */
     assert_non_null(strstr(gp, "'it''s open'"));
     free(gp);
     char diag[2048];
@@ -449,6 +449,127 @@ static void test_missing_style_falls_back(void **state)
     sr_plot_free(p);
 }
 
+/* A script moved with its data to another directory renders from a third
+ * one: the shared style is inside it and no path of the tree that wrote it
+ * is (the issue: "Cannot load input from 'sinkrate.gp'"). */
+static void test_moved_script_renders(void **state)
+{
+    (void)state;
+    sr_plot *p = full_figure("moved");
+    char made[600], moved[600], cwd[600], old[4096];
+    snprintf(made, sizeof made, "%s/made", tmpdir);
+    snprintf(moved, sizeof moved, "%s/moved elsewhere", tmpdir);
+    snprintf(cwd, sizeof cwd, "%s/another", tmpdir);
+    assert_int_equal(mkdir(made, 0755), 0);
+    assert_int_equal(mkdir(moved, 0755), 0);
+    assert_int_equal(mkdir(cwd, 0755), 0);
+    char prefix[700];
+    snprintf(prefix, sizeof prefix, "%s/fig", made);
+    sr_plot_out o = {.prefix = prefix, .style = sr_test_path("plots/sinkrate.gp"), .format = "png", .width = 700,
+                     .height = 450};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &o, &e), 0);
+    char *gp = slurp(tpath("made/fig.gp"), NULL);
+    assert_non_null(gp);
+    assert_null(strstr(gp, "set loadpath"));
+    assert_null(strstr(gp, sr_test_path("plots")));
+    assert_null(strstr(gp, made));
+    assert_non_null(strstr(gp, "sr_gridline")); /* the style is in it */
+    free(gp);
+    const char *ext[] = {"gp", "dat"};
+    for (int k = 0; k < 2; k++) {
+        char a[800], b[800];
+        snprintf(a, sizeof a, "%s/fig.%s", made, ext[k]);
+        snprintf(b, sizeof b, "%s/fig.%s", moved, ext[k]);
+        assert_int_equal(rename(a, b), 0);
+    }
+    assert_int_equal(rmdir(made), 0);
+    assert_non_null(getcwd(old, sizeof old));
+    assert_int_equal(chdir(cwd), 0);
+    char cmd[2048];
+    snprintf(cmd, sizeof cmd, "'%s' '../moved elsewhere/fig.gp' 2>&1", gnuplot);
+    FILE *f = popen(cmd, "r");
+    char out[1024] = "";
+    size_t n = f ? fread(out, 1, sizeof out - 1, f) : 0;
+    out[n] = '\0';
+    int rc = f ? pclose(f) : -1;
+    assert_int_equal(chdir(old), 0);
+    if (rc != 0 || out[0])
+        fail_msg("the moved script did not render cleanly (exit %d): %s", rc, out);
+    unsigned w, h;
+    assert_true(sr_test_png_size(tpath("moved elsewhere/fig.png"), &w, &h));
+    assert_int_equal(w, 700);
+    assert_int_equal(sr_plot_check_image(tpath("moved elsewhere/fig.png"), "png", "the moved figure", &e), 0);
+    sr_plot_free(p);
+}
+
+/* Labels of marker lines that would collide are staggered into rows, two
+ * lines at one place share one label, a marker line at the end of the data
+ * moves the range's end off it, and the legend goes into a corner free of
+ * data (the issue's figures: close deployments printed on top of each other,
+ * a mark line on the frame, a legend over the descent-rate curve). */
+static void test_layout_keeps_data_visible(void **state)
+{
+    (void)state;
+    sr_plot *p = sr_plot_new("layout");
+    sr_plot_axes a;
+    sr_plot_axes_init(&a);
+    a.xlabel = "time [s]";
+    a.ylabel = "speed [m/s]";
+    a.xtight = 1;
+    a.ymin = 0;
+    assert_int_equal(sr_plot_set_axes(p, 0, &a), 0);
+    const char *n[] = {"t", "v"};
+    size_t b;
+    assert_int_equal(sr_plot_block(p, "descent", 2, n, &b), 0);
+    for (int i = 0; i <= 100; i++) { /* fast, then slow after 60 s: the top right is free, the top left is not */
+        double row[2] = {1.0 * i, i < 60 ? 25.0 - 0.05 * i : 6.0};
+        assert_int_equal(sr_plot_row(p, b, row), 0);
+    }
+    sr_plot_series s = {.kind = SR_PLOT_LINES, .block = b, .x = 1, .y = 2, .title = "descent rate"};
+    assert_int_equal(sr_plot_add(p, &s), 0);
+    assert_int_equal(sr_plot_marker(p, 0, 'x', 60.0, "main", 1), 0);
+    assert_int_equal(sr_plot_marker(p, 0, 'x', 61.0, "reserve", 1), 0);  /* 1 s later: a row above */
+    assert_int_equal(sr_plot_marker(p, 0, 'x', 60.0, "payload", 1), 0);  /* the same line: merged */
+    assert_int_equal(sr_plot_marker(p, 0, 'y', 25.0, "limit", 0), 0);     /* at the data's top */
+    assert_int_equal(sr_plot_marker(p, 0, 'x', 100.0, "touchdown", 1), 0); /* at the data's end */
+    sr_plot_out o = {.prefix = tpath("layout"), .style = sr_test_path("plots/sinkrate.gp"), .format = "png",
+                     .width = 800, .height = 500};
+    sr_error e;
+    assert_int_equal(sr_plot_write(p, &o, &e), 0);
+    char *gp = slurp(tpath("layout.gp"), NULL);
+    assert_non_null(gp);
+    assert_non_null(strstr(gp, "'main, payload' at first 60, graph 1 left offset -0.4,0.75"));
+    assert_non_null(strstr(gp, "'reserve' at first 61, graph 1 left offset -0.4,1.80"));
+    assert_null(strstr(gp, "'payload' at"));
+    /* the touchdown label runs past the figure's edge no more: right-aligned at its line */
+    assert_non_null(strstr(gp, "'touchdown' at first 100, graph 1 right"));
+    /* neither marker line on the frame: the ranges reach past 100 s and 25 m/s */
+    double x0, x1, y0, y1;
+    const char *xr = strstr(gp, "set xrange ["), *yr = strstr(gp, "set yrange [");
+    assert_non_null(xr);
+    assert_non_null(yr);
+    assert_int_equal(sscanf(xr, "set xrange [%lf:%lf]", &x0, &x1), 2);
+    assert_int_equal(sscanf(yr, "set yrange [%lf:%lf]", &y0, &y1), 2);
+    assert_true(x1 > 100.0 + 0.01 * (x1 - x0));
+    assert_true(y1 > 25.0 + 0.01 * (y1 - y0));
+    /* the legend: our box in a corner the curve leaves free, gnuplot's key off */
+    assert_non_null(strstr(gp, "unset key"));
+    const char *box = strstr(gp, "# the legend, in a corner the data leave free\nset object 400 rect from graph ");
+    assert_non_null(box);
+    double bx0, by0;
+    assert_int_equal(sscanf(box + strlen("# the legend, in a corner the data leave free\nset object 400 rect from "),
+                            "graph %lf, graph %lf", &bx0, &by0),
+                     2);
+    /* clear of the curve: above its highest value (25 m/s until 60 s), or right of 60 s above 6 m/s */
+    double top = (25.0 - y0) / (y1 - y0), after = (60.0 - x0) / (x1 - x0), low = (6.0 - y0) / (y1 - y0);
+    if (!(by0 > top || (bx0 > after && by0 > low)))
+        fail_msg("the legend at graph %g, %g covers the curve (top %g, after %g)", bx0, by0, top, after);
+    free(gp);
+    assert_int_equal(sr_plot_render(NULL, gnuplot, o.prefix, "png", NULL, 0, &e), 0);
+    sr_plot_free(p);
+}
+
 static void test_bad_requests(void **state)
 {
     (void)state;
@@ -561,6 +682,8 @@ int main(void)
         cmocka_unit_test(test_rejected_script),
         cmocka_unit_test(test_hostile_text),
         cmocka_unit_test(test_missing_style_falls_back),
+        cmocka_unit_test(test_moved_script_renders),
+        cmocka_unit_test(test_layout_keeps_data_visible),
         cmocka_unit_test(test_bad_requests),
         cmocka_unit_test(test_find_gnuplot_follows_path),
     };

@@ -221,8 +221,12 @@ static void test_gradient_height(void **state)
         size_t nk;
         const double *k = sr_wind_knots(&w, &nk);
         assert_true(nk == 1 && k[0] == 300.0);
-        sr_wind_describe(&w, buf, sizeof buf);
+        sr_wind_describe(&w, SR_UNITS_SI, buf, sizeof buf);
         assert_non_null(strstr(buf, "held constant above 300 m"));
+        /* a figure under --units us says it in feet (300 m = 984.25 ft, exact by the international foot) */
+        sr_wind_describe(&w, SR_UNITS_US, buf, sizeof buf);
+        assert_non_null(strstr(buf, "held constant above 984 ft"));
+        assert_null(strstr(buf, " m/s"));
     }
     /* the case of the issue: exponent 0.3 from 10 m/s at 10 m reaches 55 m/s at 3 km, now with a warning */
     sr_wind w;

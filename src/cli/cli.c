@@ -10,6 +10,7 @@
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "cli/signals.h"
+#include "cli/tables.h"
 #include "output/txn.h"
 #include "output/report.h"
 #include "base/version.h"
@@ -44,7 +45,111 @@ static void usage(FILE *f)
                "Sizes and checks parachute recovery systems for payloads.\n\nCommands:\n");
     for (size_t i = 0; i < NCOMMANDS; i++)
         fprintf(f, "  %-11s %s\n", COMMANDS[i].name, COMMANDS[i].summary);
-    fprintf(f, "\nOptions: --version, --help\n\n");
+    fprintf(f, "\nOptions: --version, --help, --completion bash (the shell completion script)\n\n");
+}
+
+/* `sinkrate --completion bash`: the bash completion script, written from
+ * the command table and each command's own option table (each command
+ * lists its table through sr_cli_parse), so it cannot drift from them. */
+static int completion(sr_cli *c, const char *shell)
+{
+    if (!shell || strcmp(shell, "bash") != 0)
+        return sr_cli_fail(c, "--completion: give the shell: bash");
+    FILE *f = c->out;
+    fprintf(f, "# bash completion for sinkrate %s, written by `sinkrate --completion bash` from its\n"
+               "# command and option tables. Install: make install, or source this file.\n"
+               "_sinkrate()\n{\n"
+               "    local cur=${COMP_WORDS[COMP_CWORD]} prev=${COMP_WORDS[COMP_CWORD-1]}\n"
+               "    local cmd=${COMP_WORDS[1]} opts='' vals='' tables=''\n"
+               "    if [ \"$COMP_CWORD\" -eq 1 ]; then\n"
+               "        COMPREPLY=($(compgen -W \"",
+            SR_VERSION);
+    for (size_t i = 0; i < NCOMMANDS; i++)
+        fprintf(f, "%s ", COMMANDS[i].name);
+    fputs("--help --version --completion\" -- \"$cur\"))\n"
+          "        return\n"
+          "    fi\n"
+          "    case $cmd in\n",
+          f);
+    for (size_t i = 0; i < NCOMMANDS; i++) {
+        char *buf = NULL;
+        size_t len = 0;
+        FILE *m = open_memstream(&buf, &len);
+        if (!m)
+            return sr_cli_fail(c, "out of memory");
+        sr_cli sub = *c;
+        sub.out = m;
+        sub.cmd = COMMANDS[i].name;
+        sub.list_options = 1;
+        sub.short_opts = NULL;
+        char *argv[] = {(char *)COMMANDS[i].name, NULL};
+        COMMANDS[i].fn(&sub, 1, argv);
+        fclose(m);
+        fprintf(f, "    %s)\n        opts='", COMMANDS[i].name);
+        char *save = NULL;
+        int first = 1;
+        for (char *l = strtok_r(buf, "\n", &save); l; l = strtok_r(NULL, "\n", &save)) {
+            char name[64];
+            int val;
+            if (sscanf(l, "%63s %d", name, &val) != 2)
+                continue;
+            fprintf(f, "%s%s", first ? "" : " ", name);
+            first = 0;
+        }
+        fputs("'\n        vals='", f);
+        free(buf);
+        buf = NULL;
+        m = open_memstream(&buf, &len);
+        if (!m)
+            return sr_cli_fail(c, "out of memory");
+        sub.out = m;
+        sub.short_opts = NULL;
+        COMMANDS[i].fn(&sub, 1, argv);
+        fclose(m);
+        first = 1;
+        for (char *l = strtok_r(buf, "\n", &save); l; l = strtok_r(NULL, "\n", &save)) {
+            char name[64];
+            int val;
+            if (sscanf(l, "%63s %d", name, &val) == 2 && val) {
+                fprintf(f, "%s%s", first ? "" : " ", name);
+                first = 0;
+            }
+        }
+        free(buf);
+        char names[512] = "";
+        if (sr_cli_tables(COMMANDS[i].name))
+            sr_cli_tables_list(COMMANDS[i].name, names, sizeof names);
+        for (char *p = names; *p; p++)
+            if (*p == ',')
+                *p = ' ';
+        fprintf(f, "'\n        tables='%s' ;;\n", names);
+    }
+    fputs("    *) return ;;\n"
+          "    esac\n"
+          "    case $prev in\n"
+          "        --format) COMPREPLY=($(compgen -W \"text csv json\" -- \"$cur\")); return ;;\n"
+          "        --units) COMPREPLY=($(compgen -W \"si us\" -- \"$cur\")); return ;;\n"
+          "        --plot-format) COMPREPLY=($(compgen -W \"png svg\" -- \"$cur\")); return ;;\n"
+          "        --table) COMPREPLY=($(compgen -W \"$tables\" -- \"$cur\")); return ;;\n"
+          "        --family)\n"
+          "            local ids\n"
+          "            ids=$(sinkrate canopies --format csv --table families 2>/dev/null |\n"
+          "                  awk -F, '$1 !~ /^#/ && $1 != \"id\" && $1 != \"\" {print $1}')\n"
+          "            COMPREPLY=($(compgen -W \"$ids\" -- \"$cur\")); return ;;\n"
+          "        --data) COMPREPLY=($(compgen -d -- \"$cur\")); return ;;\n"
+          "    esac\n"
+          "    case \" $vals \" in\n"
+          "        *\" $prev \"*) COMPREPLY=($(compgen -f -- \"$cur\")); return ;;\n"
+          "    esac\n"
+          "    if [[ $cur == -* ]]; then\n"
+          "        COMPREPLY=($(compgen -W \"$opts\" -- \"$cur\"))\n"
+          "    else\n"
+          "        COMPREPLY=($(compgen -f -- \"$cur\"))\n"
+          "    fi\n"
+          "}\n"
+          "complete -o filenames -o bashdefault -F _sinkrate sinkrate\n",
+          f);
+    return SR_EXIT_OK;
 }
 
 static int dispatch(sr_cli *c, int argc, char **argv)
@@ -54,6 +159,8 @@ static int dispatch(sr_cli *c, int argc, char **argv)
         return SR_EXIT_USAGE;
     }
     const char *name = argv[1];
+    if (strcmp(name, "--completion") == 0)
+        return completion(c, argc > 2 ? argv[2] : NULL);
     if (strcmp(name, "--version") == 0) {
         fprintf(c->out, "sinkrate %s\n", SR_VERSION);
         return SR_EXIT_OK;

@@ -26,7 +26,10 @@ typedef struct sr_cli {
     sr_unit_system units;
     const char *output;      /* -o FILE, or NULL for stdout */
     const char *table;       /* --table NAME: only this table of the output, or NULL */
-    const char *data_dir;    /* --data DIR, or NULL to search */
+    const char *data_dirs[16]; /* --data DIR, each in front of the ones after it and of the built-in catalog */
+    int ndata;
+    char catalog_notes[4][384]; /* a user family replacing a built-in one: said in the output (sr_cli_emit) */
+    int ncatalog_notes;
     const char *plot_prefix; /* --plot PREFIX */
     const char *plot_format; /* png | svg */
     int plot_width;          /* --plot-size WxH in pixels, 0 = the default */
@@ -48,6 +51,9 @@ typedef struct sr_cli {
      * every other option with a value is refused when given twice) */
     const char *short_opts;
     const int *repeatable;
+    /* set by `sinkrate --completion bash`: sr_cli_parse lists the command's options
+     * ("--name 1" takes a value, "--name 0" does not) instead of parsing */
+    int list_options;
 } sr_cli;
 
 /* Run one command line. Standard output is written, and checked, when the

@@ -60,7 +60,7 @@ static int has_value(const sr_family *f, int v)
     return v != SR_FV_AREAL || !isnan(f->areal_mass);
 }
 
-static sr_report *family_report(const sr_family *f)
+static sr_report *family_report(const sr_family *f, const sr_catalog_origin *o)
 {
     char title[160], buf[600];
     snprintf(title, sizeof title, "canopy family %s", f->id);
@@ -69,6 +69,8 @@ static sr_report *family_report(const sr_family *f)
     sr_report_text(r, "id", "id", f->id);
     sr_report_text(r, "class", "class (filling)", f->cls);
     sr_report_text(r, "file", "file", f->file);
+    snprintf(buf, sizeof buf, "%s%s%s", o->from, o->replaces[0] ? "; replaces " : "", o->replaces);
+    sr_report_text(r, "origin", "from", buf);
     band_line(r, "drag_coefficient", "CD0 on nominal area", f->cd0.v, f->cd0_source);
     band_line(r, "projected_ratio", "Dp/D0", f->dp_d0, f->dp_source);
     band_line(r, "constructed_ratio", "Dc/D0", f->dc_d0, f->dc_source);
@@ -147,6 +149,7 @@ static sr_report *catalog_report(const sr_catalog *cat)
     sr_rtable_column(t, "filling_constant", "fill n", SR_Q_NONE, 3);
     sr_rtable_column(t, "mach_limit", "Mach max", SR_Q_NONE, 2);
     sr_rtable_text_column(t, "outside_checks", "checked");
+    sr_rtable_text_column(t, "origin", "from");
     int total_checked = 0, total = 0;
     for (size_t i = 0; i < cat->n; i++) {
         const sr_family *f = &cat->fam[i];
@@ -158,7 +161,9 @@ static sr_report *catalog_report(const sr_catalog *cat)
         total += all;
         char chk[32];
         snprintf(chk, sizeof chk, "%d of %d", checked, all);
-        const char *txt[] = {f->id, f->name, f->cls, chk};
+        char from[600];
+        snprintf(from, sizeof from, "%s%s", cat->origin[i].from, cat->origin[i].replaces[0] ? ", replaces built-in" : "");
+        const char *txt[] = {f->id, f->name, f->cls, chk, from};
         sr_rtable_row(t, row, txt);
     }
     sr_report_note(r, "CD0 is on nominal area S0. Most values are recalled handbook figures (Knacke 1991, NWC "
@@ -236,7 +241,7 @@ int sr_cmd_canopies(sr_cli *c, int argc, char **argv)
                 free(cat);
                 return sr_cli_fail(c, "%s", e.msg);
             }
-            r = family_report(f);
+            r = family_report(f, &cat->origin[f - cat->fam]);
         } else {
             r = catalog_report(cat);
         }

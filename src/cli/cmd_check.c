@@ -1,33 +1,46 @@
 /* cmd_check.c - `sinkrate check FILE...`: validate canopy-family, canopy and
- * mission files; one line per file, the first problem of each bad file with
- * its file:line:column. */
+ * mission files and the CSV tables (soundings, wind tables, drag tables,
+ * flight logs); every problem of each file with its file:line:column, as a
+ * compiler lists them, not only the first. */
+#include <ctype.h>
 #include <stdlib.h>
 #include <string.h>
+#include <strings.h>
 
 #include "analysis/band.h"
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "analysis/input_warnings.h"
+#include "files/csvtable.h"
+#include "files/flightlog.h"
 #include "files/mission.h"
 #include "files/yamldoc.h"
+#include "physics/atmos.h"
+#include "physics/bluff.h"
+#include "physics/wind.h"
 
 static const struct option OPTS[] = {SR_OPTS_OUTPUT, {NULL, 0, NULL, 0}};
 
 static const char HELP[] =
     "usage: sinkrate check FILE...\n\n"
-    "Validate YAML files of sinkrate: canopy families (top-level 'id'), canopy files\n"
-    "(top-level 'canopy') and mission files (top-level 'mission'). Every file is\n"
-    "checked; each bad file is reported with file:line:column of its first problem.\n"
-    "A mission with a start block and every stage sized is also flown as `sinkrate\n"
-    "profile` flies it (every band end, every opening load), so a file that profile\n"
-    "would reject (a descent that cannot be integrated, a supersonic deployment) is\n"
-    "rejected here too. Exit 0 when all are valid, 2 otherwise.\n\n";
+    "Validate the files sinkrate reads: canopy families (YAML, top-level 'id'),\n"
+    "canopy files (top-level 'canopy') and mission files (top-level 'mission'), and\n"
+    "the CSV tables (*.csv) told apart by their columns: a sounding (altitude,\n"
+    "temperature, pressure), a wind table (height or altitude, speed, from), a drag\n"
+    "table (Re, Cd) or a flight log (time and height, altitude or pressure). Every\n"
+    "file is checked and every problem of a file is listed with its file:line:column\n"
+    "(a YAML file is read on after a problem wherever its structure allows; a tab\n"
+    "in YAML is named as such). A mission with a start block and every stage sized\n"
+    "is also flown as `sinkrate profile` flies it (every band end, every opening\n"
+    "load), so a file that profile would reject (a descent that cannot be\n"
+    "integrated, a supersonic deployment) is rejected here too. Exit 0 when all are\n"
+    "valid, 2 otherwise.\n\n";
 
-static int check_one(const sr_catalog *cat, const char *path, char *kind, size_t klen, char *what, size_t wlen,
-                     sr_input_warnings *iw, sr_unit_system sys, sr_error *e)
+static int check_yaml(const sr_catalog *cat, const char *path, sr_yaml_errors *list, char *kind, size_t klen,
+                      char *what, size_t wlen, sr_input_warnings *iw, sr_unit_system sys, sr_error *e)
 {
     sr_yaml y;
-    int rc = sr_yaml_load_file(&y, path, e);
+    int rc = sr_yaml_load_file_all(&y, path, list, e);
     if (rc)
         return rc;
     yaml_node_t *root = sr_yaml_root(&y);
@@ -87,6 +100,131 @@ static int check_one(const sr_catalog *cat, const char *path, char *kind, size_t
     return rc;
 }
 
+static int has_suffix(const char *path, const char *suffix)
+{
+    size_t n = strlen(path), k = strlen(suffix);
+    return n > k && strcasecmp(path + n - k, suffix) == 0;
+}
+
+/* The column names of a CSV table's header, lower case and without their
+ * units, to pick the reader (which then parses the whole file with libcsv):
+ * a plain split at commas is enough for names. */
+static size_t header_names(const char *buf, size_t len, char names[][32], size_t max)
+{
+    size_t i = 0, n = 0;
+    while (i < len) { /* the first line that is neither blank nor a comment */
+        size_t j = i;
+        while (j < len && (buf[j] == ' ' || buf[j] == '\t' || buf[j] == '\r'))
+            j++;
+        if (j < len && buf[j] != '\n' && buf[j] != '#')
+            break;
+        while (i < len && buf[i] != '\n')
+            i++;
+        i++;
+    }
+    while (i < len && buf[i] != '\n' && n < max) {
+        size_t k = 0;
+        int in_unit = 0;
+        while (i < len && buf[i] != ',' && buf[i] != '\n') {
+            char ch = buf[i++];
+            if (ch == '[' || ch == '(')
+                in_unit = 1;
+            if (!in_unit && ch != '"' && !isspace((unsigned char)ch) && k + 1 < sizeof names[0])
+                names[n][k++] = (char)tolower((unsigned char)ch);
+        }
+        names[n++][k] = '\0';
+        if (i < len && buf[i] == ',')
+            i++;
+    }
+    return n;
+}
+
+static int has_name(char names[][32], size_t n, const char *name)
+{
+    for (size_t i = 0; i < n; i++)
+        if (strcmp(names[i], name) == 0)
+            return 1;
+    return 0;
+}
+
+/* Line and column of a kept problem "path:L:C: ..." (0 when it has none). */
+static void position(const char *msg, size_t plen, long *line, long *col)
+{
+    *line = *col = 0;
+    if (sscanf(msg + plen, ":%ld:%ld:", line, col) != 2)
+        *line = *col = 0;
+}
+
+/* The kept problems of a file in the order of the file (insertion sort: a handful). */
+static void sort_problems(sr_yaml_errors *l, const char *path)
+{
+    size_t plen = strlen(path);
+    for (size_t i = 1; i < l->n; i++)
+        for (size_t j = i; j > 0; j--) {
+            long a1, a2, b1, b2;
+            position(l->msg[j - 1], plen, &a1, &a2);
+            position(l->msg[j], plen, &b1, &b2);
+            if (a1 < b1 || (a1 == b1 && a2 <= b2))
+                break;
+            char tmp[SR_ERROR_MSG_MAX];
+            memcpy(tmp, l->msg[j], sizeof tmp);
+            memcpy(l->msg[j], l->msg[j - 1], sizeof tmp);
+            memcpy(l->msg[j - 1], tmp, sizeof tmp);
+        }
+}
+
+/* A CSV table, read by the reader its columns call for. */
+static int check_csv(const char *path, char *kind, size_t klen, char *what, size_t wlen, sr_error *e)
+{
+    char *buf;
+    size_t len;
+    int rc = sr_csvtable_read_file(path, &buf, &len, e);
+    if (rc)
+        return rc;
+    char names[SR_CSVTABLE_MAX_COLS + 4][32];
+    size_t n = header_names(buf, len, names, sizeof names / sizeof names[0]);
+    free(buf);
+    if (has_name(names, n, "time")) {
+        snprintf(kind, klen, "flight log");
+        sr_flightlog l;
+        if ((rc = sr_flightlog_load(&l, path, 0.0, e)))
+            return rc;
+        snprintf(what, wlen, "%zu rows over %.1f s, %s", l.n, l.t[l.n - 1] - l.t[0], sr_log_vertical_name(l.vertical));
+        sr_flightlog_free(&l);
+    } else if (has_name(names, n, "temperature")) {
+        snprintf(kind, klen, "sounding");
+        sr_atmos a;
+        if ((rc = sr_atmos_load_sounding(&a, path, e)))
+            return rc;
+        double lo, hi;
+        sr_atmos_range(&a, &lo, &hi);
+        snprintf(what, wlen, "%.0f .. %.0f m", lo, hi);
+        sr_atmos_free(&a);
+    } else if (has_name(names, n, "speed") || has_name(names, n, "from")) {
+        snprintf(kind, klen, "wind table");
+        sr_wind w;
+        if ((rc = sr_wind_load_table(&w, path, 0.0, e)))
+            return rc;
+        snprintf(what, wlen, "%zu rows", w.n);
+        sr_wind_free(&w);
+    } else if (has_name(names, n, "re") || has_name(names, n, "cd")) {
+        snprintf(kind, klen, "drag table");
+        sr_bluff_curve cv;
+        if ((rc = sr_bluff_curve_load(&cv, path, SR_BLUFF_LOGLOG, e)))
+            return rc;
+        snprintf(what, wlen, "Cd over Re");
+        sr_bluff_curve_free(&cv);
+    } else {
+        snprintf(kind, klen, "?");
+        return sr_error_set(e, SR_EINVAL,
+                            "%s:1:1: not a sinkrate table: expected the columns of a sounding (altitude, temperature, "
+                            "pressure), a wind table (height or altitude, speed, from), a drag table (Re, Cd) or a "
+                            "flight log (time and height, altitude or pressure)",
+                            path);
+    }
+    return SR_OK;
+}
+
 int sr_cmd_check(sr_cli *c, int argc, char **argv)
 {
     int first, rc = sr_cli_parse(c, argc, argv, OPTS, NULL, NULL, HELP, &first);
@@ -112,28 +250,55 @@ int sr_cmd_check(sr_cli *c, int argc, char **argv)
         free(cat);
         return sr_cli_fail(c, "out of memory");
     }
+    sr_yaml_errors *list = malloc(sizeof *list);
+    if (!list) {
+        free(iw);
+        sr_report_free(r);
+        free(cat);
+        return sr_cli_fail(c, "out of memory");
+    }
+    int problems = 0;
     for (int i = first; i < argc; i++) {
         char kind[32] = "?", what[256] = "";
         sr_error e;
         sr_input_warnings_init(iw);
-        int frc = check_one(cat, argv[i], kind, sizeof kind, what, sizeof what, iw, c->units, &e);
+        list->n = list->more = 0;
+        int frc = has_suffix(argv[i], ".csv")
+                      ? check_csv(argv[i], kind, sizeof kind, what, sizeof what, &e)
+                      : check_yaml(cat, argv[i], list, kind, sizeof kind, what, sizeof what, iw, c->units, &e);
         /* a valid file's plausibility warnings, each named with the file */
         for (size_t k = 0; !frc && k < iw->n; k++)
             sr_report_warning(r, "%s: %s", argv[i], iw->msg[k]);
-        char res[600];
-        if (frc) {
-            bad++;
-            fprintf(c->err, "sinkrate check: %s\n", e.msg);
-            snprintf(res, sizeof res, "INVALID: %s", e.msg);
-        } else {
+        if (!frc) {
+            char res[600];
             snprintf(res, sizeof res, "ok %s", what);
+            const char *row[] = {argv[i], kind, res};
+            sr_rtable_row(t, NULL, row);
+            continue;
         }
-        const char *row[] = {argv[i], kind, res};
-        sr_rtable_row(t, NULL, row);
+        bad++;
+        /* every problem the readers kept, one row and one line each, in the order of the file */
+        if (list->n == 0)
+            snprintf(list->msg[list->n++], sizeof list->msg[0], "%s", e.msg);
+        sort_problems(list, argv[i]);
+        for (size_t k = 0; k < list->n; k++) {
+            char res[SR_ERROR_MSG_MAX + 16];
+            snprintf(res, sizeof res, "INVALID: %s", list->msg[k]);
+            fprintf(c->err, "sinkrate check: %s\n", list->msg[k]);
+            const char *row[] = {argv[i], kind, res};
+            sr_rtable_row(t, NULL, row);
+            problems++;
+        }
+        if (list->more) {
+            fprintf(c->err, "sinkrate check: %s: %zu more problems not listed\n", argv[i], list->more);
+            sr_report_warning(r, "%s: %zu more problems not listed", argv[i], list->more);
+        }
     }
+    free(list);
     free(iw);
     if (bad)
-        sr_report_warning(r, "%d of %d file(s) invalid", bad, argc - first);
+        sr_report_warning(r, "%d of %d file(s) invalid, %d problem%s in all", bad, argc - first, problems,
+                          problems == 1 ? "" : "s");
     rc = sr_cli_emit(c, r);
     if (!rc) /* the report is the product even when a file is invalid: exit 2 writes it */
         c->keep_on_usage = 1;

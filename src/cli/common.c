@@ -10,6 +10,7 @@
 #include <string.h>
 #include <sys/stat.h>
 #include <unistd.h>
+#include <dirent.h>
 
 #include "analysis/input_warnings.h"
 #include "cli/cliplot.h"
@@ -28,8 +29,9 @@ const char SR_HELP_OUTPUT[] =
     "                           writes is put in place only when the whole run succeeds\n"
     "  --table NAME             only this table of the output (with the caution and the\n"
     "                           warnings): one clean table for a spreadsheet; names below\n"
-    "  --data DIR               directory holding canopies/ (default: found next to the\n"
-    "                           program, $SINKRATE_DATA, or the installed share directory)\n"
+    "  --data DIR               your canopy families (DIR/canopies/*.yaml or DIR/*.yaml) in\n"
+    "                           front of the built-in catalog; repeatable, the first wins;\n"
+    "                           $SINKRATE_PATH (DIR:DIR...) adds more after them\n"
     "  -h, --help               this help\n";
 
 const char SR_HELP_ATMOS[] =
@@ -183,6 +185,15 @@ static int repeatable(const sr_cli *c, int code)
 int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
                  const char *help, int *first_arg)
 {
+    if (c->list_options) { /* the option table itself, for the shell completion (cli.c) */
+        fputs("-h 0\n-o 1\n", c->out);
+        for (const char *s = c->short_opts; s && *s; s++)
+            if (*s != ':')
+                fprintf(c->out, "-%c %d\n", *s, s[1] == ':');
+        for (const struct option *o = opts; o->name; o++)
+            fprintf(c->out, "--%s %d\n", o->name, o->has_arg != no_argument);
+        return -1;
+    }
     optind = 0; /* GNU: full re-initialisation, so in-process calls can repeat */
     opterr = 0;
     /* a leading ':' makes a missing value ':' (not '?'), so it is named as such */
@@ -196,7 +207,7 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
     size_t nseen = 0;
     int code;
     while ((code = getopt_long(argc, argv, shorts, opts, NULL)) != -1) {
-        if (code != '?' && code != ':' && optarg && !repeatable(c, code)) {
+        if (code != '?' && code != ':' && optarg && !repeatable(c, code) && code != OPT_DATA) {
             for (size_t k = 0; k < nseen; k++)
                 if (seen[k].code == code)
                     return sr_cli_fail(c, "%s: given twice ('%s', then '%s'); give it once", option_name(opts, code),
@@ -232,7 +243,9 @@ int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr
                 return sr_cli_fail(c, "--units: '%s' is not one of si, us", optarg);
             break;
         case OPT_DATA:
-            c->data_dir = optarg;
+            if (c->ndata >= (int)(sizeof c->data_dirs / sizeof c->data_dirs[0]))
+                return sr_cli_fail(c, "--data: at most %d directories", c->ndata);
+            c->data_dirs[c->ndata++] = optarg;
             break;
         case OPT_TABLE:
             if (!sr_cli_table_known(c->cmd, optarg)) {
@@ -540,12 +553,6 @@ static int has_canopies(const char *dir)
 
 int sr_cli_data_dir(sr_cli *c, char *buf, size_t len)
 {
-    if (c->data_dir) {
-        if (!has_canopies(c->data_dir))
-            return sr_cli_fail(c, "--data: %s holds no canopies/ directory", c->data_dir);
-        snprintf(buf, len, "%s", c->data_dir);
-        return 0;
-    }
     const char *env = getenv("SINKRATE_DATA");
     if (env && *env) {
         if (!has_canopies(env))
@@ -577,8 +584,35 @@ int sr_cli_data_dir(sr_cli *c, char *buf, size_t len)
         snprintf(buf, len, "%s", SR_DATADIR);
         return 0;
     }
-    return sr_cli_fail(c, "cannot find the canopy catalog; pass --data DIR (the directory holding canopies/) "
-                          "or set SINKRATE_DATA");
+    return sr_cli_fail(c, "cannot find the built-in canopy catalog; set SINKRATE_DATA to the directory holding "
+                          "canopies/ and plots/");
+}
+
+/* A user directory of families: DIR/canopies when it has one, else DIR
+ * itself when it holds *.yaml files. 0 and the directory, or an exit code. */
+static int user_dir(sr_cli *c, const char *what, const char *dir, char *buf, size_t len)
+{
+    struct stat st;
+    if (has_canopies(dir)) {
+        snprintf(buf, len, "%s/canopies", dir);
+        return 0;
+    }
+    if (stat(dir, &st) == 0 && S_ISDIR(st.st_mode)) {
+        DIR *d = opendir(dir);
+        struct dirent *e;
+        int yaml = 0;
+        while (d && (e = readdir(d)) != NULL) {
+            size_t l = strlen(e->d_name);
+            yaml |= l > 5 && strcmp(e->d_name + l - 5, ".yaml") == 0 && e->d_name[0] != '.';
+        }
+        if (d)
+            closedir(d);
+        if (yaml) {
+            snprintf(buf, len, "%s", dir);
+            return 0;
+        }
+    }
+    return sr_cli_fail(c, "%s: %s holds no canopies/ directory and no family files (*.yaml)", what, dir);
 }
 
 int sr_cli_catalog(sr_cli *c, sr_catalog **cat)
@@ -598,15 +632,46 @@ int sr_cli_catalog(sr_cli *c, sr_catalog **cat)
         *cat = NULL;
         return sr_cli_fail(c, "%s", e.msg);
     }
-    for (size_t i = 0; i < (*cat)->n; i++) {
-        int rc = sr_cli_input(c, "a canopy family file of the catalog", (*cat)->fam[i].file);
-        if (rc) {
-            free(*cat);
-            *cat = NULL;
-            return rc;
+    /* the user's directories in front, lowest precedence first: $SINKRATE_PATH from its last
+     * entry, then --data from the last given; so the first --data wins */
+    const char *given[64], *what[64];
+    int ng = 0;
+    for (int i = 0; i < c->ndata; i++) {
+        given[ng] = c->data_dirs[i];
+        what[ng++] = "--data";
+    }
+    char *envcopy = NULL;
+    const char *env = getenv("SINKRATE_PATH");
+    if (env && *env && (envcopy = strdup(env))) {
+        char *save = NULL;
+        for (char *t = strtok_r(envcopy, ":", &save); t && ng < 64; t = strtok_r(NULL, ":", &save)) {
+            given[ng] = t;
+            what[ng++] = "SINKRATE_PATH";
         }
     }
-    return 0;
+    c->ncatalog_notes = 0;
+    for (int i = ng - 1; i >= 0 && !rc; i--) {
+        char udir[PATH_MAX + 16], from[PATH_MAX + 32];
+        if ((rc = user_dir(c, what[i], given[i], udir, sizeof udir)))
+            break;
+        snprintf(from, sizeof from, "%s %s", what[i], given[i]);
+        if (sr_catalog_add(*cat, udir, from, &e))
+            rc = sr_cli_fail(c, "%s", e.msg);
+    }
+    free(envcopy);
+    for (size_t i = 0; i < (*cat)->n && !rc; i++) {
+        const sr_catalog_origin *o = &(*cat)->origin[i];
+        if (o->replaces[0] && c->ncatalog_notes < 4)
+            snprintf(c->catalog_notes[c->ncatalog_notes++], sizeof c->catalog_notes[0],
+                     "family '%s' is yours (%s, from %s): it replaces the one in %s", (*cat)->fam[i].id,
+                     (*cat)->fam[i].file, o->from, o->replaces);
+        rc = sr_cli_input(c, "a canopy family file of the catalog", (*cat)->fam[i].file);
+    }
+    if (rc) {
+        free(*cat);
+        *cat = NULL;
+    }
+    return rc;
 }
 
 int sr_cli_canopy_given(const sr_canopy_opts *o)
@@ -823,8 +888,12 @@ void sr_cli_note(sr_cli *c, const char *fmt, ...)
     va_end(ap);
 }
 
-int sr_cli_emit(sr_cli *c, const sr_report *r)
+int sr_cli_emit(sr_cli *c, sr_report *r)
 {
+    /* a family of the user's replacing a built-in one is said wherever the catalog was used */
+    for (int i = 0; i < c->ncatalog_notes; i++)
+        sr_report_note(r, "%s", c->catalog_notes[i]);
+    c->ncatalog_notes = 0;
     /* an infinite number is no result: the inputs were outside what the models hold */
     const char *inf = sr_report_infinite(r);
     if (inf) {

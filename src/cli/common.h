@@ -114,10 +114,12 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
                    struct sr_mission **mis, sr_atmos *atm, double *ground);
 void sr_cli_mission_free(struct sr_mission *mis);
 
-/* The catalog, from --data, $SINKRATE_DATA, next to the executable, or the
- * installed share directory. Heap-allocated; free() it. */
+/* The catalog: the built-in one ($SINKRATE_DATA, next to the executable, or
+ * the installed share directory) with the user's directories in front
+ * (--data, then $SINKRATE_PATH); a family of the user's with a built-in id
+ * replaces it, and the command's output says so. Heap-allocated; free() it. */
 int sr_cli_catalog(sr_cli *c, sr_catalog **cat);
-/* The data directory found (holding canopies/ and plots/). */
+/* The built-in data directory found (holding canopies/ and plots/). */
 int sr_cli_data_dir(sr_cli *c, char *buf, size_t len);
 
 /* Build the canopy from its options; size_required = 0 lets `size` go without. */
@@ -138,7 +140,7 @@ void sr_cli_report_input_warnings(sr_report *r, const struct sr_input_warnings *
 
 /* Render the report in the chosen format to standard output or -o FILE
  * (through the run's transaction). */
-int sr_cli_emit(sr_cli *c, const sr_report *r);
+int sr_cli_emit(sr_cli *c, sr_report *r);
 
 /* Reserve an output file (opt: "-o", "--samples") in the run's transaction
  * before any work; sr_cli_parse does it for -o and --plot. 0 or an exit

@@ -34,7 +34,7 @@ static int time_figure(sr_cli *c, sr_plot *p, sr_fit_result **res, size_t nlogs,
     snprintf(yl, sizeof yl, "height [%s]", ul);
     a.ylabel = yl;
     a.xtight = 1;
-    a.key = SR_PLOT_KEY_TOP_RIGHT;
+    a.key = SR_PLOT_KEY_AUTO;
     rc = rc ? rc : sr_plot_set_axes(p, 0, &a);
     sr_plot_axes_init(&a);
     a.title = "residuals of the fit (log - model); open: dropped as outliers";
@@ -69,7 +69,7 @@ static int time_figure(sr_cli *c, sr_plot *p, sr_fit_result **res, size_t nlogs,
         sr_plot_series s1 = {.kind = SR_PLOT_POINTS, .panel = 0, .block = blk, .x = 1, .y = 2, .title = t1,
                              .color = color};
         sr_plot_series s2 = {.kind = SR_PLOT_LINES, .panel = 0, .block = blk, .x = 1, .y = 3, .title = t2,
-                             .color = color + 1};
+                             .color = color + 1, .front = 1}; /* over the log's points, which would hide it */
         sr_plot_series s3 = {.kind = SR_PLOT_POINTS, .panel = 0, .block = blk, .x = 1, .y = 5,
                              .title = l == 0 ? "dropped (spikes, dropouts)" : NULL, .color = 2, .open = 1};
         sr_plot_series s4 = {.kind = SR_PLOT_POINTS, .panel = 1, .block = blk, .x = 1, .y = 4, .color = color};
@@ -113,7 +113,7 @@ static int drag_figure(sr_cli *c, sr_plot *p, sr_fit_result **res, size_t nlogs,
     a.xlabel = xl;
     a.ylabel = yl;
     a.ymin = 0;
-    a.key = SR_PLOT_KEY_TOP_RIGHT;
+    a.key = SR_PLOT_KEY_AUTO;
     int rc = sr_plot_set_axes(p, 0, &a);
     double xmax = 0;
     static const char *const COLS[] = {"height", "drag_area"};
@@ -207,7 +207,7 @@ static int opening_figure(sr_cli *c, sr_plot *p, sr_fit_result **res, const sr_f
     a.xlabel = "time from the deployment [s]";
     snprintf(yl, sizeof yl, "force [%s]", uf);
     a.ylabel = yl;
-    a.key = SR_PLOT_KEY_TOP_RIGHT;
+    a.key = SR_PLOT_KEY_AUTO;
     int rc = sr_plot_set_axes(p, 0, &a);
     static const char *const COLS[] = {"time_s", "force"};
     *any = 0;
@@ -252,7 +252,15 @@ int sr_fit_plots(sr_cli *c, sr_fit_result **res, size_t nlogs, const sr_fit_setu
     sr_plot *p = sr_plot_new(title);
     if (!p)
         return sr_cli_fail(c, "out of memory");
-    int rc = sr_plot_subtitle(p, res[0]->conversion);
+    /* the analysis words the conversion in SI (the report's note); a figure speaks the units of --units */
+    char sub[600], air[256];
+    const char *conv = res[0]->conversion, *paren = strstr(conv, "site's air (");
+    if (c->units != SR_UNITS_SI && setups[0].atmos && paren) {
+        sr_cli_atmos_short(setups[0].atmos, c->units, air, sizeof air);
+        snprintf(sub, sizeof sub, "%.*s (%s)", (int)(paren + strlen("site's air") - conv), conv, air);
+        conv = sub;
+    }
+    int rc = sr_plot_subtitle(p, conv);
     rc = rc ? rc : time_figure(c, p, res, nlogs, setups);
     if (rc) {
         sr_plot_free(p);

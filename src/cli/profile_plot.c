@@ -78,8 +78,10 @@ static int time_figure(const plot_ctx *P, sr_plot *p)
         snprintf(t1, sizeof t1, "descent rate%s%s", r->nbodies > 1 ? ", " : "", r->nbodies > 1 ? bn : "");
         snprintf(t2, sizeof t2, "airspeed%s%s", r->nbodies > 1 ? ", " : "", r->nbodies > 1 ? bn : "");
         sr_plot_series d = {.kind = SR_PLOT_LINES, .panel = 1, .block = blk, .x = 1, .y = 3, .title = t1, .color = color};
-        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 1, .block = blk, .x = 1, .y = 4, .title = t2, .color = color,
-                            .dash = 1};
+        /* airspeed is close to the descent rate once the body drifts with the wind: dashed, in a colour
+         * of its own and drawn over it, so both show */
+        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 1, .block = blk, .x = 1, .y = 4, .title = t2,
+                            .color = (int)((b + r->nbodies) % SR_PLOT_COLORS) + 1, .dash = 1};
         if (!rc)
             rc = sr_plot_add(p, &h);
         if (!rc)
@@ -140,10 +142,6 @@ static int track_figure(const plot_ctx *P, sr_plot *p)
     a.xmax = L(P, cx + half);
     a.ymin = L(P, cy - half);
     a.ymax = L(P, cy + half);
-    /* the legend in the corner away from the landing point */
-    const sr_profile_body *b0 = &r->body[0];
-    a.key = b0->north >= cy ? (b0->east >= cx ? SR_PLOT_KEY_BOTTOM_LEFT : SR_PLOT_KEY_BOTTOM_RIGHT)
-                            : (b0->east >= cx ? SR_PLOT_KEY_TOP_LEFT : SR_PLOT_KEY_TOP_RIGHT);
     rc = rc ? rc : sr_plot_set_axes(p, 0, &a);
     sr_plot_axes_init(&a);
     a.title = "wind";
@@ -152,7 +150,6 @@ static int track_figure(const plot_ctx *P, sr_plot *p)
     a.xlabel = xl2;
     a.ylabel = yl2;
     a.ymin = 0;
-    a.key = SR_PLOT_KEY_TOP_LEFT;
     rc = rc ? rc : sr_plot_set_axes(p, 1, &a);
     static const char *const COLS[] = {"east", "north"};
     for (size_t b = 0; b < r->nbodies && !rc; b++) {
@@ -172,8 +169,8 @@ static int track_figure(const plot_ctx *P, sr_plot *p)
             rc = sr_plot_add(p, &s);
     }
     /* the wind at the body's height along the track: a segment from each
-     * point in the direction the air moves, a tenth of the map long at the
-     * strongest wind */
+     * of a few points in the direction the air moves, 6 % of the reach long
+     * at the strongest wind */
     double wmax = 0.0;
     for (int i = 0; i <= 60; i++) {
         double rho, a_, g, we, wn;
@@ -181,28 +178,28 @@ static int track_figure(const plot_ctx *P, sr_plot *p)
         wmax = fmax(wmax, hypot(we, wn));
     }
     size_t wb, pb;
-    if (!rc && wmax > 0 && !(rc = sr_plot_block(p, "wind along the track", 2, COLS, &wb))) {
-        double scale = 0.1 * reach / wmax;
+    static const char *const VCOLS[] = {"east", "north", "wind_east", "wind_north"};
+    if (!rc && wmax > 0 && !(rc = sr_plot_block(p, "wind along the track", 4, VCOLS, &wb))) {
+        double scale = 0.06 * reach / wmax;
         for (size_t b = 0; b < r->nbodies && !rc; b++) {
             size_t n = 0, k = 0;
             for (size_t i = 0; i < tr->n; i++)
                 n += tr->pt[i].body == (int)b;
-            size_t every = n / 14 + 1;
+            size_t every = n / 7 + 1;
             for (size_t i = 0; i < tr->n && !rc; i++) {
                 const sr_profile_point *q = &tr->pt[i];
                 if (q->body != (int)b || (k++ % every) != 0)
                     continue;
                 double rho, a_, g, we, wn;
                 sr_profile_air(P->ctx, q->h, &rho, &a_, &g, &we, &wn);
-                double r0[] = {L(P, q->east), L(P, q->north)};
-                double r1[] = {L(P, q->east + scale * we), L(P, q->north + scale * wn)};
-                double gap[] = {NAN, NAN};
-                if (!(rc = sr_plot_row(p, wb, r0)) && !(rc = sr_plot_row(p, wb, r1)))
-                    rc = sr_plot_row(p, wb, gap);
+                double row[] = {L(P, q->east), L(P, q->north), L(P, scale * we), L(P, scale * wn)};
+                rc = sr_plot_row(p, wb, row);
             }
         }
-        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 0, .block = wb, .x = 1, .y = 2,
-                            .title = "wind where the body is", .color = 6, .dash = 2};
+        /* arrows above the track, in a colour of their own: the body drifts with the wind, so the wind
+         * lies along the track, and a line there would hide under it */
+        sr_plot_series s = {.kind = SR_PLOT_VECTORS, .panel = 0, .block = wb, .x = 1, .y = 2, .w = 3, .h = 4,
+                            .title = "wind where the body is", .color = 5};
         if (!rc)
             rc = sr_plot_add(p, &s);
     }
@@ -241,8 +238,9 @@ static int track_figure(const plot_ctx *P, sr_plot *p)
             double row[] = {L(P, h), V(P, hypot(we, wn)), V(P, we), V(P, wn)};
             rc = sr_plot_row(p, fb, row);
         }
-        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 2, .y = 1, .title = "speed",
-                            .color = 1};
+        /* a colour of its own: in a legend strip above both panels it stands beside the tracks */
+        sr_plot_series s = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 2, .y = 1, .title = "wind speed",
+                            .color = 7};
         sr_plot_series e = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 3, .y = 1,
                             .title = "toward east", .color = 3, .dash = 1};
         sr_plot_series n = {.kind = SR_PLOT_LINES, .panel = 1, .block = fb, .x = 4, .y = 1,
@@ -277,7 +275,7 @@ int sr_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, c
 {
     plot_ctx P = {c, m, ctx, r, tr, sr_units_label(SR_Q_LENGTH, c->units), sr_units_label(SR_Q_SPEED, c->units)};
     char sub[512], wind[256];
-    sr_wind_describe(&m->wind, wind, sizeof wind);
+    sr_wind_describe(&m->wind, c->units, wind, sizeof wind);
     snprintf(sub, sizeof sub, "typical drag; wind: %s", wind);
     sr_plot *p = sr_plot_new(m->name);
     if (!p)

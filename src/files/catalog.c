@@ -1,5 +1,6 @@
 /* catalog.c - strict readers for canopy family files and user canopy files.
  * Every value in a family file carries its source; missing sources are errors. */
+#define _DEFAULT_SOURCE
 #include "files/catalog.h"
 
 #include "physics/opening.h"
@@ -131,62 +132,65 @@ int sr_catalog_parse_family(sr_family *f, sr_yaml *y, sr_error *err)
     memset(f, 0, sizeof *f);
     snprintf(f->file, sizeof f->file, "%s", y->name);
     yaml_node_t *root = sr_yaml_root(y);
-    int rc = sr_yaml_check_map(y, root, "the canopy family", FAMILY_KEYS, FAMILY_REQ, err);
-    if (rc)
-        return rc;
+    int acc = SR_OK, rc;
+    if (!root || root->type != YAML_MAPPING_NODE)
+        return sr_yaml_check_map(y, root, "the canopy family", FAMILY_KEYS, FAMILY_REQ, err);
+    /* each block on its own: with a list of problems (check), every one is named */
+    SR_YAML_STEP(sr_yaml_check_map(y, root, "the canopy family", FAMILY_KEYS, FAMILY_REQ, err));
     yaml_node_t *n = sr_yaml_get(y, root, "id");
-    if ((rc = sr_yaml_string(y, n, f->id, sizeof f->id, err)))
-        return rc;
-    if (!valid_id(f->id))
-        return sr_yaml_fail(y, n, err, "id '%s' must be lower-case kebab-case (letters, digits, '-')", f->id);
-    if ((rc = sr_yaml_string(y, sr_yaml_get(y, root, "name"), f->name, sizeof f->name, err)))
-        return rc;
-    n = sr_yaml_get(y, root, "class");
-    if ((rc = sr_yaml_string(y, n, f->cls, sizeof f->cls, err)))
-        return rc;
-    if (strcmp(f->cls, SR_CANOPY_CLASS_SOLID) != 0 && strcmp(f->cls, SR_CANOPY_CLASS_SLOTTED) != 0)
-        return sr_yaml_fail(y, n, err, "class must be 'solid' or 'slotted', not '%s'", f->cls);
-
+    if (n) {
+        SR_YAML_STEP(rc = sr_yaml_string(y, n, f->id, sizeof f->id, err));
+        if (!rc && !valid_id(f->id))
+            SR_YAML_STEP(sr_yaml_fail(y, n, err, "id '%s' must be lower-case kebab-case (letters, digits, '-')",
+                                      f->id));
+    }
+    if ((n = sr_yaml_get(y, root, "name")))
+        SR_YAML_STEP(sr_yaml_string(y, n, f->name, sizeof f->name, err));
+    if ((n = sr_yaml_get(y, root, "class"))) {
+        SR_YAML_STEP(rc = sr_yaml_string(y, n, f->cls, sizeof f->cls, err));
+        if (!rc && strcmp(f->cls, SR_CANOPY_CLASS_SOLID) != 0 && strcmp(f->cls, SR_CANOPY_CLASS_SLOTTED) != 0)
+            SR_YAML_STEP(sr_yaml_fail(y, n, err, "class must be 'solid' or 'slotted', not '%s'", f->cls));
+    }
     yaml_node_t *cd = sr_yaml_get(y, root, "drag-coefficient");
-    if ((rc = sr_yaml_check_map(y, cd, "drag-coefficient", CD_KEYS, CD_REQ, err)))
-        return rc;
-    char ref[32];
-    n = sr_yaml_get(y, cd, "reference");
-    if ((rc = sr_yaml_string(y, n, ref, sizeof ref, err)))
-        return rc;
-    if (strcmp(ref, "nominal") != 0)
-        return sr_yaml_fail(y, n, err,
-                            "catalog drag coefficients must be on nominal area (reference: nominal); convert "
-                            "'%s' with the family's diameter ratio first",
-                            ref);
-    f->cd0.ref = SR_REF_NOMINAL;
-    if ((rc = read_band(y, root, "drag-coefficient", SR_Q_NONE, 0.05, 2.5, &f->cd0.v, f->cd0_source,
-                        sizeof f->cd0_source, &f->check[SR_FV_DRAG], err)))
-        return rc;
-    if ((rc = read_band(y, root, "projected-ratio", SR_Q_NONE, 0.3, 1.2, &f->dp_d0, f->dp_source,
-                        sizeof f->dp_source, &f->check[SR_FV_PROJECTED], err)))
-        return rc;
-    if ((rc = read_band(y, root, "constructed-ratio", SR_Q_NONE, 0.3, 1.5, &f->dc_d0, f->dc_source,
-                        sizeof f->dc_source, &f->check[SR_FV_CONSTRUCTED], err)))
-        return rc;
-    if ((rc = read_band(y, root, "opening-factor", SR_Q_NONE, 0.5, 3.0, &f->cx, f->cx_source, sizeof f->cx_source,
-                        &f->check[SR_FV_OPENING], err)))
-        return rc;
-    if ((rc = read_value(y, root, "filling-constant", SR_Q_NONE, 0.5, 50.0, &f->fill_n, f->fill_source,
-                         sizeof f->fill_source, &f->check[SR_FV_FILLING], err)))
-        return rc;
-    if ((rc = read_band(y, root, "oscillation", SR_Q_ANGLE, 0.0, PI / 2, &f->oscillation, f->osc_source,
-                        sizeof f->osc_source, &f->check[SR_FV_OSCILLATION], err)))
-        return rc;
-    if ((rc = read_value(y, root, "mach-limit", SR_Q_NONE, 0.01, 5.0, &f->mach_max, f->mach_source,
-                         sizeof f->mach_source, &f->check[SR_FV_MACH], err)))
-        return rc;
+    if (cd) {
+        SR_YAML_STEP(rc = sr_yaml_check_map(y, cd, "drag-coefficient", CD_KEYS, CD_REQ, err));
+        char ref[32];
+        if (!rc && (n = sr_yaml_get(y, cd, "reference"))) {
+            SR_YAML_STEP(rc = sr_yaml_string(y, n, ref, sizeof ref, err));
+            if (!rc && strcmp(ref, "nominal") != 0)
+                SR_YAML_STEP(sr_yaml_fail(y, n, err,
+                                          "catalog drag coefficients must be on nominal area (reference: nominal); "
+                                          "convert '%s' with the family's diameter ratio first",
+                                          ref));
+        }
+        f->cd0.ref = SR_REF_NOMINAL;
+        if (!rc)
+            SR_YAML_STEP(read_band(y, root, "drag-coefficient", SR_Q_NONE, 0.05, 2.5, &f->cd0.v, f->cd0_source,
+                                   sizeof f->cd0_source, &f->check[SR_FV_DRAG], err));
+    }
+    if (sr_yaml_get(y, root, "projected-ratio"))
+        SR_YAML_STEP(read_band(y, root, "projected-ratio", SR_Q_NONE, 0.3, 1.2, &f->dp_d0, f->dp_source,
+                               sizeof f->dp_source, &f->check[SR_FV_PROJECTED], err));
+    if (sr_yaml_get(y, root, "constructed-ratio"))
+        SR_YAML_STEP(read_band(y, root, "constructed-ratio", SR_Q_NONE, 0.3, 1.5, &f->dc_d0, f->dc_source,
+                               sizeof f->dc_source, &f->check[SR_FV_CONSTRUCTED], err));
+    if (sr_yaml_get(y, root, "opening-factor"))
+        SR_YAML_STEP(read_band(y, root, "opening-factor", SR_Q_NONE, 0.5, 3.0, &f->cx, f->cx_source,
+                               sizeof f->cx_source, &f->check[SR_FV_OPENING], err));
+    if (sr_yaml_get(y, root, "filling-constant"))
+        SR_YAML_STEP(read_value(y, root, "filling-constant", SR_Q_NONE, 0.5, 50.0, &f->fill_n, f->fill_source,
+                                sizeof f->fill_source, &f->check[SR_FV_FILLING], err));
+    if (sr_yaml_get(y, root, "oscillation"))
+        SR_YAML_STEP(read_band(y, root, "oscillation", SR_Q_ANGLE, 0.0, PI / 2, &f->oscillation, f->osc_source,
+                               sizeof f->osc_source, &f->check[SR_FV_OSCILLATION], err));
+    if (sr_yaml_get(y, root, "mach-limit"))
+        SR_YAML_STEP(read_value(y, root, "mach-limit", SR_Q_NONE, 0.01, 5.0, &f->mach_max, f->mach_source,
+                                sizeof f->mach_source, &f->check[SR_FV_MACH], err));
     /* the growth exponent: the file's band, or the class's (from memory) */
     if (sr_yaml_get(y, root, "growth-exponent")) {
-        if ((rc = read_band(y, root, "growth-exponent", SR_Q_NONE, 0.25, 6.0, &f->growth, f->growth_source,
-                            sizeof f->growth_source, &f->check[SR_FV_GROWTH], err)))
-            return rc;
-        f->growth_given = 1;
+        SR_YAML_STEP(rc = read_band(y, root, "growth-exponent", SR_Q_NONE, 0.25, 6.0, &f->growth, f->growth_source,
+                                    sizeof f->growth_source, &f->check[SR_FV_GROWTH], err));
+        f->growth_given = !rc;
     } else {
         snprintf(f->check[SR_FV_GROWTH].outside, sizeof f->check[SR_FV_GROWTH].outside, "none");
         int slotted = strcmp(f->cls, SR_CANOPY_CLASS_SLOTTED) == 0;
@@ -199,14 +203,13 @@ int sr_catalog_parse_family(sr_family *f, sr_yaml *y, sr_error *err)
     }
     f->areal_mass = NAN;
     snprintf(f->check[SR_FV_AREAL].outside, sizeof f->check[SR_FV_AREAL].outside, "none");
-    if (sr_yaml_get(y, root, "areal-mass") &&
-        (rc = read_value(y, root, "areal-mass", SR_Q_AREAL_MASS, 1e-3, 2.0, &f->areal_mass, f->areal_source,
-                         sizeof f->areal_source, &f->check[SR_FV_AREAL], err)))
-        return rc;
+    if (sr_yaml_get(y, root, "areal-mass"))
+        SR_YAML_STEP(read_value(y, root, "areal-mass", SR_Q_AREAL_MASS, 1e-3, 2.0, &f->areal_mass, f->areal_source,
+                                sizeof f->areal_source, &f->check[SR_FV_AREAL], err));
     n = sr_yaml_get(y, root, "notes");
-    if (n && (rc = sr_yaml_text(y, n, f->notes, sizeof f->notes, err)))
-        return rc;
-    return SR_OK;
+    if (n)
+        SR_YAML_STEP(sr_yaml_text(y, n, f->notes, sizeof f->notes, err));
+    return acc;
 }
 
 int sr_catalog_load_family(sr_family *f, const char *path, sr_error *err)
@@ -225,15 +228,42 @@ static int cmp_name(const void *a, const void *b)
     return strcmp(*(char *const *)a, *(char *const *)b);
 }
 
-static int cmp_family(const void *a, const void *b)
+/* Families sorted by id, their origins along. */
+static void sort_families(sr_catalog *c)
 {
-    return strcmp(((const sr_family *)a)->id, ((const sr_family *)b)->id);
+    for (size_t i = 1; i < c->n; i++)
+        for (size_t j = i; j > 0 && strcmp(c->fam[j - 1].id, c->fam[j].id) > 0; j--) {
+            sr_family f = c->fam[j];
+            sr_catalog_origin o = c->origin[j];
+            c->fam[j] = c->fam[j - 1];
+            c->origin[j] = c->origin[j - 1];
+            c->fam[j - 1] = f;
+            c->origin[j - 1] = o;
+        }
 }
 
 int sr_catalog_open(sr_catalog *c, const char *dir, sr_error *err)
 {
     c->n = 0;
+    c->layers = 0;
     snprintf(c->dir, sizeof c->dir, "%s", dir);
+    return sr_catalog_add(c, dir, "built-in", err);
+}
+
+int sr_catalog_add(sr_catalog *c, const char *dir, const char *from, sr_error *err)
+{
+    /* the same directory twice (--data naming the built-in catalog) adds nothing */
+    char real[4096], other[4096];
+    if (realpath(dir, real))
+        for (size_t i = 0; i < c->n; i++) {
+            char fdir[256];
+            snprintf(fdir, sizeof fdir, "%s", c->fam[i].file);
+            char *slash = strrchr(fdir, '/');
+            if (slash)
+                *slash = '\0';
+            if (slash && realpath(fdir, other) && strcmp(real, other) == 0)
+                return SR_OK;
+        }
     DIR *d = opendir(dir);
     if (!d)
         return sr_error_set(err, SR_EIO, "cannot open the canopy catalog directory %s", dir);
@@ -262,24 +292,47 @@ int sr_catalog_open(sr_catalog *c, const char *dir, sr_error *err)
     if (!rc && n == 0)
         rc = sr_error_set(err, SR_EIO, "%s holds no canopy family files (*.yaml)", dir);
     qsort(names, n, sizeof names[0], cmp_name);
+    int layer = c->layers;
+    size_t n0 = c->n;
     for (size_t i = 0; i < n && !rc; i++) {
         char path[1024];
         snprintf(path, sizeof path, "%s/%s", dir, names[i]);
-        rc = sr_catalog_load_family(&c->fam[c->n], path, err);
-        if (!rc) {
-            for (size_t j = 0; j < c->n; j++)
-                if (strcmp(c->fam[j].id, c->fam[c->n].id) == 0)
-                    rc = sr_error_set(err, SR_EINVAL, "%s: id '%s' is already used by %s", path, c->fam[j].id,
-                                      c->fam[j].file);
-            c->n++;
+        sr_family f;
+        rc = sr_catalog_load_family(&f, path, err);
+        if (rc)
+            break;
+        size_t at = c->n;
+        for (size_t j = 0; j < c->n; j++)
+            if (strcmp(c->fam[j].id, f.id) == 0)
+                at = j;
+        if (at < c->n && c->origin[at].layer == layer) {
+            rc = sr_error_set(err, SR_EINVAL, "%s: id '%s' is already used by %s", path, f.id, c->fam[at].file);
+            break;
         }
+        if (at == c->n && c->n >= SR_CATALOG_MAX) {
+            rc = sr_error_set(err, SR_EINVAL, "%s: more than %d families in all", path, SR_CATALOG_MAX);
+            break;
+        }
+        sr_catalog_origin o = {.layer = layer};
+        snprintf(o.from, sizeof o.from, "%s", from ? from : dir);
+        if (at < c->n)
+            snprintf(o.replaces, sizeof o.replaces, "%s", c->fam[at].file);
+        c->fam[at] = f;
+        c->origin[at] = o;
+        if (at == c->n)
+            c->n++;
     }
     for (size_t i = 0; i < n; i++)
         free(names[i]);
-    if (rc)
-        c->n = 0;
-    else
-        qsort(c->fam, c->n, sizeof c->fam[0], cmp_family);
+    if (rc) {
+        if (layer == 0)
+            c->n = 0;
+        else
+            c->n = n0; /* a failed load is an error anyway; what was replaced is not restored */
+        return rc;
+    }
+    c->layers++;
+    sort_families(c);
     return rc;
 }
 
@@ -370,64 +423,73 @@ int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_ya
         *has_size = found >= 0;
     double value = 1.0;
     sr_size_kind kind = SR_SIZE_NOMINAL_AREA;
+    int acc = SR_OK; /* past the family, each part on its own: check names every problem */
+    sr_canopy_from_size(c, fam, kind, value, &e); /* the placeholder the other parts build on */
     if (found >= 0) {
         yaml_node_t *sn = sr_yaml_get(y, n, SIZE_KEYS[found]);
         kind = SIZE_KIND[found];
-        if ((rc = sr_yaml_quantity(y, sn, kind == SR_SIZE_NOMINAL_AREA ? SR_Q_AREA : SR_Q_LENGTH, &value, err)))
-            return rc;
-        if ((rc = sr_canopy_from_size(c, fam, kind, value, &e)))
-            return sr_yaml_fail(y, sn, err, "%s", e.msg);
-    } else {
-        sr_canopy_from_size(c, fam, kind, value, &e);
+        SR_YAML_STEP(rc = sr_yaml_quantity(y, sn, kind == SR_SIZE_NOMINAL_AREA ? SR_Q_AREA : SR_Q_LENGTH, &value,
+                                           err));
+        if (!rc && sr_canopy_from_size(c, fam, kind, value, &e)) {
+            SR_YAML_STEP(sr_yaml_fail(y, sn, err, "%s", e.msg));
+            sr_canopy_from_size(c, fam, SR_SIZE_NOMINAL_AREA, 1.0, &e);
+        }
     }
     yaml_node_t *m = sr_yaml_get(y, n, "drag-coefficient");
     if (m) {
-        if ((rc = sr_yaml_check_map(y, m, "drag-coefficient", MEASURED_KEYS, MEASURED_REQUIRED, err)))
-            return rc;
+        SR_YAML_STEP(rc = sr_yaml_check_map(y, m, "drag-coefficient", MEASURED_KEYS, MEASURED_REQUIRED, err));
         double cd;
         char refs[32], src[SR_SOURCE_MAX];
         sr_ref ref;
-        if ((rc = sr_yaml_number(y, sr_yaml_get(y, m, "value"), &cd, err)))
-            return rc;
-        yaml_node_t *rn = sr_yaml_get(y, m, "reference");
-        if ((rc = sr_yaml_string(y, rn, refs, sizeof refs, err)))
-            return rc;
-        if (sr_ref_parse(refs, &ref) != SR_OK)
-            return sr_yaml_fail(y, rn, err, "reference must be nominal, projected or constructed, not '%s'", refs);
-        if ((rc = sr_yaml_text(y, sr_yaml_get(y, m, "source"), src, sizeof src, err)))
-            return rc;
+        yaml_node_t *vn = sr_yaml_get(y, m, "value"), *rn = sr_yaml_get(y, m, "reference");
+        int ok = !rc;
+        if (ok) {
+            SR_YAML_STEP(rc = sr_yaml_number(y, vn, &cd, err));
+            ok = !rc;
+            SR_YAML_STEP(rc = sr_yaml_string(y, rn, refs, sizeof refs, err));
+            if (!rc && sr_ref_parse(refs, &ref) != SR_OK)
+                SR_YAML_STEP(rc = sr_yaml_fail(y, rn, err, "reference must be nominal, projected or constructed, not "
+                                                           "'%s'",
+                                               refs));
+            ok = ok && !rc;
+            SR_YAML_STEP(rc = sr_yaml_text(y, sr_yaml_get(y, m, "source"), src, sizeof src, err));
+            ok = ok && !rc;
+        }
         /* optional low / high: a measured band (a fit's confidence interval) */
-        sr_band b = {cd, cd, cd};
+        sr_band b = {0, 0, 0};
         yaml_node_t *ln = sr_yaml_get(y, m, "low"), *hn = sr_yaml_get(y, m, "high");
-        if ((ln != NULL) != (hn != NULL))
-            return sr_yaml_fail(y, ln ? ln : hn, err, "give both 'low' and 'high' of the measured band, or neither");
-        if (ln && ((rc = sr_yaml_number(y, ln, &b.lo, err)) || (rc = sr_yaml_number(y, hn, &b.hi, err))))
-            return rc;
-        if ((rc = sr_canopy_set_measured_band(c, b, ref, src, &e)))
-            return sr_yaml_fail(y, ln && !(b.lo <= cd && cd <= b.hi) ? ln : sr_yaml_get(y, m, "value"), err, "%s",
-                                e.msg);
+        if (ok) {
+            b = (sr_band){cd, cd, cd};
+            if ((ln != NULL) != (hn != NULL))
+                SR_YAML_STEP(rc = sr_yaml_fail(y, ln ? ln : hn, err,
+                                               "give both 'low' and 'high' of the measured band, or neither"));
+            else if (ln)
+                SR_YAML_STEP(rc = sr_yaml_number(y, ln, &b.lo, err) ? SR_EINVAL : sr_yaml_number(y, hn, &b.hi, err));
+            ok = !rc;
+        }
+        if (ok && (rc = sr_canopy_set_measured_band(c, b, ref, src, &e)))
+            SR_YAML_STEP(sr_yaml_fail(y, ln && !(b.lo <= cd && cd <= b.hi) ? ln : vn, err, "%s", e.msg));
     }
     long count = 1;
-    yaml_node_t *cn = sr_yaml_get(y, n, "count");
-    if (cn && (rc = sr_yaml_int(y, cn, 1, 16, &count, err)))
-        return rc;
     double factor = NAN;
-    yaml_node_t *kn = sr_yaml_get(y, n, "cluster-factor");
-    if (kn && (rc = sr_yaml_number(y, kn, &factor, err)))
-        return rc;
-    if ((rc = sr_canopy_set_cluster(c, (int)count, factor, &e)))
-        return sr_yaml_fail(y, kn ? kn : cn, err, "%s", e.msg);
+    yaml_node_t *cn = sr_yaml_get(y, n, "count"), *kn = sr_yaml_get(y, n, "cluster-factor");
+    int crc = SR_OK;
+    if (cn)
+        SR_YAML_STEP(crc = sr_yaml_int(y, cn, 1, 16, &count, err));
+    if (kn && !crc)
+        SR_YAML_STEP(crc = sr_yaml_number(y, kn, &factor, err));
+    if (!crc && sr_canopy_set_cluster(c, (int)count, factor, &e))
+        SR_YAML_STEP(sr_yaml_fail(y, kn ? kn : cn, err, "%s", e.msg));
     yaml_node_t *an = sr_yaml_get(y, n, "areal-mass");
     if (an) {
-        if ((rc = sr_yaml_quantity(y, an, SR_Q_AREAL_MASS, &c->areal_mass, err)))
-            return rc;
-        if (!(c->areal_mass > 0 && c->areal_mass < 2.0))
-            return sr_yaml_fail(y, an, err, "areal mass must be between 0 and 2 kg/m2 (2000 g/m2)");
+        SR_YAML_STEP(rc = sr_yaml_quantity(y, an, SR_Q_AREAL_MASS, &c->areal_mass, err));
+        if (!rc && !(c->areal_mass > 0 && c->areal_mass < 2.0))
+            SR_YAML_STEP(sr_yaml_fail(y, an, err, "areal mass must be between 0 and 2 kg/m2 (2000 g/m2)"));
     }
     yaml_node_t *on = sr_yaml_get(y, n, "measured-opening");
-    if (on && (rc = parse_measured_opening(c, y, on, err)))
-        return rc;
-    return SR_OK;
+    if (on)
+        SR_YAML_STEP(parse_measured_opening(c, y, on, err));
+    return acc;
 }
 
 static const char *const CANOPY_FILE_KEYS[] = {"canopy", NULL};
@@ -442,9 +504,12 @@ int sr_catalog_parse_canopy(sr_canopy *c, const sr_catalog *cat, sr_yaml *y, sr_
     static const char *const keys[] = {"name",          "family",           "nominal-diameter", "projected-diameter",
                                        "flat-diameter", "nominal-area",     "drag-coefficient", "count",
                                        "cluster-factor", "areal-mass",      "measured-opening", NULL};
-    if ((rc = sr_yaml_check_map(y, n, "canopy", keys, NULL, err)))
-        return rc;
-    return sr_catalog_canopy_from_node(c, cat, y, n, 0, NULL, err);
+    int acc = SR_OK;
+    if (!n || n->type != YAML_MAPPING_NODE)
+        return sr_yaml_check_map(y, n, "canopy", keys, NULL, err);
+    SR_YAML_STEP(sr_yaml_check_map(y, n, "canopy", keys, NULL, err));
+    SR_YAML_STEP(sr_catalog_canopy_from_node(c, cat, y, n, 0, NULL, err));
+    return acc;
 }
 
 int sr_catalog_load_canopy(sr_canopy *c, const sr_catalog *cat, const char *path, sr_error *err)

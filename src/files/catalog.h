@@ -11,15 +11,31 @@
 
 #define SR_CATALOG_MAX 64
 
+/* Where a family of the catalog came from. */
+typedef struct sr_catalog_origin {
+    char from[512];       /* "built-in", or how the user gave its directory ("--data DIR") */
+    char replaces[256];   /* the file of the family with the same id it replaces, or "" */
+    int layer;            /* which directory: 0 the first loaded (the built-in catalog) */
+} sr_catalog_origin;
+
 typedef struct sr_catalog {
     sr_family fam[SR_CATALOG_MAX];
+    sr_catalog_origin origin[SR_CATALOG_MAX];
     size_t n;
-    char dir[512];   /* the canopies/ directory */
+    int layers;      /* directories loaded */
+    char dir[512];   /* the canopies/ directory of the built-in catalog */
 } sr_catalog;
 
-/* Load every *.yaml in dir (sorted by file name). Any bad file fails the
- * whole load with its file:line:column. */
+/* Load every *.yaml in dir (sorted by file name) as the built-in catalog.
+ * Any bad file fails the whole load with its file:line:column. */
 int sr_catalog_open(sr_catalog *c, const char *dir, sr_error *err);
+
+/* Put the families of another directory in front of those loaded: a family
+ * with the id of one loaded before replaces it (origin[i].replaces names
+ * the replaced file); two files of one directory with one id are an error,
+ * and so is a bad file. from: how to name the directory in listings
+ * ("--data mydir"). A directory already loaded is not loaded twice. */
+int sr_catalog_add(sr_catalog *c, const char *dir, const char *from, sr_error *err);
 
 /* Family by id; an unknown id fails with the closest id suggested. */
 const sr_family *sr_catalog_find(const sr_catalog *c, const char *id, sr_error *err);

@@ -50,16 +50,18 @@ void sr_mission_relative_path(char *out, size_t len, const char *base, const cha
 
 static int parse_atmos(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *err)
 {
-    int rc;
+    int rc, acc = SR_OK;
     yaml_node_t *en = sr_yaml_get(y, site, "elevation"), *tn = sr_yaml_get(y, site, "temperature"),
                 *pn = sr_yaml_get(y, site, "pressure"), *sn = sr_yaml_get(y, site, "sounding");
     double z = 0.0, T = NAN, p = NAN;
-    if (en && (rc = sr_yaml_quantity(y, en, SR_Q_LENGTH, &z, err)))
-        return rc;
-    if (tn && (rc = sr_yaml_quantity(y, tn, SR_Q_TEMP, &T, err)))
-        return rc;
-    if (pn && (rc = sr_yaml_quantity(y, pn, SR_Q_PRESSURE, &p, err)))
-        return rc;
+    if (en)
+        SR_YAML_STEP(sr_yaml_quantity(y, en, SR_Q_LENGTH, &z, err));
+    if (tn)
+        SR_YAML_STEP(sr_yaml_quantity(y, tn, SR_Q_TEMP, &T, err));
+    if (pn)
+        SR_YAML_STEP(sr_yaml_quantity(y, pn, SR_Q_PRESSURE, &p, err));
+    if (acc) /* the air needs all three */
+        return acc;
     m->ground = z;
     sr_error e;
     if (sn) {
@@ -112,15 +114,16 @@ static int parse_position(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error
 
 static int parse_site(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *err)
 {
-    int rc;
-    if ((rc = sr_yaml_check_map(y, site, "site", SITE_KEYS, NULL, err)))
-        return rc;
-    if ((rc = parse_atmos(m, y, site, err)))
-        return rc;
-    if ((rc = parse_position(m, y, site, err)))
-        return rc;
+    int acc = SR_OK;
+    if (!site || site->type != YAML_MAPPING_NODE)
+        return sr_yaml_check_map(y, site, "site", SITE_KEYS, NULL, err);
+    SR_YAML_STEP(sr_yaml_check_map(y, site, "site", SITE_KEYS, NULL, err));
+    SR_YAML_STEP(parse_atmos(m, y, site, err));
+    SR_YAML_STEP(parse_position(m, y, site, err));
     yaml_node_t *wn = sr_yaml_get(y, site, "wind");
-    return wn ? sr_mission_parse_wind(m, y, wn, err) : SR_OK;
+    if (wn)
+        SR_YAML_STEP(sr_mission_parse_wind(m, y, wn, err));
+    return acc;
 }
 
 /* A list of section names, e.g. carries: [booster, payload bay]. */
@@ -200,59 +203,63 @@ static int parse_deploy(sr_yaml *y, yaml_node_t *n, sr_stage *s, size_t idx, sr_
 static int parse_stage(sr_mission *m, sr_yaml *y, yaml_node_t *n, const sr_catalog *cat, sr_stage *s, size_t idx,
                        sr_error *err)
 {
-    int rc;
-    if ((rc = sr_yaml_check_map(y, n, "a stage", STAGE_KEYS, STAGE_REQ, err)))
-        return rc;
-    if ((rc = sr_yaml_string(y, sr_yaml_get(y, n, "name"), s->name, sizeof s->name, err)))
-        return rc;
+    int rc, acc = SR_OK;
+    if (!n || n->type != YAML_MAPPING_NODE)
+        return sr_yaml_check_map(y, n, "a stage", STAGE_KEYS, STAGE_REQ, err);
+    /* each part of the stage on its own: check names every problem */
+    SR_YAML_STEP(sr_yaml_check_map(y, n, "a stage", STAGE_KEYS, STAGE_REQ, err));
+    yaml_node_t *nm = sr_yaml_get(y, n, "name");
+    if (nm)
+        SR_YAML_STEP(sr_yaml_string(y, nm, s->name, sizeof s->name, err));
     yaml_node_t *cf = sr_yaml_get(y, n, "canopy");
     if (cf) {
-        if (sr_yaml_get(y, n, "family"))
-            return sr_yaml_fail(y, cf, err, "stage '%s': give either a family or a canopy file, not both", s->name);
         char file[400], path[1024];
-        if ((rc = sr_yaml_string(y, cf, file, sizeof file, err)))
-            return rc;
-        sr_mission_relative_path(path, sizeof path, m->path, file);
-        snprintf(s->file, sizeof s->file, "%s", path);
-        sr_error e;
-        if ((rc = sr_catalog_load_canopy(&s->canopy, cat, path, &e)))
-            return sr_yaml_fail(y, cf, err, "%s", e.msg);
-        s->has_size = 1;
+        if (sr_yaml_get(y, n, "family"))
+            SR_YAML_STEP(rc = sr_yaml_fail(y, cf, err, "stage '%s': give either a family or a canopy file, not both",
+                                           s->name));
+        else
+            SR_YAML_STEP(rc = sr_yaml_string(y, cf, file, sizeof file, err));
+        if (!rc) {
+            sr_mission_relative_path(path, sizeof path, m->path, file);
+            snprintf(s->file, sizeof s->file, "%s", path);
+            sr_error e;
+            if (sr_catalog_load_canopy(&s->canopy, cat, path, &e))
+                SR_YAML_STEP(sr_yaml_fail(y, cf, err, "%s", e.msg));
+            s->has_size = 1;
+        }
     } else {
-        if ((rc = sr_catalog_canopy_from_node(&s->canopy, cat, y, n, 1, &s->has_size, err)))
-            return rc;
+        SR_YAML_STEP(sr_catalog_canopy_from_node(&s->canopy, cat, y, n, 1, &s->has_size, err));
     }
-    if ((rc = parse_deploy(y, n, s, idx, err)))
-        return rc;
+    SR_YAML_STEP(parse_deploy(y, n, s, idx, err));
     yaml_node_t *cn = sr_yaml_get(y, n, "carries");
     s->carries = idx == 0 ? (sr_section_set)((1u << m->nsections) - 1u) : m->stages[idx - 1].carries;
-    if (cn && (rc = parse_section_set(m, y, cn, &s->carries, err)))
-        return rc;
+    if (cn)
+        SR_YAML_STEP(parse_section_set(m, y, cn, &s->carries, err));
     s->keep_previous = 1;
     yaml_node_t *pn = sr_yaml_get(y, n, "previous");
     if (pn) {
         char v[16];
-        if ((rc = sr_yaml_string(y, pn, v, sizeof v, err)))
-            return rc;
-        if (strcmp(v, "keep") == 0)
+        SR_YAML_STEP(rc = sr_yaml_string(y, pn, v, sizeof v, err));
+        if (rc)
+            ;
+        else if (strcmp(v, "keep") == 0)
             s->keep_previous = 1;
         else if (strcmp(v, "release") == 0)
             s->keep_previous = 0;
         else
-            return sr_yaml_fail(y, pn, err, "previous must be 'keep' (earlier canopies stay on the line and keep "
-                                            "their drag) or 'release' (they are cut away), not '%s'",
-                                v);
+            SR_YAML_STEP(sr_yaml_fail(y, pn, err, "previous must be 'keep' (earlier canopies stay on the line and "
+                                                  "keep their drag) or 'release' (they are cut away), not '%s'",
+                                      v));
     }
     s->line_stretch = 0.0;
     yaml_node_t *ln = sr_yaml_get(y, n, "line-stretch");
     if (ln) {
-        if ((rc = sr_yaml_quantity(y, ln, SR_Q_TIME, &s->line_stretch, err)))
-            return rc;
-        if (!(s->line_stretch >= 0.0 && s->line_stretch <= 60.0))
-            return sr_yaml_fail(y, ln, err, "line-stretch (time from deployment to line stretch) must be between 0 s "
-                                            "and 60 s");
+        SR_YAML_STEP(rc = sr_yaml_quantity(y, ln, SR_Q_TIME, &s->line_stretch, err));
+        if (!rc && !(s->line_stretch >= 0.0 && s->line_stretch <= 60.0))
+            SR_YAML_STEP(sr_yaml_fail(y, ln, err, "line-stretch (time from deployment to line stretch) must be "
+                                                  "between 0 s and 60 s"));
     }
-    return SR_OK;
+    return acc;
 }
 
 /* body: {shape: sphere|cylinder|disk, diameter:, length: (cylinder), curve: (a built-in one of the shape)}
@@ -379,9 +386,45 @@ static int parse_body(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_section *sec
     return SR_OK;
 }
 
-static int parse_sections(sr_mission *m, sr_yaml *y, yaml_node_t *secs, sr_error *err)
+/* A section's mass: one value, or a band {low:, typical:, high:} (typical: the midpoint). */
+static int parse_mass(sr_yaml *y, yaml_node_t *mn, sr_section *sec, sr_error *err)
 {
     int rc;
+    if (mn->type == YAML_MAPPING_NODE) {
+        /* a band: mass: {low: 3.3 kg, typical: 3.4 kg, high: 3.6 kg} (typical: the midpoint) */
+        if ((rc = sr_yaml_check_map(y, mn, "mass", MASS_KEYS, MASS_REQ, err)))
+            return rc;
+        const char *names[3] = {"low", "typical", "high"};
+        double v[3] = {NAN, NAN, NAN};
+        for (int k = 0; k < 3; k++) {
+            yaml_node_t *vn = sr_yaml_get(y, mn, names[k]);
+            if (!vn)
+                continue;
+            if ((rc = sr_yaml_quantity(y, vn, SR_Q_MASS, &v[k], err)))
+                return rc;
+            if (!(v[k] > 0.0 && v[k] <= 10000.0))
+                return sr_yaml_fail(y, vn, err, "section mass must be above 0 and at most 10000 kg");
+        }
+        if (isnan(v[1]))
+            v[1] = 0.5 * (v[0] + v[2]);
+        if (!(v[0] <= v[1] && v[1] <= v[2]))
+            return sr_yaml_fail(y, mn, err, "mass: low <= typical <= high does not hold");
+        sec->mass_lo = v[0];
+        sec->mass = v[1];
+        sec->mass_hi = v[2];
+    } else {
+        if ((rc = sr_yaml_quantity(y, mn, SR_Q_MASS, &sec->mass, err)))
+            return rc;
+        if (!(sec->mass > 0.0 && sec->mass <= 10000.0))
+            return sr_yaml_fail(y, mn, err, "section mass must be above 0 and at most 10000 kg");
+        sec->mass_lo = sec->mass_hi = sec->mass;
+    }
+    return SR_OK;
+}
+
+static int parse_sections(sr_mission *m, sr_yaml *y, yaml_node_t *secs, sr_error *err)
+{
+    int rc, acc = SR_OK;
     if ((rc = sr_yaml_require_seq(y, secs, "sections", 1, SR_MISSION_MAX_SECTIONS, err)))
         return rc;
     m->nsections = sr_yaml_seq_len(secs);
@@ -389,59 +432,37 @@ static int parse_sections(sr_mission *m, sr_yaml *y, yaml_node_t *secs, sr_error
         yaml_node_t *s = sr_yaml_seq_at(y, secs, i);
         sr_section *sec = &m->sections[i];
         sec->rigid_with = -1;
-        if ((rc = sr_yaml_check_map(y, s, "a section", SECTION_KEYS, SECTION_REQ, err)))
-            return rc;
-        if ((rc = sr_yaml_string(y, sr_yaml_get(y, s, "name"), sec->name, sizeof sec->name, err)))
-            return rc;
-        yaml_node_t *mn = sr_yaml_get(y, s, "mass");
-        if (mn && mn->type == YAML_MAPPING_NODE) {
-            /* a band: mass: {low: 3.3 kg, typical: 3.4 kg, high: 3.6 kg} (typical: the midpoint) */
-            if ((rc = sr_yaml_check_map(y, mn, "mass", MASS_KEYS, MASS_REQ, err)))
-                return rc;
-            const char *names[3] = {"low", "typical", "high"};
-            double v[3] = {NAN, NAN, NAN};
-            for (int k = 0; k < 3; k++) {
-                yaml_node_t *vn = sr_yaml_get(y, mn, names[k]);
-                if (!vn)
-                    continue;
-                if ((rc = sr_yaml_quantity(y, vn, SR_Q_MASS, &v[k], err)))
-                    return rc;
-                if (!(v[k] > 0.0 && v[k] <= 10000.0))
-                    return sr_yaml_fail(y, vn, err, "section mass must be above 0 and at most 10000 kg");
-            }
-            if (isnan(v[1]))
-                v[1] = 0.5 * (v[0] + v[2]);
-            if (!(v[0] <= v[1] && v[1] <= v[2]))
-                return sr_yaml_fail(y, mn, err, "mass: low <= typical <= high does not hold");
-            sec->mass_lo = v[0];
-            sec->mass = v[1];
-            sec->mass_hi = v[2];
-        } else {
-            if ((rc = sr_yaml_quantity(y, mn, SR_Q_MASS, &sec->mass, err)))
-                return rc;
-            if (!(sec->mass > 0.0 && sec->mass <= 10000.0))
-                return sr_yaml_fail(y, mn, err, "section mass must be above 0 and at most 10000 kg");
-            sec->mass_lo = sec->mass_hi = sec->mass;
+        if (!s || s->type != YAML_MAPPING_NODE) {
+            SR_YAML_STEP(sr_yaml_check_map(y, s, "a section", SECTION_KEYS, SECTION_REQ, err));
+            continue;
         }
-        for (size_t j = 0; j < i; j++)
-            if (strcmp(m->sections[j].name, sec->name) == 0)
-                return sr_yaml_fail(y, s, err, "two sections are named '%s'", sec->name);
+        /* each part of each section on its own: check names every problem */
+        SR_YAML_STEP(sr_yaml_check_map(y, s, "a section", SECTION_KEYS, SECTION_REQ, err));
+        yaml_node_t *nm = sr_yaml_get(y, s, "name");
+        if (nm) {
+            SR_YAML_STEP(rc = sr_yaml_string(y, nm, sec->name, sizeof sec->name, err));
+            for (size_t j = 0; j < i && !rc; j++)
+                if (strcmp(m->sections[j].name, sec->name) == 0)
+                    SR_YAML_STEP(rc = sr_yaml_fail(y, s, err, "two sections are named '%s'", sec->name));
+        }
+        yaml_node_t *mn = sr_yaml_get(y, s, "mass");
+        if (mn)
+            SR_YAML_STEP(parse_mass(y, mn, sec, err));
         yaml_node_t *an = sr_yaml_get(y, s, "drag-area");
         if (an) {
-            if ((rc = sr_yaml_quantity(y, an, SR_Q_AREA, &sec->drag_area, err)))
-                return rc;
-            if (!(sec->drag_area >= 0.0 && sec->drag_area <= 100.0))
-                return sr_yaml_fail(y, an, err, "a section's drag area must be between 0 and 100 m2");
+            SR_YAML_STEP(rc = sr_yaml_quantity(y, an, SR_Q_AREA, &sec->drag_area, err));
+            if (!rc && !(sec->drag_area >= 0.0 && sec->drag_area <= 100.0))
+                SR_YAML_STEP(sr_yaml_fail(y, an, err, "a section's drag area must be between 0 and 100 m2"));
         }
         yaml_node_t *bn = sr_yaml_get(y, s, "body");
         if (bn) {
             if (an)
-                return sr_yaml_fail(y, sr_yaml_key_node(y, s, "body"), err,
-                                    "section '%s': give either drag-area: (a constant drag area) or body: (drag "
-                                    "that depends on the Reynolds number), not both",
-                                    sec->name);
-            if ((rc = parse_body(m, y, bn, sec, err)))
-                return rc;
+                SR_YAML_STEP(sr_yaml_fail(y, sr_yaml_key_node(y, s, "body"), err,
+                                          "section '%s': give either drag-area: (a constant drag area) or body: "
+                                          "(drag that depends on the Reynolds number), not both",
+                                          sec->name));
+            else
+                SR_YAML_STEP(parse_body(m, y, bn, sec, err));
         }
     }
     /* rigid-with names a section: all names are known now */
@@ -450,15 +471,16 @@ static int parse_sections(sr_mission *m, sr_yaml *y, yaml_node_t *secs, sr_error
         if (!rn)
             continue;
         char name[SR_NAME_MAX];
-        if ((rc = sr_yaml_string(y, rn, name, sizeof name, err)))
-            return rc;
+        SR_YAML_STEP(rc = sr_yaml_string(y, rn, name, sizeof name, err));
+        if (rc)
+            continue;
         for (size_t j = 0; j < m->nsections; j++)
             if (j != i && strcmp(m->sections[j].name, name) == 0)
                 m->sections[i].rigid_with = (int)j;
         if (m->sections[i].rigid_with < 0)
-            return sr_yaml_fail(y, rn, err, "rigid-with must name another section, and '%s' is not one", name);
+            SR_YAML_STEP(sr_yaml_fail(y, rn, err, "rigid-with must name another section, and '%s' is not one", name));
     }
-    return SR_OK;
+    return acc;
 }
 
 /* Walk the stages in file order as the sections come apart and check that
@@ -586,29 +608,10 @@ static int parse_start(sr_mission *m, sr_yaml *y, yaml_node_t *start, yaml_node_
     return SR_OK;
 }
 
-static int parse_limits(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *err)
+/* limits: landing-energy-basis, rated-strength with design-factor (first problem). */
+static int parse_limit_strength(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *err)
 {
     int rc;
-    if ((rc = sr_yaml_check_map(y, lim, "limits", LIMIT_KEYS, NULL, err)))
-        return rc;
-    struct {
-        const char *key;
-        sr_quantity q;
-        double *dst;
-    } L[] = {{"touchdown-speed", SR_Q_SPEED, &m->limit_speed},
-             {"landing-energy", SR_Q_ENERGY, &m->limit_energy},
-             {"descent-time", SR_Q_TIME, &m->limit_time},
-             {"drift", SR_Q_LENGTH, &m->limit_drift},
-             {"deployment-pressure", SR_Q_PRESSURE, &m->limit_deploy_q}};
-    for (size_t i = 0; i < sizeof L / sizeof L[0]; i++) {
-        yaml_node_t *n = sr_yaml_get(y, lim, L[i].key);
-        if (!n)
-            continue;
-        if ((rc = sr_yaml_quantity(y, n, L[i].q, L[i].dst, err)))
-            return rc;
-        if (!(*L[i].dst > 0.0))
-            return sr_yaml_fail(y, n, err, "limit %s must be positive", L[i].key);
-    }
     yaml_node_t *bn = sr_yaml_get(y, lim, "landing-energy-basis");
     if (bn) {
         char v[32];
@@ -665,6 +668,33 @@ static int parse_limits(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *e
     for (size_t k = 0; k < m->nstages; k++)
         m->limit_rated[k] = v;
     return SR_OK;
+}
+
+static int parse_limits(sr_mission *m, sr_yaml *y, yaml_node_t *lim, sr_error *err)
+{
+    int rc, acc = SR_OK;
+    if (!lim || lim->type != YAML_MAPPING_NODE)
+        return sr_yaml_check_map(y, lim, "limits", LIMIT_KEYS, NULL, err);
+    SR_YAML_STEP(sr_yaml_check_map(y, lim, "limits", LIMIT_KEYS, NULL, err));
+    struct {
+        const char *key;
+        sr_quantity q;
+        double *dst;
+    } L[] = {{"touchdown-speed", SR_Q_SPEED, &m->limit_speed},
+             {"landing-energy", SR_Q_ENERGY, &m->limit_energy},
+             {"descent-time", SR_Q_TIME, &m->limit_time},
+             {"drift", SR_Q_LENGTH, &m->limit_drift},
+             {"deployment-pressure", SR_Q_PRESSURE, &m->limit_deploy_q}};
+    for (size_t i = 0; i < sizeof L / sizeof L[0]; i++) {
+        yaml_node_t *n = sr_yaml_get(y, lim, L[i].key);
+        if (!n)
+            continue;
+        SR_YAML_STEP(rc = sr_yaml_quantity(y, n, L[i].q, L[i].dst, err));
+        if (!rc && !(*L[i].dst > 0.0))
+            SR_YAML_STEP(sr_yaml_fail(y, n, err, "limit %s must be positive", L[i].key));
+    }
+    SR_YAML_STEP(parse_limit_strength(m, y, lim, err));
+    return acc;
 }
 
 /* Stage names, one or a list: fails: main, only: [drogue]. */
@@ -778,7 +808,7 @@ static int parse_failures(sr_mission *m, sr_yaml *y, yaml_node_t *list, sr_error
 
 int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err)
 {
-    int rc;
+    int rc, acc = SR_OK;
     /* defaults of the keys this reader owns (callers may have zeroed the struct) */
     m->start_heading = NAN;
     m->limit_deploy_q = NAN;
@@ -786,42 +816,59 @@ int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error 
     for (size_t k = 0; k < SR_MISSION_MAX_STAGES; k++)
         m->limit_rated[k] = NAN;
     yaml_node_t *root = sr_yaml_root(y);
-    if ((rc = sr_yaml_check_map(y, root, "the mission file", TOP_KEYS, TOP_REQ, err)))
-        return rc;
-    if ((rc = sr_yaml_string(y, sr_yaml_get(y, root, "mission"), m->name, sizeof m->name, err)))
-        return rc;
+    if (!root || root->type != YAML_MAPPING_NODE)
+        return sr_yaml_check_map(y, root, "the mission file", TOP_KEYS, TOP_REQ, err);
+    /* Block by block: without a list of problems the first one stops the
+     * reader; with one (check) every block is read and every problem kept,
+     * except what needs an earlier block that failed (the structure of the
+     * stages needs good sections and stages). */
+    SR_YAML_STEP(sr_yaml_check_map(y, root, "the mission file", TOP_KEYS, TOP_REQ, err));
+    yaml_node_t *nm = sr_yaml_get(y, root, "mission");
+    if (nm)
+        SR_YAML_STEP(sr_yaml_string(y, nm, m->name, sizeof m->name, err));
     yaml_node_t *site = sr_yaml_get(y, root, "site");
-    if (site && (rc = parse_site(m, y, site, err)))
-        return rc;
+    if (site)
+        SR_YAML_STEP(parse_site(m, y, site, err));
     yaml_node_t *secs = sr_yaml_get(y, root, "sections");
-    if ((rc = parse_sections(m, y, secs, err)))
-        return rc;
-    yaml_node_t *stages = sr_yaml_get(y, root, "stages");
-    if ((rc = sr_yaml_require_seq(y, stages, "stages", 1, SR_MISSION_MAX_STAGES, err)))
-        return rc;
-    m->nstages = sr_yaml_seq_len(stages);
-    for (size_t i = 0; i < m->nstages; i++) {
-        if ((rc = parse_stage(m, y, sr_yaml_seq_at(y, stages, i), cat, &m->stages[i], i, err)))
-            return rc;
-        for (size_t j = 0; j < i; j++)
-            if (strcmp(m->stages[j].name, m->stages[i].name) == 0)
-                return sr_yaml_fail(y, sr_yaml_seq_at(y, stages, i), err, "two stages are named '%s'",
-                                    m->stages[i].name);
+    int secs_ok = 0, stages_ok = 0;
+    if (secs) {
+        SR_YAML_STEP(rc = parse_sections(m, y, secs, err));
+        secs_ok = !rc;
     }
-    if ((rc = check_structure(m, y, stages, secs, err)))
-        return rc;
+    yaml_node_t *stages = sr_yaml_get(y, root, "stages");
+    if (stages) {
+        SR_YAML_STEP(rc = sr_yaml_require_seq(y, stages, "stages", 1, SR_MISSION_MAX_STAGES, err));
+        if (!rc && secs) {
+            stages_ok = 1;
+            m->nstages = sr_yaml_seq_len(stages);
+            for (size_t i = 0; i < m->nstages; i++) {
+                SR_YAML_STEP(rc = parse_stage(m, y, sr_yaml_seq_at(y, stages, i), cat, &m->stages[i], i, err));
+                stages_ok = stages_ok && !rc;
+                for (size_t j = 0; j < i && !rc; j++)
+                    if (strcmp(m->stages[j].name, m->stages[i].name) == 0)
+                        SR_YAML_STEP(rc = sr_yaml_fail(y, sr_yaml_seq_at(y, stages, i), err,
+                                                       "two stages are named '%s'", m->stages[i].name));
+            }
+        }
+    }
+    if (secs_ok && stages_ok)
+        SR_YAML_STEP(rc = check_structure(m, y, stages, secs, err));
+    else
+        stages_ok = 0;
     yaml_node_t *start = sr_yaml_get(y, root, "start");
-    if (start && (rc = parse_start(m, y, start, stages, err)))
-        return rc;
+    if (start && stages_ok)
+        SR_YAML_STEP(parse_start(m, y, start, stages, err));
     yaml_node_t *lim = sr_yaml_get(y, root, "limits");
-    if (lim && (rc = parse_limits(m, y, lim, err)))
-        return rc;
+    if (lim)
+        SR_YAML_STEP(parse_limits(m, y, lim, err));
     yaml_node_t *fc = sr_yaml_get(y, root, "failure-cases");
-    if (fc && (rc = parse_failures(m, y, fc, err)))
-        return rc;
-    if ((rc = sr_mission_parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err)))
-        return rc;
-    return sr_mission_parse_design(m, y, sr_yaml_get(y, root, "design"), cat, err);
+    if (fc && stages_ok)
+        SR_YAML_STEP(parse_failures(m, y, fc, err));
+    if (stages_ok || !acc)
+        SR_YAML_STEP(sr_mission_parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err));
+    if (stages_ok)
+        SR_YAML_STEP(sr_mission_parse_design(m, y, sr_yaml_get(y, root, "design"), cat, err));
+    return acc;
 }
 
 static void mission_init(sr_mission *m, const char *path)

@@ -281,28 +281,26 @@ int sr_mission_parse_uncertainty(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_e
     set_default_drag(m);
     if (!n)
         return SR_OK;
-    int rc;
-    if ((rc = sr_yaml_check_map(y, n, "uncertainty", UNC_KEYS, NULL, err)))
-        return rc;
+    int acc = SR_OK; /* each distribution on its own: check names every problem */
+    if (n->type != YAML_MAPPING_NODE)
+        return sr_yaml_check_map(y, n, "uncertainty", UNC_KEYS, NULL, err);
+    SR_YAML_STEP(sr_yaml_check_map(y, n, "uncertainty", UNC_KEYS, NULL, err));
     u->given = 1;
     yaml_node_t *v;
-    if ((v = sr_yaml_get(y, n, "drag")) && (rc = parse_drag(m, y, v, err)))
-        return rc;
+    if ((v = sr_yaml_get(y, n, "drag")))
+        SR_YAML_STEP(parse_drag(m, y, v, err));
     if ((v = sr_yaml_get(y, n, "mass"))) {
         dist_ctx c = {.what = "mass", .q = SR_Q_MASS, .mode = SPREAD_SCALE, .nominal = sr_mission_total_mass(m)};
-        if ((rc = parse_dist(y, v, &c, &u->mass, NULL, err)))
-            return rc;
+        SR_YAML_STEP(parse_dist(y, v, &c, &u->mass, NULL, err));
     }
     if ((v = sr_yaml_get(y, n, "wind-speed"))) {
         dist_ctx c = {.what = "wind-speed", .q = SR_Q_SPEED, .mode = SPREAD_EITHER};
-        if ((rc = parse_dist(y, v, &c, &u->wind_speed, NULL, err)))
-            return rc;
+        SR_YAML_STEP(parse_dist(y, v, &c, &u->wind_speed, NULL, err));
     }
     if ((v = sr_yaml_get(y, n, "wind-direction"))) {
         dist_ctx c = {.what = "wind-direction", .q = SR_Q_ANGLE, .mode = SPREAD_ABS, .max_abs = PI + 1e-9,
                       .max_why = "beyond 180 deg"};
-        if ((rc = parse_dist(y, v, &c, &u->wind_dir, NULL, err)))
-            return rc;
+        SR_YAML_STEP(parse_dist(y, v, &c, &u->wind_dir, NULL, err));
     }
     char why[160];
     if ((v = sr_yaml_get(y, n, "first-deployment"))) {
@@ -323,28 +321,28 @@ int sr_mission_parse_uncertainty(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_e
             if (!(c.max_up > 0.0))
                 c.max_up = 1e-9; /* a start at the very top leaves no room at all */
         }
-        if ((rc = parse_dist(y, v, &c, &u->start_height, NULL, err)))
-            return rc;
+        SR_YAML_STEP(parse_dist(y, v, &c, &u->start_height, NULL, err));
     }
     if ((v = sr_yaml_get(y, n, "deployment-height"))) {
         if (!u->height_stages)
-            return sr_yaml_fail(y, v, err,
-                                "uncertainty deployment-height: no stage deploys at a height, so there is nothing "
-                                "to vary");
-        snprintf(why, sizeof why, "the ground from the lowest deployment at %.0f m", lowest_height);
-        dist_ctx c = {.what = "deployment-height", .q = SR_Q_LENGTH, .mode = SPREAD_ABS, .max_abs = lowest_height,
-                      .max_why = why};
-        if ((rc = parse_dist(y, v, &c, &u->deploy_height, NULL, err)))
-            return rc;
+            SR_YAML_STEP(sr_yaml_fail(y, v, err,
+                                      "uncertainty deployment-height: no stage deploys at a height, so there is "
+                                      "nothing to vary"));
+        else {
+            snprintf(why, sizeof why, "the ground from the lowest deployment at %.0f m", lowest_height);
+            dist_ctx c = {.what = "deployment-height", .q = SR_Q_LENGTH, .mode = SPREAD_ABS,
+                          .max_abs = lowest_height, .max_why = why};
+            SR_YAML_STEP(parse_dist(y, v, &c, &u->deploy_height, NULL, err));
+        }
     }
     if ((v = sr_yaml_get(y, n, "deployment-delay"))) {
-        if (!u->delay_stages)
-            return sr_yaml_fail(y, v, err,
-                                "uncertainty deployment-delay: no stage deploys after a delay, so there is nothing "
-                                "to vary");
         dist_ctx c = {.what = "deployment-delay", .q = SR_Q_TIME, .mode = SPREAD_ABS};
-        if ((rc = parse_dist(y, v, &c, &u->deploy_delay, NULL, err)))
-            return rc;
+        if (!u->delay_stages)
+            SR_YAML_STEP(sr_yaml_fail(y, v, err,
+                                      "uncertainty deployment-delay: no stage deploys after a delay, so there is "
+                                      "nothing to vary"));
+        else
+            SR_YAML_STEP(parse_dist(y, v, &c, &u->deploy_delay, NULL, err));
     }
-    return SR_OK;
+    return acc;
 }

@@ -18,11 +18,57 @@ int sr_yaml_fail(const sr_yaml *y, const yaml_node_t *n, sr_error *err, const ch
     va_start(ap, fmt);
     vsnprintf(msg, sizeof msg, fmt, ap);
     va_end(ap);
+    sr_error local;
+    if (!err)
+        err = &local;
     /* libyaml counts lines and columns from zero */
     if (n)
-        return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: %s", y->name, n->start_mark.line + 1,
-                            n->start_mark.column + 1, msg);
-    return sr_error_set(err, SR_EINVAL, "%s: %s", y->name, msg);
+        sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: %s", y->name, n->start_mark.line + 1, n->start_mark.column + 1,
+                     msg);
+    else
+        sr_error_set(err, SR_EINVAL, "%s: %s", y->name, msg);
+    sr_yaml_keep(y, err);
+    return SR_EINVAL;
+}
+
+void sr_yaml_keep(const sr_yaml *y, const sr_error *err)
+{
+    sr_yaml_errors *l = y ? y->errors : NULL;
+    if (!l || !err || !err->msg[0])
+        return;
+    for (size_t i = 0; i < l->n; i++)
+        if (strcmp(l->msg[i], err->msg) == 0)
+            return;
+    if (l->n < SR_YAML_MAX_ERRORS)
+        snprintf(l->msg[l->n++], sizeof l->msg[0], "%s", err->msg);
+    else
+        l->more++;
+}
+
+int sr_yaml_go_on(const sr_yaml *y, const sr_error *err, int rc, int *acc)
+{
+    if (rc == SR_OK)
+        return 1;
+    if (!y->errors || rc == SR_ENOMEM)
+        return 0;
+    sr_yaml_keep(y, err);
+    if (!*acc)
+        *acc = rc;
+    return 1;
+}
+
+/* Where libyaml stops at a tab: the tab's column on that line, 0 when the
+ * line has none before the place libyaml names. */
+static size_t tab_column(const char *buf, size_t len, size_t line, size_t upto)
+{
+    size_t l = 1, i = 0;
+    while (i < len && l < line)
+        if (buf[i++] == '\n')
+            l++;
+    for (size_t c = 1; i < len && buf[i] != '\n' && c <= upto + 1; i++, c++)
+        if (buf[i] == '\t')
+            return c;
+    return 0;
 }
 
 /* Before libyaml reads anything: a NUL byte means binary data. */
@@ -279,8 +325,12 @@ static int build(builder *b, yaml_parser_t *p, const char *buf, size_t len)
                         col = 0;
                     }
             }
+            size_t tab = p->error == YAML_MEMORY_ERROR ? 0 : tab_column(buf, len, line, col);
             if (p->error == YAML_MEMORY_ERROR)
                 rc = sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
+            else if (tab)
+                rc = sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: a tab character: YAML indents with spaces, never "
+                                  "tabs (replace it with spaces)", b->y->name, line, tab);
             else
                 rc = sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: malformed YAML: %s%s%s", b->y->name, line, col,
                                   p->problem ? p->problem : "syntax error", p->context ? " " : "",
@@ -327,9 +377,46 @@ static int build(builder *b, yaml_parser_t *p, const char *buf, size_t len)
     return rc;
 }
 
+/* Lines indented with a tab, each kept in the list (after libyaml has
+ * stopped at one: the rest of the file cannot be read, but every such line
+ * can be named at once). */
+static void keep_tab_lines(sr_yaml *y, const char *buf, size_t len)
+{
+    size_t line = 1;
+    for (size_t i = 0; i < len; line++) {
+        size_t c = 1;
+        int tab = 0;
+        while (i < len && (buf[i] == ' ' || buf[i] == '\t')) {
+            if (buf[i] == '\t' && !tab)
+                tab = (int)c;
+            i++;
+            c++;
+        }
+        if (tab && i < len && buf[i] != '\n' && buf[i] != '#') {
+            sr_error e;
+            sr_error_set(&e, SR_EINVAL, "%s:%zu:%d: a tab character: YAML indents with spaces, never tabs (replace "
+                         "it with spaces)", y->name, line, tab);
+            sr_yaml_keep(y, &e);
+        }
+        while (i < len && buf[i] != '\n')
+            i++;
+        i++;
+    }
+}
+
+static int load_string(sr_yaml *y, const char *name, const char *buf, size_t len, sr_yaml_errors *list,
+                       sr_error *err);
+
 int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t len, sr_error *err)
 {
+    return load_string(y, name, buf, len, NULL, err);
+}
+
+static int load_string(sr_yaml *y, const char *name, const char *buf, size_t len, sr_yaml_errors *list,
+                       sr_error *err)
+{
     memset(y, 0, sizeof *y);
+    y->errors = list;
     snprintf(y->name, sizeof y->name, "%s", name);
     if (len > SR_YAML_MAX_BYTES)
         return sr_error_set(err, SR_EINVAL, "%s: larger than 1 MiB; not a sinkrate file", name);
@@ -352,6 +439,9 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
         free(b.anchors[i].name);
     free(b.anchors);
     if (rc) {
+        sr_yaml_keep(y, err);
+        if (strstr(err->msg, "a tab character"))
+            keep_tab_lines(y, buf, len);
         sr_yaml_free(y);
         return rc;
     }
@@ -364,7 +454,13 @@ int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t le
 
 int sr_yaml_load_file(sr_yaml *y, const char *path, sr_error *err)
 {
+    return sr_yaml_load_file_all(y, path, NULL, err);
+}
+
+int sr_yaml_load_file_all(sr_yaml *y, const char *path, sr_yaml_errors *list, sr_error *err)
+{
     memset(y, 0, sizeof *y);
+    y->errors = list;
     FILE *f;
     int rc = sr_file_open_read(path, &f, err);
     if (rc)
@@ -381,7 +477,7 @@ int sr_yaml_load_file(sr_yaml *y, const char *path, sr_error *err)
         free(buf);
         return sr_error_set(err, SR_EIO, "%s: read error: %s", path, strerror(bad_errno));
     }
-    rc = sr_yaml_load_string(y, path, buf, len, err);
+    rc = load_string(y, path, buf, len, list, err);
     free(buf);
     return rc;
 }
@@ -461,11 +557,19 @@ int sr_yaml_check_map(const sr_yaml *y, yaml_node_t *n, const char *what, const 
     if (!n || n->type != YAML_MAPPING_NODE)
         return sr_yaml_fail(y, n, err, "%s must be a mapping of keys to values", what);
     yaml_document_t *d = (yaml_document_t *)&y->doc;
+    int acc = SR_OK; /* with a list: every unknown, repeated and missing key */
+    const char *suggested[32]; /* a misspelt key is not also a missing one */
+    size_t nsug = 0;
     for (yaml_node_pair_t *p = n->data.mapping.pairs.start; p < n->data.mapping.pairs.top; p++) {
         yaml_node_t *k = yaml_document_get_node(d, p->key);
         const char *ks = scalar_of(k);
-        if (!ks)
-            return sr_yaml_fail(y, k, err, "%s: keys must be plain words", what);
+        int rc = SR_OK;
+        if (!ks) {
+            rc = sr_yaml_fail(y, k, err, "%s: keys must be plain words", what);
+            if (!sr_yaml_go_on(y, err, rc, &acc))
+                return rc;
+            continue;
+        }
         int known = 0;
         for (const char *const *a = allowed; *a; a++)
             if (strcmp(*a, ks) == 0)
@@ -474,20 +578,32 @@ int sr_yaml_check_map(const sr_yaml *y, yaml_node_t *n, const char *what, const 
             const char *s = sr_yaml_suggest(ks, allowed);
             char list[400];
             list_words(list, sizeof list, allowed);
+            if (s && nsug < sizeof suggested / sizeof suggested[0])
+                suggested[nsug++] = s;
             if (s)
-                return sr_yaml_fail(y, k, err, "unknown key '%s' in %s; did you mean '%s'?", ks, what, s);
-            return sr_yaml_fail(y, k, err, "unknown key '%s' in %s (allowed: %s)", ks, what, list);
+                rc = sr_yaml_fail(y, k, err, "unknown key '%s' in %s; did you mean '%s'?", ks, what, s);
+            else
+                rc = sr_yaml_fail(y, k, err, "unknown key '%s' in %s (allowed: %s)", ks, what, list);
         }
-        for (yaml_node_pair_t *q = n->data.mapping.pairs.start; q < p; q++) {
+        for (yaml_node_pair_t *q = n->data.mapping.pairs.start; q < p && !rc; q++) {
             const char *qs = scalar_of(yaml_document_get_node(d, q->key));
             if (qs && strcmp(qs, ks) == 0)
-                return sr_yaml_fail(y, k, err, "duplicate key '%s' in %s", ks, what);
+                rc = sr_yaml_fail(y, k, err, "duplicate key '%s' in %s", ks, what);
+        }
+        if (!sr_yaml_go_on(y, err, rc, &acc))
+            return rc;
+    }
+    for (const char *const *r = required; r && *r; r++) {
+        int misspelt = 0;
+        for (size_t k = 0; k < nsug; k++)
+            misspelt |= strcmp(suggested[k], *r) == 0;
+        if (!sr_yaml_get(y, n, *r) && !misspelt) {
+            int rc = sr_yaml_fail(y, n, err, "%s is missing the required key '%s'", what, *r);
+            if (!sr_yaml_go_on(y, err, rc, &acc))
+                return rc;
         }
     }
-    for (const char *const *r = required; r && *r; r++)
-        if (!sr_yaml_get(y, n, *r))
-            return sr_yaml_fail(y, n, err, "%s is missing the required key '%s'", what, *r);
-    return SR_OK;
+    return acc;
 }
 
 yaml_node_t *sr_yaml_key_node(const sr_yaml *y, yaml_node_t *n, const char *key)

@@ -18,13 +18,46 @@
 #define SR_YAML_MAX_DEPTH 16
 #define SR_YAML_MAX_ANCHORS 1000
 
+/* Every problem of a file at once (`sinkrate check`): a list attached to the
+ * reader keeps each positioned error, and the readers go on after one where
+ * the structure allows (the next key, list item or block), as a compiler
+ * does. Without a list a reader stops at the first problem. */
+#define SR_YAML_MAX_ERRORS 64
+typedef struct sr_yaml_errors {
+    char msg[SR_YAML_MAX_ERRORS][SR_ERROR_MSG_MAX];
+    size_t n;      /* kept */
+    size_t more;   /* beyond SR_YAML_MAX_ERRORS, counted only */
+} sr_yaml_errors;
+
 typedef struct sr_yaml {
     yaml_document_t doc;
     int loaded;
-    char name[512];   /* file name for messages */
+    char name[512];          /* file name for messages */
+    sr_yaml_errors *errors;  /* NULL: stop at the first problem */
 } sr_yaml;
 
 int sr_yaml_load_file(sr_yaml *y, const char *path, sr_error *err);
+/* The same with a list for every problem (it stays attached for the readers). */
+int sr_yaml_load_file_all(sr_yaml *y, const char *path, sr_yaml_errors *list, sr_error *err);
+
+/* Keep err's message in the reader's list (once). */
+void sr_yaml_keep(const sr_yaml *y, const sr_error *err);
+
+/* After a step of a reader that returned rc: 1 to go on with the next part
+ * (rc was 0, or the reader keeps every problem and this one is kept, *acc
+ * then remembers it), 0 to stop and return rc (no list, or out of memory). */
+int sr_yaml_go_on(const sr_yaml *y, const sr_error *err, int rc, int *acc);
+
+/* One step of a reader that has `sr_yaml *y`, `sr_error *err` and `int acc`
+ * (its result so far): a problem is kept and the reader goes on, or, with
+ * no list, the reader returns it. Steps that need an earlier one to have
+ * succeeded test that themselves. */
+#define SR_YAML_STEP(call)                                                                                    \
+    do {                                                                                                      \
+        int rc_ = (call);                                                                                     \
+        if (rc_ && !sr_yaml_go_on(y, err, rc_, &acc))                                                         \
+            return rc_;                                                                                       \
+    } while (0)
 int sr_yaml_load_string(sr_yaml *y, const char *name, const char *buf, size_t len, sr_error *err);
 void sr_yaml_free(sr_yaml *y);
 

@@ -2,6 +2,7 @@
  * them is plot_render.c). */
 #define _DEFAULT_SOURCE
 #include "output/plot.h"
+#include "output/plot_int.h"
 
 #include <errno.h>
 #include <fcntl.h>
@@ -16,55 +17,6 @@
 #include "output/txn.h"
 #include "output/report.h"
 #include "base/version.h"
-
-typedef struct pblock {
-    char *title;
-    size_t ncols;
-    char **names;
-    double *v;     /* row-major */
-    size_t nrows, cap;
-} pblock;
-
-typedef struct pseries {
-    sr_plot_series s;
-    char *title;
-} pseries;
-
-typedef struct pmarker {
-    int panel;
-    char axis;
-    double value;
-    char *label;
-    int style;
-} pmarker;
-
-typedef struct plabel {
-    int panel;
-    double x, y;
-    char *text;
-} plabel;
-
-typedef struct paxes {
-    char *title, *xlabel, *ylabel;
-    int xlog, ylog, equal, xtight, ytight;
-    double xmin, xmax, ymin, ymax;
-    sr_plot_key key;
-} paxes;
-
-struct sr_plot {
-    char *title, *subtitle;
-    int panels, stacked;
-    paxes axes[SR_PLOT_MAX_PANELS];
-    pblock *blocks;
-    size_t nblocks;
-    pseries *series;
-    size_t nseries;
-    pmarker *markers;
-    size_t nmarkers;
-    plabel *labels;
-    size_t nlabels;
-    int next_color;
-};
 
 static char *dupstr(const char *s)
 {
@@ -245,6 +197,9 @@ int sr_plot_add(sr_plot *p, const sr_plot_series *s)
     case SR_PLOT_BOXES:
         ok = col_ok(s->x, nc, 1) && col_ok(s->y, nc, 1) && col_ok(s->w, nc, 0);
         break;
+    case SR_PLOT_VECTORS:
+        ok = col_ok(s->x, nc, 1) && col_ok(s->y, nc, 1) && col_ok(s->w, nc, 1) && col_ok(s->h, nc, 1);
+        break;
     default:
         ok = 0;
     }
@@ -270,7 +225,7 @@ int sr_plot_add(sr_plot *p, const sr_plot_series *s)
 int sr_plot_marker(sr_plot *p, int panel, char axis, double value, const char *label, int style)
 {
     if (panel < 0 || panel >= SR_PLOT_MAX_PANELS || (axis != 'x' && axis != 'y') || !isfinite(value) ||
-        style < 0 || style > 1 || p->nmarkers >= 32)
+        style < 0 || style > 1 || p->nmarkers >= SR_PLOT_MAX_MARKERS)
         return SR_EINVAL;
     pmarker *n = realloc(p->markers, (p->nmarkers + 1) * sizeof *n);
     if (!n)
@@ -290,7 +245,7 @@ int sr_plot_marker(sr_plot *p, int panel, char axis, double value, const char *l
 
 int sr_plot_label(sr_plot *p, int panel, double x, double y, const char *text)
 {
-    if (panel < 0 || panel >= SR_PLOT_MAX_PANELS || !isfinite(x) || !isfinite(y) || !text || p->nlabels >= 32)
+    if (panel < 0 || panel >= SR_PLOT_MAX_PANELS || !isfinite(x) || !isfinite(y) || !text || p->nlabels >= SR_PLOT_MAX_LABELS)
         return SR_EINVAL;
     plabel *n = realloc(p->labels, (p->nlabels + 1) * sizeof *n);
     if (!n)
@@ -490,143 +445,63 @@ static int kind_order(sr_plot_kind k)
     case SR_PLOT_LINES:
     case SR_PLOT_LINESPOINTS:
         return 3;
-    default:
+    case SR_PLOT_VECTORS:
         return 4;
+    default:
+        return 5;
     }
 }
 
-static void grow(double *lo, double *hi, double v)
+/* The drawing order of a series: 0 first (bottom) .. 6 last (top). */
+static int series_order(const sr_plot_series *s)
 {
-    if (isfinite(v)) {
-        if (v < *lo)
-            *lo = v;
-        if (v > *hi)
-            *hi = v;
-    }
+    return s->front ? 6 : kind_order(s->kind);
 }
 
-/* Extent of the data of a panel along one axis: the columns each series
- * draws there. */
-static void data_extent(const sr_plot *p, int panel, char axis, double *lo, double *hi)
+/* A panel's range of one axis as the layout decided it (gnuplot's autoscale
+ * only when the panel has no data to decide from). */
+static void write_range(FILE *f, char axis, double lo, double hi)
 {
-    *lo = INFINITY;
-    *hi = -INFINITY;
-    for (size_t i = 0; i < p->nseries; i++) {
-        const sr_plot_series *s = &p->series[i].s;
-        if (s->panel != panel)
-            continue;
-        int cols[3] = {0, 0, 0};
-        int along_x = axis == 'x';
-        switch (s->kind) {
-        case SR_PLOT_BAND:
-            cols[0] = along_x ? s->x : s->lo;
-            cols[1] = along_x ? 0 : s->hi;
-            break;
-        case SR_PLOT_BAND_X:
-            cols[0] = along_x ? s->lo : s->y;
-            cols[1] = along_x ? s->hi : 0;
-            break;
-        default:
-            cols[0] = along_x ? s->x : s->y;
-        }
-        const pblock *b = &p->blocks[s->block];
-        for (size_t r = 0; r < b->nrows; r++)
-            for (int k = 0; k < 3; k++)
-                if (cols[k])
-                    grow(lo, hi, b->v[r * b->ncols + cols[k] - 1]);
-    }
-}
-
-static void write_range(FILE *f, const sr_plot *p, int panel, char axis, double lo, double hi)
-{
-    const paxes *a = &p->axes[panel];
-    if ((axis == 'x' ? a->xtight : a->ytight) && (isnan(lo) || isnan(hi))) {
-        double dlo, dhi;
-        data_extent(p, panel, axis, &dlo, &dhi);
-        for (size_t i = 0; i < p->nmarkers; i++)
-            if (p->markers[i].panel == panel && p->markers[i].axis == axis)
-                grow(&dlo, &dhi, p->markers[i].value);
-        if (isfinite(dlo) && dhi == dlo) {
-            /* one value: a small span around it rather than an empty range */
-            double pad = dlo != 0.0 ? 0.05 * fabs(dlo) : 1.0;
-            dlo -= pad;
-            dhi += pad;
-        }
-        if (isfinite(dlo) && dhi > dlo) {
-            if (isnan(lo))
-                lo = dlo;
-            if (isnan(hi))
-                hi = dhi;
-        }
-    }
-    /* autoscaled ends stretch to include every marker on this axis, and the
-     * whole of every ellipse (gnuplot autoscales on their centres only) */
-    double mlo = INFINITY, mhi = -INFINITY;
-    for (size_t i = 0; i < p->nmarkers; i++)
-        if (p->markers[i].panel == panel && p->markers[i].axis == axis) {
-            if (p->markers[i].value < mlo)
-                mlo = p->markers[i].value;
-            if (p->markers[i].value > mhi)
-                mhi = p->markers[i].value;
-        }
-    for (size_t i = 0; i < p->nseries; i++) {
-        const sr_plot_series *s = &p->series[i].s;
-        if (s->panel != panel || s->kind != SR_PLOT_ELLIPSES)
-            continue;
-        const pblock *b = &p->blocks[s->block];
-        for (size_t r = 0; r < b->nrows; r++) {
-            const double *row = b->v + r * b->ncols;
-            double c = row[(axis == 'x' ? s->x : s->y) - 1];
-            double half = 0.5 * fmax(fabs(row[s->w - 1]), fabs(row[s->h - 1]));
-            grow(&mlo, &mhi, c - half);
-            grow(&mlo, &mhi, c + half);
-        }
-    }
     fprintf(f, "set %crange [", axis);
-    if (!isnan(lo))
+    if (isfinite(lo) && isfinite(hi)) {
         gpnum(f, lo);
-    else if (isfinite(mlo))
-        fprintf(f, "*<%.9g", mlo);
-    else
-        fputc('*', f);
-    fputc(':', f);
-    if (!isnan(hi))
+        fputc(':', f);
         gpnum(f, hi);
-    else if (isfinite(mhi))
-        fprintf(f, "%.9g<*", mhi);
-    else
+    } else {
         fputc('*', f);
+        fputc(':', f);
+        fputc('*', f);
+    }
     fputs("]\n", f);
 }
 
-/* Tics of one axis: a log axis has its minor tics at 2..9 of each decade;
- * over three decades or more its labels are powers of ten, over fewer it
- * gets labelled tics at 2 and 5 of each decade too. A linear axis keeps the
- * style's. Each panel sets its own: panels share gnuplot's state. */
-static void write_log_tics(FILE *f, const sr_plot *p, int panel, char axis, int log, double lo, double hi)
+/* Tics of one axis: a linear axis at the step its range was extended to; a
+ * log axis has its minor tics at 2..9 of each decade; over three decades or
+ * more its labels are powers of ten, over fewer it gets labelled tics at 2
+ * and 5 of each decade too. Each panel sets its own: panels share gnuplot's
+ * state. */
+static void write_tics(FILE *f, char axis, int log, double lo, double hi, double step)
 {
-    fprintf(f, "set %ctics autofreq\n", axis);
     if (!log) {
+        if (step > 0)
+            fprintf(f, "set %ctics %.9g\n", axis, step);
+        else
+            fprintf(f, "set %ctics autofreq\n", axis);
         fprintf(f, "set m%ctics sr_minor\nset format %c sr_format\n", axis, axis);
         return;
     }
-    double dlo, dhi;
-    data_extent(p, panel, axis, &dlo, &dhi);
-    if (!isnan(lo))
-        dlo = lo;
-    if (!isnan(hi))
-        dhi = hi;
-    int known = dlo > 0 && dhi > dlo && isfinite(dhi);
-    int wide = known && log10(dhi / dlo) >= 3 - 1e-9;
+    fprintf(f, "set %ctics autofreq\n", axis);
+    int known = lo > 0 && hi > lo && isfinite(hi);
+    int wide = known && log10(hi / lo) >= 3 - 1e-9;
     fprintf(f, "set m%ctics default\nset format %c %s\n", axis, axis, wide ? "'10^{%L}'" : "sr_format");
     if (!known || wide)
         return;
     fprintf(f, "set %ctics add (", axis);
     int first = 1;
-    for (int k = (int)floor(log10(dlo)); k <= (int)ceil(log10(dhi)); k++)
+    for (int k = (int)floor(log10(lo)); k <= (int)ceil(log10(hi)); k++)
         for (int m = 2; m <= 5; m += 3) {
             double t = m * pow(10.0, k);
-            if (t >= dlo * (1 - 1e-9) && t <= dhi * (1 + 1e-9)) {
+            if (t >= lo * (1 - 1e-9) && t <= hi * (1 + 1e-9)) {
                 fprintf(f, "%s%.9g", first ? "" : ", ", t);
                 first = 0;
             }
@@ -643,18 +518,64 @@ static size_t titled_series(const sr_plot *p)
     return n;
 }
 
-static int strip_legend(const sr_plot *p)
+/* An opaque box of paper over the grid and the data (which the layout
+ * keeps out of it), in graph coordinates: behind a legend or a label. */
+static void write_box(FILE *f, int tag, const gbox *b)
 {
-    for (int k = 0; k < p->panels; k++)
-        if (p->axes[k].key == SR_PLOT_KEY_ABOVE)
-            return 1;
-    return 0;
+    fprintf(f, "set object %d rect from graph %.5f, graph %.5f to graph %.5f, graph %.5f front fc rgb sr_paper "
+               "fs solid 1.0 noborder\n",
+            tag, b->x0, b->y0, b->x1, b->y1);
 }
 
-static void write_panel(FILE *f, const sr_plot *p, int panel)
+/* The legend box of a panel: its entries in rows, a sample and the text. */
+static int write_panel_legend(FILE *f, const sr_plot *p, const plot_layout *L, int panel)
+{
+    const panel_layout *P = &L->pan[panel];
+    int tag = 400;
+    fputs("# the legend, in a corner the data leave free\n", f);
+    write_box(f, tag++, &P->key);
+    double ux = 1.0 / P->fw, uy = 1.0 / P->fh;
+    int row = 0;
+    for (size_t i = 0; i < p->nseries; i++) {
+        const pseries *s = &p->series[i];
+        if (s->s.panel != panel || !s->title)
+            continue;
+        double y = P->key.y1 - 4 * uy - (row + 0.5) * P->key_row, x0 = P->key.x0 + 8 * ux, x1 = x0 + 28 * ux;
+        int kind = sr_plot_legend_kind(p, i), lt = s->s.color, dt = s->s.dash + 1;
+        if (kind == 1 || kind == 3)
+            fprintf(f, "set object %d rect from graph %.5f, graph %.5f to graph %.5f, graph %.5f front fc lt %d "
+                       "fs transparent solid %s noborder\n",
+                    tag++, x0, y - 6 * uy, x1, y + 6 * uy, lt, kind == 3 ? "0.55" : "sr_band_opacity");
+        if (kind <= 1)
+            fprintf(f, "set arrow %d from graph %.5f, graph %.5f to graph %.5f, graph %.5f nohead front lt %d dt %d\n",
+                    tag++, x0, y, x1, y, lt, dt);
+        if (kind == 6)
+            fprintf(f, "set arrow %d from graph %.5f, graph %.5f to graph %.5f, graph %.5f nohead front lt %d lw 1 "
+                       "dt 3\n",
+                    tag++, x0, y, x1, y, lt);
+        if (kind == 5)
+            fprintf(f, "set arrow %d from graph %.5f, graph %.5f to graph %.5f, graph %.5f head filled "
+                       "size screen 0.01,25 front lt %d dt %d\n",
+                    tag++, x0, y, x1, y, lt, dt);
+        if (kind == 2 || kind == 4)
+            fprintf(f, "set label %d '' at graph %.5f, graph %.5f point lt %d%s front\n", tag++, 0.5 * (x0 + x1), y,
+                    lt, kind == 4 ? " pt 6" : "");
+        fprintf(f, "set label %d ", tag++);
+        gpq(f, s->title);
+        fprintf(f, " at graph %.5f, graph %.5f left front noenhanced textcolor rgb sr_ink\n", x1 + 8 * ux, y);
+        row++;
+    }
+    return tag;
+}
+
+static void write_panel(FILE *f, const sr_plot *p, const plot_layout *L, int panel)
 {
     const paxes *a = &p->axes[panel];
+    const panel_layout *P = &L->pan[panel];
     fprintf(f, "\n# ---- panel %d ----\n", panel + 1);
+    /* for tests and readers: where the frame is at the size the script was written for */
+    fprintf(f, "# layout: frame %.1f %.1f %.1f %.1f px (left bottom width height) of %dx%d\n", P->fx, P->fy, P->fw,
+            P->fh, L->width, L->height);
     if (p->panels == 1) {
         fputs("set lmargin at screen sr_l\nset rmargin at screen sr_r\n"
               "set bmargin at screen sr_b\nset tmargin at screen sr_t\n",
@@ -670,76 +591,81 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
         fprintf(f, "set tmargin at screen sr_t - %d * (sr_h + sr_vgap * 1.0 / height)\n", panel);
         fprintf(f, "set bmargin at screen sr_t - %d * (sr_h + sr_vgap * 1.0 / height) - sr_h\n", panel);
     }
-    /* any panel with labels on vertical marker lines lifts every panel title, so they stay level */
-    int vlabel = 0;
-    for (size_t i = 0; i < p->nmarkers; i++)
-        if (p->markers[i].axis == 'x' && p->markers[i].label)
-            vlabel = 1;
     fputs("set title ", f);
     gpq(f, a->title ? a->title : "");
     /* above the labels of vertical marker lines, which sit on the frame */
-    fputs(vlabel ? " noenhanced offset 0,1.0\nset xlabel " : " noenhanced offset 0,0\nset xlabel ", f);
+    if (L->vrows)
+        fprintf(f, " noenhanced offset 0,%.2f\nset xlabel ", 1.0 + 1.05 * (L->vrows - 1));
+    else
+        fputs(" noenhanced offset 0,0\nset xlabel ", f);
     gpq(f, a->xlabel ? a->xlabel : "");
     fputs(" noenhanced\nset ylabel ", f);
     gpq(f, a->ylabel ? a->ylabel : "");
     fputs(" noenhanced\n", f);
     fprintf(f, "%s logscale x\n%s logscale y\n", a->xlog ? "set" : "unset", a->ylog ? "set" : "unset");
-    write_log_tics(f, p, panel, 'x', a->xlog, a->xmin, a->xmax);
-    write_log_tics(f, p, panel, 'y', a->ylog, a->ymin, a->ymax);
+    write_tics(f, 'x', a->xlog, P->x0, P->x1, P->xstep);
+    write_tics(f, 'y', a->ylog, P->y0, P->y1, P->ystep);
     fputs(a->equal ? "set size ratio -1\n" : "set size noratio\n", f);
-    write_range(f, p, panel, 'x', a->xmin, a->xmax);
-    write_range(f, p, panel, 'y', a->ymin, a->ymax);
-    static const char *KEY[] = {"top right", "top left", "top right", "bottom left", "bottom right", NULL, NULL};
-    if (a->key == SR_PLOT_KEY_NONE || strip_legend(p))
-        fputs("unset key\n", f);
-    else
-        fprintf(f, "set key on %s\n", KEY[a->key]);
+    write_range(f, 'x', P->x0, P->x1);
+    write_range(f, 'y', P->y0, P->y1);
+    fputs("unset key\n", f);
     int tag = 10;
     for (size_t i = 0; i < p->nmarkers; i++) {
         const pmarker *m = &p->markers[i];
+        const mark_place *M = &L->mark[i];
         if (m->panel != panel)
             continue;
         int st = 100 + m->style;
-        if (m->axis == 'y') {
+        if (m->axis == 'y')
             fprintf(f, "set arrow %d from graph 0, first %.9g to graph 1, first %.9g as %d\n", tag, m->value, m->value,
                     st);
-            if (m->label) {
-                fprintf(f, "set label %d ", tag);
-                gpq(f, m->label);
-                fprintf(f, " at graph 0.985, first %.9g right offset 0,0.6 front noenhanced textcolor ls %d "
-                           "font sprintf('%%s,%%d', sr_font, sr_small + 1)\n",
-                        m->value, st);
-            }
-        } else {
+        else
             fprintf(f, "set arrow %d from first %.9g, graph 0 to first %.9g, graph 1 as %d\n", tag, m->value, m->value,
                     st);
-            if (m->label) {
-                fprintf(f, "set label %d ", tag);
-                gpq(f, m->label);
-                fprintf(f, " at first %.9g, graph 1 left offset -0.4,0.75 front noenhanced textcolor "
-                           "ls %d font sprintf('%%s,%%d', sr_font, sr_small + 1)\n",
-                        m->value, st);
+        if (M->shown && M->boxed) {
+            write_box(f, tag, &M->box);
+            fprintf(f, "set label %d ", tag);
+            if (M->split) {
+                char first[256];
+                snprintf(first, sizeof first, "%.*s", (int)M->split, M->text);
+                gpq(f, first);
+                fputs(" . \"\\n\" . ", f);
+                gpq(f, M->text + M->split + 1);
+            } else {
+                gpq(f, M->text);
             }
+            fprintf(f, " at graph %.5f, graph %.5f %s front noenhanced textcolor ls %d "
+                       "font sprintf('%%s,%%d', sr_font, sr_small + 1)\n",
+                    M->gx, M->gy, M->right ? "right" : "left", st);
+        } else if (M->shown) {
+            fprintf(f, "set label %d ", tag);
+            gpq(f, M->text);
+            fprintf(f, " at first %.9g, graph 1 %s offset %s,%.2f front noenhanced textcolor ls %d "
+                       "font sprintf('%%s,%%d', sr_font, sr_small + 1)\n",
+                    m->value, M->right ? "right" : "left", M->right ? "0.4" : "-0.4", 0.75 + 1.05 * M->row, st);
         }
         tag++;
     }
     for (size_t i = 0; i < p->nlabels; i++) {
         const plabel *l = &p->labels[i];
+        const label_place *Q = &L->lab[i];
         if (l->panel != panel)
             continue;
+        write_box(f, tag, &Q->box);
         fprintf(f, "set label %d ", tag++);
         gpq(f, l->text);
-        fprintf(f, " at first %.9g, first %.9g left offset 0.8,0.6 front boxed noenhanced textcolor rgb sr_ink "
+        fprintf(f, " at graph %.5f, graph %.5f %s front noenhanced textcolor rgb sr_ink "
                    "font sprintf('%%s,%%d', sr_font, sr_small + 1)\n",
-                l->x, l->y);
+                Q->gx, Q->gy, Q->right ? "right" : "left");
     }
-    /* bands under bars under ellipses under lines under points */
+    int ltag = P->legend ? write_panel_legend(f, p, L, panel) : 400;
+    /* bands under bars under ellipses under lines under arrows under points, then the front ones */
     int first = 1;
     fputs("plot", f);
-    for (int order = 0; order <= 4; order++) {
+    for (int order = 0; order <= 6; order++) {
         for (size_t i = 0; i < p->nseries; i++) {
             const sr_plot_series *s = &p->series[i].s;
-            if (s->panel != panel || kind_order(s->kind) != order || p->blocks[s->block].nrows == 0)
+            if (s->panel != panel || series_order(s) != order || p->blocks[s->block].nrows == 0)
                 continue;
             fputs(first ? " \\\n    " : ", \\\n    ", f);
             first = 0;
@@ -786,6 +712,10 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
                     fprintf(f, "using %d:%d", s->x, s->y);
                 fprintf(f, " with boxes lt %d fs solid 0.55 border lc rgb sr_paper", lt);
                 break;
+            case SR_PLOT_VECTORS:
+                fprintf(f, "using %d:%d:%d:%d with vectors head filled size screen 0.007,25 lt %d lw 1.6 dt %d", s->x, s->y,
+                        s->w, s->h, lt, dt);
+                break;
             }
             if (p->series[i].title) {
                 fputs(" title ", f);
@@ -799,26 +729,21 @@ static void write_panel(FILE *f, const sr_plot *p, int panel)
         fputs(" NaN notitle", f);
     fputc('\n', f);
     for (int t = 10; t < tag; t++)
-        fprintf(f, "unset arrow %d\nunset label %d\n", t, t);
+        fprintf(f, "unset arrow %d\nunset label %d\nunset object %d\n", t, t, t);
+    for (int t = 400; t < ltag; t++)
+        fprintf(f, "unset arrow %d\nunset label %d\nunset object %d\n", t, t, t);
 }
 
 /* The legend as a strip of columns under the titles: a sample (a line over
- * a patch of band colour, a point or a box) and the text for every titled
- * series. gnuplot's own key does not wrap into columns inside a narrow
- * panel, so the strip is laid out here, in the script, from the width. */
-static void write_strip_legend(FILE *f, const sr_plot *p)
+ * a patch of band colour, a point, a box or an arrow) and the text for every
+ * titled series. gnuplot's own key does not wrap into columns inside a
+ * narrow panel, so the strip is laid out here, in the script, from the width. */
+static void write_strip_legend(FILE *f, const sr_plot *p, const plot_layout *L)
 {
-    size_t n = 0, longest = 1;
-    for (size_t i = 0; i < p->nseries; i++)
-        if (p->series[i].title) {
-            n++;
-            size_t l = strlen(p->series[i].title);
-            if (l > longest)
-                longest = l;
-        }
+    size_t n = titled_series(p);
     if (n == 0)
         return;
-    fprintf(f, "\n# the legend: a strip of columns under the titles\narray sr_key_text[%zu] = [", n);
+    fprintf(f, "\n# the legend: a strip of columns under the titles, above the data\narray sr_key_text[%zu] = [", n);
     size_t k = 0;
     for (size_t i = 0; i < p->nseries; i++)
         if (p->series[i].title) {
@@ -835,37 +760,21 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
     for (size_t i = 0; i < p->nseries; i++)
         if (p->series[i].title)
             fprintf(f, "%s%d", k++ ? ", " : "", p->series[i].s.dash + 1);
-    /* 0 line, 1 line over a band patch, 2 point, 3 box, 4 open point */
+    /* 0 line, 1 line over a band patch, 2 point, 3 box, 4 open point, 5 arrow, 6 thin dotted line */
     fprintf(f, "]\narray sr_key_kind[%zu] = [", n);
     k = 0;
-    for (size_t i = 0; i < p->nseries; i++) {
-        const sr_plot_series *s = &p->series[i].s;
-        if (!p->series[i].title)
-            continue;
-        int kind = 0;
-        if (s->kind == SR_PLOT_POINTS)
-            kind = s->open ? 4 : 2;
-        else if (s->kind == SR_PLOT_BOXES || s->kind == SR_PLOT_ELLIPSES || s->kind == SR_PLOT_BAND ||
-                 s->kind == SR_PLOT_BAND_X)
-            kind = 3;
-        else
-            for (size_t j = 0; j < p->nseries; j++) {
-                const sr_plot_series *b = &p->series[j].s;
-                if ((b->kind == SR_PLOT_BAND || b->kind == SR_PLOT_BAND_X) && b->color == s->color &&
-                    b->block == s->block && !b->outline)
-                    kind = 1;
-            }
-        fprintf(f, "%s%d", k++ ? ", " : "", kind);
-    }
+    for (size_t i = 0; i < p->nseries; i++)
+        if (p->series[i].title)
+            fprintf(f, "%s%d", k++ ? ", " : "", sr_plot_legend_kind(p, i));
     fprintf(f, "]\n"
-               "sr_key_w = %zu * sr_fontsize * 0.68 + 76     # one column, px\n"
+               "sr_key_w = %.1f     # one column, px: the longest text, the sample and a gap\n"
                "sr_key_h = sr_fontsize * 1.9                 # one row, px\n"
                "sr_key_cols = floor((width - sr_ml - sr_mr) / sr_key_w)\n"
                "if (sr_key_cols < 1) sr_key_cols = 1\n"
                "if (sr_key_cols > %zu) sr_key_cols = %zu\n"
                "sr_key_top = sr_mt + 4\n"
                "sr_mt = sr_mt + ceil(%zu.0 / sr_key_cols) * sr_key_h + 12\n",
-            longest, n, n, n);
+            L->strip_colw, n, n, n);
     fprintf(f, "do for [i = 1:%zu] {\n"
                "    sr_x = sr_ml + ((i - 1) %% sr_key_cols) * sr_key_w\n"
                "    sr_y = height - sr_key_top - ((i - 1) / sr_key_cols + 0.5) * sr_key_h\n"
@@ -877,6 +786,15 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
                "    if (sr_key_kind[i] <= 1) {\n"
                "        set arrow 200 + i from screen sr_x / width, screen sr_y / height "
                "to screen (sr_x + 28) / width, screen sr_y / height nohead lt sr_key_lt[i] dt sr_key_dt[i]\n"
+               "    }\n"
+               "    if (sr_key_kind[i] == 6) {\n"
+               "        set arrow 200 + i from screen sr_x / width, screen sr_y / height "
+               "to screen (sr_x + 28) / width, screen sr_y / height nohead lt sr_key_lt[i] lw 1 dt 3\n"
+               "    }\n"
+               "    if (sr_key_kind[i] == 5) {\n"
+               "        set arrow 200 + i from screen sr_x / width, screen sr_y / height "
+               "to screen (sr_x + 28) / width, screen sr_y / height head filled size screen 0.01,25 "
+               "lt sr_key_lt[i] dt sr_key_dt[i]\n"
                "    }\n"
                "    if (sr_key_kind[i] == 2) {\n"
                "        set label 300 + i '' at screen (sr_x + 14) / width, screen sr_y / height point lt sr_key_lt[i]\n"
@@ -891,7 +809,15 @@ static void write_strip_legend(FILE *f, const sr_plot *p)
             n);
 }
 
-static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const char *name, int style_ok)
+static void count_emit(void *ud, const char *s, size_t n, int i)
+{
+    (void)ud;
+    (void)s;
+    (void)n;
+    (void)i;
+}
+
+static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const char *name, const char *style)
 {
     fputs("# ", f);
     gpc(f, name);
@@ -907,11 +833,11 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
     fprintf(f, "#\n"
                "# Render again after editing:  gnuplot %s.gp   (from any directory)\n"
                "# Another format or size:      gnuplot -e \"fmt='svg'; width=1600; height=1000\" %s.gp\n"
-               "# The data are in %s.dat next to this script. The look (type, colours, lines,\n"
-               "# grid) is the shared style sinkrate.gp, found in the current directory, on\n"
-               "# the loadpath set below, or in $GNUPLOT_LIB; -e \"style='/path/sinkrate.gp'\"\n"
-               "# picks another.\n\n",
-            name, name, name);
+               "# The data are in %s.dat next to this script; move the two together. The look\n"
+               "# (type, colours, lines, grid) is a copy of the shared style sinkrate.gp below;\n"
+               "# -e \"style='/path/other.gp'\" loads another after it. Where the legend and the\n"
+               "# labels go was chosen from the data for %dx%d pixels, so that they hide none.\n\n",
+            name, name, name, o->width, o->height);
     fprintf(f, "if (!exists(\"fmt\")) fmt = ");
     gpq(f, o->format);
     fprintf(f, "\nif (!exists(\"width\")) width = %d\nif (!exists(\"height\")) height = %d\n", o->width, o->height);
@@ -938,30 +864,31 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
           "sr_ml = 90; sr_mr = 30; sr_mt = 80; sr_mb = 100; sr_gap = 80; sr_minor = 2; sr_format = '%g'\n"
           "set style textbox opaque noborder\n",
           f);
-    if (style_ok) {
-        char dir[4096];
-        snprintf(dir, sizeof dir, "%s", o->style);
-        char *slash = strrchr(dir, '/');
-        const char *file = o->style;
-        if (slash) {
-            *slash = '\0';
-            file = slash + 1;
-            fputs("set loadpath ", f);
-            gpq(f, dir[0] ? dir : "/");
+    if (style) {
+        fputs("\n# ==== the shared style (plots/sinkrate.gp), copied so that this script runs anywhere ====\n", f);
+        fputs(style, f);
+        if (!*style || style[strlen(style) - 1] != '\n')
             fputc('\n', f);
-        }
-        fputs("if (!exists(\"style\")) style = ", f);
-        gpq(f, file);
-        fputs("\nload style\n", f);
+        fputs("# ==== end of the shared style ====\n", f);
     } else {
-        fputs("# the shared style sinkrate.gp was not found when this script was written\n"
-              "if (exists(\"style\")) load style\n",
-              f);
-    }
-    if (!style_ok)
+        fputs("# the shared style sinkrate.gp was not found when this script was written\n", f);
         fputs("set label 100 caution at screen 0.012, screen (6.0 + (caution_lines - 0.5) * sr_small * 1.45) / "
               "height left front noenhanced font sprintf('%s,%d', sr_font, sr_small) textcolor rgb sr_muted\n",
               f);
+    }
+    fputs("if (exists(\"style\")) load style\n", f);
+    plot_metrics met;
+    sr_plot_metrics_parse(style, &met);
+    size_t subchars = (size_t)((o->width - 24) / 6.6);
+    if (subchars < 40)
+        subchars = 40;
+    int sub_lines = p->subtitle ? wrap_lines(p->subtitle, subchars, count_emit, NULL) : 0;
+    plot_layout *L = malloc(sizeof *L);
+    if (!L) {
+        fputs("exit error 'out of memory'\n", f);
+        return;
+    }
+    sr_plot_layout_compute(p, &met, o->width, o->height, sub_lines, L);
     fputs("\nif (fmt eq 'svg') {\n"
           "    set terminal svg size width,height dynamic font sprintf('%s,%d', sr_font, sr_fontsize) "
           "background rgb sr_paper\n"
@@ -980,44 +907,36 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
     if (p->subtitle) {
         /* wrapped to the width (10 pt is about 6.3 px a character, 6.6 to be safe with wide letters); each
          * further line pushes the panels down */
-        size_t chars = (size_t)((o->width - 24) / 6.6);
         fputs("set label 102 ", f);
-        int n = wrap_lines(p->subtitle, chars < 40 ? 40 : chars, emit_gp_piece, f);
+        int n = wrap_lines(p->subtitle, subchars, emit_gp_piece, f);
         fputs(" at screen 12.0 / width, screen 1 - 52.0 / height left front noenhanced "
               "font sprintf('%s,%d', sr_font, sr_small + 2) textcolor rgb sr_muted\n",
               f);
         if (n > 1)
             fprintf(f, "sr_mt = sr_mt + %d * (sr_small + 2) * 1.5   # the subtitle's further lines\n", n - 1);
     }
-    if (strip_legend(p))
-        write_strip_legend(f, p);
-    int titled = 0;
-    for (int k = 0; k < p->panels; k++)
-        if (p->axes[k].title && p->axes[k].title[0])
-            titled = 1;
-    if (titled)
+    if (L->strip)
+        write_strip_legend(f, p, L);
+    if (L->titled)
         fputs("sr_mt = sr_mt + 32   # room for the panel titles\n", f);
-    int vlabels = 0;
-    for (size_t i = 0; i < p->nmarkers; i++)
-        if (p->markers[i].axis == 'x' && p->markers[i].label)
-            vlabels = 1;
-    if (vlabels)
-        fputs("sr_mt = sr_mt + 24   # room for the labels of vertical marker lines, above the frame\n", f);
+    if (L->vrows)
+        fprintf(f, "sr_mt = sr_mt + %g   # room for the labels of vertical marker lines, above the frame (%d row%s)\n",
+                24 + 14.0 * (L->vrows - 1), L->vrows, L->vrows > 1 ? "s" : "");
     if (p->panels > 1 && p->stacked)
-        fprintf(f, "sr_vgap = sr_gap + 40 + %d   # stacked: the upper x label and the lower title between\n",
-                (titled ? 26 : 0) + (vlabels ? 24 : 0));
+        fprintf(f, "sr_vgap = sr_gap + 40 + %g   # stacked: the upper x label and the lower title between\n",
+                (L->titled ? 26 : 0) + (L->vrows ? 24 + 14.0 * (L->vrows - 1) : 0));
     fputs("sr_l = sr_ml * 1.0 / width; sr_r = 1 - sr_mr * 1.0 / width\n"
           "sr_b = sr_mb * 1.0 / height; sr_t = 1 - sr_mt * 1.0 / height\n",
           f);
     if (p->panels > 1)
         fputs("set multiplot\n", f);
     for (int k = 0; k < p->panels; k++) {
-        write_panel(f, p, k);
+        write_panel(f, p, L, k);
         if (k == 0 && p->panels > 1) {
             fputs("# the title, legend and footnote once, not on every panel\n"
                   "unset label 100\nunset label 101\nunset label 102\n",
                   f);
-            if (strip_legend(p) && titled_series(p))
+            if (L->strip && titled_series(p))
                 fputs("do for [i = 1:|sr_key_text|] { unset object 200 + i; unset arrow 200 + i; "
                       "unset label 200 + i; unset label 300 + i }\n",
                       f);
@@ -1026,6 +945,7 @@ static void write_script(FILE *f, const sr_plot *p, const sr_plot_out *o, const 
     if (p->panels > 1)
         fputs("unset multiplot\n", f);
     fputs("set output\n", f);
+    free(L);
 }
 
 static int write_mem(sr_txn *t, const char *path, void (*fill)(FILE *, const void *), const void *ud,
@@ -1052,7 +972,7 @@ typedef struct wctx {
     const sr_plot *p;
     const sr_plot_out *o;
     const char *name;
-    int style_ok;
+    const char *style; /* the shared style's text, NULL when it was not found */
 } wctx;
 
 static void fill_data(FILE *f, const void *ud)
@@ -1064,7 +984,7 @@ static void fill_data(FILE *f, const void *ud)
 static void fill_script(FILE *f, const void *ud)
 {
     const wctx *w = ud;
-    write_script(f, w->p, w->o, w->name, w->style_ok);
+    write_script(f, w->p, w->o, w->name, w->style);
 }
 
 /* The prefix names a file and the format is one we render. */
@@ -1113,8 +1033,13 @@ int sr_plot_write(const sr_plot *p, const sr_plot_out *o, sr_error *err)
         if (rows == 0)
             return sr_error_set(err, SR_EINVAL, "panel %d of the figure has no data to draw", k + 1);
     }
-    int style_ok = o->style && access(o->style, R_OK) == 0;
-    wctx w = {p, o, name, style_ok};
+    /* the shared style goes into the script, which then runs anywhere */
+    char *style = NULL;
+    size_t slen = 0;
+    sr_error serr;
+    if (o->style && sr_file_read(o->style, 1 << 20, &style, &slen, &serr) != SR_OK)
+        style = NULL;
+    wctx w = {p, o, name, style};
     /* both files or neither: the caller's transaction, or one of our own */
     sr_txn *t = o->txn ? o->txn : sr_txn_new();
     if (!t)
@@ -1129,6 +1054,7 @@ int sr_plot_write(const sr_plot *p, const sr_plot_out *o, sr_error *err)
         sr_txn_free(t);
     free(dat);
     free(gp);
+    free(style);
     return rc;
 }
 

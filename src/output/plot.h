@@ -1,6 +1,8 @@
 /* plot.h - gnuplot figures: a data file PREFIX.dat (blocks of columns), a
- * script PREFIX.gp that loads the shared style plots/sinkrate.gp and that a
- * user can edit and re-run, and rendering PREFIX.png / .svg with gnuplot. */
+ * script PREFIX.gp that holds a copy of the shared style plots/sinkrate.gp
+ * (so it runs from any directory) and that a user can edit and re-run, and
+ * rendering PREFIX.png / .svg with gnuplot. Where the legend and the labels
+ * go is decided from the data (plot_layout.c), so that none hides data. */
 #ifndef SR_PLOT_H
 #define SR_PLOT_H
 
@@ -27,7 +29,8 @@ typedef enum sr_plot_kind {
                             e.g. a rate band with altitude on the vertical axis */
     SR_PLOT_ELLIPSES,    /* x, y, w, h, angle: centre, full axis lengths along and across the
                             ellipse, angle in degrees counter-clockwise from +x */
-    SR_PLOT_BOXES        /* x, y and optionally w: histogram bars centred at x, height y */
+    SR_PLOT_BOXES,       /* x, y and optionally w: histogram bars centred at x, height y */
+    SR_PLOT_VECTORS      /* x, y, w, h: arrows from (x, y) to (x + w, y + h), drawn above the lines */
 } sr_plot_kind;
 
 typedef struct sr_plot_series {
@@ -42,10 +45,16 @@ typedef struct sr_plot_series {
                             fill, for figures with many overlapping bands */
     int open;            /* points, linespoints: open circles instead of the colour's filled symbol,
                             e.g. unstable or rejected points beside filled ones */
+    int front;           /* drawn above every other series (a fitted curve over its points);
+                            otherwise bands, bars, ellipses, lines, arrows, points, bottom up */
 } sr_plot_series;
 
+/* Where a panel's legend goes. Inside a panel it is a box in a corner that
+ * no data crosses, chosen from the data (a corner asked for is tried
+ * first); when a panel has no such corner, every legend of the figure goes
+ * into the strip above the panels. */
 typedef enum sr_plot_key {
-    SR_PLOT_KEY_AUTO = 0,  /* the style's default (top right) */
+    SR_PLOT_KEY_AUTO = 0,  /* a free corner */
     SR_PLOT_KEY_TOP_LEFT,
     SR_PLOT_KEY_TOP_RIGHT,
     SR_PLOT_KEY_BOTTOM_LEFT,
@@ -57,7 +66,8 @@ typedef enum sr_plot_key {
 } sr_plot_key;
 
 /* One panel's axes. Labels are plain text and should carry the unit
- * ("descent rate [m/s]"). Ranges NaN: from the data. */
+ * ("descent rate [m/s]"). Ranges NaN: from the data, extended to whole tic
+ * steps (tight: at the data); either way a marker line is never on the frame. */
 typedef struct sr_plot_axes {
     const char *title;     /* panel title, NULL for none */
     const char *xlabel, *ylabel;
@@ -108,9 +118,8 @@ int sr_plot_label(sr_plot *p, int panel, double x, double y, const char *text);
 /* Where and how the figure is written. */
 typedef struct sr_plot_out {
     const char *prefix;    /* PREFIX: writes PREFIX.dat and PREFIX.gp */
-    const char *style;     /* path of the shared style plots/sinkrate.gp, absolute so the script
-                              runs from anywhere; NULL or unreadable: the script falls back to
-                              plain defaults and gnuplot's loadpath (GNUPLOT_LIB) */
+    const char *style;     /* path of the shared style plots/sinkrate.gp, copied into the script
+                              so it runs from anywhere; NULL or unreadable: plain defaults */
     const char *format;    /* "png" or "svg": the script's default output */
     int width, height;     /* pixels */
     const char *command;   /* the command line that made it, for the header (may be NULL) */

@@ -337,40 +337,44 @@ const double *sr_wind_knots(const sr_wind *w, size_t *n)
     return NULL;
 }
 
-void sr_wind_describe(const sr_wind *w, char *buf, size_t len)
+void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t len)
 {
     double deg = sr_units_bearing_deg(w->from, 0);
+    const char *uv = sr_units_label(SR_Q_SPEED, sys), *ul = sr_units_label(SR_Q_LENGTH, sys);
+#define SPD(x) sr_units_from_si((x), SR_Q_SPEED, sys)
+#define LEN(x) sr_units_from_si((x), SR_Q_LENGTH, sys)
     switch (w->kind) {
     case SR_WIND_CALM:
         snprintf(buf, len, "calm");
         break;
     case SR_WIND_CONSTANT:
-        snprintf(buf, len, "constant: %.1f m/s from %.0f deg at every height", w->speed, deg);
+        snprintf(buf, len, "constant: %.1f %s from %.0f deg at every height", SPD(w->speed), uv, deg);
         break;
     case SR_WIND_POWER:
-        snprintf(buf, len, "power law: %.1f m/s from %.0f deg at %.0f m above ground, exponent %.3f", w->speed, deg,
-                 w->h_ref, w->alpha);
+        snprintf(buf, len, "power law: %.1f %s from %.0f deg at %.0f %s above ground, exponent %.3f", SPD(w->speed),
+                 uv, deg, LEN(w->h_ref), ul, w->alpha);
         break;
     case SR_WIND_LOG:
         snprintf(buf, len,
-                 "log law: %.1f m/s from %.0f deg at %.0f m above ground, roughness length %.3g m, displacement "
-                 "%.3g m",
-                 w->speed, deg, w->h_ref, w->z0, w->d);
+                 "log law: %.1f %s from %.0f deg at %.0f %s above ground, roughness length %.3g %s, displacement "
+                 "%.3g %s",
+                 SPD(w->speed), uv, deg, LEN(w->h_ref), ul, LEN(w->z0), ul, LEN(w->d), ul);
         break;
     case SR_WIND_TABLE: {
         double s0, f0, s1, f1;
         sr_wind_polar(w->east[0], w->north[0], &s0, &f0);
         sr_wind_polar(w->east[w->n - 1], w->north[w->n - 1], &s1, &f1);
-        snprintf(buf, len, "table%s%s: %zu rows, %.1f m/s from %.0f deg at %.0f m to %.1f m/s from %.0f deg at %.0f m "
+        snprintf(buf, len, "table%s%s: %zu rows, %.1f %s from %.0f deg at %.0f %s to %.1f %s from %.0f deg at %.0f %s "
                  "above ground",
-                 w->source[0] ? " " : "", w->source, w->n, s0, sr_units_bearing_deg(f0, 0), w->h[0], s1,
-                 sr_units_bearing_deg(f1, 0),
-                 w->h[w->n - 1]);
+                 w->source[0] ? " " : "", w->source, w->n, SPD(s0), uv, sr_units_bearing_deg(f0, 0), LEN(w->h[0]), ul,
+                 SPD(s1), uv, sr_units_bearing_deg(f1, 0), LEN(w->h[w->n - 1]), ul);
         break;
     }
     }
     if ((w->kind == SR_WIND_POWER || w->kind == SR_WIND_LOG) && w->h_grad > 0.0) {
         size_t l = strlen(buf);
-        snprintf(buf + l, len > l ? len - l : 0, "; held constant above %.0f m (gradient height)", w->h_grad);
+        snprintf(buf + l, len > l ? len - l : 0, "; held constant above %.0f %s (gradient height)", LEN(w->h_grad), ul);
     }
+#undef SPD
+#undef LEN
 }

@@ -101,6 +101,6 @@ void sr_wind_components(double speed, double from, double *east, double *north);
 void sr_wind_polar(double east, double north, double *speed, double *from);
 
 /* One-line description ("power law: 5.0 m/s from 250 deg at 10 m, exponent 0.143"). */
-void sr_wind_describe(const sr_wind *w, char *buf, size_t len);
+void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t len);
 
 #endif
