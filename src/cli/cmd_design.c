@@ -988,6 +988,16 @@ int sr_cmd_design(sr_cli *c, int argc, char **argv)
         sr_report_warning(r, "Slotted canopies (ribbon, ringslot, ringsail) are built of tapes and weigh more per "
                              "nominal area than cloth; with no areal mass in their family the search takes cloth's, "
                              "which flatters them in mass and volume.");
+    unsigned dropped = 0;
+    for (size_t i = 0; i < res.nranked && i < (size_t)top; i++)
+        dropped |= ((1u << m->nstages) - 1u) & ~res.combo[res.rank[i]].present;
+    for (size_t k = 0; k < m->nstages; k++)
+        if ((dropped >> k) & 1u)
+            sr_report_warning(r, "Designs without '%s' fall with no canopy open until the next stage opens; that fall is "
+                                 "flown as `sinkrate profile` flies it (each section broadside, its attitude of most "
+                                 "drag). A tumbling or end-on fall is faster and opens the next canopy harder: judge "
+                                 "the written file's failure cases in every attitude before choosing it.",
+                              m->stages[k].name);
     sr_report_note(r, "Each candidate is the mission with other canopies, sizes and heights, judged by the judge of "
                       "`sinkrate profile` on the band runs (fast path). The best of each combination was then written "
                       "as a mission file, read back and judged with the full integration, as `sinkrate profile` "
