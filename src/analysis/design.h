@@ -34,6 +34,7 @@
 #define SR_DESIGN_SIZE_TOL 1e-4     /* the last stage's size: relative, to the exact minimum */
 #define SR_DESIGN_DIGITS 6          /* significant digits of a written diameter */
 #define SR_DESIGN_TRIES 8           /* candidates of a combination tried by the full integration */
+#define SR_DESIGN_SCREEN_ODE_TOL 1e-6 /* the ODE's tolerance while screening (the full judgement: 1e-9) */
 
 /* Where a design's miss or binding limit lies: a row of the judge's verdict,
  * or the bay of a stage. */
