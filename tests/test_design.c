@@ -356,7 +356,7 @@ static void test_rated_strength_binds(void **state)
 static void test_drift_binds(void **state)
 {
     (void)state;
-    const char *base = variant("payloads/drone-cargo-drop.yaml", "      bay-volume: 0.45 L", "");
+    const char *base = variant("payloads/drone-cargo-drop.yaml", "      bay-volume: 0.44 L", "");
     run *r1 = search(base, 2);
     const sr_design_combo *c1 = chosen(r1);
     double limit = c1->best.drift - 0.2;

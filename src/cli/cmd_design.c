@@ -677,8 +677,9 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_design_result *res, s
                                                "packed volume", "descent time (judged)"};
     sr_unit_system sys = c->units;
     char title[256], xl[96], yl[96], sub[400];
-    snprintf(title, sizeof title, "Design search: %s against %s", sr_design_quantity_name(qy),
-             sr_design_quantity_name(qx));
+    static const char *const WORDS[SR_DQ_N] = {"touchdown speed", "drift", "recovery mass", "packed volume",
+                                               "descent time"};
+    snprintf(title, sizeof title, "Design search: %s against %s", WORDS[qy], WORDS[qx]);
     sr_plot *p = sr_plot_new(title);
     if (!p)
         return sr_cli_fail(c, "--plot: out of memory");
