@@ -758,6 +758,14 @@ static const bad_case BAD[] = {
      "cannot write"},
     {{DESIGN, "--write", "@IN@"}, PMISSION, NULL, 0, "--write", "the mission file"},
     {{DESIGN, "--limits-at", "middle"}, PMISSION, NULL, 0, "--limits-at", "not band-end"},
+    {{DESIGN}, MISSION_HEAD SECTION
+     "stages:\n  - {name: a, family: cross, nominal-diameter: 0.5 m}\n"
+     "  - {name: b, family: conical, nominal-diameter: 1 m, deploy: {height: 800 m}}\n"
+     "  - {name: c, family: conical, nominal-diameter: 2 m, deploy: {height: 300 m}}\n" START
+     "design: {stages: {a: {families: all, nominal-diameter: {min: 0.3 m, max: 1 m}}, b: {families: all, "
+     "nominal-diameter: {min: 0.5 m, max: 2 m}, deploy-height: {min: 500 m, max: 900 m}}, c: {families: all, "
+     "nominal-diameter: {min: 1 m, max: 4 m}, deploy-height: {min: 150 m, max: 250 m}}}}\n",
+     NULL, 0, "@IN@", "the search space is too large"},
     {{"design"}, NULL, NULL, 0, "design", "give a mission file"},
     {{DESIGN}, NULL, NULL, 0, "@IN@", "cannot open"},
     /* ---- the verdict: limits keys, --limits-at, measured openings, attitudes, bands ---- */

@@ -151,6 +151,7 @@ typedef struct cstate {
     size_t best;                 /* index of the best slice */
     double pilot;                /* the last stage's size at the pilot slice (start of every solve) */
     int broken;                  /* the combination could not be built */
+    size_t confirmed;            /* designs of it judged with the full integration */
     char why[256];
 } cstate;
 
@@ -1284,6 +1285,8 @@ static int cmp_pp(const void *a, const void *b)
  * better), sorted by the first. */
 static size_t pareto_front(ppoint *p, size_t n)
 {
+    if (!n)
+        return 0;
     qsort(p, n, sizeof *p, cmp_pp);
     size_t m = 0;
     double ybest = INFINITY;
@@ -1406,7 +1409,7 @@ static int confirm_combo(search *S, cstate *c, sr_error *err)
         if ((rc = confirm(S, c, sl, &p, &dm, &text, &len, err)))
             break;
         progress_add(S, 1);
-        S->res->confirmed++;
+        c->confirmed++; /* summed after the parallel loop, in order */
         if (sl->feasible && !p.feasible)
             out->rejected++;
         int take = !have || (p.feasible && !out->best.feasible) ||
@@ -1528,10 +1531,6 @@ static void describe_axes(const sr_mission *m, sr_design_result *res)
             a->points = a->list ? ds->nsizes : spec->grid;
             a->lo = a->list ? ds->size[0] : ds->dmin;
             a->hi = a->list ? ds->size[ds->nsizes - 1] : ds->dmax;
-            if (a->exact)
-                a->resolution = a->list ? 0.0 : SR_DESIGN_SIZE_TOL;
-            else if (!a->list && a->points > 1)
-                a->resolution = exp(log(a->hi / a->lo) / (double)(a->points - 1) / (double)(1 << SR_DESIGN_REFINE)) - 1.0;
         }
         if (ds->height) {
             sr_design_axis *a = &res->axis[res->naxes++];
@@ -1543,10 +1542,36 @@ static void describe_axes(const sr_mission *m, sr_design_result *res)
                 a->points = 1;
             a->lo = ds->hmin;
             a->hi = ds->hmax;
-            a->resolution = a->points > 1 ? (a->hi - a->lo) / (double)(a->points - 1) / (double)(1 << SR_DESIGN_REFINE)
-                                          : 0.0;
+        }
+    }
+}
+
+/* A grid of one combination that had to shrink (SR_DESIGN_MAX_SLICES): the
+ * axis states the coarsest one used. */
+static void axes_used(sr_design_result *res, const cstate *c)
+{
+    for (size_t j = 0; j < c->ndims; j++)
+        for (size_t i = 0; i < res->naxes; i++) {
+            sr_design_axis *a = &res->axis[i];
+            if (a->stage == c->d[j].stage && a->height == c->d[j].height && !a->list && c->d[j].continuous &&
+                c->d[j].n < a->points)
+                a->points = c->d[j].n;
+        }
+}
+
+static void axes_resolution(sr_design_result *res)
+{
+    for (size_t i = 0; i < res->naxes; i++) {
+        sr_design_axis *a = &res->axis[i];
+        double steps = (double)(1 << SR_DESIGN_REFINE);
+        if (a->height) {
+            a->resolution = a->points > 1 ? (a->hi - a->lo) / (double)(a->points - 1) / steps : 0.0;
             if (a->resolution > 0.0 && a->resolution < 0.1)
-                a->resolution = 0.1;
+                a->resolution = 0.1; /* heights are written to 0.1 m */
+        } else if (a->exact) {
+            a->resolution = a->list ? 0.0 : SR_DESIGN_SIZE_TOL;
+        } else if (!a->list && a->points > 1) {
+            a->resolution = exp(log(a->hi / a->lo) / (double)(a->points - 1) / steps) - 1.0;
         }
     }
 }
@@ -1612,6 +1637,14 @@ int sr_design_run(const sr_mission *m, const sr_yaml *y, const sr_catalog *cat, 
             per *= ds->hpoints ? ds->hpoints : m->design.heights;
     }
     S.total = res->ncombos * (per + 3 * 8 + 2);
+    if ((double)res->ncombos * (double)per > SR_DESIGN_MAX_POINTS_ALL) {
+        double all = (double)res->ncombos * (double)per;
+        free(S.cs);
+        sr_design_result_free(res);
+        return sr_error_set(err, SR_EINVAL, "%s: the search space is too large: %.3g grid points over every "
+                                            "combination (at most %.0e); give fewer families, sizes or heights",
+                            m->path, all, SR_DESIGN_MAX_POINTS_ALL);
+    }
     for (size_t i = 0; i < res->ncombos; i++)
         S.cs[i].out = &res->combo[i];
     for (size_t b0 = 0; b0 < res->ncombos && !rc; b0 += BATCH) {
@@ -1722,6 +1755,8 @@ int sr_design_run(const sr_mission *m, const sr_yaml *y, const sr_catalog *cat, 
         free(nsamp);
         for (size_t i = b0; i < b1; i++) {
             res->candidates += S.cs[i].out->candidates;
+            res->confirmed += S.cs[i].confirmed;
+            axes_used(res, &S.cs[i]);
             free_state(&S.cs[i]);
         }
     }
@@ -1776,6 +1811,7 @@ int sr_design_run(const sr_mission *m, const sr_yaml *y, const sr_catalog *cat, 
     }
     free(pp);
     free(S.cs);
+    axes_resolution(res);
     if (rc) {
         sr_design_result_free(res);
         return rc;

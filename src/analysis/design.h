@@ -30,6 +30,7 @@
 
 #define SR_DESIGN_MAX_COMBOS 20000
 #define SR_DESIGN_MAX_SLICES 4000   /* grid points of one combination */
+#define SR_DESIGN_MAX_POINTS_ALL 1e7 /* grid points over every combination (some minutes of work) */
 #define SR_DESIGN_REFINE 3          /* refinement rounds around the best grid point (each halves the step) */
 #define SR_DESIGN_SIZE_TOL 1e-4     /* the last stage's size: relative, to the exact minimum */
 #define SR_DESIGN_DIGITS 6          /* significant digits of a written diameter */

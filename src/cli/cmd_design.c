@@ -873,7 +873,7 @@ int sr_cmd_design(sr_cli *c, int argc, char **argv)
     dopt.target = o.write;
     dopt.threads = c->threads;
     sr_progress bar;
-    sr_progress_start(&bar, c->err, 1, "candidates");
+    sr_progress_start(&bar, c->err, 1, "grid points");
     dopt.progress = on_progress;
     dopt.progress_ud = &bar;
     /* the bar's total is the search's estimate, set at its first call */
@@ -968,9 +968,9 @@ int sr_cmd_design(sr_cli *c, int argc, char **argv)
     for (size_t i = 0; i < res.ncombos; i++)
         rejected += (size_t)res.combo[i].rejected;
     if (rejected)
-        sr_report_note(r, "%zu candidates that the fast path passed failed the full integration (a limit met by less "
-                          "than the fast path's error); the next candidates of their combinations were taken.",
-                       rejected);
+        sr_report_note(r, "%zu candidate%s that the fast path passed failed the full integration (a limit met by less "
+                          "than the fast path's error); the next candidates of %s combination%s were taken.",
+                       rejected, rejected == 1 ? "" : "s", rejected == 1 ? "its" : "their", rejected == 1 ? "" : "s");
     int slotted = 0, cloth = 0;
     for (size_t i = 0; i < res.ncombos; i++)
         for (size_t k = 0; k < m->nstages; k++)
