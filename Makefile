@@ -5,10 +5,20 @@
 PREFIX  ?= /usr/local
 DESTDIR ?=
 BINDIR   = $(PREFIX)/bin
+LIBDIR   = $(PREFIX)/lib
+INCLUDEDIR = $(PREFIX)/include
+PKGCONFIGDIR = $(LIBDIR)/pkgconfig
 DATADIR  = $(PREFIX)/share/sinkrate
 MANDIR   = $(PREFIX)/share/man/man1
+MAN3DIR  = $(PREFIX)/share/man/man3
 DOCDIR   = $(PREFIX)/share/doc/sinkrate
 BASHCOMPDIR = $(PREFIX)/share/bash-completion/completions
+
+# The library's release (include/sinkrate/base.h) and its soname: the major
+# number changes when the installed API (include/) changes incompatibly.
+VERSION := $(shell sed -n 's/^\#define SR_VERSION_STRING "\(.*\)"/\1/p' include/sinkrate/base.h)
+SOMAJOR := $(firstword $(subst ., ,$(VERSION)))
+SONAME   = libsinkrate.so.$(SOMAJOR)
 
 CC      ?= cc
 CSTD     = -std=c11 -D_POSIX_C_SOURCE=200809L
@@ -22,7 +32,10 @@ PKG_CFLAGS = $(eval PKG_CFLAGS := $$(shell pkg-config --cflags $(PKGS) 2>/dev/nu
 PKG_LIBS   = $(eval PKG_LIBS := $$(shell pkg-config --libs $(PKGS) 2>/dev/null))$(PKG_LIBS)
 TEST_LIBS  = $(eval TEST_LIBS := $$(shell pkg-config --libs cmocka udunits 2>/dev/null))$(TEST_LIBS)
 OMP      = -fopenmp
-CFLAGS_ALL = $(CSTD) $(WARN) $(OPT) $(OMP) $(PKG_CFLAGS) -Isrc -DSR_DATADIR='"$(DATADIR)"' $(CFLAGS)
+# Position-independent for the shared library; every name hidden unless its
+# declaration in include/ carries SR_API (tests/symbols.py checks the export).
+PIC      = -fPIC -fvisibility=hidden
+CFLAGS_ALL = $(CSTD) $(WARN) $(OPT) $(OMP) $(PIC) $(PKG_CFLAGS) -Iinclude -Isrc -DSR_DATADIR='"$(DATADIR)"' $(CFLAGS)
 LDLIBS_ALL = $(PKG_LIBS) -lcsv -lm $(OMP) $(LDFLAGS)
 
 B        ?= build
@@ -42,7 +55,8 @@ TESTS    := $(TEST_SRC:tests/%.c=$(B)/tests/%)
 DEPS_OK  := $(B)/.deps-ok
 
 .SECONDARY:
-.PHONY: all deps check unit reference figures readme readme-check demo bench install uninstall clean plots validation validation-selftest \
+.PHONY: all deps check unit reference figures readme readme-check demo bench install uninstall install-check symbols \
+        layers clean plots validation validation-selftest \
         validation-doc sanitize valgrind fuzz fuzz-build fuzz-regress
 all: $(B)/sinkrate
 
@@ -62,6 +76,18 @@ $(B)/obj/%.o: src/%.c | $(DEPS_OK)
 $(B)/libsinkrate.a: $(LIB_OBJ)
 	@rm -f $@
 	@ar rcs $@ $^
+
+# The shared library: the same objects, only the API exported, with its soname.
+$(B)/libsinkrate.so.$(VERSION): $(LIB_OBJ)
+	@echo "  LD $@"; $(CC) -shared -Wl,-soname,$(SONAME) -Wl,--no-undefined -o $@ $^ $(LDLIBS_ALL)
+$(B)/libsinkrate.so: $(B)/libsinkrate.so.$(VERSION)
+	@ln -sf libsinkrate.so.$(VERSION) $(B)/$(SONAME) && ln -sf $(SONAME) $@
+
+# The pkg-config file of an installed tree.
+$(B)/sinkrate.pc: sinkrate.pc.in include/sinkrate/base.h
+	@mkdir -p $(B)
+	@sed -e 's|@PREFIX@|$(PREFIX)|' -e 's|@LIBDIR@|$(LIBDIR)|' -e 's|@INCLUDEDIR@|$(INCLUDEDIR)|' \
+	  -e 's|@VERSION@|$(VERSION)|' -e 's|@PKGS@|$(PKGS)|' $< > $@
 
 $(B)/libsinkrate-cli.a: $(CLI_LIBOBJ)
 	@rm -f $@
@@ -125,8 +151,9 @@ validation-doc: $(B)/sinkrate
 	@sed -n 's/^\*\*\(.*\)\*\*$$/docs\/validation.md: \1/p' docs/validation.md | head -1
 
 # check = the Makefile's own order (pkg-config read only after the deps step,
-# scripts/makefile-order.sh), the suite, the reference libraries, the README's
-# figures and console examples, the suite and
+# scripts/makefile-order.sh), the suite, the layers of the source tree, the
+# exported symbols, a staged install with the examples built against it, the
+# reference libraries, the README's figures and console examples, the suite and
 # fuzz regressions under ASan+UBSan, the CLI examples under valgrind, then
 # docs/validation.md.
 # The deps step runs in its own make first, so the build after it reads the
@@ -135,6 +162,7 @@ check:
 	@sh scripts/makefile-order.sh
 	@$(MAKE) --no-print-directory deps
 	@$(MAKE) --no-print-directory unit
+	@$(MAKE) --no-print-directory layers symbols install-check
 	@$(MAKE) --no-print-directory reference
 	@$(MAKE) --no-print-directory figures readme-check
 	@$(MAKE) --no-print-directory sanitize valgrind validation-selftest
@@ -206,19 +234,49 @@ bench: $(B)/bench $(B)/sinkrate
 $(B)/sinkrate.bash: $(B)/sinkrate
 	@$(B)/sinkrate --completion bash > $@.tmp && mv $@.tmp $@
 
-install: $(B)/sinkrate $(B)/sinkrate.bash
+LIB_FILES = $(B)/libsinkrate.so.$(VERSION) $(B)/libsinkrate.a $(B)/sinkrate.pc
+
+install: $(B)/sinkrate $(B)/sinkrate.bash $(LIB_FILES)
 	install -d $(DESTDIR)$(BINDIR) $(DESTDIR)$(DATADIR)/canopies $(DESTDIR)$(DATADIR)/plots $(DESTDIR)$(MANDIR) \
-	  $(DESTDIR)$(DOCDIR) $(DESTDIR)$(BASHCOMPDIR)
+	  $(DESTDIR)$(MAN3DIR) $(DESTDIR)$(DOCDIR) $(DESTDIR)$(BASHCOMPDIR) $(DESTDIR)$(LIBDIR) \
+	  $(DESTDIR)$(PKGCONFIGDIR) $(DESTDIR)$(INCLUDEDIR)/sinkrate
 	install -m 755 $(B)/sinkrate $(DESTDIR)$(BINDIR)/sinkrate
 	install -m 644 canopies/*.yaml $(DESTDIR)$(DATADIR)/canopies/
 	install -m 644 plots/*.gp $(DESTDIR)$(DATADIR)/plots/ 2>/dev/null || true
 	install -m 644 docs/sinkrate.1 $(DESTDIR)$(MANDIR)/sinkrate.1
+	install -m 644 docs/libsinkrate.3 $(DESTDIR)$(MAN3DIR)/libsinkrate.3
 	install -m 644 docs/files.md $(DESTDIR)$(DOCDIR)/files.md
 	install -m 644 $(B)/sinkrate.bash $(DESTDIR)$(BASHCOMPDIR)/sinkrate
+	install -m 755 $(B)/libsinkrate.so.$(VERSION) $(DESTDIR)$(LIBDIR)/libsinkrate.so.$(VERSION)
+	ln -sf libsinkrate.so.$(VERSION) $(DESTDIR)$(LIBDIR)/$(SONAME)
+	ln -sf $(SONAME) $(DESTDIR)$(LIBDIR)/libsinkrate.so
+	install -m 644 $(B)/libsinkrate.a $(DESTDIR)$(LIBDIR)/libsinkrate.a
+	install -m 644 $(B)/sinkrate.pc $(DESTDIR)$(PKGCONFIGDIR)/sinkrate.pc
+	install -m 644 include/sinkrate.h $(DESTDIR)$(INCLUDEDIR)/sinkrate.h
+	install -m 644 include/sinkrate/*.h $(DESTDIR)$(INCLUDEDIR)/sinkrate/
 
 uninstall:
-	rm -f $(DESTDIR)$(BINDIR)/sinkrate $(DESTDIR)$(MANDIR)/sinkrate.1 $(DESTDIR)$(BASHCOMPDIR)/sinkrate
-	rm -rf $(DESTDIR)$(DATADIR) $(DESTDIR)$(DOCDIR)
+	rm -f $(DESTDIR)$(BINDIR)/sinkrate $(DESTDIR)$(MANDIR)/sinkrate.1 $(DESTDIR)$(MAN3DIR)/libsinkrate.3 \
+	  $(DESTDIR)$(BASHCOMPDIR)/sinkrate
+	rm -f $(DESTDIR)$(LIBDIR)/libsinkrate.so.$(VERSION) $(DESTDIR)$(LIBDIR)/$(SONAME) \
+	  $(DESTDIR)$(LIBDIR)/libsinkrate.so $(DESTDIR)$(LIBDIR)/libsinkrate.a $(DESTDIR)$(PKGCONFIGDIR)/sinkrate.pc
+	rm -f $(DESTDIR)$(INCLUDEDIR)/sinkrate.h
+	rm -rf $(DESTDIR)$(INCLUDEDIR)/sinkrate $(DESTDIR)$(DATADIR) $(DESTDIR)$(DOCDIR)
+
+# The library from outside (tests/install.py): a staged `make install` into a
+# temporary DESTDIR, the examples built with `pkg-config --cflags --libs
+# sinkrate` against it and run, the same statically, then `make uninstall`
+# leaves nothing behind. The shared library exports only the API, every name
+# sr_ (tests/symbols.py), and the source tree keeps its layers
+# (tests/layers.py).
+install-check: $(B)/sinkrate $(B)/sinkrate.bash $(LIB_FILES)
+	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) tests/install.py "$(MAKE)" $(B)
+
+symbols: $(B)/libsinkrate.so $(B)/libsinkrate.a $(CLI_OBJ)
+	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) tests/symbols.py $(B)
+
+layers: $(LIB_OBJ) $(CLI_OBJ)
+	@PYTHONDONTWRITEBYTECODE=1 $(PYTHON) tests/layers.py $(B)
 
 clean:
 	rm -rf $(B) build-*

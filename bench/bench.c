@@ -208,7 +208,7 @@ static void bench_band(void)
     printf("banded staged descents judged, fast path %8.0f /s at 1 thread, %8.0f at 2  (goal >= 20000 at 2)\n\n",
            rate[0], rate[1]);
     sr_band_ctx_free(bc);
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
     free(cat);
 }
@@ -230,9 +230,11 @@ static int design_once(const char *path, const sr_catalog *cat, int threads, int
         free(m);
         return 1;
     }
+    sr_design_basis db;
+    sr_mission_design_basis(m, &db);
     if (all)
         for (size_t k = 0; k < m->nstages; k++)
-            sr_design_set_families(&m->design.stage[k], m, k, cat, "all", "all", &e);
+            sr_design_set_families(&m->design.stage[k], &db, k, cat, "all", "all", &e);
     /* no bays: every combination is searched to its end */
     for (size_t k = 0; k < m->nstages && all; k++)
         m->design.stage[k].bay = NAN;
@@ -251,7 +253,7 @@ static int design_once(const char *path, const sr_catalog *cat, int threads, int
         sr_design_result_free(&res);
     }
     sr_yaml_free(&y);
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
     return rc;
 }
@@ -330,7 +332,7 @@ static void bench_profile(void)
     for (int rep = 0; rep < 5; rep++) {
         double t0 = now();
         sr_profile_ctx_free(ctx);
-        if (sr_profile_ctx_new(&ctx, m, NULL, &e)) {
+        if (sr_mission_profile(&ctx, m, NULL, &e)) {
             printf("staged descent: %s\n\n", e.msg);
             return;
         }
@@ -371,7 +373,7 @@ static void bench_profile(void)
            best[2] * 1e6, 1.0 / best[2]);
     sr_profile_work_free(w);
     sr_profile_ctx_free(ctx);
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
     free(cat);
 }
@@ -444,7 +446,7 @@ static void disp_rates(const sr_disp_mission *dm, const sr_uncertainty *u, size_
                 return;
             double t = now() - t0, c = cpu_now() - c0;
             sink = res.land[n - 1].east;
-            sr_disp_result_free(&res);
+            sr_disp_result_release(&res);
             if (t < best[k]) {
                 best[k] = t;
                 cpu[k] = c / (double)n;
@@ -487,7 +489,7 @@ static void bench_dispersion(void)
                 v[i] = 3.0 + 1.5 * (double)i;
                 from[i] = (240.0 + 3.0 * i) * 3.14159265358979 / 180.0;
             }
-            sr_wind_free(&m->wind);
+            sr_wind_release(&m->wind);
             if (sr_wind_init_table(&m->wind, h, v, from, 12, &e)) {
                 printf("dispersion: %s\n", e.msg);
                 break;
@@ -510,7 +512,7 @@ static void bench_dispersion(void)
         sr_disp_mission_free(&dm);
     }
     printf("\n");
-    sr_mission_free(m);
+    sr_mission_release(m);
     free(m);
     free(cat);
 }

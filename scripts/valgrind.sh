@@ -55,6 +55,10 @@ done <<EOF_LIST
 2 check "$root/payloads/four-mistakes.yaml" "$tmp/sounding.csv" "$tmp/bad-drag.csv" "$root/payloads/demo-flight.csv" "$root/payloads/balloon-winds.csv"
 2 check "$tmp/tabs.yaml"
 0 --completion bash
+0 sweep --help
+2 air --temp-offset 5C --temp-offset 6C
+2 size --mass 2kg --speed 5m/s --famly cross
+2 profile "$M" --fast=1
 0 canopies --data "$tmp/mine" --data "$root" --format csv
 0 rate --mass 2kg --family conical --nominal-diameter 1.5m --data "$tmp/mine"
 0 sweep --mass 2kg --family conical --nominal-diameter 1.5m --from 0 --to 3km --step 1km --by temp-offset=-20C,25C --plot "$tmp/sweep"

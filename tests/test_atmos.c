@@ -12,6 +12,7 @@
 #include <unistd.h>
 
 #include "physics/atmos.h"
+#include "files/sounding.h"
 
 /* Sources, as they appear in docs/validation.md. */
 #define SRC_USSA "U.S. Standard Atmosphere 1976, Table I (as republished)"
@@ -509,7 +510,7 @@ static void test_sounding_csv(void **state)
     assert_non_null(path);
     sr_atmos m;
     sr_error e;
-    int rc = sr_atmos_load_sounding(&m, path, &e);
+    int rc = sr_sounding_load(&m, path, &e);
     if (rc)
         fail_msg("%s", e.msg);
     double lo, hi;
@@ -566,8 +567,8 @@ static void test_sounding_csv(void **state)
     char d[512];
     sr_atmos_describe(&m, d, sizeof d);
     assert_non_null(strstr(d, path));
-    sr_atmos_free(&m);
-    sr_atmos_free(&m); /* idempotent */
+    sr_atmos_release(&m);
+    sr_atmos_release(&m); /* idempotent */
     unlink(path);
 }
 
@@ -611,7 +612,7 @@ static void test_sounding_errors(void **state)
         assert_non_null(path);
         sr_atmos m;
         sr_error e;
-        int rc = sr_atmos_load_sounding(&m, path, &e);
+        int rc = sr_sounding_load(&m, path, &e);
         char want[300];
         snprintf(want, sizeof want, "%s%s", path, b->where);
         if (rc != b->code || strstr(e.msg, want) != e.msg || !strstr(e.msg, b->says))
@@ -622,7 +623,7 @@ static void test_sounding_errors(void **state)
     }
     sr_atmos m;
     sr_error e;
-    assert_int_equal(sr_atmos_load_sounding(&m, "/nonexistent/dir/sounding.csv", &e), SR_EIO);
+    assert_int_equal(sr_sounding_load(&m, "/nonexistent/dir/sounding.csv", &e), SR_EIO);
     assert_non_null(strstr(e.msg, "/nonexistent/dir/sounding.csv"));
 
     /* the array form: the same rules, row numbers in the message */
@@ -635,7 +636,7 @@ static void test_sounding_errors(void **state)
     char d[128];
     sr_atmos_describe(&m, d, sizeof d);
     assert_string_equal(d, "sounding table (2 rows, 0 m .. 100 m)");
-    sr_atmos_free(&m);
+    sr_atmos_release(&m);
 }
 
 /* ---- out of range ------------------------------------------------------- */

@@ -11,6 +11,7 @@
 #include "physics/atmos.h"
 #include "physics/bluff.h"
 #include "testutil.h"
+#include "files/dragtable.h"
 
 #define PI 3.14159265358979323846
 
@@ -335,7 +336,7 @@ static void test_table_interpolation(void **state)
     const char *path = sr_test_tmpfile(".csv", "# invented demo table\nRe,Cd\n1e3,1.0\n1e4,1.2\n1e5,0.4\n");
     assert_non_null(path);
     sr_bluff_curve f;
-    assert_int_equal(sr_bluff_curve_load(&f, path, SR_BLUFF_LOGLOG, &e), SR_OK);
+    assert_int_equal(sr_dragtable_load(&f, path, SR_BLUFF_LOGLOG, &e), SR_OK);
     assert_int_equal(f.n, 3);
     assert_true(fabs(sr_bluff_curve_cd(&f, 1e4, NULL) - 1.2) < 1e-12);
     assert_string_equal(f.source, path);
@@ -371,7 +372,7 @@ static void test_bad_tables(void **state)
         assert_non_null(path);
         sr_bluff_curve c;
         sr_error e = {0};
-        int rc = sr_bluff_curve_load(&c, path, BAD_TABLES[i].kind, &e);
+        int rc = sr_dragtable_load(&c, path, BAD_TABLES[i].kind, &e);
         if (rc == SR_OK || !strstr(e.msg, BAD_TABLES[i].expect[0]) || !strstr(e.msg, BAD_TABLES[i].expect[1]) ||
             !strstr(e.msg, path))
             fail_msg("bad table %zu: rc %d, message '%s'", i, rc, e.msg);
@@ -380,7 +381,7 @@ static void test_bad_tables(void **state)
     }
     sr_error e;
     sr_bluff_curve c;
-    assert_int_equal(sr_bluff_curve_load(&c, "/nonexistent/drag.csv", SR_BLUFF_LOGLOG, &e), SR_EIO);
+    assert_int_equal(sr_dragtable_load(&c, "/nonexistent/drag.csv", SR_BLUFF_LOGLOG, &e), SR_EIO);
     sr_bluff_curve_id id;
     assert_int_equal(sr_bluff_curve_lookup("sphere-cgw", &id, &e), SR_OK);
     assert_int_equal(id, SR_CURVE_SPHERE_CGW);
@@ -408,7 +409,7 @@ static void test_yaml_tables(void **state)
                                                  "  - [1.0e4, 1.2]\n  - [1.0e5, 0.4]\n");
     assert_non_null(path);
     sr_bluff_curve c;
-    if (sr_bluff_curve_load(&c, path, SR_BLUFF_STEFFEN, &e) != SR_OK)
+    if (sr_dragtable_load(&c, path, SR_BLUFF_STEFFEN, &e) != SR_OK)
         fail_msg("%s", e.msg);
     assert_int_equal(c.n, 3);
     assert_non_null(strstr(c.source, "demo cone; invented"));
@@ -423,7 +424,7 @@ static void test_yaml_tables(void **state)
     remove(path);
     for (size_t i = 0; i < sizeof BAD_YAML / sizeof BAD_YAML[0]; i++) {
         path = sr_test_tmpfile(".yaml", BAD_YAML[i].text);
-        int rc = sr_bluff_curve_load(&c, path, BAD_YAML[i].kind, &e);
+        int rc = sr_dragtable_load(&c, path, BAD_YAML[i].kind, &e);
         if (rc == SR_OK || !strstr(e.msg, BAD_YAML[i].expect[0]) || !strstr(e.msg, BAD_YAML[i].expect[1]) ||
             !strstr(e.msg, path))
             fail_msg("bad YAML table %zu: rc %d, message '%s'", i, rc, e.msg);

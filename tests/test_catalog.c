@@ -159,8 +159,8 @@ static void test_canopy_file(void **state)
 static void test_only_regular_files(void **state)
 {
     (void)state;
-    char d[] = "/tmp/sinkrate-cat-XXXXXX";
-    assert_non_null(mkdtemp(d));
+    char d[64];
+    sr_test_tmpdir(d, sizeof d, "cat");
     char p[256], q[256];
     snprintf(p, sizeof p, "%s/conical.yaml", d);
     assert_int_equal(symlink(sr_test_path("canopies/conical.yaml"), p), 0); /* a link to a family is one */

@@ -9,6 +9,7 @@
 #include <unistd.h>
 #include <jansson.h>
 
+#include "cli/commands.h"
 #include "output/report.h"
 #include "testutil.h"
 
@@ -61,7 +62,16 @@ static void test_caution_everywhere(void **state)
         {"canopies", NULL},
         {"canopies", "ringslot", NULL},
         {"check", "@" REVISED, NULL},
+        {"fit", "@payloads/demo-flight.csv", "--mission", "@payloads/desert-club-rocket.yaml", NULL},
     };
+    /* every command is here: a new one fails until it has a line */
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {
+        int found = 0;
+        for (size_t i = 0; i < sizeof CMDS / sizeof CMDS[0]; i++)
+            found |= strcmp(CMDS[i][0], (*cmd)->name) == 0;
+        if (!found)
+            fail_msg("the caution test has no line for the command '%s'", (*cmd)->name);
+    }
     for (size_t i = 0; i < sizeof CMDS / sizeof CMDS[0]; i++) {
         for (size_t f = 0; f < 3; f++) {
             char *argv[20];
@@ -116,8 +126,8 @@ static void test_caution_everywhere(void **state)
 static void test_caution_in_files(void **state)
 {
     (void)state;
-    char dir[] = "/tmp/sinkrate-caution-XXXXXX";
-    assert_non_null(mkdtemp(dir));
+    char dir[64];
+    sr_test_tmpdir(dir, sizeof dir, "caution");
     char pre[300], samples[300];
     snprintf(pre, sizeof pre, "%s/fig", dir);
     snprintf(samples, sizeof samples, "%s/samples.csv", dir);
@@ -282,8 +292,8 @@ static void test_impossible_is_exit_1(void **state)
 static void test_output_file_atomic(void **state)
 {
     (void)state;
-    char path[] = "/tmp/sinkrate-out-XXXXXX";
-    assert_non_null(mkdtemp(path));
+    char path[64];
+    sr_test_tmpdir(path, sizeof path, "out");
     char file[300];
     snprintf(file, sizeof file, "%s/air.csv", path);
     char *out, *err;

@@ -239,8 +239,8 @@ static void check_figure(const char *prefix, int rendered, int n, int nstable)
 static void test_plot(void **state)
 {
     (void)state;
-    char dir[] = "/tmp/sinkrate-ff-plot-XXXXXX";
-    assert_non_null(mkdtemp(dir));
+    char dir[64];
+    sr_test_tmpdir(dir, sizeof dir, "ff-plot");
     char gnuplot[1024], prefix[300], path[320];
     int have = sr_plot_find_gnuplot(gnuplot, sizeof gnuplot), n, ns;
     for (int hide = 0; hide < 2; hide++) {
@@ -258,9 +258,7 @@ static void test_plot(void **state)
     snprintf(path, sizeof path, "%s.gp", prefix);
     assert_true(sr_test_file_has(path, " m/s, stable' at graph "));
     assert_true(sr_test_file_has(path, " m/s, unstable' at graph "));
-    char cmd[400];
-    snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
-    assert_int_equal(system(cmd), 0);
+    sr_test_rmtree(dir);
 }
 
 typedef struct bad_case {

@@ -328,8 +328,8 @@ static void check_figure(const char *prefix, int rendered)
 static void test_plot_files(void **state)
 {
     (void)state;
-    char dir[] = "/tmp/sinkrate-loads-XXXXXX";
-    assert_non_null(mkdtemp(dir));
+    char dir[64];
+    sr_test_tmpdir(dir, sizeof dir, "loads");
     char gnuplot[1024], prefix[300];
     int have = sr_plot_find_gnuplot(gnuplot, sizeof gnuplot);
     static const char *const ONE[] = {"--mass", "5 kg", "--speed", "30", "--family", "conical",
@@ -366,9 +366,7 @@ static void test_plot_files(void **state)
     assert_int_not_equal(access(path, F_OK), 0);
     snprintf(path, sizeof path, "%s/odd/deeper/fig-a", dir);
     assert_int_not_equal(access(path, F_OK), 0);
-    char cmd[400];
-    snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
-    assert_int_equal(system(cmd), 0);
+    sr_test_rmtree(dir);
 }
 
 static void test_caution_everywhere(void **state)

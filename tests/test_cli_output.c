@@ -77,27 +77,6 @@ static int entries(const char *d)
     return n;
 }
 
-static void remove_tree(const char *d)
-{
-    DIR *h = opendir(d);
-    if (h) {
-        struct dirent *e;
-        while ((e = readdir(h)) != NULL) {
-            if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
-                continue;
-            char sub[4200];
-            snprintf(sub, sizeof sub, "%s/%s", d, e->d_name);
-            struct stat st;
-            if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
-                remove_tree(sub);
-            else
-                unlink(sub);
-        }
-        closedir(h);
-    }
-    rmdir(d);
-}
-
 /* The smallest PNG: signature, IHDR of 1x1, one IDAT, IEND (ISO/IEC 15948:2004 sec. 5). */
 static const unsigned char PNG[] = {
     0x89, 'P', 'N', 'G', 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 'I', 'H', 'D', 'R', 0, 0, 0, 1, 0, 0, 0, 1, 8, 2, 0,
@@ -147,7 +126,7 @@ static int setup(void **state)
 static int teardown(void **state)
 {
     (void)state;
-    remove_tree(dir);
+    sr_test_rmtree(dir);
     return 0;
 }
 
@@ -155,7 +134,7 @@ static int teardown(void **state)
 static const char *workdir(const char *name)
 {
     const char *w = at(name);
-    remove_tree(w);
+    sr_test_rmtree(w);
     assert_int_equal(mkdir(w, 0755), 0);
     return w;
 }

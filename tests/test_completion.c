@@ -9,10 +9,9 @@
 #include <string.h>
 #include <unistd.h>
 
+#include "cli/commands.h"
 #include "testutil.h"
 
-static const char *const COMMANDS[] = {"size",       "rate", "sweep",    "profile", "loads", "freefall",
-                                       "dispersion", "air",  "canopies", "check",   "fit"};
 
 static char *script(void)
 {
@@ -54,19 +53,20 @@ static void test_syntax_and_every_option(void **state)
     char cmd[1024];
     snprintf(cmd, sizeof cmd, "bash -n '%s'", path);
     assert_int_equal(system(cmd), 0);
-    for (size_t i = 0; i < sizeof COMMANDS / sizeof COMMANDS[0]; i++) {
-        char *opts = opts_of(s, COMMANDS[i]);
+    for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {
+        const char *name = (*cmd)->name;
+        char *opts = opts_of(s, name);
         if (!opts)
-            fail_msg("no options of '%s' in the script", COMMANDS[i]);
+            fail_msg("no options of '%s' in the script", name);
         char *out, *err;
-        assert_int_equal(sr_test_cli(&out, &err, COMMANDS[i], "--help", NULL), 0);
+        assert_int_equal(sr_test_cli(&out, &err, name, "--help", NULL), 0);
         /* every option the help names is in the list ... */
         for (const char *p = out; (p = strstr(p, "  --")); p += 4) {
             char name[64];
             if (sscanf(p + 2, "%63[a-z0-9-]", name) != 1)
                 continue;
             if (!has_word(opts, name))
-                fail_msg("%s: --help shows %s, the completion does not offer it", COMMANDS[i], name);
+                fail_msg("%s: --help shows %s, the completion does not offer it", name, name);
         }
         /* ... and every option in the list is in the help */
         char *copy = strdup(opts), *save = NULL;
@@ -75,7 +75,7 @@ static void test_syntax_and_every_option(void **state)
             snprintf(a, sizeof a, "%s,", w);
             snprintf(b, sizeof b, "%s ", w);
             if (!strstr(out, a) && !strstr(out, b))
-                fail_msg("%s: the completion offers %s, --help does not show it", COMMANDS[i], w);
+                fail_msg("%s: the completion offers %s, --help does not show it", name, w);
         }
         free(copy);
         free(out);

@@ -51,16 +51,10 @@ static size_t interp_at(const sr_profile_track *tr, double t, size_t from)
 
 static char *make_log(size_t *len_out)
 {
-    sr_catalog *cat = malloc(sizeof *cat);
     sr_error e;
-    assert_non_null(cat);
-    if (sr_catalog_open(cat, sr_test_path("canopies"), &e))
-        fail_msg("%s", e.msg);
-    sr_mission *m = calloc(1, sizeof *m);
-    if (sr_mission_load(m, sr_test_path("payloads/desert-club-rocket.yaml"), cat, &e))
-        fail_msg("%s", e.msg);
+    sr_mission *m = sr_test_mission_file("payloads/desert-club-rocket.yaml");
     sr_profile_ctx *ctx;
-    if (sr_profile_ctx_new(&ctx, m, NULL, &e))
+    if (sr_mission_profile(&ctx, m, NULL, &e))
         fail_msg("%s", e.msg);
     sr_profile_track tr = {.cap = 200000, .dt = 0.02};
     tr.pt = malloc(tr.cap * sizeof *tr.pt);
@@ -147,8 +141,6 @@ static char *make_log(size_t *len_out)
     free(tr.pt);
     sr_profile_ctx_free(ctx);
     sr_mission_free(m);
-    free(m);
-    free(cat);
     *len_out = len;
     return b;
 }

@@ -80,7 +80,7 @@ static void run_free(run *r)
 {
     sr_design_result_free(&r->res);
     sr_yaml_free(&r->y);
-    sr_mission_free(&r->m);
+    sr_mission_release(&r->m);
     free(r);
 }
 
@@ -476,8 +476,8 @@ static void test_writer_round_trip(void **state)
         sr_band_ctx_free(cb);
         free(text);
         sr_yaml_free(&y);
-        sr_mission_free(a);
-        sr_mission_free(b);
+        sr_mission_release(a);
+        sr_mission_release(b);
         free(a);
         free(b);
     }

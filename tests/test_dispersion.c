@@ -218,7 +218,7 @@ static void test_ellipse_bivariate_sample(void **state)
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "fraction inside the 3-sigma ellipse",
                     "bivariate normal: P(inside k sigma) = 1 - exp(-k^2/2)", p3, (double)in3 / (double)n,
                     5.0 * sqrt(p3 * (1 - p3) / (double)n));
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
 }
 
 /* Quantiles by selection against GSL's quantile of sorted data. */
@@ -285,7 +285,7 @@ static void test_engine_linear_covariance(void **state)
     CHECK_REL_CLASS(SR_CHECK_METHOD, "mean drift distance (m)", SRC_LINEAR, a.wind * t, st.body[0].mean_distance,
                     5.0 * 1.2 / a.wind / sqrt((double)n));
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "mean drift bearing (deg)", SRC_LINEAR, 45.0, st.body[0].mean_bearing / DEG, 1e-6);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
 }
 
 /* The acceptance case: normal wind speed only, constant density; the
@@ -315,7 +315,7 @@ static void test_wind_speed_spread_analytic(void **state)
         CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_DRIFT, 0.0, sqrt(st.body[0].cov_nn), 1e-9);
         CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "descent time, no drag or mass spread (s)",
                         "closed form t = h / v, v = sqrt(2 m g / (rho CdS))", t, st.body[0].time.pct[2], 1e-12);
-        sr_disp_result_free(&res);
+        sr_disp_result_release(&res);
     }
 }
 
@@ -350,7 +350,7 @@ static void test_radii_rayleigh(void **state)
         snprintf(q, sizeof q, "%.0f %% radius around the launch point (m)", 100 * P[k]);
         CHECK_ABS_CLASS(SR_CHECK_LIBRARY, q, SRC_RAYLEIGH, rp, got_launch[k], 5.0 * se);
     }
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
 }
 
 /* Drag uniform over a range: descent-time and touchdown-speed percentiles
@@ -370,7 +370,7 @@ static void test_percentiles_uniform_drag(void **state)
     double v0 = sqrt(2.0 * a.mass * G0 / (a.rho * a.cds)), t0 = a.height / v0, w = 0.25;
     char q[128];
     for (int k = 0; k < SR_SCATTER_NPCT; k++) {
-        double P = SR_SCATTER_PCT[k];
+        double P = sr_scatter_pct[k];
         double kt = 0.90 + P * w;         /* time grows with the drag scale */
         double kv = 0.90 + (1.0 - P) * w; /* speed falls with it */
         /* quantile error: sqrt(P(1-P)/n) in the uniform's probability, times the slope */
@@ -391,7 +391,7 @@ static void test_percentiles_uniform_drag(void **state)
     CHECK_REL_CLASS(SR_CHECK_METHOD, "mean touchdown energy (J)",
                     "closed form: E[1/k] for k uniform on [a, b] is ln(b/a)/(b - a)", e0 * log(1.15 / 0.90) / w,
                     st.body[0].energy.mean, 2e-3);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
 }
 
 /* Limit probability against the closed form, with its standard error and
@@ -431,7 +431,7 @@ static void test_limit_probability(void **state)
      * independently (Python, double precision): 0.218948 .. 0.395850 */
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "Wilson lower bound, 30 of 100", SRC_WILSON, 0.218948, z.lo, 2e-6);
     CHECK_ABS_CLASS(SR_CHECK_METHOD, "Wilson upper bound, 30 of 100", SRC_WILSON, 0.395850, z.hi, 2e-6);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
 }
 
 /* Zero uncertainty: every sample is the nominal descent, bit for bit. */
@@ -453,7 +453,7 @@ static void test_zero_uncertainty(void **state)
         assert_memory_equal(&res.land[i], &nom, sizeof nom);
     CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "1-sigma major axis with nothing uncertain (m)", "definition: no spread", 0.0,
                     st.body[0].sigma1.major, 0.0);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
 }
 
 /* Same seed, 1, 2 and 3 threads: identical bytes; another seed differs. */
@@ -491,18 +491,18 @@ static void test_threads_identical(void **state)
     assert_memory_equal(r1.land, r4.land, n * sizeof *r1.land);
     unsetenv("GSL_RNG_SEED");
     unsetenv("GSL_RNG_TYPE");
-    sr_disp_result_free(&r4);
+    sr_disp_result_release(&r4);
     /* a different seed gives a different scatter */
     run_ok(&a, &u, n, 1235, 2, &r4, &s4);
     assert_true(memcmp(r1.land, r4.land, n * sizeof *r1.land) != 0);
     /* a prefix run gives the same first samples: sample i depends on (seed, i) only */
-    sr_disp_result_free(&r4);
+    sr_disp_result_release(&r4);
     run_ok(&a, &u, 100, 1234, 2, &r4, NULL);
     assert_memory_equal(r1.land, r4.land, 100 * sizeof *r1.land);
-    sr_disp_result_free(&r1);
-    sr_disp_result_free(&r2);
-    sr_disp_result_free(&r3);
-    sr_disp_result_free(&r4);
+    sr_disp_result_release(&r1);
+    sr_disp_result_release(&r2);
+    sr_disp_result_release(&r3);
+    sr_disp_result_release(&r4);
 }
 
 static size_t progress_last, progress_calls;
@@ -527,7 +527,7 @@ static void test_progress(void **state)
     assert_int_equal(sr_disp_run(&m, &u, &o, &res, NULL), SR_OK);
     assert_int_equal(progress_last, 5000);
     assert_true(progress_calls >= 5000 / 256);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
 }
 
 /* Bad input: clear errors; a failing sample is the lowest failing index at

@@ -28,25 +28,11 @@
 #define SRC_MASS "closed form: v ~ sqrt(m), so sd(v)/v = sd(m)/(2 m) to first order"
 #define SRC_PROFILE "the deterministic staged descent (sinkrate profile), fast mode, same mission"
 
-static sr_catalog *CAT;
-
 static int setup(void **state)
 {
     (void)state;
     gsl_set_error_handler_off();
-    CAT = malloc(sizeof *CAT);
-    sr_error e;
-    if (!CAT || sr_catalog_open(CAT, sr_test_path("canopies"), &e)) {
-        fprintf(stderr, "catalog: %s\n", e.msg);
-        return -1;
-    }
-    return 0;
-}
-
-static int teardown(void **state)
-{
-    (void)state;
-    free(CAT);
+    (void)sr_test_catalog();
     return 0;
 }
 
@@ -81,17 +67,8 @@ static sr_mission *load(const char *wind, const char *unc)
 {
     char text[4096];
     snprintf(text, sizeof text, MISSION, wind, unc);
-    sr_mission *m = calloc(1, sizeof *m);
-    sr_error e;
-    if (sr_mission_load(m, sr_test_tmpfile(".yaml", text), CAT, &e))
-        fail_msg("mission: %s", e.msg);
+    sr_mission *m = sr_test_mission_text(text);
     return m;
-}
-
-static void drop(sr_mission *m)
-{
-    sr_mission_free(m);
-    free(m);
 }
 
 static void init(sr_disp_mission *dm, const sr_mission *m, double rho, int full)
@@ -153,10 +130,10 @@ static void test_zero_is_profile(void **state)
     CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "fast nominal landing distance vs full (m)",
                     "the full staged descent (GSL rk8pd + QAG); fast-mode bound of profile.h", full->body[0].drift,
                     hypot(nom.east, nom.north), 1e-4);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
     free(r);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* Normal wind speed only, uniform air, constant wind: the along-wind sd is
@@ -189,10 +166,10 @@ static void test_wind_speed_uniform_air(void **state)
         CHECK_ABS_CLASS(SR_CHECK_DERIVED, q, SRC_DRIFT, 90.0, b->sigma1.bearing * 180.0 / PI, 1e-6);
         snprintf(q, sizeof q, "mean downwind drift, %s mode (m)", full ? "full" : "fast");
         CHECK_ABS_CLASS(SR_CHECK_DERIVED, q, SRC_DRIFT, 6.0 * t, b->mean_east, 4.0 * 1.5 * t / sqrt((double)n));
-        sr_disp_result_free(&res);
+        sr_disp_result_release(&res);
         sr_disp_mission_free(&dm);
     }
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* First-deployment height and main deployment height, uniform air, calm:
@@ -214,9 +191,9 @@ static void test_heights_uniform_air(void **state)
     got = sqrt(got / (double)(n - 1));
     CHECK_REL_CLASS(SR_CHECK_DERIVED, "sd of descent time, first deployment sigma 40 m (s)", SRC_RATE, sd, got,
                     4.0 / sqrt(2.0 * (double)(n - 1)));
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
-    drop(m);
+    sr_mission_free(m);
 
     m = load("", "uncertainty:\n  drag: fixed\n  deployment-height: {distribution: uniform, half-width: 30 m}\n");
     init(&dm, m, RHO, 0);
@@ -234,9 +211,9 @@ static void test_heights_uniform_air(void **state)
     /* the time is linear in the deployment height: its range is the full width */
     CHECK_REL_CLASS(SR_CHECK_DERIVED, "range of descent time, main deployment +-30 m uniform (s)", SRC_SHIFT,
                     60.0 * (1.0 / vm - 1.0 / vd2), st.body[0].time.max - st.body[0].time.min, 0.03);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* Deployment delay: a main opened dt later (the drogue steady at v_d) opens
@@ -250,10 +227,7 @@ static void test_delay_uniform_air(void **state)
                        "  - name: main\n    family: conical\n    nominal-diameter: 2.0 m\n    deploy:\n      delay: 40 s\n"
                        "start:\n  height: 1500 m\n  speed: 0 m/s\n"
                        "uncertainty:\n  drag: fixed\n  deployment-delay: {distribution: uniform, half-width: 2 s}\n";
-    sr_mission *m = calloc(1, sizeof *m);
-    sr_error e;
-    if (sr_mission_load(m, sr_test_tmpfile(".yaml", text), CAT, &e))
-        fail_msg("mission: %s", e.msg);
+    sr_mission *m = sr_test_mission_text(text);
     assert_int_equal(m->unc.delay_stages, 2u);
     sr_disp_mission dm;
     init(&dm, m, RHO, 0);
@@ -267,9 +241,9 @@ static void test_delay_uniform_air(void **state)
         SR_CHECK_DERIVED, "range of descent time, main delay +-2 s uniform (s)",
         "closed form, uniform air: a deployment dt later in steady descent changes the time by dt (v_d/v_m - 1)",
         4.0 * (vd / vm - 1.0), st.body[0].time.max - st.body[0].time.min, 0.01);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* Mass only: touchdown speed spread sd(m)/(2m) v. */
@@ -292,9 +266,9 @@ static void test_mass_uniform_air(void **state)
                     2e-3);
     CHECK_REL_CLASS(SR_CHECK_METHOD, "sd of touchdown speed, mass sigma 4 % (m/s)", SRC_MASS, 0.02 * v, got,
                     4.0 / sqrt(2.0 * (double)(n - 1)) + 2e-3);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* Every deviation at once: same bytes at 1 and 2 threads; flags agree with
@@ -331,10 +305,10 @@ static void test_threads_and_flags(void **state)
     assert_int_equal(sa.limit[3].count, over_d);
     assert_true(over_v > 0 && over_v < n);
     assert_true(over_d > 0 && over_d < n);
-    sr_disp_result_free(&a);
-    sr_disp_result_free(&b);
+    sr_disp_result_release(&a);
+    sr_disp_result_release(&b);
     sr_disp_mission_free(&dm);
-    drop(m);
+    sr_mission_free(m);
 }
 
 int main(void)
@@ -345,5 +319,5 @@ int main(void)
         cmocka_unit_test(test_mass_uniform_air),
         cmocka_unit_test(test_threads_and_flags),
     };
-    return cmocka_run_group_tests_name("dispersion_mission", tests, setup, teardown);
+    return cmocka_run_group_tests_name("dispersion_mission", tests, setup, NULL);
 }

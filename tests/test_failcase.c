@@ -20,6 +20,7 @@
 #include "files/catalog.h"
 #include "files/mission.h"
 #include "physics/profile.h"
+#include "files/dragtable.h"
 
 #define PI 3.14159265358979323846
 #define G0 9.80665
@@ -31,43 +32,12 @@
     "acosh(exp(g H/vt^2)), vt^2 = 2 m g/(rho Cd A) (derived; g at mid-height of the 1976 standard's g(z))"
 #define SRC_DISK "drag balance with Cd 1.17 of a thin disk (Hoerner 1965, drag-data.md 2.5; from memory)"
 
-static sr_catalog *CAT;
-
 static int setup(void **state)
 {
     (void)state;
     gsl_set_error_handler_off();
-    CAT = malloc(sizeof *CAT);
-    sr_error e;
-    if (!CAT || sr_catalog_open(CAT, sr_test_path("canopies"), &e)) {
-        fprintf(stderr, "catalog: %s\n", e.msg);
-        return -1;
-    }
+    (void)sr_test_catalog();
     return 0;
-}
-
-static int teardown(void **state)
-{
-    (void)state;
-    free(CAT);
-    return 0;
-}
-
-static sr_mission *load(const char *yaml)
-{
-    sr_mission *m = calloc(1, sizeof *m);
-    sr_error e;
-    const char *p = sr_test_tmpfile(".yaml", yaml);
-    assert_non_null(p);
-    if (sr_mission_load(m, p, CAT, &e))
-        fail_msg("mission: %s", e.msg);
-    return m;
-}
-
-static void drop(sr_mission *m)
-{
-    sr_mission_free(m);
-    free(m);
 }
 
 /* The context of a failure case: the stages in `failed` do not deploy. */
@@ -79,7 +49,7 @@ static sr_profile_ctx *ctx_failed(const sr_mission *m, unsigned failed, double r
     o.uniform_density = rho;
     sr_profile_ctx *c;
     sr_error e;
-    if (sr_profile_ctx_new(&c, m, &o, &e))
+    if (sr_mission_profile(&c, m, &o, &e))
         fail_msg("context: %s", e.msg);
     return c;
 }
@@ -128,7 +98,7 @@ static void test_terminal_speed(void **state)
         char yaml[1024];
         /* 2000 m in the standard atmosphere: the speed follows the equilibrium long before the ground */
         drop_mission(yaml, sizeof yaml, "{elevation: 0 m}", 2000.0, k->mass, k->body);
-        sr_mission *m = load(yaml);
+        sr_mission *m = sr_test_mission_text(yaml);
         assert_int_equal(m->nfailures, 1);
         sr_profile_ctx *c = ctx_failed(m, m->failures[0].failed, NAN);
         const sr_profile_result *r = sr_profile_nominal(c);
@@ -163,7 +133,7 @@ static void test_terminal_speed(void **state)
         assert_true(fabs(f.descent_time - r->descent_time) <= 1e-9 * r->descent_time);
         sr_bluff_curve_free(&cv);
         sr_profile_ctx_free(c);
-        drop(m);
+        sr_mission_free(m);
     }
 }
 
@@ -177,7 +147,7 @@ static void test_constant_cd_closed_form(void **state)
     char yaml[1024];
     drop_mission(yaml, sizeof yaml, "{elevation: 0 m, wind: {speed: 4 m/s, from: 270 deg}}", H, "5 kg",
                  "{shape: disk, diameter: 30 cm}");
-    sr_mission *m = load(yaml);
+    sr_mission *m = sr_test_mission_text(yaml);
     sr_profile_ctx *c = ctx_failed(m, 1u, RHO);
     const sr_profile_result *r = sr_profile_nominal(c);
     double g = G0 * pow(SR_ATMOS_R0 / (SR_ATMOS_R0 + H / 2), 2);
@@ -192,7 +162,7 @@ static void test_constant_cd_closed_form(void **state)
     CHECK_REL_CLASS(SR_CHECK_DERIVED, "a fall from rest in a constant wind drifts w t",
                     "kinematics: no airspeed across the wind (derived)", w * r->body[0].t_land, r->body[0].east, 1e-9);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* ---- the drag crisis: several equilibria, the fastest one is reported ---- */
@@ -203,7 +173,7 @@ static void test_drag_crisis(void **state)
     char yaml[1024];
     /* the 0.2 m, 0.5 kg sphere that has three equilibria at sea level (tests/test_bluff.c) */
     drop_mission(yaml, sizeof yaml, "{elevation: 0 m}", 600.0, "0.5 kg", "{shape: sphere, diameter: 20 cm}");
-    sr_mission *m = load(yaml);
+    sr_mission *m = sr_test_mission_text(yaml);
     sr_profile_ctx *c = ctx_failed(m, 1u, NAN);
     const sr_profile_result *r = sr_profile_nominal(c);
     sr_error e;
@@ -228,7 +198,7 @@ static void test_drag_crisis(void **state)
                     SRC_ROOT, q.root[2].v, r->body[0].rate_land, 1e-9);
     sr_bluff_curve_free(&cv);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
 
     /* the command says so in a warning, and the what-if result leaves the exit code alone */
     snprintf(yaml, sizeof yaml,
@@ -331,7 +301,7 @@ static void test_schema_errors(void **state)
 {
     (void)state;
     /* the base file itself is fine */
-    sr_mission *m = load(BASE);
+    sr_mission *m = sr_test_mission_text(BASE);
     assert_true(m->sections[0].has_body);
     CHECK_REL_CLASS(SR_CHECK_METHOD, "a broadside cylinder's reference area d x L",
                     "projected area of a cylinder (geometry)", 0.1 * 0.8, m->sections[0].body_area, 1e-12);
@@ -341,7 +311,7 @@ static void test_schema_errors(void **state)
     assert_int_equal(m->failures[0].failed, 3u);
     assert_string_equal(m->failures[1].name, "drogue only");
     assert_int_equal(m->failures[1].failed, 2u);
-    drop(m);
+    sr_mission_free(m);
     for (size_t i = 0; i < sizeof BAD / sizeof BAD[0]; i++) {
         const char *path = sr_test_tmpfile(".yaml", edited(BAD[i].line, BAD[i].to, BAD[i].text));
         char *out, *err;
@@ -363,7 +333,7 @@ static void test_table_body(void **state)
     char body[512], yaml[1024];
     snprintf(body, sizeof body, "{cd-table: %s, diameter: 20 cm}", table);
     drop_mission(yaml, sizeof yaml, "{elevation: 0 m}", 2000.0, "2 kg", body);
-    sr_mission *m = load(yaml);
+    sr_mission *m = sr_test_mission_text(yaml);
     CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "a table body's area from the table file", "the table file's reference-area",
                     0.04, m->sections[0].body_area, 1e-12);
     sr_profile_ctx *c = ctx_failed(m, 1u, NAN);
@@ -374,7 +344,7 @@ static void test_table_body(void **state)
     sr_bluff_curve cv;
     sr_bluff_body b;
     sr_bluff_equilibria q;
-    assert_int_equal(sr_bluff_curve_load(&cv, table, SR_BLUFF_LOGLOG, &e), SR_OK);
+    assert_int_equal(sr_dragtable_load(&cv, table, SR_BLUFF_LOGLOG, &e), SR_OK);
     assert_int_equal(sr_bluff_body_init(&b, SR_BLUFF_TABLE, &cv, 0.2, 0, 2.0, NAN, &e), SR_OK);
     assert_int_equal(sr_bluff_equilibria_find(&b, &air, &q, &e), SR_OK);
     assert_int_equal(q.n, 1);
@@ -383,15 +353,15 @@ static void test_table_body(void **state)
                     "the lag behind the equilibrium)",
                     SRC_ROOT, q.root[0].v, r->body[0].rate_land, 5e-3);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
     sr_bluff_curve_free(&cv);
     /* area: in the mission wins over the file's */
     snprintf(body, sizeof body, "{cd-table: %s, area: 0.05 m2, diameter: 20 cm}", table);
     drop_mission(yaml, sizeof yaml, "{elevation: 0 m}", 2000.0, "2 kg", body);
-    m = load(yaml);
+    m = sr_test_mission_text(yaml);
     CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "a table body's area from the mission", "the mission's area:", 0.05,
                     m->sections[0].body_area, 1e-12);
-    drop(m);
+    sr_mission_free(m);
     /* a CSV table states no area: the mission must */
     const char *csv = sr_test_tmpfile(".csv", "Re,Cd\n1000,1.2\n1000000,1.0\n");
     snprintf(body, sizeof body, "{cd-table: %s, diameter: 20 cm}", csv);
@@ -410,10 +380,8 @@ static void test_table_body(void **state)
 static void test_threads(void **state)
 {
     (void)state;
-    sr_mission *m = calloc(1, sizeof *m);
+    sr_mission *m = sr_test_mission_file("payloads/desert-club-rocket-revised.yaml");
     sr_error e;
-    if (sr_mission_load(m, sr_test_path("payloads/desert-club-rocket-revised.yaml"), CAT, &e))
-        fail_msg("mission: %s", e.msg);
     sr_profile_ctx *c = ctx_failed(m, 3u, NAN);
     enum { N = 64 };
     static double serial[N], parallel[N];
@@ -450,7 +418,7 @@ static void test_threads(void **state)
     assert_int_equal(bad, 0);
     assert_memory_equal(serial, parallel, sizeof serial);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
 }
 
 
@@ -505,10 +473,8 @@ static void test_attitude_factors(void **state)
 static void test_tumbling_demo(void **state)
 {
     (void)state;
-    sr_mission *m = calloc(1, sizeof *m);
+    sr_mission *m = sr_test_mission_file("payloads/desert-club-rocket-revised.yaml");
     sr_error e;
-    if (sr_mission_load(m, sr_test_path("payloads/desert-club-rocket-revised.yaml"), CAT, &e))
-        fail_msg("mission: %s", e.msg);
     sr_judge_limits l;
     sr_judge_limits_init(&l, m);
     sr_failcase_result *f = calloc(1, sizeof *f);
@@ -545,14 +511,14 @@ static void test_tumbling_demo(void **state)
                     "drag balance m g = 1/2 rho v^2 sum (k Cd_i(Re_i) A_i + c_i) (bluff.h attitudes)",
                     sr_mission_total_mass(m) * air.g, drag, 1e-9);
     free(f);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* A stable-end-on section adds the end-on attitude; other shapes refuse it. */
 static void test_end_on(void **state)
 {
     (void)state;
-    sr_mission *m = load("mission: finned booster\n"
+    sr_mission *m = sr_test_mission_text("mission: finned booster\n"
                          "sections:\n  - {name: booster, mass: 3 kg, body: {shape: cylinder, diameter: 10 cm, "
                          "length: 80 cm, stable-end-on: true}}\n"
                          "stages:\n  - {name: main, family: conical, nominal-diameter: 2 m, deploy: apogee}\n"
@@ -574,7 +540,7 @@ static void test_end_on(void **state)
     assert_non_null(strstr(out, "end-on (the worse of 3 attitudes"));
     free(out);
     free(err);
-    drop(m);
+    sr_mission_free(m);
     const char *bad = sr_test_tmpfile(".yaml", "mission: m\nsections:\n  - {name: s, mass: 1 kg, body: {shape: sphere, "
                                                "diameter: 10 cm, stable-end-on: true}}\n"
                                                "stages:\n  - {name: main, family: conical, nominal-diameter: 2 m}\n");
@@ -670,10 +636,8 @@ static void test_demo(void **state)
     free(err);
 
     /* the numbers behind the table: the no-canopy case of the revised demo */
-    sr_mission *m = calloc(1, sizeof *m);
+    sr_mission *m = sr_test_mission_file("payloads/desert-club-rocket-revised.yaml");
     sr_error e;
-    if (sr_mission_load(m, sr_test_path("payloads/desert-club-rocket-revised.yaml"), CAT, &e))
-        fail_msg("mission: %s", e.msg);
     assert_int_equal(m->nfailures, 3);
     sr_profile_ctx *c = ctx_failed(m, m->failures[0].failed, NAN);
     const sr_profile_result *r = sr_profile_nominal(c);
@@ -698,7 +662,7 @@ static void test_demo(void **state)
         sr_mission_total_mass(m) * air.g, drag, 1e-9);
     assert_true(fabs(r->body[0].rate_land - v) <= 5e-3 * v);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
 }
 
 int main(void)
@@ -711,5 +675,5 @@ int main(void)
         cmocka_unit_test(test_tumbling_demo),  cmocka_unit_test(test_end_on),
         cmocka_unit_test(test_failure_breaches),
     };
-    return cmocka_run_group_tests_name("failcase", tests, setup, teardown);
+    return cmocka_run_group_tests_name("failcase", tests, setup, NULL);
 }

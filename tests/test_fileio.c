@@ -97,8 +97,8 @@ static void test_write_replace_link_device(void **state)
 static void test_refused(void **state)
 {
     (void)state;
-    char d[] = "/tmp/sinkrate-check-XXXXXX";
-    assert_non_null(mkdtemp(d));
+    char d[64];
+    sr_test_tmpdir(d, sizeof d, "check");
     char p[512];
     sr_error e;
     static const struct {

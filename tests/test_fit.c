@@ -32,25 +32,11 @@
     "U.S. Standard Atmosphere 1976 (NOAA-S/T 76-1562) eq. 33a (pressure in a layer of constant lapse) and the "    \
     "hypsometric equation dH = (R*/g0 M0) T dln p, by hand with T = T_std + dT at each pressure"
 
-static sr_catalog *CAT;
-
 static int setup(void **state)
 {
     (void)state;
     gsl_set_error_handler_off();
-    CAT = malloc(sizeof *CAT);
-    sr_error e;
-    if (!CAT || sr_catalog_open(CAT, sr_test_path("canopies"), &e)) {
-        fprintf(stderr, "catalog: %s\n", e.msg);
-        return -1;
-    }
-    return 0;
-}
-
-static int teardown(void **state)
-{
-    (void)state;
-    free(CAT);
+    (void)sr_test_catalog();
     return 0;
 }
 
@@ -164,7 +150,7 @@ static int fit_synth(const synth *S, uint64_t seed, sr_fit_result *r, sr_error *
     s.mass = S->m;
     rc = sr_fit_log(&log, &s, r, e);
     sr_flightlog_free(&log);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     return rc;
 }
 
@@ -317,7 +303,7 @@ static void test_pressure_altitude_hot_day(void **state)
     assert_true(r.stage[0].cds < r.stage[0].cds_raw);
     sr_fit_result_free(&r);
     sr_flightlog_free(&log);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
 }
 
 /* ---- logs made by the staged descent of each demo mission, fitted back ---- */
@@ -333,12 +319,10 @@ static void test_profile_logs_fitted_back(void **state)
                     {"payloads/drone-cargo-drop.yaml", 20},
                     {"payloads/balloon-instrument.yaml", 2}};
     for (size_t q = 0; q < sizeof MISSIONS / sizeof MISSIONS[0]; q++) {
-        sr_mission *m = calloc(1, sizeof *m);
+        sr_mission *m = sr_test_mission_file(MISSIONS[q].file);
         sr_error e;
-        if (sr_mission_load(m, sr_test_path(MISSIONS[q].file), CAT, &e))
-            fail_msg("%s", e.msg);
         sr_profile_ctx *ctx;
-        if (sr_profile_ctx_new(&ctx, m, NULL, &e))
+        if (sr_mission_profile(&ctx, m, NULL, &e))
             fail_msg("%s", e.msg);
         sr_profile_track tr = {.cap = 400000, .dt = 0.05};
         tr.pt = malloc(tr.cap * sizeof *tr.pt);
@@ -394,7 +378,6 @@ static void test_profile_logs_fitted_back(void **state)
         free(tr.pt);
         sr_profile_ctx_free(ctx);
         sr_mission_free(m);
-        free(m);
     }
 }
 
@@ -427,7 +410,7 @@ static void test_cli_demo(void **state)
     free(err);
     sr_canopy cp;
     sr_error e;
-    if (sr_catalog_load_canopy(&cp, CAT, canopy, &e))
+    if (sr_catalog_load_canopy(&cp, sr_test_catalog(), canopy, &e))
         fail_msg("%s", e.msg);
     assert_true(cp.measured);
     assert_true(cp.cd.v.lo < cp.cd.v.typ && cp.cd.v.typ < cp.cd.v.hi);
@@ -460,11 +443,8 @@ static void test_cli_demo(void **state)
              "stages:\n  - {name: main, family: conical, nominal-diameter: 2.2 m, deploy: apogee}\n"
              "start: {height: 200 m}\n",
              wind);
-    sr_mission *m = calloc(1, sizeof *m);
-    if (sr_mission_load(m, sr_test_tmpfile(".yaml", mission), CAT, &e))
-        fail_msg("the wind table: %s", e.msg);
+    sr_mission *m = sr_test_mission_text(mission);
     sr_mission_free(m);
-    free(m);
 }
 
 static void test_cli_figures(void **state)
@@ -528,5 +508,5 @@ int main(void)
         cmocka_unit_test(test_cli_figures),
         cmocka_unit_test(test_cli_not_determined),
     };
-    return cmocka_run_group_tests_name("fit", tests, setup, teardown);
+    return cmocka_run_group_tests_name("fit", tests, setup, NULL);
 }

@@ -27,23 +27,11 @@
 #define SRC_STEADY "Knacke 1991 sec. 4.5 (verified): steady descent v = sqrt(2 m g / (rho CD0 S0))"
 #define SRC_CONICAL "with the catalog's conical CD0 band 0.75 / 0.825 / 0.90 on nominal area as the input"
 
-static sr_catalog *CAT;
-
 static int setup(void **state)
 {
     (void)state;
     gsl_set_error_handler_off();
-    CAT = malloc(sizeof *CAT);
-    sr_error e;
-    if (!CAT || sr_catalog_open(CAT, sr_test_path("canopies"), &e))
-        return -1;
-    return 0;
-}
-
-static int teardown(void **state)
-{
-    (void)state;
-    free(CAT);
+    (void)sr_test_catalog();
     return 0;
 }
 
@@ -174,27 +162,12 @@ static void test_dispersion_agrees(void **state)
     free(err);
 }
 
-static sr_mission *load(const char *yaml)
-{
-    sr_mission *m = calloc(1, sizeof *m);
-    sr_error e;
-    if (sr_mission_load(m, sr_test_tmpfile(".yaml", yaml), CAT, &e))
-        fail_msg("mission: %s", e.msg);
-    return m;
-}
-
-static void drop(sr_mission *m)
-{
-    sr_mission_free(m);
-    free(m);
-}
-
 /* Every limit kind gets its row; the binding one has the highest ratio; the
  * relaxed basis counts only typical breaches. */
 static void test_rows_and_binding(void **state)
 {
     (void)state;
-    sr_mission *m = load("mission: every limit\n"
+    sr_mission *m = sr_test_mission_text("mission: every limit\n"
                          "site: {wind: {speed: 4 m/s, from: 270 deg}}\n"
                          "sections:\n  - {name: a, mass: 3 kg}\n  - {name: b, mass: 2 kg}\n"
                          "stages:\n  - {name: drogue, family: cross, nominal-diameter: 0.7 m, deploy: apogee}\n"
@@ -256,14 +229,14 @@ static void test_rows_and_binding(void **state)
             assert_true(f & (1u << t.row[i].kind));
     sr_band_ctx_free(bc);
     free(b);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* A mass band: the heavy end flies in the fast run: v scales with sqrt(m). */
 static void test_mass_band(void **state)
 {
     (void)state;
-    sr_mission *m = load("mission: a mass band\n"
+    sr_mission *m = sr_test_mission_text("mission: a mass band\n"
                          "sections:\n  - {name: a, mass: {low: 4.5 kg, typical: 5 kg, high: 5.6 kg}}\n"
                          "stages:\n  - {name: main, family: conical, nominal-diameter: 2.2 m, deploy: apogee}\n"
                          "start: {height: 300 m, speed: 5 m/s, path-angle: 90 deg}\n");
@@ -280,7 +253,7 @@ static void test_mass_band(void **state)
                     SRC_STEADY "; " SRC_CONICAL, sqrt(4.5 / 5.0 * 0.825 / 0.90), ratio, 1e-4);
     sr_band_ctx_free(bc);
     free(b);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* Landing energy relative to the ground: the descent rate with the wind 10 m
@@ -296,7 +269,7 @@ static void test_ground_relative(void **state)
                        "limits:\n  landing-energy: 100 J\n%s";
     char yaml[1024];
     snprintf(yaml, sizeof yaml, base, "");
-    sr_mission *m = load(yaml);
+    sr_mission *m = sr_test_mission_text(yaml);
     sr_band_ctx *bc;
     sr_band_result *b = calloc(1, sizeof *b);
     sr_error e;
@@ -311,7 +284,7 @@ static void test_ground_relative(void **state)
                     "docs/method.md 7.4", 0.5 * 5 * (v * v + 36.0), r->section_energy_ground[0], 1e-12);
     sr_band_ctx_free(bc);
     free(b);
-    drop(m);
+    sr_mission_free(m);
     /* 100 J lies between the vertical energy (~85 J at the band end) and the ground-relative one */
     char *out, *err;
     int rc = sr_test_cli(&out, &err, "profile", sr_test_tmpfile(".yaml", yaml), NULL);
@@ -335,5 +308,5 @@ int main(void)
         cmocka_unit_test(test_dispersion_agrees), cmocka_unit_test(test_rows_and_binding),
         cmocka_unit_test(test_mass_band),         cmocka_unit_test(test_ground_relative),
     };
-    return cmocka_run_group_tests_name("judge", tests, setup, teardown);
+    return cmocka_run_group_tests_name("judge", tests, setup, NULL);
 }

@@ -224,9 +224,6 @@ static void test_no_start(void **state)
 static void test_values_read(void **state)
 {
     (void)state;
-    sr_catalog *cat = malloc(sizeof *cat);
-    sr_error e;
-    assert_int_equal(sr_catalog_open(cat, sr_test_path("canopies"), &e), SR_OK);
     const char *yaml = "mission: values\n"
                        "site:\n"
                        "  elevation: 1000 ft\n"
@@ -245,37 +242,33 @@ static void test_values_read(void **state)
                        "        north: 12 m}\n"
                        "limits: {touchdown-speed: 20 ft/s, landing-energy: 75 ft-lbf, descent-time: 2 min, drift: 0.5 km,\n"
                        "         deployment-pressure: 1 kPa}\n";
-    sr_mission m;
-    int rc = sr_mission_load(&m, sr_test_tmpfile(".yaml", yaml), cat, &e);
-    if (rc)
-        fail_msg("%s", e.msg);
+    sr_mission *m = sr_test_mission_text(yaml);
     const char *src = "NIST SP 811 (2008) App. B exact conversion factors";
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "site elevation 1000 ft", src, 304.8, m.ground, 1e-12);
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "section mass 3 lb", src, 3 * 0.45359237, m.sections[0].mass, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "site elevation 1000 ft", src, 304.8, m->ground, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "section mass 3 lb", src, 3 * 0.45359237, m->sections[0].mass, 1e-12);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "section drag area 0.1 ft2", src, 0.1 * 0.3048 * 0.3048,
-                    m.sections[0].drag_area, 1e-12);
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "start height 1500 ft", src, 1500 * 0.3048, m.start_height, 1e-12);
-    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "touchdown limit 20 ft/s", src, 20 * 0.3048, m.limit_speed, 1e-12);
+                    m->sections[0].drag_area, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "start height 1500 ft", src, 1500 * 0.3048, m->start_height, 1e-12);
+    CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "touchdown limit 20 ft/s", src, 20 * 0.3048, m->limit_speed, 1e-12);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "energy limit 75 ft-lbf", src, 75 * 0.3048 * 0.45359237 * 9.80665,
-                    m.limit_energy, 1e-12);
-    assert_int_equal(m.sections[1].rigid_with, 0);
-    assert_int_equal(m.stages[1].carries, 3u);
-    assert_int_equal(m.stages[1].keep_previous, 0);
-    assert_true(fabs(m.stages[1].line_stretch - 0.3) < 1e-12);
-    assert_int_equal(m.stages[1].deploy, SR_DEPLOY_DELAY);
-    assert_true(fabs(m.start_heading - PI / 4) < 1e-12);
-    assert_true(m.start_east == -30.0 && m.start_north == 12.0);
-    assert_true(m.limit_deploy_q == 1000.0);
+                    m->limit_energy, 1e-12);
+    assert_int_equal(m->sections[1].rigid_with, 0);
+    assert_int_equal(m->stages[1].carries, 3u);
+    assert_int_equal(m->stages[1].keep_previous, 0);
+    assert_true(fabs(m->stages[1].line_stretch - 0.3) < 1e-12);
+    assert_int_equal(m->stages[1].deploy, SR_DEPLOY_DELAY);
+    assert_true(fabs(m->start_heading - PI / 4) < 1e-12);
+    assert_true(m->start_east == -30.0 && m->start_north == 12.0);
+    assert_true(m->limit_deploy_q == 1000.0);
     /* the table row given as an altitude is at the ground */
-    assert_int_equal(m.wind.kind, SR_WIND_TABLE);
-    assert_true(fabs(m.wind.h[0]) < 1e-9 && fabs(m.wind.h[1] - 500.0) < 1e-9);
+    assert_int_equal(m->wind.kind, SR_WIND_TABLE);
+    assert_true(fabs(m->wind.h[0]) < 1e-9 && fabs(m->wind.h[1] - 500.0) < 1e-9);
     double east, north;
-    sr_wind_at(&m.wind, 0.0, &east, &north);
+    sr_wind_at(&m->wind, 0.0, &east, &north);
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "10 kn from the west at the ground",
                     "NIST SP 811 (2008): 1 kn = 1852/3600 m/s; WMO direction convention", 10 * 1852.0 / 3600.0, east,
                     1e-12);
-    sr_mission_free(&m);
-    free(cat);
+    sr_mission_free(m);
 }
 
 /* What looks like nesting inside a string or a comment is text; anchors
@@ -283,9 +276,6 @@ static void test_values_read(void **state)
 static void test_text_is_text(void **state)
 {
     (void)state;
-    sr_catalog *cat = malloc(sizeof *cat);
-    sr_error e;
-    assert_int_equal(sr_catalog_open(cat, sr_test_path("canopies"), &e), SR_OK);
     const char *yaml = "mission: brackets\n"
                        "description: \"[[[[[[[[[[[[[[[[[[[[ {{{{{{{{{{{{{{{{{{{{\"\n"
                        "# [[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[\n"
@@ -295,14 +285,10 @@ static void test_text_is_text(void **state)
                        "  - {name: b, mass: *m}\n"
                        "stages:\n"
                        "  - {name: main, family: conical, nominal-diameter: 1.5 m}\n";
-    sr_mission m;
-    int rc = sr_mission_load(&m, sr_test_tmpfile(".yaml", yaml), cat, &e);
-    if (rc)
-        fail_msg("%s", e.msg);
-    assert_string_equal(m.sections[0].name, "a [[[[[[[[[[[[[[[[[[");
-    assert_true(m.sections[1].mass == 2.0);
-    sr_mission_free(&m);
-    free(cat);
+    sr_mission *m = sr_test_mission_text(yaml);
+    assert_string_equal(m->sections[0].name, "a [[[[[[[[[[[[[[[[[[");
+    assert_true(m->sections[1].mass == 2.0);
+    sr_mission_free(m);
 }
 
 int main(void)

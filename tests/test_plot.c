@@ -33,9 +33,8 @@ static int setup(void **state)
 static int teardown(void **state)
 {
     (void)state;
-    char cmd[400];
-    snprintf(cmd, sizeof cmd, "rm -rf '%s'", tmpdir);
-    return system(cmd) == 0 ? 0 : -1;
+    sr_test_rmtree(tmpdir);
+    return 0;
 }
 
 static const char *tpath(const char *name)

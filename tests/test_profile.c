@@ -29,52 +29,12 @@
 #define SRC_KE "kinetic energy at the speeds v = sqrt(2E/m) of trade-facts.md sec. 5, E = 75 ft-lbf = 101.6863 J (NIST SP 811: 1 ft-lbf = 1.3558179483314 J)"
 #define SRC_FAST "fast mode against full mode (GSL rk8pd + QAG): the bound stated in profile.h"
 
-static sr_catalog *CAT;
-
 static int setup(void **state)
 {
     (void)state;
     gsl_set_error_handler_off();
-    CAT = malloc(sizeof *CAT);
-    sr_error e;
-    if (!CAT || sr_catalog_open(CAT, sr_test_path("canopies"), &e)) {
-        fprintf(stderr, "catalog: %s\n", e.msg);
-        return -1;
-    }
+    (void)sr_test_catalog();
     return 0;
-}
-
-static int teardown(void **state)
-{
-    (void)state;
-    free(CAT);
-    return 0;
-}
-
-static sr_mission *load(const char *yaml)
-{
-    sr_mission *m = calloc(1, sizeof *m);
-    sr_error e;
-    const char *p = sr_test_tmpfile(".yaml", yaml);
-    assert_non_null(p);
-    if (sr_mission_load(m, p, CAT, &e))
-        fail_msg("mission: %s", e.msg);
-    return m;
-}
-
-static sr_mission *load_file(const char *rel)
-{
-    sr_mission *m = calloc(1, sizeof *m);
-    sr_error e;
-    if (sr_mission_load(m, sr_test_path(rel), CAT, &e))
-        fail_msg("mission: %s", e.msg);
-    return m;
-}
-
-static void drop(sr_mission *m)
-{
-    sr_mission_free(m);
-    free(m);
 }
 
 static sr_profile_ctx *ctx_of(const sr_mission *m, double steady_tol, double rho)
@@ -85,7 +45,7 @@ static sr_profile_ctx *ctx_of(const sr_mission *m, double steady_tol, double rho
     o.uniform_density = rho;
     sr_profile_ctx *c;
     sr_error e;
-    if (sr_profile_ctx_new(&c, m, &o, &e))
+    if (sr_mission_profile(&c, m, &o, &e))
         fail_msg("context: %s", e.msg);
     return c;
 }
@@ -117,7 +77,7 @@ static const char UNIFORM[] = "mission: uniform air check\n"
 static void test_quadrature_closed_form(void **state)
 {
     (void)state;
-    sr_mission *m = load(UNIFORM);
+    sr_mission *m = sr_test_mission_text(UNIFORM);
     sr_profile_ctx *c = ctx_of(m, 0.01, RHO);
     sr_profile_result r;
     run(c, NULL, SR_PROFILE_FULL, &r);
@@ -144,7 +104,7 @@ static void test_quadrature_closed_form(void **state)
     CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "fast mode, nominal: drift", SRC_FAST, r.max_drift, f.max_drift, 1e-7);
     assert_int_equal(f.ode_segments, 0);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
 }
 
 typedef struct ode_case {
@@ -162,7 +122,7 @@ static void test_against_ode_all_the_way(void **state)
         {"balloon instrument from 30 km, wind table", "payloads/balloon-instrument.yaml", 0},
     };
     for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
-        sr_mission *m = cases[i].file ? load_file(cases[i].file) : load(UNIFORM);
+        sr_mission *m = cases[i].file ? sr_test_mission_file(cases[i].file) : sr_test_mission_text(UNIFORM);
         double rho = cases[i].file ? NAN : RHO;
         sr_profile_ctx *q = ctx_of(m, 0.01, rho), *o = ctx_of(m, 0.0, rho);
         sr_profile_result rq, ro;
@@ -188,7 +148,7 @@ static void test_against_ode_all_the_way(void **state)
         assert_true(fabs(rq.max_drift - ro.max_drift) <= 5e-3 * rq.max_drift + 1e-9);
         sr_profile_ctx_free(q);
         sr_profile_ctx_free(o);
-        drop(m);
+        sr_mission_free(m);
     }
 }
 
@@ -261,7 +221,7 @@ static void test_landing_energy_table(void **state)
                  "start: {height: 800 m, speed: 0 m/s, path-angle: 90 deg}\n"
                  "limits: {landing-energy: 75 ft-lbf}\n",
                  KE[i].mass, s0);
-        sr_mission *m = load(yaml);
+        sr_mission *m = sr_test_mission_text(yaml);
         CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "75 ft-lbf in J as the mission file reads it",
                         "NIST SP 811 (2008): 1 ft-lbf = 1.3558179483314 J", 101.6863, m->limit_energy, 1e-6);
         sr_profile_ctx *c = ctx_of(m, 0.01, RHO);
@@ -272,7 +232,7 @@ static void test_landing_energy_table(void **state)
                  KE[i].vmax);
         CHECK_REL_CLASS(SR_CHECK_METHOD, what, SRC_KE, 101.6863, r.section_energy[0], 1e-4);
         sr_profile_ctx_free(c);
-        drop(m);
+        sr_mission_free(m);
     }
 }
 
@@ -280,7 +240,7 @@ static void test_energy_per_section(void **state)
 {
     (void)state;
     /* tethered sections: each its own mass; a rigid pair: the pair's mass */
-    sr_mission *m = load("mission: sections\n"
+    sr_mission *m = sr_test_mission_text("mission: sections\n"
                          "sections:\n"
                          "  - {name: booster, mass: 3 kg}\n"
                          "  - {name: nose, mass: 1 kg, rigid-with: avionics}\n"
@@ -299,7 +259,7 @@ static void test_energy_per_section(void **state)
                     0.5 * 1.5 * v * v, r.section_energy[1], 1e-9);
     assert_true(r.section_energy[1] == r.section_energy[2]);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* ---- separation, failure, delay ---- */
@@ -325,7 +285,7 @@ static const char SPLIT[] = "mission: separation\n"
 static void test_separation(void **state)
 {
     (void)state;
-    sr_mission *m = load(SPLIT);
+    sr_mission *m = sr_test_mission_text(SPLIT);
     sr_profile_ctx *c = ctx_of(m, 0.01, RHO);
     sr_profile_result r;
     run(c, NULL, SR_PROFILE_FULL, &r);
@@ -358,7 +318,7 @@ static void test_separation(void **state)
     o.uniform_density = RHO;
     o.failed = 1u << 1;
     sr_error e;
-    assert_int_equal(sr_profile_ctx_new(&c, m, &o, &e), SR_OK);
+    assert_int_equal(sr_mission_profile(&c, m, &o, &e), SR_OK);
     run(c, NULL, SR_PROFILE_FULL, &r);
     assert_int_equal(r.stage[1].deployed, 0);
     /* the payload main then carries part of the body: the payload separates with it */
@@ -367,7 +327,7 @@ static void test_separation(void **state)
                     sqrt(2 * 3 * G0 / (RHO * cd_dro)), r.body[0].rate_land, 1e-9);
     sr_profile_ctx_free(c);
     o.failed = 7;
-    assert_int_equal(sr_profile_ctx_new(&c, m, &o, &e), SR_OK);
+    assert_int_equal(sr_mission_profile(&c, m, &o, &e), SR_OK);
     run(c, NULL, SR_PROFILE_FULL, &r);
     /* no canopy, no body drag: free fall from 1200 m starting level at 10 m/s */
     CHECK_REL_CLASS(SR_CHECK_METHOD, "no canopy, no drag: impact descent rate sqrt(2 g h)",
@@ -375,7 +335,7 @@ static void test_separation(void **state)
                     sqrt(2 * 1200 * G0), r.body[0].rate_land, 3e-4);
     assert_int_equal(r.body[0].canopies, 0);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
 }
 
 /* ---- the fast mode's error against the full mode ---- */
@@ -387,7 +347,7 @@ static void test_fast_bound(void **state)
                            "payloads/balloon-instrument.yaml", "payloads/drone-cargo-drop.yaml"};
     double worst_t = 0, worst_x = 0;
     for (size_t f = 0; f < sizeof files / sizeof files[0]; f++) {
-        sr_mission *m = load_file(files[f]);
+        sr_mission *m = sr_test_mission_file(files[f]);
         sr_profile_ctx *c = ctx_of(m, 0.01, NAN);
         for (int i = 0; i < 64; i++) {
             sr_profile_perturb p;
@@ -416,7 +376,7 @@ static void test_fast_bound(void **state)
             assert_true(fabs(a.max_rate - b.max_rate) <= 1e-3 * a.max_rate);
         }
         sr_profile_ctx_free(c);
-        drop(m);
+        sr_mission_free(m);
     }
     print_message("fast vs full: worst descent-time error %.2e, worst landing-point error %.2e of the drift\n", worst_t,
                   worst_x);
@@ -434,7 +394,7 @@ static void test_fast_bound(void **state)
 static void test_threads(void **state)
 {
     (void)state;
-    sr_mission *m = load_file("payloads/desert-club-rocket.yaml");
+    sr_mission *m = sr_test_mission_file("payloads/desert-club-rocket.yaml");
     sr_profile_ctx *c = ctx_of(m, 0.01, NAN);
     enum { N = 400 };
     static double serial[N], parallel[N];
@@ -464,7 +424,7 @@ static void test_threads(void **state)
     assert_int_equal(bad, 0);
     assert_memory_equal(serial, parallel, sizeof serial);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
 }
 
 
@@ -655,7 +615,7 @@ static void test_plot(void **state)
 static void test_climbing_start(void **state)
 {
     (void)state;
-    sr_mission *m = load("mission: climb\n"
+    sr_mission *m = sr_test_mission_text("mission: climb\n"
                          "sections:\n"
                          "  - {name: a, mass: 2 kg}\n"
                          "stages:\n"
@@ -686,7 +646,7 @@ static void test_climbing_start(void **state)
     CHECK_REL_CLASS(SR_CHECK_CONSISTENCY, "descent rate where a climbing start's transient ends (11 km)",
                     "equilibrium W = 1/2 rho v^2 CdS in the 1976 air at that height", v, steady->rate, 0.011);
     sr_profile_ctx_free(c);
-    drop(m);
+    sr_mission_free(m);
 }
 
 int main(void)
@@ -700,5 +660,5 @@ int main(void)
         cmocka_unit_test(test_slow_descent),           cmocka_unit_test(test_no_drag_warning),
         cmocka_unit_test(test_climbing_start),
     };
-    return cmocka_run_group_tests_name("profile", tests, setup, teardown);
+    return cmocka_run_group_tests_name("profile", tests, setup, NULL);
 }

@@ -341,10 +341,8 @@ static double isothermal_integral(double rho1, double H, double z1, double h)
 static void test_descent_time_closed_forms(void **state)
 {
     (void)state;
-    sr_catalog cat;
     sr_error e;
-    assert_int_equal(sr_catalog_open(&cat, sr_test_path("canopies"), &e), 0);
-    const sr_family *fam = sr_catalog_find(&cat, "flat-circular", &e);
+    const sr_family *fam = sr_catalog_find(sr_test_catalog(), "flat-circular", &e);
     assert_non_null(fam);
     sr_sweep_case c;
     memset(&c, 0, sizeof c);
@@ -367,7 +365,7 @@ static void test_descent_time_closed_forms(void **state)
     CHECK_REL_CLASS(SR_CHECK_DERIVED, "descent time 2500 m in uniform air, flat circular 1.8 m, 4 kg",
                     "closed form t = h / v for constant density (common practice), g(z) of US Standard Atmosphere 1976",
                     want, t.typ, 1e-9);
-    sr_atmos_free(&c.atmos);
+    sr_atmos_release(&c.atmos);
 
     /* isothermal air: density falls exponentially with scale height H = ln-pressure slope */
     double H = 8000.0;
@@ -401,7 +399,7 @@ static void test_descent_time_closed_forms(void **state)
     xs[0] = 4500.0;
     assert_int_equal(sr_sweep_run(&c, SR_SWEEP_ALTITUDE, xs, 5, rows, NULL, NULL, &e), SR_EDOMAIN);
     assert_non_null(strstr(e.msg, "sounding"));
-    sr_atmos_free(&c.atmos);
+    sr_atmos_release(&c.atmos);
 
     /* the same through the command line, with the sounding read from CSV */
     const char *csv = sr_test_tmpfile(".csv", "altitude [m],temperature [K],pressure [Pa]\n"

@@ -28,31 +28,10 @@ static int setup(void **state)
     return mkdtemp(dir) ? 0 : -1;
 }
 
-static void remove_tree(const char *d)
-{
-    DIR *h = opendir(d);
-    if (h) {
-        struct dirent *e;
-        while ((e = readdir(h)) != NULL) {
-            if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
-                continue;
-            char sub[4096];
-            snprintf(sub, sizeof sub, "%s/%s", d, e->d_name);
-            struct stat st;
-            if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
-                remove_tree(sub);
-            else
-                unlink(sub);
-        }
-        closedir(h);
-    }
-    rmdir(d);
-}
-
 static int teardown(void **state)
 {
     (void)state;
-    remove_tree(dir);
+    sr_test_rmtree(dir);
     return 0;
 }
 

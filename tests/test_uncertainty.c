@@ -13,7 +13,7 @@
 #include "files/catalog.h"
 #include "files/mission.h"
 #include "base/rng.h"
-#include "analysis/uncertainty.h"
+#include "physics/uncertainty.h"
 #include "files/yamldoc.h"
 
 #define PI 3.14159265358979323846
@@ -164,24 +164,10 @@ static void test_distributions(void **state)
 
 /* ---- the mission file's uncertainty block ------------------------------ */
 
-static sr_catalog *CAT;
-
 static int setup(void **state)
 {
     (void)state;
-    CAT = malloc(sizeof *CAT);
-    sr_error e;
-    if (sr_catalog_open(CAT, sr_test_path("canopies"), &e)) {
-        print_error("%s\n", e.msg);
-        return -1;
-    }
-    return 0;
-}
-
-static int teardown(void **state)
-{
-    (void)state;
-    free(CAT);
+    (void)sr_test_catalog();
     return 0;
 }
 
@@ -213,9 +199,9 @@ static int parse(const char *text, sr_mission *m, sr_error *e)
     int rc = sr_yaml_load_string(&y, "test.yaml", text, strlen(text), e);
     if (rc)
         return rc;
-    rc = sr_mission_parse(m, &y, CAT, e);
+    rc = sr_mission_parse(m, &y, sr_test_catalog(), e);
     sr_yaml_free(&y);
-    sr_mission_free(m);
+    sr_mission_release(m);
     return rc;
 }
 
@@ -420,5 +406,5 @@ int main(void)
         cmocka_unit_test(test_full_block),             cmocka_unit_test(test_short_forms),
         cmocka_unit_test(test_bad_blocks),
     };
-    return cmocka_run_group_tests_name("uncertainty", tests, setup, teardown);
+    return cmocka_run_group_tests_name("uncertainty", tests, setup, NULL);
 }

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "physics/wind.h"
+#include "files/windtable.h"
 
 #define PI 3.14159265358979323846
 #define DEG (PI / 180.0)
@@ -117,7 +118,7 @@ static void test_table_components(void **state)
     assert_true(sr_wind_top(&w) == 300.0);
     size_t nk;
     assert_true(sr_wind_knots(&w, &nk) == w.h && nk == 3);
-    sr_wind_free(&w);
+    sr_wind_release(&w);
 }
 
 static void test_bad_models(void **state)
@@ -149,14 +150,14 @@ static void test_csv(void **state)
                                              "altitude [m],speed [kn],from [deg]\n"
                                              "1400,10,240\n"
                                              "2400,20,260\n");
-    assert_int_equal(sr_wind_load_table(&w, ok, 1400.0, &e), SR_OK);
+    assert_int_equal(sr_windtable_load(&w, ok, 1400.0, &e), SR_OK);
     double east, north;
     sr_wind_at(&w, 0.0, &east, &north);
     /* 10 kn from 240 deg: 1 kn = 1852/3600 m/s exactly (NIST SP 811) */
     CHECK_REL_CLASS(SR_CHECK_PUBLISHED, "table wind at the site from an altitude column in knots",
                     "NIST SP 811 (2008) App. B: 1 kn = 1852/3600 m/s", 10 * 1852.0 / 3600.0, hypot(east, north), 1e-12);
     assert_true(fabs(sr_wind_top(&w) - 1000.0) < 1e-9);
-    sr_wind_free(&w);
+    sr_wind_release(&w);
 
     struct {
         const char *text, *want;
@@ -169,14 +170,14 @@ static void test_csv(void **state)
     };
     for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++) {
         const char *p = sr_test_tmpfile(".csv", bad[i].text);
-        assert_int_not_equal(sr_wind_load_table(&w, p, 0.0, &e), SR_OK);
+        assert_int_not_equal(sr_windtable_load(&w, p, 0.0, &e), SR_OK);
         if (!strstr(e.msg, bad[i].want))
             fail_msg("case %zu: '%s' lacks '%s'", i, e.msg, bad[i].want);
         assert_non_null(strstr(e.msg, p));
     }
     const char *snd = sr_test_tmpfile(".csv", "altitude [m],temperature [C],pressure [hPa]\n0,15,1013.25\n"
                                               "1000,8.5,898.7\n");
-    assert_int_equal(sr_wind_load_sounding(&w, snd, 0.0, &e), SR_EINVAL);
+    assert_int_equal(sr_windtable_load_sounding(&w, snd, 0.0, &e), SR_EINVAL);
     assert_non_null(strstr(e.msg, "no 'wind-speed'"));
 }
 

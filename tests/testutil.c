@@ -1,11 +1,14 @@
-/* testutil.c - the validation log and the in-process CLI runner for tests. */
+/* testutil.c - the validation log, the in-process CLI runner and the set-up
+ * tests share (the catalog, missions, temporary directories). */
 #define _DEFAULT_SOURCE
 #include "testutil.h"
 
+#include <dirent.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 #include "cli/cli.h"
@@ -249,4 +252,78 @@ void sr_test_check_figure(const char *prefix, int rendered, unsigned w, unsigned
     CHECK_ABS_CLASS(SR_CHECK_FORMAT, q, SR_SRC_PNG, w, pw, 0);
     snprintf(q, sizeof q, "PNG height of the %s (--plot-size %ux%u)", what, w, h);
     CHECK_ABS_CLASS(SR_CHECK_FORMAT, q, SR_SRC_PNG, h, ph, 0);
+}
+
+/* ---- the set-up tests share ---- */
+
+static sr_catalog *test_cat;
+
+static void catalog_cleanup(void)
+{
+    sr_catalog_free(test_cat);
+    test_cat = NULL;
+}
+
+const sr_catalog *sr_test_catalog(void)
+{
+    if (!test_cat) {
+        sr_error *e = sr_error_new();
+        if (sr_catalog_new(&test_cat, sr_test_path("canopies"), e))
+            fail_msg("catalog: %s", sr_error_message(e));
+        sr_error_free(e);
+        atexit(catalog_cleanup);
+    }
+    return test_cat;
+}
+
+static sr_mission *mission_at(const char *path)
+{
+    sr_mission *m = NULL;
+    sr_error *e = sr_error_new();
+    if (sr_mission_open(&m, path, sr_test_catalog(), e))
+        fail_msg("mission: %s", sr_error_message(e));
+    sr_error_free(e);
+    return m;
+}
+
+sr_mission *sr_test_mission_file(const char *rel)
+{
+    return mission_at(sr_test_path(rel));
+}
+
+sr_mission *sr_test_mission_text(const char *yaml)
+{
+    const char *p = sr_test_tmpfile(".yaml", yaml);
+    if (!p)
+        fail_msg("cannot write a temporary mission file");
+    return mission_at(p);
+}
+
+char *sr_test_tmpdir(char *buf, size_t len, const char *what)
+{
+    snprintf(buf, len, "/tmp/sinkrate-%s-XXXXXX", what);
+    if (!mkdtemp(buf))
+        fail_msg("cannot make a temporary directory %s", buf);
+    return buf;
+}
+
+void sr_test_rmtree(const char *dir)
+{
+    DIR *d = opendir(dir);
+    if (d) {
+        struct dirent *e;
+        while ((e = readdir(d))) {
+            if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
+                continue;
+            char sub[4096];
+            snprintf(sub, sizeof sub, "%s/%s", dir, e->d_name);
+            struct stat st;
+            if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
+                sr_test_rmtree(sub);
+            else
+                unlink(sub);
+        }
+        closedir(d);
+    }
+    rmdir(dir);
 }

@@ -9,6 +9,8 @@
 #include <stdint.h>
 #include <cmocka.h>
 
+#include "sinkrate/files.h"
+
 /* What a validation row is checked against (docs/validation.md counts them
  * by class). The first three are outside the project and must name their
  * source; SR_CHECK_MEMORY rows say "from memory", SR_CHECK_TRADE rows
@@ -51,6 +53,22 @@ const char *sr_test_path(const char *rel);
 
 /* Write text to a fresh temporary file; returns its path (static buffer ring). */
 const char *sr_test_tmpfile(const char *suffix, const char *text);
+
+/* ---- the set-up tests share ---- */
+
+/* The built-in catalog of the source tree (SR_ROOT/canopies), read on first
+ * use and kept until the program exits; the test fails when it does not load. */
+const sr_catalog *sr_test_catalog(void);
+/* A mission read with that catalog: a file under the source tree ("payloads/
+ * x.yaml"), or YAML text written to a temporary file. The test fails with the
+ * reader's message when it does not load. Free it with sr_mission_free. */
+sr_mission *sr_test_mission_file(const char *rel);
+sr_mission *sr_test_mission_text(const char *yaml);
+/* A new empty directory /tmp/sinkrate-<what>-XXXXXX, its name in buf (the
+ * test fails when none can be made); sr_test_rmtree removes it with
+ * everything in it. */
+char *sr_test_tmpdir(char *buf, size_t len, const char *what);
+void sr_test_rmtree(const char *dir);
 
 /* Count newline-terminated lines of s. */
 int sr_test_lines(const char *s);

@@ -54,7 +54,7 @@ int sr_band_ctx_new(sr_band_ctx **out, const sr_mission *m, const sr_profile_opt
         bc->mass[SR_BAND_FAST][i] = s->mass_hi > 0 ? s->mass_hi / s->mass : 1.0;
         bc->mass[SR_BAND_SLOW][i] = s->mass_lo > 0 ? s->mass_lo / s->mass : 1.0;
     }
-    int rc = sr_profile_ctx_new(&bc->ctx, m, po, err);
+    int rc = sr_mission_profile(&bc->ctx, m, po, err);
     if (rc) {
         free(bc);
         return rc;
@@ -207,4 +207,27 @@ int sr_band_run_tracked(const sr_band_ctx *bc, const sr_profile_perturb *design,
 {
     int rc = sr_band_descents(bc, design, mode, w, r, tracks, err);
     return rc ? rc : sr_band_loads(bc, mode, w, r, err);
+}
+
+/* ---- a program's band results (include/sinkrate/analysis.h) ---- */
+
+int sr_band_result_new(sr_band_result **out, sr_error *err)
+{
+    *out = calloc(1, sizeof **out);
+    return *out ? SR_OK : sr_error_set(err, SR_ENOMEM, "out of memory");
+}
+
+void sr_band_result_free(sr_band_result *r)
+{
+    free(r);
+}
+
+const sr_profile_result *sr_band_result_run(const sr_band_result *r, int which)
+{
+    return which >= 0 && which < SR_BAND_NRUNS ? &r->run[which] : NULL;
+}
+
+const sr_loads_band *sr_band_result_loads(const sr_band_result *r, size_t k)
+{
+    return k < r->nstages ? &r->loads[k] : NULL;
 }

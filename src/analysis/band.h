@@ -16,16 +16,12 @@
 #include "base/error.h"
 #include "files/mission.h"
 #include "physics/profile.h"
+#include "sinkrate/analysis.h"
 
-enum {
-    SR_BAND_TYPICAL = 0, /* every banded input at its typical value */
-    SR_BAND_FAST = 1,    /* low drag of every canopy, heavy end of every mass band: fast, hard landings */
-    SR_BAND_SLOW = 2,    /* high drag, light end: long, far-drifting descents */
-    SR_BAND_NRUNS = 3
-};
-
-typedef struct sr_band_ctx sr_band_ctx;
-typedef struct sr_band_work sr_band_work;
+/* SR_BAND_TYPICAL, SR_BAND_FAST (low drag of every canopy, heavy end of
+ * every mass band), SR_BAND_SLOW (high drag, light end), SR_BAND_NRUNS and
+ * the functions of a program's handles are public:
+ * include/sinkrate/analysis.h. */
 
 typedef struct sr_band_result {
     sr_profile_result run[SR_BAND_NRUNS];  /* indexed by SR_BAND_* */
@@ -33,11 +29,8 @@ typedef struct sr_band_result {
     sr_loads_band loads[SR_MISSION_MAX_STAGES]; /* opening load of each stage over its bands */
 } sr_band_result;
 
-/* Build the band context of a mission (one profile context, built with the
- * options po, NULL for the defaults: failure case, attitude, tolerances). The
- * mission is copied where needed; it need not outlive the context. */
-int sr_band_ctx_new(sr_band_ctx **bc, const sr_mission *m, const sr_profile_opts *po, sr_error *err);
-void sr_band_ctx_free(sr_band_ctx *bc);
+/* sr_band_ctx_new (public) builds one profile context with the options po
+ * (NULL for the defaults: failure case, attitude, tolerances). */
 
 /* The profile context inside (for air and wind look-ups, plots). */
 const sr_profile_ctx *sr_band_profile(const sr_band_ctx *bc);
@@ -53,15 +46,13 @@ const sr_loads_canopy *sr_band_loads_canopy(const sr_band_ctx *bc, size_t k);
 int sr_band_work_new(sr_band_work **w, sr_error *err);
 void sr_band_work_free(sr_band_work *w);
 
-/* Run the three descents and the opening loads. design: changes of this
- * candidate against the mission (sizes by area_scale, deployment heights, a
- * sample's draws...), NULL for none; the band factors multiply its drag and
- * mass scales. mode: SR_PROFILE_FULL (ODE transients, adaptive opening
- * solver) or SR_PROFILE_FAST (tables, reused transients, the fast opening
- * solver). w: a workspace (NULL allocates one for the call). track: points of
- * the typical run for plots (NULL: none). */
-int sr_band_run(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode, sr_band_work *w,
-                sr_band_result *r, sr_profile_track *track, sr_error *err);
+/* sr_band_run (public): design holds changes of this candidate against the
+ * mission (sizes by area_scale, deployment heights, a sample's draws...),
+ * NULL for none; the band factors multiply its drag and mass scales. mode:
+ * SR_PROFILE_FULL (ODE transients, adaptive opening solver) or
+ * SR_PROFILE_FAST (tables, reused transients, the fast opening solver). w: a
+ * workspace (NULL allocates one for the call). track: points of the typical
+ * run for plots (NULL: none). */
 
 /* The same with points for plots and maps of each run (tracks[SR_BAND_*],
  * NULL entries: none). */

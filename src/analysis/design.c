@@ -242,7 +242,7 @@ static int design_mission(const sr_mission *m, const sr_yaml *y, const sr_catalo
 static void mission_release(sr_mission *dm)
 {
     if (dm) {
-        sr_mission_free(dm);
+        sr_mission_release(dm);
         free(dm);
     }
 }
@@ -361,7 +361,20 @@ typedef struct search {
     cstate *cs;
     size_t nc;
     size_t done, total;
+    /* locks of this run (named critical sections would be process-wide symbols) */
+    omp_lock_t *fail_lock, *progress_lock;
 } search;
+
+/* The first failure of a parallel loop is kept; the others are dropped. */
+static void note_fail(const search *S, int *fail, sr_error *first, const sr_error *e)
+{
+    omp_set_lock(S->fail_lock);
+    if (!*fail) {
+        *fail = 1;
+        *first = *e;
+    }
+    omp_unset_lock(S->fail_lock);
+}
 
 static void point_of(const cstate *c, const double *d0, const double *h, sr_design_point *p)
 {
@@ -1092,8 +1105,9 @@ static void progress_add(search *S, size_t n)
 #pragma omp atomic capture
     d = S->done += n;
     if (S->o->progress && omp_get_thread_num() == 0) {
-#pragma omp critical(sr_design_progress)
+        omp_set_lock(S->progress_lock);
         S->o->progress(d < S->total ? d : S->total, S->total, S->o->progress_ud);
+        omp_unset_lock(S->progress_lock);
     }
 }
 
@@ -1143,11 +1157,7 @@ static int eval_pending(search *S, size_t c0, size_t c1, int nt, sr_error *err)
         sr_error e;
         int ok = worker_init(&wk, &e) == SR_OK;
         if (!ok) {
-#pragma omp critical(sr_design_fail)
-            if (!fail) {
-                fail = 1;
-                first = e;
-            }
+            note_fail(S, &fail, &first, &e);
         }
 #pragma omp for schedule(dynamic, 1)
         for (size_t t = 0; t < nj; t++) {
@@ -1163,11 +1173,7 @@ static int eval_pending(search *S, size_t c0, size_t c1, int nt, sr_error *err)
                 start = c->s[j0 - 1].d0[c->L];
             for (size_t j = j0; j < j0 + jobs[t].count; j++) {
                 if (eval_slice(c, &wk, &c->s[j], start, &e)) {
-#pragma omp critical(sr_design_fail)
-                    if (!fail) {
-                        fail = 1;
-                        first = e;
-                    }
+                    note_fail(S, &fail, &first, &e);
                     break;
                 }
                 start = c->L >= 0 && c->s[j].solved ? c->s[j].d0[c->L] : NAN;
@@ -1619,7 +1625,7 @@ int sr_design_run(const sr_mission *m, const sr_yaml *y, const sr_catalog *cat, 
     }
     describe_axes(m, res);
     int nt = o->threads > 0 ? o->threads : omp_get_max_threads();
-    search S = {m, y, cat, o, res, NULL, res->ncombos, 0, 0};
+    search S = {m, y, cat, o, res, NULL, res->ncombos, 0, 0, NULL, NULL};
     S.cs = calloc(res->ncombos, sizeof *S.cs);
     ppoint *pp = NULL;
     size_t npp = 0, cpp = 0, seq = 0;
@@ -1645,6 +1651,11 @@ int sr_design_run(const sr_mission *m, const sr_yaml *y, const sr_catalog *cat, 
                                             "combination (at most %.0e); give fewer families, sizes or heights",
                             m->path, all, SR_DESIGN_MAX_POINTS_ALL);
     }
+    omp_lock_t locks[2];
+    omp_init_lock(&locks[0]);
+    omp_init_lock(&locks[1]);
+    S.fail_lock = &locks[0];
+    S.progress_lock = &locks[1];
     for (size_t i = 0; i < res->ncombos; i++)
         S.cs[i].out = &res->combo[i];
     for (size_t b0 = 0; b0 < res->ncombos && !rc; b0 += BATCH) {
@@ -1661,11 +1672,7 @@ int sr_design_run(const sr_mission *m, const sr_yaml *y, const sr_catalog *cat, 
             for (size_t i = b0; i < b1; i++) {
                 if (ok && !build_combo(&S, &S.cs[i], &wk, &e))
                     continue;
-#pragma omp critical(sr_design_fail)
-                if (!fail) {
-                    fail = 1;
-                    first = e;
-                }
+                note_fail(&S, &fail, &first, &e);
             }
             worker_free(&wk);
         }
@@ -1713,11 +1720,7 @@ int sr_design_run(const sr_mission *m, const sr_yaml *y, const sr_catalog *cat, 
                 if (!bad)
                     bad = confirm_combo(&S, &S.cs[i], &e) != SR_OK;
                 if (bad) {
-#pragma omp critical(sr_design_fail)
-                    if (!fail) {
-                        fail = 1;
-                        first = e;
-                    }
+                    note_fail(&S, &fail, &first, &e);
                 }
             }
             worker_free(&wk);
@@ -1773,11 +1776,7 @@ int sr_design_run(const sr_mission *m, const sr_yaml *y, const sr_catalog *cat, 
         for (size_t i = 0; i < (rc ? 0 : npp); i++) {
             sr_error e;
             if (confirm(&S, &S.cs[pp[i].combo], &pp[i].s, &res->pareto[i], NULL, NULL, NULL, &e)) {
-#pragma omp critical(sr_design_fail)
-                if (!fail) {
-                    fail = 1;
-                    first = e;
-                }
+                note_fail(&S, &fail, &first, &e);
             }
         }
         if (fail && !rc)
@@ -1811,6 +1810,8 @@ int sr_design_run(const sr_mission *m, const sr_yaml *y, const sr_catalog *cat, 
     }
     free(pp);
     free(S.cs);
+    omp_destroy_lock(&locks[0]);
+    omp_destroy_lock(&locks[1]);
     axes_resolution(res);
     if (rc) {
         sr_design_result_free(res);
@@ -1894,7 +1895,7 @@ int sr_design_risk(sr_design_result *res, size_t k, size_t n, unsigned long seed
         for (int b = 0; b < SR_DISP_NLIMITS; b++)
             c->risk_limit[b] = (double)per[b] / (double)dr.n;
         c->risk_dropped = c->risk > max_risk;
-        sr_disp_result_free(&dr);
+        sr_disp_result_release(&dr);
         sr_disp_mission_free(&dm);
     }
     size_t m = 0;

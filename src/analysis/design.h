@@ -25,8 +25,11 @@
 #include "base/error.h"
 #include "files/catalog.h"
 #include "files/mission.h"
-#include "files/yamldoc.h"
 #include "physics/packing.h"
+
+/* the mission's document as read (files/yamldoc.h): the search writes each
+ * candidate from it, so an analysis header needs only its name */
+typedef struct sr_yaml sr_yaml;
 
 #define SR_DESIGN_MAX_COMBOS 20000
 #define SR_DESIGN_MAX_SLICES 4000   /* grid points of one combination */

@@ -30,7 +30,7 @@ int sr_disp_check_n(double n, const char *what, sr_error *err)
     return SR_OK;
 }
 
-void sr_disp_result_free(sr_disp_result *res)
+void sr_disp_result_release(sr_disp_result *res)
 {
     if (!res)
         return;
@@ -56,7 +56,7 @@ int sr_disp_run(const sr_disp_model *m, const sr_uncertainty *u, const sr_disp_o
     res->land = malloc(n * nb * sizeof *res->land);
     res->flags = malloc(n * sizeof *res->flags);
     if (!res->land || !res->flags) {
-        sr_disp_result_free(res);
+        sr_disp_result_release(res);
         return sr_error_set(err, SR_ENOMEM, "dispersion: no memory for %zu samples; use fewer (-n)", n);
     }
     res->n = n;
@@ -72,6 +72,10 @@ int sr_disp_run(const sr_disp_model *m, const sr_uncertainty *u, const sr_disp_o
     sr_error_clear(&fail_err);
     size_t done = 0;
     int used = 1;
+    /* locks of this run (named critical sections would be process-wide symbols) */
+    omp_lock_t fail_lock, progress_lock;
+    omp_init_lock(&fail_lock);
+    omp_init_lock(&progress_lock);
 
 #pragma omp parallel num_threads(nt)
     {
@@ -84,12 +88,13 @@ int sr_disp_run(const sr_disp_model *m, const sr_uncertainty *u, const sr_disp_o
         void *ws = m->thread_init ? m->thread_init(m->ctx) : NULL;
         int ok = r && (!m->thread_init || ws);
         if (!ok) {
-#pragma omp critical(sr_disp_fail)
+            omp_set_lock(&fail_lock);
             if (lo < fail_at) {
 #pragma omp atomic write
                 fail_at = lo;
                 sr_error_set(&fail_err, SR_ENOMEM, "dispersion: no memory for a thread's workspace");
             }
+            omp_unset_lock(&fail_lock);
         }
         sr_error e;
         for (size_t b0 = lo; ok && b0 < hi; b0 += BLOCK) {
@@ -105,12 +110,13 @@ int sr_disp_run(const sr_disp_model *m, const sr_uncertainty *u, const sr_disp_o
                 sr_uncertainty_draw(u, o->seed, i, r, &p);
                 res->flags[i] = 0;
                 if (m->sample(m->ctx, ws, &p, &res->land[i * nb], &res->flags[i], &e) != SR_OK) {
-#pragma omp critical(sr_disp_fail)
+                    omp_set_lock(&fail_lock);
                     if (i < fail_at) {
 #pragma omp atomic write
                         fail_at = i;
                         fail_err = e;
                     }
+                    omp_unset_lock(&fail_lock);
                     ok = 0;
                     break;
                 }
@@ -119,21 +125,54 @@ int sr_disp_run(const sr_disp_model *m, const sr_uncertainty *u, const sr_disp_o
 #pragma omp atomic capture
             d = done += b1 - b0;
             if (o->progress) {
-#pragma omp critical(sr_disp_progress)
+                omp_set_lock(&progress_lock);
                 o->progress(d, n, o->progress_ud);
+                omp_unset_lock(&progress_lock);
             }
         }
         if (ws && m->thread_free)
             m->thread_free(ws);
         gsl_rng_free(r);
     }
+    omp_destroy_lock(&fail_lock);
+    omp_destroy_lock(&progress_lock);
     res->threads = used;
     if (fail_at != SIZE_MAX) {
-        sr_disp_result_free(res);
+        sr_disp_result_release(res);
         if (fail_err.code == SR_ENOMEM)
             return sr_error_set(err, SR_ENOMEM, "%s", fail_err.msg);
         return sr_error_set(err, fail_err.code ? fail_err.code : SR_ENUMERIC, "sample %zu (--seed %llu): %s",
                             fail_at, (unsigned long long)o->seed, fail_err.msg);
     }
     return SR_OK;
+}
+
+/* ---- a program's dispersion result (include/sinkrate/analysis.h) ---- */
+
+void sr_disp_result_free(sr_disp_result *r)
+{
+    if (!r)
+        return;
+    sr_disp_result_release(r);
+    free(r);
+}
+
+size_t sr_disp_result_samples(const sr_disp_result *r)
+{
+    return r->n;
+}
+
+size_t sr_disp_result_bodies(const sr_disp_result *r)
+{
+    return r->nbodies;
+}
+
+const sr_landing *sr_disp_result_landing(const sr_disp_result *r, size_t i, size_t b)
+{
+    return i < r->n && b < r->nbodies ? &r->land[i * r->nbodies + b] : NULL;
+}
+
+unsigned sr_disp_result_flags(const sr_disp_result *r, size_t i)
+{
+    return i < r->n ? r->flags[i] : 0u;
 }

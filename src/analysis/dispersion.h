@@ -9,7 +9,8 @@
 #include <stdint.h>
 
 #include "base/error.h"
-#include "analysis/uncertainty.h"
+#include "physics/uncertainty.h"
+#include "sinkrate/analysis.h"
 
 #define SR_DISP_MAX_BODIES 8          /* bodies landing apart (= mission sections at most) */
 #define SR_DISP_MAX_SAMPLES 10000000  /* 1e7: 50 s at the speed goal, ~0.4 GB per body */
@@ -26,16 +27,10 @@ enum sr_limit_bit {
     SR_LIMIT_MACH = 1u << 5,     /* Mach at a deployment above the family's envelope */
     SR_LIMIT_OPENING = 1u << 6   /* opening load above rated strength / design factor */
 };
-#define SR_DISP_NLIMITS 7
 const char *sr_limit_name(int k); /* "touchdown speed", ... for bit 1u << k */
 
-/* Where and how one body came down. */
-typedef struct sr_landing {
-    double east, north; /* m from the launch point (the point below the first deployment) */
-    double time;        /* descent time from the first deployment, s */
-    double speed;       /* touchdown speed, m/s */
-    double energy;      /* kinetic energy at touchdown of the heaviest-hit section in the body, J */
-} sr_landing;
+/* sr_landing (where and how one body came down; a record) and
+ * SR_DISP_NLIMITS are public: include/sinkrate/analysis.h. */
 
 /* A descent model. sample() must be thread-safe for distinct ws and must
  * depend only on ctx and the perturbations: it fills out[0 .. nbodies-1]
@@ -74,7 +69,7 @@ typedef struct sr_disp_result {
  * as the lowest failing index with its message, whatever the thread count. */
 int sr_disp_run(const sr_disp_model *m, const sr_uncertainty *u, const sr_disp_options *o, sr_disp_result *res,
                 sr_error *err);
-void sr_disp_result_free(sr_disp_result *res);
+void sr_disp_result_release(sr_disp_result *res);
 
 /* Validate a sample count with a clear message (what = the option name). */
 int sr_disp_check_n(double n, const char *what, sr_error *err);

@@ -141,7 +141,7 @@ int sr_disp_mission_init(sr_disp_mission *dm, const sr_mission *m, const sr_prof
         if (need > o.top_margin)
             o.top_margin = need;
     }
-    int rc = sr_profile_ctx_new(&dm->ctx, m, &o, err);
+    int rc = sr_mission_profile(&dm->ctx, m, &o, err);
     if (rc)
         return rc;
     const sr_profile_result *nom = sr_profile_nominal(dm->ctx);
@@ -184,4 +184,28 @@ void sr_disp_mission_free(sr_disp_mission *dm)
         sr_profile_ctx_free(dm->ctx);
         dm->ctx = NULL;
     }
+}
+
+/* ---- a program's dispersion run (include/sinkrate/analysis.h) ---- */
+
+int sr_disp_mission_run(sr_disp_result **out, const sr_mission *m, size_t n, uint64_t seed, int threads, int full,
+                        sr_error *err)
+{
+    *out = NULL;
+    sr_disp_result *res = calloc(1, sizeof *res);
+    if (!res)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    sr_disp_mission dm;
+    int rc = sr_disp_mission_init(&dm, m, NULL, full, err);
+    if (!rc) {
+        sr_disp_options o = {.n = n, .seed = seed, .threads = threads};
+        rc = sr_disp_run(&dm.model, &m->unc, &o, res, err);
+        sr_disp_mission_free(&dm);
+    }
+    if (rc) {
+        free(res);
+        return rc;
+    }
+    *out = res;
+    return SR_OK;
 }

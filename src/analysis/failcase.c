@@ -2,6 +2,7 @@
 #include "analysis/failcase.h"
 
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
 
 size_t sr_failcase_attitudes(const sr_mission *m, sr_bluff_attitude out[SR_FAILCASE_MAX_ATTITUDES])
@@ -76,4 +77,42 @@ int sr_failcase_run(const sr_mission *m, unsigned failed, const sr_judge_limits 
     }
     sr_judge_bands(l, bands, out->nattitudes, basis, &out->verdict);
     return SR_OK;
+}
+
+/* ---- a program's failure case (include/sinkrate/analysis.h) ---- */
+
+int sr_failcase_result_new(sr_failcase_result **out, sr_error *err)
+{
+    *out = calloc(1, sizeof **out);
+    return *out ? SR_OK : sr_error_set(err, SR_ENOMEM, "out of memory");
+}
+
+void sr_failcase_result_free(sr_failcase_result *f)
+{
+    free(f);
+}
+
+const sr_verdict *sr_failcase_result_verdict(const sr_failcase_result *f)
+{
+    return &f->verdict;
+}
+
+size_t sr_failcase_result_attitudes(const sr_failcase_result *f)
+{
+    return f->nattitudes;
+}
+
+sr_bluff_attitude sr_failcase_result_attitude(const sr_failcase_result *f, size_t i)
+{
+    return i < f->nattitudes ? f->attitude[i] : SR_ATTITUDE_BROADSIDE;
+}
+
+const sr_band_result *sr_failcase_result_band(const sr_failcase_result *f, size_t i)
+{
+    return i < f->nattitudes ? &f->band[i] : NULL;
+}
+
+size_t sr_failcase_result_worse(const sr_failcase_result *f)
+{
+    return (size_t)(f->worse > 0 ? f->worse : 0);
 }

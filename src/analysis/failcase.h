@@ -11,6 +11,7 @@
 
 #include "analysis/band.h"
 #include "analysis/judge.h"
+#include "sinkrate/analysis.h"
 
 #define SR_FAILCASE_MAX_ATTITUDES 3
 
@@ -33,9 +34,8 @@ typedef struct sr_failcase_result {
  * stable-end-on). Returns how many were written (at most 3). */
 size_t sr_failcase_attitudes(const sr_mission *m, sr_bluff_attitude out[SR_FAILCASE_MAX_ATTITUDES]);
 
-/* Run the failure case `failed` (full mode) in every attitude and judge it.
- * po: profile options (NULL: defaults; its failed and attitude are set here). */
-int sr_failcase_run(const sr_mission *m, unsigned failed, const sr_judge_limits *l, sr_judge_basis basis,
-                    const sr_profile_opts *po, sr_failcase_result *out, sr_error *err);
+/* sr_failcase_run (public) runs the failure case `failed` (full mode) in
+ * every attitude and judges it; po: profile options (NULL: defaults; its
+ * failed and attitude are set here). */
 
 #endif

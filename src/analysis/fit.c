@@ -45,17 +45,6 @@ void sr_fit_setup_init(sr_fit_setup *s)
         s->stage[k].time = NAN;
 }
 
-const char *sr_fit_band_name(sr_fit_band b)
-{
-    switch (b) {
-    case SR_FIT_BAND_INSIDE: return "inside";
-    case SR_FIT_BAND_EDGE: return "inside, interval past an edge";
-    case SR_FIT_BAND_BELOW: return "below";
-    case SR_FIT_BAND_ABOVE: return "above";
-    default: return "-";
-    }
-}
-
 void sr_fit_result_free(sr_fit_result *r)
 {
     free(r->t);
@@ -67,21 +56,6 @@ void sr_fit_result_free(sr_fit_result *r)
     free(r->cds_local);
     free(r->rejected);
     memset(r, 0, sizeof *r);
-}
-
-double sr_fit_cd0(const sr_canopy *c, double own)
-{
-    return own / (c->count * c->cluster_factor * c->s0.typ);
-}
-
-sr_fit_band sr_fit_band_of(const sr_canopy *c, double cd0, double lo, double hi)
-{
-    sr_band b = c->fam.cd0.v;
-    if (cd0 < b.lo)
-        return SR_FIT_BAND_BELOW;
-    if (cd0 > b.hi)
-        return SR_FIT_BAND_ABOVE;
-    return (lo >= b.lo && hi <= b.hi) ? SR_FIT_BAND_INSIDE : SR_FIT_BAND_EDGE;
 }
 
 /* ---- the model: z(t) = G(F(z0) - sqrt(m / C) (t - t0)) ---- */
@@ -96,7 +70,7 @@ typedef struct model {
 
 static double model_z(const model *M, double z0, double C, double t)
 {
-    return fit_air_G(M->air, fit_air_F(M->air, z0) - M->sqrt_m / sqrt(C) * (t - M->t0));
+    return sr_fit_air_G(M->air, sr_fit_air_F(M->air, z0) - M->sqrt_m / sqrt(C) * (t - M->t0));
 }
 
 static int f_res(const gsl_vector *x, void *p, gsl_vector *f)
@@ -105,10 +79,10 @@ static int f_res(const gsl_vector *x, void *p, gsl_vector *f)
     double z0 = gsl_vector_get(x, 0), C = exp(gsl_vector_get(x, 1));
     if (!isfinite(C) || !(C > 0))
         return GSL_EDOM;
-    double F0 = fit_air_F(M->air, z0), a = M->sqrt_m / sqrt(C);
+    double F0 = sr_fit_air_F(M->air, z0), a = M->sqrt_m / sqrt(C);
     for (size_t k = 0; k < M->n; k++) {
         size_t i = M->idx[k];
-        gsl_vector_set(f, k, fit_air_G(M->air, F0 - a * (M->t[i] - M->t0)) - M->z[i]);
+        gsl_vector_set(f, k, sr_fit_air_G(M->air, F0 - a * (M->t[i] - M->t0)) - M->z[i]);
     }
     return GSL_SUCCESS;
 }
@@ -119,11 +93,11 @@ static int df_res(const gsl_vector *x, void *p, gsl_matrix *J)
     double z0 = gsl_vector_get(x, 0), C = exp(gsl_vector_get(x, 1));
     if (!isfinite(C) || !(C > 0))
         return GSL_EDOM;
-    double F0 = fit_air_F(M->air, z0), a = M->sqrt_m / sqrt(C), k0 = fit_air_k1(M->air, z0);
+    double F0 = sr_fit_air_F(M->air, z0), a = M->sqrt_m / sqrt(C), k0 = sr_fit_air_k1(M->air, z0);
     for (size_t k = 0; k < M->n; k++) {
         size_t i = M->idx[k];
         double dt = M->t[i] - M->t0;
-        double zi = fit_air_G(M->air, F0 - a * dt), ki = fit_air_k1(M->air, zi);
+        double zi = sr_fit_air_G(M->air, F0 - a * dt), ki = sr_fit_air_k1(M->air, zi);
         gsl_matrix_set(J, k, 0, ki / k0);          /* dz / dz0 */
         gsl_matrix_set(J, k, 1, 0.5 * a * ki * dt); /* dz / d ln C = v (t - t0) / 2 */
     }
@@ -166,7 +140,7 @@ static int fit_window(const fit_air *air, const double *t, const double *z, cons
     size_t nb = 0;
     for (size_t i = i0; i < i1; i++)
         if (rate[i] > 0.1) {
-            double k = fit_air_k1(air, smooth[i]);
+            double k = sr_fit_air_k1(air, smooth[i]);
             buf[nb++] = mass * k * k / (rate[i] * rate[i]);
         }
     if (nb < nw / 2) {
@@ -176,8 +150,8 @@ static int fit_window(const fit_air *air, const double *t, const double *z, cons
     double C = median_of(buf, nb);
     double a = M.sqrt_m / sqrt(C);
     for (size_t i = i0; i < i1; i++)
-        buf[i - i0] = fit_air_F(air, z[i]) + a * (t[i] - t[i0]);
-    double z0 = fit_air_G(air, median_of(buf, nw));
+        buf[i - i0] = sr_fit_air_F(air, z[i]) + a * (t[i] - t[i0]);
+    double z0 = sr_fit_air_G(air, median_of(buf, nw));
     /* round 0: off the median filter or far off the start model */
     for (size_t i = i0; i < i1; i++)
         res[i - i0] = fabs(model_z(&M, z0, C, t[i]) - z[i]);
@@ -335,10 +309,6 @@ static int stage_fail(const sr_flightlog *log, size_t row, const char *stage, sr
     return sr_error_set(err, e->code, "%s: stage '%s': %s", w, stage, e->msg);
 }
 
-int fit_opening(const sr_flightlog *log, const sr_fit_result *r, const sr_fit_stage_spec *sp, sr_fit_stage *st,
-                const fit_air *air, const sr_atmos *atm, sr_error *err);
-int fit_wind(const sr_flightlog *log, sr_fit_result *r, sr_error *err);
-
 int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r, sr_error *err)
 {
     memset(r, 0, sizeof *r);
@@ -391,7 +361,7 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
     double span = hi - lo;
     lo = fmin(lo, zg) - 0.25 * span - 300.0;
     hi = hi + 0.25 * span + 300.0;
-    if ((rc = fit_air_build(&air, s->atmos, lo, hi, s->gravity, &e))) {
+    if ((rc = sr_fit_air_build(&air, s->atmos, lo, hi, s->gravity, &e))) {
         rc = sr_error_set(err, rc, "%s: %s", log->path, e.msg);
         goto done;
     }
@@ -402,7 +372,7 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
     int converted = 0;
     if (log->vertical == SR_LOG_PRESSURE) {
         for (size_t i = 0; i < n; i++) {
-            z[i] = fit_air_z_of_p(&air, log->v[i]);
+            z[i] = sr_fit_air_z_of_p(&air, log->v[i]);
             zraw[i] = NAN;
         }
         snprintf(r->conversion, sizeof r->conversion, "pressure to altitude in the site's air (%s)", atmdesc);
@@ -412,7 +382,7 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
         if (s->pressure_altitude) {
             sr_atmos sa;
             sr_atmos_init_standard(&sa);
-            if ((rc = fit_air_build(&std, &sa, -900.0, fmin(hi + 3000.0, 85000.0), NAN, &e))) {
+            if ((rc = sr_fit_air_build(&std, &sa, -900.0, fmin(hi + 3000.0, 85000.0), NAN, &e))) {
                 rc = sr_error_set(err, rc, "%s: %s", log->path, e.msg);
                 goto done;
             }
@@ -424,11 +394,11 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
                     rc = sr_error_set(err, rc, "%s: %s", log->path, e.msg);
                     goto done;
                 }
-                Hpad = sr_atmos_geopotential(fit_air_z_of_p(&std, ga.p));
+                Hpad = sr_atmos_geopotential(sr_fit_air_z_of_p(&std, ga.p));
             }
             for (size_t i = 0; i < n; i++) {
                 double p = std_pressure_at_geopotential(log->vertical == SR_LOG_HEIGHT ? Hpad + log->v[i] : log->v[i]);
-                z[i] = fit_air_z_of_p(&air, p);
+                z[i] = sr_fit_air_z_of_p(&air, p);
             }
             converted = 1;
             snprintf(r->conversion, sizeof r->conversion,
@@ -441,7 +411,7 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
                      vname, log->vertical == SR_LOG_HEIGHT ? "height above ground" : "altitude");
         }
     }
-    if ((rc = fit_smooth(log->t, z, n, log->step, r->smooth, r->rate, &r->noise, &e))) {
+    if ((rc = sr_fit_smooth(log->t, z, n, log->step, r->smooth, r->rate, &r->noise, &e))) {
         rc = sr_error_set(err, rc, "%s: %s", log->path, e.msg);
         goto done;
     }
@@ -457,7 +427,7 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
     }
     r->ground = zg;
     fit_seg seg;
-    if ((rc = fit_segments(log, log->t, r->smooth, r->rate, n, &air, zg, r->noise, &seg, err)))
+    if ((rc = sr_fit_segments(log, log->t, r->smooth, r->rate, n, &air, zg, r->noise, &seg, err)))
         goto done;
     r->row_apogee = seg.apogee;
     r->t_apogee = log->t[seg.apogee];
@@ -561,7 +531,7 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
             rc = sr_error_set(err, SR_ENOMEM, "out of memory");
             goto done;
         }
-        if ((rc = fit_smooth(log->t, zraw, n, log->step, raw_smooth, raw_rate, &raw_noise, &e))) {
+        if ((rc = sr_fit_smooth(log->t, zraw, n, log->step, raw_smooth, raw_rate, &raw_noise, &e))) {
             rc = sr_error_set(err, rc, "%s: %s", log->path, e.msg);
             goto done;
         }
@@ -677,22 +647,22 @@ int sr_fit_log(const sr_flightlog *log, const sr_fit_setup *s0, sr_fit_result *r
         }
         /* the point estimate along the way, from deployment to the next event, over a 5 s moving median */
         for (size_t i = i0; i < iend; i++) {
-            double v = fmax(r->rate[i], 0.5), kk = fit_air_k1(&air, r->smooth[i]);
+            double v = fmax(r->rate[i], 0.5), kk = sr_fit_air_k1(&air, r->smooth[i]);
             sm[i - i0] = sp->mass * kk * kk / (v * v);
         }
-        if (iend > i0 && fit_median(sm, r->cds_local + i0, iend - i0,
-                                    fit_odd_window(5.0, log->step, iend - i0, 3), &e) == SR_OK)
+        if (iend > i0 && sr_fit_median(sm, r->cds_local + i0, iend - i0,
+                                    sr_fit_odd_window(5.0, log->step, iend - i0, 3), &e) == SR_OK)
             for (size_t i = i0; i < iend; i++)
                 if (!(r->rate[i] > 0.5))
                     r->cds_local[i] = NAN;
-        if (log->acc && (rc = fit_opening(log, r, sp, st, &air, s->atmos, err)))
+        if (log->acc && (rc = sr_fit_find_opening(log, r, sp, st, &air, s->atmos, err)))
             goto done;
     }
-    if (log->east && (rc = fit_wind(log, r, err)))
+    if (log->east && (rc = sr_fit_find_wind(log, r, err)))
         goto done;
 done:
-    fit_air_free(&air);
-    fit_air_free(&std);
+    sr_fit_air_release(&air);
+    sr_fit_air_release(&std);
     free(z);
     free(zraw);
     free(sm);

@@ -13,7 +13,7 @@
 #define NODE_STEP 2.0
 #define NODES_MAX 60000
 
-void fit_air_free(fit_air *a)
+void sr_fit_air_release(fit_air *a)
 {
     gsl_interp_free(a->iF);
     gsl_interp_free(a->ik1);
@@ -30,7 +30,7 @@ void fit_air_free(fit_air *a)
     memset(a, 0, sizeof *a);
 }
 
-int fit_air_build(fit_air *a, const sr_atmos *atm, double zlo, double zhi, double gravity, sr_error *err)
+int sr_fit_air_build(fit_air *a, const sr_atmos *atm, double zlo, double zhi, double gravity, sr_error *err)
 {
     memset(a, 0, sizeof *a);
     double mlo, mhi;
@@ -52,7 +52,7 @@ int fit_air_build(fit_air *a, const sr_atmos *atm, double zlo, double zhi, doubl
     a->F = malloc(n * sizeof *a->F);
     a->nlnp = malloc(n * sizeof *a->nlnp);
     if (!a->z || !a->k1 || !a->F || !a->nlnp) {
-        fit_air_free(a);
+        sr_fit_air_release(a);
         return sr_error_set(err, SR_ENOMEM, "out of memory");
     }
     sr_error e;
@@ -62,7 +62,7 @@ int fit_air_build(fit_air *a, const sr_atmos *atm, double zlo, double zhi, doubl
         sr_air air;
         int rc = sr_atmos_at(atm, z, &air, &e);
         if (rc) {
-            fit_air_free(a);
+            sr_fit_air_release(a);
             return sr_error_set(err, rc, "%s", e.msg);
         }
         double g = isnan(gravity) ? air.g : gravity;
@@ -77,7 +77,7 @@ int fit_air_build(fit_air *a, const sr_atmos *atm, double zlo, double zhi, doubl
             double zm = 0.5 * (z + a->z[i - 1]);
             sr_air am;
             if ((rc = sr_atmos_at(atm, zm, &am, &e))) {
-                fit_air_free(a);
+                sr_fit_air_release(a);
                 return sr_error_set(err, rc, "%s", e.msg);
             }
             double gm = isnan(gravity) ? am.g : gravity;
@@ -89,7 +89,7 @@ int fit_air_build(fit_air *a, const sr_atmos *atm, double zlo, double zhi, doubl
     for (size_t i = 1; i < n; i++)
         if (!(a->nlnp[i] > a->nlnp[i - 1])) {
             double zi = a->z[i];
-            fit_air_free(a);
+            sr_fit_air_release(a);
             return sr_error_set(err, SR_EDOMAIN, "the atmosphere's pressure does not fall with altitude near %.0f m",
                                 zi);
         }
@@ -104,7 +104,7 @@ int fit_air_build(fit_air *a, const sr_atmos *atm, double zlo, double zhi, doubl
     if (!a->iF || !a->ik1 || !a->iG || !a->iZ || !a->aF || !a->ak1 || !a->aG || !a->aZ ||
         gsl_interp_init(a->iF, a->z, a->F, n) || gsl_interp_init(a->ik1, a->z, a->k1, n) ||
         gsl_interp_init(a->iG, a->F, a->z, n) || gsl_interp_init(a->iZ, a->nlnp, a->z, n)) {
-        fit_air_free(a);
+        sr_fit_air_release(a);
         return sr_error_set(err, SR_ENOMEM, "cannot build the air tables of the fit");
     }
     return SR_OK;
@@ -124,17 +124,17 @@ static double eval(const gsl_interp *ip, const double *x, const double *y, size_
     return out;
 }
 
-double fit_air_F(const fit_air *a, double z)
+double sr_fit_air_F(const fit_air *a, double z)
 {
     return eval(a->iF, a->z, a->F, a->n, a->aF, z);
 }
 
-double fit_air_G(const fit_air *a, double F)
+double sr_fit_air_G(const fit_air *a, double F)
 {
     return eval(a->iG, a->F, a->z, a->n, a->aG, F);
 }
 
-double fit_air_k1(const fit_air *a, double z)
+double sr_fit_air_k1(const fit_air *a, double z)
 {
     if (z <= a->z[0])
         return a->k1[0];
@@ -143,7 +143,7 @@ double fit_air_k1(const fit_air *a, double z)
     return eval(a->ik1, a->z, a->k1, a->n, a->ak1, z);
 }
 
-double fit_air_z_of_p(const fit_air *a, double p)
+double sr_fit_air_z_of_p(const fit_air *a, double p)
 {
     return eval(a->iZ, a->nlnp, a->z, a->n, a->aZ, -log(p));
 }

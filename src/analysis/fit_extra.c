@@ -1,6 +1,6 @@
 /* fit_extra.c - what the fit adds around the drag area: the stages of a
- * mission, the opening from the acceleration column, the wind from the
- * positions, and several flights pooled. */
+ * mission, the catalog band of a fitted coefficient, the opening from the
+ * acceleration column, the wind from the positions, and several flights pooled. */
 #include <gsl/gsl_cdf.h>
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_fit.h>
@@ -15,9 +15,31 @@
 
 #define PI 3.14159265358979323846
 
-int fit_opening(const sr_flightlog *log, const sr_fit_result *r, const sr_fit_stage_spec *sp, sr_fit_stage *st,
-                const fit_air *air, const sr_atmos *atm, sr_error *err);
-int fit_wind(const sr_flightlog *log, sr_fit_result *r, sr_error *err);
+const char *sr_fit_band_name(sr_fit_band b)
+{
+    switch (b) {
+    case SR_FIT_BAND_INSIDE: return "inside";
+    case SR_FIT_BAND_EDGE: return "inside, interval past an edge";
+    case SR_FIT_BAND_BELOW: return "below";
+    case SR_FIT_BAND_ABOVE: return "above";
+    default: return "-";
+    }
+}
+
+double sr_fit_cd0(const sr_canopy *c, double own)
+{
+    return own / (c->count * c->cluster_factor * c->s0.typ);
+}
+
+sr_fit_band sr_fit_band_of(const sr_canopy *c, double cd0, double lo, double hi)
+{
+    sr_band b = c->fam.cd0.v;
+    if (cd0 < b.lo)
+        return SR_FIT_BAND_BELOW;
+    if (cd0 > b.hi)
+        return SR_FIT_BAND_ABOVE;
+    return (lo >= b.lo && hi <= b.hi) ? SR_FIT_BAND_INSIDE : SR_FIT_BAND_EDGE;
+}
 
 int sr_fit_stages_from_mission(const sr_mission *m, sr_fit_setup *s, sr_error *err)
 {
@@ -78,7 +100,7 @@ static double crossing(const double *t, const double *a, size_t i, double level)
     return d != 0.0 ? t[i - 1] + (level - a[i - 1]) / d * (t[i] - t[i - 1]) : t[i];
 }
 
-int fit_opening(const sr_flightlog *log, const sr_fit_result *r, const sr_fit_stage_spec *sp, sr_fit_stage *st,
+int sr_fit_find_opening(const sr_flightlog *log, const sr_fit_result *r, const sr_fit_stage_spec *sp, sr_fit_stage *st,
                 const fit_air *air, const sr_atmos *atm, sr_error *err)
 {
     (void)air;
@@ -166,7 +188,7 @@ int fit_opening(const sr_flightlog *log, const sr_fit_result *r, const sr_fit_st
 
 /* ---- wind: the drift under the canopies by height band ---- */
 
-int fit_wind(const sr_flightlog *log, sr_fit_result *r, sr_error *err)
+int sr_fit_find_wind(const sr_flightlog *log, sr_fit_result *r, sr_error *err)
 {
     (void)err;
     r->nwind = 0;

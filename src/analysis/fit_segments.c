@@ -28,7 +28,7 @@
 #define CHANGE_MIN 1.0      /* m/s: the smallest drop taken for a deployment */
 #define CHANGE_GAP_S 8.0    /* two deployments at least this far apart */
 
-size_t fit_odd_window(double seconds, double step, size_t n, size_t min)
+size_t sr_fit_odd_window(double seconds, double step, size_t n, size_t min)
 {
     size_t k = (size_t)lround(seconds / step);
     if (k < min)
@@ -40,7 +40,7 @@ size_t fit_odd_window(double seconds, double step, size_t n, size_t min)
     return k < 1 ? 1 : k;
 }
 
-int fit_median(const double *x, double *y, size_t n, size_t k, sr_error *err)
+int sr_fit_median(const double *x, double *y, size_t n, size_t k, sr_error *err)
 {
     if (k <= 1) {
         memcpy(y, x, n * sizeof *y);
@@ -56,10 +56,10 @@ int fit_median(const double *x, double *y, size_t n, size_t k, sr_error *err)
     return rc ? sr_error_set(err, SR_ENUMERIC, "median filter: %s", gsl_strerror(rc)) : SR_OK;
 }
 
-int fit_smooth(const double *t, const double *z, size_t n, double step, double *smooth, double *rate,
+int sr_fit_smooth(const double *t, const double *z, size_t n, double step, double *smooth, double *rate,
                double *noise, sr_error *err)
 {
-    int rc = fit_median(z, smooth, n, fit_odd_window(MEDIAN_S, step, n, 5), err);
+    int rc = sr_fit_median(z, smooth, n, sr_fit_odd_window(MEDIAN_S, step, n, 5), err);
     if (rc)
         return rc;
     double *d = malloc(n * sizeof *d);
@@ -121,7 +121,7 @@ static int by_row(const void *a, const void *b)
     return (x > y) - (x < y);
 }
 
-int fit_segments(const sr_flightlog *log, const double *t, const double *smooth, const double *rate, size_t n,
+int sr_fit_segments(const sr_flightlog *log, const double *t, const double *smooth, const double *rate, size_t n,
                  const fit_air *air, double zground, double noise, fit_seg *seg, sr_error *err)
 {
     memset(seg, 0, sizeof *seg);
@@ -163,10 +163,10 @@ int fit_segments(const sr_flightlog *log, const double *t, const double *smooth,
         free(c);
         return sr_error_set(err, SR_ENOMEM, "out of memory");
     }
-    double kg = fit_air_k1(air, zground);
+    double kg = sr_fit_air_k1(air, zground);
     for (size_t j = 0; j < m; j++)
-        u[j] = rate[ap + j] * kg / fit_air_k1(air, smooth[ap + j]);
-    int rc = fit_median(u, M, m, fit_odd_window(CHANGE_S, log->step, m, 3), err);
+        u[j] = rate[ap + j] * kg / sr_fit_air_k1(air, smooth[ap + j]);
+    int rc = sr_fit_median(u, M, m, sr_fit_odd_window(CHANGE_S, log->step, m, 3), err);
     /* the scatter of the smoothed rate about its moving median, robust */
     double unoise = 0.0;
     if (!rc) {

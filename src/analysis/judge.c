@@ -172,3 +172,83 @@ unsigned sr_judge_flags(const sr_judge_limits *l, const sr_profile_result *r, co
     }
     return f;
 }
+
+/* ---- a program's limits and verdicts (include/sinkrate/analysis.h) ---- */
+
+sr_quantity sr_judge_kind_quantity(sr_limit_kind k)
+{
+    switch (k) {
+    case SR_JUDGE_SPEED: return SR_Q_SPEED;
+    case SR_JUDGE_ENERGY: return SR_Q_ENERGY;
+    case SR_JUDGE_TIME: return SR_Q_TIME;
+    case SR_JUDGE_DRIFT: return SR_Q_LENGTH;
+    case SR_JUDGE_DEPLOY_Q: return SR_Q_PRESSURE;
+    case SR_JUDGE_OPENING: return SR_Q_FORCE;
+    default: return SR_Q_NONE;
+    }
+}
+
+const char *sr_judge_row_subject(const sr_mission *m, const sr_judge_row *row)
+{
+    size_t i = (size_t)row->index;
+    switch (row->kind) {
+    case SR_JUDGE_ENERGY: return row->index >= 0 && i < m->nsections ? m->sections[i].name : "";
+    case SR_JUDGE_DEPLOY_Q:
+    case SR_JUDGE_MACH:
+    case SR_JUDGE_OPENING: return row->index >= 0 && i < m->nstages ? m->stages[i].name : "";
+    default: return "";
+    }
+}
+
+int sr_judge_limits_new(sr_judge_limits **out, const sr_mission *m, sr_error *err)
+{
+    *out = malloc(sizeof **out);
+    if (!*out)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    sr_judge_limits_init(*out, m);
+    return SR_OK;
+}
+
+void sr_judge_limits_free(sr_judge_limits *l)
+{
+    free(l);
+}
+
+int sr_verdict_new(sr_verdict **out, sr_error *err)
+{
+    *out = calloc(1, sizeof **out);
+    if (!*out)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    (*out)->binding = -1;
+    return SR_OK;
+}
+
+void sr_verdict_free(sr_verdict *v)
+{
+    free(v);
+}
+
+size_t sr_verdict_rows(const sr_verdict *v)
+{
+    return v->nrows;
+}
+
+const sr_judge_row *sr_verdict_row(const sr_verdict *v, size_t i)
+{
+    return i < v->nrows ? &v->row[i] : NULL;
+}
+
+int sr_verdict_binding(const sr_verdict *v)
+{
+    return v->binding;
+}
+
+int sr_verdict_exceeded(const sr_verdict *v)
+{
+    return v->exceeded;
+}
+
+sr_judge_basis sr_verdict_basis(const sr_verdict *v)
+{
+    return v->basis;
+}

@@ -4,6 +4,7 @@
 #include "analysis/loads.h"
 
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "physics/units.h"
@@ -141,4 +142,56 @@ int sr_loads_evaluate(const sr_loads_canopy *c, const sr_loads_state st[SR_LOADS
     }
     out->above_envelope = c->mach_max > 0 && out->mach_hi > c->mach_max;
     return SR_OK;
+}
+
+/* ---- a program's opening load (include/sinkrate/analysis.h) ---- */
+
+void sr_loads_state_of(sr_loads_state *s, const sr_canopy *c, double mass, double v1, double path_angle,
+                       const sr_air *air)
+{
+    memset(s, 0, sizeof *s);
+    s->valid = 1;
+    s->v1 = v1;
+    s->path_angle = path_angle;
+    s->rho = air->rho;
+    s->a = air->a;
+    s->g = air->g;
+    s->mass = mass;
+    s->v_steady = NAN;
+    s->cds0 = c->cluster_factor * c->cds.typ;
+    s->d0 = c->d0.typ;
+}
+
+int sr_loads_deployment(sr_loads_band **out, const sr_canopy *c, double mass, double v1, double path_angle,
+                        const sr_air *air, sr_error *err)
+{
+    *out = NULL;
+    if (!(isfinite(v1) && v1 > 0.0))
+        return sr_error_set_key(err, SR_EINVAL, "v1", "the speed at line stretch must be positive (got %g m/s)", v1);
+    if (!(isfinite(mass) && mass > 0.0))
+        return sr_error_set_key(err, SR_EINVAL, "mass", "the mass must be positive (got %g kg)", mass);
+    if (!(fabs(path_angle) <= 1.57079632679489662 + 1e-9)) /* pi/2 */
+        return sr_error_set_key(err, SR_EINVAL, "path_angle",
+                                "the path angle %g rad is outside -pi/2 .. pi/2 below the horizontal", path_angle);
+    sr_loads_canopy lc;
+    sr_loads_canopy_init(&lc, c);
+    /* one deployment state, the typical one: the band ends come from the canopy's own bands */
+    sr_loads_state st[SR_LOADS_NSTATES];
+    memset(st, 0, sizeof st);
+    sr_loads_state_of(&st[0], c, mass, v1, path_angle, air);
+    sr_loads_band *b = malloc(sizeof *b);
+    if (!b)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int rc = sr_loads_evaluate(&lc, st, 0, b, err);
+    if (rc) {
+        free(b);
+        return rc;
+    }
+    *out = b;
+    return SR_OK;
+}
+
+void sr_loads_free(sr_loads_band *b)
+{
+    free(b);
 }

@@ -11,6 +11,7 @@
 #include "base/error.h"
 #include "physics/canopy.h"
 #include "physics/opening.h"
+#include "sinkrate/analysis.h"
 
 /* Deployment states: the typical run and the two band-end runs (band.h). */
 #define SR_LOADS_NSTATES 3
@@ -43,28 +44,15 @@ typedef struct sr_loads_state {
     double d0;          /* one canopy's nominal diameter in this run, m */
 } sr_loads_state;
 
-/* One end of the band and the combination of banded inputs that gives it. */
-typedef struct sr_loads_end {
-    double force;       /* the highest of the three estimates (or the measured load), N, all canopies */
-    double decel_g;     /* force / (m g0) */
-    int state;          /* which state: 0 typical, 1 and 2 the band-end runs */
-    int drag;           /* the canopy's own drag: 0 low, 1 typical, 2 high end */
-    double exponent;    /* growth exponent */
-    double cx;          /* opening-load factor */
-} sr_loads_end;
+/* The state of a canopy deployed on its own (no band runs): airspeed v1 at
+ * line stretch, path angle (rad below the horizontal), the mass it
+ * decelerates and the air; the steady rate its own (`loads` without a
+ * mission and sr_loads_deployment). */
+void sr_loads_state_of(sr_loads_state *s, const sr_canopy *c, double mass, double v1, double path_angle,
+                       const sr_air *air);
 
-typedef struct sr_loads_band {
-    int valid;          /* the typical state deployed and had a speed */
-    int measured;       /* sr_measured_opening in force */
-    sr_loads_end lo, typ, hi;   /* the governing estimate (the highest of the three methods) at the low end of
-                                 * the bands, at the typical values, and at the high end: hi governs */
-    double v_lo, v_typ, v_hi;   /* airspeed at line stretch over the states, m/s */
-    double q_lo, q_typ, q_hi;   /* dynamic pressure at line stretch, Pa */
-    double mach_lo, mach_typ, mach_hi;
-    double t_fill_typ;          /* filling time of the typical combination, s */
-    int slow_deployment;        /* the typical opening is below the canopy's steady rate */
-    int above_envelope;         /* the highest Mach is above the family's envelope */
-} sr_loads_band;
+/* sr_loads_end and sr_loads_band (records) are public:
+ * include/sinkrate/analysis.h. */
 
 /* The band over the valid states. The ends come from the band-end states
  * (1, 2) when they are valid, and state 0 otherwise; combinations: own drag at

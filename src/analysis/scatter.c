@@ -11,7 +11,7 @@
 
 #define PI 3.14159265358979323846
 
-const double SR_SCATTER_PCT[SR_SCATTER_NPCT] = {0.01, 0.05, 0.50, 0.95, 0.99};
+const double sr_scatter_pct[SR_SCATTER_NPCT] = {0.01, 0.05, 0.50, 0.95, 0.99};
 
 int sr_scatter_ellipse(double cov_ee, double cov_en, double cov_nn, double k, sr_ellipse *e, sr_error *err)
 {
@@ -89,7 +89,7 @@ static void spread1(double *tmp, size_t n, sr_spread1 *s)
 {
     s->mean = gsl_stats_mean(tmp, 1, n);
     gsl_stats_minmax(&s->min, &s->max, tmp, 1, n);
-    sr_scatter_quantiles(tmp, n, SR_SCATTER_PCT, SR_SCATTER_NPCT, s->pct);
+    sr_scatter_quantiles(tmp, n, sr_scatter_pct, SR_SCATTER_NPCT, s->pct);
 }
 
 int sr_scatter_stats(const sr_disp_result *res, sr_disp_stats *st, sr_error *err)
@@ -163,4 +163,41 @@ int sr_scatter_stats(const sr_disp_result *res, sr_disp_stats *st, sr_error *err
         sr_scatter_proportion(cnt[k], n, 1.959963984540054, &st->limit[k]);
     sr_scatter_proportion(any, n, 1.959963984540054, &st->any);
     return SR_OK;
+}
+
+/* ---- a program's scatter statistics (include/sinkrate/analysis.h) ---- */
+
+int sr_disp_stats_new(sr_disp_stats **out, const sr_disp_result *r, sr_error *err)
+{
+    *out = NULL;
+    sr_disp_stats *s = calloc(1, sizeof *s);
+    if (!s)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int rc = sr_scatter_stats(r, s, err);
+    if (rc) {
+        free(s);
+        return rc;
+    }
+    *out = s;
+    return SR_OK;
+}
+
+void sr_disp_stats_free(sr_disp_stats *s)
+{
+    free(s);
+}
+
+const sr_body_stats *sr_disp_stats_body(const sr_disp_stats *s, size_t b)
+{
+    return b < s->nbodies ? &s->body[b] : NULL;
+}
+
+const sr_proportion *sr_disp_stats_limit(const sr_disp_stats *s, sr_limit_kind k)
+{
+    return (int)k >= 0 && (int)k < SR_DISP_NLIMITS ? &s->limit[k] : NULL;
+}
+
+const sr_proportion *sr_disp_stats_any(const sr_disp_stats *s)
+{
+    return &s->any;
 }

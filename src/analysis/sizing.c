@@ -3,6 +3,7 @@
 #include "analysis/sizing.h"
 
 #include <math.h>
+#include <stdlib.h>
 #include <string.h>
 
 int sr_sizing_run(const sr_sizing_request *req, sr_sizing_result *out, sr_error *err)
@@ -56,4 +57,69 @@ sr_sizing_fit sr_sizing_compare(const sr_sizing_result *res, const sr_canopy *gi
     if (given->s0.typ >= res->size.s0.typ)
         return SR_SIZING_FITS_TYPICAL;
     return SR_SIZING_TOO_SMALL;
+}
+
+/* ---- a program's sizing (include/sinkrate/analysis.h) ---- */
+
+int sr_sizing_new(sr_sizing_result **out, const sr_canopy *c, double mass, double speed, double body_cds,
+                  const sr_atmos *atmos, double altitude, sr_error *err)
+{
+    *out = NULL;
+    sr_sizing_result *s = malloc(sizeof *s);
+    if (!s)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    sr_sizing_request req = {.canopy = c, .mass = mass, .speed = speed, .body_cds = body_cds, .atmos = atmos,
+                             .altitude = altitude};
+    int rc = sr_sizing_run(&req, s, err);
+    if (rc) {
+        free(s);
+        return rc;
+    }
+    *out = s;
+    return SR_OK;
+}
+
+void sr_sizing_free(sr_sizing_result *s)
+{
+    free(s);
+}
+
+sr_band sr_sizing_nominal_area(const sr_sizing_result *s)
+{
+    return s->size.s0;
+}
+
+sr_band sr_sizing_nominal_diameter(const sr_sizing_result *s)
+{
+    return s->size.d0;
+}
+
+sr_band sr_sizing_projected_diameter(const sr_sizing_result *s)
+{
+    return s->dp;
+}
+
+sr_band sr_sizing_flat_diameter(const sr_sizing_result *s)
+{
+    return s->dc;
+}
+
+sr_band sr_sizing_canopy_mass(const sr_sizing_result *s)
+{
+    return s->size.canopy_mass;
+}
+
+sr_band sr_sizing_cd0(const sr_sizing_result *s)
+{
+    return s->cd0;
+}
+
+double sr_sizing_energy(const sr_sizing_result *s)
+{
+    return s->energy;
+}
+
+const sr_air *sr_sizing_air(const sr_sizing_result *s)
+{
+    return &s->air;
 }

@@ -13,6 +13,7 @@
 #include "physics/atmos.h"
 #include "physics/canopy.h"
 #include "physics/descent.h"
+#include "sinkrate/analysis.h"
 
 #define SR_SIZING_RATES 6
 

@@ -222,7 +222,7 @@ int sr_sweep_descent_time(const sr_sweep_case *c, double z_top, sr_band *t, sr_e
     gsl_integration_workspace *w = gsl_integration_workspace_alloc(QUAD_LIMIT);
     if (!w)
         return sr_error_set(err, SR_ENOMEM, "out of memory");
-    tparams tp = {&c->atmos, 0, {0, ""}};
+    tparams tp = {.m = &c->atmos};
     double I;
     rc = integrate(w, &tp, c->ground, z_top, &I, err);
     gsl_integration_workspace_free(w);
@@ -267,7 +267,7 @@ static int altitude_times(const sr_sweep_case *c, sr_sweep_row *rows, size_t n, 
     qsort(o, n, sizeof *o, cmp_zsort);
     scale s;
     time_scale(c, &s);
-    tparams tp = {&c->atmos, 0, {0, ""}};
+    tparams tp = {.m = &c->atmos};
     double below = c->ground, I = 0.0;
     int rc = SR_OK;
     for (size_t j = 0; j < n; j++) {

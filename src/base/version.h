@@ -1,5 +1,6 @@
 /* version.h - the release number, shown by --version and in every output. */
 #ifndef SR_VERSION_H
 #define SR_VERSION_H
-#define SR_VERSION "0.1.0"
+#include "sinkrate/base.h"
+#define SR_VERSION SR_VERSION_STRING
 #endif

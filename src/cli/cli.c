@@ -16,41 +16,24 @@
 #include "base/version.h"
 #include "files/yamldoc.h"
 
-typedef struct command {
-    const char *name;
-    sr_command_fn fn;
-    const char *summary;
-} command;
+const sr_command *const sr_cli_commands[] = {&sr_cmd_size,       &sr_cmd_rate,     &sr_cmd_sweep,    &sr_cmd_profile,
+                                         &sr_cmd_loads,      &sr_cmd_freefall, &sr_cmd_dispersion, &sr_cmd_air,
+                                         &sr_cmd_canopies,   &sr_cmd_check,    &sr_cmd_fit,      &sr_cmd_design, NULL};
 
-static const command COMMANDS[] = {
-    {"size", sr_cmd_size, "nominal area and diameters a canopy family needs for a target touchdown speed"},
-    {"rate", sr_cmd_rate, "descent rate of a canopy or cluster at one or more altitudes"},
-    {"sweep", sr_cmd_sweep, "a table and figure over altitude, mass, diameter, temperature or site"},
-    {"profile", sr_cmd_profile, "staged descent of a mission file: events, time, drift, touchdown, limits"},
-    {"loads", sr_cmd_loads, "opening load of a canopy at deployment"},
-    {"freefall", sr_cmd_freefall, "free-fall speed of a body with Reynolds-dependent drag"},
-    {"dispersion", sr_cmd_dispersion, "Monte Carlo landing scatter of a mission file"},
-    {"air", sr_cmd_air, "atmosphere table (standard, offset, site, sounding)"},
-    {"canopies", sr_cmd_canopies, "list the canopy catalog, or show one family with its sources"},
-    {"check", sr_cmd_check, "validate canopy, canopy-family and mission files"},
-    {"fit", sr_cmd_fit, "drag area of each canopy from flight logs, with an interval, into a canopy file"},
-    {"design", sr_cmd_design, "search the lightest design of a mission that meets every limit at the band end"},
-};
-
-#define NCOMMANDS (sizeof COMMANDS / sizeof COMMANDS[0])
+#define NCOMMANDS (sizeof sr_cli_commands / sizeof sr_cli_commands[0] - 1)
 
 static void usage(FILE *f)
 {
     fprintf(f, "usage: sinkrate COMMAND [options]   (sinkrate COMMAND --help for its options)\n\n"
                "Sizes and checks parachute recovery systems for payloads.\n\nCommands:\n");
     for (size_t i = 0; i < NCOMMANDS; i++)
-        fprintf(f, "  %-11s %s\n", COMMANDS[i].name, COMMANDS[i].summary);
+        fprintf(f, "  %-11s %s\n", sr_cli_commands[i]->name, sr_cli_commands[i]->summary);
     fprintf(f, "\nOptions: --version, --help, --completion bash (the shell completion script)\n\n");
 }
 
 /* `sinkrate --completion bash`: the bash completion script, written from
- * the command table and each command's own option table (each command
- * lists its table through sr_cli_parse), so it cannot drift from them. */
+ * the command table and each command's option table (cli/options.h), so it
+ * cannot drift from them. */
 static int completion(sr_cli *c, const char *shell)
 {
     if (!shell || strcmp(shell, "bash") != 0)
@@ -65,65 +48,44 @@ static int completion(sr_cli *c, const char *shell)
                "        COMPREPLY=($(compgen -W \"",
             SR_VERSION);
     for (size_t i = 0; i < NCOMMANDS; i++)
-        fprintf(f, "%s ", COMMANDS[i].name);
+        fprintf(f, "%s ", sr_cli_commands[i]->name);
     fputs("--help --version --completion\" -- \"$cur\"))\n"
           "        return\n"
           "    fi\n"
           "    case $cmd in\n",
           f);
+    sr_opt_flat *flat = malloc(SR_OPT_MAX * sizeof *flat);
+    if (!flat)
+        return sr_cli_fail(c, "out of memory");
     for (size_t i = 0; i < NCOMMANDS; i++) {
-        char *buf = NULL;
-        size_t len = 0;
-        FILE *m = open_memstream(&buf, &len);
-        if (!m)
-            return sr_cli_fail(c, "out of memory");
-        sr_cli sub = *c;
-        sub.out = m;
-        sub.cmd = COMMANDS[i].name;
-        sub.list_options = 1;
-        sub.short_opts = NULL;
-        char *argv[] = {(char *)COMMANDS[i].name, NULL};
-        COMMANDS[i].fn(&sub, 1, argv);
-        fclose(m);
-        fprintf(f, "    %s)\n        opts='", COMMANDS[i].name);
-        char *save = NULL;
-        int first = 1;
-        for (char *l = strtok_r(buf, "\n", &save); l; l = strtok_r(NULL, "\n", &save)) {
-            char name[64];
-            int val;
-            if (sscanf(l, "%63s %d", name, &val) != 2)
-                continue;
-            fprintf(f, "%s%s", first ? "" : " ", name);
-            first = 0;
-        }
-        fputs("'\n        vals='", f);
-        free(buf);
-        buf = NULL;
-        m = open_memstream(&buf, &len);
-        if (!m)
-            return sr_cli_fail(c, "out of memory");
-        sub.out = m;
-        sub.short_opts = NULL;
-        COMMANDS[i].fn(&sub, 1, argv);
-        fclose(m);
-        first = 1;
-        for (char *l = strtok_r(buf, "\n", &save); l; l = strtok_r(NULL, "\n", &save)) {
-            char name[64];
-            int val;
-            if (sscanf(l, "%63s %d", name, &val) == 2 && val) {
-                fprintf(f, "%s%s", first ? "" : " ", name);
-                first = 0;
+        size_t n = sr_cli_opt_flatten(sr_cli_commands[i]->options, flat, SR_OPT_MAX);
+        /* every option, then those that take a value (a file name is completed after them) */
+        for (int values = 0; values < 2; values++) {
+            fprintf(f, values ? "'\n        vals='" : "    %s)\n        opts='", sr_cli_commands[i]->name);
+            const char *sep = "";
+            for (size_t k = 0; k < n; k++) {
+                const sr_opt *o = flat[k].opt;
+                if (values && !flat[k].value)
+                    continue;
+                if (o->short_name) {
+                    fprintf(f, "%s-%c", sep, o->short_name);
+                    sep = " ";
+                }
+                if (o->name) {
+                    fprintf(f, "%s--%s", sep, o->name);
+                    sep = " ";
+                }
             }
         }
-        free(buf);
         char names[512] = "";
-        if (sr_cli_tables(COMMANDS[i].name))
-            sr_cli_tables_list(COMMANDS[i].name, names, sizeof names);
+        if (sr_cli_tables(sr_cli_commands[i]->name))
+            sr_cli_tables_list(sr_cli_commands[i]->name, names, sizeof names);
         for (char *p = names; *p; p++)
             if (*p == ',')
                 *p = ' ';
         fprintf(f, "'\n        tables='%s' ;;\n", names);
     }
+    free(flat);
     fputs("    *) return ;;\n"
           "    esac\n"
           "    case $prev in\n"
@@ -171,16 +133,17 @@ static int dispatch(sr_cli *c, int argc, char **argv)
         return SR_EXIT_OK;
     }
     for (size_t i = 0; i < NCOMMANDS; i++) {
-        if (strcmp(COMMANDS[i].name, name) == 0) {
-            c->cmd = COMMANDS[i].name;
+        if (strcmp(sr_cli_commands[i]->name, name) == 0) {
+            c->cmd = sr_cli_commands[i]->name;
+            c->command = sr_cli_commands[i];
             sr_cli_signals_watch(c->txn, c->cmd);
-            int rc = COMMANDS[i].fn(c, argc - 1, argv + 1);
+            int rc = sr_cli_commands[i]->run(c, argc - 1, argv + 1);
             return rc < 0 ? SR_EXIT_OK : rc;
         }
     }
     const char *names[NCOMMANDS + 1];
     for (size_t i = 0; i < NCOMMANDS; i++)
-        names[i] = COMMANDS[i].name;
+        names[i] = sr_cli_commands[i]->name;
     names[NCOMMANDS] = NULL;
     const char *s = sr_yaml_suggest(name, names);
     if (s)
@@ -219,7 +182,7 @@ static int finish(sr_cli *c, int rc, const char *obuf, size_t olen, FILE *out)
 int sr_cli_run(int argc, char **argv, FILE *out, FILE *err)
 {
     /* GSL's default handler aborts; every GSL return code is checked instead */
-    gsl_set_error_handler_off();
+    sr_error_gsl_off();
     sr_cli c;
     memset(&c, 0, sizeof c);
     c.err = err;

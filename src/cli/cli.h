@@ -14,6 +14,7 @@ enum { SR_EXIT_OK = 0, SR_EXIT_LIMIT = 1, SR_EXIT_USAGE = 2 };
 typedef enum sr_format { SR_FMT_TEXT = 0, SR_FMT_CSV, SR_FMT_JSON } sr_format;
 
 struct sr_txn;
+struct sr_command;
 
 /* What every subcommand shares: streams (out collects standard output until
  * the run ends, when it is written and checked), the common options, and
@@ -22,6 +23,7 @@ typedef struct sr_cli {
     FILE *out;
     FILE *err;
     const char *cmd;         /* subcommand name, for messages */
+    const struct sr_command *command; /* its table (cli/options.h), set by the dispatch */
     sr_format format;
     sr_unit_system units;
     const char *output;      /* -o FILE, or NULL for stdout */
@@ -46,14 +48,6 @@ typedef struct sr_cli {
     char *notes_buf;
     size_t notes_len;
     int keep_on_usage; /* check: its report stands at exit 2, so it is written */
-    /* set by a command before sr_cli_parse: its short options besides -h and
-     * -o ("n:"), and the option codes it takes more than once (0-terminated;
-     * every other option with a value is refused when given twice) */
-    const char *short_opts;
-    const int *repeatable;
-    /* set by `sinkrate --completion bash`: sr_cli_parse lists the command's options
-     * ("--name 1" takes a value, "--name 0" does not) instead of parsing */
-    int list_options;
 } sr_cli;
 
 /* Run one command line. Standard output is written, and checked, when the

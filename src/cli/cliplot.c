@@ -12,13 +12,48 @@
 #include "cli/common.h"
 #include "output/txn.h"
 
-const char SR_HELP_PLOT[] =
-    "Figure:\n"
-    "  --plot PREFIX            write PREFIX.dat and PREFIX.gp (a gnuplot script using the\n"
-    "                           shared style plots/sinkrate.gp) and, when gnuplot is on PATH,\n"
-    "                           render PREFIX.png; the directory is created if needed\n"
-    "  --plot-format png|svg    the figure's format (default png)\n"
-    "  --plot-size WxH          the figure's size in pixels (default 1000x650)\n";
+static int take_plot(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    if (!*arg)
+        return sr_cli_fail(c, "--plot: empty file prefix");
+    c->plot_prefix = arg;
+    return 0;
+}
+
+static int take_plot_format(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    if (strcmp(arg, "png") != 0 && strcmp(arg, "svg") != 0)
+        return sr_cli_fail(c, "--plot-format: '%s' is not one of png, svg", arg);
+    c->plot_format = arg;
+    return 0;
+}
+
+static int take_plot_size(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    int w, h, used = 0;
+    if (sscanf(arg, "%dx%d%n", &w, &h, &used) != 2 || arg[used] || w < 200 || h < 150 || w > 10000 || h > 10000)
+        return sr_cli_fail(c, "--plot-size: '%s' is not WIDTHxHEIGHT in pixels (200x150 .. 10000x10000)", arg);
+    c->plot_width = w;
+    c->plot_height = h;
+    return 0;
+}
+
+const sr_opt sr_cli_group_plot[] = {
+    SR_OPT_HEADING("Figure:"),
+    {.type = SR_OPTION_CALL, .name = "plot", .value = "PREFIX", .call = take_plot, .flags = SR_OPT_IN_CLI,
+     .help = "write PREFIX.dat and PREFIX.gp (a gnuplot script using the shared style plots/sinkrate.gp) and, when "
+             "gnuplot is on PATH, render PREFIX.png; the directory is created if needed"},
+    {.type = SR_OPTION_CALL, .name = "plot-format", .value = "png|svg", .call = take_plot_format,
+     .flags = SR_OPT_IN_CLI, .help = "the figure's format (default png)"},
+    {.type = SR_OPTION_CALL, .name = "plot-size", .value = "WxH", .call = take_plot_size, .flags = SR_OPT_IN_CLI,
+     .help = "the figure's size in pixels (default 1000x650)"},
+    SR_OPT_END};
 
 /* The style file the script loads, absolute (empty when the data
  * directory is not found). */

@@ -5,13 +5,14 @@
 #define SR_CLI_PLOT_H
 
 #include "cli/cli.h"
+#include "cli/options.h"
 #include "output/plot.h"
 
 #define SR_PLOT_DEFAULT_WIDTH 1000
 #define SR_PLOT_DEFAULT_HEIGHT 650
 
-/* Help lines for the plot options. */
-extern const char SR_HELP_PLOT[];
+/* Figure: --plot, --plot-format, --plot-size (into sr_cli). */
+extern const sr_opt sr_cli_group_plot[];
 
 /* Write PREFIX.dat and PREFIX.gp (the style from the data directory's
  * plots/sinkrate.gp), creating PREFIX's directory if needed, then render
@@ -24,7 +25,7 @@ int sr_cli_plot(sr_cli *c, const sr_plot *p, int argc, char **argv);
 int sr_cli_plot_to(sr_cli *c, const sr_plot *p, const char *prefix, int argc, char **argv);
 
 /* Reserve PREFIX.dat, .gp and the figure in the run's transaction before
- * any work (sr_cli_parse does it for --plot; a command with figures of
+ * any work (sr_cli_parse_options does it for --plot; a command with figures of
  * other prefixes reserves those too). 0 or an exit code. */
 int sr_cli_plot_reserve(sr_cli *c, const char *prefix);
 

@@ -7,51 +7,45 @@
 #include "cli/commands.h"
 #include "cli/common.h"
 
-enum { OPT_FROM = OPT_COMMAND_BASE, OPT_TO, OPT_STEP, OPT_ALTITUDE };
-
-static const struct option OPTS[] = {
-    {"from", required_argument, NULL, OPT_FROM},
-    {"to", required_argument, NULL, OPT_TO},
-    {"step", required_argument, NULL, OPT_STEP},
-    {"altitude", required_argument, NULL, OPT_ALTITUDE},
-    SR_OPTS_ATMOS,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate air [--from Z0 --to Z1 --step DZ | --altitude Z,...] [atmosphere options]\n\n"
-    "The atmosphere at each altitude above sea level (geometric): temperature,\n"
-    "pressure, density and its ratio to sea level, speed of sound, dynamic and\n"
-    "kinematic viscosity, gravity. Default: 0 to 11 km every 1 km (from the site\n"
-    "elevation with a site model). The 1976 standard covers -1 km to 86 km; a\n"
-    "sounding covers its own rows and is never extrapolated.\n\n"
-    "  --from Z0, --to Z1, --step DZ   a range of altitudes (at most 10000 rows)\n"
-    "  --altitude Z[,Z...]             a list of altitudes\n\n";
-
 typedef struct air_opts {
     const char *from, *to, *step, *altitude;
     sr_atmos_opts atmos;
 } air_opts;
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    air_opts *o = ud;
-    switch (code) {
-    case OPT_FROM: o->from = arg; return 0;
-    case OPT_TO: o->to = arg; return 0;
-    case OPT_STEP: o->step = arg; return 0;
-    case OPT_ALTITUDE: o->altitude = arg; return 0;
-    }
-    return sr_cli_take_atmos(&o->atmos, code, arg) ? 0 : 1;
-}
+static const sr_opt OPTS[] = {
+    SR_OPT_STRING("from", "Z0", air_opts, from, "the first altitude of a range (at most 10000 rows)"),
+    SR_OPT_STRING("to", "Z1", air_opts, to, "its last altitude"),
+    SR_OPT_STRING("step", "DZ", air_opts, step, "its step"),
+    SR_OPT_STRING("altitude", "Z[,Z...]", air_opts, altitude, "a list of altitudes"),
+    SR_OPT_GROUP(sr_cli_group_atmos, air_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "atmosphere", NULL};
+
+static int run_air(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_air = {
+    .name = "air",
+    .summary = "atmosphere table (standard, offset, site, sounding)",
+    .usage = "usage: sinkrate air [--from Z0 --to Z1 --step DZ | --altitude Z,...] [atmosphere options]\n",
+    .about = "The atmosphere at each altitude above sea level (geometric): temperature, pressure, density and its "
+             "ratio to sea level, speed of sound, dynamic and kinematic viscosity, gravity. Default: 0 to 11 km "
+             "every 1 km (from the site elevation with a site model). The 1976 standard covers -1 km to 86 km; a "
+             "sounding covers its own rows and is never extrapolated.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_air,
+};
 
 #define MAX_ROWS 10000
 
-int sr_cmd_air(sr_cli *c, int argc, char **argv)
+static int run_air(sr_cli *c, int argc, char **argv)
 {
     air_opts o;
     memset(&o, 0, sizeof o);
-    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
+    int rc = sr_cli_parse_options(c, argc, argv, &o, NULL);
     if (rc)
         return rc;
     if (o.altitude && (o.from || o.to || o.step))
@@ -123,6 +117,6 @@ int sr_cmd_air(sr_cli *c, int argc, char **argv)
 out:
     free(z);
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     return rc;
 }

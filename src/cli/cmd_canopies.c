@@ -9,21 +9,35 @@
 #include "cli/common.h"
 #include "physics/provenance.h"
 
-enum { OPT_MODELS = OPT_COMMAND_BASE };
+typedef struct canopies_opts {
+    int models;
+} canopies_opts;
 
-static const struct option OPTS[] = {SR_OPTS_OUTPUT, {"models", no_argument, NULL, OPT_MODELS}, {NULL, 0, NULL, 0}};
+static const sr_opt OPTS[] = {
+    SR_OPT_FLAG("models", canopies_opts, models,
+                "the models behind the numbers that are not catalog values (growth exponents, cluster factors, the "
+                "X1 envelope, ...) with their sources and outside checks"),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
 
-static const char HELP[] =
-    "usage: sinkrate canopies [ID | --models]\n\n"
-    "Without ID: every canopy family of the catalog with its drag-coefficient range\n"
-    "(on nominal area), diameter ratios, opening-load factor, filling constant, Mach\n"
-    "limit of its usual application, and how many of its values a source outside the\n"
-    "project has checked. With ID: one family, every value with its source and its\n"
-    "outside check (none yet, or what checked it) and the publication that would\n"
-    "check it. docs/validation.md lists the same.\n\n"
-    "  --models                 the models behind the numbers that are not catalog values\n"
-    "                           (growth exponents, cluster factors, the X1 envelope, ...)\n"
-    "                           with their sources and outside checks\n\n";
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "families", NULL};
+
+static int run_canopies(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_canopies = {
+    .name = "canopies",
+    .summary = "list the canopy catalog, or show one family with its sources",
+    .usage = "usage: sinkrate canopies [ID | --models]\n",
+    .about = "Without ID: every canopy family of the catalog with its drag-coefficient range (on nominal area), "
+             "diameter ratios, opening-load factor, filling constant, Mach limit of its usual application, and how "
+             "many of its values a source outside the project has checked. With ID: one family, every value with "
+             "its source and its outside check (none yet, or what checked it) and the publication that would check "
+             "it. docs/validation.md lists the same.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_canopies,
+};
 
 #define DEG (180.0 / 3.14159265358979323846)
 
@@ -207,20 +221,11 @@ static sr_report *models_report(void)
     return r;
 }
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
+static int run_canopies(sr_cli *c, int argc, char **argv)
 {
-    (void)c;
-    (void)arg;
-    if (code != OPT_MODELS)
-        return 1;
-    *(int *)ud = 1;
-    return 0;
-}
-
-int sr_cmd_canopies(sr_cli *c, int argc, char **argv)
-{
-    int first, models = 0;
-    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &models, HELP, &first);
+    canopies_opts o = {0};
+    int first, rc = sr_cli_parse_options(c, argc, argv, &o, &first);
+    int models = o.models;
     if (rc)
         return rc;
     if (argc - first > 1)

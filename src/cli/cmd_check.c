@@ -18,23 +18,38 @@
 #include "physics/atmos.h"
 #include "physics/bluff.h"
 #include "physics/wind.h"
+#include "files/sounding.h"
+#include "files/windtable.h"
+#include "files/dragtable.h"
 
-static const struct option OPTS[] = {SR_OPTS_OUTPUT, {NULL, 0, NULL, 0}};
+typedef struct check_opts {
+    int unused; /* check takes the output options only */
+} check_opts;
 
-static const char HELP[] =
-    "usage: sinkrate check FILE...\n\n"
-    "Validate the files sinkrate reads: canopy families (YAML, top-level 'id'),\n"
-    "canopy files (top-level 'canopy') and mission files (top-level 'mission'), and\n"
-    "the CSV tables (*.csv) told apart by their columns: a sounding (altitude,\n"
-    "temperature, pressure), a wind table (height or altitude, speed, from), a drag\n"
-    "table (Re, Cd) or a flight log (time and height, altitude or pressure). Every\n"
-    "file is checked and every problem of a file is listed with its file:line:column\n"
-    "(a YAML file is read on after a problem wherever its structure allows; a tab\n"
-    "in YAML is named as such). A mission with a start block and every stage sized\n"
-    "is also flown as `sinkrate profile` flies it (every band end, every opening\n"
-    "load), so a file that profile would reject (a descent that cannot be\n"
-    "integrated, a supersonic deployment) is rejected here too. Exit 0 when all are\n"
-    "valid, 2 otherwise.\n\n";
+static const sr_opt OPTS[] = {SR_OPT_CLI_GROUP(sr_cli_group_output), SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "files", NULL};
+
+static int run_check(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_check = {
+    .name = "check",
+    .summary = "validate canopy, canopy-family and mission files",
+    .usage = "usage: sinkrate check FILE...\n",
+    .about = "Validate the files sinkrate reads: canopy families (YAML, top-level 'id'), canopy files (top-level "
+             "'canopy') and mission files (top-level 'mission'), and the CSV tables (*.csv) told apart by their "
+             "columns: a sounding (altitude, temperature, pressure), a wind table (height or altitude, speed, from), "
+             "a drag table (Re, Cd) or a flight log (time and height, altitude or pressure). Every file is checked "
+             "and every problem of a file is listed with its file:line:column (a YAML file is read on after a "
+             "problem wherever its structure allows; a tab in YAML is named as such). A mission with a start block "
+             "and every stage sized is also flown as `sinkrate profile` flies it (every band end, every opening "
+             "load), so a file that profile would reject (a descent that cannot be integrated, a supersonic "
+             "deployment) is rejected here too. Exit 0 when all are valid, 2 otherwise.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_check,
+};
 
 static int check_yaml(const sr_catalog *cat, const char *path, sr_yaml_errors *list, char *kind, size_t klen,
                       char *what, size_t wlen, sr_input_warnings *iw, sr_unit_system sys, sr_error *e)
@@ -75,7 +90,7 @@ static int check_yaml(const sr_catalog *cat, const char *path, sr_yaml_errors *l
                      m->has_start && sized ? ", its descent flies" : "");
             sr_input_warnings_mission(iw, m, NULL, sys);
         }
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     } else if (sr_yaml_get(&y, root, "canopy")) {
         snprintf(kind, klen, "canopy");
@@ -147,29 +162,20 @@ static int has_name(char names[][32], size_t n, const char *name)
     return 0;
 }
 
-/* Line and column of a kept problem "path:L:C: ..." (0 when it has none). */
-static void position(const char *msg, size_t plen, long *line, long *col)
+/* The kept problems of a file in the order of the file, by their places
+ * (insertion sort: a handful). */
+static void sort_problems(sr_yaml_errors *l)
 {
-    *line = *col = 0;
-    if (sscanf(msg + plen, ":%ld:%ld:", line, col) != 2)
-        *line = *col = 0;
-}
-
-/* The kept problems of a file in the order of the file (insertion sort: a handful). */
-static void sort_problems(sr_yaml_errors *l, const char *path)
-{
-    size_t plen = strlen(path);
     for (size_t i = 1; i < l->n; i++)
         for (size_t j = i; j > 0; j--) {
-            long a1, a2, b1, b2;
-            position(l->msg[j - 1], plen, &a1, &a2);
-            position(l->msg[j], plen, &b1, &b2);
+            int a1 = l->line[j - 1], a2 = l->column[j - 1], b1 = l->line[j], b2 = l->column[j];
             if (a1 < b1 || (a1 == b1 && a2 <= b2))
                 break;
             char tmp[SR_ERROR_MSG_MAX];
             memcpy(tmp, l->msg[j], sizeof tmp);
             memcpy(l->msg[j], l->msg[j - 1], sizeof tmp);
             memcpy(l->msg[j - 1], tmp, sizeof tmp);
+            l->line[j - 1] = b1, l->column[j - 1] = b2, l->line[j] = a1, l->column[j] = a2;
         }
 }
 
@@ -194,23 +200,23 @@ static int check_csv(const char *path, char *kind, size_t klen, char *what, size
     } else if (has_name(names, n, "temperature")) {
         snprintf(kind, klen, "sounding");
         sr_atmos a;
-        if ((rc = sr_atmos_load_sounding(&a, path, e)))
+        if ((rc = sr_sounding_load(&a, path, e)))
             return rc;
         double lo, hi;
         sr_atmos_range(&a, &lo, &hi);
         snprintf(what, wlen, "%.0f .. %.0f m", lo, hi);
-        sr_atmos_free(&a);
+        sr_atmos_release(&a);
     } else if (has_name(names, n, "speed") || has_name(names, n, "from")) {
         snprintf(kind, klen, "wind table");
         sr_wind w;
-        if ((rc = sr_wind_load_table(&w, path, 0.0, e)))
+        if ((rc = sr_windtable_load(&w, path, 0.0, e)))
             return rc;
         snprintf(what, wlen, "%zu rows", w.n);
-        sr_wind_free(&w);
+        sr_wind_release(&w);
     } else if (has_name(names, n, "re") || has_name(names, n, "cd")) {
         snprintf(kind, klen, "drag table");
         sr_bluff_curve cv;
-        if ((rc = sr_bluff_curve_load(&cv, path, SR_BLUFF_LOGLOG, e)))
+        if ((rc = sr_dragtable_load(&cv, path, SR_BLUFF_LOGLOG, e)))
             return rc;
         snprintf(what, wlen, "Cd over Re");
         sr_bluff_curve_free(&cv);
@@ -225,9 +231,10 @@ static int check_csv(const char *path, char *kind, size_t klen, char *what, size
     return SR_OK;
 }
 
-int sr_cmd_check(sr_cli *c, int argc, char **argv)
+static int run_check(sr_cli *c, int argc, char **argv)
 {
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, NULL, NULL, HELP, &first);
+    check_opts o = {0};
+    int first, rc = sr_cli_parse_options(c, argc, argv, &o, &first);
     if (rc)
         return rc;
     if (first >= argc)
@@ -278,9 +285,11 @@ int sr_cmd_check(sr_cli *c, int argc, char **argv)
         }
         bad++;
         /* every problem the readers kept, one row and one line each, in the order of the file */
-        if (list->n == 0)
+        if (list->n == 0) {
+            list->line[0] = list->column[0] = 0;
             snprintf(list->msg[list->n++], sizeof list->msg[0], "%s", e.msg);
-        sort_problems(list, argv[i]);
+        }
+        sort_problems(list);
         for (size_t k = 0; k < list->n; k++) {
             char res[SR_ERROR_MSG_MAX + 16];
             snprintf(res, sizeof res, "INVALID: %s", list->msg[k]);

@@ -24,83 +24,6 @@
 #define DEFAULT_MAX_RISK 0.01 /* as dispersion's default: our choice, stated in --help */
 #define MAX_REPEAT 24
 
-enum {
-    OPT_FAMILIES = OPT_COMMAND_BASE, OPT_DIAMETERS, OPT_HEIGHTS, OPT_COUNTS, OPT_OPTIONAL, OPT_BAY, OPT_OBJECTIVE,
-    OPT_PACKING, OPT_GRID, OPT_PARETO, OPT_TOP, OPT_WRITE, OPT_LIMITS_AT, OPT_RISK_SAMPLES, OPT_RISK_DESIGNS,
-    OPT_MAX_RISK
-};
-
-static const struct option OPTS[] = {
-    {"families", required_argument, NULL, OPT_FAMILIES},
-    {"diameters", required_argument, NULL, OPT_DIAMETERS},
-    {"heights", required_argument, NULL, OPT_HEIGHTS},
-    {"counts", required_argument, NULL, OPT_COUNTS},
-    {"optional", required_argument, NULL, OPT_OPTIONAL},
-    {"bay", required_argument, NULL, OPT_BAY},
-    {"objective", required_argument, NULL, OPT_OBJECTIVE},
-    {"packing", required_argument, NULL, OPT_PACKING},
-    {"grid", required_argument, NULL, OPT_GRID},
-    {"pareto", required_argument, NULL, OPT_PARETO},
-    {"top", required_argument, NULL, OPT_TOP},
-    {"write", required_argument, NULL, OPT_WRITE},
-    {"limits-at", required_argument, NULL, OPT_LIMITS_AT},
-    {"risk-samples", required_argument, NULL, OPT_RISK_SAMPLES},
-    {"risk-designs", required_argument, NULL, OPT_RISK_DESIGNS},
-    {"max-risk", required_argument, NULL, OPT_MAX_RISK},
-    {"threads", required_argument, NULL, OPT_THREADS},
-    {"seed", required_argument, NULL, OPT_SEED},
-    SR_OPTS_PLOT,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const int REPEATABLE[] = {OPT_FAMILIES, OPT_DIAMETERS, OPT_HEIGHTS, OPT_COUNTS, OPT_OPTIONAL, OPT_BAY, 0};
-
-static const char HELP[] =
-    "usage: sinkrate design FILE [options]\n\n"
-    "Search the recovery designs of a mission file -- canopy families, sizes, cluster counts,\n"
-    "deployment heights, stages kept -- for those that meet every limit of the file at the\n"
-    "band end (the judge of `sinkrate profile`: touchdown speed, landing energy, descent\n"
-    "time, drift, deployment pressure, the family's Mach envelope, opening load against\n"
-    "rated strength / design factor) and whose packed canopies fit their bays. What may\n"
-    "vary comes from the file's design: block (docs/files.md) and the options below; with\n"
-    "neither, each stage's size is searched from half to twice its nominal diameter.\n"
-    "The last stage's size is exact for the touchdown limits (the sizing inversion, then\n"
-    "bisection to 0.01 %); other sizes and the deployment heights come from a grid refined\n"
-    "three times around the best. Candidates are judged on the fast path; the best design of\n"
-    "each combination is then written as a mission file, read back and judged with the full\n"
-    "integration exactly as `sinkrate profile` judges it: the numbers shown are those.\n"
-    "Shows the best design of each combination, lightest first (or --objective), its margin\n"
-    "to every limit, the closest miss of every combination that meets none, and a Pareto\n"
-    "front. Exit 1 when no design meets every limit (the closest miss is named).\n"
-    "Stage options take STAGE=VALUE and may be given once per stage:\n\n"
-    "  --families STAGE=LIST    candidate families: ids (cross,conical), all, class:solid\n"
-    "  --diameters STAGE=SIZES  nominal diameters: 0.3m..1.2m (continuous), 12in..48in/6in\n"
-    "                           (every 6 in), or a list 12in,18in,24in (sizes you can obtain)\n"
-    "  --heights STAGE=RANGE    deployment heights of a height-triggered stage: 150m..450m\n"
-    "                           (points from the design: block, default 20), 150m..450m/25\n"
-    "  --counts STAGE=LIST      cluster counts: 1,2,3\n"
-    "  --optional STAGE         the stage may be dropped (single against dual deployment)\n"
-    "  --bay STAGE=VOLUME       the bay the packed stage must fit (\"0.8 L\", \"50 in3\")\n"
-    "  --objective mass|volume|drift\n"
-    "                           rank by recovery mass (default), packed volume or drift\n"
-    "  --packing hand|machine|pressure\n"
-    "                           how the canopies are packed (default hand: the loosest pack)\n"
-    "  --grid N                 grid points over a size range that is not the last stage's\n"
-    "                           (default 9)\n"
-    "  --pareto X,Y             the two quantities of the Pareto front, each one of speed,\n"
-    "                           drift, mass, volume, time (default speed,drift)\n"
-    "  --top N                  designs (with their margins) and misses shown (default 5)\n"
-    "  --write FILE             the chosen design as a mission file (profile passes it)\n"
-    SR_HELP_LIMITS_AT
-    "  --risk-samples N         run the mission's dispersion (N samples) on the best designs\n"
-    "                           and drop those breaking a limit in more than --max-risk\n"
-    "  --risk-designs K         how many of the best designs (default 3)\n"
-    "  --max-risk P             accepted share of samples breaking a limit (\"1 %\", default\n"
-    "                           1 %, our choice, not a rule)\n"
-    "  --seed N                 seed of the risk check's random streams (default 1)\n"
-    "  --threads N              threads (default 0: all cores); the output is the same bytes\n"
-    "                           at any count\n\n";
-
 typedef struct stage_arg {
     const char *v[MAX_REPEAT];
     size_t n;
@@ -110,41 +33,88 @@ typedef struct design_opts {
     stage_arg families, diameters, heights, counts, optional, bay;
     const char *objective, *packing, *grid, *pareto, *top, *write, *limits_at, *risk_samples, *risk_designs,
         *max_risk;
-    int overflow;
 } design_opts;
 
-static void push(design_opts *o, stage_arg *a, const char *v)
+/* A stage option given once per stage: each value kept in order. */
+static int keep_stage(sr_cli *c, const sr_opt *opt, const char *arg, void *place)
 {
-    if (a->n < MAX_REPEAT)
-        a->v[a->n++] = v;
-    else
-        o->overflow = 1;
+    stage_arg *a = place;
+    if (a->n >= MAX_REPEAT)
+        return sr_cli_fail(c, "--%s: given more than %d times", opt->name, MAX_REPEAT);
+    a->v[a->n++] = arg;
+    return 0;
 }
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    (void)c;
-    design_opts *o = ud;
-    switch (code) {
-    case OPT_FAMILIES: push(o, &o->families, arg); return 0;
-    case OPT_DIAMETERS: push(o, &o->diameters, arg); return 0;
-    case OPT_HEIGHTS: push(o, &o->heights, arg); return 0;
-    case OPT_COUNTS: push(o, &o->counts, arg); return 0;
-    case OPT_OPTIONAL: push(o, &o->optional, arg); return 0;
-    case OPT_BAY: push(o, &o->bay, arg); return 0;
-    case OPT_OBJECTIVE: o->objective = arg; return 0;
-    case OPT_PACKING: o->packing = arg; return 0;
-    case OPT_GRID: o->grid = arg; return 0;
-    case OPT_PARETO: o->pareto = arg; return 0;
-    case OPT_TOP: o->top = arg; return 0;
-    case OPT_WRITE: o->write = arg; return 0;
-    case OPT_LIMITS_AT: o->limits_at = arg; return 0;
-    case OPT_RISK_SAMPLES: o->risk_samples = arg; return 0;
-    case OPT_RISK_DESIGNS: o->risk_designs = arg; return 0;
-    case OPT_MAX_RISK: o->max_risk = arg; return 0;
-    }
-    return 1;
-}
+static const sr_opt OPTS[] = {
+    SR_OPT_TEXT("Stage options take STAGE=VALUE and may be given once per stage:"),
+    SR_OPT_REPEATED("families", "STAGE=LIST", design_opts, families, keep_stage,
+                    "candidate families: ids (cross,conical), all, class:solid"),
+    SR_OPT_REPEATED("diameters", "STAGE=SIZES", design_opts, diameters, keep_stage,
+                    "nominal diameters: 0.3m..1.2m (continuous), 12in..48in/6in (every 6 in), or a list "
+                    "12in,18in,24in (sizes you can obtain)"),
+    SR_OPT_REPEATED("heights", "STAGE=RANGE", design_opts, heights, keep_stage,
+                    "deployment heights of a height-triggered stage: 150m..450m (points from the design: block, "
+                    "default 20), 150m..450m/25"),
+    SR_OPT_REPEATED("counts", "STAGE=LIST", design_opts, counts, keep_stage, "cluster counts: 1,2,3"),
+    SR_OPT_REPEATED("optional", "STAGE", design_opts, optional, keep_stage,
+                    "the stage may be dropped (single against dual deployment)"),
+    SR_OPT_REPEATED("bay", "STAGE=VOLUME", design_opts, bay, keep_stage,
+                    "the bay the packed stage must fit (\"0.8 L\", \"50 in3\")"),
+    SR_OPT_STRING("objective", "mass|volume|drift", design_opts, objective,
+                  "rank by recovery mass (default), packed volume or drift"),
+    SR_OPT_STRING("packing", "hand|machine|pressure", design_opts, packing,
+                  "how the canopies are packed (default hand: the loosest pack)"),
+    SR_OPT_STRING("grid", "N", design_opts, grid,
+                  "grid points over a size range that is not the last stage's (default 9)"),
+    SR_OPT_STRING("pareto", "X,Y", design_opts, pareto,
+                  "the two quantities of the Pareto front, each one of speed, drift, mass, volume, time (default "
+                  "speed,drift)"),
+    SR_OPT_STRING("top", "N", design_opts, top, "designs (with their margins) and misses shown (default 5)"),
+    SR_OPT_STRING("write", "FILE", design_opts, write, "the chosen design as a mission file (profile passes it)"),
+    SR_OPT_LIMITS_AT(design_opts, limits_at),
+    SR_OPT_STRING("risk-samples", "N", design_opts, risk_samples,
+                  "run the mission's dispersion (N samples) on the best designs and drop those breaking a limit in "
+                  "more than --max-risk"),
+    SR_OPT_STRING("risk-designs", "K", design_opts, risk_designs, "how many of the best designs (default 3)"),
+    SR_OPT_STRING("max-risk", "P", design_opts, max_risk,
+                  "accepted share of samples breaking a limit (\"1 %\", default 1 %, our choice, not a rule)"),
+    SR_OPT_CLI_GROUP(sr_cli_group_run),
+    SR_OPT_FOR("seed", "N", "seed of the risk check's random streams (default 1)"),
+    SR_OPT_FOR("threads", "N", "threads (default 0: all cores); the output is the same bytes at any count"),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "designs", "margins", "limits", "packing",
+                                     "misses", "pareto",  "risk",    NULL};
+
+static int run_design(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_design = {
+    .name = "design",
+    .summary = "search the lightest design of a mission that meets every limit at the band end",
+    .usage = "usage: sinkrate design FILE [options]\n",
+    .about = "Search the recovery designs of a mission file -- canopy families, sizes, cluster counts, deployment "
+             "heights, stages kept -- for those that meet every limit of the file at the band end (the judge of "
+             "`sinkrate profile`: touchdown speed, landing energy, descent time, drift, deployment pressure, the "
+             "family's Mach envelope, opening load against rated strength / design factor) and whose packed "
+             "canopies fit their bays. What may vary comes from the file's design: block (docs/files.md) and the "
+             "options below; with neither, each stage's size is searched from half to twice its nominal diameter.\n"
+             "\n"
+             "The last stage's size is exact for the touchdown limits (the sizing inversion, then bisection to "
+             "0.01 %); other sizes and the deployment heights come from a grid refined three times around the best. "
+             "Candidates are judged on the fast path; the best design of each combination is then written as a "
+             "mission file, read back and judged with the full integration exactly as `sinkrate profile` judges "
+             "it: the numbers shown are those.\n"
+             "\n"
+             "Shows the best design of each combination, lightest first (or --objective), its margin to every "
+             "limit, the closest miss of every combination that meets none, and a Pareto front. Exit 1 when no "
+             "design meets every limit (the closest miss is named).",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_design,
+};
 
 /* ---- options that name a stage ---- */
 
@@ -217,9 +187,9 @@ static int apply_options(sr_cli *c, const design_opts *o, sr_mission *m, const s
     size_t k = 0;
     const char *v = NULL;
     unsigned touched = 0;
+    sr_design_basis b;
+    sr_mission_design_basis(m, &b);
     *given = 0;
-    if (o->overflow)
-        return sr_cli_fail(c, "a stage option is given more than %d times", MAX_REPEAT);
     struct {
         const stage_arg *a;
         const char *opt;
@@ -238,10 +208,10 @@ static int apply_options(sr_cli *c, const design_opts *o, sr_mission *m, const s
             *given = 1;
             sr_design_stage *s = &d->stage[k];
             switch (A[a].kind) {
-            case 0: rc = sr_design_set_families(s, m, k, cat, v, A[a].opt, &e); break;
-            case 1: rc = sr_design_set_sizes(s, m, k, v, A[a].opt, &e); break;
-            case 2: rc = sr_design_set_heights(s, m, k, v, A[a].opt, &e); break;
-            case 3: rc = sr_design_set_counts(s, m, k, v, A[a].opt, &e); break;
+            case 0: rc = sr_design_set_families(s, &b, k, cat, v, A[a].opt, &e); break;
+            case 1: rc = sr_design_set_sizes(s, &b, k, v, A[a].opt, &e); break;
+            case 2: rc = sr_design_set_heights(s, &b, k, v, A[a].opt, &e); break;
+            case 3: rc = sr_design_set_counts(s, &b, k, v, A[a].opt, &e); break;
             case 4: s->optional = 1; rc = SR_OK; break;
             default: {
                 double bay;
@@ -257,7 +227,7 @@ static int apply_options(sr_cli *c, const design_opts *o, sr_mission *m, const s
         }
     }
     for (k = 0; k < m->nstages; k++)
-        if (((touched >> k) & 1u) && sr_design_check_stage(&d->stage[k], m, k, &e))
+        if (((touched >> k) & 1u) && sr_design_check_stage(&d->stage[k], &b, k, &e))
             return sr_cli_fail(c, "%s", e.msg);
     if (o->objective) {
         if (sr_design_objective_parse(o->objective, &d->objective))
@@ -752,7 +722,7 @@ static void on_progress(size_t done, size_t n, void *ud)
 {
     sr_progress *bar = ud;
     bar->n = n; /* the search's own estimate of its candidates */
-    sr_progress_update(bar, done);
+    sr_cli_progress_update(bar, done);
 }
 
 static void header_text(const sr_mission *m, char *buf, size_t len)
@@ -777,12 +747,11 @@ static void header_text(const sr_mission *m, char *buf, size_t len)
         snprintf(buf + used, len - used, "\n");
 }
 
-int sr_cmd_design(sr_cli *c, int argc, char **argv)
+static int run_design(sr_cli *c, int argc, char **argv)
 {
     design_opts o;
     memset(&o, 0, sizeof o);
-    c->repeatable = REPEATABLE;
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int first, rc = sr_cli_parse_options(c, argc, argv, &o, &first);
     if (rc)
         return rc;
     if (first >= argc)
@@ -873,12 +842,12 @@ int sr_cmd_design(sr_cli *c, int argc, char **argv)
     dopt.target = o.write;
     dopt.threads = c->threads;
     sr_progress bar;
-    sr_progress_start(&bar, c->err, 1, "grid points");
+    sr_cli_progress_start(&bar, c->err, 1, "grid points");
     dopt.progress = on_progress;
     dopt.progress_ud = &bar;
     /* the bar's total is the search's estimate, set at its first call */
     rc = sr_design_run(m, &y, cat, &dopt, &res, &e);
-    sr_progress_end(&bar);
+    sr_cli_progress_end(&bar);
     if (rc) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
@@ -1081,7 +1050,7 @@ out:
     if (have_doc)
         sr_yaml_free(&y);
     if (m) {
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     }
     free(cat);

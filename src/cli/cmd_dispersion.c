@@ -31,68 +31,56 @@
 /* style colours: bodies take 1, 3, 4, 8; 2 is the limit, 5 nominal, 6 the ellipses and mean, 7 launch */
 static const int BODY_COLOR[4] = {1, 3, 4, 8};
 
-enum { OPT_SAMPLES = OPT_COMMAND_BASE, OPT_FULL, OPT_MAX_RISK, OPT_GEOJSON, OPT_GEOJSON_SAMPLES };
-
-static const struct option OPTS[] = {
-    {"seed", required_argument, NULL, OPT_SEED},
-    {"threads", required_argument, NULL, OPT_THREADS},
-    {"samples", required_argument, NULL, OPT_SAMPLES},
-    {"full", no_argument, NULL, OPT_FULL},
-    {"max-risk", required_argument, NULL, OPT_MAX_RISK},
-    {"geojson", required_argument, NULL, OPT_GEOJSON},
-    {"geojson-samples", required_argument, NULL, OPT_GEOJSON_SAMPLES},
-    SR_OPTS_PLOT,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate dispersion FILE [-n N] [--seed N] [--threads N] [--samples FILE] [options]\n\n"
-    "Monte Carlo landing scatter of a mission file: N descents with the drag, mass, wind and\n"
-    "deployment values drawn from the file's uncertainty: block (without one, each stage's\n"
-    "drag coefficient varies uniformly over its family's range). Reports, for every body that\n"
-    "lands on its own, the mean landing point, the 1-sigma and 3-sigma ellipses, the radii\n"
-    "holding 50 % and 95 % of the landings, percentiles of descent time, touchdown speed and\n"
-    "energy, and the probability of breaking each limit of the mission (judged as `sinkrate\n"
-    "profile` judges it, the Mach envelope at each deployment included) with its Monte\n"
-    "Carlo error. Without an uncertainty: block only the drag varies, and the page says so.\n"
-    "Sample i depends only on (seed, i): the output is the same at any thread count.\n\n"
-    "  -n N                     samples (default 10000, at most 10000000)\n"
-    "  --seed N                 seed of the random streams (default 1)\n"
-    "  --threads N              threads (default 0: all cores)\n"
-    "  --samples FILE           every sample's landing point, touchdown state, limit flags and\n"
-    "                           drawn deviations as CSV (one row per sample and body)\n"
-    "  --full                   integrate every transient by the ODE (slower); the default fast\n"
-    "                           path reuses the nominal transients (see `sinkrate profile`)\n"
-    "  --max-risk P             exit 1 when a limit is broken in more than this share of the\n"
-    "                           samples (\"0.5 %\" or 0.005; default 1 %, our choice, not a rule)\n"
-    "  --geojson FILE           the footprint as a map (GeoJSON, RFC 7946, WGS 84): nominal\n"
-    "                           tracks, nominal and mean landing points, 1- and 3-sigma\n"
-    "                           ellipses, 50 % and 95 % circles, the drift limit; the mission\n"
-    "                           needs site.latitude and site.longitude\n"
-    "  --geojson-samples N      ... and up to N sample landing points (every k-th sample;\n"
-    "                           default 0, at most 20000)\n"
-    "The output does not name the thread count: it is the same bytes for any. The figure\n"
-    "(--plot, below) is 1250x700 unless --plot-size is given.\n\n";
-
 typedef struct disp_opts {
     const char *n, *samples, *risk, *geojson, *geojson_samples;
     int full;
 } disp_opts;
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    (void)c;
-    disp_opts *o = ud;
-    switch (code) {
-    case 'n': o->n = arg; return 0;
-    case OPT_SAMPLES: o->samples = arg; return 0;
-    case OPT_FULL: o->full = 1; return 0;
-    case OPT_MAX_RISK: o->risk = arg; return 0;
-    case OPT_GEOJSON: o->geojson = arg; return 0;
-    case OPT_GEOJSON_SAMPLES: o->geojson_samples = arg; return 0;
-    }
-    return 1;
-}
+static const sr_opt OPTS[] = {
+    SR_OPT_SHORT_STRING('n', NULL, "N", disp_opts, n, "samples (default 10000, at most 10000000)"),
+    SR_OPT_CLI_GROUP(sr_cli_group_run),
+    SR_OPT_STRING("samples", "FILE", disp_opts, samples,
+                  "every sample's landing point, touchdown state, limit flags and drawn deviations as CSV (one row "
+                  "per sample and body)"),
+    SR_OPT_FLAG("full", disp_opts, full,
+                "integrate every transient by the ODE (slower); the default fast path reuses the nominal transients "
+                "(see `sinkrate profile`)"),
+    SR_OPT_STRING("max-risk", "P", disp_opts, risk,
+                  "exit 1 when a limit is broken in more than this share of the samples (\"0.5 %\" or 0.005; default "
+                  "1 %, our choice, not a rule)"),
+    SR_OPT_STRING("geojson", "FILE", disp_opts, geojson,
+                  "the footprint as a map (GeoJSON, RFC 7946, WGS 84): nominal tracks, nominal and mean landing "
+                  "points, 1- and 3-sigma ellipses, 50 % and 95 % circles, the drift limit; the mission needs "
+                  "site.latitude and site.longitude"),
+    SR_OPT_STRING("geojson-samples", "N", disp_opts, geojson_samples,
+                  "... and up to N sample landing points (every k-th sample; default 0, at most 20000)"),
+    SR_OPT_TEXT("The output does not name the thread count: it is the same bytes for any. The figure (--plot, "
+                "below) is 1250x700 unless --plot-size is given."),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "uncertainty", "percentiles", "limits", NULL};
+
+static int run_dispersion(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_dispersion = {
+    .name = "dispersion",
+    .summary = "Monte Carlo landing scatter of a mission file",
+    .usage = "usage: sinkrate dispersion FILE [-n N] [--seed N] [--threads N] [--samples FILE] [options]\n",
+    .about = "Monte Carlo landing scatter of a mission file: N descents with the drag, mass, wind and deployment "
+             "values drawn from the file's uncertainty: block (without one, each stage's drag coefficient varies "
+             "uniformly over its family's range). Reports, for every body that lands on its own, the mean landing "
+             "point, the 1-sigma and 3-sigma ellipses, the radii holding 50 % and 95 % of the landings, percentiles "
+             "of descent time, touchdown speed and energy, and the probability of breaking each limit of the "
+             "mission (judged as `sinkrate profile` judges it, the Mach envelope at each deployment included) with "
+             "its Monte Carlo error. Without an uncertainty: block only the drag varies, and the page says so. "
+             "Sample i depends only on (seed, i): the output is the same at any thread count.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_dispersion,
+};
 
 /* ---- parsing small values ---- */
 
@@ -674,17 +662,14 @@ static int figure(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, con
 static void on_progress(size_t done, size_t n, void *ud)
 {
     (void)n;
-    sr_progress_update(ud, done);
+    sr_cli_progress_update(ud, done);
 }
 
-int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
+static int run_dispersion(sr_cli *c, int argc, char **argv)
 {
     disp_opts o;
     memset(&o, 0, sizeof o);
-    char help[sizeof HELP + 4096];
-    snprintf(help, sizeof help, "%s%s\n%s", HELP, SR_HELP_PLOT, SR_HELP_OUTPUT);
-    c->short_opts = "n:"; /* -n N, the number of samples */
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, help, &first);
+    int first, rc = sr_cli_parse_options(c, argc, argv, &o, &first);
     if (rc)
         return rc;
     if (first >= argc)
@@ -733,7 +718,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail_err(c, &e);
         goto out;
     }
-    if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+    if (o.geojson && (rc = sr_cli_maps_need_position(c, "--geojson", m)))
         goto out;
     if ((rc = sr_cli_mission_inputs(c, m)))
         goto out;
@@ -744,10 +729,10 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     int threads = c->threads > 0 ? c->threads : omp_get_num_procs();
     uint64_t seed = c->seed_set ? (uint64_t)c->seed : 1u;
     sr_progress bar;
-    sr_progress_start(&bar, c->err, n, "samples");
+    sr_cli_progress_start(&bar, c->err, n, "samples");
     sr_disp_options opt = {.n = n, .seed = seed, .threads = threads, .progress = on_progress, .progress_ud = &bar};
     rc = sr_disp_run(&dm.model, &m->unc, &opt, &res, &e);
-    sr_progress_end(&bar);
+    sr_cli_progress_end(&bar);
     if (rc) {
         rc = sr_cli_fail_err(c, &e);
         goto out;
@@ -763,7 +748,7 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
     r = sr_report_new("dispersion", "Monte Carlo landing dispersion");
     sr_report_section(r, "Inputs");
     sr_report_text(r, "mission", "mission", m->name);
-    sr_maps_report_position(r, m);
+    sr_cli_maps_report_position(r, m);
     sr_report_value(r, "samples", "samples", (double)n, SR_Q_NONE, SR_FIXED(0));
     sr_report_value(r, "seed", "seed", (double)seed, SR_Q_NONE, SR_FIXED(0));
     sr_report_text(r, "descent_model", "descent model",
@@ -799,13 +784,13 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
                           "alike).");
     /* the map is built before anything is written */
     if (o.geojson &&
-        (rc = sr_maps_dispersion_geojson(c, m, &dm, &res, st, nom, (size_t)geo_samples, &gbuf, &glen)))
+        (rc = sr_cli_maps_dispersion_geojson(c, m, &dm, &res, st, nom, (size_t)geo_samples, &gbuf, &glen)))
         goto out;
     if ((rc = sr_cli_emit(c, r)))
         goto out;
     if (o.samples && (rc = write_samples(c, o.samples, m, &dm, &res)))
         goto out;
-    if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
+    if (gbuf && (rc = sr_cli_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
     if (c->plot_prefix && (rc = figure(c, m, &dm, &res, st, nom, argc, argv)))
         goto out;
@@ -813,10 +798,10 @@ int sr_cmd_dispersion(sr_cli *c, int argc, char **argv)
 out:
     free(gbuf);
     sr_report_free(r);
-    sr_disp_result_free(&res);
+    sr_disp_result_release(&res);
     sr_disp_mission_free(&dm);
     if (m) {
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     }
     free(st);

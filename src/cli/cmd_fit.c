@@ -22,93 +22,74 @@
 
 #define MAX_LOGS 16
 
-enum {
-    OPT_MISSION = OPT_COMMAND_BASE, OPT_MASS, OPT_STAGE_NAMES, OPT_PRESSURE_ALT, OPT_EVENTS, OPT_DEPLOY_TIMES,
-    OPT_MAX_GAP, OPT_CONFIDENCE, OPT_WRITE_CANOPY, OPT_STAGE, OPT_WRITE_WIND
-};
-
-static const struct option OPTS[] = {
-    {"mission", required_argument, NULL, OPT_MISSION},
-    {"mass", required_argument, NULL, OPT_MASS},
-    {"stage-names", required_argument, NULL, OPT_STAGE_NAMES},
-    {"pressure-altitude", no_argument, NULL, OPT_PRESSURE_ALT},
-    {"events", required_argument, NULL, OPT_EVENTS},
-    {"deploy-times", required_argument, NULL, OPT_DEPLOY_TIMES},
-    {"max-gap", required_argument, NULL, OPT_MAX_GAP},
-    {"confidence", required_argument, NULL, OPT_CONFIDENCE},
-    {"write-canopy", required_argument, NULL, OPT_WRITE_CANOPY},
-    {"stage", required_argument, NULL, OPT_STAGE},
-    {"write-wind", required_argument, NULL, OPT_WRITE_WIND},
-    SR_OPTS_CANOPY,
-    SR_OPTS_ATMOS,
-    SR_OPTS_PLOT,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate fit LOG [LOG...] --mission FILE [options]\n"
-    "       sinkrate fit LOG [LOG...] --mass M [--family ID --nominal-diameter D] [options]\n\n"
-    "The drag area CdS of each canopy from altimeter logs: the segments (apogee, each\n"
-    "deployment, touchdown) from the change points of the descent rate, then per stage a\n"
-    "robust nonlinear least-squares fit of the steady descent to the measured height,\n"
-    "in the site's air, with the mass under that canopy, and a 95 % confidence interval\n"
-    "(Jacobian and residual variance, corrected for correlated residuals). Points more\n"
-    "than 5 robust standard deviations off the fit (spikes, dropouts) are dropped. With a\n"
-    "canopy known, the drag coefficient on nominal area and whether it sits inside the\n"
-    "family's catalog band. Several logs of the same stages are pooled.\n\n"
-    "A log is a CSV table with a header naming each column and its unit: time, and\n"
-    "height (above ground) or altitude (above sea level) or pressure; optional\n"
-    "acceleration (along the vehicle axis), east and north, or latitude and longitude.\n\n"
-    "  --mission FILE           site weather, masses, canopies, stage names and\n"
-    "                           deployment events from a mission file\n"
-    "  --mass M                 without a mission: the mass under every stage\n"
-    "  --stage-names A,B        without a mission: names of the stages (default stage 1, ...)\n"
-    "                           the canopy options describe the LAST stage's canopy\n"
-    "  --pressure-altitude      the height or altitude column is a pressure altitude by the\n"
-    "                           1976 standard (as barometric altimeters log it): convert it\n"
-    "                           back to pressure, then to true height in the site's air\n"
-    "  --events detect|mission  deployments from the descent rate (default) or from the\n"
-    "                           mission's events (apogee, height, delay) on the log\n"
-    "  --deploy-times T,...     the deployment time of each stage in the log's clock\n"
-    "                           ('apogee' for a stage deployed there)\n"
-    "  --max-gap T              longest step between rows taken as a dropout (default\n"
-    "                           the larger of 1 s and 10 steps); a longer one is an error\n"
-    "  --confidence P           confidence level of the intervals (default 95 %)\n"
-    "  --write-canopy FILE      a canopy file of one stage's canopy with the measured drag\n"
-    "                           coefficient, its interval as the band and the source\n"
-    "  --stage NAME             the stage --write-canopy writes (default the last)\n"
-    "  --write-wind FILE        the drift under the canopies by height, as a wind table\n"
-    "                           (needs positions in the log)\n\n"
-    "Exit 1 when a fit does not converge or its interval is unbounded (no number then).\n\n";
-
 typedef struct fit_opts {
-    const char *mission, *mass, *names, *events, *times, *max_gap, *conf, *write_canopy, *stage, *write_wind;
+    const char *names, *events, *times, *max_gap, *conf, *write_canopy, *stage, *write_wind;
     int pressure_alt;
+    sr_payload_opts payload;
     sr_canopy_opts canopy;
     sr_atmos_opts atmos;
 } fit_opts;
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    (void)c;
-    fit_opts *o = ud;
-    switch (code) {
-    case OPT_MISSION: o->mission = arg; return 0;
-    case OPT_MASS: o->mass = arg; return 0;
-    case OPT_STAGE_NAMES: o->names = arg; return 0;
-    case OPT_PRESSURE_ALT: o->pressure_alt = 1; return 0;
-    case OPT_EVENTS: o->events = arg; return 0;
-    case OPT_DEPLOY_TIMES: o->times = arg; return 0;
-    case OPT_MAX_GAP: o->max_gap = arg; return 0;
-    case OPT_CONFIDENCE: o->conf = arg; return 0;
-    case OPT_WRITE_CANOPY: o->write_canopy = arg; return 0;
-    case OPT_STAGE: o->stage = arg; return 0;
-    case OPT_WRITE_WIND: o->write_wind = arg; return 0;
-    }
-    if (sr_cli_take_canopy(&o->canopy, code, arg) || sr_cli_take_atmos(&o->atmos, code, arg))
-        return 0;
-    return 1;
-}
+static const sr_opt OPTS[] = {
+    SR_OPT_GROUP(sr_cli_group_payload, fit_opts, payload),
+    SR_OPT_WITHOUT("altitude"),
+    SR_OPT_WITHOUT("body-drag-area"),
+    SR_OPT_FOR("mission", "FILE", "site weather, masses, canopies, stage names and deployment events from a mission "
+                                  "file"),
+    SR_OPT_FOR("mass", "M", "without a mission: the mass under every stage"),
+    SR_OPT_STRING("stage-names", "A,B", fit_opts, names,
+                  "without a mission: names of the stages (default stage 1, ...); the canopy options describe the "
+                  "LAST stage's canopy"),
+    SR_OPT_FLAG("pressure-altitude", fit_opts, pressure_alt,
+                "the height or altitude column is a pressure altitude by the 1976 standard (as barometric altimeters "
+                "log it): convert it back to pressure, then to true height in the site's air"),
+    SR_OPT_STRING("events", "detect|mission", fit_opts, events,
+                  "deployments from the descent rate (default) or from the mission's events (apogee, height, delay) "
+                  "on the log"),
+    SR_OPT_STRING("deploy-times", "T,...", fit_opts, times,
+                  "the deployment time of each stage in the log's clock ('apogee' for a stage deployed there)"),
+    SR_OPT_STRING("max-gap", "T", fit_opts, max_gap,
+                  "longest step between rows taken as a dropout (default the larger of 1 s and 10 steps); a longer "
+                  "one is an error"),
+    SR_OPT_STRING("confidence", "P", fit_opts, conf, "confidence level of the intervals (default 95 %)"),
+    SR_OPT_STRING("write-canopy", "FILE", fit_opts, write_canopy,
+                  "a canopy file of one stage's canopy with the measured drag coefficient, its interval as the band "
+                  "and the source"),
+    SR_OPT_STRING("stage", "NAME", fit_opts, stage, "the stage --write-canopy writes (default the last)"),
+    SR_OPT_STRING("write-wind", "FILE", fit_opts, write_wind,
+                  "the drift under the canopies by height, as a wind table (needs positions in the log)"),
+    SR_OPT_TEXT("Exit 1 when a fit does not converge or its interval is unbounded (no number then)."),
+    SR_OPT_GROUP(sr_cli_group_canopy, fit_opts, canopy),
+    SR_OPT_GROUP(sr_cli_group_atmos, fit_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "segments", "windows", "drag", "rates", "opening", "wind", "pooled", NULL};
+
+static int run_fit(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_fit = {
+    .name = "fit",
+    .summary = "drag area of each canopy from flight logs, with an interval, into a canopy file",
+    .usage = "usage: sinkrate fit LOG [LOG...] --mission FILE [options]\n"
+             "       sinkrate fit LOG [LOG...] --mass M [--family ID --nominal-diameter D] [options]\n",
+    .about = "The drag area CdS of each canopy from altimeter logs: the segments (apogee, each deployment, "
+             "touchdown) from the change points of the descent rate, then per stage a robust nonlinear least-squares "
+             "fit of the steady descent to the measured height, in the site's air, with the mass under that canopy, "
+             "and a 95 % confidence interval (Jacobian and residual variance, corrected for correlated residuals). "
+             "Points more than 5 robust standard deviations off the fit (spikes, dropouts) are dropped. With a "
+             "canopy known, the drag coefficient on nominal area and whether it sits inside the family's catalog "
+             "band. Several logs of the same stages are pooled.\n"
+             "\n"
+             "A log is a CSV table with a header naming each column and its unit: time, and height (above ground) "
+             "or altitude (above sea level) or pressure; optional acceleration (along the vehicle axis), east and "
+             "north, or latitude and longitude.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_fit,
+};
 
 /* a name list "a,b" into names (strdup'ed into store) */
 static int split_names(sr_cli *c, const char *text, char store[][SR_NAME_MAX], size_t max, size_t *n)
@@ -485,12 +466,12 @@ static void opening_report(sr_report *r, sr_fit_result **res, size_t nlogs, cons
                       "jump, force as t^n); load factor = peak force / (canopy CdS x q at deployment).");
 }
 
-int sr_cmd_fit(sr_cli *c, int argc, char **argv)
+static int run_fit(sr_cli *c, int argc, char **argv)
 {
     fit_opts o;
     memset(&o, 0, sizeof o);
     int first = 0;
-    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int rc = sr_cli_parse_options(c, argc, argv, &o, &first);
     if (rc)
         return rc;
     size_t nlogs = (size_t)(argc - first);
@@ -524,7 +505,7 @@ int sr_cmd_fit(sr_cli *c, int argc, char **argv)
         goto out;
     }
     sr_fit_setup_init(s);
-    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.payload.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
     s->atmos = &atm;
     s->ground = (mis || sr_cli_atmos_given(&o.atmos)) ? ground : NAN;
@@ -568,10 +549,10 @@ int sr_cmd_fit(sr_cli *c, int argc, char **argv)
         s->events = SR_FIT_EVENTS_TIMES;
     }
     if (mis) {
-        if (o.mass || o.names || sr_cli_canopy_given(&o.canopy)) {
+        if (o.payload.mass || o.names || sr_cli_canopy_given(&o.canopy)) {
             rc = sr_cli_fail(c, "%s: the mission gives the masses, stage names and canopies; leave it out with "
                                 "--mission",
-                             o.mass ? "--mass" : o.names ? "--stage-names" : "--family");
+                             o.payload.mass ? "--mass" : o.names ? "--stage-names" : "--family");
             goto out;
         }
         if (sr_fit_stages_from_mission(mis, s, &e)) {
@@ -594,7 +575,7 @@ int sr_cmd_fit(sr_cli *c, int argc, char **argv)
         }
     } else {
         double mass = NAN;
-        if ((rc = sr_cli_mass(c, o.mass, "the mass under the canopies", &mass)))
+        if ((rc = sr_cli_mass(c, o.payload.mass, "the mass under the canopies", &mass)))
             goto out;
         s->mass = mass;
         if (o.names) {
@@ -823,8 +804,8 @@ int sr_cmd_fit(sr_cli *c, int argc, char **argv)
     }
     if ((rc = sr_cli_emit(c, r)))
         goto out;
-    if (c->plot_prefix && !(rc = sr_fit_plots(c, res, nlogs, setups, argc, argv)))
-        rc = sr_fit_plot_opening(c, res, setups, logs[0].acc, argc, argv);
+    if (c->plot_prefix && !(rc = sr_cli_fit_plots(c, res, nlogs, setups, argc, argv)))
+        rc = sr_cli_fit_plot_opening(c, res, setups, logs[0].acc, argc, argv);
 out:
     sr_report_free(r);
     for (size_t l = 0; l < nfitted + 1 && res && l < nlogs; l++)
@@ -840,7 +821,7 @@ out:
     free(s);
     free(last);
     free(names);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     free(cat);
     return rc;

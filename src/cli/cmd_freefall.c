@@ -11,69 +11,7 @@
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "analysis/input_warnings.h"
-
-enum {
-    OPT_BODY = OPT_COMMAND_BASE,
-    OPT_DIAMETER,
-    OPT_LENGTH,
-    OPT_MASS,
-    OPT_CD_TABLE,
-    OPT_INTERP,
-    OPT_AREA,
-    OPT_CURVE,
-    OPT_TRACE,
-    OPT_START_CD,
-    OPT_STEPS,
-    OPT_ALTITUDE
-};
-
-static const struct option OPTS[] = {
-    {"body", required_argument, NULL, OPT_BODY},
-    {"diameter", required_argument, NULL, OPT_DIAMETER},
-    {"length", required_argument, NULL, OPT_LENGTH},
-    {"mass", required_argument, NULL, OPT_MASS},
-    {"cd-table", required_argument, NULL, OPT_CD_TABLE},
-    {"interp", required_argument, NULL, OPT_INTERP},
-    {"area", required_argument, NULL, OPT_AREA},
-    {"curve", required_argument, NULL, OPT_CURVE},
-    {"trace", no_argument, NULL, OPT_TRACE},
-    {"start-cd", required_argument, NULL, OPT_START_CD},
-    {"steps", required_argument, NULL, OPT_STEPS},
-    {"altitude", required_argument, NULL, OPT_ALTITUDE},
-    SR_OPTS_PLOT,
-    SR_OPTS_ATMOS,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate freefall --body sphere|cylinder|disk --diameter D --mass M [--length L] [options]\n"
-    "       sinkrate freefall --cd-table FILE --diameter D --mass M [--area A] [options]\n\n"
-    "Free-fall speed of a body without a canopy whose drag coefficient depends on the\n"
-    "Reynolds number. Every speed where drag equals weight is found (near the drag crisis\n"
-    "there can be two stable ones), each with its Reynolds number, drag coefficient and\n"
-    "stability; --trace also shows the classical fixed-point iteration step by step.\n\n"
-    "  --body B                 sphere (default), cylinder (broadside, finite length),\n"
-    "                           disk (thin, normal to the flow) or table\n"
-    "  --diameter D             diameter; the length in the Reynolds number\n"
-    "  --length L               cylinder length (its drag is on the projected area D x L)\n"
-    "  --mass M                 mass of the falling body\n"
-    "  --curve NAME             drag curve: sphere-cgw (default), sphere-morrison,\n"
-    "                           sphere-brown-lawler, sphere-white, sphere-schiller-naumann,\n"
-    "                           cylinder (default), cylinder-wieselsberger, cylinder-dnv,\n"
-    "                           cylinder-sucker-brauer, disk\n"
-    "  --cd-table FILE          drag table, Re increasing: CSV with the columns Re and Cd,\n"
-    "                           or YAML (.yaml) with points: [[Re, Cd], ...] and optional\n"
-    "                           name, source and reference-area (\"0.02 m2\")\n"
-    "  --interp loglog|steffen  table interpolation: straight in log-log (default) or\n"
-    "                           monotone cubic (Steffen)\n"
-    "  --area A                 the table's reference area (default: the file's, else pi D^2/4)\n"
-    "  --altitude Z[,Z...]      altitudes above sea level, or FROM:TO:STEP\n"
-    "                           (default: the site elevation, or 0)\n"
-    "  --trace                  show the fixed-point iteration at each altitude\n"
-    "  --start-cd CD            its starting drag coefficient (default 1)\n"
-    "  --steps N                its step limit (default 50, at most 200)\n\n"
-    "The figure (with --plot): the drag curve Cd(Re) with the weight lines and every\n"
-    "equilibrium on it and, with several altitudes, the equilibrium speeds over altitude.\n\n";
+#include "files/dragtable.h"
 
 typedef struct ff_opts {
     const char *body, *diameter, *length, *mass, *cd_table, *interp, *area, *curve, *start_cd, *steps, *altitude;
@@ -81,26 +19,62 @@ typedef struct ff_opts {
     sr_atmos_opts atmos;
 } ff_opts;
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
+static const sr_opt OPTS[] = {
+    SR_OPT_STRING("body", "B", ff_opts, body,
+                  "sphere (default), cylinder (broadside, finite length), disk (thin, normal to the flow) or table"),
+    SR_OPT_STRING("diameter", "D", ff_opts, diameter, "diameter; the length in the Reynolds number"),
+    SR_OPT_STRING("length", "L", ff_opts, length, "cylinder length (its drag is on the projected area D x L)"),
+    SR_OPT_STRING("mass", "M", ff_opts, mass, "mass of the falling body"),
+    SR_OPT_STRING("curve", "NAME", ff_opts, curve,
+                  "drag curve: sphere-cgw (default), sphere-morrison, sphere-brown-lawler, sphere-white, "
+                  "sphere-schiller-naumann, cylinder (default), cylinder-wieselsberger, cylinder-dnv, "
+                  "cylinder-sucker-brauer, disk"),
+    SR_OPT_STRING("cd-table", "FILE", ff_opts, cd_table,
+                  "drag table, Re increasing: CSV with the columns Re and Cd, or YAML (.yaml) with points: [[Re, "
+                  "Cd], ...] and optional name, source and reference-area (\"0.02 m2\")"),
+    SR_OPT_STRING("interp", "loglog|steffen", ff_opts, interp,
+                  "table interpolation: straight in log-log (default) or monotone cubic (Steffen)"),
+    SR_OPT_STRING("area", "A", ff_opts, area, "the table's reference area (default: the file's, else pi D^2/4)"),
+    SR_OPT_STRING("altitude", "Z[,Z...]", ff_opts, altitude,
+                  "altitudes above sea level, or FROM:TO:STEP (default: the site elevation, or 0)"),
+    SR_OPT_FLAG("trace", ff_opts, trace, "show the fixed-point iteration at each altitude"),
+    SR_OPT_STRING("start-cd", "CD", ff_opts, start_cd, "its starting drag coefficient (default 1)"),
+    SR_OPT_STRING("steps", "N", ff_opts, steps, "its step limit (default 50, at most 200)"),
+    SR_OPT_TEXT("The figure (with --plot): the drag curve Cd(Re) with the weight lines and every equilibrium on it "
+                "and, with several altitudes, the equilibrium speeds over altitude."),
+    SR_OPT_GROUP(sr_cli_group_atmos, ff_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "equilibria", "trace_N", NULL};
+
+static int run_freefall(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_freefall = {
+    .name = "freefall",
+    .summary = "free-fall speed of a body with Reynolds-dependent drag",
+    .usage = "usage: sinkrate freefall --body sphere|cylinder|disk --diameter D --mass M [--length L] [options]\n"
+             "       sinkrate freefall --cd-table FILE --diameter D --mass M [--area A] [options]\n",
+    .about = "Free-fall speed of a body without a canopy whose drag coefficient depends on the Reynolds number. "
+             "Every speed where drag equals weight is found (near the drag crisis there can be two stable ones), "
+             "each with its Reynolds number, drag coefficient and stability; --trace also shows the classical "
+             "fixed-point iteration step by step.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_freefall,
+};
+
+/* The option a refusal of the body model is about (its error key). */
+static const char *option_of(const char *key)
 {
-    ff_opts *o = ud;
-    switch (code) {
-    case OPT_BODY: o->body = arg; return 0;
-    case OPT_DIAMETER: o->diameter = arg; return 0;
-    case OPT_LENGTH: o->length = arg; return 0;
-    case OPT_MASS: o->mass = arg; return 0;
-    case OPT_CD_TABLE: o->cd_table = arg; return 0;
-    case OPT_INTERP: o->interp = arg; return 0;
-    case OPT_AREA: o->area = arg; return 0;
-    case OPT_CURVE: o->curve = arg; return 0;
-    case OPT_TRACE: o->trace = 1; return 0;
-    case OPT_START_CD: o->start_cd = arg; return 0;
-    case OPT_STEPS: o->steps = arg; return 0;
-    case OPT_ALTITUDE: o->altitude = arg; return 0;
-    }
-    if (sr_cli_take_atmos(&o->atmos, code, arg))
-        return 0;
-    return 1;
+    static const char *const MAP[][2] = {
+        {"curve", "--curve"}, {"diameter", "--diameter"}, {"length", "--length"}, {"mass", "--mass"}, {"area", "--area"}};
+    for (size_t i = 0; i < sizeof MAP / sizeof MAP[0]; i++)
+        if (strcmp(key, MAP[i][0]) == 0)
+            return MAP[i][1];
+    return "--body";
 }
 
 #define MAX_ALT 256
@@ -421,11 +395,11 @@ static void report_trace(sr_report *r, sr_cli *c, size_t idx, const ff_result *r
     }
 }
 
-int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
+static int run_freefall(sr_cli *c, int argc, char **argv)
 {
     ff_opts o;
     memset(&o, 0, sizeof o);
-    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
+    int rc = sr_cli_parse_options(c, argc, argv, &o, NULL);
     if (rc)
         return rc;
 
@@ -486,7 +460,7 @@ int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
     sr_bluff_curve curve;
     memset(&curve, 0, sizeof curve);
     if (shape == SR_BLUFF_TABLE) {
-        if (sr_bluff_curve_load(&curve, o.cd_table, kind, &e))
+        if (sr_dragtable_load(&curve, o.cd_table, kind, &e))
             return sr_cli_fail(c, "--cd-table: %s", e.msg);
     } else {
         sr_bluff_curve_id id = sr_bluff_default_curve(shape);
@@ -498,7 +472,7 @@ int sr_cmd_freefall(sr_cli *c, int argc, char **argv)
     sr_bluff_body body;
     if (sr_bluff_body_init(&body, shape, &curve, d, len, mass, area, &e)) {
         sr_bluff_curve_free(&curve);
-        return sr_cli_fail(c, "%s: %s", strstr(e.msg, "curve") ? "--curve" : "--body", e.msg);
+        return sr_cli_fail(c, "%s: %s", option_of(e.key), e.msg);
     }
 
     sr_atmos atm;
@@ -639,7 +613,7 @@ out:
     sr_report_free(r);
     free(res);
     free(alt);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_bluff_curve_free(&curve);
     return rc;
 }

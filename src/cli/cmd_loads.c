@@ -22,96 +22,70 @@
 #include "files/yamldoc.h"
 #include "physics/opening.h"
 
-enum {
-    OPT_MASS = OPT_COMMAND_BASE, OPT_SPEED, OPT_ALTITUDE, OPT_PATH_ANGLE, OPT_DESIGN_FACTOR, OPT_EXPONENT,
-    OPT_FILL, OPT_CX, OPT_ALLOWANCE, OPT_MISSION, OPT_STAGE, OPT_LIMITS_AT
-};
-
-static const struct option OPTS[] = {
-    {"mass", required_argument, NULL, OPT_MASS},
-    {"speed", required_argument, NULL, OPT_SPEED},
-    {"altitude", required_argument, NULL, OPT_ALTITUDE},
-    {"path-angle", required_argument, NULL, OPT_PATH_ANGLE},
-    {"design-factor", required_argument, NULL, OPT_DESIGN_FACTOR},
-    {"growth-exponent", required_argument, NULL, OPT_EXPONENT},
-    {"filling-constant", required_argument, NULL, OPT_FILL},
-    {"opening-factor", required_argument, NULL, OPT_CX},
-    {"cluster-allowance", required_argument, NULL, OPT_ALLOWANCE},
-    {"mission", required_argument, NULL, OPT_MISSION},
-    {"stage", required_argument, NULL, OPT_STAGE},
-    {"limits-at", required_argument, NULL, OPT_LIMITS_AT},
-    SR_OPTS_CANOPY,
-    SR_OPTS_ATMOS,
-    SR_OPTS_PLOT,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate loads --mass M --speed V --family ID --nominal-diameter D [options]\n"
-    "       sinkrate loads --mass M --speed V --canopy FILE [options]\n"
-    "       sinkrate loads --mission FILE [--stage NAME] [options]\n\n"
-    "Peak opening force of a canopy or cluster deployed at speed V, by three methods\n"
-    "built on ONE drag-area growth model: the opening-load-factor method (X1 from the\n"
-    "ballistic mass ratio), the Pflanz closed form (gravity neglected) and an inflation\n"
-    "ODE with gravity and flight-path angle. Because they share the model, their spread\n"
-    "is not the real uncertainty: the band is taken over the canopy's drag range, its\n"
-    "growth-exponent range and its opening-load-factor range, and its high end governs.\n"
-    "A measured opening load or factor (measured-opening: in a canopy file) replaces the\n"
-    "three estimates.\n\n"
-    "  --mass M                 mass the canopies decelerate\n"
-    "  --speed V                speed at line stretch (deployment), subsonic\n"
-    "  --altitude Z             deployment altitude above sea level (default: the site\n"
-    "                           elevation, or 0)\n"
-    "  --path-angle A           flight-path angle below the horizontal at deployment:\n"
-    "                           90 straight down (default), 0 level as at apogee\n"
-    "  --design-factor K        turn the peak into a required rated strength (1 to 10)\n"
-    "  --growth-exponent N      drag area grows as (t/t_f)^N while filling (default: the\n"
-    "                           family's band, by class solid 1..3, slotted 0.5..2, from\n"
-    "                           memory; a value here replaces the band)\n"
-    "  --filling-constant N     override the family's filling constant (t_f = N D0 / V)\n"
-    "  --opening-factor CX      override the family's opening-load factor (its band)\n"
-    "  --cluster-allowance K    per-canopy load over the equal share in a cluster (default:\n"
-    "                           the bound with the lead canopy taking the whole mass)\n"
-    "  --mission FILE           the mission's staged descent, flown as `sinkrate profile`\n"
-    "                           flies it (line stretch, released canopies, section drag and\n"
-    "                           masses, every band): each stage at its line stretch; the\n"
-    "                           file's rated-strength limit is judged (exit 1 when broken)\n"
-    "  --stage NAME             only this stage of the mission (then --speed and --path-angle\n"
-    "                           may replace its deployment state)\n"
-    SR_HELP_LIMITS_AT "\n"
-    "The figure (with --plot): force vs time from the inflation ODE at the typical ends of\n"
-    "the bands, with each method's peak marked; for a whole mission, one figure a stage,\n"
-    "PREFIX-STAGE.png (in the stage's name, what is not a letter, digit, '.', '_' or '-'\n"
-    "becomes '-').\n\n";
-
 typedef struct loads_opts {
-    const char *mass, *speed, *altitude, *angle, *design, *exponent, *fill, *cx, *allowance, *mission, *stage;
+    const char *speed, *angle, *design, *exponent, *fill, *cx, *allowance, *stage;
     const char *limits_at;
+    sr_payload_opts payload;
     sr_canopy_opts canopy;
     sr_atmos_opts atmos;
 } loads_opts;
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    loads_opts *o = ud;
-    switch (code) {
-    case OPT_MASS: o->mass = arg; return 0;
-    case OPT_SPEED: o->speed = arg; return 0;
-    case OPT_ALTITUDE: o->altitude = arg; return 0;
-    case OPT_PATH_ANGLE: o->angle = arg; return 0;
-    case OPT_DESIGN_FACTOR: o->design = arg; return 0;
-    case OPT_EXPONENT: o->exponent = arg; return 0;
-    case OPT_FILL: o->fill = arg; return 0;
-    case OPT_CX: o->cx = arg; return 0;
-    case OPT_ALLOWANCE: o->allowance = arg; return 0;
-    case OPT_MISSION: o->mission = arg; return 0;
-    case OPT_STAGE: o->stage = arg; return 0;
-    case OPT_LIMITS_AT: o->limits_at = arg; return 0;
-    }
-    if (sr_cli_take_canopy(&o->canopy, code, arg) || sr_cli_take_atmos(&o->atmos, code, arg))
-        return 0;
-    return 1;
-}
+static const sr_opt OPTS[] = {
+    SR_OPT_GROUP(sr_cli_group_payload, loads_opts, payload),
+    SR_OPT_WITHOUT("body-drag-area"),
+    SR_OPT_FOR("mass", "M", "mass the canopies decelerate"),
+    SR_OPT_FOR("altitude", "Z", "deployment altitude above sea level (default: the site elevation, or 0)"),
+    SR_OPT_FOR("mission", "FILE",
+               "the mission's staged descent, flown as `sinkrate profile` flies it (line stretch, released "
+               "canopies, section drag and masses, every band): each stage at its line stretch; the file's "
+               "rated-strength limit is judged (exit 1 when broken)"),
+    SR_OPT_STRING("speed", "V", loads_opts, speed, "speed at line stretch (deployment), subsonic"),
+    SR_OPT_STRING("path-angle", "A", loads_opts, angle,
+                  "flight-path angle below the horizontal at deployment: 90 straight down (default), 0 level as at "
+                  "apogee"),
+    SR_OPT_STRING("design-factor", "K", loads_opts, design, "turn the peak into a required rated strength (1 to 10)"),
+    SR_OPT_STRING("growth-exponent", "N", loads_opts, exponent,
+                  "drag area grows as (t/t_f)^N while filling (default: the family's band, by class solid 1..3, "
+                  "slotted 0.5..2, from memory; a value here replaces the band)"),
+    SR_OPT_STRING("filling-constant", "N", loads_opts, fill, "override the family's filling constant (t_f = N D0 / V)"),
+    SR_OPT_STRING("opening-factor", "CX", loads_opts, cx, "override the family's opening-load factor (its band)"),
+    SR_OPT_STRING("cluster-allowance", "K", loads_opts, allowance,
+                  "per-canopy load over the equal share in a cluster (default: the bound with the lead canopy taking "
+                  "the whole mass)"),
+    SR_OPT_STRING("stage", "NAME", loads_opts, stage,
+                  "only this stage of the mission (then --speed and --path-angle may replace its deployment state)"),
+    SR_OPT_LIMITS_AT(loads_opts, limits_at),
+    SR_OPT_TEXT("The figure (with --plot): force vs time from the inflation ODE at the typical ends of the bands, "
+                "with each method's peak marked; for a whole mission, one figure a stage, PREFIX-STAGE.png (in the "
+                "stage's name, what is not a letter, digit, '.', '_' or '-' becomes '-')."),
+    SR_OPT_GROUP(sr_cli_group_canopy, loads_opts, canopy),
+    SR_OPT_GROUP(sr_cli_group_atmos, loads_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "methods", "stages", "limits", NULL};
+
+static int run_loads(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_loads = {
+    .name = "loads",
+    .summary = "opening load of a canopy at deployment",
+    .usage = "usage: sinkrate loads --mass M --speed V --family ID --nominal-diameter D [options]\n"
+             "       sinkrate loads --mass M --speed V --canopy FILE [options]\n"
+             "       sinkrate loads --mission FILE [--stage NAME] [options]\n",
+    .about = "Peak opening force of a canopy or cluster deployed at speed V, by three methods built on ONE "
+             "drag-area growth model: the opening-load-factor method (X1 from the ballistic mass ratio), the "
+             "Pflanz closed form (gravity neglected) and an inflation ODE with gravity and flight-path angle. "
+             "Because they share the model, their spread is not the real uncertainty: the band is taken over the "
+             "canopy's drag range, its growth-exponent range and its opening-load-factor range, and its high end "
+             "governs. A measured opening load or factor (measured-opening: in a canopy file) replaces the three "
+             "estimates.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_loads,
+};
 
 /* Overrides of the family data and the design options; NaN = not given. */
 typedef struct tweaks {
@@ -134,19 +108,23 @@ typedef struct deploy {
     int at_rest;           /* it opens with no airspeed (released under an open canopy): no opening load */
 } deploy;
 
-/* Which option a library message is about, for the one-line error. */
-static const char *option_of(const char *msg, int mission)
+/* Which option a refusal of the opening model is about, for the one-line
+ * error: its key names the field of sr_opening_input. With a mission the
+ * deployment state is the mission's. */
+static const char *option_of(const sr_error *e, int mission)
 {
-    static const struct {
-        const char *word, *opt;
-    } MAP[] = {{"deployment speed", "--speed"}, {"Mach", "--speed"},       {"filling constant", "--filling-constant"},
-               {"opening-load factor", "--opening-factor"}, {"growth exponent", "--growth-exponent"},
-               {"design factor", "--design-factor"},         {"payload mass", "--mass"},
-               {"flight-path angle", "--path-angle"},        {"cluster allowance", "--cluster-allowance"},
-               {"drag area", "--drag-coefficient"}};
+    static const char *const MAP[][2] = {{"v1", "--speed"},
+                                         {"n_fill", "--filling-constant"},
+                                         {"cx", "--opening-factor"},
+                                         {"exponent", "--growth-exponent"},
+                                         {"design_factor", "--design-factor"},
+                                         {"mass", "--mass"},
+                                         {"path_angle", "--path-angle"},
+                                         {"cluster_allowance", "--cluster-allowance"},
+                                         {"cds0", "--drag-coefficient"}};
     for (size_t i = 0; i < sizeof MAP / sizeof MAP[0]; i++)
-        if (strstr(msg, MAP[i].word))
-            return mission && strcmp(MAP[i].opt, "--speed") == 0 ? "--mission" : MAP[i].opt;
+        if (strcmp(e->key, MAP[i][0]) == 0)
+            return mission && strcmp(MAP[i][1], "--speed") == 0 ? "--mission" : MAP[i][1];
     return mission ? "--mission" : "--speed";
 }
 
@@ -168,10 +146,9 @@ static int solve(sr_cli *c, deploy *d, const tweaks *tw, int mission)
     sr_error e;
     const char *where = mission ? "--mission" : NULL;
     if (sr_loads_evaluate(&d->lc, d->st, 0, &d->band, &e) != SR_OK) {
-        const char *opt = where ? where : option_of(e.msg, 0);
         if (mission)
-            return sr_cli_fail(c, "%s: stage '%s': %s", opt, d->name, e.msg);
-        return sr_cli_fail(c, "%s: %s", option_of(e.msg, 0), e.msg);
+            return sr_cli_fail(c, "%s: stage '%s': %s", where, d->name, e.msg);
+        return sr_cli_fail(c, "%s: %s", option_of(&e, 0), e.msg);
     }
     const sr_loads_state *t = &d->st[0];
     d->mass = t->mass;
@@ -191,8 +168,8 @@ static int solve(sr_cli *c, deploy *d, const tweaks *tw, int mission)
         d->in[k].cluster_allowance = isnan(tw->allowance) ? 0 : tw->allowance;
         if (sr_opening_solve(&d->in[k], &d->res[k], &e) != SR_OK) {
             if (mission)
-                return sr_cli_fail(c, "%s: stage '%s': %s", option_of(e.msg, 1), d->name, e.msg);
-            return sr_cli_fail(c, "%s: %s", option_of(e.msg, 0), e.msg);
+                return sr_cli_fail(c, "%s: stage '%s': %s", option_of(&e, 1), d->name, e.msg);
+            return sr_cli_fail(c, "%s: %s", option_of(&e, 0), e.msg);
         }
     }
     d->v[0] = d->band.v_lo;
@@ -637,32 +614,23 @@ static int state_from_options(sr_cli *c, const loads_opts *o, const sr_atmos *at
     if (fabs(angle) > M_PI / 2 + 1e-9)
         return sr_cli_fail(c, "--path-angle: '%s' is outside -90..90 degrees below the horizontal", o->angle);
     d->z = isnan(z_stage) ? ground : z_stage;
-    if (o->altitude && (rc = sr_cli_quantity(c, "--altitude", o->altitude, SR_Q_LENGTH, 0, &d->z)))
+    if (o->payload.altitude && (rc = sr_cli_quantity(c, "--altitude", o->payload.altitude, SR_Q_LENGTH, 0, &d->z)))
         return rc;
     sr_air air;
     sr_error e;
     if (sr_atmos_at(atm, d->z, &air, &e) != SR_OK)
         return sr_cli_fail(c, "--altitude: %s", e.msg);
-    sr_loads_state *s = &d->st[0];
+    /* the state sr_loads_deployment takes too: a program and this command agree */
     memset(d->st, 0, sizeof d->st);
-    s->valid = 1;
-    s->v1 = v;
-    s->path_angle = angle;
-    s->rho = air.rho;
-    s->a = air.a;
-    s->g = air.g;
-    s->mass = mass;
-    s->v_steady = NAN;
-    s->cds0 = d->cp->cluster_factor * d->cp->cds.typ;
-    s->d0 = d->cp->d0.typ;
+    sr_loads_state_of(&d->st[0], d->cp, mass, v, angle, &air);
     return 0;
 }
 
-int sr_cmd_loads(sr_cli *c, int argc, char **argv)
+static int run_loads(sr_cli *c, int argc, char **argv)
 {
     loads_opts o;
     memset(&o, 0, sizeof o);
-    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
+    int rc = sr_cli_parse_options(c, argc, argv, &o, NULL);
     if (rc)
         return rc;
     tweaks tw;
@@ -671,16 +639,16 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
     sr_judge_basis basis = SR_JUDGE_BAND_END;
     if (o.limits_at && (rc = sr_cli_limits_at(c, o.limits_at, &basis)))
         return rc;
-    if (o.stage && !o.mission)
+    if (o.stage && !o.payload.mission)
         return sr_cli_fail(c, "--stage: needs --mission FILE");
-    if (o.limits_at && !o.mission)
+    if (o.limits_at && !o.payload.mission)
         return sr_cli_fail(c, "--limits-at: needs --mission FILE (the limits are the mission's)");
-    if (o.mission && !o.stage && (o.speed || o.angle || o.altitude))
+    if (o.payload.mission && !o.stage && (o.speed || o.angle || o.payload.altitude))
         return sr_cli_fail(c, "%s: with --mission, a deployment state applies to one stage; add --stage NAME",
                            o.speed ? "--speed" : o.angle ? "--path-angle" : "--altitude");
-    if (o.mission && sr_cli_canopy_given(&o.canopy))
+    if (o.payload.mission && sr_cli_canopy_given(&o.canopy))
         return sr_cli_fail(c, "--mission: the stages give the canopies; drop --family / --canopy");
-    if (o.mission && o.mass)
+    if (o.payload.mission && o.payload.mass)
         return sr_cli_fail(c, "--mass: with --mission the mass under each canopy comes from the staged descent; drop "
                               "--mass");
 
@@ -703,11 +671,11 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail(c, "out of memory");
         goto out;
     }
-    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.payload.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
     if (!mis) {
         if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)) ||
-            (rc = sr_cli_mass(c, o.mass, "the mass the canopy decelerates", &mass)))
+            (rc = sr_cli_mass(c, o.payload.mass, "the mass the canopy decelerates", &mass)))
             goto out;
         deploy *d = &ds[nd++];
         d->cp = &cp;
@@ -846,7 +814,7 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
     sr_input_warnings_init(&iw);
     if (mis) {
         sr_input_warnings_mission(&iw, mis, &atm, c->units);
-        if (o.mass)
+        if (o.payload.mass)
             sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "--mass", c->units);
     } else {
         sr_input_warnings_value(&iw, SR_PLAUS_MASS, mass, "decelerated mass", c->units);
@@ -861,7 +829,7 @@ int sr_cmd_loads(sr_cli *c, int argc, char **argv)
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     sr_band_ctx_free(bc);
     free(BR);

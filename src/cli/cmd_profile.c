@@ -8,6 +8,7 @@
 #include "analysis/band.h"
 #include "analysis/failcase.h"
 #include "analysis/judge.h"
+#include "cli/cliplot.h"
 #include "cli/commands.h"
 #include "cli/common.h"
 #include "cli/maps.h"
@@ -20,71 +21,57 @@
 
 #define PI 3.14159265358979323846
 
-enum { OPT_FAST = OPT_COMMAND_BASE, OPT_FAIL, OPT_LIMITS_AT, OPT_TRAJECTORY, OPT_GEOJSON, OPT_BAND_ENDS };
-
-static const struct option OPTS[] = {
-    {"fast", no_argument, NULL, OPT_FAST},
-    {"trajectory", required_argument, NULL, OPT_TRAJECTORY},
-    {"geojson", required_argument, NULL, OPT_GEOJSON},
-    {"band-ends", no_argument, NULL, OPT_BAND_ENDS},
-    {"fail", required_argument, NULL, OPT_FAIL},
-    {"limits-at", required_argument, NULL, OPT_LIMITS_AT},
-    SR_OPTS_PLOT,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate profile FILE [options]\n\n"
-    "The staged descent of a mission file: each deployment, the transient after it\n"
-    "(adaptive ODE, drag area growing over the filling time, until the speed is within\n"
-    "1% of steady), the steady stages (quadrature of dt = dh/v and of the wind drift),\n"
-    "the event timeline, per-stage descent rates and opening loads, touchdown speed,\n"
-    "kinetic energy of every section, descent time, drift distance and bearing, and each\n"
-    "limit of the file met or exceeded. Every result is a band: the descent is flown at\n"
-    "the typical values and at both ends of every band (drag range, mass band), and each\n"
-    "opening load over the growth-exponent and opening-load-factor ranges too.\n"
-    "Exit 1 when a limit is exceeded at the worse end of a band (the conservative\n"
-    "default; --limits-at typical relaxes it and the output says it is not conservative).\n"
-    "The failure cases of the file are judged against every limit but never change the\n"
-    "exit code. --plot PREFIX draws two figures: PREFIX (height, descent rate and airspeed\n"
-    "against time) and PREFIX-track (the ground track with the wind and the drift limit,\n"
-    "and the wind profile).\n\n"
-    "  --fail STAGE[,STAGE]     failure case: these stages do not deploy ('all': no canopy);\n"
-    "                           the limits and the exit code then judge it, falling bodies\n"
-    "                           in their worse attitude (broadside or tumbling)\n"
-    SR_HELP_LIMITS_AT
-    "  --fast                   the fast mode used for dispersion and design search (steady\n"
-    "                           stages from tables, transients reused from the nominal\n"
-    "                           descent, opening loads by the fixed-step solver)\n"
-    "  --trajectory FILE        the time history of every body: time, height, altitude,\n"
-    "                           descent rate, airspeed, east, north, dynamic pressure, Mach,\n"
-    "                           stage, event; JSON when FILE ends in .json, CSV when in\n"
-    "                           .csv, otherwise as --format json (JSON) or CSV\n"
-    "  --geojson FILE           a landing map (GeoJSON, RFC 7946): tracks, landing points,\n"
-    "                           deployments and the drift limit on WGS 84; the mission needs\n"
-    "                           site.latitude and site.longitude\n"
-    "  --band-ends              trajectory and map also at both ends of the band: the fast\n"
-    "                           end (low drag, heavy) and the slow end (high drag, light)\n\n";
-
 typedef struct profile_opts {
     int fast, band_ends;
     const char *fail, *limits_at, *trajectory, *geojson;
 } profile_opts;
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    profile_opts *o = ud;
-    (void)c;
-    switch (code) {
-    case OPT_FAST: o->fast = 1; return 0;
-    case OPT_LIMITS_AT: o->limits_at = arg; return 0;
-    case OPT_FAIL: o->fail = arg; return 0;
-    case OPT_TRAJECTORY: o->trajectory = arg; return 0;
-    case OPT_GEOJSON: o->geojson = arg; return 0;
-    case OPT_BAND_ENDS: o->band_ends = 1; return 0;
-    }
-    return 1;
-}
+static const sr_opt OPTS[] = {
+    SR_OPT_STRING("fail", "STAGE[,STAGE]", profile_opts, fail,
+                  "failure case: these stages do not deploy ('all': no canopy); the limits and the exit code then "
+                  "judge it, falling bodies in their worse attitude (broadside or tumbling)"),
+    SR_OPT_LIMITS_AT(profile_opts, limits_at),
+    SR_OPT_FLAG("fast", profile_opts, fast,
+                "the fast mode used for dispersion and design search (steady stages from tables, transients reused "
+                "from the nominal descent, opening loads by the fixed-step solver)"),
+    SR_OPT_STRING("trajectory", "FILE", profile_opts, trajectory,
+                  "the time history of every body: time, height, altitude, descent rate, airspeed, east, north, "
+                  "dynamic pressure, Mach, stage, event; JSON when FILE ends in .json, CSV when in .csv, otherwise "
+                  "as --format json (JSON) or CSV"),
+    SR_OPT_STRING("geojson", "FILE", profile_opts, geojson,
+                  "a landing map (GeoJSON, RFC 7946): tracks, landing points, deployments and the drift limit on "
+                  "WGS 84; the mission needs site.latitude and site.longitude"),
+    SR_OPT_FLAG("band-ends", profile_opts, band_ends,
+                "trajectory and map also at both ends of the band: the fast end (low drag, heavy) and the slow end "
+                "(high drag, light)"),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "sections", "free_fall_drag", "stages", "timeline", "stage_results", "touchdown", "energy", "limits", "attitudes", "failure_case_list", "failure_cases", NULL};
+
+static int run_profile(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_profile = {
+    .name = "profile",
+    .summary = "staged descent of a mission file: events, time, drift, touchdown, limits",
+    .usage = "usage: sinkrate profile FILE [options]\n",
+    .about = "The staged descent of a mission file: each deployment, the transient after it (adaptive ODE, drag "
+             "area growing over the filling time, until the speed is within 1% of steady), the steady stages "
+             "(quadrature of dt = dh/v and of the wind drift), the event timeline, per-stage descent rates and "
+             "opening loads, touchdown speed, kinetic energy of every section, descent time, drift distance and "
+             "bearing, and each limit of the file met or exceeded. Every result is a band: the descent is flown at "
+             "the typical values and at both ends of every band (drag range, mass band), and each opening load over "
+             "the growth-exponent and opening-load-factor ranges too. Exit 1 when a limit is exceeded at the worse "
+             "end of a band (the conservative default; --limits-at typical relaxes it and the output says it is not "
+             "conservative). The failure cases of the file are judged against every limit but never change the "
+             "exit code. --plot PREFIX draws two figures: PREFIX (height, descent rate and airspeed against time) "
+             "and PREFIX-track (the ground track with the wind and the drift limit, and the wind profile).",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_profile,
+};
 
 static int parse_fail(sr_cli *c, const sr_mission *m, const char *text, unsigned *mask)
 {
@@ -125,51 +112,11 @@ static void fmt(char *buf, size_t len, const sr_cli *c, double v, sr_quantity q,
     sr_report_format_value(buf, len, v, q, c->units, sig);
 }
 
-/* The wind in words, in the chosen units. */
-static void wind_text(const sr_cli *c, const sr_wind *w, char *buf, size_t len)
+/* A number of the wind's description as the report writes it. */
+static void wind_value(char *buf, size_t len, double si, sr_quantity q, int sig, void *ctx)
 {
-    char v[64], h[64], v2[64], h2[64];
-    double deg = sr_units_bearing_deg(w->from, 0);
-    switch (w->kind) {
-    case SR_WIND_CALM:
-        snprintf(buf, len, "calm");
-        return;
-    case SR_WIND_CONSTANT:
-        fmt(v, sizeof v, c, w->speed, SR_Q_SPEED, 3);
-        snprintf(buf, len, "constant, %s from %.0f deg at every height", v, deg);
-        return;
-    case SR_WIND_POWER:
-    case SR_WIND_LOG:
-        fmt(v, sizeof v, c, w->speed, SR_Q_SPEED, 3);
-        fmt(h, sizeof h, c, w->h_ref, SR_Q_LENGTH, 3);
-        if (w->kind == SR_WIND_POWER) {
-            snprintf(buf, len, "power law, %s from %.0f deg at %s above ground, exponent %.3f", v, deg, h, w->alpha);
-        } else {
-            fmt(v2, sizeof v2, c, w->z0, SR_Q_LENGTH, 3);
-            fmt(h2, sizeof h2, c, w->d, SR_Q_LENGTH, 3);
-            snprintf(buf, len, "log law, %s from %.0f deg at %s above ground, roughness length %s, displacement %s", v,
-                     deg, h, v2, h2);
-        }
-        if (w->h_grad > 0.0) {
-            size_t l = strlen(buf);
-            fmt(h, sizeof h, c, w->h_grad, SR_Q_LENGTH, 3);
-            snprintf(buf + l, len > l ? len - l : 0, "; held constant above %s (gradient height)", h);
-        }
-        return;
-    case SR_WIND_TABLE: {
-        double s0, f0, s1, f1;
-        sr_wind_polar(w->east[0], w->north[0], &s0, &f0);
-        sr_wind_polar(w->east[w->n - 1], w->north[w->n - 1], &s1, &f1);
-        fmt(v, sizeof v, c, s0, SR_Q_SPEED, 3);
-        fmt(h, sizeof h, c, w->h[0], SR_Q_LENGTH, SR_FIXED(0));
-        fmt(v2, sizeof v2, c, s1, SR_Q_SPEED, 3);
-        fmt(h2, sizeof h2, c, w->h[w->n - 1], SR_Q_LENGTH, SR_FIXED(0));
-        snprintf(buf, len, "table%s%s, %zu rows: %s from %.0f deg at %s to %s from %.0f deg at %s above ground",
-                 w->source[0] ? " " : "", w->source, w->n, v, sr_units_bearing_deg(f0, 0), h, v2,
-                 sr_units_bearing_deg(f1, 0), h2);
-        return;
-    }
-    }
+    const sr_cli *c = ctx;
+    fmt(buf, len, c, si, q, sig > 0 ? sig : SR_FIXED(0));
 }
 
 static const char *deploy_text(const sr_cli *c, const sr_mission *m, size_t k, char *buf, size_t len)
@@ -203,9 +150,9 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
     sr_report_section(r, "Mission");
     sr_report_text(r, "mission", "mission", m->name);
     sr_report_text(r, "file", "file", m->path);
-    sr_maps_report_position(r, m);
+    sr_cli_maps_report_position(r, m);
     sr_cli_report_atmos(r, &m->atmos);
-    wind_text(c, &m->wind, buf, sizeof buf);
+    sr_wind_describe_fmt(&m->wind, wind_value, (void *)c, buf, sizeof buf);
     sr_report_text(r, "wind", "wind", buf);
     fmt(v1, sizeof v1, c, m->start_height, SR_Q_LENGTH, SR_FIXED(0));
     fmt(v2, sizeof v2, c, m->start_speed, SR_Q_SPEED, 3);
@@ -257,7 +204,7 @@ static void report_inputs(sr_report *r, const sr_cli *c, const sr_mission *m, un
         const char *txt[] = {s->name, lands};
         sr_rtable_row(t, row, txt);
     }
-    sr_profile_report_free_drag(r, c, m);
+    sr_cli_profile_report_free_drag(r, c, m);
 
     t = sr_report_table(r, "stages", "Recovery stages (drag area band from the family's CD0 range; n: growth exponent "
                                      "of the drag area while filling)");
@@ -510,7 +457,7 @@ static void report_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, 
                                  "against the printed tables: confirm the rates with a drop test.");
             break;
         }
-    sr_profile_free_fall_warnings(r, c, m, p, "");
+    sr_cli_profile_free_fall_warnings(r, c, m, p, "");
     if (p->events_dropped)
         sr_report_warning(r, "%d events beyond the first %d are not listed", p->events_dropped,
                           SR_PROFILE_MAX_EVENTS);
@@ -543,11 +490,11 @@ static void report_notes(sr_report *r, const sr_mission *m, int fast)
                           "solution, opening loads by the fixed-step solver; no transient events are listed.");
 }
 
-int sr_cmd_profile(sr_cli *c, int argc, char **argv)
+static int run_profile(sr_cli *c, int argc, char **argv)
 {
     profile_opts o;
     memset(&o, 0, sizeof o);
-    int first, rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, &first);
+    int first, rc = sr_cli_parse_options(c, argc, argv, &o, &first);
     if (rc)
         return rc;
     sr_judge_basis basis = SR_JUDGE_BAND_END;
@@ -566,7 +513,7 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
         (o.geojson && (rc = sr_cli_output(c, "--geojson", o.geojson))))
         return rc;
 
-    if ((rc = sr_profile_plot_reserve(c)) || (rc = sr_cli_input(c, "the mission file", argv[first])))
+    if ((rc = sr_cli_profile_plot_reserve(c)) || (rc = sr_cli_input(c, "the mission file", argv[first])))
         return rc;
     sr_catalog *cat = NULL;
     sr_mission *m = NULL;
@@ -601,7 +548,7 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
                          m->path);
         goto out;
     }
-    if (o.geojson && (rc = sr_maps_need_position(c, "--geojson", m)))
+    if (o.geojson && (rc = sr_cli_maps_need_position(c, "--geojson", m)))
         goto out;
     sr_profile_opts po;
     sr_profile_opts_init(&po);
@@ -703,8 +650,8 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
     sr_cli_report_input_warnings(r, &iw);
     report_notes(r, m, o.fast && !F);
     if (F)
-        sr_profile_report_attitudes(r, c, m, F);
-    if ((rc = sr_profile_report_failures(r, c, m, &lim, basis)))
+        sr_cli_profile_report_attitudes(r, c, m, F);
+    if ((rc = sr_cli_profile_report_failures(r, c, m, &lim, basis)))
         goto out;
     /* the trajectory and the map are built before anything is written; the band-end runs are the fast end
      * (low drag, heavy) and the slow end (high drag, light) */
@@ -712,17 +659,17 @@ int sr_cmd_profile(sr_cli *c, int argc, char **argv)
                         {"low drag", &B->run[SR_BAND_FAST], &track_lo},
                         {"high drag", &B->run[SR_BAND_SLOW], &track_hi}};
     size_t nmr = o.band_ends ? 3 : 1;
-    if (o.trajectory && (rc = sr_maps_trajectory(c, o.trajectory, m, sr_band_profile(bc), mr, nmr, &tbuf, &tlen)))
+    if (o.trajectory && (rc = sr_cli_maps_trajectory(c, o.trajectory, m, sr_band_profile(bc), mr, nmr, &tbuf, &tlen)))
         goto out;
-    if (o.geojson && (rc = sr_maps_profile_geojson(c, m, mr, nmr, &gbuf, &glen)))
+    if (o.geojson && (rc = sr_cli_maps_profile_geojson(c, m, mr, nmr, &gbuf, &glen)))
         goto out;
     if ((rc = sr_cli_emit(c, r)))
         goto out;
-    if (tbuf && (rc = sr_maps_write(c, "--trajectory", o.trajectory, tbuf, tlen)))
+    if (tbuf && (rc = sr_cli_maps_write(c, "--trajectory", o.trajectory, tbuf, tlen)))
         goto out;
-    if (gbuf && (rc = sr_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
+    if (gbuf && (rc = sr_cli_maps_write(c, "--geojson", o.geojson, gbuf, glen)))
         goto out;
-    if (c->plot_prefix && (rc = sr_profile_plot(c, m, sr_band_profile(bc), T, &track, argc, argv)))
+    if (c->plot_prefix && (rc = sr_cli_profile_plot(c, m, sr_band_profile(bc), T, &track, argc, argv)))
         goto out;
     rc = exceeded ? SR_EXIT_LIMIT : SR_EXIT_OK;
 out:
@@ -735,7 +682,7 @@ out:
     sr_band_work_free(w);
     sr_band_ctx_free(bc);
     if (m) {
-        sr_mission_free(m);
+        sr_mission_release(m);
         free(m);
     }
     free(B);

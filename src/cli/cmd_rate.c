@@ -11,60 +11,50 @@
 #include "physics/descent.h"
 #include "files/mission.h"
 
-enum { OPT_MASS = OPT_COMMAND_BASE, OPT_ALTITUDE, OPT_BODY_DRAG, OPT_MISSION };
-
-static const struct option OPTS[] = {
-    {"mass", required_argument, NULL, OPT_MASS},
-    {"altitude", required_argument, NULL, OPT_ALTITUDE},
-    {"body-drag-area", required_argument, NULL, OPT_BODY_DRAG},
-    {"mission", required_argument, NULL, OPT_MISSION},
-    SR_OPTS_CANOPY,
-    SR_OPTS_ATMOS,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate rate --mass M --family ID --nominal-diameter D [--altitude Z,...] [options]\n"
-    "       sinkrate rate --mass M --canopy FILE [options]\n"
-    "       sinkrate rate --mission FILE [options]\n\n"
-    "Equilibrium descent rate of a canopy or cluster carrying mass M, at each altitude,\n"
-    "as a band from the drag-coefficient range (or exact for a measured coefficient\n"
-    "on the reference the size is given on), with dynamic pressure, the equivalent\n"
-    "drop height v^2/2g and the kinetic energy at that speed.\n\n"
-    "  --mass M                 descending mass (payload; the canopy's own mass is added\n"
-    "                           when --areal-mass is given)\n"
-    "  --altitude Z[,Z...]      altitudes above sea level (default: the site elevation, or 0)\n"
-    "  --body-drag-area A       payload drag area CdA added to the canopy's (\"0.02 m2\")\n"
-    "  --mission FILE           mass (all sections), site and the last stage's canopy from a\n"
-    "                           mission file\n\n";
-
 typedef struct rate_opts {
-    const char *mass, *altitude, *body, *mission;
+    sr_payload_opts payload;
     sr_canopy_opts canopy;
     sr_atmos_opts atmos;
 } rate_opts;
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    rate_opts *o = ud;
-    switch (code) {
-    case OPT_MASS: o->mass = arg; return 0;
-    case OPT_ALTITUDE: o->altitude = arg; return 0;
-    case OPT_BODY_DRAG: o->body = arg; return 0;
-    case OPT_MISSION: o->mission = arg; return 0;
-    }
-    if (sr_cli_take_canopy(&o->canopy, code, arg) || sr_cli_take_atmos(&o->atmos, code, arg))
-        return 0;
-    return 1;
-}
+static const sr_opt OPTS[] = {
+    SR_OPT_GROUP(sr_cli_group_payload, rate_opts, payload),
+    SR_OPT_FOR("mass", "M",
+               "descending mass (payload; the canopy's own mass is added when --areal-mass is given)"),
+    SR_OPT_FOR("altitude", "Z[,Z...]", "altitudes above sea level (default: the site elevation, or 0)"),
+    SR_OPT_FOR("body-drag-area", "A", "payload drag area CdA added to the canopy's (\"0.02 m2\")"),
+    SR_OPT_FOR("mission", "FILE", "mass (all sections), site and the last stage's canopy from a mission file"),
+    SR_OPT_GROUP(sr_cli_group_canopy, rate_opts, canopy),
+    SR_OPT_GROUP(sr_cli_group_atmos, rate_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "rates", NULL};
+
+static int run_rate(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_rate = {
+    .name = "rate",
+    .summary = "descent rate of a canopy or cluster at one or more altitudes",
+    .usage = "usage: sinkrate rate --mass M --family ID --nominal-diameter D [--altitude Z,...] [options]\n"
+             "       sinkrate rate --mass M --canopy FILE [options]\n"
+             "       sinkrate rate --mission FILE [options]\n",
+    .about = "Equilibrium descent rate of a canopy or cluster carrying mass M, at each altitude, as a band from "
+             "the drag-coefficient range (or exact for a measured coefficient on the reference the size is given "
+             "on), with dynamic pressure, the equivalent drop height v^2/2g and the kinetic energy at that speed.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_rate,
+};
 
 #define MAX_ALT 256
 
-int sr_cmd_rate(sr_cli *c, int argc, char **argv)
+static int run_rate(sr_cli *c, int argc, char **argv)
 {
     rate_opts o;
     memset(&o, 0, sizeof o);
-    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
+    int rc = sr_cli_parse_options(c, argc, argv, &o, NULL);
     if (rc)
         return rc;
     sr_catalog *cat = NULL;
@@ -76,7 +66,7 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
     double mass = NAN, ground = 0.0, body = 0.0;
     double *alt = NULL;
     sr_canopy cp;
-    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.payload.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
     if (mis) {
         mass = sr_mission_total_mass(mis);
@@ -92,14 +82,10 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
         if ((rc = sr_cli_canopy(c, cat, &o.canopy, 1, &cp)))
             goto out;
     }
-    if ((rc = sr_cli_mass(c, o.mass, "the descending mass", &mass)))
+    if ((rc = sr_cli_mass(c, o.payload.mass, "the descending mass", &mass)))
         goto out;
-    if (o.body && (rc = sr_cli_quantity(c, "--body-drag-area", o.body, SR_Q_AREA, 0, &body)))
+    if ((rc = sr_cli_body_drag(c, o.payload.body, &body)))
         goto out;
-    if (body < 0) {
-        rc = sr_cli_fail(c, "--body-drag-area: must be zero or positive");
-        goto out;
-    }
     alt = malloc(MAX_ALT * sizeof *alt);
     size_t nalt = 1;
     if (!alt) {
@@ -107,7 +93,7 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
         goto out;
     }
     alt[0] = ground;
-    if (o.altitude && (rc = sr_cli_quantity_list(c, "--altitude", o.altitude, SR_Q_LENGTH, alt, MAX_ALT, &nalt)))
+    if (o.payload.altitude && (rc = sr_cli_quantity_list(c, "--altitude", o.payload.altitude, SR_Q_LENGTH, alt, MAX_ALT, &nalt)))
         goto out;
     r = sr_report_new("rate", "descent rate of a canopy");
     sr_report_section(r, "Inputs");
@@ -197,7 +183,7 @@ int sr_cmd_rate(sr_cli *c, int argc, char **argv)
 out:
     free(alt);
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     free(cat);
     return rc;

@@ -11,63 +11,53 @@
 #include "physics/descent.h"
 #include "files/mission.h"
 
-enum { OPT_MASS = OPT_COMMAND_BASE, OPT_SPEED, OPT_ALTITUDE, OPT_BODY_DRAG, OPT_MISSION };
-
-static const struct option OPTS[] = {
-    {"mass", required_argument, NULL, OPT_MASS},
-    {"speed", required_argument, NULL, OPT_SPEED},
-    {"altitude", required_argument, NULL, OPT_ALTITUDE},
-    {"body-drag-area", required_argument, NULL, OPT_BODY_DRAG},
-    {"mission", required_argument, NULL, OPT_MISSION},
-    SR_OPTS_CANOPY,
-    SR_OPTS_ATMOS,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate size --mass M --speed V --family ID [options]\n"
-    "       sinkrate size --mission FILE [options]\n\n"
-    "Nominal area S0 and nominal, projected and flat diameters a canopy family needs\n"
-    "so that a payload of mass M descends at V at the touchdown altitude (or at\n"
-    "--altitude: a drogue sized for its descent rate where the main opens). The band\n"
-    "(low / typical / high) comes from the family's drag-coefficient range: the high\n"
-    "drag coefficient gives the smallest canopy.\n\n"
-    "  --mass M                 payload mass, without the canopy (\"4.2 kg\", \"9 lb\")\n"
-    "  --speed V                target descent speed (\"5.5 m/s\", \"18 ft/s\"): at touchdown,\n"
-    "                           or at --altitude\n"
-    "  --altitude Z             altitude above sea level of the target speed (default: the\n"
-    "                           ground, the site elevation or 0: a touchdown speed)\n"
-    "  --body-drag-area A       payload drag area CdA to count with the canopy (\"0.02 m2\")\n"
-    "  --mission FILE           take mass (all sections), touchdown-speed limit, site and\n"
-    "                           the last stage's family from a mission file; options given\n"
-    "                           as well override it\n\n";
-
 typedef struct size_opts {
-    const char *mass, *speed, *altitude, *body, *mission;
+    const char *speed;
+    sr_payload_opts payload;
     sr_canopy_opts canopy;
     sr_atmos_opts atmos;
 } size_opts;
 
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    size_opts *o = ud;
-    switch (code) {
-    case OPT_MASS: o->mass = arg; return 0;
-    case OPT_SPEED: o->speed = arg; return 0;
-    case OPT_ALTITUDE: o->altitude = arg; return 0;
-    case OPT_BODY_DRAG: o->body = arg; return 0;
-    case OPT_MISSION: o->mission = arg; return 0;
-    }
-    if (sr_cli_take_canopy(&o->canopy, code, arg) || sr_cli_take_atmos(&o->atmos, code, arg))
-        return 0;
-    return 1;
-}
+static const sr_opt OPTS[] = {
+    SR_OPT_GROUP(sr_cli_group_payload, size_opts, payload),
+    SR_OPT_FOR("altitude", "Z",
+               "altitude above sea level of the target speed (default: the ground, the site elevation or 0: a "
+               "touchdown speed)"),
+    SR_OPT_FOR("body-drag-area", "A", "payload drag area CdA to count with the canopy (\"0.02 m2\")"),
+    SR_OPT_FOR("mission", "FILE",
+               "take mass (all sections), touchdown-speed limit, site and the last stage's family from a mission "
+               "file; options given as well override it"),
+    SR_OPT_STRING("speed", "V", size_opts, speed,
+                  "target descent speed (\"5.5 m/s\", \"18 ft/s\"): at touchdown, or at --altitude"),
+    SR_OPT_GROUP(sr_cli_group_canopy, size_opts, canopy),
+    SR_OPT_GROUP(sr_cli_group_atmos, size_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
 
-int sr_cmd_size(sr_cli *c, int argc, char **argv)
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "rate_of_typical_size", NULL};
+
+static int run_size(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_size = {
+    .name = "size",
+    .summary = "nominal area and diameters a canopy family needs for a target touchdown speed",
+    .usage = "usage: sinkrate size --mass M --speed V --family ID [options]\n"
+             "       sinkrate size --mission FILE [options]\n",
+    .about = "Nominal area S0 and nominal, projected and flat diameters a canopy family needs so that a payload of "
+             "mass M descends at V at the touchdown altitude (or at --altitude: a drogue sized for its descent rate "
+             "where the main opens). The band (low / typical / high) comes from the family's drag-coefficient "
+             "range: the high drag coefficient gives the smallest canopy.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_size,
+};
+
+static int run_size(sr_cli *c, int argc, char **argv)
 {
     size_opts o;
     memset(&o, 0, sizeof o);
-    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &o, HELP, NULL);
+    int rc = sr_cli_parse_options(c, argc, argv, &o, NULL);
     if (rc)
         return rc;
     if (o.canopy.nominal_diameter || o.canopy.projected_diameter || o.canopy.flat_diameter || o.canopy.nominal_area)
@@ -86,7 +76,7 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     sr_error e;
     double mass = NAN, speed = NAN, ground = 0.0, z, body = 0.0;
     sr_canopy cp;
-    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.mission, cat, &o.atmos, &mis, &atm, &ground)))
+    if ((rc = sr_cli_catalog(c, &cat)) || (rc = sr_cli_mission(c, o.payload.mission, cat, &o.atmos, &mis, &atm, &ground)))
         goto out;
     if (mis) {
         mass = sr_mission_total_mass(mis);
@@ -100,7 +90,7 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail(c, "with --mission, give --family too when changing cluster or areal mass");
         goto out;
     }
-    if ((rc = sr_cli_mass(c, o.mass, "the payload mass", &mass)))
+    if ((rc = sr_cli_mass(c, o.payload.mass, "the payload mass", &mass)))
         goto out;
     if (o.speed && (rc = sr_cli_quantity(c, "--speed", o.speed, SR_Q_SPEED, 1, &speed)))
         goto out;
@@ -113,14 +103,10 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
         rc = sr_cli_fail(c, "--speed: %g m/s is not a descent speed a canopy is sized for", speed);
         goto out;
     }
-    if (o.body && (rc = sr_cli_quantity(c, "--body-drag-area", o.body, SR_Q_AREA, 0, &body)))
+    if ((rc = sr_cli_body_drag(c, o.payload.body, &body)))
         goto out;
-    if (body < 0) {
-        rc = sr_cli_fail(c, "--body-drag-area: must be zero or positive");
-        goto out;
-    }
     z = ground;
-    if (o.altitude && (rc = sr_cli_quantity(c, "--altitude", o.altitude, SR_Q_LENGTH, 0, &z)))
+    if (o.payload.altitude && (rc = sr_cli_quantity(c, "--altitude", o.payload.altitude, SR_Q_LENGTH, 0, &z)))
         goto out;
     sr_air air;
     if (sr_atmos_at(&atm, z, &air, &e)) {
@@ -236,7 +222,7 @@ int sr_cmd_size(sr_cli *c, int argc, char **argv)
     rc = sr_cli_emit(c, r);
 out:
     sr_report_free(r);
-    sr_atmos_free(&atm);
+    sr_atmos_release(&atm);
     sr_cli_mission_free(mis);
     free(cat);
     return rc;

@@ -15,157 +15,114 @@
 #include "analysis/input_warnings.h"
 #include "analysis/sweep.h"
 
-enum {
-    OPT_VARY = OPT_COMMAND_BASE, OPT_FROM, OPT_TO, OPT_STEP, OPT_VALUES, OPT_BY, OPT_MASS, OPT_ALTITUDE, OPT_BODY_DRAG,
-    OPT_MISSION, OPT_FIGURE, OPT_MARK_SPEED, OPT_MARK_ALTITUDE
-};
-
-static const struct option OPTS[] = {
-    {"vary", required_argument, NULL, OPT_VARY},
-    {"from", required_argument, NULL, OPT_FROM},
-    {"to", required_argument, NULL, OPT_TO},
-    {"step", required_argument, NULL, OPT_STEP},
-    {"values", required_argument, NULL, OPT_VALUES},
-    {"by", required_argument, NULL, OPT_BY},
-    {"mass", required_argument, NULL, OPT_MASS},
-    {"altitude", required_argument, NULL, OPT_ALTITUDE},
-    {"body-drag-area", required_argument, NULL, OPT_BODY_DRAG},
-    {"mission", required_argument, NULL, OPT_MISSION},
-    {"figure", required_argument, NULL, OPT_FIGURE},
-    {"mark-speed", required_argument, NULL, OPT_MARK_SPEED},
-    {"mark-altitude", required_argument, NULL, OPT_MARK_ALTITUDE},
-    SR_OPTS_CANOPY,
-    SR_OPTS_ATMOS,
-    SR_OPTS_PLOT,
-    SR_OPTS_OUTPUT,
-    {NULL, 0, NULL, 0}};
-
-static const char HELP[] =
-    "usage: sinkrate sweep [--vary VAR] (--from X --to X --step X | --values X,...) [--by VAR=X,...]\n"
-    "                      --mass M --family ID --nominal-diameter D [--family ID ...] [options]\n"
-    "       sinkrate sweep --mission FILE [--vary VAR ...] [options]\n\n"
-    "A table of the equilibrium descent rate (low / typical / high from the drag\n"
-    "range), air density, dynamic pressure and Mach number over one variable, one\n"
-    "row per value and one curve per canopy (and per --by value); --plot draws it.\n\n"
-    "What varies:\n"
-    "  --vary VAR               altitude (default), mass, diameter, temp-offset,\n"
-    "                           site-elevation, or speed:\n"
-    "      altitude             rows at each altitude above sea level, with the time to\n"
-    "                           descend from there to the ground under that canopy\n"
-    "      mass                 payload mass, rate at --altitude (default: the ground)\n"
-    "      diameter             the canopy's nominal diameter D0 (give --family without a size)\n"
-    "      temp-offset          hot or cold day: temperature offset from standard\n"
-    "      site-elevation       touchdown rate at sites of these elevations (standard\n"
-    "                           pressure there, the temperature offset kept)\n"
-    "      speed                sizing: the nominal diameter each family needs to descend at\n"
-    "                           these target speeds at --altitude (give --family without a size)\n"
-    "  --from X --to X --step X the values, ends included when a step lands on them; the\n"
-    "                           step takes the sign of to - from (altitude default: the\n"
-    "                           ground to 3000 m above it, or the mission's first deployment)\n"
-    "  --values X,Y,...         or a list of values\n"
-    "  --by VAR=X,Y,...         a second variable (any of the first five): one curve per\n"
-    "                           value, e.g. --by temp-offset=-20C,0C,25C\n"
-    "  at most 100000 rows in all (values x curves)\n\n"
-    "The case:\n"
-    "  --mass M                 payload mass (the canopy's fabric is added with --areal-mass)\n"
-    "  --altitude Z             where mass, diameter, temp-offset and speed rows are\n"
-    "                           evaluated (default: the ground)\n"
-    "  --body-drag-area A       payload drag area CdA added to each canopy's\n"
-    "  --mission FILE           mass (all sections), site, and every stage's canopy as a\n"
-    "                           curve; --family options replace the stages\n\n"
-    "Several canopies: each --family ID (or --canopy FILE) starts a canopy, and the size,\n"
-    "drag and cluster options that follow it, up to the next --family or --canopy,\n"
-    "belong to it; e.g.\n"
-    "  --family cross --nominal-diameter 0.9m --family conical --nominal-diameter 2.2m\n"
-    "At most 8 canopies and 8 --by values.\n\n"
-    "What the figure shows (with --plot):\n"
-    "  --figure rate|time|both  altitude sweeps: altitude (vertical) against descent rate,\n"
-    "                           descent time against deployment altitude, or both side by\n"
-    "                           side (default both)\n"
-    "  --mark-speed V,...       marker lines at these speeds (a touchdown-speed limit)\n"
-    "  --mark-altitude Z,...    marker lines at these altitudes above sea level\n\n";
-
 #define MAX_CANOPIES 8
 #define MAX_BY 8
 #define MAX_MARKS 4
 
 typedef struct sweep_opts {
-    const char *vary, *from, *to, *step, *values, *by, *mass, *altitude, *body, *mission, *figure;
+    const char *vary, *from, *to, *step, *values, *by, *figure;
     const char *mark_speed, *mark_altitude;
+    sr_payload_opts payload;
     sr_canopy_opts canopy[MAX_CANOPIES];
     int ncanopy;
     sr_atmos_opts atmos;
 } sweep_opts;
 
-/* The per-canopy option a code sets, and its name. */
-static const char **canopy_field(sr_canopy_opts *o, int code, const char **name)
+/* Several canopies: --family or --canopy starts each, and the canopy
+ * options after it belong to it (each once per canopy). */
+static int take_canopy(sr_cli *c, const sr_opt *opt, const char *arg, void *place)
 {
-    switch (code) {
-    case OPT_NOMINAL_DIAMETER: *name = "--nominal-diameter"; return &o->nominal_diameter;
-    case OPT_PROJECTED_DIAMETER: *name = "--projected-diameter"; return &o->projected_diameter;
-    case OPT_FLAT_DIAMETER: *name = "--flat-diameter"; return &o->flat_diameter;
-    case OPT_NOMINAL_AREA: *name = "--nominal-area"; return &o->nominal_area;
-    case OPT_CLUSTER: *name = "--cluster"; return &o->cluster;
-    case OPT_CLUSTER_FACTOR: *name = "--cluster-factor"; return &o->cluster_factor;
-    case OPT_AREAL_MASS: *name = "--areal-mass"; return &o->areal_mass;
-    case OPT_DRAG_COEFFICIENT: *name = "--drag-coefficient"; return &o->drag_coefficient;
-    case OPT_DRAG_REFERENCE: *name = "--drag-reference"; return &o->drag_reference;
-    }
-    return NULL;
-}
-
-static int take(sr_cli *c, int code, const char *arg, void *ud)
-{
-    sweep_opts *o = ud;
-    const char **slot = NULL, *name = NULL;
-    switch (code) {
-    case OPT_VARY: slot = &o->vary; name = "--vary"; break;
-    case OPT_FROM: slot = &o->from; name = "--from"; break;
-    case OPT_TO: slot = &o->to; name = "--to"; break;
-    case OPT_STEP: slot = &o->step; name = "--step"; break;
-    case OPT_VALUES: slot = &o->values; name = "--values"; break;
-    case OPT_BY: slot = &o->by; name = "--by"; break;
-    case OPT_MASS: slot = &o->mass; name = "--mass"; break;
-    case OPT_ALTITUDE: slot = &o->altitude; name = "--altitude"; break;
-    case OPT_BODY_DRAG: slot = &o->body; name = "--body-drag-area"; break;
-    case OPT_MISSION: slot = &o->mission; name = "--mission"; break;
-    case OPT_FIGURE: slot = &o->figure; name = "--figure"; break;
-    case OPT_MARK_SPEED: slot = &o->mark_speed; name = "--mark-speed"; break;
-    case OPT_MARK_ALTITUDE: slot = &o->mark_altitude; name = "--mark-altitude"; break;
-    case OPT_FAMILY:
-    case OPT_CANOPY:
+    sweep_opts *o = place;
+    int family = strcmp(opt->name, "family") == 0;
+    if (family || strcmp(opt->name, "canopy") == 0) {
         if (o->ncanopy == MAX_CANOPIES)
-            return sr_cli_fail(c, "%s: at most %d canopies in one sweep", code == OPT_FAMILY ? "--family" : "--canopy",
-                               MAX_CANOPIES);
+            return sr_cli_fail(c, "--%s: at most %d canopies in one sweep", opt->name, MAX_CANOPIES);
         sr_canopy_opts *n = &o->canopy[o->ncanopy++];
         memset(n, 0, sizeof *n);
-        if (code == OPT_FAMILY)
+        if (family)
             n->family = arg;
         else
             n->canopy = arg;
         return 0;
     }
-    if (!slot) {
-        if (sr_cli_take_atmos(&o->atmos, code, arg))
-            return 0;
-        sr_canopy_opts dummy;
-        if (!canopy_field(&dummy, code, &name))
-            return 1;
-        if (o->ncanopy == 0)
-            return sr_cli_fail(c, "%s: give it after the --family (or --canopy) it belongs to", name);
-        sr_canopy_opts *cur = &o->canopy[o->ncanopy - 1];
-        slot = canopy_field(cur, code, &name);
-        if (*slot)
-            return sr_cli_fail(c, "%s: given twice for canopy %d (%s); start the next canopy with --family", name,
-                               o->ncanopy, cur->family ? cur->family : cur->canopy);
-        *slot = arg;
-        return 0;
-    }
+    if (o->ncanopy == 0)
+        return sr_cli_fail(c, "--%s: give it after the --family (or --canopy) it belongs to", opt->name);
+    sr_canopy_opts *cur = &o->canopy[o->ncanopy - 1];
+    const char **slot = (const char **)((char *)cur + opt->offset);
     if (*slot)
-        return sr_cli_fail(c, "%s: given twice", name);
+        return sr_cli_fail(c, "--%s: given twice for canopy %d (%s); start the next canopy with --family", opt->name,
+                           o->ncanopy, cur->family ? cur->family : cur->canopy);
     *slot = arg;
     return 0;
 }
+
+static const sr_opt OPTS[] = {
+    SR_OPT_HEADING("What varies:"),
+    SR_OPT_STRING("vary", "VAR", sweep_opts, vary,
+                  "altitude (default), mass, diameter, temp-offset, site-elevation, or speed:"),
+    SR_OPT_ITEM("altitude", "rows at each altitude above sea level, with the time to descend from there to the "
+                            "ground under that canopy"),
+    SR_OPT_ITEM("mass", "payload mass, rate at --altitude (default: the ground)"),
+    SR_OPT_ITEM("diameter", "the canopy's nominal diameter D0 (give --family without a size)"),
+    SR_OPT_ITEM("temp-offset", "hot or cold day: temperature offset from standard"),
+    SR_OPT_ITEM("site-elevation", "touchdown rate at sites of these elevations (standard pressure there, the "
+                                  "temperature offset kept)"),
+    SR_OPT_ITEM("speed", "sizing: the nominal diameter each family needs to descend at these target speeds at "
+                         "--altitude (give --family without a size)"),
+    SR_OPT_STRING("from", "X", sweep_opts, from,
+                  "the first value: --from, --to and --step give the values, ends included when a step lands on "
+                  "them (altitude default: the ground to 3000 m above it, or the mission's first deployment)"),
+    SR_OPT_STRING("to", "X", sweep_opts, to, "the last value"),
+    SR_OPT_STRING("step", "X", sweep_opts, step, "the step; it takes the sign of to - from"),
+    SR_OPT_STRING("values", "X,Y,...", sweep_opts, values, "or a list of values"),
+    SR_OPT_STRING("by", "VAR=X,Y,...", sweep_opts, by,
+                  "a second variable (any of the first five): one curve per value, e.g. --by "
+                  "temp-offset=-20C,0C,25C; at most 100000 rows in all (values x curves)"),
+    SR_OPT_HEADING("The case:"),
+    SR_OPT_GROUP(sr_cli_group_payload, sweep_opts, payload),
+    SR_OPT_FOR("mass", "M", "payload mass (the canopy's fabric is added with --areal-mass)"),
+    SR_OPT_FOR("altitude", "Z",
+               "where mass, diameter, temp-offset and speed rows are evaluated (default: the ground)"),
+    SR_OPT_FOR("body-drag-area", "A", "payload drag area CdA added to each canopy's"),
+    SR_OPT_FOR("mission", "FILE",
+               "mass (all sections), site, and every stage's canopy as a curve; --family options replace the "
+               "stages"),
+    SR_OPT_TEXT("Several canopies: each --family ID (or --canopy FILE) starts a canopy, and the size, drag and "
+                "cluster options that follow it, up to the next --family or --canopy, belong to it; e.g.\n"
+                "  --family cross --nominal-diameter 0.9m --family conical --nominal-diameter 2.2m\n"
+                "At most 8 canopies and 8 --by values."),
+    SR_OPT_HEADING("What the figure shows (with --plot):"),
+    SR_OPT_STRING("figure", "rate|time|both", sweep_opts, figure,
+                  "altitude sweeps: altitude (vertical) against descent rate, descent time against deployment "
+                  "altitude, or both side by side (default both)"),
+    SR_OPT_STRING("mark-speed", "V,...", sweep_opts, mark_speed,
+                  "marker lines at these speeds (a touchdown-speed limit)"),
+    SR_OPT_STRING("mark-altitude", "Z,...", sweep_opts, mark_altitude,
+                  "marker lines at these altitudes above sea level"),
+    SR_OPT_GROUP_CALL(sr_cli_group_canopy, take_canopy, SR_OPT_REPEAT),
+    SR_OPT_GROUP(sr_cli_group_atmos, sweep_opts, atmos),
+    SR_OPT_CLI_GROUP(sr_cli_group_plot),
+    SR_OPT_CLI_GROUP(sr_cli_group_output),
+    SR_OPT_END};
+
+/* the tables of its output, for --table ("values": its single values) */
+static const char *const TABLES[] = {"values", "sweep", NULL};
+
+static int run_sweep(sr_cli *c, int argc, char **argv);
+
+const sr_command sr_cmd_sweep = {
+    .name = "sweep",
+    .summary = "a table and figure over altitude, mass, diameter, temperature or site",
+    .usage = "usage: sinkrate sweep [--vary VAR] (--from X --to X --step X | --values X,...) [--by VAR=X,...]\n"
+             "                      --mass M --family ID --nominal-diameter D [--family ID ...] [options]\n"
+             "       sinkrate sweep --mission FILE [--vary VAR ...] [options]\n",
+    .about = "A table of the equilibrium descent rate (low / typical / high from the drag range), air density, "
+             "dynamic pressure and Mach number over one variable, one row per value and one curve per canopy (and "
+             "per --by value); --plot draws it.",
+    .options = OPTS,
+    .tables = TABLES,
+    .run = run_sweep,
+};
 
 /* ---- progress on a terminal ---- */
 
@@ -307,7 +264,7 @@ static int load_case(run *R)
     sr_error e;
     int rc;
     if ((rc = sr_cli_catalog(c, &R->cat)) ||
-        (rc = sr_cli_mission(c, o->mission, R->cat, &o->atmos, &R->mis, &R->atm, &R->ground)))
+        (rc = sr_cli_mission(c, o->payload.mission, R->cat, &o->atmos, &R->mis, &R->atm, &R->ground)))
         return rc;
     R->mass = R->mis ? sr_mission_total_mass(R->mis) : NAN;
     int sized_by_sweep = uses(R, SR_SWEEP_DIAMETER) || R->var == SR_SWEEP_SPEED;
@@ -342,24 +299,22 @@ static int load_case(run *R)
         canopy_label(R->labels[i], sizeof R->labels[i], &R->canopies[i], R->stage_names[i], !sized_by_sweep, c->units);
 
     if (uses(R, SR_SWEEP_MASS)) {
-        if (o->mass)
+        if (o->payload.mass)
             return sr_cli_fail(c, "--mass: the sweep sets the mass; drop --mass");
         R->mass = 1.0; /* replaced row by row */
-    } else if ((rc = sr_cli_mass(c, o->mass, "the payload mass", &R->mass))) {
+    } else if ((rc = sr_cli_mass(c, o->payload.mass, "the payload mass", &R->mass))) {
         return rc;
     }
     R->body = 0.0;
-    if (o->body && (rc = sr_cli_quantity(c, "--body-drag-area", o->body, SR_Q_AREA, 0, &R->body)))
+    if ((rc = sr_cli_body_drag(c, o->payload.body, &R->body)))
         return rc;
-    if (R->body < 0)
-        return sr_cli_fail(c, "--body-drag-area: must be zero or positive");
     R->altitude = NAN;
-    if (o->altitude) {
+    if (o->payload.altitude) {
         if (uses(R, SR_SWEEP_ALTITUDE))
             return sr_cli_fail(c, "--altitude: the sweep sets the altitude; drop --altitude");
         if (uses(R, SR_SWEEP_SITE_ELEVATION))
             return sr_cli_fail(c, "--altitude: a site-elevation sweep evaluates at each site's ground; drop --altitude");
-        if ((rc = sr_cli_quantity(c, "--altitude", o->altitude, SR_Q_LENGTH, 0, &R->altitude)))
+        if ((rc = sr_cli_quantity(c, "--altitude", o->payload.altitude, SR_Q_LENGTH, 0, &R->altitude)))
             return rc;
         sr_air a;
         if (sr_atmos_at(&R->atm, R->altitude, &a, &e))
@@ -1065,7 +1020,7 @@ static int marks(run *R)
     return 0;
 }
 
-int sr_cmd_sweep(sr_cli *c, int argc, char **argv)
+static int run_sweep(sr_cli *c, int argc, char **argv)
 {
     run *R = calloc(1, sizeof *R);
     if (!R)
@@ -1073,15 +1028,7 @@ int sr_cmd_sweep(sr_cli *c, int argc, char **argv)
     R->c = c;
     sr_atmos_init_standard(&R->atm);
     sr_report *r = NULL;
-    char help[sizeof HELP + 4096];
-    snprintf(help, sizeof help, "%s%s\n%s\n%s\n%s", HELP, SR_HELP_CANOPY, SR_HELP_ATMOS, SR_HELP_PLOT, SR_HELP_OUTPUT);
-    /* several canopies: --family/--canopy start each, and take() refuses a
-     * canopy option given twice for the same one */
-    static const int REPEATABLE[] = {OPT_FAMILY,          OPT_CANOPY,        OPT_NOMINAL_DIAMETER, OPT_PROJECTED_DIAMETER,
-                                     OPT_FLAT_DIAMETER,   OPT_NOMINAL_AREA,  OPT_CLUSTER,          OPT_CLUSTER_FACTOR,
-                                     OPT_AREAL_MASS,      OPT_DRAG_COEFFICIENT, OPT_DRAG_REFERENCE, 0};
-    c->repeatable = REPEATABLE;
-    int rc = sr_cli_parse(c, argc, argv, OPTS, take, &R->o, help, NULL);
+    int rc = sr_cli_parse_options(c, argc, argv, &R->o, NULL);
     if (rc)
         goto out;
     R->var = SR_SWEEP_ALTITUDE;
@@ -1133,7 +1080,7 @@ out:
     free(R->xs);
     free(R->rows);
     free(R->curves);
-    sr_atmos_free(&R->atm);
+    sr_atmos_release(&R->atm);
     sr_cli_mission_free(R->mis);
     free(R->cat);
     free(R);

@@ -20,41 +20,174 @@
 #include "output/plot.h"
 #include "files/mission.h"
 #include "files/yamldoc.h"
+#include "files/sounding.h"
 
-const char SR_HELP_OUTPUT[] =
-    "Output:\n"
-    "  --format text|csv|json   output format (default text)\n"
-    "  --units si|us            SI (default) or US customary units (ft, lb, ft/s, lbf)\n"
-    "  -o, --output FILE        write to FILE instead of standard output; every file a run\n"
-    "                           writes is put in place only when the whole run succeeds\n"
-    "  --table NAME             only this table of the output (with the caution and the\n"
-    "                           warnings): one clean table for a spreadsheet; names below\n"
-    "  --data DIR               your canopy families (DIR/canopies/*.yaml or DIR/*.yaml) in\n"
-    "                           front of the built-in catalog; repeatable, the first wins;\n"
-    "                           $SINKRATE_PATH (DIR:DIR...) adds more after them\n"
-    "  -h, --help               this help\n";
+/* ---- the shared option groups ---- */
 
-const char SR_HELP_ATMOS[] =
-    "Atmosphere (default: U.S. Standard Atmosphere 1976):\n"
-    "  --temp-offset DT         hot or cold day: temperature + DT at standard pressure (\"15 C\")\n"
-    "  --site-elevation Z       site model: ground elevation above sea level\n"
-    "  --surface-temp T         site model: measured surface temperature (\"35 C\", \"95 F\")\n"
-    "  --surface-pressure P     site model: measured surface (station) pressure (\"850 hPa\")\n"
-    "  --sounding FILE          CSV sounding: altitude, temperature, pressure columns with units\n";
+static int take_format(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    if (strcmp(arg, "text") == 0)
+        c->format = SR_FMT_TEXT;
+    else if (strcmp(arg, "csv") == 0)
+        c->format = SR_FMT_CSV;
+    else if (strcmp(arg, "json") == 0)
+        c->format = SR_FMT_JSON;
+    else
+        return sr_cli_fail(c, "--format: '%s' is not one of text, csv, json", arg);
+    return 0;
+}
 
-const char SR_HELP_CANOPY[] =
-    "Canopy:\n"
-    "  --family ID              catalog family (sinkrate canopies lists them)\n"
-    "  --nominal-diameter D     size as nominal diameter D0 (from S0, vent included)\n"
-    "  --projected-diameter D   size as inflated projected diameter Dp (converted by Dp/D0)\n"
-    "  --flat-diameter D        size as flat (constructed) diameter Dc (converted by Dc/D0)\n"
-    "  --nominal-area S         size as nominal area S0\n"
-    "  --drag-coefficient CD    measured drag coefficient instead of the family range;\n"
-    "  --drag-reference REF     ... and its reference area: nominal, projected or constructed\n"
-    "  --canopy FILE            a canopy file (family, size, measured drag) instead of the above\n"
-    "  --cluster N              N identical canopies (default 1)\n"
-    "  --cluster-factor K       drag per canopy in the cluster over single (default by N, from memory)\n"
-    "  --areal-mass W           canopy mass per nominal area (\"40 g/m2\"); its weight then counts\n";
+static int take_units(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    if (strcmp(arg, "si") == 0)
+        c->units = SR_UNITS_SI;
+    else if (strcmp(arg, "us") == 0)
+        c->units = SR_UNITS_US;
+    else
+        return sr_cli_fail(c, "--units: '%s' is not one of si, us", arg);
+    return 0;
+}
+
+static int take_table(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    if (!sr_cli_table_known(c->cmd, arg)) {
+        char names[512];
+        const char *const *t = sr_cli_tables(c->cmd);
+        const char *s = t ? sr_yaml_suggest(arg, t) : NULL;
+        sr_cli_tables_list(c->cmd, names, sizeof names);
+        if (s)
+            return sr_cli_fail(c, "--table: %s has no table '%s'; did you mean '%s'?", c->cmd, arg, s);
+        return sr_cli_fail(c, "--table: %s has no table '%s' (its tables: %s)", c->cmd, arg, names);
+    }
+    c->table = arg;
+    return 0;
+}
+
+static int take_data(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    if (c->ndata >= (int)(sizeof c->data_dirs / sizeof c->data_dirs[0]))
+        return sr_cli_fail(c, "--data: at most %d directories", c->ndata);
+    c->data_dirs[c->ndata++] = arg;
+    return 0;
+}
+
+static int take_threads(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    long t = 0;
+    int rc = sr_cli_count(c, "--threads", arg, 0, 256, &t);
+    if (rc)
+        return rc;
+    c->threads = (int)t;
+    return 0;
+}
+
+static int take_seed(sr_cli *c, const sr_opt *o, const char *arg, void *place)
+{
+    (void)o;
+    (void)place;
+    char *end;
+    if (!arg[0] || arg[0] == '-')
+        return sr_cli_fail(c, "--seed: '%s' is not a whole number >= 0", arg);
+    unsigned long long s = strtoull(arg, &end, 10);
+    if (*end || s > 0xffffffffULL)
+        return sr_cli_fail(c, "--seed: '%s' is not a whole number from 0 to 4294967295", arg);
+    c->seed = (unsigned long)s;
+    c->seed_set = 1;
+    return 0;
+}
+
+const sr_opt sr_cli_group_output[] = {
+    SR_OPT_HEADING("Output:"),
+    {.type = SR_OPTION_CALL, .name = "format", .value = "text|csv|json", .call = take_format, .flags = SR_OPT_IN_CLI,
+     .help = "output format (default text)"},
+    {.type = SR_OPTION_CALL, .name = "units", .value = "si|us", .call = take_units, .flags = SR_OPT_IN_CLI,
+     .help = "SI (default) or US customary units (ft, lb, ft/s, lbf)"},
+    {.type = SR_OPTION_STRING, .short_name = 'o', .name = "output", .value = "FILE", .offset = offsetof(sr_cli, output),
+     .flags = SR_OPT_IN_CLI,
+     .help = "write to FILE instead of standard output; every file a run writes is put in place only when the "
+             "whole run succeeds"},
+    {.type = SR_OPTION_CALL, .name = "table", .value = "NAME", .call = take_table, .flags = SR_OPT_IN_CLI,
+     .help = "only this table of the output (with the caution and the warnings): one clean table for a "
+             "spreadsheet; names below"},
+    {.type = SR_OPTION_CALL, .name = "data", .value = "DIR", .call = take_data, .flags = SR_OPT_IN_CLI | SR_OPT_REPEAT,
+     .help = "your canopy families (DIR/canopies/*.yaml or DIR/*.yaml) in front of the built-in catalog; "
+             "repeatable, the first wins; $SINKRATE_PATH (DIR:DIR...) adds more after them"},
+    {.type = SR_OPTION_HELP, .short_name = 'h', .name = "help", .help = "this help"},
+    SR_OPT_END};
+
+const sr_opt sr_cli_group_run[] = {
+    {.type = SR_OPTION_CALL, .name = "seed", .value = "N", .call = take_seed, .flags = SR_OPT_IN_CLI,
+     .help = "seed of the random streams (default 1)"},
+    {.type = SR_OPTION_CALL, .name = "threads", .value = "N", .call = take_threads, .flags = SR_OPT_IN_CLI,
+     .help = "threads (default 0: all cores)"},
+    SR_OPT_END};
+
+const sr_opt sr_cli_group_atmos[] = {
+    SR_OPT_HEADING("Atmosphere (default: U.S. Standard Atmosphere 1976):"),
+    SR_OPT_STRING("temp-offset", "DT", sr_atmos_opts, temp_offset,
+                  "hot or cold day: temperature + DT at standard pressure (\"15 C\")"),
+    SR_OPT_STRING("site-elevation", "Z", sr_atmos_opts, site_elevation,
+                  "site model: ground elevation above sea level"),
+    SR_OPT_STRING("surface-temp", "T", sr_atmos_opts, surface_temp,
+                  "site model: measured surface temperature (\"35 C\", \"95 F\")"),
+    SR_OPT_STRING("surface-pressure", "P", sr_atmos_opts, surface_pressure,
+                  "site model: measured surface (station) pressure (\"850 hPa\")"),
+    SR_OPT_STRING("sounding", "FILE", sr_atmos_opts, sounding,
+                  "CSV sounding: altitude, temperature, pressure columns with units"),
+    SR_OPT_END};
+
+const sr_opt sr_cli_group_canopy[] = {
+    SR_OPT_HEADING("Canopy:"),
+    SR_OPT_STRING("family", "ID", sr_canopy_opts, family, "catalog family (sinkrate canopies lists them)"),
+    SR_OPT_STRING("nominal-diameter", "D", sr_canopy_opts, nominal_diameter,
+                  "size as nominal diameter D0 (from S0, vent included)"),
+    SR_OPT_STRING("projected-diameter", "D", sr_canopy_opts, projected_diameter,
+                  "size as inflated projected diameter Dp (converted by Dp/D0)"),
+    SR_OPT_STRING("flat-diameter", "D", sr_canopy_opts, flat_diameter,
+                  "size as flat (constructed) diameter Dc (converted by Dc/D0)"),
+    SR_OPT_STRING("nominal-area", "S", sr_canopy_opts, nominal_area, "size as nominal area S0"),
+    SR_OPT_STRING("drag-coefficient", "CD", sr_canopy_opts, drag_coefficient,
+                  "measured drag coefficient instead of the family range, with --drag-reference"),
+    SR_OPT_STRING("drag-reference", "REF", sr_canopy_opts, drag_reference,
+                  "the reference area of --drag-coefficient: nominal, projected or constructed"),
+    SR_OPT_STRING("canopy", "FILE", sr_canopy_opts, canopy,
+                  "a canopy file (family, size, measured drag) instead of the above"),
+    SR_OPT_STRING("cluster", "N", sr_canopy_opts, cluster, "N identical canopies (default 1)"),
+    SR_OPT_STRING("cluster-factor", "K", sr_canopy_opts, cluster_factor,
+                  "drag per canopy in the cluster over single (default by N, from memory)"),
+    SR_OPT_STRING("areal-mass", "W", sr_canopy_opts, areal_mass,
+                  "canopy mass per nominal area (\"40 g/m2\"); its weight then counts"),
+    SR_OPT_END};
+
+const sr_opt sr_cli_group_payload[] = {
+    SR_OPT_STRING("mass", "M", sr_payload_opts, mass, "payload mass, without the canopy (\"4.2 kg\", \"9 lb\")"),
+    SR_OPT_STRING("altitude", "Z", sr_payload_opts, altitude,
+                  "altitude above sea level (default: the ground, the site elevation or 0)"),
+    SR_OPT_STRING("body-drag-area", "A", sr_payload_opts, body,
+                  "payload drag area CdA counted with the canopy's (\"0.02 m2\")"),
+    SR_OPT_STRING("mission", "FILE", sr_payload_opts, mission,
+                  "mass (all sections), site and canopies from a mission file"),
+    SR_OPT_END};
+
+int sr_cli_body_drag(sr_cli *c, const char *text, double *area)
+{
+    int rc;
+    if (text && (rc = sr_cli_quantity(c, "--body-drag-area", text, SR_Q_AREA, 0, area)))
+        return rc;
+    if (*area < 0)
+        return sr_cli_fail(c, "--body-drag-area: must be zero or positive");
+    return 0;
+}
 
 int sr_cli_fail(sr_cli *c, const char *fmt, ...)
 {
@@ -78,10 +211,12 @@ void sr_cli_help(sr_cli *c, const char *text)
 {
     fputs(text, c->out);
     fputc('\n', c->out);
-    fputs("Quantities take a unit (\"2.5 kg\", \"36in\", \"18 ft/s\", \"31 C\"); a bare number is SI\n"
-          "(kg, m, m/s, K, Pa), except angles, which are degrees. Under --units us a bare\n"
-          "number is refused (0 excepted): give the unit. Files always need units.\n\n",
-          c->out);
+    sr_cli_wrap(c->out,
+                "Quantities take a unit (\"2.5 kg\", \"36in\", \"18 ft/s\", \"31 C\"); a bare number is SI (kg, m, "
+                "m/s, K, Pa), except angles, which are degrees. Under --units us a bare number is refused (0 "
+                "excepted): give the unit. Files always need units.",
+                0, 0);
+    fputc('\n', c->out);
     /* the caution belongs in every help text */
     const char *p = sr_report_caution();
     size_t col = 0;
@@ -104,275 +239,6 @@ void sr_cli_help(sr_cli *c, const char *text)
     fputc('\n', c->out);
 }
 
-static int has_option(const struct option *opts, int code)
-{
-    for (const struct option *o = opts; o->name; o++)
-        if (o->val == code)
-            return 1;
-    return 0;
-}
-
-/* A command's own help, then the option groups it accepts (unless its text
- * already lists the group's first option), so every --help shows every option. */
-static void help_with_groups(sr_cli *c, const char *help, const struct option *opts)
-{
-    size_t len = strlen(help) + sizeof SR_HELP_CANOPY + sizeof SR_HELP_ATMOS + sizeof SR_HELP_OUTPUT + 2048;
-    char *buf = malloc(len);
-    if (!buf) {
-        sr_cli_help(c, help);
-        return;
-    }
-    snprintf(buf, len, "%s", help);
-    struct {
-        int code;
-        const char *text, *heading;
-    } G[] = {{OPT_FAMILY, SR_HELP_CANOPY, "\n  --family"},
-             {OPT_TEMP_OFFSET, SR_HELP_ATMOS, "\n  --temp-offset"},
-             {OPT_PLOT, SR_HELP_PLOT, "\n  --plot "},
-             {OPT_FORMAT, SR_HELP_OUTPUT, "\n  --format"}};
-    for (size_t i = 0; i < sizeof G / sizeof G[0]; i++) {
-        if (!has_option(opts, G[i].code) || strstr(help, G[i].heading))
-            continue;
-        size_t l = strlen(buf);
-        snprintf(buf + l, len - l, "%s%s", l && buf[l - 1] == '\n' && (l < 2 || buf[l - 2] != '\n') ? "\n" : "",
-                 G[i].text);
-    }
-    /* the tables --table can pick */
-    if (has_option(opts, OPT_TABLE) && sr_cli_tables(c->cmd)) {
-        char names[512];
-        sr_cli_tables_list(c->cmd, names, sizeof names);
-        size_t l = strlen(buf);
-        snprintf(buf + l, len - l, "%sTables of its output (--table NAME): %s\n",
-                 l && buf[l - 1] == '\n' && (l < 2 || buf[l - 2] != '\n') ? "\n" : "", names);
-    }
-    sr_cli_help(c, buf);
-    free(buf);
-}
-
-static const char *option_suggestion(const struct option *opts, const char *bad)
-{
-    const char *names[256];
-    size_t n = 0;
-    for (const struct option *o = opts; o->name && n < 255; o++)
-        names[n++] = o->name;
-    names[n] = NULL;
-    return sr_yaml_suggest(bad, names);
-}
-
-/* How the user writes the option of code: "-o", "--mass". */
-static const char *option_name(const struct option *opts, int code)
-{
-    static const char *const SHORT[] = {"-o", "-n", "--help"};
-    if (code == 'o' || code == 'n' || code == 'h')
-        return SHORT[code == 'o' ? 0 : code == 'n' ? 1 : 2];
-    static char buf[64];
-    for (const struct option *o = opts; o->name; o++)
-        if (o->val == code) {
-            snprintf(buf, sizeof buf, "--%s", o->name);
-            return buf;
-        }
-    return "an option";
-}
-
-static int repeatable(const sr_cli *c, int code)
-{
-    for (const int *r = c->repeatable; r && *r; r++)
-        if (*r == code)
-            return 1;
-    return 0;
-}
-
-int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
-                 const char *help, int *first_arg)
-{
-    if (c->list_options) { /* the option table itself, for the shell completion (cli.c) */
-        fputs("-h 0\n-o 1\n", c->out);
-        for (const char *s = c->short_opts; s && *s; s++)
-            if (*s != ':')
-                fprintf(c->out, "-%c %d\n", *s, s[1] == ':');
-        for (const struct option *o = opts; o->name; o++)
-            fprintf(c->out, "--%s %d\n", o->name, o->has_arg != no_argument);
-        return -1;
-    }
-    optind = 0; /* GNU: full re-initialisation, so in-process calls can repeat */
-    opterr = 0;
-    /* a leading ':' makes a missing value ':' (not '?'), so it is named as such */
-    char shorts[32];
-    snprintf(shorts, sizeof shorts, ":ho:%s", c->short_opts ? c->short_opts : "");
-    /* options given once only: a second value would silently replace the first */
-    struct {
-        int code;
-        const char *arg;
-    } seen[64];
-    size_t nseen = 0;
-    int code;
-    while ((code = getopt_long(argc, argv, shorts, opts, NULL)) != -1) {
-        if (code != '?' && code != ':' && optarg && !repeatable(c, code) && code != OPT_DATA) {
-            for (size_t k = 0; k < nseen; k++)
-                if (seen[k].code == code)
-                    return sr_cli_fail(c, "%s: given twice ('%s', then '%s'); give it once", option_name(opts, code),
-                                       seen[k].arg, optarg);
-            if (nseen < sizeof seen / sizeof seen[0]) {
-                seen[nseen].code = code;
-                seen[nseen++].arg = optarg;
-            }
-        }
-        switch (code) {
-        case 'h':
-            help_with_groups(c, help, opts);
-            return -1;
-        case 'o':
-            c->output = optarg;
-            break;
-        case OPT_FORMAT:
-            if (strcmp(optarg, "text") == 0)
-                c->format = SR_FMT_TEXT;
-            else if (strcmp(optarg, "csv") == 0)
-                c->format = SR_FMT_CSV;
-            else if (strcmp(optarg, "json") == 0)
-                c->format = SR_FMT_JSON;
-            else
-                return sr_cli_fail(c, "--format: '%s' is not one of text, csv, json", optarg);
-            break;
-        case OPT_UNITS:
-            if (strcmp(optarg, "si") == 0)
-                c->units = SR_UNITS_SI;
-            else if (strcmp(optarg, "us") == 0)
-                c->units = SR_UNITS_US;
-            else
-                return sr_cli_fail(c, "--units: '%s' is not one of si, us", optarg);
-            break;
-        case OPT_DATA:
-            if (c->ndata >= (int)(sizeof c->data_dirs / sizeof c->data_dirs[0]))
-                return sr_cli_fail(c, "--data: at most %d directories", c->ndata);
-            c->data_dirs[c->ndata++] = optarg;
-            break;
-        case OPT_TABLE:
-            if (!sr_cli_table_known(c->cmd, optarg)) {
-                char names[512];
-                const char *const *t = sr_cli_tables(c->cmd);
-                const char *s = t ? sr_yaml_suggest(optarg, t) : NULL;
-                sr_cli_tables_list(c->cmd, names, sizeof names);
-                if (s)
-                    return sr_cli_fail(c, "--table: %s has no table '%s'; did you mean '%s'?", c->cmd, optarg, s);
-                return sr_cli_fail(c, "--table: %s has no table '%s' (its tables: %s)", c->cmd, optarg, names);
-            }
-            c->table = optarg;
-            break;
-        case OPT_PLOT:
-            if (!*optarg)
-                return sr_cli_fail(c, "--plot: empty file prefix");
-            c->plot_prefix = optarg;
-            break;
-        case OPT_PLOT_FORMAT:
-            if (strcmp(optarg, "png") != 0 && strcmp(optarg, "svg") != 0)
-                return sr_cli_fail(c, "--plot-format: '%s' is not one of png, svg", optarg);
-            c->plot_format = optarg;
-            break;
-        case OPT_PLOT_SIZE: {
-            int w, h, used = 0;
-            if (sscanf(optarg, "%dx%d%n", &w, &h, &used) != 2 || optarg[used] || w < 200 || h < 150 || w > 10000 ||
-                h > 10000)
-                return sr_cli_fail(c, "--plot-size: '%s' is not WIDTHxHEIGHT in pixels (200x150 .. 10000x10000)",
-                                   optarg);
-            c->plot_width = w;
-            c->plot_height = h;
-            break;
-        }
-        case OPT_THREADS: {
-            long t;
-            int rc = sr_cli_count(c, "--threads", optarg, 0, 256, &t);
-            if (rc)
-                return rc;
-            c->threads = (int)t;
-            break;
-        }
-        case OPT_SEED: {
-            char *end;
-            if (!optarg[0] || optarg[0] == '-')
-                return sr_cli_fail(c, "--seed: '%s' is not a whole number >= 0", optarg);
-            unsigned long long s = strtoull(optarg, &end, 10);
-            if (*end || s > 0xffffffffULL)
-                return sr_cli_fail(c, "--seed: '%s' is not a whole number from 0 to 4294967295", optarg);
-            c->seed = (unsigned long)s;
-            c->seed_set = 1;
-            break;
-        }
-        case '?': {
-            const char *bad = argv[optind - 1];
-            if (optopt && optopt < 256 && bad[0] == '-' && bad[1] != '-')
-                return sr_cli_fail(c, "unknown option '-%c' (see --help)", optopt);
-            if (optopt) /* a long option that takes no value, given one */
-                return sr_cli_fail(c, "%s takes no value (got '%s')", option_name(opts, optopt), bad);
-            char name[128];
-            snprintf(name, sizeof name, "%s", bad + (bad[0] == '-' ? (bad[1] == '-' ? 2 : 1) : 0));
-            char *eq = strchr(name, '=');
-            if (eq)
-                *eq = '\0';
-            const char *s = option_suggestion(opts, name);
-            if (s)
-                return sr_cli_fail(c, "unknown option '%s'; did you mean '--%s'?", bad, s);
-            return sr_cli_fail(c, "unknown option '%s' (see --help)", bad);
-        }
-        case ':': /* a known option at the end of the line, missing its value */
-            return sr_cli_fail(c, "%s needs a value (see --help)", option_name(opts, optopt));
-        default: {
-            int rc = handle ? handle(c, code, optarg, ud) : 1;
-            if (rc == 1) {
-                for (const struct option *o = opts; o->name; o++)
-                    if (o->val == code)
-                        return sr_cli_fail(c, "--%s is not used by this command", o->name);
-                return sr_cli_fail(c, "unexpected option");
-            }
-            if (rc)
-                return rc;
-        }
-        }
-    }
-    /* the outputs before any work: a bad one fails first, with one line,
-     * and nothing is computed; each gets its temporary now */
-    int rc;
-    if (c->output && (rc = sr_cli_output(c, "-o", c->output)))
-        return rc;
-    if (c->plot_prefix && (rc = sr_cli_plot_reserve(c, c->plot_prefix)))
-        return rc;
-    if (first_arg)
-        *first_arg = optind;
-    else if (optind < argc)
-        return sr_cli_fail(c, "unexpected argument '%s' (%s takes options only)", argv[optind], c->cmd);
-    return 0;
-}
-
-int sr_cli_take_atmos(sr_atmos_opts *a, int code, const char *arg)
-{
-    switch (code) {
-    case OPT_TEMP_OFFSET: a->temp_offset = arg; return 1;
-    case OPT_SITE_ELEVATION: a->site_elevation = arg; return 1;
-    case OPT_SURFACE_TEMP: a->surface_temp = arg; return 1;
-    case OPT_SURFACE_PRESSURE: a->surface_pressure = arg; return 1;
-    case OPT_SOUNDING: a->sounding = arg; return 1;
-    }
-    return 0;
-}
-
-int sr_cli_take_canopy(sr_canopy_opts *o, int code, const char *arg)
-{
-    switch (code) {
-    case OPT_FAMILY: o->family = arg; return 1;
-    case OPT_CANOPY: o->canopy = arg; return 1;
-    case OPT_NOMINAL_DIAMETER: o->nominal_diameter = arg; return 1;
-    case OPT_PROJECTED_DIAMETER: o->projected_diameter = arg; return 1;
-    case OPT_FLAT_DIAMETER: o->flat_diameter = arg; return 1;
-    case OPT_NOMINAL_AREA: o->nominal_area = arg; return 1;
-    case OPT_CLUSTER: o->cluster = arg; return 1;
-    case OPT_CLUSTER_FACTOR: o->cluster_factor = arg; return 1;
-    case OPT_AREAL_MASS: o->areal_mass = arg; return 1;
-    case OPT_DRAG_COEFFICIENT: o->drag_coefficient = arg; return 1;
-    case OPT_DRAG_REFERENCE: o->drag_reference = arg; return 1;
-    }
-    return 0;
-}
-
 /* An example unit for a bare number under --units us: inches for sizes, the
  * US display unit otherwise. */
 static const char *us_example_unit(const char *opt, sr_quantity q)
@@ -391,7 +257,7 @@ int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q,
      * it; angles are degrees in both systems, dimensionless numbers have no unit, and a bare
      * zero is zero in every unit of a quantity without an offset (absolute temperature has one) */
     if (c->units == SR_UNITS_US && q != SR_Q_NONE && q != SR_Q_ANGLE &&
-        sr_units_parse_strict(text, q, out, &e) != SR_OK && strstr(e.msg, "needs a unit") &&
+        sr_units_parse_strict(text, q, out, &e) != SR_OK && strcmp(e.key, "unit") == 0 &&
         !(q != SR_Q_TEMP && sr_units_parse(text, q, out, NULL) == SR_OK && *out == 0.0)) {
         char num[64];
         snprintf(num, sizeof num, "%s", text + strspn(text, " \t"));
@@ -486,7 +352,7 @@ int sr_cli_mission(sr_cli *c, const char *path, const sr_catalog *cat, const sr_
 void sr_cli_mission_free(sr_mission *mis)
 {
     if (mis) {
-        sr_mission_free(mis);
+        sr_mission_release(mis);
         free(mis);
     }
 }
@@ -503,7 +369,7 @@ int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground)
         int rc = sr_cli_input(c, "--sounding", a->sounding);
         if (rc)
             return rc;
-        if (sr_atmos_load_sounding(m, a->sounding, &e))
+        if (sr_sounding_load(m, a->sounding, &e))
             return sr_cli_fail(c, "--sounding: %s", e.msg);
         double lo, hi;
         sr_atmos_range(m, &lo, &hi);
@@ -534,9 +400,9 @@ int sr_cli_atmos(sr_cli *c, const sr_atmos_opts *a, sr_atmos *m, double *ground)
             return rc;
         if (sr_atmos_init_site(m, z, T, p, &e))
             return sr_cli_fail(c, "%s: %s",
-                               e.code == SR_EDOMAIN ? "--site-elevation"
-                               : isnan(p) || (!isnan(T) && strstr(e.msg, "temperature")) ? "--surface-temp"
-                                                                                           : "--surface-pressure",
+                               strcmp(e.key, "elevation") == 0     ? "--site-elevation"
+                               : strcmp(e.key, "temperature") == 0 ? "--surface-temp"
+                                                                   : "--surface-pressure",
                                e.msg);
         *ground = z;
     }

@@ -1,58 +1,37 @@
-/* common.h - what the subcommands share: option groups (output, atmosphere,
- * canopy), parsing quantities with the option name in errors, loading the
+/* common.h - what the subcommands share: option groups (output, payload,
+ * atmosphere, canopy), parsing quantities with the option name in errors, loading the
  * catalog, and the run's outputs (through its transaction, output/txn.h). */
 #ifndef SR_CLI_COMMON_H
 #define SR_CLI_COMMON_H
 
-#include <getopt.h>
 #include <stddef.h>
 
 #include "physics/atmos.h"
 #include "physics/canopy.h"
 #include "files/catalog.h"
 #include "cli/cli.h"
+#include "cli/options.h"
 #include "output/report.h"
 
-/* Option codes for long-only options. */
-enum {
-    OPT_FORMAT = 1000, OPT_UNITS, OPT_OUTPUT, OPT_DATA, OPT_PLOT, OPT_PLOT_FORMAT, OPT_THREADS, OPT_SEED, OPT_HELP,
-    /* atmosphere */
-    OPT_TEMP_OFFSET, OPT_SITE_ELEVATION, OPT_SURFACE_TEMP, OPT_SURFACE_PRESSURE, OPT_SOUNDING,
-    /* canopy */
-    OPT_FAMILY, OPT_CANOPY, OPT_NOMINAL_DIAMETER, OPT_PROJECTED_DIAMETER, OPT_FLAT_DIAMETER, OPT_NOMINAL_AREA,
-    OPT_CLUSTER, OPT_CLUSTER_FACTOR, OPT_AREAL_MASS, OPT_DRAG_COEFFICIENT, OPT_DRAG_REFERENCE,
-    OPT_PLOT_SIZE, OPT_TABLE,
-    /* first free code for a command's own options */
-    OPT_COMMAND_BASE = 1100
-};
+/* ---- the shared option groups (cli/options.h), each declared once ---- */
 
-#define SR_OPTS_OUTPUT                                                                                        \
-    {"format", required_argument, NULL, OPT_FORMAT}, {"units", required_argument, NULL, OPT_UNITS},           \
-        {"output", required_argument, NULL, 'o'}, {"data", required_argument, NULL, OPT_DATA},                \
-        {"table", required_argument, NULL, OPT_TABLE}, {"help", no_argument, NULL, 'h'}
+/* Output: --format, --units, -o, --table, --data, -h (into sr_cli). */
+extern const sr_opt sr_cli_group_output[];
+/* --seed, --threads of a Monte Carlo run (into sr_cli). */
+extern const sr_opt sr_cli_group_run[];
+/* Atmosphere: --temp-offset, --site-elevation, --surface-temp,
+ * --surface-pressure, --sounding (into sr_atmos_opts). */
+extern const sr_opt sr_cli_group_atmos[];
+/* Canopy: --family, the sizes, the measured drag, --canopy, the cluster,
+ * --areal-mass (into sr_canopy_opts). */
+extern const sr_opt sr_cli_group_canopy[];
+/* The case: --mass, --altitude, --body-drag-area, --mission (into
+ * sr_payload_opts); a command says with SR_OPT_FOR what each means there. */
+extern const sr_opt sr_cli_group_payload[];
 
-#define SR_OPTS_PLOT                                                                                          \
-    {"plot", required_argument, NULL, OPT_PLOT}, {"plot-format", required_argument, NULL, OPT_PLOT_FORMAT},   \
-        {"plot-size", required_argument, NULL, OPT_PLOT_SIZE}
-
-#define SR_OPTS_ATMOS                                                                                         \
-    {"temp-offset", required_argument, NULL, OPT_TEMP_OFFSET},                                                \
-        {"site-elevation", required_argument, NULL, OPT_SITE_ELEVATION},                                      \
-        {"surface-temp", required_argument, NULL, OPT_SURFACE_TEMP},                                          \
-        {"surface-pressure", required_argument, NULL, OPT_SURFACE_PRESSURE},                                  \
-        {"sounding", required_argument, NULL, OPT_SOUNDING}
-
-#define SR_OPTS_CANOPY                                                                                        \
-    {"family", required_argument, NULL, OPT_FAMILY}, {"canopy", required_argument, NULL, OPT_CANOPY},         \
-        {"nominal-diameter", required_argument, NULL, OPT_NOMINAL_DIAMETER},                                  \
-        {"projected-diameter", required_argument, NULL, OPT_PROJECTED_DIAMETER},                              \
-        {"flat-diameter", required_argument, NULL, OPT_FLAT_DIAMETER},                                        \
-        {"nominal-area", required_argument, NULL, OPT_NOMINAL_AREA},                                          \
-        {"cluster", required_argument, NULL, OPT_CLUSTER},                                                    \
-        {"cluster-factor", required_argument, NULL, OPT_CLUSTER_FACTOR},                                      \
-        {"areal-mass", required_argument, NULL, OPT_AREAL_MASS},                                              \
-        {"drag-coefficient", required_argument, NULL, OPT_DRAG_COEFFICIENT},                                  \
-        {"drag-reference", required_argument, NULL, OPT_DRAG_REFERENCE}
+typedef struct sr_payload_opts {
+    const char *mass, *altitude, *body, *mission;
+} sr_payload_opts;
 
 typedef struct sr_atmos_opts {
     const char *temp_offset, *site_elevation, *surface_temp, *surface_pressure, *sounding;
@@ -72,18 +51,9 @@ int sr_cli_fail(sr_cli *c, const char *fmt, ...)
 /* Report a library error with the exit code it deserves (1 impossible, 2 bad input). */
 int sr_cli_fail_err(sr_cli *c, const sr_error *e);
 
-/* getopt_long over opts; calls handle(c, code, optarg, ud) for every option;
- * the common output options are consumed here. Unknown options get a
- * suggestion. Returns 0 to go on, -1 when help was printed (exit 0), or an
- * exit code. *first_arg receives the index of the first operand; first_arg
- * NULL: the command takes options only, and an operand is an error. */
-typedef int (*sr_opt_handler)(sr_cli *c, int code, const char *arg, void *ud);
-int sr_cli_parse(sr_cli *c, int argc, char **argv, const struct option *opts, sr_opt_handler handle, void *ud,
-                 const char *help, int *first_arg);
-
-/* Consume atmosphere and canopy options; return 1 if taken. */
-int sr_cli_take_atmos(sr_atmos_opts *a, int code, const char *arg);
-int sr_cli_take_canopy(sr_canopy_opts *o, int code, const char *arg);
+/* --body-drag-area (text, NULL when not given): a drag area, zero or more,
+ * into *area (left as it is without the option). */
+int sr_cli_body_drag(sr_cli *c, const char *text, double *area);
 
 /* Parse a quantity from option `opt`; positive != 0 requires > 0. */
 int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q, int positive, double *out);
@@ -143,7 +113,7 @@ void sr_cli_report_input_warnings(sr_report *r, const struct sr_input_warnings *
 int sr_cli_emit(sr_cli *c, sr_report *r);
 
 /* Reserve an output file (opt: "-o", "--samples") in the run's transaction
- * before any work; sr_cli_parse does it for -o and --plot. 0 or an exit
+ * before any work; sr_cli_parse_options does it for -o and --plot. 0 or an exit
  * code (one line printed). */
 int sr_cli_output(sr_cli *c, const char *opt, const char *path);
 
@@ -163,10 +133,7 @@ void sr_cli_note(sr_cli *c, const char *fmt, ...)
 #endif
     ;
 
-/* Help text pieces shared by the commands. */
-extern const char SR_HELP_OUTPUT[];
-extern const char SR_HELP_ATMOS[];
-extern const char SR_HELP_CANOPY[];
+/* The end of every help text: how quantities are written, and the caution. */
 void sr_cli_help(sr_cli *c, const char *text);
 
 #endif

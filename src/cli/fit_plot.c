@@ -245,7 +245,7 @@ static int emit(sr_cli *c, sr_plot *p, const char *suffix, int argc, char **argv
     return sr_cli_plot_to(c, p, prefix, argc, argv);
 }
 
-int sr_fit_plots(sr_cli *c, sr_fit_result **res, size_t nlogs, const sr_fit_setup *setups, int argc, char **argv)
+int sr_cli_fit_plots(sr_cli *c, sr_fit_result **res, size_t nlogs, const sr_fit_setup *setups, int argc, char **argv)
 {
     char title[600];
     snprintf(title, sizeof title, "Drag areas from %s%s", base_name(res[0]->path), nlogs > 1 ? " and more" : "");
@@ -286,7 +286,7 @@ int sr_fit_plots(sr_cli *c, sr_fit_result **res, size_t nlogs, const sr_fit_setu
     return 0;
 }
 
-int sr_fit_plot_opening(sr_cli *c, sr_fit_result **res, const sr_fit_setup *setups, const double *acc, int argc,
+int sr_cli_fit_plot_opening(sr_cli *c, sr_fit_result **res, const sr_fit_setup *setups, const double *acc, int argc,
                         char **argv)
 {
     if (!acc)

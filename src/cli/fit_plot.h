@@ -10,9 +10,9 @@
  * point estimate) with the fitted value and the catalog band;
  * PREFIX-opening: the opening force over time, when an opening was measured.
  * Returns an exit code. */
-int sr_fit_plots(sr_cli *c, sr_fit_result **res, size_t nlogs, const sr_fit_setup *setups, int argc, char **argv);
+int sr_cli_fit_plots(sr_cli *c, sr_fit_result **res, size_t nlogs, const sr_fit_setup *setups, int argc, char **argv);
 /* PREFIX-opening from the first log's acceleration column (NULL: none). */
-int sr_fit_plot_opening(sr_cli *c, sr_fit_result **res, const sr_fit_setup *setups, const double *acc, int argc,
+int sr_cli_fit_plot_opening(sr_cli *c, sr_fit_result **res, const sr_fit_setup *setups, const double *acc, int argc,
                         char **argv);
 
 #endif

@@ -16,7 +16,7 @@
 #include "output/report.h"
 #include "physics/geodesy.h"
 
-int sr_maps_write(sr_cli *c, const char *opt, const char *path, const char *data, size_t len)
+int sr_cli_maps_write(sr_cli *c, const char *opt, const char *path, const char *data, size_t len)
 {
     sr_error e;
     (void)opt; /* the transaction's message names the option it was reserved under */
@@ -25,7 +25,7 @@ int sr_maps_write(sr_cli *c, const char *opt, const char *path, const char *data
     return 0;
 }
 
-void sr_maps_report_position(sr_report *r, const sr_mission *m)
+void sr_cli_maps_report_position(sr_report *r, const sr_mission *m)
 {
     if (!m->has_position)
         return;
@@ -35,7 +35,7 @@ void sr_maps_report_position(sr_report *r, const sr_mission *m)
     sr_report_text(r, "launch_point", "launch point", buf);
 }
 
-int sr_maps_need_position(sr_cli *c, const char *opt, const sr_mission *m)
+int sr_cli_maps_need_position(sr_cli *c, const char *opt, const sr_mission *m)
 {
     if (!m->has_position)
         return sr_cli_fail(c, "%s: the mission gives no launch point on the map: add site.latitude and "
@@ -44,7 +44,7 @@ int sr_maps_need_position(sr_cli *c, const char *opt, const sr_mission *m)
     return 0;
 }
 
-int sr_maps_trajectory_format(const sr_cli *c, const char *path)
+int sr_cli_maps_trajectory_format(const sr_cli *c, const char *path)
 {
     size_t l = strlen(path);
     if (l >= 5 && strcmp(path + l - 5, ".json") == 0)
@@ -68,7 +68,7 @@ static const char *event_text(const sr_profile_result *r, const sr_traj_row *w)
     return sr_profile_event_name((sr_event_kind)w->event);
 }
 
-int sr_maps_trajectory(sr_cli *c, const char *path, const sr_mission *m, const sr_profile_ctx *ctx,
+int sr_cli_maps_trajectory(sr_cli *c, const char *path, const sr_mission *m, const sr_profile_ctx *ctx,
                        const sr_map_run *runs, size_t nruns, char **out, size_t *outlen)
 {
     *out = NULL;
@@ -133,7 +133,7 @@ int sr_maps_trajectory(sr_cli *c, const char *path, const sr_mission *m, const s
     if (!rc && !mem)
         rc = sr_cli_fail(c, "out of memory");
     if (!rc) {
-        int w = sr_report_write(rep, mem, (sr_report_format)sr_maps_trajectory_format(c, path), c->units, &e);
+        int w = sr_report_write(rep, mem, (sr_report_format)sr_cli_maps_trajectory_format(c, path), c->units, &e);
         fclose(mem);
         rc = w ? sr_cli_fail(c, "--trajectory: %s", e.msg) : 0;
     }
@@ -268,7 +268,7 @@ static int add_landings(sr_geojson *g, const sr_mission *m, const sr_map_run *ru
     return SR_OK;
 }
 
-int sr_maps_profile_geojson(sr_cli *c, const sr_mission *m, const sr_map_run *runs, size_t nruns, char **buf,
+int sr_cli_maps_profile_geojson(sr_cli *c, const sr_mission *m, const sr_map_run *runs, size_t nruns, char **buf,
                             size_t *len)
 {
     *buf = NULL;
@@ -301,7 +301,7 @@ int sr_maps_profile_geojson(sr_cli *c, const sr_mission *m, const sr_map_run *ru
     return map_finish(c, g, m, buf, len);
 }
 
-int sr_maps_dispersion_geojson(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, const sr_disp_result *res,
+int sr_cli_maps_dispersion_geojson(sr_cli *c, const sr_mission *m, const sr_disp_mission *dm, const sr_disp_result *res,
                                const sr_disp_stats *st, const sr_landing *nom, size_t max_samples, char **buf,
                                size_t *len)
 {

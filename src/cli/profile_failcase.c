@@ -43,7 +43,7 @@ static void body_text(const sr_cli *c, const sr_section *s, char *buf, size_t le
     }
 }
 
-void sr_profile_report_free_drag(sr_report *r, const sr_cli *c, const sr_mission *m)
+void sr_cli_profile_report_free_drag(sr_report *r, const sr_cli *c, const sr_mission *m)
 {
     if (!any_body(m))
         return;
@@ -92,7 +92,7 @@ void sr_profile_report_free_drag(sr_report *r, const sr_cli *c, const sr_mission
                       "(conservative; use drag-area: for a body that should count under the canopy).");
 }
 
-void sr_profile_free_fall_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_profile_result *p,
+void sr_cli_profile_free_fall_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_profile_result *p,
                                    const char *prefix)
 {
     for (size_t i = 0; i < p->nbodies; i++) {
@@ -153,7 +153,7 @@ static void attitude_note(sr_report *r, const sr_mission *m)
                          "for sections marked stable-end-on");
 }
 
-void sr_profile_report_attitudes(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_failcase_result *f)
+void sr_cli_profile_report_attitudes(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_failcase_result *f)
 {
     (void)c;
     if (f->nattitudes < 2)
@@ -173,7 +173,7 @@ void sr_profile_report_attitudes(sr_report *r, const sr_cli *c, const sr_mission
     attitude_note(r, m);
 }
 
-int sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_judge_limits *l,
+int sr_cli_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_judge_limits *l,
                                sr_judge_basis basis)
 {
     if (!m->nfailures)
@@ -292,7 +292,7 @@ int sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission *
         }
         char prefix[160];
         snprintf(prefix, sizeof prefix, "failure case '%s': ", m->failures[i].name);
-        sr_profile_free_fall_warnings(r, c, m, p, prefix);
+        sr_cli_profile_free_fall_warnings(r, c, m, p, prefix);
         for (size_t b = 0; b < p->nbodies; b++) {
             const sr_profile_body *pb = &p->body[b];
             if (pb->no_drag) {

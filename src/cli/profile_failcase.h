@@ -13,12 +13,12 @@
 
 /* The table of each section's drag with no canopy open (drag curve, reference
  * area, source), when any section has a body:. */
-void sr_profile_report_free_drag(sr_report *r, const sr_cli *c, const sr_mission *m);
+void sr_cli_profile_report_free_drag(sr_report *r, const sr_cli *c, const sr_mission *m);
 
 /* Warnings on the bodies of a result that land in free fall: several
  * equilibria at the ground, drag curves used outside their range. `prefix`
  * starts each warning (e.g. "failure case 'no canopy': "), may be "". */
-void sr_profile_free_fall_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_profile_result *p,
+void sr_cli_profile_free_fall_warnings(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_profile_result *p,
                                    const char *prefix);
 
 /* Runs every failure case of the file through the analysis layer (failcase.h:
@@ -27,10 +27,10 @@ void sr_profile_free_fall_warnings(sr_report *r, const sr_cli *c, const sr_missi
  * cases" tables. What-if results: nothing here changes the exit code; a case
  * that cannot be computed becomes a warning. Returns 0 or an exit code (out of
  * memory). */
-int sr_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_judge_limits *l,
+int sr_cli_profile_report_failures(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_judge_limits *l,
                                sr_judge_basis basis);
 
 /* For `profile --fail`: each section's impact speed in every attitude. */
-void sr_profile_report_attitudes(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_failcase_result *f);
+void sr_cli_profile_report_attitudes(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_failcase_result *f);
 
 #endif

@@ -263,14 +263,14 @@ static void track_prefix(const sr_cli *c, char *buf, size_t len)
     snprintf(buf, len, "%s-track", c->plot_prefix);
 }
 
-int sr_profile_plot_reserve(sr_cli *c)
+int sr_cli_profile_plot_reserve(sr_cli *c)
 {
     char tprefix[4096];
     track_prefix(c, tprefix, sizeof tprefix);
     return c->plot_prefix ? sr_cli_plot_reserve(c, tprefix) : 0;
 }
 
-int sr_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, const sr_profile_result *r,
+int sr_cli_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, const sr_profile_result *r,
                     const sr_profile_track *tr, int argc, char **argv)
 {
     plot_ctx P = {c, m, ctx, r, tr, sr_units_label(SR_Q_LENGTH, c->units), sr_units_label(SR_Q_SPEED, c->units)};

@@ -11,10 +11,10 @@
  * track with the wind along it and the drift limit; the wind profile).
  * argv is the command's argument list for the scripts' headers. Returns an
  * exit code. */
-int sr_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, const sr_profile_result *r,
+int sr_cli_profile_plot(sr_cli *c, const sr_mission *m, const sr_profile_ctx *ctx, const sr_profile_result *r,
                     const sr_profile_track *tr, int argc, char **argv);
 
 /* Reserve the second figure's files (PREFIX-track) before any work. */
-int sr_profile_plot_reserve(sr_cli *c);
+int sr_cli_profile_plot_reserve(sr_cli *c);
 
 #endif

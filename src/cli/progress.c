@@ -15,7 +15,7 @@ static double now(void)
     return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
 }
 
-void sr_progress_start(sr_progress *p, FILE *f, size_t n, const char *unit)
+void sr_cli_progress_start(sr_progress *p, FILE *f, size_t n, const char *unit)
 {
     memset(p, 0, sizeof *p);
     p->f = f;
@@ -36,7 +36,7 @@ static void fmt_time(char *buf, size_t len, double s)
         snprintf(buf, len, "%.1f h", s / 3600.0);
 }
 
-void sr_progress_update(sr_progress *p, size_t done)
+void sr_cli_progress_update(sr_progress *p, size_t done)
 {
     if (!p->active || p->n == 0)
         return;
@@ -59,7 +59,7 @@ void sr_progress_update(sr_progress *p, size_t done)
     fflush(p->f);
 }
 
-void sr_progress_end(sr_progress *p)
+void sr_cli_progress_end(sr_progress *p)
 {
     if (!p->active)
         return;

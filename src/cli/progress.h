@@ -14,10 +14,10 @@ typedef struct sr_progress {
     double t0, last;
 } sr_progress;
 
-void sr_progress_start(sr_progress *p, FILE *f, size_t n, const char *unit);
+void sr_cli_progress_start(sr_progress *p, FILE *f, size_t n, const char *unit);
 /* Redraw at most ten times a second; safe to call from any one thread at a time. */
-void sr_progress_update(sr_progress *p, size_t done);
+void sr_cli_progress_update(sr_progress *p, size_t done);
 /* Erase the bar. */
-void sr_progress_end(sr_progress *p);
+void sr_cli_progress_end(sr_progress *p);
 
 #endif

@@ -1,39 +1,20 @@
 /* tables.c - which tables each command writes (the keys its report gives
- * sr_report_table); tests/test_tables.c checks every one against the real
- * output, so this list cannot drift from the commands. */
+ * sr_report_table), from the `tables` list of its sr_command;
+ * tests/test_tables.c checks every one against the real output, so the
+ * lists cannot drift from the commands. */
 #include "cli/tables.h"
+
+#include "cli/commands.h"
 
 #include <ctype.h>
 #include <stdio.h>
 #include <string.h>
 
-typedef struct cmd_tables {
-    const char *cmd;
-    const char *const names[16];
-} cmd_tables;
-
-static const cmd_tables TABLES[] = {
-    {"size", {"values", "rate_of_typical_size", NULL}},
-    {"rate", {"values", "rates", NULL}},
-    {"sweep", {"values", "sweep", NULL}},
-    {"profile",
-     {"values", "sections", "free_fall_drag", "stages", "timeline", "stage_results", "touchdown", "energy", "limits",
-      "attitudes", "failure_case_list", "failure_cases", NULL}},
-    {"loads", {"values", "methods", "stages", "limits", NULL}},
-    {"freefall", {"values", "equilibria", "trace_N", NULL}},
-    {"dispersion", {"values", "uncertainty", "percentiles", "limits", NULL}},
-    {"air", {"values", "atmosphere", NULL}},
-    {"canopies", {"values", "families", NULL}},
-    {"check", {"values", "files", NULL}},
-    {"fit", {"values", "segments", "windows", "drag", "rates", "opening", "wind", "pooled", NULL}},
-    {"design", {"values", "designs", "margins", "limits", "packing", "misses", "pareto", "risk", NULL}},
-};
-
 const char *const *sr_cli_tables(const char *cmd)
 {
-    for (size_t i = 0; cmd && i < sizeof TABLES / sizeof TABLES[0]; i++)
-        if (strcmp(TABLES[i].cmd, cmd) == 0)
-            return TABLES[i].names;
+    for (const sr_command *const *c = sr_cli_commands; cmd && *c; c++)
+        if (strcmp((*c)->name, cmd) == 0)
+            return (*c)->tables;
     return NULL;
 }
 

@@ -32,22 +32,13 @@ void sr_cli_verdict_header(sr_report *r, sr_judge_basis basis)
 
 sr_quantity sr_cli_verdict_quantity(sr_limit_kind k)
 {
-    switch (k) {
-    case SR_JUDGE_SPEED: return SR_Q_SPEED;
-    case SR_JUDGE_ENERGY: return SR_Q_ENERGY;
-    case SR_JUDGE_TIME: return SR_Q_TIME;
-    case SR_JUDGE_DRIFT: return SR_Q_LENGTH;
-    case SR_JUDGE_DEPLOY_Q: return SR_Q_PRESSURE;
-    case SR_JUDGE_OPENING: return SR_Q_FORCE;
-    default: return SR_Q_NONE;
-    }
+    return sr_judge_kind_quantity(k);
 }
 
 void sr_cli_verdict_label(const sr_mission *m, const sr_judge_limits *l, const sr_judge_row *row, char *buf,
                           size_t len)
 {
-    const char *stage = row->index >= 0 && (size_t)row->index < m->nstages ? m->stages[row->index].name : "";
-    const char *sec = row->index >= 0 && (size_t)row->index < m->nsections ? m->sections[row->index].name : "";
+    const char *stage = sr_judge_row_subject(m, row), *sec = stage;
     switch (row->kind) {
     case SR_JUDGE_SPEED: snprintf(buf, len, "touchdown descent rate"); break;
     case SR_JUDGE_ENERGY:
@@ -167,8 +158,7 @@ double sr_cli_verdict_breaches(const sr_mission *m, const sr_verdict *v, char *b
             continue;
         top = fmax(top, row->ratio);
         char what[160];
-        const char *stage = row->index >= 0 && (size_t)row->index < m->nstages ? m->stages[row->index].name : "";
-        const char *sec = row->index >= 0 && (size_t)row->index < m->nsections ? m->sections[row->index].name : "";
+        const char *stage = sr_judge_row_subject(m, row), *sec = stage;
         switch (row->kind) {
         case SR_JUDGE_SPEED: snprintf(what, sizeof what, "speed"); break;
         case SR_JUDGE_ENERGY: snprintf(what, sizeof what, "energy %s", sec); break;

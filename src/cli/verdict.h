@@ -7,17 +7,18 @@
 
 #include "analysis/judge.h"
 #include "cli/cli.h"
+#include "cli/options.h"
 #include "files/mission.h"
 #include "output/report.h"
 
-/* The option every judging command takes. */
-#define SR_HELP_LIMITS_AT                                                                                     \
-    "  --limits-at band-end|typical\n"                                                                        \
-    "                           band-end (the default): every limit is judged at the worse\n"                  \
-    "                           end of every band (drag range, mass band, opening-load factor\n"               \
-    "                           range, growth-exponent range): exit 1 when that end breaks a\n"                \
-    "                           limit. typical: judge at the typical values only; the output\n"                \
-    "                           then says at its top that the verdict is NOT conservative\n"
+/* The option every judging command takes: --limits-at, its text into T.F
+ * (parsed with sr_cli_limits_at). */
+#define SR_OPT_LIMITS_AT(T, F)                                                                                \
+    SR_OPT_STRING("limits-at", "band-end|typical", T, F,                                                      \
+                  "band-end (the default): every limit is judged at the worse end of every band (drag range, "  \
+                  "mass band, opening-load factor range, growth-exponent range): exit 1 when that end breaks a " \
+                  "limit. typical: judge at the typical values only; the output then says at its top that the " \
+                  "verdict is NOT conservative")
 
 /* Parse the option's value; 0 or an exit code (one line naming the option). */
 int sr_cli_limits_at(sr_cli *c, const char *text, sr_judge_basis *basis);

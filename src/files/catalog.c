@@ -283,7 +283,7 @@ int sr_catalog_add(sr_catalog *c, const char *dir, const char *from, sr_error *e
         if (stat(path, &st) != 0 || !S_ISREG(st.st_mode))
             continue;
         if (n >= SR_CATALOG_MAX) {
-            rc = sr_error_set(err, SR_EINVAL, "%s: more than %d family files", dir, SR_CATALOG_MAX);
+            rc = sr_error_set_at(err, SR_EINVAL, dir, 0, 0, "more than %d family files", SR_CATALOG_MAX);
             break;
         }
         names[n++] = strdup(e->d_name);
@@ -306,11 +306,11 @@ int sr_catalog_add(sr_catalog *c, const char *dir, const char *from, sr_error *e
             if (strcmp(c->fam[j].id, f.id) == 0)
                 at = j;
         if (at < c->n && c->origin[at].layer == layer) {
-            rc = sr_error_set(err, SR_EINVAL, "%s: id '%s' is already used by %s", path, f.id, c->fam[at].file);
+            rc = sr_error_set_at(err, SR_EINVAL, path, 0, 0, "id '%s' is already used by %s", f.id, c->fam[at].file);
             break;
         }
         if (at == c->n && c->n >= SR_CATALOG_MAX) {
-            rc = sr_error_set(err, SR_EINVAL, "%s: more than %d families in all", path, SR_CATALOG_MAX);
+            rc = sr_error_set_at(err, SR_EINVAL, path, 0, 0, "more than %d families in all", SR_CATALOG_MAX);
             break;
         }
         sr_catalog_origin o = {.layer = layer};
@@ -347,14 +347,14 @@ const sr_family *sr_catalog_find(const sr_catalog *c, const char *id, sr_error *
     ids[c->n] = NULL;
     const char *s = sr_yaml_suggest(id, ids);
     if (s)
-        sr_error_set(err, SR_EINVAL, "unknown canopy family '%s'; did you mean '%s'? (sinkrate canopies lists them)",
-                     id, s);
+        sr_error_set_key(err, SR_EINVAL, "family",
+                         "unknown canopy family '%s'; did you mean '%s'? (sinkrate canopies lists them)", id, s);
     else
-        sr_error_set(err, SR_EINVAL, "unknown canopy family '%s' (sinkrate canopies lists them)", id);
+        sr_error_set_key(err, SR_EINVAL, "family", "unknown canopy family '%s' (sinkrate canopies lists them)", id);
     return NULL;
 }
 
-const char *const SR_CANOPY_KEYS[] = {"family", "nominal-diameter", "projected-diameter", "flat-diameter",
+const char *const sr_canopy_keys[] = {"family", "nominal-diameter", "projected-diameter", "flat-diameter",
                                       "nominal-area", "drag-coefficient", "count", "cluster-factor",
                                       "areal-mass", "measured-opening", NULL};
 static const char *const SIZE_KEYS[] = {"nominal-diameter", "projected-diameter", "flat-diameter",
@@ -521,4 +521,67 @@ int sr_catalog_load_canopy(sr_canopy *c, const sr_catalog *cat, const char *path
     rc = sr_catalog_parse_canopy(c, cat, &y, err);
     sr_yaml_free(&y);
     return rc;
+}
+
+/* ---- a program's catalog (include/sinkrate/files.h) ---- */
+
+#ifndef SR_DATADIR
+#define SR_DATADIR "/usr/local/share/sinkrate"
+#endif
+
+void sr_catalog_default_dir(char *buf, size_t len)
+{
+    const char *env = getenv("SINKRATE_DATA");
+    snprintf(buf, len, "%s/canopies", env && env[0] ? env : SR_DATADIR);
+}
+
+int sr_catalog_new(sr_catalog **out, const char *dir, sr_error *err)
+{
+    sr_error_gsl_off();
+    *out = NULL;
+    char def[1024];
+    if (!dir) {
+        sr_catalog_default_dir(def, sizeof def);
+        dir = def;
+    }
+    sr_catalog *c = malloc(sizeof *c);
+    if (!c)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int rc = sr_catalog_open(c, dir, err);
+    if (rc) {
+        free(c);
+        return rc;
+    }
+    *out = c;
+    return SR_OK;
+}
+
+void sr_catalog_free(sr_catalog *c)
+{
+    free(c);
+}
+
+size_t sr_catalog_count(const sr_catalog *c)
+{
+    return c->n;
+}
+
+const sr_family *sr_catalog_family(const sr_catalog *c, size_t i)
+{
+    return i < c->n ? &c->fam[i] : NULL;
+}
+
+int sr_canopy_open(sr_canopy **out, const sr_catalog *cat, const char *path, sr_error *err)
+{
+    *out = NULL;
+    sr_canopy *c = malloc(sizeof *c);
+    if (!c)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int rc = sr_catalog_load_canopy(c, cat, path, err);
+    if (rc) {
+        free(c);
+        return rc;
+    }
+    *out = c;
+    return SR_OK;
 }

@@ -8,6 +8,7 @@
 #include "physics/canopy.h"
 #include "base/error.h"
 #include "files/yamldoc.h"
+#include "sinkrate/files.h"
 
 #define SR_CATALOG_MAX 64
 
@@ -30,15 +31,10 @@ typedef struct sr_catalog {
  * Any bad file fails the whole load with its file:line:column. */
 int sr_catalog_open(sr_catalog *c, const char *dir, sr_error *err);
 
-/* Put the families of another directory in front of those loaded: a family
- * with the id of one loaded before replaces it (origin[i].replaces names
- * the replaced file); two files of one directory with one id are an error,
- * and so is a bad file. from: how to name the directory in listings
- * ("--data mydir"). A directory already loaded is not loaded twice. */
-int sr_catalog_add(sr_catalog *c, const char *dir, const char *from, sr_error *err);
-
-/* Family by id; an unknown id fails with the closest id suggested. */
-const sr_family *sr_catalog_find(const sr_catalog *c, const char *id, sr_error *err);
+/* sr_catalog_add (public): origin[i].replaces names the file a family
+ * replaces; two files of one directory with one id are an error, and so is a
+ * bad file. A directory already loaded is not loaded twice.
+ * sr_catalog_find (public): an unknown id fails with the closest id suggested. */
 
 /* One family file. */
 int sr_catalog_load_family(sr_family *f, const char *path, sr_error *err);
@@ -56,7 +52,7 @@ int sr_catalog_parse_canopy(sr_canopy *c, const sr_catalog *cat, sr_yaml *y, sr_
  * drag-coefficient, count, cluster-factor, areal-mass. When no size key is
  * present and size_optional is set, *has_size is 0 and the canopy holds a
  * nominal area of 1 m2 as a placeholder for sizing. */
-extern const char *const SR_CANOPY_KEYS[];
+extern const char *const sr_canopy_keys[];
 int sr_catalog_canopy_from_node(sr_canopy *c, const sr_catalog *cat, const sr_yaml *y, yaml_node_t *n,
                                 int size_optional, int *has_size, sr_error *err);
 

@@ -2,7 +2,7 @@
  * Lines are fed to libcsv one at a time so every cell knows its line. */
 #include "files/csvtable.h"
 
-#include "output/fileio.h"
+#include "base/fileread.h"
 
 #include <csv.h>
 #include <ctype.h>
@@ -54,7 +54,7 @@ static void fail_at(parse_state *s, size_t column, const char *fmt, const char *
     s->failed = 1;
     char msg[SR_ERROR_MSG_MAX];
     snprintf(msg, sizeof msg, fmt, a, b);
-    sr_error_set(s->err, SR_EINVAL, "%s:%zu:%zu: %s", s->name, s->line, column, msg);
+    sr_error_set_at(s->err, SR_EINVAL, s->name, s->line, column, "%s", msg);
 }
 
 static void fail(parse_state *s, size_t field, const char *fmt, const char *a, const char *b)
@@ -271,7 +271,7 @@ static void on_record(int ch, void *ctx_)
             double *p = realloc(s->t->col[j], ncap * sizeof *p);
             if (!p) {
                 s->failed = 1;
-                sr_error_set(s->err, SR_ENOMEM, "%s: out of memory", s->name);
+                sr_error_set_at(s->err, SR_ENOMEM, s->name, 0, 0, "out of memory");
                 return;
             }
             s->t->col[j] = p;
@@ -279,7 +279,7 @@ static void on_record(int ch, void *ctx_)
         size_t *rl = realloc(s->t->row_line, ncap * sizeof *rl);
         if (!rl) {
             s->failed = 1;
-            sr_error_set(s->err, SR_ENOMEM, "%s: out of memory", s->name);
+            sr_error_set_at(s->err, SR_ENOMEM, s->name, 0, 0, "out of memory");
             return;
         }
         s->t->row_line = rl;
@@ -304,7 +304,7 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
     t->ncols = nspecs;
     load_ctx *c = calloc(1, sizeof *c);
     if (!c)
-        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", name);
+        return sr_error_set_at(err, SR_ENOMEM, name, 0, 0, "out of memory");
     parse_state *s = &c->s;
     s->name = name;
     s->specs = specs;
@@ -314,7 +314,7 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
     struct csv_parser p;
     if (csv_init(&p, CSV_STRICT | CSV_STRICT_FINI | CSV_EMPTY_IS_NULL) != 0) {
         free(c);
-        return sr_error_set(err, SR_ENOMEM, "%s: cannot start the CSV parser", name);
+        return sr_error_set_at(err, SR_ENOMEM, name, 0, 0, "cannot start the CSV parser");
     }
     size_t pos = 0;
     /* a UTF-8 byte-order mark, as spreadsheets write it, is not part of the header */
@@ -360,10 +360,10 @@ int sr_csvtable_parse(sr_csvtable *t, const char *name, const char *buf, size_t 
     csv_free(&p);
     int failed = s->failed;
     if (!failed && !s->header_done) {
-        sr_error_set(err, SR_EINVAL, "%s:1:1: empty table (expected a header row and data rows)", name);
+        sr_error_set_at(err, SR_EINVAL, name, 1, 1, "empty table (expected a header row and data rows)");
         failed = 1;
     } else if (!failed && t->nrows == 0) {
-        sr_error_set(err, SR_EINVAL, "%s:%zu:1: the table has a header but no data rows", name, s->line);
+        sr_error_set_at(err, SR_EINVAL, name, s->line, 1, "the table has a header but no data rows");
         failed = 1;
     }
     free(c);
@@ -389,14 +389,14 @@ int sr_csvtable_read_file(const char *path, char **out, size_t *outlen, sr_error
             if (cap > (size_t)64 << 20) {
                 free(buf);
                 fclose(f);
-                return sr_error_set(err, SR_EINVAL, "%s: larger than 64 MiB, not a table", path);
+                return sr_error_set_at(err, SR_EINVAL, path, 0, 0, "larger than 64 MiB, not a table");
             }
             cap = cap ? cap * 2 : 8192;
             char *nb = realloc(buf, cap);
             if (!nb) {
                 free(buf);
                 fclose(f);
-                return sr_error_set(err, SR_ENOMEM, "%s: out of memory", path);
+                return sr_error_set_at(err, SR_ENOMEM, path, 0, 0, "out of memory");
             }
             buf = nb;
         }
@@ -409,7 +409,7 @@ int sr_csvtable_read_file(const char *path, char **out, size_t *outlen, sr_error
     fclose(f);
     if (bad) {
         free(buf);
-        return sr_error_set(err, SR_EIO, "%s: read error: %s", path, strerror(bad_errno));
+        return sr_error_set_at(err, SR_EIO, path, 0, 0, "read error: %s", strerror(bad_errno));
     }
     *out = buf;
     *outlen = len;
@@ -471,7 +471,7 @@ int sr_csvtable_require_increasing(const sr_csvtable *t, size_t c, const char *p
         return SR_OK;
     for (size_t i = 1; i < t->nrows; i++)
         if (!(t->col[c][i] > t->col[c][i - 1]))
-            return sr_error_set(err, SR_EINVAL, "%s:%zu:1: %s must increase strictly from row to row", path,
-                                t->row_line[i], what);
+            return sr_error_set_at(err, SR_EINVAL, path, t->row_line[i], 1, "%s must increase strictly from row to row",
+                                   what);
     return SR_OK;
 }

@@ -81,9 +81,9 @@ static size_t header_line(const char *buf, size_t len)
 
 static int fail_cell(const sr_flightlog *l, size_t i, size_t f, sr_error *err, const char *msg)
 {
-    char w[600];
-    sr_flightlog_where(l, i, f, w, sizeof w);
-    return sr_error_set(err, SR_EINVAL, "%s: %s", w, msg);
+    size_t line = i < l->n ? l->line[i] : l->header_line;
+    size_t col = l->text ? sr_csvtable_cell_column(l->text, l->text_len, line, f) : 1;
+    return sr_error_set_at(err, SR_EINVAL, l->path, line, col, "%s", msg);
 }
 
 static int check(sr_flightlog *l, const sr_csvtable *t, double max_gap, sr_error *err)
@@ -154,7 +154,7 @@ static int check(sr_flightlog *l, const sr_csvtable *t, double max_gap, sr_error
         return fail_cell(l, 0, 0, err, "the log has one row; a fit needs at least 20");
     double *d = malloc((l->n - 1) * sizeof *d);
     if (!d)
-        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", l->path);
+        return sr_error_set_at(err, SR_ENOMEM, l->path, 0, 0, "out of memory");
     for (size_t i = 1; i < l->n; i++)
         d[i - 1] = l->t[i] - l->t[i - 1];
     qsort(d, l->n - 1, sizeof *d, cmp_double);
@@ -197,7 +197,7 @@ int sr_flightlog_parse(sr_flightlog *l, const char *name, const char *buf, size_
     l->text = malloc(len + 1);
     if (!l->text) {
         sr_csvtable_free(&t);
-        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", name);
+        return sr_error_set_at(err, SR_ENOMEM, name, 0, 0, "out of memory");
     }
     memcpy(l->text, buf, len);
     l->text[len] = '\0';
@@ -224,7 +224,7 @@ int sr_flightlog_parse(sr_flightlog *l, const char *name, const char *buf, size_
         l->east = malloc(l->n * sizeof *l->east);
         l->north = malloc(l->n * sizeof *l->north);
         if (!l->east || !l->north)
-            rc = sr_error_set(err, SR_ENOMEM, "%s: out of memory", name);
+            rc = sr_error_set_at(err, SR_ENOMEM, name, 0, 0, "out of memory");
         for (size_t i = 0; !rc && i < l->n; i++) {
             if (t.col[C_EAST]) {
                 l->east[i] = t.col[C_EAST][i];

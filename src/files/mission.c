@@ -1,5 +1,8 @@
 /* mission.c - the strict mission-file reader. */
 #include "files/mission.h"
+#include "files/mission_int.h"
+#include "files/sounding.h"
+#include "files/dragtable.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -34,20 +37,6 @@ static const char *const LIMIT_KEYS[] = {"touchdown-speed", "landing-energy",  "
 static const char *const MASS_KEYS[] = {"low", "typical", "high", NULL};
 static const char *const MASS_REQ[] = {"low", "high", NULL};
 
-void sr_mission_relative_path(char *out, size_t len, const char *base, const char *file)
-{
-    if (file[0] == '/') {
-        snprintf(out, len, "%s", file);
-        return;
-    }
-    const char *slash = strrchr(base, '/');
-    if (!slash) {
-        snprintf(out, len, "%s", file);
-        return;
-    }
-    snprintf(out, len, "%.*s/%s", (int)(slash - base), base, file);
-}
-
 static int parse_atmos(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *err)
 {
     int rc, acc = SR_OK;
@@ -70,8 +59,8 @@ static int parse_atmos(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *e
         char file[400], path[1024];
         if ((rc = sr_yaml_string(y, sn, file, sizeof file, err)))
             return rc;
-        sr_mission_relative_path(path, sizeof path, m->path, file);
-        if ((rc = sr_atmos_load_sounding(&m->atmos, path, &e)))
+        sr_yaml_relative_path(path, sizeof path, m->path, file);
+        if ((rc = sr_sounding_load(&m->atmos, path, &e)))
             return sr_yaml_fail(y, sn, err, "%s", e.msg);
         double lo, hi;
         sr_atmos_range(&m->atmos, &lo, &hi);
@@ -80,8 +69,11 @@ static int parse_atmos(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *e
                                 z, lo, hi);
         return SR_OK;
     }
-    if ((rc = sr_atmos_init_site(&m->atmos, z, T, p, &e)))
-        return sr_yaml_fail(y, tn ? tn : pn ? pn : en, err, "%s", e.msg);
+    if ((rc = sr_atmos_init_site(&m->atmos, z, T, p, &e))) {
+        /* the key the site model refuses: elevation, temperature or pressure */
+        yaml_node_t *blame = sr_yaml_get(y, site, e.key);
+        return sr_yaml_fail(y, blame ? blame : tn ? tn : pn ? pn : en, err, "%s", e.msg);
+    }
     return SR_OK;
 }
 
@@ -122,7 +114,7 @@ static int parse_site(sr_mission *m, sr_yaml *y, yaml_node_t *site, sr_error *er
     SR_YAML_STEP(parse_position(m, y, site, err));
     yaml_node_t *wn = sr_yaml_get(y, site, "wind");
     if (wn)
-        SR_YAML_STEP(sr_mission_parse_wind(m, y, wn, err));
+        SR_YAML_STEP(sr_mission_wind_parse(&m->wind, y, wn, m->path, m->ground, &m->atmos, err));
     return acc;
 }
 
@@ -220,7 +212,7 @@ static int parse_stage(sr_mission *m, sr_yaml *y, yaml_node_t *n, const sr_catal
         else
             SR_YAML_STEP(rc = sr_yaml_string(y, cf, file, sizeof file, err));
         if (!rc) {
-            sr_mission_relative_path(path, sizeof path, m->path, file);
+            sr_yaml_relative_path(path, sizeof path, m->path, file);
             snprintf(s->file, sizeof s->file, "%s", path);
             sr_error e;
             if (sr_catalog_load_canopy(&s->canopy, cat, path, &e))
@@ -357,8 +349,8 @@ static int parse_body(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_section *sec
         char file[400], path[1024];
         if ((rc = sr_yaml_string(y, tn, file, sizeof file, err)))
             return rc;
-        sr_mission_relative_path(path, sizeof path, m->path, file);
-        if (sr_bluff_curve_load(&sec->curve, path, kind, &e))
+        sr_yaml_relative_path(path, sizeof path, m->path, file);
+        if (sr_dragtable_load(&sec->curve, path, kind, &e))
             return sr_yaml_fail(y, tn, err, "%s", e.msg);
         if (!an && !(sec->curve.table_area > 0.0))
             return sr_yaml_fail(y, n, err, "give area: (the reference area of the table's Cd values); %s states "
@@ -806,6 +798,46 @@ static int parse_failures(sr_mission *m, sr_yaml *y, yaml_node_t *list, sr_error
     return SR_OK;
 }
 
+/* The uncertainty block, read against the stages, masses and start read before. */
+static int parse_uncertainty(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_error *err)
+{
+    sr_unc_basis b;
+    memset(&b, 0, sizeof b);
+    b.nstages = m->nstages;
+    for (size_t s = 0; s < m->nstages; s++) {
+        const sr_stage *st = &m->stages[s];
+        b.stage[s].name = st->name;
+        b.stage[s].cds = st->canopy.cds;
+        b.stage[s].cd = st->canopy.cd.v.typ;
+        b.stage[s].deploy = st->deploy;
+        b.stage[s].deploy_value = st->deploy_value;
+    }
+    b.total_mass = sr_mission_total_mass(m);
+    b.has_start = m->has_start;
+    b.start_height = m->start_height;
+    b.ground = m->ground;
+    b.atmos = &m->atmos;
+    return sr_mission_uncertainty_parse(&m->unc, y, n, &b, err);
+}
+
+_Static_assert(SR_DESIGN_MAX_STAGES == SR_MISSION_MAX_STAGES, "one design slot per mission stage");
+
+void sr_mission_design_basis(const sr_mission *m, sr_design_basis *b)
+{
+    memset(b, 0, sizeof *b);
+    b->nstages = m->nstages;
+    for (size_t k = 0; k < m->nstages && k < SR_DESIGN_MAX_STAGES; k++) {
+        const sr_stage *st = &m->stages[k];
+        b->stage[k] = (sr_design_basis_stage){.name = st->name,
+                                              .deploy = st->deploy,
+                                              .canopy_file = st->file[0] != '\0',
+                                              .measured_load = st->canopy.opening == SR_OPENING_MEASURED_LOAD,
+                                              .has_size = st->has_size};
+    }
+    b->has_start = m->has_start;
+    b->start_height = m->start_height;
+}
+
 int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err)
 {
     int rc, acc = SR_OK;
@@ -865,9 +897,12 @@ int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error 
     if (fc && stages_ok)
         SR_YAML_STEP(parse_failures(m, y, fc, err));
     if (stages_ok || !acc)
-        SR_YAML_STEP(sr_mission_parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err));
-    if (stages_ok)
-        SR_YAML_STEP(sr_mission_parse_design(m, y, sr_yaml_get(y, root, "design"), cat, err));
+        SR_YAML_STEP(parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err));
+    if (stages_ok) {
+        sr_design_basis db;
+        sr_mission_design_basis(m, &db);
+        SR_YAML_STEP(sr_mission_parse_design(&m->design, y, sr_yaml_get(y, root, "design"), &db, cat, err));
+    }
     return acc;
 }
 
@@ -890,7 +925,7 @@ int sr_mission_load_doc(sr_mission *m, const char *path, const sr_catalog *cat, 
     rc = sr_mission_parse(m, y, cat, err);
     if (rc) {
         sr_yaml_free(y);
-        sr_mission_free(m);
+        sr_mission_release(m);
     }
     return rc;
 }
@@ -915,16 +950,16 @@ int sr_mission_load_text(sr_mission *m, const char *path, const char *text, size
     rc = sr_mission_parse(m, &y, cat, err);
     sr_yaml_free(&y);
     if (rc)
-        sr_mission_free(m);
+        sr_mission_release(m);
     return rc;
 }
 
-void sr_mission_free(sr_mission *m)
+void sr_mission_release(sr_mission *m)
 {
     for (size_t i = 0; i < SR_MISSION_MAX_SECTIONS; i++)
         sr_bluff_curve_free(&m->sections[i].curve);
-    sr_atmos_free(&m->atmos);
-    sr_wind_free(&m->wind);
+    sr_atmos_release(&m->atmos);
+    sr_wind_release(&m->wind);
 }
 
 int sr_mission_has_limits(const sr_mission *m)

@@ -10,25 +10,22 @@
 #include "physics/atmos.h"
 #include "physics/bluff.h"
 #include "physics/canopy.h"
+#include "physics/descent_spec.h"
+#include "physics/profile.h"
 #include "files/catalog.h"
 #include "base/error.h"
 #include "physics/wind.h"
-#include "analysis/uncertainty.h"
+#include "physics/uncertainty.h"
+#include "sinkrate/files.h"
 #include "files/mission_design.h"
 
-#define SR_MISSION_MAX_SECTIONS 8
-#define SR_MISSION_MAX_STAGES 6
-#define SR_NAME_MAX 64
+/* the engine's bounds (physics/descent_spec.h): sections, stages, names;
+ * sr_deploy_kind (`apogee` or `release`, `altitude`, `delay`) and
+ * sr_section_set (bit i is sections[i]) are the engine's too */
+#define SR_MISSION_MAX_SECTIONS SR_DESCENT_MAX_SECTIONS
+#define SR_MISSION_MAX_STAGES SR_DESCENT_MAX_STAGES
+#define SR_NAME_MAX SR_DESCENT_NAME_MAX
 #define SR_MISSION_MAX_FAILURES 8
-
-typedef enum sr_deploy_kind {
-    SR_DEPLOY_APOGEE = 0,   /* at the start state (apogee or release); written `apogee` or `release` */
-    SR_DEPLOY_ALTITUDE,     /* at a height above ground */
-    SR_DEPLOY_DELAY         /* a time after the previous event */
-} sr_deploy_kind;
-
-/* Sections as a bit set: bit i is sections[i]. */
-typedef unsigned sr_section_set;
 
 typedef struct sr_stage {
     char name[SR_NAME_MAX];
@@ -60,7 +57,7 @@ typedef struct sr_section {
     double body_length;      /* cylinder length, m (0 otherwise) */
     double body_area;        /* reference area of its Cd, m2 */
     char body_area_ref[64];  /* what that area is, e.g. "projected area d x L" */
-    sr_bluff_curve curve;    /* its drag curve (owned; freed by sr_mission_free) */
+    sr_bluff_curve curve;    /* its drag curve (owned; freed by sr_mission_release) */
     int stable_end_on;       /* `stable-end-on: true`: fins or a weighted nose keep it pointing into the flow
                               * when it falls without a canopy, so falling end-on is judged too */
 } sr_section;
@@ -112,7 +109,7 @@ typedef struct sr_mission {
 } sr_mission;
 
 /* Load and validate; relative file names inside (sounding, canopy files) are
- * taken relative to the mission file. Release with sr_mission_free. */
+ * taken relative to the mission file. Release with sr_mission_release. */
 int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err);
 /* The same, keeping the YAML document in *y for the caller (who frees it with
  * sr_yaml_free; on failure nothing is kept). */
@@ -121,26 +118,26 @@ int sr_mission_load_doc(sr_mission *m, const char *path, const sr_catalog *cat, 
  * and relative file names inside are taken relative to it). */
 int sr_mission_load_text(sr_mission *m, const char *path, const char *text, size_t len, const sr_catalog *cat,
                          sr_error *err);
+/* The stages a design: block or design's options are read against. */
+void sr_mission_design_basis(const sr_mission *m, sr_design_basis *b);
+
 int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err);
-void sr_mission_free(sr_mission *m);
+void sr_mission_release(sr_mission *m);
 
-/* Whether the file sets any limit. */
-int sr_mission_has_limits(const sr_mission *m);
-
-/* Total mass of all sections, kg. */
-double sr_mission_total_mass(const sr_mission *m);
+/* sr_mission_has_limits and sr_mission_total_mass are public. */
 
 /* Mass of a set of sections, kg. */
 double sr_mission_mass_of(const sr_mission *m, sr_section_set s);
 
-/* "booster + payload bay" for a set of sections. */
-void sr_mission_set_name(const sr_mission *m, sr_section_set s, char *buf, size_t len);
+/* sr_mission_set_name (public): "booster + payload bay" for a set of sections. */
 
-/* The site.wind block (mission_wind.c): model, speed, direction, heights;
- * a table from CSV or inline rows. `ground` converts table altitudes. */
-int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_error *err);
+/* The descent the profile engine flies (physics/descent_spec.h): every
+ * stage must have a size and the mission a start: block (SR_EINVAL naming
+ * the file otherwise). The spec borrows the mission's atmosphere, wind and
+ * drag curves: it is valid while m is. */
+int sr_mission_descent(const sr_mission *m, sr_descent_spec *spec, sr_error *err);
 
-/* Resolve a file name given inside a mission file relative to it. */
-void sr_mission_relative_path(char *out, size_t len, const char *mission_path, const char *file);
+/* sr_mission_profile (public): sr_mission_descent and sr_profile_ctx_new in
+ * one call. */
 
 #endif

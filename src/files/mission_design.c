@@ -5,10 +5,8 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "files/mission.h"
+#include "files/mission_design.h"
 #include "files/yamldoc.h"
-
-_Static_assert(SR_DESIGN_MAX_STAGES == SR_MISSION_MAX_STAGES, "one design slot per mission stage");
 
 static const char *const DESIGN_KEYS[] = {"objective", "packing", "grid", "heights", "stages", NULL};
 static const char *const DSTAGE_KEYS[] = {"families",  "nominal-diameter", "count",   "deploy-height",
@@ -42,7 +40,7 @@ void sr_design_spec_init(sr_design_spec *d)
     d->packing = SR_PACK_HAND;
     d->grid = SR_DESIGN_DEFAULT_GRID;
     d->heights = SR_DESIGN_DEFAULT_HEIGHTS;
-    for (size_t k = 0; k < SR_MISSION_MAX_STAGES; k++) {
+    for (size_t k = 0; k < SR_DESIGN_MAX_STAGES; k++) {
         d->stage[k].bay = NAN;
         d->stage[k].packing = -1;
         d->stage[k].hmin = d->stage[k].hmax = NAN;
@@ -164,10 +162,10 @@ static int set_list(sr_design_stage *s, const double *v, size_t n, sr_error *err
     return SR_OK;
 }
 
-static int set_heights(sr_design_stage *s, const sr_mission *m, size_t k, double lo, double hi, double points,
+static int set_heights(sr_design_stage *s, const sr_design_basis *b, size_t k, double lo, double hi, double points,
                        sr_error *err)
 {
-    const sr_stage *st = &m->stages[k];
+    const sr_design_basis_stage *st = &b->stage[k];
     if (st->deploy != SR_DEPLOY_ALTITUDE)
         return sr_error_set(err, SR_EINVAL, "stage '%s' does not deploy at a height (deploy: height:), so its "
                                             "deployment height cannot vary",
@@ -176,9 +174,9 @@ static int set_heights(sr_design_stage *s, const sr_mission *m, size_t k, double
         return sr_error_set(err, SR_EINVAL, "deployment heights must be above ground");
     if (lo > hi)
         return sr_error_set(err, SR_EINVAL, "the height range's min %g m is above its max %g m", lo, hi);
-    if (m->has_start && !(hi < m->start_height))
+    if (b->has_start && !(hi < b->start_height))
         return sr_error_set(err, SR_EINVAL, "the height range reaches %g m, not below the start at %g m above ground",
-                            hi, m->start_height);
+                            hi, b->start_height);
     if (!isnan(points) && !(points >= 1 && points <= SR_DESIGN_MAX_POINTS && points == floor(points)))
         return sr_error_set(err, SR_EINVAL, "points must be a whole number from 1 to %d", SR_DESIGN_MAX_POINTS);
     s->height = 1;
@@ -203,14 +201,14 @@ static int add_count(sr_design_stage *s, double v, sr_error *err)
     return SR_OK;
 }
 
-int sr_design_check_stage(const sr_design_stage *s, const sr_mission *m, size_t k, sr_error *err)
+int sr_design_check_stage(const sr_design_stage *s, const sr_design_basis *b, size_t k, sr_error *err)
 {
-    const sr_stage *st = &m->stages[k];
-    if (st->file[0] && (s->nfamilies || s->sizes != SR_DSIZE_FIXED || s->ncounts))
+    const sr_design_basis_stage *st = &b->stage[k];
+    if (st->canopy_file && (s->nfamilies || s->sizes != SR_DSIZE_FIXED || s->ncounts))
         return sr_error_set(err, SR_EINVAL, "stage '%s' is a canopy file (a canopy you own): its family, size and "
                                             "count stay as they are; only its deployment height may vary",
                             st->name);
-    if (st->canopy.opening == SR_OPENING_MEASURED_LOAD && (s->nfamilies || s->sizes != SR_DSIZE_FIXED ||
+    if (st->measured_load && (s->nfamilies || s->sizes != SR_DSIZE_FIXED ||
                                                            s->ncounts || s->height))
         return sr_error_set(err, SR_EINVAL, "stage '%s' has a measured opening load, which holds for its own size "
                                             "and deployment only: it cannot vary",
@@ -228,10 +226,10 @@ static int text_fail(sr_error *err, const char *what, const sr_error *e)
     return sr_error_set(err, SR_EINVAL, "%s: %s", what, e->msg);
 }
 
-int sr_design_set_families(sr_design_stage *s, const sr_mission *m, size_t k, const sr_catalog *cat,
+int sr_design_set_families(sr_design_stage *s, const sr_design_basis *b, size_t k, const sr_catalog *cat,
                            const char *text, const char *what, sr_error *err)
 {
-    (void)m;
+    (void)b;
     (void)k;
     sr_error e;
     s->nfamilies = 0;
@@ -270,10 +268,10 @@ static int split_range(const char *text, char *a, char *b, size_t len)
     return 1;
 }
 
-int sr_design_set_sizes(sr_design_stage *s, const sr_mission *m, size_t k, const char *text, const char *what,
+int sr_design_set_sizes(sr_design_stage *s, const sr_design_basis *basis, size_t k, const char *text, const char *what,
                         sr_error *err)
 {
-    (void)m;
+    (void)basis;
     (void)k;
     char a[128], b[128], st[128];
     sr_error e;
@@ -308,7 +306,7 @@ int sr_design_set_sizes(sr_design_stage *s, const sr_mission *m, size_t k, const
     return SR_OK;
 }
 
-int sr_design_set_heights(sr_design_stage *s, const sr_mission *m, size_t k, const char *text, const char *what,
+int sr_design_set_heights(sr_design_stage *s, const sr_design_basis *basis, size_t k, const char *text, const char *what,
                           sr_error *err)
 {
     char a[128], b[128];
@@ -326,15 +324,15 @@ int sr_design_set_heights(sr_design_stage *s, const sr_mission *m, size_t k, con
     }
     if (sr_units_parse(a, SR_Q_LENGTH, &lo, &e) || sr_units_parse(b, SR_Q_LENGTH, &hi, &e))
         return text_fail(err, what, &e);
-    if (set_heights(s, m, k, lo, hi, pts, &e))
+    if (set_heights(s, basis, k, lo, hi, pts, &e))
         return text_fail(err, what, &e);
     return SR_OK;
 }
 
-int sr_design_set_counts(sr_design_stage *s, const sr_mission *m, size_t k, const char *text, const char *what,
+int sr_design_set_counts(sr_design_stage *s, const sr_design_basis *b, size_t k, const char *text, const char *what,
                          sr_error *err)
 {
-    (void)m;
+    (void)b;
     (void)k;
     sr_error e;
     s->ncounts = 0;
@@ -432,10 +430,10 @@ static int parse_sizes(sr_design_stage *s, sr_yaml *y, yaml_node_t *n, sr_error 
     return SR_OK;
 }
 
-static int parse_stage_design(sr_mission *m, size_t k, sr_yaml *y, yaml_node_t *n, const sr_catalog *cat,
-                              sr_error *err)
+static int parse_stage_design(sr_design_spec *d, const sr_design_basis *b, size_t k, sr_yaml *y, yaml_node_t *n,
+                              const sr_catalog *cat, sr_error *err)
 {
-    sr_design_stage *s = &m->design.stage[k];
+    sr_design_stage *s = &d->stage[k];
     sr_error e;
     int rc;
     if ((rc = sr_yaml_check_map(y, n, "a stage's design", DSTAGE_KEYS, NULL, err)))
@@ -483,7 +481,7 @@ static int parse_stage_design(sr_mission *m, size_t k, sr_yaml *y, yaml_node_t *
                 return rc;
             pts = (double)p;
         }
-        if (set_heights(s, m, k, lo, hi, pts, &e))
+        if (set_heights(s, b, k, lo, hi, pts, &e))
             return yfail(y, lo > hi ? ln : hn, err, &e);
     }
     if (on && (rc = sr_yaml_bool(y, on, &s->optional, err)))
@@ -503,27 +501,28 @@ static int parse_stage_design(sr_mission *m, size_t k, sr_yaml *y, yaml_node_t *
             return sr_yaml_fail(y, pn, err, "packing must be hand, machine or pressure, not '%s'", v);
         s->packing = (int)pk;
     }
-    if (sr_design_check_stage(s, m, k, &e))
+    if (sr_design_check_stage(s, b, k, &e))
         return sr_yaml_fail(y, n, err, "%s", e.msg);
     return SR_OK;
 }
 
-int sr_mission_parse_design(sr_mission *m, sr_yaml *y, yaml_node_t *n, const sr_catalog *cat, sr_error *err)
+int sr_mission_parse_design(sr_design_spec *d, sr_yaml *y, yaml_node_t *n, const sr_design_basis *b,
+                            const sr_catalog *cat, sr_error *err)
 {
-    sr_design_spec_init(&m->design);
+    sr_design_spec_init(d);
     if (!n)
         return SR_OK;
     int rc;
     if ((rc = sr_yaml_check_map(y, n, "design", DESIGN_KEYS, NULL, err)))
         return rc;
-    m->design.given = 1;
+    d->given = 1;
     yaml_node_t *on = sr_yaml_get(y, n, "objective"), *pn = sr_yaml_get(y, n, "packing"),
                 *gn = sr_yaml_get(y, n, "grid"), *hn = sr_yaml_get(y, n, "heights"), *sn = sr_yaml_get(y, n, "stages");
     char v[32];
     if (on) {
         if ((rc = sr_yaml_string(y, on, v, sizeof v, err)))
             return rc;
-        if (sr_design_objective_parse(v, &m->design.objective))
+        if (sr_design_objective_parse(v, &d->objective))
             return sr_yaml_fail(y, on, err, "objective must be mass (the lightest), volume (the smallest packed) or "
                                             "drift (the least drift), not '%s'",
                                 v);
@@ -531,31 +530,31 @@ int sr_mission_parse_design(sr_mission *m, sr_yaml *y, yaml_node_t *n, const sr_
     if (pn) {
         if ((rc = sr_yaml_string(y, pn, v, sizeof v, err)))
             return rc;
-        if (sr_pack_parse(v, &m->design.packing))
+        if (sr_pack_parse(v, &d->packing))
             return sr_yaml_fail(y, pn, err, "packing must be hand, machine or pressure, not '%s'", v);
     }
     long g;
     if (gn) {
         if ((rc = sr_yaml_int(y, gn, 2, 64, &g, err)))
             return rc;
-        m->design.grid = (size_t)g;
+        d->grid = (size_t)g;
     }
     if (hn) {
         if ((rc = sr_yaml_int(y, hn, 1, SR_DESIGN_MAX_POINTS, &g, err)))
             return rc;
-        m->design.heights = (size_t)g;
+        d->heights = (size_t)g;
     }
     if (!sn)
         return SR_OK;
-    const char *names[SR_MISSION_MAX_STAGES + 1];
-    for (size_t k = 0; k < m->nstages; k++)
-        names[k] = m->stages[k].name;
-    names[m->nstages] = NULL;
+    const char *names[SR_DESIGN_MAX_STAGES + 1];
+    for (size_t k = 0; k < b->nstages; k++)
+        names[k] = b->stage[k].name;
+    names[b->nstages] = NULL;
     if ((rc = sr_yaml_check_map(y, sn, "design stages (keys are stage names)", names, NULL, err)))
         return rc;
-    for (size_t k = 0; k < m->nstages; k++) {
-        yaml_node_t *x = sr_yaml_get(y, sn, m->stages[k].name);
-        if (x && (rc = parse_stage_design(m, k, y, x, cat, err)))
+    for (size_t k = 0; k < b->nstages; k++) {
+        yaml_node_t *x = sr_yaml_get(y, sn, b->stage[k].name);
+        if (x && (rc = parse_stage_design(d, b, k, y, x, cat, err)))
             return rc;
     }
     return SR_OK;

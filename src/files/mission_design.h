@@ -11,6 +11,8 @@
 
 #include "base/error.h"
 #include "files/catalog.h"
+#include "files/yamldoc.h"
+#include "physics/descent_spec.h"
 #include "physics/packing.h"
 
 #define SR_DESIGN_MAX_FAMILIES SR_CATALOG_MAX
@@ -64,6 +66,24 @@ typedef struct sr_design_spec {
     sr_design_stage stage[SR_DESIGN_MAX_STAGES];                   /* indexed as the mission's stages */
 } sr_design_spec;
 
+/* What the design: block and the options are read against: the mission's
+ * stages read before it (sr_mission_design_basis fills it), so this reader
+ * needs nothing of sr_mission. */
+typedef struct sr_design_basis_stage {
+    const char *name;
+    sr_deploy_kind deploy;
+    int canopy_file;     /* the stage is a canopy file (a canopy you own) */
+    int measured_load;   /* its opening load is measured (holds for its own size only) */
+    int has_size;        /* the file gives its size */
+} sr_design_basis_stage;
+
+typedef struct sr_design_basis {
+    size_t nstages;
+    sr_design_basis_stage stage[SR_DESIGN_MAX_STAGES];
+    int has_start;
+    double start_height; /* m above ground */
+} sr_design_basis;
+
 #define SR_DESIGN_DEFAULT_GRID 9
 #define SR_DESIGN_DEFAULT_HEIGHTS 20
 
@@ -80,25 +100,24 @@ int sr_design_stage_varies(const sr_design_stage *s);
  *   heights:  "150m..450m" (points from the design), "150m..450m/25" (25 points)
  *   counts:   "1,2"
  * The stage context (its name, its canopy, whether it is height-triggered)
- * comes from the mission the caller passes. */
-struct sr_mission;
-int sr_design_set_families(sr_design_stage *s, const struct sr_mission *m, size_t k, const sr_catalog *cat,
+ * comes from the basis the caller passes (sr_mission_design_basis). */
+int sr_design_set_families(sr_design_stage *s, const sr_design_basis *b, size_t k, const sr_catalog *cat,
                            const char *text, const char *what, sr_error *err);
-int sr_design_set_sizes(sr_design_stage *s, const struct sr_mission *m, size_t k, const char *text,
+int sr_design_set_sizes(sr_design_stage *s, const sr_design_basis *b, size_t k, const char *text,
                         const char *what, sr_error *err);
-int sr_design_set_heights(sr_design_stage *s, const struct sr_mission *m, size_t k, const char *text,
+int sr_design_set_heights(sr_design_stage *s, const sr_design_basis *b, size_t k, const char *text,
                           const char *what, sr_error *err);
-int sr_design_set_counts(sr_design_stage *s, const struct sr_mission *m, size_t k, const char *text,
+int sr_design_set_counts(sr_design_stage *s, const sr_design_basis *b, size_t k, const char *text,
                          const char *what, sr_error *err);
 
 /* What a stage may vary given its kind (a canopy file keeps family, size and
  * count; a measured opening load holds only for its own size and
  * deployment). SR_OK or SR_EINVAL with one line naming the stage. */
-int sr_design_check_stage(const sr_design_stage *s, const struct sr_mission *m, size_t k, sr_error *err);
+int sr_design_check_stage(const sr_design_stage *s, const sr_design_basis *b, size_t k, sr_error *err);
 
-/* The design: block (n may be NULL: no block). Called by sr_mission_parse
- * after the stages, start and limits. */
-int sr_mission_parse_design(struct sr_mission *m, sr_yaml *y, yaml_node_t *n, const sr_catalog *cat,
-                            sr_error *err);
+/* The design: block into d (n may be NULL: no block). Called by
+ * sr_mission_parse after the stages and start, with their basis. */
+int sr_mission_parse_design(sr_design_spec *d, sr_yaml *y, yaml_node_t *n, const sr_design_basis *b,
+                            const sr_catalog *cat, sr_error *err);
 
 #endif

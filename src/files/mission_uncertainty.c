@@ -5,11 +5,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "files/mission.h"
-#include "analysis/uncertainty.h"
-#include "files/yamldoc.h"
-
-_Static_assert(SR_UNC_MAX_STAGES == SR_MISSION_MAX_STAGES, "one perturbation slot per mission stage");
+#include "files/mission_int.h"
 
 #define PI 3.14159265358979323846
 /* A relative normal spread above 30 % would put the scale's zero within
@@ -198,25 +194,24 @@ static int parse_dist(sr_yaml *y, yaml_node_t *n, const dist_ctx *c, sr_dist *d,
     return SR_OK;
 }
 
-static int stage_index(const sr_mission *m, const char *name)
+static int stage_index(const sr_unc_basis *m, const char *name)
 {
     for (size_t s = 0; s < m->nstages; s++)
-        if (strcmp(m->stages[s].name, name) == 0)
+        if (strcmp(m->stage[s].name, name) == 0)
             return (int)s;
     return -1;
 }
 
-static int parse_drag(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_error *err)
+static int parse_drag(sr_uncertainty *u, const sr_unc_basis *m, sr_yaml *y, yaml_node_t *n, sr_error *err)
 {
-    sr_uncertainty *u = &m->unc;
     dist_ctx c = {.q = SR_Q_NONE, .mode = SPREAD_SCALE, .is_drag = 1};
-    char what[SR_NAME_MAX + 32];
+    char what[SR_DESCENT_NAME_MAX + 32];
     int rc;
     if (n && n->type == YAML_MAPPING_NODE && !sr_yaml_get(y, n, "distribution")) {
         /* one entry per stage, by name */
-        const char *names[SR_MISSION_MAX_STAGES + 1];
+        const char *names[SR_DESCENT_MAX_STAGES + 1];
         for (size_t s = 0; s < m->nstages; s++)
-            names[s] = m->stages[s].name;
+            names[s] = m->stage[s].name;
         names[m->nstages] = NULL;
         if ((rc = sr_yaml_check_map(y, n, "uncertainty drag (stage names)", names, NULL, err)))
             return rc;
@@ -224,11 +219,10 @@ static int parse_drag(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_error *err)
             yaml_node_t *k = yaml_document_get_node(&y->doc, p->key);
             yaml_node_t *v = yaml_document_get_node(&y->doc, p->value);
             int s = stage_index(m, scalar(k));
-            const sr_canopy *cp = &m->stages[s].canopy;
-            snprintf(what, sizeof what, "drag of stage '%s'", m->stages[s].name);
+            snprintf(what, sizeof what, "drag of stage '%s'", m->stage[s].name);
             c.what = what;
-            c.family = cp->cds;
-            c.nominal = cp->cd.v.typ;
+            c.family = m->stage[s].cds;
+            c.nominal = m->stage[s].cd;
             if ((rc = parse_dist(y, v, &c, &u->drag[s], &u->drag_family[s], err)))
                 return rc;
         }
@@ -236,24 +230,23 @@ static int parse_drag(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_error *err)
     }
     /* one distribution for every stage */
     for (size_t s = 0; s < m->nstages; s++) {
-        const sr_canopy *cp = &m->stages[s].canopy;
         snprintf(what, sizeof what, "drag");
         c.what = what;
-        c.family = cp->cds;
-        c.nominal = cp->cd.v.typ;
+        c.family = m->stage[s].cds;
+        c.nominal = m->stage[s].cd;
         if ((rc = parse_dist(y, n, &c, &u->drag[s], &u->drag_family[s], err)))
             return rc;
     }
     return SR_OK;
 }
 
-static void set_default_drag(sr_mission *m)
+static void set_default_drag(sr_uncertainty *u, const sr_unc_basis *m)
 {
     for (size_t s = 0; s < m->nstages; s++) {
-        const sr_band *b = &m->stages[s].canopy.cds;
-        sr_dist *d = &m->unc.drag[s];
+        const sr_band *b = &m->stage[s].cds;
+        sr_dist *d = &u->drag[s];
         memset(d, 0, sizeof *d);
-        m->unc.drag_family[s] = 1;
+        u->drag_family[s] = 1;
         if (b->typ > 0.0 && b->hi > b->lo) {
             d->kind = SR_DIST_UNIFORM;
             d->lo = b->lo / b->typ - 1.0;
@@ -263,22 +256,22 @@ static void set_default_drag(sr_mission *m)
     }
 }
 
-int sr_mission_parse_uncertainty(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_error *err)
+int sr_mission_uncertainty_parse(sr_uncertainty *u, sr_yaml *y, yaml_node_t *n, const sr_unc_basis *m,
+                                 sr_error *err)
 {
-    sr_uncertainty *u = &m->unc;
     memset(u, 0, sizeof *u);
     u->nstages = m->nstages;
     double lowest_height = INFINITY;
     for (size_t s = 0; s < m->nstages; s++) {
-        if (m->stages[s].deploy == SR_DEPLOY_ALTITUDE) {
+        if (m->stage[s].deploy == SR_DEPLOY_ALTITUDE) {
             u->height_stages |= 1u << s;
-            if (m->stages[s].deploy_value < lowest_height)
-                lowest_height = m->stages[s].deploy_value;
+            if (m->stage[s].deploy_value < lowest_height)
+                lowest_height = m->stage[s].deploy_value;
         }
-        if (m->stages[s].deploy == SR_DEPLOY_DELAY)
+        if (m->stage[s].deploy == SR_DEPLOY_DELAY)
             u->delay_stages |= 1u << s;
     }
-    set_default_drag(m);
+    set_default_drag(u, m);
     if (!n)
         return SR_OK;
     int acc = SR_OK; /* each distribution on its own: check names every problem */
@@ -288,9 +281,9 @@ int sr_mission_parse_uncertainty(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_e
     u->given = 1;
     yaml_node_t *v;
     if ((v = sr_yaml_get(y, n, "drag")))
-        SR_YAML_STEP(parse_drag(m, y, v, err));
+        SR_YAML_STEP(parse_drag(u, m, y, v, err));
     if ((v = sr_yaml_get(y, n, "mass"))) {
-        dist_ctx c = {.what = "mass", .q = SR_Q_MASS, .mode = SPREAD_SCALE, .nominal = sr_mission_total_mass(m)};
+        dist_ctx c = {.what = "mass", .q = SR_Q_MASS, .mode = SPREAD_SCALE, .nominal = m->total_mass};
         SR_YAML_STEP(parse_dist(y, v, &c, &u->mass, NULL, err));
     }
     if ((v = sr_yaml_get(y, n, "wind-speed"))) {
@@ -311,7 +304,7 @@ int sr_mission_parse_uncertainty(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_e
             c.max_abs = m->start_height;
             c.max_why = why;
             double lo, hi;
-            sr_atmos_range(&m->atmos, &lo, &hi);
+            sr_atmos_range(m->atmos, &lo, &hi);
             snprintf(up_why, sizeof up_why,
                      "above the top of the atmosphere model (%.0f m above sea level) from the first deployment at "
                      "%.0f m above sea level",

@@ -6,7 +6,8 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "files/mission.h"
+#include "files/mission_int.h"
+#include "files/windtable.h"
 
 static const char *const WIND_KEYS[] = {"model",        "speed",            "from",         "reference-height",
                                         "exponent",     "roughness-length", "displacement", "file",
@@ -36,7 +37,7 @@ static int quantity(const sr_yaml *y, yaml_node_t *map, const char *key, sr_quan
     return n ? sr_yaml_quantity(y, n, q, v, err) : SR_OK;
 }
 
-static int parse_rows(sr_mission *m, const sr_yaml *y, yaml_node_t *rows, sr_error *err)
+static int parse_rows(sr_wind *w, double ground, const sr_yaml *y, yaml_node_t *rows, sr_error *err)
 {
     int rc = sr_yaml_require_seq(y, rows, "wind rows", 1, SR_WIND_MAX_ROWS, err);
     if (rc)
@@ -59,7 +60,7 @@ static int parse_rows(sr_mission *m, const sr_yaml *y, yaml_node_t *rows, sr_err
         if ((rc = sr_yaml_quantity(y, hn ? hn : an, SR_Q_LENGTH, &h[i], err)))
             break;
         if (an)
-            h[i] -= m->ground;
+            h[i] -= ground;
         if ((rc = sr_yaml_quantity(y, sr_yaml_get(y, r, "speed"), SR_Q_SPEED, &s[i], err)) ||
             (rc = sr_yaml_quantity(y, sr_yaml_get(y, r, "from"), SR_Q_ANGLE, &f[i], err)))
             break;
@@ -75,18 +76,19 @@ static int parse_rows(sr_mission *m, const sr_yaml *y, yaml_node_t *rows, sr_err
             rc = sr_yaml_fail(y, r, err, "%s", e.msg);
             break;
         }
-        sr_wind_free(&one);
+        sr_wind_release(&one);
     }
     if (!rc) {
         sr_error e;
-        if ((rc = sr_wind_init_table(&m->wind, h, s, f, n, &e)))
+        if ((rc = sr_wind_init_table(w, h, s, f, n, &e)))
             rc = sr_yaml_fail(y, rows, err, "%s", e.msg);
     }
     free(buf);
     return rc;
 }
 
-int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_error *err)
+int sr_mission_wind_parse(sr_wind *w, const sr_yaml *y, yaml_node_t *n, const char *mission_path, double ground,
+                          const sr_atmos *atmos, sr_error *err)
 {
     int rc;
     if ((rc = sr_yaml_check_map(y, n, "wind", WIND_KEYS, NULL, err)))
@@ -100,8 +102,10 @@ int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_er
             const char *s = sr_yaml_suggest(model, MODELS);
             if (s)
                 return sr_yaml_fail(y, mn, err, "unknown wind model '%s'; did you mean '%s'?", model, s);
-            return sr_yaml_fail(y, mn, err, "unknown wind model '%s' (constant, power-law, log-law, table, sounding)",
-                                model);
+            char list[160] = "";
+            for (const char *const *k = MODELS; *k; k++)
+                snprintf(list + strlen(list), sizeof list - strlen(list), "%s%s", k == MODELS ? "" : ", ", *k);
+            return sr_yaml_fail(y, mn, err, "unknown wind model '%s' (%s)", model, list);
         }
     } else {
         /* without a model: a table when rows or a file are given, else constant */
@@ -127,20 +131,20 @@ int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_er
         if ((fn != NULL) == (rn != NULL))
             return sr_yaml_fail(y, n, err, "a wind table takes exactly one of file: (CSV) or rows: (inline)");
         if (rn)
-            return parse_rows(m, y, rn, err);
+            return parse_rows(w, ground, y, rn, err);
         char file[400], path[1024];
         if ((rc = sr_yaml_string(y, fn, file, sizeof file, err)))
             return rc;
-        sr_mission_relative_path(path, sizeof path, m->path, file);
-        if (sr_wind_load_table(&m->wind, path, m->ground, &e))
+        sr_yaml_relative_path(path, sizeof path, mission_path, file);
+        if (sr_windtable_load(w, path, ground, &e))
             return sr_yaml_fail(y, fn, err, "%s", e.msg);
         return SR_OK;
     }
     if (strcmp(model, "sounding") == 0) {
-        if (m->atmos.kind != SR_ATMOS_SOUNDING)
+        if (atmos->kind != SR_ATMOS_SOUNDING)
             return sr_yaml_fail(y, mn, err, "wind model 'sounding' takes the wind columns of site.sounding, and the "
                                             "site has no sounding");
-        if (sr_wind_load_sounding(&m->wind, m->atmos.source, m->ground, &e))
+        if (sr_windtable_load_sounding(w, atmos->source, ground, &e))
             return sr_yaml_fail(y, mn, err, "%s", e.msg);
         return SR_OK;
     }
@@ -156,30 +160,19 @@ int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_er
     yaml_node_t *xn = sr_yaml_get(y, n, "exponent");
     if (xn && (rc = sr_yaml_number(y, xn, &alpha, err)))
         return rc;
-    yaml_node_t *blame = sr_yaml_get(y, n, "speed");
     if (strcmp(model, "constant") == 0) {
-        rc = sr_wind_init_constant(&m->wind, speed, from, &e);
+        rc = sr_wind_init_constant(w, speed, from, &e);
     } else if (strcmp(model, "power-law") == 0) {
-        rc = sr_wind_init_power(&m->wind, speed, from, href, alpha, &e);
-        if (rc && strstr(e.msg, "exponent"))
-            blame = xn;
-        else if (rc && strstr(e.msg, "height"))
-            blame = sr_yaml_get(y, n, "reference-height");
+        rc = sr_wind_init_power(w, speed, from, href, alpha, &e);
     } else {
         if (isnan(z0))
             return sr_yaml_fail(y, n, err, "the log-law wind needs roughness-length: (e.g. \"0.03 m\" for open "
                                            "grassland)");
-        rc = sr_wind_init_log(&m->wind, speed, from, href, z0, disp, &e);
-        if (rc && strstr(e.msg, "reference height"))
-            blame = sr_yaml_get(y, n, "reference-height");
-        else if (rc && strstr(e.msg, "roughness"))
-            blame = sr_yaml_get(y, n, "roughness-length");
-        else if (rc && strstr(e.msg, "displacement"))
-            blame = sr_yaml_get(y, n, "displacement");
+        rc = sr_wind_init_log(w, speed, from, href, z0, disp, &e);
     }
     if (rc) {
-        if (strstr(e.msg, "direction"))
-            blame = sr_yaml_get(y, n, "from");
+        /* the wind model names the key it refuses (its keys are the file's) */
+        yaml_node_t *blame = sr_yaml_get(y, n, e.key[0] ? e.key : "speed");
         return sr_yaml_fail(y, blame ? blame : n, err, "%s", e.msg);
     }
     yaml_node_t *gn = sr_yaml_get(y, n, "gradient-height");
@@ -187,7 +180,7 @@ int sr_mission_parse_wind(sr_mission *m, const sr_yaml *y, yaml_node_t *n, sr_er
         double hg;
         if ((rc = sr_yaml_quantity(y, gn, SR_Q_LENGTH, &hg, err)))
             return rc;
-        if (sr_wind_set_gradient_height(&m->wind, hg, &e))
+        if (sr_wind_set_gradient_height(w, hg, &e))
             return sr_yaml_fail(y, gn, err, "%s", e.msg);
     }
     return SR_OK;

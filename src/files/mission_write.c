@@ -128,7 +128,7 @@ static void emit_path(writer *w, const yaml_node_t *v)
         return;
     }
     char rel[1024], abs[PATH_MAX];
-    sr_mission_relative_path(rel, sizeof rel, w->m->path, s);
+    sr_yaml_relative_path(rel, sizeof rel, w->m->path, s);
     emit_scalar(w, realpath(rel, abs) ? abs : rel);
 }
 

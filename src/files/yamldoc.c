@@ -2,7 +2,7 @@
  * strict schema helpers every YAML reader in sinkrate uses. */
 #include "files/yamldoc.h"
 
-#include "output/fileio.h"
+#include "base/fileread.h"
 
 #include <errno.h>
 #include <math.h>
@@ -10,6 +10,54 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+
+/* The node holding n (a mapping or sequence), or NULL for the root. A scan
+ * of the document: libyaml keeps no parent links, and this runs only when a
+ * message is made. */
+static const yaml_node_t *parent_of(const sr_yaml *y, const yaml_node_t *n)
+{
+    yaml_document_t *d = (yaml_document_t *)&y->doc;
+    int id = (int)(n - d->nodes.start) + 1;
+    for (yaml_node_t *p = d->nodes.start; p < d->nodes.top; p++) {
+        if (p->type == YAML_MAPPING_NODE) {
+            for (yaml_node_pair_t *q = p->data.mapping.pairs.start; q < p->data.mapping.pairs.top; q++)
+                if (q->key == id || q->value == id)
+                    return p;
+        } else if (p->type == YAML_SEQUENCE_NODE) {
+            for (yaml_node_item_t *q = p->data.sequence.items.start; q < p->data.sequence.items.top; q++)
+                if (*q == id)
+                    return p;
+        }
+    }
+    return NULL;
+}
+
+/* The key an error at node n is about: n itself when it is a key, the key
+ * it is the value of, or for an item of a list the key of the list. */
+static void key_of(const sr_yaml *y, const yaml_node_t *n, char *buf, size_t len)
+{
+    buf[0] = '\0';
+    yaml_document_t *d = (yaml_document_t *)&y->doc;
+    if (!y->loaded || !n || n < d->nodes.start || n >= d->nodes.top)
+        return;
+    for (int depth = 0; n && depth < 64; depth++) {
+        const yaml_node_t *p = parent_of(y, n);
+        if (!p)
+            return;
+        if (p->type == YAML_MAPPING_NODE) {
+            int id = (int)(n - d->nodes.start) + 1;
+            for (yaml_node_pair_t *q = p->data.mapping.pairs.start; q < p->data.mapping.pairs.top; q++) {
+                yaml_node_t *k = yaml_document_get_node(d, q->key);
+                if ((q->key == id || q->value == id) && k && k->type == YAML_SCALAR_NODE) {
+                    snprintf(buf, len, "%s", (const char *)k->data.scalar.value);
+                    return;
+                }
+            }
+            return;
+        }
+        n = p; /* an item of a list: the list's key */
+    }
+}
 
 int sr_yaml_fail(const sr_yaml *y, const yaml_node_t *n, sr_error *err, const char *fmt, ...)
 {
@@ -23,10 +71,10 @@ int sr_yaml_fail(const sr_yaml *y, const yaml_node_t *n, sr_error *err, const ch
         err = &local;
     /* libyaml counts lines and columns from zero */
     if (n)
-        sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: %s", y->name, n->start_mark.line + 1, n->start_mark.column + 1,
-                     msg);
+        sr_error_set_at(err, SR_EINVAL, y->name, n->start_mark.line + 1, n->start_mark.column + 1, "%s", msg);
     else
-        sr_error_set(err, SR_EINVAL, "%s: %s", y->name, msg);
+        sr_error_set_at(err, SR_EINVAL, y->name, 0, 0, "%s", msg);
+    key_of(y, n, err->key, sizeof err->key);
     sr_yaml_keep(y, err);
     return SR_EINVAL;
 }
@@ -39,8 +87,12 @@ void sr_yaml_keep(const sr_yaml *y, const sr_error *err)
     for (size_t i = 0; i < l->n; i++)
         if (strcmp(l->msg[i], err->msg) == 0)
             return;
-    if (l->n < SR_YAML_MAX_ERRORS)
+    if (l->n < SR_YAML_MAX_ERRORS) {
+        int here = strcmp(err->file, y->name) == 0;
+        l->line[l->n] = here ? err->line : 0;
+        l->column[l->n] = here ? err->column : 0;
         snprintf(l->msg[l->n++], sizeof l->msg[0], "%s", err->msg);
+    }
     else
         l->more++;
 }
@@ -83,8 +135,7 @@ static int prescan(const sr_yaml *y, const char *buf, size_t len, sr_error *err)
             line++;
             col = 0;
         }
-    return sr_error_set(err, SR_EINVAL, "%s:%zu:%zu: binary data (a NUL byte); not a YAML text file", y->name, line,
-                        col);
+    return sr_error_set_at(err, SR_EINVAL, y->name, line, col, "binary data (a NUL byte); not a YAML text file");
 }
 
 /* The document is built here from libyaml's events rather than by
@@ -127,7 +178,7 @@ static int fail_at(builder *b, yaml_mark_t m, const char *fmt, ...)
     va_start(ap, fmt);
     vsnprintf(msg, sizeof msg, fmt, ap);
     va_end(ap);
-    return sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: %s", b->y->name, m.line + 1, m.column + 1, msg);
+    return sr_error_set_at(b->err, SR_EINVAL, b->y->name, m.line + 1, m.column + 1, "%s", msg);
 }
 
 static int too_deep(builder *b, yaml_mark_t m)
@@ -162,7 +213,7 @@ static int attach(builder *b, int node, yaml_mark_t m)
         f->key = 0;
     }
     if (!ok)
-        return sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
+        return sr_error_set_at(b->err, SR_ENOMEM, b->y->name, 0, 0, "out of memory while reading YAML");
     (void)m;
     return SR_OK;
 }
@@ -226,7 +277,7 @@ static int copy_node(builder *b, int src, yaml_mark_t m, int depth, int *out)
     if (!idx && !rc)
         rc = SR_ENOMEM;
     if (rc == SR_ENOMEM)
-        return sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
+        return sr_error_set_at(b->err, SR_ENOMEM, b->y->name, 0, 0, "out of memory while reading YAML");
     if (rc)
         return rc;
     n = yaml_document_get_node(d, idx);
@@ -327,14 +378,14 @@ static int build(builder *b, yaml_parser_t *p, const char *buf, size_t len)
             }
             size_t tab = p->error == YAML_MEMORY_ERROR ? 0 : tab_column(buf, len, line, col);
             if (p->error == YAML_MEMORY_ERROR)
-                rc = sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
+                rc = sr_error_set_at(b->err, SR_ENOMEM, b->y->name, 0, 0, "out of memory while reading YAML");
             else if (tab)
-                rc = sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: a tab character: YAML indents with spaces, never "
-                                  "tabs (replace it with spaces)", b->y->name, line, tab);
+                rc = sr_error_set_at(b->err, SR_EINVAL, b->y->name, line, tab,
+                                     "a tab character: YAML indents with spaces, never tabs (replace it with spaces)");
             else
-                rc = sr_error_set(b->err, SR_EINVAL, "%s:%zu:%zu: malformed YAML: %s%s%s", b->y->name, line, col,
-                                  p->problem ? p->problem : "syntax error", p->context ? " " : "",
-                                  p->context ? p->context : "");
+                rc = sr_error_set_at(b->err, SR_EINVAL, b->y->name, line, col, "malformed YAML: %s%s%s",
+                                     p->problem ? p->problem : "syntax error", p->context ? " " : "",
+                                     p->context ? p->context : "");
             break;
         }
         yaml_event_type_t type = ev.type;
@@ -367,7 +418,7 @@ static int build(builder *b, yaml_parser_t *p, const char *buf, size_t len)
         }
         yaml_event_delete(&ev);
         if (rc == SR_ENOMEM)
-            rc = sr_error_set(b->err, SR_ENOMEM, "%s: out of memory while reading YAML", b->y->name);
+            rc = sr_error_set_at(b->err, SR_ENOMEM, b->y->name, 0, 0, "out of memory while reading YAML");
         if (rc || type == YAML_STREAM_END_EVENT)
             break;
     }
@@ -394,8 +445,8 @@ static void keep_tab_lines(sr_yaml *y, const char *buf, size_t len)
         }
         if (tab && i < len && buf[i] != '\n' && buf[i] != '#') {
             sr_error e;
-            sr_error_set(&e, SR_EINVAL, "%s:%zu:%d: a tab character: YAML indents with spaces, never tabs (replace "
-                         "it with spaces)", y->name, line, tab);
+            sr_error_set_at(&e, SR_EINVAL, y->name, line, (size_t)tab,
+                            "a tab character: YAML indents with spaces, never tabs (replace it with spaces)");
             sr_yaml_keep(y, &e);
         }
         while (i < len && buf[i] != '\n')
@@ -419,15 +470,15 @@ static int load_string(sr_yaml *y, const char *name, const char *buf, size_t len
     y->errors = list;
     snprintf(y->name, sizeof y->name, "%s", name);
     if (len > SR_YAML_MAX_BYTES)
-        return sr_error_set(err, SR_EINVAL, "%s: larger than 1 MiB; not a sinkrate file", name);
+        return sr_error_set_at(err, SR_EINVAL, name, 0, 0, "larger than 1 MiB; not a sinkrate file");
     if (len == 0)
-        return sr_error_set(err, SR_EINVAL, "%s:1:1: the file is empty", name);
+        return sr_error_set_at(err, SR_EINVAL, name, 1, 1, "the file is empty");
     int rc = prescan(y, buf, len, err);
     if (rc)
         return rc;
     yaml_parser_t p;
     if (!yaml_parser_initialize(&p))
-        return sr_error_set(err, SR_ENOMEM, "%s: cannot start the YAML parser", name);
+        return sr_error_set_at(err, SR_ENOMEM, name, 0, 0, "cannot start the YAML parser");
     yaml_parser_set_input_string(&p, (const unsigned char *)buf, len);
     builder b;
     memset(&b, 0, sizeof b);
@@ -447,7 +498,7 @@ static int load_string(sr_yaml *y, const char *name, const char *buf, size_t len
     }
     if (!sr_yaml_root(y)) {
         sr_yaml_free(y);
-        return sr_error_set(err, SR_EINVAL, "%s:1:1: the file holds no YAML document", name);
+        return sr_error_set_at(err, SR_EINVAL, name, 1, 1, "the file holds no YAML document");
     }
     return SR_OK;
 }
@@ -468,14 +519,14 @@ int sr_yaml_load_file_all(sr_yaml *y, const char *path, sr_yaml_errors *list, sr
     char *buf = malloc(SR_YAML_MAX_BYTES + 1);
     if (!buf) {
         fclose(f);
-        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", path);
+        return sr_error_set_at(err, SR_ENOMEM, path, 0, 0, "out of memory");
     }
     size_t len = fread(buf, 1, SR_YAML_MAX_BYTES + 1, f);
     int bad = ferror(f), bad_errno = errno;
     fclose(f);
     if (bad) {
         free(buf);
-        return sr_error_set(err, SR_EIO, "%s: read error: %s", path, strerror(bad_errno));
+        return sr_error_set_at(err, SR_EIO, path, 0, 0, "read error: %s", strerror(bad_errno));
     }
     rc = load_string(y, path, buf, len, list, err);
     free(buf);
@@ -775,4 +826,18 @@ int sr_yaml_require_seq(const sr_yaml *y, yaml_node_t *n, const char *what, size
     if (len < min || len > max)
         return sr_yaml_fail(y, n, err, "%s must have %zu to %zu items, it has %zu", what, min, max, len);
     return SR_OK;
+}
+
+void sr_yaml_relative_path(char *out, size_t len, const char *base, const char *file)
+{
+    if (file[0] == '/') {
+        snprintf(out, len, "%s", file);
+        return;
+    }
+    const char *slash = strrchr(base, '/');
+    if (!slash) {
+        snprintf(out, len, "%s", file);
+        return;
+    }
+    snprintf(out, len, "%.*s/%s", (int)(slash - base), base, file);
 }

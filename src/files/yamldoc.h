@@ -25,6 +25,7 @@
 #define SR_YAML_MAX_ERRORS 64
 typedef struct sr_yaml_errors {
     char msg[SR_YAML_MAX_ERRORS][SR_ERROR_MSG_MAX];
+    int line[SR_YAML_MAX_ERRORS], column[SR_YAML_MAX_ERRORS]; /* each one's place in this file (0: none) */
     size_t n;      /* kept */
     size_t more;   /* beyond SR_YAML_MAX_ERRORS, counted only */
 } sr_yaml_errors;
@@ -103,5 +104,9 @@ int sr_yaml_require_seq(const sr_yaml *y, yaml_node_t *n, const char *what, size
 /* Closest word to `word` among candidates (NULL-terminated) within a small
  * edit distance, or NULL. */
 const char *sr_yaml_suggest(const char *word, const char *const *candidates);
+
+/* A file name given inside the document at doc_path, taken relative to that
+ * document's directory (an absolute name stays as it is). */
+void sr_yaml_relative_path(char *out, size_t len, const char *doc_path, const char *file);
 
 #endif

@@ -1,4 +1,4 @@
-/* fileio.c - one file written atomically (a transaction of one output) and bounded reads. */
+/* fileio.c - one file written atomically (a transaction of one output). */
 #define _DEFAULT_SOURCE
 #include "output/fileio.h"
 
@@ -24,48 +24,4 @@ int sr_file_write_atomic(const char *path, const void *data, size_t len, sr_erro
         rc = sr_txn_commit(t, err);
     sr_txn_free(t);
     return rc;
-}
-
-int sr_file_open_read(const char *path, FILE **f, sr_error *err)
-{
-    *f = fopen(path, "rb");
-    if (!*f)
-        return sr_error_set(err, SR_EIO, "%s: cannot open: %s", path, strerror(errno));
-    struct stat st;
-    if (fstat(fileno(*f), &st) == 0 && S_ISDIR(st.st_mode)) {
-        fclose(*f);
-        *f = NULL;
-        return sr_error_set(err, SR_EIO, "%s: is a directory, not a file", path);
-    }
-    return SR_OK;
-}
-
-int sr_file_read(const char *path, size_t max, char **data, size_t *len, sr_error *err)
-{
-    *data = NULL;
-    *len = 0;
-    FILE *f;
-    int rc = sr_file_open_read(path, &f, err);
-    if (rc)
-        return rc;
-    char *buf = malloc(max + 1);
-    if (!buf) {
-        fclose(f);
-        return sr_error_set(err, SR_ENOMEM, "%s: out of memory", path);
-    }
-    size_t n = fread(buf, 1, max + 1, f);
-    int bad = ferror(f), bad_errno = errno;
-    fclose(f);
-    if (bad) {
-        free(buf);
-        return sr_error_set(err, SR_EIO, "%s: read error: %s", path, strerror(bad_errno));
-    }
-    if (n > max) {
-        free(buf);
-        return sr_error_set(err, SR_EINVAL, "%s: larger than %zu bytes", path, max);
-    }
-    buf[n] = '\0';
-    *data = buf;
-    *len = n;
-    return SR_OK;
 }

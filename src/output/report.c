@@ -23,6 +23,12 @@ const char *sr_report_caution(void)
     return CAUTION;
 }
 
+/* the caution of a program's output (include/sinkrate/output.h): the same text */
+const char *sr_caution(void)
+{
+    return CAUTION;
+}
+
 enum item_kind { IT_SECTION, IT_VALUE, IT_BAND, IT_TEXT };
 
 typedef struct item {

@@ -9,6 +9,7 @@
 
 #include "base/error.h"
 #include "physics/units.h"
+#include "sinkrate/output.h"
 
 typedef enum sr_report_format { SR_REPORT_TEXT = 0, SR_REPORT_CSV, SR_REPORT_JSON } sr_report_format;
 

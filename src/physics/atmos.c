@@ -9,7 +9,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "files/csvtable.h"
 
 #define NLAYER 7
 /* Geopotential base heights (m'), lapse rates (K/m'), base temperatures (K). */
@@ -124,16 +123,17 @@ int sr_atmos_init_site(sr_atmos *m, double z_site, double T_s, double p_s, sr_er
 {
     sr_atmos_init_standard(m);
     if (!isfinite(z_site) || z_site < SR_ATMOS_Z_MIN || z_site > 20000.0)
-        return sr_error_set(err, SR_EDOMAIN, "site elevation %g m is outside -1000 m .. 20000 m", z_site);
+        return sr_error_set_key(err, SR_EDOMAIN, "elevation", "site elevation %g m is outside -1000 m .. 20000 m",
+                                z_site);
     double Tstd, pstd;
     sr_atmos_standard_tp(z_site, 0.0, &Tstd, &pstd);
     if (!isnan(T_s) && (!isfinite(T_s) || T_s < 173.15 || T_s > 343.15))
-        return sr_error_set(err, SR_EINVAL,
-                            "surface temperature %.2f K is outside 173.15 K .. 343.15 K (-100 C .. +70 C)", T_s);
+        return sr_error_set_key(err, SR_EINVAL, "temperature",
+                                "surface temperature %.2f K is outside 173.15 K .. 343.15 K (-100 C .. +70 C)", T_s);
     if (!isnan(p_s) && (!isfinite(p_s) || p_s < 0.3 * pstd || p_s > 1.3 * pstd))
-        return sr_error_set(err, SR_EINVAL,
-                            "surface pressure %.0f Pa is implausible at %.0f m (standard there: %.0f Pa)", p_s,
-                            z_site, pstd);
+        return sr_error_set_key(err, SR_EINVAL, "pressure",
+                                "surface pressure %.0f Pa is implausible at %.0f m (standard there: %.0f Pa)", p_s,
+                                z_site, pstd);
     m->kind = SR_ATMOS_SITE;
     m->site_z = z_site;
     m->site_measured = (isnan(T_s) ? 0 : SR_ATMOS_MEASURED_T) | (isnan(p_s) ? 0 : SR_ATMOS_MEASURED_P);
@@ -147,7 +147,29 @@ int sr_atmos_init_site(sr_atmos *m, double z_site, double T_s, double p_s, sr_er
     return SR_OK;
 }
 
-void sr_atmos_free(sr_atmos *m)
+int sr_atmos_copy(sr_atmos *dst, const sr_atmos *src, sr_error *err)
+{
+    sr_atmos_release(dst);
+    *dst = *src;
+    dst->sz = dst->sT = dst->slnp = NULL;
+    if (src->kind != SR_ATMOS_SOUNDING)
+        return SR_OK;
+    size_t b = src->n * sizeof(double);
+    dst->sz = malloc(b);
+    dst->sT = malloc(b);
+    dst->slnp = malloc(b);
+    if (!dst->sz || !dst->sT || !dst->slnp) {
+        sr_atmos_release(dst);
+        sr_atmos_init_standard(dst);
+        return sr_error_set(err, SR_ENOMEM, "out of memory for a copy of the sounding");
+    }
+    memcpy(dst->sz, src->sz, b);
+    memcpy(dst->sT, src->sT, b);
+    memcpy(dst->slnp, src->slnp, b);
+    return SR_OK;
+}
+
+void sr_atmos_release(sr_atmos *m)
 {
     if (!m)
         return;
@@ -201,19 +223,26 @@ static int check_sounding(const double *z, const double *T, const double *p, siz
 int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
                            sr_error *err)
 {
-    sr_atmos_init_standard(m);
     size_t bad;
-    int rc = check_sounding(z, T, p, n, &bad, err);
-    if (rc) {
-        if (n >= 2)
-            sr_error_prefix(err, "sounding row %zu: ", bad + 1);
+    int rc = sr_atmos_init_sounding_rows(m, z, T, p, n, &bad, err);
+    if (rc && n >= 2 && bad != (size_t)-1)
+        sr_error_prefix(err, "sounding row %zu: ", bad + 1);
+    return rc;
+}
+
+int sr_atmos_init_sounding_rows(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
+                                size_t *bad, sr_error *err)
+{
+    sr_atmos_init_standard(m);
+    int rc = check_sounding(z, T, p, n, bad, err);
+    if (rc)
         return rc;
-    }
+    *bad = (size_t)-1;
     m->sz = malloc(n * sizeof *m->sz);
     m->sT = malloc(n * sizeof *m->sT);
     m->slnp = malloc(n * sizeof *m->slnp);
     if (!m->sz || !m->sT || !m->slnp) {
-        sr_atmos_free(m);
+        sr_atmos_release(m);
         return sr_error_set(err, SR_ENOMEM, "out of memory for the sounding");
     }
     for (size_t i = 0; i < n; i++) {
@@ -224,34 +253,6 @@ int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const 
     m->n = n;
     m->kind = SR_ATMOS_SOUNDING;
     return SR_OK;
-}
-
-static const sr_csv_column SOUNDING_COLS[] = {
-    {"altitude", SR_Q_LENGTH, 1},
-    {"temperature", SR_Q_TEMP, 1},
-    {"pressure", SR_Q_PRESSURE, 1},
-    {"wind-speed", SR_Q_SPEED, 0},
-    {"wind-from", SR_Q_ANGLE, 0},
-};
-
-int sr_atmos_load_sounding(sr_atmos *m, const char *path, sr_error *err)
-{
-    sr_atmos_init_standard(m);
-    sr_csvtable t;
-    int rc = sr_csvtable_load(&t, path, SOUNDING_COLS, sizeof SOUNDING_COLS / sizeof SOUNDING_COLS[0], err);
-    if (rc)
-        return rc;
-    /* check first so a bad row is reported as file:line:column of the CSV */
-    size_t bad;
-    rc = check_sounding(t.col[0], t.col[1], t.col[2], t.nrows, &bad, err);
-    if (rc)
-        sr_error_prefix(err, "%s:%zu:1: ", path, t.row_line[bad]);
-    else
-        rc = sr_atmos_init_sounding(m, t.col[0], t.col[1], t.col[2], t.nrows, err);
-    if (!rc)
-        snprintf(m->source, sizeof m->source, "%s", path);
-    sr_csvtable_free(&t);
-    return rc;
 }
 
 void sr_atmos_range(const sr_atmos *m, double *zmin, double *zmax)
@@ -370,4 +371,70 @@ void sr_atmos_describe(const sr_atmos *m, char *buf, size_t len)
                  m->sz[0], m->sz[m->n - 1]);
         break;
     }
+}
+
+/* ---- a program's handles (include/sinkrate/physics.h) ---- */
+
+/* The model built in tmp moves into a new handle, or is released. */
+static int atmos_handle(sr_atmos **out, sr_atmos *tmp, int rc, sr_error *err)
+{
+    sr_error_gsl_off();
+    *out = NULL;
+    if (rc) {
+        sr_atmos_release(tmp);
+        return rc;
+    }
+    sr_atmos *m = malloc(sizeof *m);
+    if (!m) {
+        sr_atmos_release(tmp);
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    }
+    *m = *tmp;
+    *out = m;
+    return SR_OK;
+}
+
+int sr_atmos_new_standard(sr_atmos **out, sr_error *err)
+{
+    sr_atmos t;
+    sr_atmos_init_standard(&t);
+    return atmos_handle(out, &t, SR_OK, err);
+}
+
+int sr_atmos_new_offset(sr_atmos **out, double dT, sr_error *err)
+{
+    sr_atmos t;
+    int rc = sr_atmos_init_offset(&t, dT, err);
+    return atmos_handle(out, &t, rc, err);
+}
+
+int sr_atmos_new_site(sr_atmos **out, double z, double T, double p, sr_error *err)
+{
+    sr_atmos t;
+    int rc = sr_atmos_init_site(&t, z, T, p, err);
+    return atmos_handle(out, &t, rc, err);
+}
+
+int sr_atmos_new_sounding(sr_atmos **out, const double *z, const double *T, const double *p, size_t n,
+                          sr_error *err)
+{
+    sr_atmos t;
+    int rc = sr_atmos_init_sounding(&t, z, T, p, n, err);
+    return atmos_handle(out, &t, rc, err);
+}
+
+int sr_atmos_dup(sr_atmos **out, const sr_atmos *src, sr_error *err)
+{
+    sr_atmos t;
+    sr_atmos_init_standard(&t);
+    int rc = sr_atmos_copy(&t, src, err);
+    return atmos_handle(out, &t, rc, err);
+}
+
+void sr_atmos_free(sr_atmos *m)
+{
+    if (!m)
+        return;
+    sr_atmos_release(m);
+    free(m);
 }

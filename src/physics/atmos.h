@@ -7,6 +7,7 @@
 #include <stddef.h>
 
 #include "base/error.h"
+#include "sinkrate/physics.h"
 
 /* 1976 standard constants (U.S. Standard Atmosphere 1976, Table 2 / ICAO Doc 7488 Table A). */
 #define SR_ATMOS_R_STAR 8.31432      /* J/(mol K): the 1976 value, not CODATA */
@@ -21,18 +22,6 @@
 #define SR_ATMOS_Z_MIN (-1000.0)     /* m geometric */
 #define SR_ATMOS_Z_MAX 86000.0       /* m geometric */
 
-/* State of the air at one geometric altitude, SI. */
-typedef struct sr_air {
-    double z;   /* geometric altitude above mean sea level, m */
-    double T;   /* temperature, K (molecular-scale temperature T_M; equals kinetic T below 80 km) */
-    double p;   /* pressure, Pa */
-    double rho; /* density, kg/m3 */
-    double a;   /* speed of sound, m/s */
-    double mu;  /* dynamic viscosity, Pa s */
-    double nu;  /* kinematic viscosity, m2/s */
-    double g;   /* acceleration of gravity, m/s2 */
-} sr_air;
-
 typedef enum sr_atmos_kind {
     SR_ATMOS_STANDARD = 0,
     SR_ATMOS_OFFSET,   /* T + dT at the standard pressure */
@@ -40,8 +29,11 @@ typedef enum sr_atmos_kind {
     SR_ATMOS_SOUNDING  /* a table of altitude, temperature, pressure */
 } sr_atmos_kind;
 
-/* Caller-owned model; initialise with one of the sr_atmos_init_* calls and
- * release with sr_atmos_free (only the sounding holds memory). */
+/* Caller-owned model inside the library; initialise with one of the
+ * sr_atmos_init_* calls and release with sr_atmos_release (only the sounding
+ * holds memory). A program holds it as a handle (sr_atmos_new_*, public:
+ * include/sinkrate/physics.h with sr_air, sr_atmos_at, _density, _range,
+ * _describe). */
 typedef struct sr_atmos {
     sr_atmos_kind kind;
     double dT;        /* offset / site temperature offset from standard, K */
@@ -73,24 +65,19 @@ int sr_atmos_init_offset(sr_atmos *m, double dT, sr_error *err);
  * elevation". The temperature difference to standard is kept at all
  * altitudes, the pressure follows the hydrostatic equation from the surface. */
 int sr_atmos_init_site(sr_atmos *m, double z_site, double T_s, double p_s, sr_error *err);
-/* Sounding from CSV: a header row naming the columns altitude, temperature,
- * pressure, each with its unit in brackets ("altitude [m],temperature [C],
- * pressure [hPa]"), then rows in increasing altitude. Extra columns (e.g. wind)
- * are ignored here. Between rows: T linear, ln p linear in altitude. */
-int sr_atmos_load_sounding(sr_atmos *m, const char *path, sr_error *err);
+/* A sounding from rows of altitude (m, increasing), temperature (K) and
+ * pressure (Pa); between rows T linear, ln p linear in altitude. A file is
+ * read by files/sounding.h. */
 int sr_atmos_init_sounding(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
                            sr_error *err);
-void sr_atmos_free(sr_atmos *m);
-
-/* The air at geometric altitude z (m above mean sea level). Outside the
- * model's range: SR_EDOMAIN with a message naming the range. */
-int sr_atmos_at(const sr_atmos *m, double z, sr_air *out, sr_error *err);
-
-/* Density only: the hot path of descent integrals. Same range rules. */
-int sr_atmos_density(const sr_atmos *m, double z, double *rho, sr_error *err);
-
-/* Valid altitude range of the model, m. */
-void sr_atmos_range(const sr_atmos *m, double *zmin, double *zmax);
+/* The same with the failing row in *bad ((size_t)-1 when the error is about
+ * no row) and no row in the message, for a reader that names its line. */
+int sr_atmos_init_sounding_rows(sr_atmos *m, const double *z, const double *T, const double *p, size_t n,
+                                size_t *bad, sr_error *err);
+/* Deep copy (a sounding's arrays are duplicated): dst, initialised or
+ * released before, afterwards owns its own memory. */
+int sr_atmos_copy(sr_atmos *dst, const sr_atmos *src, sr_error *err);
+void sr_atmos_release(sr_atmos *m);
 
 /* Pieces of the standard, exposed for tests and other modules. */
 double sr_atmos_geopotential(double z);           /* H from geometric z, m' */
@@ -100,8 +87,5 @@ double sr_atmos_sound_speed(double T);            /* m/s */
 /* Standard temperature and pressure at geometric z with a temperature offset
  * dT applied in the hydrostatic integral (dT = 0: the 1976 standard). */
 int sr_atmos_standard_tp(double z, double dT, double *T, double *p);
-
-/* One-line description ("U.S. Standard Atmosphere 1976 +15.0 K"). */
-void sr_atmos_describe(const sr_atmos *m, char *buf, size_t len);
 
 #endif

@@ -10,8 +10,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "files/csvtable.h"
-#include "files/yamldoc.h"
 
 #define PI 3.14159265358979323846
 
@@ -270,40 +268,50 @@ int sr_bluff_curve_init(sr_bluff_curve *c, sr_bluff_curve_id id, sr_error *err)
     return curve_build(c, re, cd, n, SR_BLUFF_LOGLOG, err);
 }
 
+/* A bad row i of a user table: file:line:column when the lines are known,
+ * else "name: row N: ". */
+static int row_fail(sr_error *err, const char *name, const size_t *line, const size_t *col, size_t i, const char *msg)
+{
+    if (line)
+        return sr_error_set_at(err, SR_EINVAL, name, line[i], col ? col[i] : 1, "%s", msg);
+    return sr_error_set(err, SR_EINVAL, "%s: row %zu: %s", name, i + 1, msg);
+}
+
 /* Checks of a user table; `line` gives source lines for messages (may be NULL). */
 static int table_check(const double *re, const double *cd, size_t n, sr_bluff_interp kind, const char *name,
                        const size_t *line, const size_t *col, sr_error *err)
 {
     size_t need = kind == SR_BLUFF_STEFFEN ? 3 : 2;
+    char msg[SR_ERROR_MSG_MAX];
     if (n < need) {
-        char at[300]; /* the last row there is, so the message names file:line:column */
+        snprintf(msg, sizeof msg, "a drag table needs at least %zu rows%s, this one has %zu", need,
+                 kind == SR_BLUFF_STEFFEN ? " for monotone interpolation" : "", n);
+        /* the last row there is, so the message names file:line:column */
         if (line && n > 0)
-            snprintf(at, sizeof at, "%s:%zu:%zu", name, line[n - 1], col ? col[n - 1] : 1);
-        else
-            snprintf(at, sizeof at, "%s", name);
-        return sr_error_set(err, SR_EINVAL, "%s: a drag table needs at least %zu rows%s, this one has %zu", at, need,
-                            kind == SR_BLUFF_STEFFEN ? " for monotone interpolation" : "", n);
+            return sr_error_set_at(err, SR_EINVAL, name, line[n - 1], col ? col[n - 1] : 1, "%s", msg);
+        return sr_error_set_at(err, SR_EINVAL, name, 0, 0, "%s", msg);
     }
     for (size_t i = 0; i < n; i++) {
-        char where[300];
-        if (line)
-            snprintf(where, sizeof where, "%s:%zu:%zu", name, line[i], col ? col[i] : 1);
-        else
-            snprintf(where, sizeof where, "%s: row %zu", name, i + 1);
-        if (!(isfinite(re[i]) && re[i] > 0))
-            return sr_error_set(err, SR_EINVAL, "%s: Reynolds number %g must be positive", where, re[i]);
-        if (!(isfinite(cd[i]) && cd[i] > 0))
-            return sr_error_set(err, SR_EINVAL, "%s: drag coefficient %g must be positive", where, cd[i]);
-        if (i > 0 && !(re[i] > re[i - 1]))
-            return sr_error_set(err, SR_EINVAL,
-                                "%s: Reynolds number %g does not increase (previous entry: %g); the table must "
-                                "list Re in strictly increasing order",
-                                where, re[i], re[i - 1]);
+        if (!(isfinite(re[i]) && re[i] > 0)) {
+            snprintf(msg, sizeof msg, "Reynolds number %g must be positive", re[i]);
+            return row_fail(err, name, line, col, i, msg);
+        }
+        if (!(isfinite(cd[i]) && cd[i] > 0)) {
+            snprintf(msg, sizeof msg, "drag coefficient %g must be positive", cd[i]);
+            return row_fail(err, name, line, col, i, msg);
+        }
+        if (i > 0 && !(re[i] > re[i - 1])) {
+            snprintf(msg, sizeof msg,
+                     "Reynolds number %g does not increase (previous entry: %g); the table must list Re in strictly "
+                     "increasing order",
+                     re[i], re[i - 1]);
+            return row_fail(err, name, line, col, i, msg);
+        }
     }
     return SR_OK;
 }
 
-static int curve_from_table(sr_bluff_curve *c, const double *re, const double *cd, size_t n, sr_bluff_interp kind,
+int sr_bluff_curve_table_at(sr_bluff_curve *c, const double *re, const double *cd, size_t n, sr_bluff_interp kind,
                             const char *name, const size_t *line, const size_t *col, sr_error *err)
 {
     memset(c, 0, sizeof *c);
@@ -320,95 +328,7 @@ static int curve_from_table(sr_bluff_curve *c, const double *re, const double *c
 int sr_bluff_curve_table(sr_bluff_curve *c, const double *re, const double *cd, size_t n, sr_bluff_interp kind,
                          const char *name, sr_error *err)
 {
-    return curve_from_table(c, re, cd, n, kind, name, NULL, NULL, err);
-}
-
-static int load_csv(sr_bluff_curve *c, const char *path, sr_bluff_interp kind, sr_error *err)
-{
-    static const sr_csv_column cols[] = {{"Re", SR_Q_NONE, 1}, {"Cd", SR_Q_NONE, 1}};
-    sr_csvtable t;
-    int rc = sr_csvtable_load(&t, path, cols, 2, err);
-    if (rc != SR_OK)
-        return rc;
-    rc = curve_from_table(c, t.col[0], t.col[1], t.nrows, kind, path, t.row_line, NULL, err);
-    sr_csvtable_free(&t);
-    return rc;
-}
-
-#define YAML_MAX_POINTS 10000
-
-static int load_yaml(sr_bluff_curve *c, const char *path, sr_bluff_interp kind, sr_error *err)
-{
-    static const char *const allowed[] = {"name", "source", "reference-area", "points", NULL};
-    static const char *const required[] = {"points", NULL};
-    sr_yaml y;
-    int rc = sr_yaml_load_file(&y, path, err);
-    if (rc != SR_OK)
-        return rc;
-    double *re = NULL, *cd = NULL;
-    size_t *line = NULL, *col = NULL;
-    char name[256] = "", source[256] = "";
-    double area = 0;
-    yaml_node_t *root = sr_yaml_root(&y), *pts, *n;
-    if ((rc = sr_yaml_check_map(&y, root, "drag table", allowed, required, err)))
-        goto out;
-    if ((n = sr_yaml_get(&y, root, "name")) && (rc = sr_yaml_string(&y, n, name, sizeof name, err)))
-        goto out;
-    if ((n = sr_yaml_get(&y, root, "source")) && (rc = sr_yaml_text(&y, n, source, sizeof source, err)))
-        goto out;
-    if ((n = sr_yaml_get(&y, root, "reference-area"))) {
-        if ((rc = sr_yaml_quantity(&y, n, SR_Q_AREA, &area, err)))
-            goto out;
-        if (!(area > 0)) {
-            rc = sr_yaml_fail(&y, n, err, "reference-area must be positive");
-            goto out;
-        }
-    }
-    pts = sr_yaml_get(&y, root, "points");
-    if ((rc = sr_yaml_require_seq(&y, pts, "points", 1, YAML_MAX_POINTS, err)))
-        goto out;
-    size_t np = sr_yaml_seq_len(pts);
-    re = malloc(np * sizeof *re);
-    cd = malloc(np * sizeof *cd);
-    line = malloc(np * sizeof *line);
-    col = malloc(np * sizeof *col);
-    if (!re || !cd || !line || !col) {
-        rc = sr_error_set(err, SR_ENOMEM, "%s: out of memory", path);
-        goto out;
-    }
-    for (size_t i = 0; i < np; i++) {
-        yaml_node_t *p = sr_yaml_seq_at(&y, pts, i);
-        if (!p || p->type != YAML_SEQUENCE_NODE || sr_yaml_seq_len(p) != 2) {
-            rc = sr_yaml_fail(&y, p, err, "each point is a pair [Re, Cd], e.g. [1.0e5, 0.47]");
-            goto out;
-        }
-        if ((rc = sr_yaml_number(&y, sr_yaml_seq_at(&y, p, 0), &re[i], err)) ||
-            (rc = sr_yaml_number(&y, sr_yaml_seq_at(&y, p, 1), &cd[i], err)))
-            goto out;
-        line[i] = p->start_mark.line + 1; /* libyaml counts from zero */
-        col[i] = p->start_mark.column + 1;
-    }
-    if ((rc = curve_from_table(c, re, cd, np, kind, path, line, col, err)))
-        goto out;
-    c->table_area = area;
-    if (name[0] || source[0])
-        snprintf(c->info, sizeof c->info, "%s (%s%s%s)", path, name, name[0] && source[0] ? "; " : "", source);
-out:
-    free(re);
-    free(cd);
-    free(line);
-    free(col);
-    sr_yaml_free(&y);
-    return rc;
-}
-
-int sr_bluff_curve_load(sr_bluff_curve *c, const char *path, sr_bluff_interp kind, sr_error *err)
-{
-    memset(c, 0, sizeof *c);
-    const char *dot = strrchr(path, '.');
-    if (dot && (strcmp(dot, ".yaml") == 0 || strcmp(dot, ".yml") == 0))
-        return load_yaml(c, path, kind, err);
-    return load_csv(c, path, kind, err);
+    return sr_bluff_curve_table_at(c, re, cd, n, kind, name, NULL, NULL, err);
 }
 
 int sr_bluff_curve_copy(sr_bluff_curve *dst, const sr_bluff_curve *src, sr_error *err)
@@ -541,14 +461,14 @@ int sr_bluff_body_init(sr_bluff_body *b, sr_bluff_shape shape, const sr_bluff_cu
 {
     memset(b, 0, sizeof *b);
     if (!curve)
-        return sr_error_set(err, SR_EINVAL, "no drag curve given for the %s", shape_name(shape));
+        return sr_error_set_key(err, SR_EINVAL, "curve", "no drag curve given for the %s", shape_name(shape));
     if (shape != SR_BLUFF_TABLE && curve->shape != shape)
-        return sr_error_set(err, SR_EINVAL, "drag curve '%s' is for a %s, not a %s", curve->name,
+        return sr_error_set_key(err, SR_EINVAL, "curve", "drag curve '%s' is for a %s, not a %s", curve->name,
                             shape_name(curve->shape), shape_name(shape));
     if (!(isfinite(d) && d > 0))
-        return sr_error_set(err, SR_EINVAL, "diameter %g m must be positive", d);
+        return sr_error_set_key(err, SR_EINVAL, "diameter", "diameter %g m must be positive", d);
     if (!(isfinite(mass) && mass > 0))
-        return sr_error_set(err, SR_EINVAL, "mass %g kg must be positive", mass);
+        return sr_error_set_key(err, SR_EINVAL, "mass", "mass %g kg must be positive", mass);
     b->shape = shape;
     b->curve = curve;
     b->d = d;
@@ -556,7 +476,7 @@ int sr_bluff_body_init(sr_bluff_body *b, sr_bluff_shape shape, const sr_bluff_cu
     switch (shape) {
     case SR_BLUFF_CYLINDER:
         if (!(isfinite(length) && length > 0))
-            return sr_error_set(err, SR_EINVAL, "a cylinder needs a positive length (got %g m)", length);
+            return sr_error_set_key(err, SR_EINVAL, "length", "a cylinder needs a positive length (got %g m)", length);
         b->length = length;
         b->area = d * length;
         snprintf(b->area_ref, sizeof b->area_ref, "projected area d x L");
@@ -566,7 +486,7 @@ int sr_bluff_body_init(sr_bluff_body *b, sr_bluff_shape shape, const sr_bluff_cu
             b->area = area;
             snprintf(b->area_ref, sizeof b->area_ref, "reference area given with the table");
         } else if (!(isnan(area) || area == 0)) {
-            return sr_error_set(err, SR_EINVAL, "reference area %g m2 must be positive", area);
+            return sr_error_set_key(err, SR_EINVAL, "area", "reference area %g m2 must be positive", area);
         } else if (curve->table_area > 0) {
             b->area = curve->table_area;
             snprintf(b->area_ref, sizeof b->area_ref, "reference area stated in the table file");

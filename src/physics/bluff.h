@@ -10,6 +10,7 @@
 
 #include "physics/atmos.h"
 #include "base/error.h"
+#include "sinkrate/physics.h"
 
 /* Warning bits carried by a drag-coefficient lookup, an equilibrium or a
  * trace step. Outside a curve's validity range the value is still returned
@@ -27,12 +28,7 @@ enum {
 /* One line of plain text per warning bit (the lowest set bit of `bit`). */
 const char *sr_bluff_warn_text(unsigned bit);
 
-typedef enum sr_bluff_shape {
-    SR_BLUFF_SPHERE = 0,
-    SR_BLUFF_CYLINDER, /* circular cylinder broadside to the flow */
-    SR_BLUFF_DISK,     /* thin circular disk normal to the flow */
-    SR_BLUFF_TABLE     /* a user's Cd(Re) table, any body */
-} sr_bluff_shape;
+/* sr_bluff_shape and sr_bluff_attitude are public (include/sinkrate/physics.h). */
 
 typedef enum sr_bluff_curve_id {
     SR_CURVE_SPHERE_CGW = 0,        /* Clift, Grace & Weber 1978, Table 5.2: whole range */
@@ -55,7 +51,7 @@ typedef enum sr_bluff_interp {
 } sr_bluff_interp;
 
 /* A drag curve Cd(Re). Caller-owned: fill with sr_bluff_curve_init,
- * sr_bluff_curve_table or sr_bluff_curve_load, release with
+ * sr_bluff_curve_table or a reader (sr_dragtable_load), release with
  * sr_bluff_curve_free. Read-only once built, so one curve can serve many
  * threads. */
 typedef struct sr_bluff_curve {
@@ -82,13 +78,10 @@ int sr_bluff_curve_init(sr_bluff_curve *c, sr_bluff_curve_id id, sr_error *err);
  * (3 for Steffen). */
 int sr_bluff_curve_table(sr_bluff_curve *c, const double *re, const double *cd, size_t n,
                          sr_bluff_interp kind, const char *name, sr_error *err);
-/* User curve from a file, errors at file:line:column. CSV: the columns "Re"
- * and "Cd" (no units). YAML (.yaml, .yml): the keys
- *   name: "..."                optional description
- *   source: "..."              optional: where the numbers come from
- *   reference-area: "0.02 m2"  optional: the area the Cd values are based on
- *   points: [[Re, Cd], ...]    required, Re increasing */
-int sr_bluff_curve_load(sr_bluff_curve *c, const char *path, sr_bluff_interp kind, sr_error *err);
+/* The same with the file positions of its rows (line[i], col[i]; either may
+ * be NULL) for messages: the drag-table reader's (files/dragtable.h). */
+int sr_bluff_curve_table_at(sr_bluff_curve *c, const double *re, const double *cd, size_t n, sr_bluff_interp kind,
+                            const char *name, const size_t *line, const size_t *col, sr_error *err);
 void sr_bluff_curve_free(sr_bluff_curve *c);
 /* Deep copy of a curve (a table's knots and interpolation are duplicated),
  * so that a copy can outlive the original. */
@@ -118,16 +111,10 @@ sr_bluff_curve_id sr_bluff_default_curve(sr_bluff_shape shape);
  *    cylinder in axial flow (Hoerner 1965, from memory);
  *  - a sphere is the same in every attitude; a user table keeps its own
  *    (its attitude is whatever the table was measured in). */
-typedef enum sr_bluff_attitude {
-    SR_ATTITUDE_BROADSIDE = 0, /* the curve's own attitude */
-    SR_ATTITUDE_TUMBLING,      /* tumbling through every orientation */
-    SR_ATTITUDE_END_ON         /* stable end-on where the body can be (a cylinder marked so), else tumbling */
-} sr_bluff_attitude;
 
 #define SR_BLUFF_CD_END 0.82            /* flat-ended cylinder in axial flow: Hoerner 1965, from memory */
 #define SR_BLUFF_TUMBLE_CROSS 0.58904862254808623 /* 3 pi / 16: <sin^3> over orientations on the sphere */
 
-const char *sr_bluff_attitude_name(sr_bluff_attitude a); /* "broadside", "tumbling", "end-on" */
 
 /* k and c of a body in an attitude; stable_end_on: the body can fall end-on
  * (else end-on falls back to tumbling). */

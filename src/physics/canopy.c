@@ -4,6 +4,7 @@
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
+#include <stdlib.h>
 
 #define PI 3.14159265358979323846
 
@@ -235,4 +236,112 @@ sr_band sr_canopy_cd0_band(const sr_canopy *c)
     double v = c->cd.v.typ;
     sr_band b = {v * ratio.lo * ratio.lo, v * ratio.typ * ratio.typ, v * ratio.hi * ratio.hi};
     return b;
+}
+
+/* ---- families and canopies of a program (include/sinkrate/physics.h) ---- */
+
+const char *sr_family_id(const sr_family *f)
+{
+    return f->id;
+}
+
+const char *sr_family_name(const sr_family *f)
+{
+    return f->name;
+}
+
+const char *sr_family_class(const sr_family *f)
+{
+    return f->cls;
+}
+
+static sr_band one(double v)
+{
+    sr_band b = {v, v, v};
+    return b;
+}
+
+sr_band sr_family_band(const sr_family *f, sr_family_value v)
+{
+    switch (v) {
+    case SR_FV_DRAG: return f->cd0.v;
+    case SR_FV_PROJECTED: return f->dp_d0;
+    case SR_FV_CONSTRUCTED: return f->dc_d0;
+    case SR_FV_OPENING: return f->cx;
+    case SR_FV_FILLING: return one(f->fill_n);
+    case SR_FV_OSCILLATION: return f->oscillation;
+    case SR_FV_MACH: return one(f->mach_max);
+    case SR_FV_AREAL: return one(f->areal_mass);
+    case SR_FV_GROWTH: return f->growth;
+    default: return one(NAN);
+    }
+}
+
+const char *sr_family_source(const sr_family *f, sr_family_value v)
+{
+    switch (v) {
+    case SR_FV_DRAG: return f->cd0_source;
+    case SR_FV_PROJECTED: return f->dp_source;
+    case SR_FV_CONSTRUCTED: return f->dc_source;
+    case SR_FV_OPENING: return f->cx_source;
+    case SR_FV_FILLING: return f->fill_source;
+    case SR_FV_OSCILLATION: return f->osc_source;
+    case SR_FV_MACH: return f->mach_source;
+    case SR_FV_AREAL: return f->areal_source;
+    case SR_FV_GROWTH: return f->growth_source;
+    default: return "";
+    }
+}
+
+int sr_canopy_new(sr_canopy **out, const sr_family *f, sr_size_kind kind, double value, sr_error *err)
+{
+    *out = NULL;
+    /* no family: most often sr_catalog_find failed just before, and its error stands */
+    if (!f)
+        return err && err->code ? err->code : sr_error_set(err, SR_EINVAL, "no canopy family given");
+    sr_canopy *c = malloc(sizeof *c);
+    if (!c)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int rc = sr_canopy_from_size(c, f, kind, value, err);
+    if (rc) {
+        free(c);
+        return rc;
+    }
+    *out = c;
+    return SR_OK;
+}
+
+int sr_canopy_dup(sr_canopy **out, const sr_canopy *src, sr_error *err)
+{
+    /* a canopy holds no memory of its own: a copy is a copy of the struct */
+    *out = malloc(sizeof **out);
+    if (!*out)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    **out = *src;
+    return SR_OK;
+}
+
+void sr_canopy_free(sr_canopy *c)
+{
+    free(c);
+}
+
+const sr_family *sr_canopy_family(const sr_canopy *c)
+{
+    return &c->fam;
+}
+
+int sr_canopy_count(const sr_canopy *c)
+{
+    return c->count;
+}
+
+sr_band sr_canopy_nominal_area(const sr_canopy *c)
+{
+    return c->s0;
+}
+
+sr_band sr_canopy_nominal_diameter(const sr_canopy *c)
+{
+    return c->d0;
 }

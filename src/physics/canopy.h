@@ -7,21 +7,13 @@
 #include <stddef.h>
 
 #include "base/error.h"
+#include "sinkrate/physics.h"
 
-/* Reference area a drag coefficient is based on. */
-typedef enum sr_ref {
-    SR_REF_NOMINAL = 0,   /* S0 = total canopy surface incl. vent and slots; D0 = sqrt(4 S0/pi) */
-    SR_REF_PROJECTED,     /* Sp = pi Dp^2/4, the inflated canopy seen along the flow */
-    SR_REF_CONSTRUCTED    /* Sc = pi Dc^2/4, from the flat/constructed diameter */
-} sr_ref;
+/* sr_ref (the reference area a drag coefficient is based on), sr_band,
+ * sr_size_kind, sr_family_value and the functions of a program's handles
+ * are public: include/sinkrate/physics.h. */
 
-const char *sr_ref_name(sr_ref ref);            /* "nominal", "projected", "constructed" */
 int sr_ref_parse(const char *s, sr_ref *ref);   /* SR_OK or SR_EINVAL */
-
-/* A range low / typical / high. */
-typedef struct sr_band {
-    double lo, typ, hi;
-} sr_band;
 
 /* A drag coefficient band with its reference area. */
 typedef struct sr_cd {
@@ -33,20 +25,9 @@ typedef struct sr_cd {
 #define SR_CANOPY_CLASS_SOLID "solid"
 #define SR_CANOPY_CLASS_SLOTTED "slotted"
 
-/* The values of a family that carry a check status, in the order
- * `sinkrate canopies ID` shows them. */
-typedef enum sr_family_value {
-    SR_FV_DRAG = 0,     /* drag-coefficient (CD0 range on nominal area) */
-    SR_FV_PROJECTED,    /* projected-ratio Dp/D0 */
-    SR_FV_CONSTRUCTED,  /* constructed-ratio Dc/D0 */
-    SR_FV_OPENING,      /* opening-factor CX */
-    SR_FV_FILLING,      /* filling-constant */
-    SR_FV_OSCILLATION,  /* oscillation */
-    SR_FV_MACH,         /* mach-limit */
-    SR_FV_AREAL,        /* areal-mass (optional) */
-    SR_FV_GROWTH,       /* growth-exponent (optional: the class's band otherwise, physics/provenance.h) */
-    SR_FV_COUNT_
-} sr_family_value;
+/* sr_family_value (public) lists the values of a family that carry a check
+ * status, in the order `sinkrate canopies ID` shows them; the growth exponent
+ * is optional (the class's band otherwise, physics/provenance.h). */
 
 #define SR_CHECK_MAX 240
 /* What a value has been checked against outside the project, and what would
@@ -89,14 +70,6 @@ typedef struct sr_family {
     char notes[512];
     char file[256];                 /* where it was loaded from */
 } sr_family;
-
-/* How a canopy's size was given. */
-typedef enum sr_size_kind {
-    SR_SIZE_NOMINAL_DIAMETER = 0,
-    SR_SIZE_PROJECTED_DIAMETER,
-    SR_SIZE_FLAT_DIAMETER,          /* the constructed (flat) diameter Dc */
-    SR_SIZE_NOMINAL_AREA
-} sr_size_kind;
 
 const char *sr_size_kind_name(sr_size_kind k); /* "nominal diameter", ... */
 
@@ -143,25 +116,17 @@ typedef struct sr_canopy {
  * through the family's Dp/D0 or Dc/D0 range, which widens the band. */
 int sr_canopy_from_size(sr_canopy *c, const sr_family *fam, sr_size_kind kind, double value, sr_error *err);
 
-/* Replace the family drag range by a measured coefficient on a stated
- * reference (e.g. 1.45 on projected area). Where the reference matches how
- * the size was given, the drag area is exact; otherwise it is converted
- * through the family ratios and stays a band. */
-int sr_canopy_set_measured_cd(sr_canopy *c, double cd, sr_ref ref, const char *source, sr_error *err);
+/* sr_canopy_set_measured_cd (public) replaces the family drag range by a
+ * measured coefficient on a stated reference (e.g. 1.45 on projected area).
+ * Where the reference matches how the size was given, the drag area is
+ * exact; otherwise it is converted through the family ratios and stays a band. */
 /* The same with a band low / value / high (a measured value with its
  * confidence interval, as `sinkrate fit --write-canopy` writes it). */
 int sr_canopy_set_measured_band(sr_canopy *c, sr_band cd, sr_ref ref, const char *source, sr_error *err);
 
-/* Make it a cluster of n (1..16) canopies with the given factor (NaN: the
- * default from sr_canopy_cluster_factor). */
-int sr_canopy_set_cluster(sr_canopy *c, int n, double factor, sr_error *err);
-
-/* Total drag area of the cluster (count x factor x one canopy), m2. */
-sr_band sr_canopy_total_cds(const sr_canopy *c);
-
-/* Drag-coefficient band on nominal area: the family's, or a measured
- * coefficient converted through the family's diameter ratios. */
-sr_band sr_canopy_cd0_band(const sr_canopy *c);
+/* sr_canopy_set_cluster, sr_canopy_total_cds and sr_canopy_cd0_band are
+ * public; the drag-coefficient band on nominal area is the family's, or a
+ * measured coefficient converted through the family's diameter ratios. */
 
 /* Conversions of one nominal area through the family ratios. */
 double sr_canopy_d0_from_s0(double s0);

@@ -6,16 +6,9 @@
 #include "physics/atmos.h"
 #include "physics/canopy.h"
 #include "base/error.h"
+#include "sinkrate/physics.h"
 
-/* v = sqrt(2 m g / (rho CdS)); all SI. */
-double sr_descent_speed(double mass, double g, double rho, double cds);
-
-/* Descent rate band of a canopy (cluster) carrying mass at the air state:
- * band ordered by value (lo from the high drag coefficient). body_cds adds
- * the payload's own drag area (m2, 0 if neglected). When the canopy has an
- * areal mass, its fabric mass is added to the descending mass. */
-int sr_descent_rate(const sr_canopy *c, double mass, double body_cds, const sr_air *air, sr_band *v,
-                    sr_error *err);
+/* sr_descent_speed and sr_descent_rate are public (include/sinkrate/physics.h). */
 
 typedef struct sr_size_request {
     double mass;           /* payload mass without the canopy, kg */

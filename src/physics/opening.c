@@ -87,15 +87,15 @@ static double steady_of(const sr_opening_input *in)
 int sr_opening_fill_time(double n_fill, double d0, double v1, double v_steady, double *t_f, sr_error *err)
 {
     if (!(isfinite(n_fill) && n_fill > 0))
-        return sr_error_set(err, SR_EINVAL, "filling constant must be positive (got %g)", n_fill);
+        return sr_error_set_key(err, SR_EINVAL, "n_fill", "filling constant must be positive (got %g)", n_fill);
     if (!(isfinite(d0) && d0 > 0))
-        return sr_error_set(err, SR_EINVAL, "nominal diameter must be positive (got %g m)", d0);
+        return sr_error_set_key(err, SR_EINVAL, "d0", "nominal diameter must be positive (got %g m)", d0);
     /* the law is for deployments at speed: slower than the steady rate, the
      * canopy fills as at that rate (a canopy opening from rest has no speed of
      * its own to fill with) */
     double v = isfinite(v_steady) && v_steady > v1 ? v_steady : v1;
     if (!(isfinite(v1) && v1 >= 0 && isfinite(v) && v > 0))
-        return sr_error_set(err, SR_EINVAL, "deployment speed must be positive (got %g m/s)", v1);
+        return sr_error_set_key(err, SR_EINVAL, "v1", "deployment speed must be positive (got %g m/s)", v1);
     *t_f = n_fill * d0 / v;
     return SR_OK;
 }
@@ -110,7 +110,7 @@ int sr_opening_pflanz_x1(double A, double n, double *x1, double *tau_peak, doubl
     if (!(isfinite(A) && A > 0))
         return sr_error_set(err, SR_EINVAL, "ballistic parameter must be positive (got %g)", A);
     if (!(isfinite(n) && n > 0))
-        return sr_error_set(err, SR_EINVAL, "growth exponent must be positive (got %g)", n);
+        return sr_error_set_key(err, SR_EINVAL, "exponent", "growth exponent must be positive (got %g)", n);
     /* Derived closed form (handbook reference file section 4.2 [D]): with
      * tau = t/t_f, v/v1 = 1/(1 + tau^(n+1)/((n+1)A)) and F/(cds q1) = tau^n (v/v1)^2,
      * whose maximum sits where tau^(n+1) = k = (n+1) A n/(n+2). */
@@ -140,7 +140,8 @@ int sr_opening_olf_x1(double mass_ratio, double cds, double d0, double n_fill, d
     if (!(isfinite(mass_ratio) && mass_ratio > 0))
         return sr_error_set(err, SR_EINVAL, "mass ratio must be positive (got %g)", mass_ratio);
     if (!(isfinite(cds) && cds > 0 && isfinite(d0) && d0 > 0 && isfinite(n_fill) && n_fill > 0))
-        return sr_error_set(err, SR_EINVAL, "drag area, nominal diameter and filling constant must be positive");
+        return sr_error_set_key(err, SR_EINVAL, !(isfinite(n_fill) && n_fill > 0) ? "n_fill" : !(isfinite(cds) && cds > 0) ? "cds0" : "d0",
+                                "drag area, nominal diameter and filling constant must be positive");
     /* The handbook reads X1 off one curve against R_m = rho (CD0 S0)^1.5 / m
      * (section 4.1, from memory); that curve is not available to us. With
      * t_f = n_fill D0 / v1 the Pflanz parameter depends on R_m alone for a given
@@ -393,72 +394,80 @@ done:
 
 /* ---- input checks ----------------------------------------------------- */
 
-static int need(double x, const char *what, sr_error *err)
+/* key: the field of sr_opening_input, for the error's key */
+static int need(double x, const char *key, const char *what, sr_error *err)
 {
     if (isnan(x))
-        return sr_error_set(err, SR_EINVAL, "%s is not set", what);
+        return sr_error_set_key(err, SR_EINVAL, key, "%s is not set", what);
     if (!isfinite(x))
-        return sr_error_set(err, SR_EINVAL, "%s must be finite", what);
+        return sr_error_set_key(err, SR_EINVAL, key, "%s must be finite", what);
     return SR_OK;
 }
 
 static int validate(const sr_opening_input *in, sr_error *err)
 {
     int rc;
-    if ((rc = need(in->cds0, "drag area", err)) || (rc = need(in->d0, "nominal diameter", err)) ||
-        (rc = need(in->mass, "payload mass", err)) || (rc = need(in->v1, "deployment speed", err)) ||
-        (rc = need(in->rho, "air density", err)) || (rc = need(in->a, "speed of sound", err)) ||
-        (rc = need(in->n_fill, "filling constant", err)) || (rc = need(in->cx, "opening-load factor", err)) ||
-        (rc = need(in->path_angle, "flight-path angle", err)) || (rc = need(in->g, "gravity", err)) ||
-        (rc = need(in->exponent, "growth exponent", err)) || (rc = need(in->design_factor, "design factor", err)) ||
-        (rc = need(in->cluster_allowance, "cluster allowance", err)) ||
-        (rc = need(in->mach_envelope, "Mach envelope", err)))
+    if ((rc = need(in->cds0, "cds0", "drag area", err)) || (rc = need(in->d0, "d0", "nominal diameter", err)) ||
+        (rc = need(in->mass, "mass", "payload mass", err)) || (rc = need(in->v1, "v1", "deployment speed", err)) ||
+        (rc = need(in->rho, "rho", "air density", err)) || (rc = need(in->a, "a", "speed of sound", err)) ||
+        (rc = need(in->n_fill, "n_fill", "filling constant", err)) ||
+        (rc = need(in->cx, "cx", "opening-load factor", err)) ||
+        (rc = need(in->path_angle, "path_angle", "flight-path angle", err)) || (rc = need(in->g, "g", "gravity", err)) ||
+        (rc = need(in->exponent, "exponent", "growth exponent", err)) ||
+        (rc = need(in->design_factor, "design_factor", "design factor", err)) ||
+        (rc = need(in->cluster_allowance, "cluster_allowance", "cluster allowance", err)) ||
+        (rc = need(in->mach_envelope, "mach_envelope", "Mach envelope", err)))
         return rc;
     if (!isnan(in->v_steady) && !(in->v_steady >= 0 && isfinite(in->v_steady)))
-        return sr_error_set(err, SR_EINVAL, "steady descent rate must be zero or positive (got %g m/s)", in->v_steady);
+        return sr_error_set_key(err, SR_EINVAL, "v_steady", "steady descent rate must be zero or positive (got %g m/s)",
+                                in->v_steady);
     if (in->cds0 <= 0)
-        return sr_error_set(err, SR_EINVAL, "drag area must be positive (got %g m2)", in->cds0);
+        return sr_error_set_key(err, SR_EINVAL, "cds0", "drag area must be positive (got %g m2)", in->cds0);
     if (in->d0 <= 0)
-        return sr_error_set(err, SR_EINVAL, "nominal diameter must be positive (got %g m)", in->d0);
+        return sr_error_set_key(err, SR_EINVAL, "d0", "nominal diameter must be positive (got %g m)", in->d0);
     double cd0 = in->cds0 / (M_PI * in->d0 * in->d0 / 4);
     if (cd0 < CD0_MIN || cd0 > CD0_MAX)
-        return sr_error_set(err, SR_EINVAL,
+        return sr_error_set_key(err, SR_EINVAL, "cds0",
                             "drag area %g m2 on a %g m nominal diameter gives CD0 = %.3g on nominal area, "
                             "outside %g..%g: is the drag area on another reference area?",
                             in->cds0, in->d0, cd0, CD0_MIN, CD0_MAX);
     if (in->mass <= 0)
-        return sr_error_set(err, SR_EINVAL, "payload mass must be positive (got %g kg)", in->mass);
+        return sr_error_set_key(err, SR_EINVAL, "mass", "payload mass must be positive (got %g kg)", in->mass);
     if (in->v1 <= 0)
-        return sr_error_set(err, SR_EINVAL, "deployment speed must be positive (got %g m/s)", in->v1);
+        return sr_error_set_key(err, SR_EINVAL, "v1", "deployment speed must be positive (got %g m/s)", in->v1);
     if (in->rho <= 0)
-        return sr_error_set(err, SR_EINVAL, "air density must be positive (got %g kg/m3)", in->rho);
+        return sr_error_set_key(err, SR_EINVAL, "rho", "air density must be positive (got %g kg/m3)", in->rho);
     if (in->a <= 0)
-        return sr_error_set(err, SR_EINVAL, "speed of sound must be positive (got %g m/s)", in->a);
+        return sr_error_set_key(err, SR_EINVAL, "a", "speed of sound must be positive (got %g m/s)", in->a);
     if (in->n_fill < FILL_MIN || in->n_fill > FILL_MAX)
-        return sr_error_set(err, SR_EINVAL, "filling constant must lie in %g .. %g, as in a family file (got %g)",
+        return sr_error_set_key(err, SR_EINVAL, "n_fill",
+                                "filling constant must lie in %g .. %g, as in a family file (got %g)",
                             FILL_MIN, FILL_MAX, in->n_fill);
     if (in->cx <= 0 || in->cx > 5)
-        return sr_error_set(err, SR_EINVAL, "opening-load factor must lie in (0, 5] (got %g)", in->cx);
+        return sr_error_set_key(err, SR_EINVAL, "cx", "opening-load factor must lie in (0, 5] (got %g)", in->cx);
     if (in->count < 1 || in->count > 1000)
-        return sr_error_set(err, SR_EINVAL, "canopy count must be 1 to 1000 (got %d)", in->count);
+        return sr_error_set_key(err, SR_EINVAL, "count", "canopy count must be 1 to 1000 (got %d)", in->count);
     if (fabs(in->path_angle) > M_PI / 2 + 1e-12)
-        return sr_error_set(err, SR_EINVAL, "flight-path angle must lie within -90..90 degrees (got %g)",
+        return sr_error_set_key(err, SR_EINVAL, "path_angle", "flight-path angle must lie within -90..90 degrees (got %g)",
                             in->path_angle * 180 / M_PI);
     if (in->g < 0 || in->g > 50)
-        return sr_error_set(err, SR_EINVAL, "gravity must lie within 0..50 m/s2 (got %g)", in->g);
+        return sr_error_set_key(err, SR_EINVAL, "g", "gravity must lie within 0..50 m/s2 (got %g)", in->g);
     if (in->exponent <= 0 || in->exponent > 10)
-        return sr_error_set(err, SR_EINVAL, "growth exponent must lie in (0, 10] (got %g)", in->exponent);
+        return sr_error_set_key(err, SR_EINVAL, "exponent", "growth exponent must lie in (0, 10] (got %g)",
+                                in->exponent);
     if (in->design_factor != 0 && (in->design_factor < 1 || in->design_factor > FACTOR_MAX))
-        return sr_error_set(err, SR_EINVAL, "design factor must lie in 1 .. %g (got %g)", FACTOR_MAX,
+        return sr_error_set_key(err, SR_EINVAL, "design_factor", "design factor must lie in 1 .. %g (got %g)", FACTOR_MAX,
                             in->design_factor);
     if (in->cluster_allowance != 0 && (in->cluster_allowance < 1 || in->cluster_allowance > FACTOR_MAX))
-        return sr_error_set(err, SR_EINVAL, "cluster allowance must lie in 1 .. %g (got %g)", FACTOR_MAX,
+        return sr_error_set_key(err, SR_EINVAL, "cluster_allowance", "cluster allowance must lie in 1 .. %g (got %g)",
+                                FACTOR_MAX,
                             in->cluster_allowance);
     if (in->mach_envelope < 0)
-        return sr_error_set(err, SR_EINVAL, "Mach envelope must not be negative (got %g)", in->mach_envelope);
+        return sr_error_set_key(err, SR_EINVAL, "mach_envelope", "Mach envelope must not be negative (got %g)",
+                                in->mach_envelope);
     double mach = in->v1 / in->a;
     if (mach >= SR_OPENING_MACH_MAX)
-        return sr_error_set(err, SR_EDOMAIN,
+        return sr_error_set_key(err, SR_EDOMAIN, "v1",
                             "deployment speed %g m/s is Mach %.2f: the filling-time law and the growth model "
                             "hold for subsonic deployment only (below Mach %g)",
                             in->v1, mach, SR_OPENING_MACH_MAX);

@@ -7,6 +7,7 @@
 #include <stddef.h>
 
 #include "base/error.h"
+#include "sinkrate/physics.h"
 
 /* Growth-law exponent of the drag area by canopy class (K91 Pflanz curves,
  * exponents from memory: handbook reference file section 4.2). The typical
@@ -131,11 +132,10 @@ void sr_opening_class_band(sr_opening_class c, double *lo, double *typ, double *
  * than its steady descent rate v_steady (an opening from rest, a drogue at
  * apogee) fills as at that rate. v_steady <= 0 or NaN: the law alone. Errors
  * for a non-positive constant, diameter or speed. */
-int sr_opening_fill_time(double n_fill, double d0, double v1, double v_steady, double *t_f, sr_error *err);
+/* (sr_opening_fill_time, public: include/sinkrate/physics.h) */
 
-/* Ballistic mass ratio R_m = rho * cds^1.5 / m (one canopy's drag area and
- * the mass it carries). */
-double sr_opening_mass_ratio(double rho, double cds, double m);
+/* sr_opening_mass_ratio (public): R_m = rho * cds^1.5 / m, one canopy's drag
+ * area and the mass it carries. */
 
 /* Pflanz closed form for drag area growing as (t/t_f)^n with gravity
  * neglected: X1 (peak force over cds*q1) and the peak's time over t_f, from

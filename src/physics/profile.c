@@ -71,7 +71,7 @@ typedef struct run {
 static inline void wind_of(const run *R, double h, double *we, double *wn)
 {
     double e, n;
-    sr_wind_at(&R->c->wind, h, &e, &n);
+    sr_wind_at(&R->c->grid.wind, h, &e, &n);
     *we = R->wp.k * (R->wp.c * e + R->wp.s * n) + R->wp.de;
     *wn = R->wp.k * (-R->wp.s * e + R->wp.c * n) + R->wp.dn;
 }
@@ -80,7 +80,7 @@ static inline void wind_of(const run *R, double h, double *we, double *wn)
 static inline void cum_of(const run *R, double h, double *I, double *Je, double *Jn)
 {
     double e, n;
-    ctx_cumulative(R->c, h, I, &e, &n);
+    sr_profile_grid_cumulative(&R->c->grid, h, I, &e, &n);
     *Je = R->wp.k * (R->wp.c * e + R->wp.s * n) + R->wp.de * *I;
     *Jn = R->wp.k * (-R->wp.s * e + R->wp.c * n) + R->wp.dn * *I;
 }
@@ -89,7 +89,7 @@ static inline void cum_of(const run *R, double h, double *I, double *Je, double 
 static inline void lag_of(const run *R, double h, double *Le, double *Ln)
 {
     double e, n;
-    ctx_lag(R->c, h, &e, &n);
+    sr_profile_grid_lag(&R->c->grid, h, &e, &n);
     *Le = R->wp.k * (R->wp.c * e + R->wp.s * n);
     *Ln = R->wp.k * (-R->wp.s * e + R->wp.c * n);
 }
@@ -133,7 +133,7 @@ static void body_mass(const run *R, body *b)
     const sr_profile_ctx *c = R->c;
     b->mass = 0.0;
     b->cd_sec = 0.0;
-    b->free = b->secs & c->free_secs;
+    b->free = b->secs & c->fall.secs;
     for (size_t i = 0; i < c->nsec; i++)
         if ((b->secs >> i) & 1u) {
             b->mass += R->sec_mass[i];
@@ -147,7 +147,7 @@ static void body_mass(const run *R, body *b)
 static double steady_rate(const run *R, const body *b, double h)
 {
     double C = body_cd_full(R, b), rho, g;
-    ctx_air(R->c, h, &rho, NULL, &g);
+    sr_profile_grid_air(&R->c->grid, h, &rho, NULL, &g);
     return C > 0.0 ? sqrt(2.0 * b->mass * g / (rho * C)) : INFINITY;
 }
 
@@ -170,7 +170,7 @@ static sr_profile_event *add_event(run *R, sr_event_kind kind, int stage, const 
     sr_profile_event *e = &r->events[r->nevents++];
     double V, ue, un, rho, a;
     airspeed(R, b->y, &V, &ue, &un);
-    ctx_air(R->c, b->y[2], &rho, &a, NULL);
+    sr_profile_grid_air(&R->c->grid, b->y[2], &rho, &a, NULL);
     e->kind = kind;
     e->stage = stage;
     e->body = b->idx;
@@ -257,7 +257,7 @@ static void end_stage(run *R, body *b)
     s->t_end = b->t;
     s->h_end = b->y[2];
     double rho, g;
-    ctx_air(R->c, b->y[2], &rho, NULL, &g);
+    sr_profile_grid_air(&R->c->grid, b->y[2], &rho, NULL, &g);
     s->rate_bottom = sqrt(2.0 * s->mass * g / (rho * s->cds));
 }
 
@@ -270,7 +270,7 @@ static int fire(run *R, body *b, size_t k)
     R->t_fired[k] = b->t;
     double V, ue, un, rho, a;
     airspeed(R, b->y, &V, &ue, &un);
-    ctx_air(c, b->y[2], &rho, &a, NULL);
+    sr_profile_grid_air(&c->grid, b->y[2], &rho, &a, NULL);
     s->t_deploy = b->t;
     s->h_deploy = b->y[2];
     s->speed_deploy = V;
@@ -391,13 +391,13 @@ static int rhs(double t, const double y[], double dydt[], void *params)
 {
     const ode_par *p = params;
     double rho, g, we, wn;
-    ctx_air(p->R->c, y[2], &rho, NULL, &g);
+    sr_profile_grid_air(&p->R->c->grid, y[2], &rho, NULL, &g);
     wind_of(p->R, y[2], &we, &wn);
     double ue = y[3] - we, un = y[4] - wn, uz = y[5];
     double V = sqrt(ue * ue + un * un + uz * uz);
     double C = body_cd_at(p->R, p->b, t);
     if (in_free_fall(p->b))
-        C += free_cda(p->R->c, p->b->free, V, rho, ctx_mu(p->R->c, y[2]), NULL);
+        C += sr_profile_free_cda(&p->R->c->fall, p->b->free, V, rho, sr_profile_grid_mu(&p->R->c->grid, y[2]), NULL);
     double k = 0.5 * rho * C * V / p->b->mass;
     dydt[0] = y[3];
     dydt[1] = y[4];
@@ -429,7 +429,7 @@ static int is_steady(const run *R, const body *b)
     double h = b->y[2], d = 0.5, e1, n1, e0, n0, rho, g;
     wind_of(R, h + d, &e1, &n1);
     wind_of(R, h > d ? h - d : 0.0, &e0, &n0);
-    ctx_air(R->c, h, &rho, NULL, &g);
+    sr_profile_grid_air(&R->c->grid, h, &rho, NULL, &g);
     double k = vt * vt / g / (h > d ? 2 * d : h + d);
     double lx = ue - k * (e1 - e0), ly = un - k * (n1 - n0), dz = b->y[5] + vt;
     return sqrt(lx * lx + ly * ly + dz * dz) <= tol * vt;
@@ -531,7 +531,7 @@ static void record_full_open(run *R, const body *b, double tp)
  * cause (a descent so slow or a filling so long that no step size fits it). */
 static int ode_failure(run *R, const body *b, const char *what)
 {
-    char who[SR_NAME_MAX + 64];
+    char who[SR_DESCENT_NAME_MAX + 64];
     if (b->cur >= 0)
         snprintf(who, sizeof who, "stage '%s'", R->c->st[b->cur].name);
     else
@@ -559,7 +559,7 @@ static int above_tables(run *R, const body *b)
 {
     const sr_profile_ctx *c = R->c;
     double lo, hi;
-    sr_atmos_range(&c->atmos, &lo, &hi);
+    sr_atmos_range(&c->grid.atmos, &lo, &hi);
     if (c->top_is_model)
         return sr_error_set(R->err, SR_EDOMAIN,
                             "%s: from this start (%.0f m/s, %.0f deg above the horizontal) the trajectory climbs "
@@ -650,7 +650,7 @@ static double integrand(double h, void *params)
 {
     quad_par *q = params;
     double f, we, wn, phi, dphi = 0.0;
-    if (ctx_direct(q->c, h, &f, &we, &wn) || (q->which >= 3 && ctx_phi(q->c, h, &phi, &dphi))) {
+    if (sr_profile_grid_direct(&q->c->grid, h, &f, &we, &wn) || (q->which >= 3 && sr_profile_grid_phi(&q->c->grid, h, &phi, &dphi))) {
         q->bad = 1;
         return 0.0;
     }
@@ -669,7 +669,7 @@ static int quad5(run *R, double lo, double hi, double out[5])
 {
     for (int i = 0; i < 5; i++) {
         out[i] = 0.0;
-        if (i > 0 && R->c->wind.kind == SR_WIND_CALM)
+        if (i > 0 && R->c->grid.wind.kind == SR_WIND_CALM)
             continue;
         quad_par qp = {R->c, i, 0};
         gsl_function F = {integrand, &qp};
@@ -683,12 +683,12 @@ static int quad5(run *R, double lo, double hi, double out[5])
         if (st != GSL_SUCCESS && st != GSL_EROUND)
             return sr_error_set(R->err, SR_ENUMERIC, "the descent-time quadrature failed (%s)", gsl_strerror(st));
     }
-    if (R->c->wind.kind != SR_WIND_CALM) {
+    if (R->c->grid.wind.kind != SR_WIND_CALM) {
         double pa, pb, ea, na, eb, nb;
-        if (ctx_phi(R->c, lo, &pa, NULL) || ctx_phi(R->c, hi, &pb, NULL))
+        if (sr_profile_grid_phi(&R->c->grid, lo, &pa, NULL) || sr_profile_grid_phi(&R->c->grid, hi, &pb, NULL))
             return sr_error_set(R->err, SR_EDOMAIN, "the descent leaves the atmosphere model");
-        sr_wind_at(&R->c->wind, lo, &ea, &na);
-        sr_wind_at(&R->c->wind, hi, &eb, &nb);
+        sr_wind_at(&R->c->grid.wind, lo, &ea, &na);
+        sr_wind_at(&R->c->grid.wind, hi, &eb, &nb);
         out[3] = pb * eb - pa * ea - out[3];
         out[4] = pb * nb - pa * na - out[4];
     }
@@ -706,7 +706,7 @@ static int qs_segment(run *R, body *b, double h_stop, double t_stop, int *why)
     *why = 1;
     if (b->t + s * (I0 - I1) > t_stop) {
         *why = 2;
-        h1 = ctx_height_for_I(c, I0 - (t_stop - b->t) / s);
+        h1 = sr_profile_grid_height_for_I(&c->grid, I0 - (t_stop - b->t) / s);
         if (h1 < h_stop)
             h1 = h_stop;
         cum_of(R, h1, &I1, &E1, &N1);
@@ -727,7 +727,7 @@ static int qs_segment(run *R, body *b, double h_stop, double t_stop, int *why)
                 double F = s * q[0] - (t_stop - b->t), f, we, wn;
                 if (fabs(F) < 1e-10 * (1.0 + t_stop))
                     break;
-                ctx_direct(c, h1, &f, &we, &wn);
+                sr_profile_grid_direct(&c->grid, h1, &f, &we, &wn);
                 h1 += F / (s * f); /* dF/dh1 = -s f */
                 if (h1 > h0)
                     h1 = h0;
@@ -777,7 +777,7 @@ static int fast_jump(run *R, body *b, double h_stop, double t_stop, int *why)
         return 0;
     double C = body_cd_full(R, b), s = sqrt(C / (2.0 * b->mass)), h0 = b->y[2];
     double rho, g;
-    ctx_air(c, h0, &rho, NULL, &g);
+    sr_profile_grid_air(&c->grid, h0, &rho, NULL, &g);
     double vt = sqrt(2.0 * b->mass * g / (rho * C)), V, ue, un;
     airspeed(R, b->y, &V, &ue, &un);
     double v0 = -b->y[5];
@@ -792,7 +792,7 @@ static int fast_jump(run *R, body *b, double h_stop, double t_stop, int *why)
     *why = 1;
     if (b->t + s * (I0 - I1) + dt > t_stop) {
         *why = 2;
-        h1 = ctx_height_for_I(c, I0 - (t_stop - b->t - dt) / s);
+        h1 = sr_profile_grid_height_for_I(&c->grid, I0 - (t_stop - b->t - dt) / s);
         if (h1 < h_stop)
             h1 = h_stop;
         cum_of(R, h1, &I1, &E1, &N1);
@@ -825,7 +825,7 @@ static void record_cache(run *R, const body *b)
     double I0, E0, N0, I1, E1, N1, rho, g, V, ue, un;
     cum_of(R, b->o_y[2], &I0, &E0, &N0);
     cum_of(R, b->y[2], &I1, &E1, &N1);
-    ctx_air(R->c, b->o_y[2], &rho, NULL, &g);
+    sr_profile_grid_air(&R->c->grid, b->o_y[2], &rho, NULL, &g);
     airspeed(R, b->o_y, &V, &ue, &un);
     k->valid = 1;
     k->dt = (b->t - b->o_t) - s * (I0 - I1);
@@ -867,20 +867,20 @@ static int touchdown(run *R, body *b)
         rb->canopies += (int)(o & 1u);
     rb->speed_arrive = rb->v_terminal = NAN;
     if (in_free_fall(b)) {
-        free_eq eq;
+        sr_free_eq eq;
         if (!R->w)
             return sr_error_set(R->err, SR_EINVAL, "a workspace is needed for the free-fall equilibria");
-        int rc = free_equilibria(R->c, R->w->root, b->free, b->mass, b->cd_sec, 0.0, &eq, R->err);
+        int rc = sr_profile_free_equilibria(&R->c->fall, &R->c->grid, R->w->root, b->free, b->mass, b->cd_sec, 0.0, &eq, R->err);
         if (rc)
             return rc;
         double rho, a;
-        ctx_air(R->c, 0.0, &rho, &a, NULL);
+        sr_profile_grid_air(&R->c->grid, 0.0, &rho, &a, NULL);
         rb->free_fall = 1;
         rb->equilibria = eq.n;
         rb->speed_arrive = V;
         rb->v_terminal = eq.v_fast;
         rb->drag_warn = eq.warn;
-        (void)free_cda(R->c, b->free, V, rho, ctx_mu(R->c, 0.0), &rb->drag_warn);
+        (void)sr_profile_free_cda(&R->c->fall, b->free, V, rho, sr_profile_grid_mu(&R->c->grid, 0.0), &rb->drag_warn);
         if (V / a > 0.3)
             rb->drag_warn |= SR_BLUFF_WARN_MACH;
         if (eq.n > 1 && eq.v_fast > V) {
@@ -1026,7 +1026,7 @@ static int check_perturb(const sr_profile_ctx *c, const sr_profile_perturb *p, s
     return SR_OK;
 }
 
-int profile_run(const sr_profile_ctx *c, const sr_profile_perturb *p, sr_profile_mode mode, sr_profile_work *w,
+int sr_profile_run_recorded(const sr_profile_ctx *c, const sr_profile_perturb *p, sr_profile_mode mode, sr_profile_work *w,
                 sr_profile_result *r, sr_profile_track *track, seg_cache *record, sr_error *err)
 {
     run R;
@@ -1110,12 +1110,75 @@ int sr_profile_run(const sr_profile_ctx *c, const sr_profile_perturb *p, sr_prof
                    sr_profile_result *r, sr_profile_track *track, sr_error *err)
 {
     if (w)
-        return profile_run(c, p, mode, w, r, track, NULL, err);
+        return sr_profile_run_recorded(c, p, mode, w, r, track, NULL, err);
     sr_profile_work tmp;
-    int rc = profile_work_init(&tmp, c->o.ode_tol, err);
+    int rc = sr_profile_work_init(&tmp, c->o.ode_tol, err);
     if (rc)
         return rc;
-    rc = profile_run(c, p, mode, &tmp, r, track, NULL, err);
-    profile_work_release(&tmp);
+    rc = sr_profile_run_recorded(c, p, mode, &tmp, r, track, NULL, err);
+    sr_profile_work_release(&tmp);
     return rc;
 }
+void sr_profile_perturb_init(sr_profile_perturb *p)
+{
+    memset(p, 0, sizeof *p);
+    for (size_t i = 0; i < NS; i++)
+        p->drag_scale[i] = p->area_scale[i] = 1.0;
+    for (size_t i = 0; i < NSEC; i++)
+        p->section_mass_scale[i] = 1.0;
+    p->mass_scale = 1.0;
+    p->wind_scale = 1.0;
+}
+
+int sr_profile_work_init(sr_profile_work *w, double tol, sr_error *err)
+{
+    memset(w, 0, sizeof *w);
+    w->tol = tol;
+    w->step = gsl_odeiv2_step_alloc(gsl_odeiv2_step_rk8pd, 6);
+    w->control = gsl_odeiv2_control_standard_new(tol, tol, 1.0, 0.0);
+    w->evolve = gsl_odeiv2_evolve_alloc(6);
+    w->quad = gsl_integration_workspace_alloc(256);
+    w->root = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    if (!w->step || !w->control || !w->evolve || !w->quad || !w->root) {
+        sr_profile_work_release(w);
+        return sr_error_set(err, SR_ENOMEM, "out of memory for the ODE and quadrature workspaces");
+    }
+    return SR_OK;
+}
+
+void sr_profile_work_release(sr_profile_work *w)
+{
+    if (w->step)
+        gsl_odeiv2_step_free(w->step);
+    if (w->control)
+        gsl_odeiv2_control_free(w->control);
+    if (w->evolve)
+        gsl_odeiv2_evolve_free(w->evolve);
+    if (w->quad)
+        gsl_integration_workspace_free(w->quad);
+    if (w->root)
+        gsl_root_fsolver_free(w->root);
+    memset(w, 0, sizeof *w);
+}
+
+int sr_profile_work_new(sr_profile_work **w, sr_error *err)
+{
+    *w = malloc(sizeof **w);
+    if (!*w)
+        return sr_error_set(err, SR_ENOMEM, "out of memory");
+    int rc = sr_profile_work_init(*w, 1e-9, err);
+    if (rc) {
+        free(*w);
+        *w = NULL;
+    }
+    return rc;
+}
+
+void sr_profile_work_free(sr_profile_work *w)
+{
+    if (!w)
+        return;
+    sr_profile_work_release(w);
+    free(w);
+}
+

@@ -14,24 +14,22 @@
 #include <stddef.h>
 
 #include "base/error.h"
-#include "files/mission.h"
+#include "physics/bluff.h"
+#include "physics/descent_spec.h"
+#include "sinkrate/physics.h"
 
-#define SR_PROFILE_MAX_BODIES SR_MISSION_MAX_SECTIONS
+#define SR_PROFILE_MAX_BODIES SR_DESCENT_MAX_SECTIONS
 #define SR_PROFILE_MAX_EVENTS 96
 
-typedef enum sr_profile_mode {
-    /* Transients by the adaptive ODE (GSL rk8pd), steady stages by adaptive
-     * quadrature (GSL QAG) of the atmosphere and wind models. */
-    SR_PROFILE_FULL = 0,
-    /* Steady stages from the context's cumulative quadrature tables (two table
-     * look-ups per stage), transients from the nominal ODE solution kept in the
-     * context, shifted by the closed-form constant-density transient for the
-     * sample's own drag, mass and deployment state. Where the nominal transient
-     * does not settle before the next event the ODE runs instead. No memory is
-     * allocated. Error against FULL: see sr_profile_fast_bound and
-     * docs/method.md, section 7.5. */
-    SR_PROFILE_FAST
-} sr_profile_mode;
+/* sr_profile_mode (public): SR_PROFILE_FULL runs transients by the adaptive
+ * ODE (GSL rk8pd) and steady stages by adaptive quadrature (GSL QAG) of the
+ * atmosphere and wind models. SR_PROFILE_FAST takes steady stages from the
+ * context's cumulative quadrature tables (two table look-ups per stage) and
+ * transients from the nominal ODE solution kept in the context, shifted by
+ * the closed-form constant-density transient for the sample's own drag, mass
+ * and deployment state. Where the nominal transient does not settle before
+ * the next event the ODE runs instead. No memory is allocated. Error against
+ * FULL: see sr_profile_fast_bound and docs/method.md, section 7.5. */
 
 typedef struct sr_profile_opts {
     double steady_tol;      /* a transient ends when |v_air - v_steady| <= steady_tol * v_steady (vector
@@ -52,97 +50,25 @@ void sr_profile_opts_init(sr_profile_opts *o);
 /* Changes of one sample against the mission (issue: landing dispersion).
  * sr_profile_perturb_init gives the identity. */
 typedef struct sr_profile_perturb {
-    double drag_scale[SR_MISSION_MAX_STAGES]; /* x drag area of each stage (1) */
-    double area_scale[SR_MISSION_MAX_STAGES]; /* x nominal area of each stage's canopies (1): a change of size,
+    double drag_scale[SR_DESCENT_MAX_STAGES]; /* x drag area of each stage (1) */
+    double area_scale[SR_DESCENT_MAX_STAGES]; /* x nominal area of each stage's canopies (1): a change of size,
                                                * so the drag area, the fabric mass and D0^2 scale with it */
-    double section_mass_scale[SR_MISSION_MAX_SECTIONS]; /* x the mass of each section (1), with mass_scale */
+    double section_mass_scale[SR_DESCENT_MAX_SECTIONS]; /* x the mass of each section (1), with mass_scale */
     double mass_scale;                         /* x every section mass (1) */
     double wind_scale;                         /* x wind speed at every height (1) */
     double wind_turn;                          /* rad added to the wind direction at every height (0) */
     double wind_east, wind_north;              /* m/s, a uniform wind added after scale and turn (0) */
     double start_height;                       /* m added to the start height (0) */
     double start_speed;                        /* m/s added to the start speed (0) */
-    double deploy_height[SR_MISSION_MAX_STAGES]; /* m added to each height event (0) */
-    double deploy_delay[SR_MISSION_MAX_STAGES];  /* s added to each delay event (0) */
+    double deploy_height[SR_DESCENT_MAX_STAGES]; /* m added to each height event (0) */
+    double deploy_delay[SR_DESCENT_MAX_STAGES];  /* s added to each delay event (0) */
 } sr_profile_perturb;
 
 void sr_profile_perturb_init(sr_profile_perturb *p);
 
-typedef enum sr_event_kind {
-    SR_EVENT_START = 0,    /* the start state (apogee, release) */
-    SR_EVENT_DEPLOY,       /* a stage's deployment event; a separation when it carries part of a body */
-    SR_EVENT_LINE_STRETCH, /* only when the stage has a line-stretch time */
-    SR_EVENT_FULL_OPEN,    /* end of the filling time */
-    SR_EVENT_STEADY,       /* transient over: within steady_tol of the equilibrium */
-    SR_EVENT_TOUCHDOWN
-} sr_event_kind;
-
-const char *sr_profile_event_name(sr_event_kind k);
-
-typedef struct sr_profile_event {
-    sr_event_kind kind;
-    int stage;           /* stage index, -1 for start and touchdown */
-    int body;            /* index into sr_profile_result.body */
-    sr_section_set sections; /* the body's sections at that moment (a separation changes them) */
-    double t;            /* s from the start */
-    double h;            /* m above ground */
-    double east, north;  /* m from the launch / release point */
-    double speed;        /* airspeed, m/s */
-    double rate;         /* descent rate (downward speed), m/s */
-    double q;            /* dynamic pressure on the airspeed, Pa */
-    double mach;
-} sr_profile_event;
-
-typedef struct sr_profile_stage {
-    int deployed;           /* 0: failed (failure case) or its body landed first */
-    int body;               /* body it deployed on (the separated one for a separation) */
-    double t_deploy, h_deploy;
-    double speed_deploy;    /* airspeed at the deployment event, m/s */
-    double q_deploy, mach_deploy, rho_deploy;
-    double t_line, speed_line;  /* line stretch: time and airspeed (the speed in the filling-time law) */
-    double h_line;          /* height of line stretch, m */
-    double path_line;       /* flight-path angle of the airspeed at line stretch, rad below the horizontal */
-    double t_fill;          /* filling time n D0 / max(v_line, rate_top) (sr_opening_fill_time), s */
-    double d0;              /* nominal diameter of one canopy in this run, m */
-    double cds_canopy;      /* full drag area of one canopy in this run (cluster factor included), m2 */
-    double t_full, h_full;  /* full open (NaN in fast mode) */
-    double t_steady, h_steady; /* steady again (NaN in fast mode or when never reached) */
-    double t_end, h_end;    /* next deployment on the same body, or touchdown */
-    double rate_top, rate_bottom; /* steady descent rate with this stage open at h_deploy and h_end, m/s */
-    double cds;             /* drag area of the body with this stage fully open, m2 */
-    double mass;            /* mass of the body under it, kg */
-    /* Line stretch in the fast mode: the ODE resolves it when it runs; over a
-     * reused transient it is the deployment state shifted as the nominal one was. */
-} sr_profile_stage;
-
-typedef struct sr_profile_body {
-    sr_section_set sections;
-    int parent;             /* body it separated from, -1 for the first */
-    int stage_split;        /* stage whose deployment separated it, -1 */
-    double mass;            /* kg, canopy fabric included */
-    double t_land;          /* s */
-    double east, north;     /* landing point from the launch / release point, m */
-    double drift;           /* distance of the landing point from it, m */
-    double bearing;         /* rad, direction from it to the landing point, clockwise from north */
-    double rate_land;       /* descent rate at touchdown, m/s */
-    double speed_land;      /* airspeed at touchdown, m/s */
-    double ground_speed;    /* horizontal speed over the ground at touchdown, m/s */
-    int steady_land;        /* 1 when it lands in steady descent, 0 during a transient */
-    int canopies;           /* number of stages open on it at touchdown */
-    unsigned open;          /* those stages (bit k: stage k) */
-    /* Free fall: no canopy open on it and sections with a Reynolds-dependent drag (mission `body:`).
-     * The fall is integrated to the ground with the drag curves (it never switches to quadrature); at the
-     * ground every equilibrium speed is found. With several (drag crisis) the touchdown speed is the
-     * fastest one when the integration arrived slower (conservative). */
-    int free_fall;
-    int equilibria;         /* equilibrium speeds at the ground (free fall), 0 otherwise */
-    int crisis;             /* several equilibria: rate_land and speed_land were raised to v_terminal */
-    double speed_arrive;    /* airspeed the integration arrived with, m/s (free fall; NaN otherwise) */
-    double v_terminal;      /* fastest equilibrium speed at the ground, m/s (free fall; NaN otherwise) */
-    unsigned drag_warn;     /* SR_BLUFF_WARN_* of the drag curves at touchdown (free fall) */
-    int no_drag;            /* it fell some way with no canopy open and no drag of its own at all (no drag-area:,
-                             * no body:): a vacuum fall */
-} sr_profile_body;
+/* sr_event_kind, sr_profile_event_name and the records of a result
+ * (sr_profile_event, sr_profile_stage, sr_profile_body) are public; a program
+ * reads a result through sr_profile_result_* (include/sinkrate/physics.h). */
 
 typedef struct sr_profile_result {
     sr_profile_mode mode;
@@ -150,19 +76,19 @@ typedef struct sr_profile_result {
     int events_dropped;     /* events beyond SR_PROFILE_MAX_EVENTS */
     sr_profile_event events[SR_PROFILE_MAX_EVENTS]; /* sorted by time */
     size_t nstages;
-    sr_profile_stage stage[SR_MISSION_MAX_STAGES];
+    sr_profile_stage stage[SR_DESCENT_MAX_STAGES];
     size_t nbodies;
     sr_profile_body body[SR_PROFILE_MAX_BODIES];
     size_t nsections;
-    int section_body[SR_MISSION_MAX_SECTIONS];      /* body each section lands with */
-    double section_rate[SR_MISSION_MAX_SECTIONS];   /* its touchdown descent rate, m/s */
-    double section_energy[SR_MISSION_MAX_SECTIONS]; /* 1/2 m v^2 at that rate, J; a rigid pair counts as
+    int section_body[SR_DESCENT_MAX_SECTIONS];      /* body each section lands with */
+    double section_rate[SR_DESCENT_MAX_SECTIONS];   /* its touchdown descent rate, m/s */
+    double section_energy[SR_DESCENT_MAX_SECTIONS]; /* 1/2 m v^2 at that rate, J; a rigid pair counts as
                                                      * one piece: both carry the pair's energy */
     /* relative to the ground: the descent rate combined with the surface wind (the wind 10 m above
      * ground, the standard height of surface wind observations) */
     double wind_surface;    /* m/s, the wind speed 10 m above ground (of this run's wind) */
-    double section_speed_ground[SR_MISSION_MAX_SECTIONS];  /* sqrt(rate^2 + wind_surface^2), m/s */
-    double section_energy_ground[SR_MISSION_MAX_SECTIONS]; /* 1/2 m v^2 at that speed, J */
+    double section_speed_ground[SR_DESCENT_MAX_SECTIONS];  /* sqrt(rate^2 + wind_surface^2), m/s */
+    double section_energy_ground[SR_DESCENT_MAX_SECTIONS]; /* 1/2 m v^2 at that speed, J */
     double descent_time;    /* last touchdown, s */
     double max_rate;        /* highest touchdown descent rate, m/s */
     double max_energy;      /* highest section energy, J */
@@ -183,27 +109,21 @@ typedef struct sr_profile_track {
     double dt;              /* spacing of points in steady stages, s (0: 1 s) */
 } sr_profile_track;
 
-typedef struct sr_profile_ctx sr_profile_ctx;
-typedef struct sr_profile_work sr_profile_work;
-
-/* Build the context of a mission: every stage must have a size and the
- * mission a start block. Runs the nominal profile once (full mode) to keep
- * its transients for the fast mode. o may be NULL for the defaults. */
-int sr_profile_ctx_new(sr_profile_ctx **ctx, const sr_mission *m, const sr_profile_opts *o, sr_error *err);
-void sr_profile_ctx_free(sr_profile_ctx *ctx);
+/* Build the context of a descent (a mission's: sr_mission_descent, or
+ * sr_mission_profile in one call). The context copies what it keeps (the
+ * atmosphere, the wind, the drag curves): the spec and what it points to need
+ * not outlive it. Runs the nominal profile once (full mode) to keep its
+ * transients for the fast mode. o may be NULL for the defaults. */
+int sr_profile_ctx_new(sr_profile_ctx **ctx, const sr_descent_spec *spec, const sr_profile_opts *o, sr_error *err);
 
 /* Per-thread scratch (ODE stepper, quadrature workspace). */
 int sr_profile_work_new(sr_profile_work **w, sr_error *err);
 void sr_profile_work_free(sr_profile_work *w);
 
-/* One descent. p NULL: the nominal mission. w may be NULL in full mode (then
- * allocated for the call) and in fast mode (then a needed ODE fallback
- * allocates). track may be NULL. Thread-safe for a shared ctx. */
-int sr_profile_run(const sr_profile_ctx *ctx, const sr_profile_perturb *p, sr_profile_mode mode,
-                   sr_profile_work *w, sr_profile_result *r, sr_profile_track *track, sr_error *err);
-
-/* The nominal full-mode result the context keeps. */
-const sr_profile_result *sr_profile_nominal(const sr_profile_ctx *ctx);
+/* sr_profile_run (public): p NULL is the nominal mission; w may be NULL in
+ * full mode (then allocated for the call) and in fast mode (then a needed
+ * ODE fallback allocates); track may be NULL. Thread-safe for a shared ctx.
+ * sr_profile_nominal (public): the nominal full-mode result the context keeps. */
 
 /* Steady descent rate of a body at height h with the stages in `open` (bit
  * set) fully open: v = sqrt(2 m g / (rho CdS)). Constant drag areas only:

@@ -278,7 +278,7 @@ static int parse(const char *text, sr_quantity q, double *si, int need_unit, sr_
             return SR_OK;
         }
         if (need_unit)
-            return sr_error_set(err, SR_EINVAL, "'%s' needs a unit (%s %s in %s)", text,
+            return sr_error_set_key(err, SR_EINVAL, "unit", "'%s' needs a unit (%s %s in %s)", text,
                                 strchr("aeiou", what[0]) ? "an" : "a", what, DISPLAY[q].accepted);
         if (q == SR_Q_TEMP && v < 0.0)
             return sr_error_set(err, SR_EINVAL, "'%s' is below absolute zero (a bare temperature is in K)", text);

@@ -9,6 +9,7 @@
 
 #include "base/error.h"
 #include "physics/units.h"
+#include "sinkrate/physics.h"
 
 typedef enum sr_wind_kind {
     SR_WIND_CALM = 0,
@@ -32,8 +33,10 @@ typedef enum sr_wind_kind {
 #define SR_WIND_MAX_ROWS 4096
 #define SR_WIND_MAX_SPEED 100.0   /* m/s: beyond any wind a recovery is flown in; catches unit slips */
 
-/* Caller-owned; the table kind holds memory (release with sr_wind_free). The
- * struct is never written by evaluation, so one model serves many threads. */
+/* Caller-owned; the table kind holds memory (release with sr_wind_release). The
+ * struct is never written by evaluation, so one model serves many threads. A
+ * program holds it as a handle (sr_wind_new_*, public:
+ * include/sinkrate/physics.h with sr_wind_at and sr_wind_describe). */
 typedef struct sr_wind {
     sr_wind_kind kind;
     double speed;     /* constant: the speed; power/log: the speed at h_ref, m/s */
@@ -62,15 +65,15 @@ int sr_wind_init_log(sr_wind *w, double speed_ref, double from, double h_ref, do
  * (m/s) and the direction it blows from (rad). Copies the data. */
 int sr_wind_init_table(sr_wind *w, const double *h, const double *speed, const double *from, size_t n,
                        sr_error *err);
-/* Table from CSV: columns `height` (above ground) or `altitude` (above sea
- * level, converted with `ground`, the site elevation), `speed` and `from`,
- * each with its unit in the header ("height [m],speed [m/s],from [deg]").
- * Errors carry file:line:column. */
-int sr_wind_load_table(sr_wind *w, const char *path, double ground, sr_error *err);
-/* Table from the optional wind-speed and wind-from columns of a sounding CSV
- * (altitude above sea level); an error when the sounding has no wind. */
-int sr_wind_load_sounding(sr_wind *w, const char *path, double ground, sr_error *err);
-void sr_wind_free(sr_wind *w);
+/* As sr_wind_init_table, with the failing row in *bad ((size_t)-1 when the
+ * error is about no row) and no row in the message: for readers that name
+ * the row's place in a file (files/windtable.h). */
+int sr_wind_init_table_rows(sr_wind *w, const double *h, const double *speed, const double *from, size_t n,
+                            size_t *bad, sr_error *err);
+/* Deep copy (a table's arrays are duplicated): dst, initialised or released
+ * before, afterwards owns its own memory. */
+int sr_wind_copy(sr_wind *dst, const sr_wind *src, sr_error *err);
+void sr_wind_release(sr_wind *w);
 
 /* Hold a power or log law constant above gradient height h (m above ground,
  * above the reference height, at most 5000 m). Other kinds: SR_EINVAL. */
@@ -82,12 +85,10 @@ int sr_wind_set_gradient_height(sr_wind *w, double h, sr_error *err);
  * flies a mission's wind asks here. */
 int sr_wind_check_extrapolation(const sr_wind *w, double top, sr_unit_system sys, char *buf, size_t len);
 
-/* Velocity of the air at height h above ground as east and north
- * components (the direction it moves TOWARD). Below the lowest table row
- * the lowest row holds, above the highest the highest (callers check the
- * range with sr_wind_top); power and log laws are calm at and below ground
- * (log law: below d + z0). Pure and thread-safe. */
-void sr_wind_at(const sr_wind *w, double h, double *east, double *north);
+/* sr_wind_at (public): below the lowest table row the lowest row holds,
+ * above the highest the highest (callers check the range with sr_wind_top);
+ * power and log laws are calm at and below ground (log law: below d + z0).
+ * Pure and thread-safe. */
 
 /* Highest height the model is given for (INFINITY for the laws). */
 double sr_wind_top(const sr_wind *w);
@@ -99,8 +100,11 @@ const double *sr_wind_knots(const sr_wind *w, size_t *n);
 /* Conversions between speed + from-direction and east/north components. */
 void sr_wind_components(double speed, double from, double *east, double *north);
 void sr_wind_polar(double east, double north, double *speed, double *from);
-
-/* One-line description ("power law: 5.0 m/s from 250 deg at 10 m, exponent 0.143"). */
-void sr_wind_describe(const sr_wind *w, sr_unit_system sys, char *buf, size_t len);
+/* Writes one number of a description: si in quantity q, sig significant
+ * figures (0: a whole number), with its unit. */
+typedef void (*sr_wind_value_fn)(char *buf, size_t len, double si, sr_quantity q, int sig, void *ctx);
+/* The wind in words, its numbers written by value: the one description the
+ * report and the figure titles share (sr_wind_describe writes them plainly). */
+void sr_wind_describe_fmt(const sr_wind *w, sr_wind_value_fn value, void *ctx, char *buf, size_t len);
 
 #endif

@@ -1,6 +1,6 @@
 /* fuzz_csv.c - the CSV tables the tool reads, through their real loaders:
- * a sounding (sr_atmos_load_sounding, sr_wind_load_sounding), a wind table
- * (sr_wind_load_table) and a drag table (sr_bluff_curve_load, both
+ * a sounding (sr_sounding_load, sr_windtable_load_sounding), a wind table
+ * (sr_windtable_load) and a drag table (sr_dragtable_load, both
  * interpolations); what loads is evaluated across its range. The table
  * reader itself also runs from memory (sr_csvtable_parse). */
 #include <math.h>
@@ -12,6 +12,9 @@
 #include "files/csvtable.h"
 #include "fuzz.h"
 #include "physics/wind.h"
+#include "files/sounding.h"
+#include "files/windtable.h"
+#include "files/dragtable.h"
 
 int LLVMFuzzerInitialize(int *argc, char ***argv)
 {
@@ -52,7 +55,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 
     const char *path = fuzz_file("table.csv", data, size);
     sr_atmos m;
-    if (sr_atmos_load_sounding(&m, path, &e) == SR_OK) {
+    if (sr_sounding_load(&m, path, &e) == SR_OK) {
         double lo, hi;
         sr_atmos_range(&m, &lo, &hi);
         FUZZ_ASSERT(lo < hi);
@@ -64,28 +67,28 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
         }
         sr_air a;
         FUZZ_ASSERT(sr_atmos_at(&m, hi + 1.0, &a, &e) != SR_OK); /* never extrapolated */
-        sr_atmos_free(&m);
+        sr_atmos_release(&m);
     } else {
         FUZZ_MSG_OK(e.msg);
     }
 
     sr_wind w;
-    if (sr_wind_load_sounding(&w, path, 0.0, &e) == SR_OK) {
+    if (sr_windtable_load_sounding(&w, path, 0.0, &e) == SR_OK) {
         wind_ok(&w);
-        sr_wind_free(&w);
+        sr_wind_release(&w);
     } else {
         FUZZ_MSG_OK(e.msg);
     }
-    if (sr_wind_load_table(&w, path, 100.0, &e) == SR_OK) {
+    if (sr_windtable_load(&w, path, 100.0, &e) == SR_OK) {
         wind_ok(&w);
-        sr_wind_free(&w);
+        sr_wind_release(&w);
     } else {
         FUZZ_MSG_OK(e.msg);
     }
 
     for (int kind = SR_BLUFF_LOGLOG; kind <= SR_BLUFF_STEFFEN; kind++) {
         sr_bluff_curve c;
-        if (sr_bluff_curve_load(&c, path, (sr_bluff_interp)kind, &e) != SR_OK) {
+        if (sr_dragtable_load(&c, path, (sr_bluff_interp)kind, &e) != SR_OK) {
             FUZZ_MSG_OK(e.msg);
             continue;
         }

@@ -1,5 +1,5 @@
 /* fuzz_dragcurve.c - drag curves Cd(Re) written as YAML (points: [[Re, Cd],
- * ...]), through sr_bluff_curve_load with both interpolations, then a body
+ * ...]), through sr_dragtable_load with both interpolations, then a body
  * built on the curve and its equilibrium speeds found in standard air. */
 #include <math.h>
 #include <stdio.h>
@@ -8,6 +8,7 @@
 #include "physics/atmos.h"
 #include "physics/bluff.h"
 #include "fuzz.h"
+#include "files/dragtable.h"
 
 int LLVMFuzzerInitialize(int *argc, char ***argv)
 {
@@ -27,7 +28,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
         abort();
     for (int kind = SR_BLUFF_LOGLOG; kind <= SR_BLUFF_STEFFEN; kind++) {
         sr_bluff_curve c;
-        if (sr_bluff_curve_load(&c, path, (sr_bluff_interp)kind, &e) != SR_OK) {
+        if (sr_dragtable_load(&c, path, (sr_bluff_interp)kind, &e) != SR_OK) {
             FUZZ_MSG_OK(e.msg);
             continue;
         }

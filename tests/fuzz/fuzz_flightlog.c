@@ -54,7 +54,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
         } else {
             FUZZ_MSG_OK(e.msg);
         }
-        sr_atmos_free(&atm);
+        sr_atmos_release(&atm);
     }
     sr_flightlog_free(&log);
     return 0;

@@ -48,7 +48,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
     sr_yaml_free(&y);
     if (rc != SR_OK) {
         FUZZ_MSG_OK(e.msg);
-        sr_mission_free(mis);
+        sr_mission_release(mis);
         return 0;
     }
     FUZZ_ASSERT(mis->nsections >= 1 && mis->nstages >= 1);
@@ -67,6 +67,6 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
         sr_air top;
         (void)sr_atmos_at(&mis->atmos, mis->ground + mis->start_height, &top, &e);
     }
-    sr_mission_free(mis);
+    sr_mission_release(mis);
     return 0;
 }

@@ -1,5 +1,5 @@
 /* uncertainty.c - distributions of deviations and one sample's draw. */
-#include "analysis/uncertainty.h"
+#include "physics/uncertainty.h"
 
 #include <gsl/gsl_randist.h>
 #include <math.h>

@@ -7,11 +7,11 @@
 #include <gsl/gsl_rng.h>
 #include <stddef.h>
 #include <stdint.h>
-#include <yaml.h>
 
 #include "base/error.h"
+#include "physics/descent_spec.h"
 
-#define SR_UNC_MAX_STAGES 6  /* = SR_MISSION_MAX_STAGES (checked in mission_uncertainty.c) */
+#define SR_UNC_MAX_STAGES SR_DESCENT_MAX_STAGES /* one perturbation slot per stage */
 
 typedef enum sr_dist_kind {
     SR_DIST_FIXED = 0,   /* no deviation */
@@ -78,12 +78,5 @@ void sr_uncertainty_draw(const sr_uncertainty *u, uint64_t seed, uint64_t i, gsl
 
 /* 1 when nothing varies. */
 int sr_uncertainty_is_zero(const sr_uncertainty *u);
-
-/* The mission reader calls this after the stages and the start are read,
- * with the `uncertainty:` node or NULL (then the default: each stage's drag
- * uniform over its family's CD0 range, nothing else varies). */
-struct sr_mission;
-struct sr_yaml;
-int sr_mission_parse_uncertainty(struct sr_mission *m, struct sr_yaml *y, yaml_node_t *n, sr_error *err);
 
 #endif
