@@ -19,6 +19,7 @@
 #include "physics/opening.h"
 #include "physics/profile.h"
 #include "analysis/band.h"
+#include "analysis/design.h"
 #include "analysis/judge.h"
 #include "analysis/sweep.h"
 #include <omp.h>
@@ -209,6 +210,82 @@ static void bench_band(void)
     sr_band_ctx_free(bc);
     sr_mission_release(m);
     free(m);
+    free(cat);
+}
+
+/* The design search (analysis/design.c) on the demo rocket: candidates
+ * judged per second of wall time at 1 and 2 threads (each a banded staged
+ * descent on the fast path, judged; the last stage's bisection steps count,
+ * they are candidates too), and the issue's large search: every pair of the
+ * catalog's families for drogue and main, sizes continuous in their ranges, 20
+ * main deployment heights, at 2 threads. Best of 3. */
+static int design_once(const char *path, const sr_catalog *cat, int threads, int all, double *secs, size_t *cand,
+                       size_t *combos)
+{
+    sr_mission *m = calloc(1, sizeof *m);
+    sr_yaml y;
+    sr_error e;
+    if (!m || sr_mission_load_doc(m, path, cat, &y, &e)) {
+        printf("design: cannot load %s (%s)\n", path, m ? e.msg : "out of memory");
+        free(m);
+        return 1;
+    }
+    sr_design_basis db;
+    sr_mission_design_basis(m, &db);
+    if (all)
+        for (size_t k = 0; k < m->nstages; k++)
+            sr_design_set_families(&m->design.stage[k], &db, k, cat, "all", "all", &e);
+    /* no bays: every combination is searched to its end */
+    for (size_t k = 0; k < m->nstages && all; k++)
+        m->design.stage[k].bay = NAN;
+    sr_design_opts o;
+    sr_design_opts_init(&o);
+    o.threads = threads;
+    sr_design_result res;
+    double t0 = now();
+    int rc = sr_design_run(m, &y, cat, &o, &res, &e);
+    *secs = now() - t0;
+    if (rc)
+        printf("design: %s\n", e.msg);
+    else {
+        *cand = res.candidates;
+        *combos = res.ncombos;
+        sr_design_result_free(&res);
+    }
+    sr_yaml_free(&y);
+    sr_mission_release(m);
+    free(m);
+    return rc;
+}
+
+static void bench_design(void)
+{
+    const char *data = getenv("SINKRATE_DATA");
+    char dir[1024], path[1024];
+    snprintf(dir, sizeof dir, "%s/canopies", data ? data : ".");
+    snprintf(path, sizeof path, "%s/payloads/desert-club-rocket.yaml", data ? data : ".");
+    sr_catalog *cat = malloc(sizeof *cat);
+    sr_error e;
+    if (!cat || sr_catalog_open(cat, dir, &e)) {
+        printf("design: no catalog\n\n");
+        free(cat);
+        return;
+    }
+    double rate[2] = {0, 0}, best_all = INFINITY, t;
+    size_t cand = 0, combos = 0;
+    for (int rep = 0; rep < 3; rep++)
+        for (int k = 0; k < 2; k++)
+            if (!design_once(path, cat, k + 1, 0, &t, &cand, &combos))
+                rate[k] = fmax(rate[k], (double)cand / t);
+    printf("design search, demo rocket (%zu combinations, %zu candidates): %8.0f candidates/s at 1 thread, %8.0f at "
+           "2  (goal >= 20000 at 2)\n",
+           combos, cand, rate[0], rate[1]);
+    for (int rep = 0; rep < 3; rep++)
+        if (!design_once(path, cat, 2, 1, &t, &cand, &combos))
+            best_all = fmin(best_all, t);
+    printf("design search, every pair of the %zu families, 20 main heights: %.2f s at 2 threads, %zu candidates = "
+           "%.0f /s  (goal < 10 s)\n\n",
+           cat->n, best_all, cand, (double)cand / best_all);
     free(cat);
 }
 
@@ -670,6 +747,7 @@ int main(int argc, char **argv)
     bench_yaml();
     bench_profile();
     bench_band();
+    bench_design();
     bench_fit();
     bench_opening_fit(t_open);
     bench_dispersion();

@@ -22,7 +22,7 @@ int main(int argc, char **argv)
     for (size_t i = 0; i < sr_verdict_rows(v); i++) {
         const sr_judge_row *j = sr_verdict_row(v, i);
         const char *unit = sr_units_label(sr_judge_kind_quantity(j->kind), SR_UNITS_SI);
-        printf("  %-15s %-11s %8.4g %-3s limit %-6.4g %s\n", sr_judge_kind_name(j->kind),
+        printf("  %-19s %-11s %8.4g %-3s limit %-6.4g %s\n", sr_judge_kind_name(j->kind),
                sr_judge_row_subject(m, j), j->judged, unit, j->limit, j->exceeded ? "EXCEEDED" : "met");
     }
     return sr_verdict_exceeded(v) ? 1 : 0; /* the process ends here: its memory goes with it */

@@ -40,6 +40,9 @@ other() {
 other profile profile payloads/desert-club-rocket-revised.yaml
 cp "$out/profile.png" "$img"/profile.png
 cp "$out/profile-track.png" "$img"/profile-track.png
+# the design search on the first demo rocket: the Pareto front of drift against touchdown speed
+other design-front design "$mission"
+cp "$out/design-front.png" "$img"/design-front.png
 # the landing scatter of the original demo under its uncertainty block
 other scatter dispersion "$mission" -n 100000 --seed 1
 cp "$out/scatter.png" "$img"/scatter.png

@@ -18,6 +18,7 @@ printf 'mission: x\nsite: {elevation: &e 100 m}\nsections:\n  - {name: a, mass: 
 printf 'mission: "x\\e[31m"\nsections: []\n' > "$tmp/escape.yaml"
 ln -s "$tmp/target.txt" "$tmp/dangling.txt"
 printf 'mission: w\nsite: {wind: {model: power-law, speed: 5 m/s, from: 250 deg, gradient-height: 300 m}}\nsections: [{name: a, mass: 0.35 kg}]\nstages: [{name: m, family: conical, nominal-diameter: 7 m}]\nstart: {height: 3000 m}\n' > "$tmp/windy.yaml"
+printf 'mission: d\nsections: [{name: a, mass: 2 kg}]\nstages: [{name: m, family: conical, nominal-diameter: 2 m}]\nstart: {height: 300 m}\nlimits: {touchdown-speed: 1 m/s}\ndesign: {stages: {m: {families: [conical, annular], nominal-diameter: {min: 1 m, max: 3 m}, bay-volume: 0.2 L}}}\n' > "$tmp/nodesign.yaml"
 # valgrind's own failure code, distinct from the program's 0/1/2
 VG=97
 fail=0; n=0
@@ -62,6 +63,12 @@ done <<EOF_LIST
 0 rate --mass 2kg --family conical --nominal-diameter 1.5m --data "$tmp/mine"
 0 sweep --mass 2kg --family conical --nominal-diameter 1.5m --from 0 --to 3km --step 1km --by temp-offset=-20C,25C --plot "$tmp/sweep"
 1 profile "$M" --plot "$tmp/profile"
+0 design "$M" --families main=annular --heights main=150m..300m/4 --top 2 --plot "$tmp/design"
+0 design "$root/payloads/drone-cargo-drop.yaml" --format json --risk-samples 100 --write "$tmp/design.yaml"
+0 profile "$tmp/design.yaml" --format csv
+0 design "$M" --optional drogue --families drogue=conical --families main=annular --heights main=150m..300m/3 --objective drift --units us --threads 1
+1 design "$tmp/nodesign.yaml" --write "$tmp/never.yaml"
+2 design "$M" --diameters drogue=3m..1m
 0 loads --mission "$M" --plot "$tmp/loads"
 0 loads --mission "$root/payloads/desert-club-rocket-revised.yaml" --stage main --limits-at typical --format json
 0 profile "$root/payloads/desert-club-rocket-revised.yaml" --limits-at typical --format csv

@@ -44,7 +44,7 @@ LEGEND_HEAD = "The first three classes are checks against the world; the others 
 TOPICS = ["atmosphere", "units", "canopy catalog and reference areas", "descent rate", "sizing",
           "descent time and landing", "wind and drift", "opening load", "filling time", "free fall",
           "dispersion statistics", "random draws", "flight-log fit", "plausibility and Mach",
-          "landing maps and trajectories", "file formats", "other"]
+          "landing maps and trajectories", "design search and packing", "file formats", "other"]
 
 # (file pattern, quantity pattern, topic): the first rule that matches wins.
 RULES = [
@@ -57,6 +57,7 @@ RULES = [
     (r".*", r"^fit: ", "flight-log fit"),
     (r"^test_(fit|demo_flight|flightlog)\.c$", r"", "flight-log fit"),
     (r"^test_(geodesy|maps)\.c$", r"", "landing maps and trajectories"),
+    (r"^test_(design|cli_design)\.c$", r"", "design search and packing"),
     (r"^test_us_customary\.c$", r"", "units"),
     (r"^test_plausible\.c$", r"", "plausibility and Mach"),
     (r"^test_atmos\.c$", r"", "atmosphere"),

@@ -92,6 +92,11 @@ typedef struct bad_case {
 #define LOADS_CANOPY "loads", "--mass", "5 kg", "--family", "conical", "--nominal-diameter", "1.5 m"
 #define FREEFALL "freefall", "--mass", "1 kg", "--diameter", "10 cm"
 #define DISPERSION "dispersion", "@IN@"
+#define DESIGN "design", "@IN@"
+/* a mission whose main deploys at a height (line 9), for the design's height ranges */
+#define HMISSION MISSION_HEAD SECTION                                                                         \
+    "stages:\n  - {name: drogue, family: cross, nominal-diameter: 0.5 m}\n"                                 \
+    "  - {name: main, family: conical, nominal-diameter: 1.5 m, deploy: {height: 200 m}}\n" START
 /* a mission that can run, with this inside its site block (line 2, from column 8) */
 #define GEO_SITE(keys) "mission: m\nsite: {" keys "}\nsections:\n" SECTION STAGES START
 
@@ -696,6 +701,77 @@ static const bad_case BAD[] = {
      "needs sigma"},
     {{DISPERSION}, PMISSION "uncertainty: {drag: {main: uniform}, drag: x}\n", NULL, 0, "@IN@:10:38",
      "duplicate key 'drag'"},
+    /* ---- design: the design: block and the options ---- */
+    {{DESIGN}, PMISSION "design: {stages: {main: {nominal-diameter: {min: 3 m, max: 1 m}}}}\n", NULL, 0,
+     "@IN@:10:50", "min 3 m is above its max 1 m"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {families: []}}}\n", NULL, 0, "@IN@:10:36", "the list is empty"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {families: [conicl]}}}\n", NULL, 0, "@IN@:10:37",
+     "did you mean 'conical'"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {families: {class: ribbon}}}}\n", NULL, 0, "@IN@:10:44",
+     "no family of the catalog has class 'ribbon'"},
+    {{DESIGN}, PMISSION "design: {stages: {mian: {families: [conical]}}}\n", NULL, 0, "@IN@:10:19",
+     "did you mean 'main'"},
+    {{DESIGN}, PMISSION "design: {stage: {main: {families: [conical]}}}\n", NULL, 0, "@IN@:10:10",
+     "did you mean 'stages'"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {deploy-height: {min: 100 m, max: 200 m}}}}\n", NULL, 0,
+     "@IN@:10:41", "does not deploy at a height"},
+    {{DESIGN}, HMISSION "design: {stages: {main: {deploy-height: {min: 100 m, max: 1200 m}}}}\n", NULL, 0,
+     "@IN@:9:41", "not below the start at 1000 m"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {nominal-diameter: {min: 1 m, max: 100 m}}}}\n", NULL, 0,
+     "@IN@:10:44", "spans more than a factor 50"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {nominal-diameter: []}}}\n", NULL, 0, "@IN@:10:44",
+     "the list of sizes is empty"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {nominal-diameter: [1 m, 2 m, 1 m]}}}\n", NULL, 0, "@IN@:10:44",
+     "listed twice"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {nominal-diameter: {min: 1 m, max: 2 m, step: 0 m}}}}\n", NULL, 0,
+     "@IN@:10:71", "the size step must be positive"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {bay-volume: -1 L}}}\n", NULL, 0, "@IN@:10:38",
+     "must lie above 0"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {bay-volume: 2 m}}}\n", NULL, 0, "@IN@:10:38",
+     "unknown volume unit 'm'"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {count: [1, 0]}}}\n", NULL, 0, "@IN@:10:37", "from 1 to 16"},
+    {{DESIGN}, PMISSION "design: {objective: cheapest}\n", NULL, 0, "@IN@:10:21", "objective must be mass"},
+    {{DESIGN}, PMISSION "design: {packing: vacuum}\n", NULL, 0, "@IN@:10:19", "packing must be hand, machine"},
+    {{DESIGN}, PMISSION "design: {stages: {main: {optional: yes}}}\n", NULL, 0, "@IN@:10:36",
+     "expected true or false"},
+    {{DESIGN}, PMISSION "design: {objective: mass}\n", NULL, 0, "@IN@", "nothing to search"},
+    {{DESIGN}, MISSION "design: {stages: {main: {families: [conical]}}}\n", NULL, 0, "@IN@", "no start: block"},
+    {{DESIGN, "--diameters", "main=3m..1m"}, PMISSION, NULL, 0, "--diameters", "min 3 m is above its max 1 m"},
+    {{DESIGN, "--diameters", "main=1m..100m"}, PMISSION, NULL, 0, "--diameters", "spans more than a factor 50"},
+    {{DESIGN, "--families", "mian=conical"}, PMISSION, NULL, 0, "--families", "did you mean 'main'"},
+    {{DESIGN, "--families", "main"}, PMISSION, NULL, 0, "--families", "give STAGE=VALUE"},
+    {{DESIGN, "--families", "main="}, PMISSION, NULL, 0, "--families", "no value after 'main='"},
+    {{DESIGN, "--families", "main=conicl"}, PMISSION, NULL, 0, "--families", "did you mean 'conical'"},
+    {{DESIGN, "--families", "main=conical", "--families", "main=cross"}, PMISSION, NULL, 0, "--families",
+     "given twice"},
+    {{DESIGN, "--heights", "main=100m..300m"}, PMISSION, NULL, 0, "--heights", "does not deploy at a height"},
+    {{DESIGN, "--heights", "main=300m"}, HMISSION, NULL, 0, "--heights", "give a range MIN..MAX"},
+    {{DESIGN, "--counts", "main=0"}, PMISSION, NULL, 0, "--counts", "from 1 to 16"},
+    {{DESIGN, "--bay", "main=-1L"}, PMISSION, NULL, 0, "--bay", "greater than zero"},
+    {{DESIGN, "--optional", "main=yes"}, PMISSION, NULL, 0, "--optional", "the stage name only"},
+    {{DESIGN, "--objective", "heavy"}, PMISSION, NULL, 0, "--objective", "not one of mass, volume, drift"},
+    {{DESIGN, "--packing", "tight"}, PMISSION, NULL, 0, "--packing", "not one of hand, machine, pressure"},
+    {{DESIGN, "--grid", "1"}, PMISSION, NULL, 0, "--grid", "from 2 to 64"},
+    {{DESIGN, "--top", "0"}, PMISSION, NULL, 0, "--top", "from 1 to"},
+    {{DESIGN, "--pareto", "speed,speed"}, PMISSION, NULL, 0, "--pareto", "two different quantities"},
+    {{DESIGN, "--pareto", "speed,cost"}, PMISSION, NULL, 0, "--pareto", "not two of speed, drift"},
+    {{DESIGN, "--max-risk", "1 %"}, PMISSION, NULL, 0, "--max-risk", "goes with --risk-samples"},
+    {{DESIGN, "--risk-samples", "0"}, PMISSION, NULL, 0, "--risk-samples", "from 1 to"},
+    {{DESIGN, "--risk-samples", "100", "--max-risk", "2"}, PMISSION, NULL, 0, "--max-risk", "not a probability"},
+    {{DESIGN, "--write", "@OUT@/no/such/m.yaml"}, PMISSION, NULL, 0, "--write: @OUT@/no/such/m.yaml",
+     "cannot write"},
+    {{DESIGN, "--write", "@IN@"}, PMISSION, NULL, 0, "--write", "the mission file"},
+    {{DESIGN, "--limits-at", "middle"}, PMISSION, NULL, 0, "--limits-at", "not band-end"},
+    {{DESIGN}, MISSION_HEAD SECTION
+     "stages:\n  - {name: a, family: cross, nominal-diameter: 0.5 m}\n"
+     "  - {name: b, family: conical, nominal-diameter: 1 m, deploy: {height: 800 m}}\n"
+     "  - {name: c, family: conical, nominal-diameter: 2 m, deploy: {height: 300 m}}\n" START
+     "design: {stages: {a: {families: all, nominal-diameter: {min: 0.3 m, max: 1 m}}, b: {families: all, "
+     "nominal-diameter: {min: 0.5 m, max: 2 m}, deploy-height: {min: 500 m, max: 900 m}}, c: {families: all, "
+     "nominal-diameter: {min: 1 m, max: 4 m}, deploy-height: {min: 150 m, max: 250 m}}}}\n",
+     NULL, 0, "@IN@", "the search space is too large"},
+    {{"design"}, NULL, NULL, 0, "design", "give a mission file"},
+    {{DESIGN}, NULL, NULL, 0, "@IN@", "cannot open"},
     /* ---- the verdict: limits keys, --limits-at, measured openings, attitudes, bands ---- */
     {{PROFILE}, PMISSION "limits: {rated-strength: 2 kN}\n", NULL, 0, "@IN@:10:10", "needs design-factor"},
     {{PROFILE}, PMISSION "limits: {design-factor: 2}\n", NULL, 0, "@IN@:10:25", "goes with rated-strength"},
@@ -1263,22 +1339,52 @@ static int run_case(size_t i, const bad_case *c, int show)
 static const struct {
     const char *args[16];
     const char *expect;
+    const char *in;     /* the mission file @IN@, or NULL */
 } IMPOSSIBLE[] = {
-    {{"size", "--mass", "1e-6 kg", "--speed", "5 m/s", "--family", "conical"}, "no canopy fits"},
-    {{"size", "--mass", "9e4 kg", "--speed", "0.5 m/s", "--family", "conical"}, "no canopy fits"},
+    {{"size", "--mass", "1e-6 kg", "--speed", "5 m/s", "--family", "conical"}, "no canopy fits", NULL},
+    {{"size", "--mass", "9e4 kg", "--speed", "0.5 m/s", "--family", "conical"}, "no canopy fits", NULL},
     {{"size", "--mass", "0.1 kg", "--speed", "0.5 m/s", "--family", "conical", "--areal-mass", "1500 g/m2"},
-     "no canopy size"},
+     "no canopy size", NULL},
+    /* design: the page shows every combination's closest miss; the line names the closest */
+    {{DESIGN, "--write", "@OUT@/chosen.yaml"}, "no design meets every limit; the closest, main annular, misses "
+                                                "touchdown descent rate",
+     PMISSION "limits: {touchdown-speed: 1 m/s}\n"
+              "design: {stages: {main: {families: [conical, annular], nominal-diameter: {min: 1 m, max: 3 m}}}}\n"},
+    {{DESIGN, "--write", "@OUT@/chosen.yaml"}, "no candidate fits its bay: the least 'main', a 1.000 m conical",
+     PMISSION "limits: {touchdown-speed: 6 m/s}\n"
+              "design: {stages: {main: {nominal-diameter: {min: 1 m, max: 3 m}, bay-volume: 10 cm3}}}\n"},
+    {{DESIGN}, "no design meets every limit within the bays",
+     PMISSION "limits: {touchdown-speed: 6 m/s}\n"
+              "design: {stages: {main: {nominal-diameter: {min: 1 m, max: 3 m}, bay-volume: 0.25 L}}}\n"},
 };
 
 static void test_impossible(void **state)
 {
     (void)state;
     for (size_t i = 0; i < sizeof IMPOSSIBLE / sizeof IMPOSSIBLE[0]; i++) {
-        char *argv[20];
+        char *argv[20], store[16][512];
         int argc = 0;
         argv[argc++] = "sinkrate";
-        for (size_t k = 0; k < 16 && IMPOSSIBLE[i].args[k]; k++)
-            argv[argc++] = (char *)IMPOSSIBLE[i].args[k];
+        char dir[] = "/tmp/sinkrate-impossible-XXXXXX";
+        assert_non_null(mkdtemp(dir));
+        char in[600];
+        snprintf(in, sizeof in, "%s/mission.yaml", dir);
+        if (IMPOSSIBLE[i].in) {
+            FILE *f = fopen(in, "w");
+            assert_non_null(f);
+            fputs(IMPOSSIBLE[i].in, f);
+            fclose(f);
+        }
+        for (size_t k = 0; k < 16 && IMPOSSIBLE[i].args[k]; k++) {
+            const char *a = IMPOSSIBLE[i].args[k];
+            if (strcmp(a, "@IN@") == 0)
+                snprintf(store[k], sizeof store[k], "%s", in);
+            else if (strncmp(a, "@OUT@", 5) == 0)
+                snprintf(store[k], sizeof store[k], "%s%s", dir, a + 5);
+            else
+                snprintf(store[k], sizeof store[k], "%s", a);
+            argv[argc++] = store[k];
+        }
         argv[argc] = NULL;
         char *out, *err;
         int rc = sr_test_cli_argv(&out, &err, argc, argv);
@@ -1287,7 +1393,16 @@ static void test_impossible(void **state)
         assert_int_equal(rc, 1);
         assert_int_equal(sr_test_lines(err), 1);
         assert_non_null(strstr(err, IMPOSSIBLE[i].expect));
-        assert_string_equal(out, "");
+        if (strcmp(IMPOSSIBLE[i].args[0], "design") == 0) /* its page: every closest miss, with the caution */
+            assert_non_null(strstr(out, "closest miss of each"));
+        else
+            assert_string_equal(out, "");
+        /* nothing written: the directory holds the input only */
+        char chosen[640];
+        snprintf(chosen, sizeof chosen, "%s/chosen.yaml", dir);
+        assert_int_equal(access(chosen, F_OK), -1);
+        remove(in);
+        assert_int_equal(rmdir(dir), 0);
         free(out);
         free(err);
     }

@@ -63,6 +63,7 @@ static void test_caution_everywhere(void **state)
         {"canopies", "ringslot", NULL},
         {"check", "@" REVISED, NULL},
         {"fit", "@payloads/demo-flight.csv", "--mission", "@payloads/desert-club-rocket.yaml", NULL},
+        {"design", "@payloads/drone-cargo-drop.yaml", NULL},
     };
     /* every command is here: a new one fails until it has a line */
     for (const sr_command *const *cmd = sr_cli_commands; *cmd; cmd++) {

@@ -90,6 +90,12 @@ static const det_case CASES[] = {
     {{"profile", "@ROOT@/payloads/desert-club-rocket-revised.yaml", "--table", "touchdown"}, {NULL}},
     {{"dispersion", DEMO, "-n", "500", "--seed", "3", "--table", "percentiles", "--threads", "1"},
      {"dispersion", DEMO, "-n", "500", "--seed", "3", "--table", "percentiles", "--threads", "2"}},
+    /* the design search: the same designs, margins and front at one thread or two */
+    {{"design", DEMO, "--threads", "1"}, {"design", DEMO, "--threads", "2"}},
+    {{"design", "@ROOT@/payloads/drone-cargo-drop.yaml", "--risk-samples", "300", "--seed", "4", "--threads", "2"},
+     {"design", "@ROOT@/payloads/drone-cargo-drop.yaml", "--risk-samples", "300", "--seed", "4", "--threads", "1"}},
+    {{"design", DEMO, "--optional", "drogue", "--objective", "drift", "--table", "pareto", "--threads", "2"},
+     {"design", DEMO, "--objective", "drift", "--optional", "drogue", "--table", "pareto", "--threads", "1"}},
     {{"size", "--mass", "12 lbs", "--speed", "20 ft/s", "--family", "conical", "--table", "values"},
      {"size", "--mass", "192 oz", "--speed", "20 ft/s", "--family", "conical", "--table", "values"}},
 };

@@ -36,6 +36,8 @@ static const run_case RUNS[] = {
     {"check", {"@canopies/conical.yaml", NULL}},
     {"fit", {"@payloads/demo-flight.csv", "@payloads/demo-flight.csv", "--mission", "@payloads/desert-club-rocket.yaml",
              "--pressure-altitude", NULL}},
+    /* the design search: misses, the front and the risk check */
+    {"design", {"@payloads/desert-club-rocket.yaml", "--risk-samples", "200", NULL}},
     /* a failure case as the descent: the impact speeds of every attitude */
     {"profile", {"@" REVISED, "--fail", "main", NULL}},
 };

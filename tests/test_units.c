@@ -145,6 +145,16 @@ static const unit_case CASES[] = {
     {SR_Q_ACCEL, "ft/s2", FT, 0, NIST ": 1 ft/s2 = 0.3048 m/s2 exactly", "ft/s2", "m/s2", 1e-15},
     {SR_Q_ACCEL, "g", GN, 0, NIST ": standard acceleration of gravity gn = 9.80665 m/s2 exactly",
      "standard_free_fall", "m/s2", 1e-15},
+    {SR_Q_VOLUME, "m3", 1.0, 0, SI_DERIVED, "m3", "m3", 1e-15},
+    {SR_Q_VOLUME, "m^3", 1.0, 0, SI_DERIVED, "m^3", "m3", 1e-15},
+    {SR_Q_VOLUME, "L", 1e-3, 0, NIST_SI ": 1 L = 1 dm3 = 1e-3 m3", "L", "m3", 1e-15},
+    {SR_Q_VOLUME, "mL", 1e-6, 0, NIST_SI ": 1 mL = 1 cm3", "mL", "m3", 1e-15},
+    {SR_Q_VOLUME, "cm3", 1e-6, 0, NIST_SI, "cm3", "m3", 1e-15},
+    {SR_Q_VOLUME, "cm^3", 1e-6, 0, NIST_SI, "cm^3", "m3", 1e-15},
+    {SR_Q_VOLUME, "in3", IN * IN * IN, 0, NIST ": 1 in3 = 1.6387064e-5 m3 exactly", "in3", "m3", 1e-15},
+    {SR_Q_VOLUME, "in^3", IN * IN * IN, 0, NIST ": 1 in3 = 1.6387064e-5 m3 exactly", "in^3", "m3", 1e-15},
+    {SR_Q_VOLUME, "ft3", FT * FT * FT, 0, NIST ": 1 ft3 = 2.831685e-2 m3", "ft3", "m3", 1e-15},
+    {SR_Q_VOLUME, "ft^3", FT * FT * FT, 0, NIST ": 1 ft3 = 2.831685e-2 m3", "ft^3", "m3", 1e-15},
 };
 #define NCASES (sizeof CASES / sizeof CASES[0])
 
@@ -293,6 +303,7 @@ static const label_case LABELS[] = {
     {SR_Q_ACCEL, "m/s2", "ft/s2", "m/s2", "m/s2", "ft/s2"},
     {SR_Q_SIZE, "m", "in", "m", "m", "in"},           /* a canopy size: inches under US (see units.h) */
     {SR_Q_BEARING, "deg", "deg", "rad", "degree", "degree"},
+    {SR_Q_VOLUME, "L", "in3", "m3", "L", "in3"},
 };
 
 static void test_format_round_trip(void **state)

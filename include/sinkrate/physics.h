@@ -36,6 +36,7 @@ typedef enum sr_quantity {
     SR_Q_ACCEL,
     SR_Q_SIZE,         /* a canopy's diameter: a length shown in inches (feet from 10 ft on) under US */
     SR_Q_BEARING,      /* a direction clockwise from north: an angle shown from 0 up to, never at, 360 deg */
+    SR_Q_VOLUME,       /* a packed canopy or a bay: shown in litres (SI) or cubic inches (US) */
     SR_Q_COUNT_        /* the number of quantities of this release (grows at the end) */
 } sr_quantity;
 

@@ -16,8 +16,20 @@ struct sr_band_ctx {
     char name[SR_MISSION_MAX_STAGES][SR_NAME_MAX];
 };
 
+/* The opening loads of each stage last computed in this workspace: a run
+ * whose states at line stretch are the same bits gets the same loads without
+ * solving again (a design search moves one canopy while the others' openings
+ * stay as they were). */
+typedef struct loads_memo {
+    int valid, fast;
+    sr_loads_canopy lc;  /* the canopy itself, not its context's address: a freed context's may come back */
+    sr_loads_state st[SR_LOADS_NSTATES];
+    sr_loads_band out;
+} loads_memo;
+
 struct sr_band_work {
     sr_profile_work *w;
+    loads_memo memo[SR_MISSION_MAX_STAGES];
 };
 
 int sr_band_ctx_new(sr_band_ctx **out, const sr_mission *m, const sr_profile_opts *po, sr_error *err)
@@ -127,31 +139,37 @@ int sr_band_run(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_prof
     return sr_band_run_tracked(bc, design, mode, w, r, tracks, err);
 }
 
-int sr_band_run_tracked(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode,
-                        sr_band_work *w, sr_band_result *r, sr_profile_track *const tracks[SR_BAND_NRUNS],
-                        sr_error *err)
+int sr_band_descents(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode,
+                     sr_band_work *w, sr_band_result *r, sr_profile_track *const tracks[SR_BAND_NRUNS], sr_error *err)
 {
     sr_profile_perturb base;
     if (design)
         base = *design;
     else
         sr_profile_perturb_init(&base);
-    sr_band_work tmp = {NULL};
+    sr_profile_work *tmp = NULL;
     int rc = SR_OK;
-    if (!w) {
-        if ((rc = sr_profile_work_new(&tmp.w, err)))
-            return rc;
-        w = &tmp;
-    }
+    if (!w && (rc = sr_profile_work_new(&tmp, err)))
+        return rc;
     for (int e = 0; e < SR_BAND_NRUNS && !rc; e++) {
         sr_profile_perturb p = base;
         for (size_t k = 0; k < bc->nstages; k++)
             p.drag_scale[k] *= bc->drag[e][k];
         for (size_t i = 0; i < bc->nsections; i++)
             p.section_mass_scale[i] *= bc->mass[e][i];
-        rc = sr_profile_run(bc->ctx, &p, mode, w->w, &r->run[e], tracks ? tracks[e] : NULL, err);
+        rc = sr_profile_run(bc->ctx, &p, mode, w ? w->w : tmp, &r->run[e], tracks ? tracks[e] : NULL, err);
     }
     r->nstages = bc->nstages;
+    for (size_t k = 0; k < SR_MISSION_MAX_STAGES; k++)
+        r->loads[k].valid = 0;
+    if (tmp)
+        sr_profile_work_free(tmp);
+    return rc;
+}
+
+int sr_band_loads(const sr_band_ctx *bc, sr_profile_mode mode, sr_band_work *w, sr_band_result *r, sr_error *err)
+{
+    int rc = SR_OK, fast = mode == SR_PROFILE_FAST;
     for (size_t k = 0; k < bc->nstages && !rc; k++) {
         sr_loads_state st[SR_LOADS_NSTATES];
         for (int e = 0; e < SR_BAND_NRUNS; e++) {
@@ -160,16 +178,35 @@ int sr_band_run_tracked(const sr_band_ctx *bc, const sr_profile_perturb *design,
              * carries the candidate's typical drag area */
             st[e].cds0 /= bc->drag[e][k];
         }
-        rc = sr_loads_evaluate(&bc->lc[k], st, mode == SR_PROFILE_FAST, &r->loads[k], err);
+        loads_memo *mm = w ? &w->memo[k] : NULL;
+        if (mm && mm->valid && mm->fast == fast && memcmp(&mm->lc, &bc->lc[k], sizeof mm->lc) == 0 &&
+            memcmp(mm->st, st, sizeof st) == 0) {
+            r->loads[k] = mm->out;
+            continue;
+        }
+        rc = sr_loads_evaluate(&bc->lc[k], st, fast, &r->loads[k], err);
         if (rc && err) {
             char msg[sizeof err->msg];
             snprintf(msg, sizeof msg, "%s", err->msg);
             rc = sr_error_set(err, rc, "stage '%s': opening load: %s", bc->name[k], msg);
         }
+        if (mm) {
+            mm->valid = !rc;
+            mm->fast = fast;
+            memcpy(&mm->lc, &bc->lc[k], sizeof mm->lc);
+            memcpy(mm->st, st, sizeof st);
+            mm->out = r->loads[k];
+        }
     }
-    if (tmp.w)
-        sr_profile_work_free(tmp.w);
     return rc;
+}
+
+int sr_band_run_tracked(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode,
+                        sr_band_work *w, sr_band_result *r, sr_profile_track *const tracks[SR_BAND_NRUNS],
+                        sr_error *err)
+{
+    int rc = sr_band_descents(bc, design, mode, w, r, tracks, err);
+    return rc ? rc : sr_band_loads(bc, mode, w, r, err);
 }
 
 /* ---- a program's band results (include/sinkrate/analysis.h) ---- */

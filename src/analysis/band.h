@@ -60,6 +60,16 @@ int sr_band_run_tracked(const sr_band_ctx *bc, const sr_profile_perturb *design,
                         sr_band_work *w, sr_band_result *r, sr_profile_track *const tracks[SR_BAND_NRUNS],
                         sr_error *err);
 
+/* The two halves of sr_band_run: the three descents only (every stage's
+ * loads marked not valid, so the judge leaves the opening loads out), and
+ * then the opening loads from those descents. A search that needs only the
+ * landing to decide runs the first alone. With a workspace, loads whose
+ * states at line stretch are bit for bit those of the workspace's last run of
+ * the same context are taken from it, not solved again (the same numbers). */
+int sr_band_descents(const sr_band_ctx *bc, const sr_profile_perturb *design, sr_profile_mode mode,
+                     sr_band_work *w, sr_band_result *r, sr_profile_track *const tracks[SR_BAND_NRUNS], sr_error *err);
+int sr_band_loads(const sr_band_ctx *bc, sr_profile_mode mode, sr_band_work *w, sr_band_result *r, sr_error *err);
+
 /* The state at line stretch of stage k in one run of a profile context (for
  * sr_loads_evaluate); valid = 0 when it did not deploy. The drag area is the
  * run's own (a band-end run's includes its band factor). */

@@ -18,7 +18,7 @@
 
 const sr_command *const sr_cli_commands[] = {&sr_cmd_size,       &sr_cmd_rate,     &sr_cmd_sweep,    &sr_cmd_profile,
                                          &sr_cmd_loads,      &sr_cmd_freefall, &sr_cmd_dispersion, &sr_cmd_air,
-                                         &sr_cmd_canopies,   &sr_cmd_check,    &sr_cmd_fit,      NULL};
+                                         &sr_cmd_canopies,   &sr_cmd_check,    &sr_cmd_fit,      &sr_cmd_design, NULL};
 
 #define NCOMMANDS (sizeof sr_cli_commands / sizeof sr_cli_commands[0] - 1)
 

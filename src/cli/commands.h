@@ -8,7 +8,7 @@
 #include "cli/options.h"
 
 extern const sr_command sr_cmd_size, sr_cmd_rate, sr_cmd_sweep, sr_cmd_profile, sr_cmd_loads, sr_cmd_freefall,
-    sr_cmd_dispersion, sr_cmd_air, sr_cmd_canopies, sr_cmd_check, sr_cmd_fit;
+    sr_cmd_dispersion, sr_cmd_air, sr_cmd_canopies, sr_cmd_check, sr_cmd_fit, sr_cmd_design;
 
 /* Every command, in the order of `sinkrate --help`, NULL-terminated (cli.c). */
 extern const sr_command *const sr_cli_commands[];

@@ -12,7 +12,7 @@
 #define PI 3.14159265358979323846
 
 static const char *const TOP_KEYS[] = {"mission", "description", "site",          "sections",    "stages",
-                                       "start",   "limits",      "failure-cases", "uncertainty", NULL};
+                                       "start",   "limits",      "failure-cases", "uncertainty", "design", NULL};
 static const char *const TOP_REQ[] = {"mission", "sections", "stages", NULL};
 static const char *const SITE_KEYS[] = {"elevation", "temperature", "pressure", "sounding", "wind", "latitude",
                                         "longitude", NULL};
@@ -820,6 +820,24 @@ static int parse_uncertainty(sr_mission *m, sr_yaml *y, yaml_node_t *n, sr_error
     return sr_mission_uncertainty_parse(&m->unc, y, n, &b, err);
 }
 
+_Static_assert(SR_DESIGN_MAX_STAGES == SR_MISSION_MAX_STAGES, "one design slot per mission stage");
+
+void sr_mission_design_basis(const sr_mission *m, sr_design_basis *b)
+{
+    memset(b, 0, sizeof *b);
+    b->nstages = m->nstages;
+    for (size_t k = 0; k < m->nstages && k < SR_DESIGN_MAX_STAGES; k++) {
+        const sr_stage *st = &m->stages[k];
+        b->stage[k] = (sr_design_basis_stage){.name = st->name,
+                                              .deploy = st->deploy,
+                                              .canopy_file = st->file[0] != '\0',
+                                              .measured_load = st->canopy.opening == SR_OPENING_MEASURED_LOAD,
+                                              .has_size = st->has_size};
+    }
+    b->has_start = m->has_start;
+    b->start_height = m->start_height;
+}
+
 int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err)
 {
     int rc, acc = SR_OK;
@@ -880,18 +898,53 @@ int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error 
         SR_YAML_STEP(parse_failures(m, y, fc, err));
     if (stages_ok || !acc)
         SR_YAML_STEP(parse_uncertainty(m, y, sr_yaml_get(y, root, "uncertainty"), err));
+    if (stages_ok) {
+        sr_design_basis db;
+        sr_mission_design_basis(m, &db);
+        SR_YAML_STEP(sr_mission_parse_design(&m->design, y, sr_yaml_get(y, root, "design"), &db, cat, err));
+    }
     return acc;
 }
 
-int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err)
+static void mission_init(sr_mission *m, const char *path)
 {
     memset(m, 0, sizeof *m);
     sr_atmos_init_standard(&m->atmos);
     sr_wind_init_calm(&m->wind);
     m->limit_speed = m->limit_energy = m->limit_time = m->limit_drift = m->limit_deploy_q = NAN;
+    sr_design_spec_init(&m->design);
     snprintf(m->path, sizeof m->path, "%s", path);
+}
+
+int sr_mission_load_doc(sr_mission *m, const char *path, const sr_catalog *cat, sr_yaml *y, sr_error *err)
+{
+    mission_init(m, path);
+    int rc = sr_yaml_load_file(y, path, err);
+    if (rc)
+        return rc;
+    rc = sr_mission_parse(m, y, cat, err);
+    if (rc) {
+        sr_yaml_free(y);
+        sr_mission_release(m);
+    }
+    return rc;
+}
+
+int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err)
+{
     sr_yaml y;
-    int rc = sr_yaml_load_file(&y, path, err);
+    int rc = sr_mission_load_doc(m, path, cat, &y, err);
+    if (!rc)
+        sr_yaml_free(&y);
+    return rc;
+}
+
+int sr_mission_load_text(sr_mission *m, const char *path, const char *text, size_t len, const sr_catalog *cat,
+                         sr_error *err)
+{
+    mission_init(m, path);
+    sr_yaml y;
+    int rc = sr_yaml_load_string(&y, path, text, len, err);
     if (rc)
         return rc;
     rc = sr_mission_parse(m, &y, cat, err);

@@ -17,6 +17,7 @@
 #include "physics/wind.h"
 #include "physics/uncertainty.h"
 #include "sinkrate/files.h"
+#include "files/mission_design.h"
 
 /* the engine's bounds (physics/descent_spec.h): sections, stages, names;
  * sr_deploy_kind (`apogee` or `release`, `altitude`, `delay`) and
@@ -104,11 +105,22 @@ typedef struct sr_mission {
     size_t nfailures;        /* failure-cases: */
     sr_failure_case failures[SR_MISSION_MAX_FAILURES];
     sr_uncertainty unc;      /* what a dispersion run varies (mission_uncertainty.c) */
+    sr_design_spec design;   /* what the design search varies (`design:`, mission_design.c) */
 } sr_mission;
 
 /* Load and validate; relative file names inside (sounding, canopy files) are
  * taken relative to the mission file. Release with sr_mission_release. */
 int sr_mission_load(sr_mission *m, const char *path, const sr_catalog *cat, sr_error *err);
+/* The same, keeping the YAML document in *y for the caller (who frees it with
+ * sr_yaml_free; on failure nothing is kept). */
+int sr_mission_load_doc(sr_mission *m, const char *path, const sr_catalog *cat, sr_yaml *y, sr_error *err);
+/* A mission from text, as if read from the file `path` (its messages name it
+ * and relative file names inside are taken relative to it). */
+int sr_mission_load_text(sr_mission *m, const char *path, const char *text, size_t len, const sr_catalog *cat,
+                         sr_error *err);
+/* The stages a design: block or design's options are read against. */
+void sr_mission_design_basis(const sr_mission *m, sr_design_basis *b);
+
 int sr_mission_parse(sr_mission *m, sr_yaml *y, const sr_catalog *cat, sr_error *err);
 void sr_mission_release(sr_mission *m);
 

@@ -8,6 +8,7 @@
 #include "physics/bluff.h"
 #include "physics/canopy.h"
 #include "physics/opening.h"
+#include "physics/packing.h"
 
 #define K91 "Knacke 1991, NWC TP 6575"
 
@@ -49,10 +50,25 @@ static const sr_provenance MODELS[] = {
      "Hoerner 1965, Fluid-Dynamic Drag, the chapter on tumbling and autorotating bodies (section not verified); "
      "drop tests of tumbling cylinders"},
     {"disk-drag", "drag coefficient of a thin disk normal to the flow",
-     "Hoerner 1965, Fluid-Dynamic Drag, p. 3-17: 1.17 (from memory)",
-     "published: Roos & Willmarth 1971, AIAA J. 9:285, measured 1.16 and 1.17 at Re 5e4 and 6e4 (tests/test_bluff.c); "
-     "at Re 1e3 the measured 1.07-1.11 lies 5-9% below the model",
-     "Roos & Willmarth 1971, the full disk data between Re 1e3 and 1e4"},
+     "Roos & Willmarth 1971, AIAA J. 9:285: the lower envelope of the measured Cd (1.07 at Re 1e3, 1.16 from "
+     "5e4), log-log between; Hoerner 1965, p. 3-17: 1.17 at high Re (from memory)",
+     "published: Roos & Willmarth 1971 measured 1.07-1.11 at Re 1e3, 1.19-1.28 at 1.2e4-3.8e4, 1.16 and 1.17 at 5e4 "
+     "and 6e4: the curve lies at or below each (tests/test_bluff.c); it errs to the faster fall",
+     "Roos & Willmarth 1971, the full disk data between Re 1e3 and 1e4; disk data above Re 6e4"},
+    {"pack-density-hand", "packing density of a canopy packed by hand (packed volume, `design`)",
+     K91 ", ch. 6 packing section: about 20-30 lb/ft3 (from memory); typical the middle (our choice)", "none",
+     K91 ", ch. 6, the pack-density figures (page not verified)"},
+    {"pack-density-machine", "packing density of a machine or pressure pack (packed volume, `design`)",
+     K91 ", ch. 6 packing section: about 35-45 lb/ft3 for machine and pressure packs alike (from memory); "
+         "typical the middle (our choice)",
+     "none", K91 ", ch. 6, the pack-density figures (page not verified)"},
+    {"cloth-areal-mass", "areal mass of the canopy cloth when neither canopy nor family gives one",
+     "light ripstop nylon, 1.1 oz/yd2 uncoated (about 37 g/m2) to about 50 g/m2 coated: common practice, from "
+     "memory; slotted canopies of tapes weigh more",
+     "none", "a parachute-cloth specification (the 1.1 oz/yd2 ripstop grade; number not verified); weighed canopies"},
+    {"line-mass-factor", "mass of a canopy with its suspension lines over its cloth",
+     "about 1.3-1.6 x the cloth for small canopies (from memory, low confidence)", "none",
+     "weighed canopies of known size and cloth; " K91 ", ch. 6 weight estimates (page not verified)"},
 };
 
 #define NMODELS (sizeof MODELS / sizeof MODELS[0])
@@ -103,12 +119,13 @@ void sr_provenance_value(const sr_provenance *p, char *buf, size_t len)
                  sr_canopy_cluster_factor(3), sr_canopy_cluster_factor(4));
     else if (strcmp(id, "disk-drag") == 0) {
         sr_bluff_curve k;
-        double cd = 0.0;
+        double cd = 0.0, lo = 0.0;
         if (sr_bluff_curve_init(&k, SR_CURVE_DISK, NULL) == SR_OK) {
+            lo = sr_bluff_curve_cd(&k, 1e3, NULL);
             cd = sr_bluff_curve_cd(&k, 1e5, NULL);
             sr_bluff_curve_free(&k);
         }
-        snprintf(buf, len, "Cd = %.3g on the frontal area", cd);
+        snprintf(buf, len, "Cd = %.3g at Re 1e3 to %.3g from Re 5e4 on the frontal area", lo, cd);
     } else if (strcmp(id, "x1-envelope") == 0)
         snprintf(buf, len, "max of the n = 1 and n = 2 curves at each R_m");
     else if (strcmp(id, "pflanz-closed-form") == 0)
@@ -117,7 +134,16 @@ void sr_provenance_value(const sr_provenance *p, char *buf, size_t len)
         snprintf(buf, len, "CX per family (catalog)");
     else if (strcmp(id, "filling-time-law") == 0)
         snprintf(buf, len, "n per family (catalog)");
-    else if (strcmp(id, "tumbling-drag") == 0)
+    else if (strcmp(id, "pack-density-hand") == 0 || strcmp(id, "pack-density-machine") == 0) {
+        sr_band d = sr_pack_density(strcmp(id, "pack-density-hand") == 0 ? SR_PACK_HAND : SR_PACK_MACHINE);
+        snprintf(buf, len, "%.0f / %.0f / %.0f kg/m3", d.lo, d.typ, d.hi);
+    } else if (strcmp(id, "cloth-areal-mass") == 0) {
+        sr_band a = sr_pack_cloth();
+        snprintf(buf, len, "%.1f / %.1f / %.1f g/m2", 1e3 * a.lo, 1e3 * a.typ, 1e3 * a.hi);
+    } else if (strcmp(id, "line-mass-factor") == 0) {
+        sr_band k = sr_pack_line_factor();
+        snprintf(buf, len, "%.2f / %.2f / %.2f", k.lo, k.typ, k.hi);
+    } else if (strcmp(id, "tumbling-drag") == 0)
         snprintf(buf, len, "broadside Cd(Re) d L; tumbling 3 pi/16 of it plus 1/4 of the ends' 0.82 pi d^2/4; judged "
                            "at the worse");
     else

@@ -122,6 +122,17 @@ static const unit_def UNITS[] = {
     {SR_Q_ACCEL, "m/s^2", 1.0, 0},
     {SR_Q_ACCEL, "ft/s2", SR_FT, 0},
     {SR_Q_ACCEL, "g", SR_G0, 0},
+
+    {SR_Q_VOLUME, "m3", 1.0, 0},
+    {SR_Q_VOLUME, "m^3", 1.0, 0},
+    {SR_Q_VOLUME, "L", 1e-3, 0},
+    {SR_Q_VOLUME, "mL", 1e-6, 0},
+    {SR_Q_VOLUME, "cm3", 1e-6, 0},
+    {SR_Q_VOLUME, "cm^3", 1e-6, 0},
+    {SR_Q_VOLUME, "in3", SR_IN * SR_IN * SR_IN, 0},
+    {SR_Q_VOLUME, "in^3", SR_IN * SR_IN * SR_IN, 0},
+    {SR_Q_VOLUME, "ft3", SR_FT * SR_FT * SR_FT, 0},
+    {SR_Q_VOLUME, "ft^3", SR_FT * SR_FT * SR_FT, 0},
 };
 
 #define N_UNITS (sizeof UNITS / sizeof UNITS[0])
@@ -153,6 +164,7 @@ static const display_def DISPLAY[SR_Q_COUNT_] = {
     [SR_Q_ACCEL] = {"acceleration", "m/s2", "ft/s2", "m/s2, ft/s2, g"},
     [SR_Q_SIZE] = {"length", "m", "in", "m, cm, mm, km, ft, in"},
     [SR_Q_BEARING] = {"angle", "deg", "deg", "deg, rad"},
+    [SR_Q_VOLUME] = {"volume", "L", "in3", "m3, L, mL, cm3, in3, ft3"},
 };
 
 /* The quantity whose units a display-only quantity shares. */

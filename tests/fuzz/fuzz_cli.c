@@ -120,8 +120,30 @@ static int writes_files(const char *a)
  * are skipped (a fuzzing timeout would only say the work is large): a
  * dispersion runs here only with -n given, at most MAX_SAMPLES. */
 #define MAX_SAMPLES 500
+/* A design search is as long as its space: every family of the catalog for
+ * two stages is seconds, minutes under the sanitizers; such inputs (and a
+ * risk check above MAX_SAMPLES) are skipped too. */
+static int design_too_long(int argc, char **argv)
+{
+    for (int i = 2; i < argc && strcmp(argv[i], "--") != 0; i++) {
+        if (strstr(argv[i], "all") || strstr(argv[i], "class:") || strstr(argv[i], "--grid") ||
+            (strstr(argv[i], "..") && strchr(argv[i], '/')))
+            return 1;
+        if (strncmp(argv[i], "--risk-samples", 14) == 0) {
+            const char *n = argv[i][14] == '=' ? argv[i] + 15 : i + 1 < argc ? argv[i + 1] : "";
+            char *end;
+            double v = strtod(n, &end);
+            if (end != n && !(v <= MAX_SAMPLES))
+                return 1;
+        }
+    }
+    return 0;
+}
+
 static int too_long(int argc, char **argv)
 {
+    if (argc >= 2 && strcmp(argv[1], "design") == 0)
+        return design_too_long(argc, argv);
     if (argc < 2 || strcmp(argv[1], "dispersion") != 0)
         return 0;
     const char *n = NULL;
