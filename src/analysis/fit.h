@@ -100,6 +100,8 @@ typedef struct sr_fit_opening {
     double residual;         /* rms residual of the fit, N */
     double nsamples;         /* log rows over the fitted filling time */
     char unresolved[112];    /* why the fit is '-' ("" when resolved) */
+    sr_opening_input model;  /* the deployment the fit ran the ODE with (exponent: the fitted n) */
+    double offset;           /* the fit's constant offset c, N */
     double speed;            /* airspeed at the deployment (descent rate from the log), m/s */
     double q;                /* dynamic pressure at the deployment, Pa */
 } sr_fit_opening;
@@ -123,6 +125,11 @@ typedef struct sr_fit_opening {
  * says why and the fitted values are NaN. Errors only for bad arguments. */
 int sr_fit_opening_history(const double *t, const double *force, size_t n, double t_deploy,
                            const sr_opening_input *model, sr_fit_opening *o, sr_error *err);
+
+/* The fitted model of the measured force, k F_ode + q CdS_other + c, at
+ * non-decreasing times s[i] after the deployment (for the figure). Only for a
+ * resolved fit (o->exponent not NaN). */
+int sr_fit_opening_curve(const sr_fit_opening *o, const double *s, size_t n, double *force, sr_error *err);
 
 typedef struct sr_fit_stage {
     int fitted;

@@ -258,7 +258,28 @@ int sr_fit_opening_history(const double *t, const double *force, size_t n, doubl
     o->t_fill = tf;
     o->t_line = best[2] - t_deploy;
     o->olf = T.k;
+    o->model = T.in;
+    o->model.exponent = nexp;
+    o->offset = T.c;
     return SR_OK;
+}
+
+int sr_fit_opening_curve(const sr_fit_opening *o, const double *s, size_t n, double *force, sr_error *err)
+{
+    if (!(o->exponent > 0) || !s || !force || n == 0)
+        return sr_error_set(err, SR_EINVAL, "opening curve: no resolved fit");
+    double *rel = malloc(2 * n * sizeof *rel);
+    if (!rel)
+        return sr_error_set(err, SR_ENOMEM, "opening curve: out of memory");
+    double *v = rel + n;
+    for (size_t i = 0; i < n; i++)
+        rel[i] = s[i] - o->t_line;
+    int rc = sr_opening_trace_at(&o->model, o->t_fill, rel, n, force, v, err);
+    if (rc == SR_OK)
+        for (size_t i = 0; i < n; i++)
+            force[i] = o->olf * force[i] + 0.5 * o->model.rho * v[i] * v[i] * o->model.cds_other + o->offset;
+    free(rel);
+    return rc;
 }
 
 int sr_fit_find_opening(const sr_flightlog *log, const sr_fit_result *r, const sr_fit_stage_spec *sp, sr_fit_stage *st,
