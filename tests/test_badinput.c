@@ -771,6 +771,15 @@ static const bad_case BAD[] = {
      "nominal-diameter: {min: 1 m, max: 4 m}, deploy-height: {min: 150 m, max: 250 m}}}}\n",
      NULL, 0, "@IN@", "the search space is too large"},
     {{"design"}, NULL, NULL, 0, "design", "give a mission file"},
+    /* under --units us every length of a size or height range needs its unit */
+    {{DESIGN, "--units", "us", "--diameters", "main=30..60"}, PMISSION, NULL, 0, "--diameters",
+     "give a unit, e.g. 30in"},
+    {{DESIGN, "--units", "us", "--diameters", "main=30in,36,42in"}, PMISSION, NULL, 0, "--diameters",
+     "give a unit, e.g. 36in"},
+    {{DESIGN, "--units", "us", "--diameters", "main=30in..60in/6"}, PMISSION, NULL, 0, "--diameters",
+     "give a unit, e.g. 6in"},
+    {{DESIGN, "--units", "us", "--heights", "main=500..1000ft/10"}, HMISSION, NULL, 0, "--heights",
+     "give a unit, e.g. 500ft"},
     {{DESIGN}, NULL, NULL, 0, "@IN@", "cannot open"},
     /* ---- the verdict: limits keys, --limits-at, measured openings, attitudes, bands ---- */
     {{PROFILE}, PMISSION "limits: {rated-strength: 2 kN}\n", NULL, 0, "@IN@:10:10", "needs design-factor"},

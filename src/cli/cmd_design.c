@@ -155,25 +155,29 @@ static int stage_of(sr_cli *c, const sr_mission *m, const char *opt, const char 
     return sr_cli_fail(c, "%s: the mission has no stage '%s' (its stages: see `sinkrate profile`)", opt, name);
 }
 
-static int parse_share(sr_cli *c, const char *opt, const char *text, double *p)
+/* Under --units us every length of a size or height range needs its unit, as
+ * any other option's (a bare 30 would be 30 m, not 30 in). For heights the
+ * part after '/' is a number of points, not a length. */
+static int us_lengths_given(sr_cli *c, const char *opt, const char *text, int heights)
 {
-    char buf[64];
-    size_t len = strlen(text);
-    if (len == 0 || len >= sizeof buf)
-        return sr_cli_fail(c, "%s: '%s' is not a probability (0.01 or 1 %%)", opt, text);
-    memcpy(buf, text, len + 1);
-    double scale = 1.0;
-    while (len > 0 && buf[len - 1] == ' ')
-        buf[--len] = '\0';
-    if (len > 0 && buf[len - 1] == '%') {
-        buf[--len] = '\0';
-        scale = 0.01;
+    if (c->units != SR_UNITS_US)
+        return 0;
+    char buf[2048];
+    snprintf(buf, sizeof buf, "%s", text);
+    char *slash = strchr(buf, '/');
+    if (slash && heights)
+        *slash = '\0';
+    else if (slash)
+        *slash = ',';
+    for (char *p = strstr(buf, ".."); p; p = strstr(p, ".."))
+        p[0] = p[1] = ',';
+    char *save = NULL;
+    for (char *tok = strtok_r(buf, ",", &save); tok; tok = strtok_r(NULL, ",", &save)) {
+        double v;
+        int rc = sr_cli_quantity(c, opt, tok, SR_Q_LENGTH, 0, &v);
+        if (rc)
+            return rc;
     }
-    double v;
-    sr_error e;
-    if (sr_units_parse(buf, SR_Q_NONE, &v, &e) || !(v * scale >= 0.0 && v * scale <= 1.0))
-        return sr_cli_fail(c, "%s: '%s' is not a probability from 0 to 1 (or 0 %% to 100 %%)", opt, text);
-    *p = v * scale;
     return 0;
 }
 
@@ -207,6 +211,8 @@ static int apply_options(sr_cli *c, const design_opts *o, sr_mission *m, const s
             touched |= 1u << k;
             *given = 1;
             sr_design_stage *s = &d->stage[k];
+            if ((A[a].kind == 1 || A[a].kind == 2) && (rc = us_lengths_given(c, A[a].opt, v, A[a].kind == 2)))
+                return rc;
             switch (A[a].kind) {
             case 0: rc = sr_design_set_families(s, &b, k, cat, v, A[a].opt, &e); break;
             case 1: rc = sr_design_set_sizes(s, &b, k, v, A[a].opt, &e); break;
@@ -298,6 +304,28 @@ static void limit_text(const sr_cli *c, const sr_mission *m, const sr_design_com
     }
 }
 
+/* The columns that name a design: each stage's canopy, nominal diameter and,
+ * where it varies, deployment height. */
+static void design_columns(sr_rtable *t, const sr_mission *m)
+{
+    char key[96], label[96];
+    for (size_t k = 0; k < m->nstages; k++) {
+        key_of(key, sizeof key, m->stages[k].name, "canopy");
+        sr_rtable_text_column(t, key, m->stages[k].name);
+    }
+    for (size_t k = 0; k < m->nstages; k++) {
+        key_of(key, sizeof key, m->stages[k].name, "nominal_diameter");
+        snprintf(label, sizeof label, "D0 %s", m->stages[k].name);
+        sr_rtable_column(t, key, label, SR_Q_SIZE, 4);
+    }
+    for (size_t k = 0; k < m->nstages; k++)
+        if (m->design.stage[k].height) {
+            key_of(key, sizeof key, m->stages[k].name, "deploy_height");
+            snprintf(label, sizeof label, "%s at", m->stages[k].name);
+            sr_rtable_column(t, key, label, SR_Q_LENGTH, SR_FIXED(0));
+        }
+}
+
 static void report_search(sr_report *r, const sr_cli *c, const sr_mission *m, const sr_design_result *res,
                           int defaults)
 {
@@ -366,22 +394,7 @@ static void report_designs(sr_report *r, const sr_cli *c, const sr_mission *m, c
                                                                        : "Designs that meet every limit, lightest "
                                                                          "first (the best of each combination)");
     sr_rtable_column(t, "rank", "rank", SR_Q_NONE, SR_FIXED(0));
-    char key[96], label[96];
-    for (size_t k = 0; k < m->nstages; k++) {
-        key_of(key, sizeof key, m->stages[k].name, "canopy");
-        sr_rtable_text_column(t, key, m->stages[k].name);
-    }
-    for (size_t k = 0; k < m->nstages; k++) {
-        key_of(key, sizeof key, m->stages[k].name, "nominal_diameter");
-        snprintf(label, sizeof label, "D0 %s", m->stages[k].name);
-        sr_rtable_column(t, key, label, SR_Q_SIZE, 4);
-    }
-    for (size_t k = 0; k < m->nstages; k++)
-        if (any_height[k]) {
-            key_of(key, sizeof key, m->stages[k].name, "deploy_height");
-            snprintf(label, sizeof label, "%s at", m->stages[k].name);
-            sr_rtable_column(t, key, label, SR_Q_LENGTH, SR_FIXED(0));
-        }
+    design_columns(t, m);
     sr_rtable_column(t, "recovery_mass", "mass", SR_Q_MASS, 3);
     sr_rtable_column(t, "packed_volume", "packed", SR_Q_VOLUME, 3);
     sr_rtable_column(t, "touchdown_speed", "touchdown", SR_Q_SPEED, 3);
@@ -564,22 +577,7 @@ static void report_pareto(sr_report *r, const sr_cli *c, const sr_mission *m, co
     static const sr_quantity Q[SR_DQ_N] = {SR_Q_SPEED, SR_Q_LENGTH, SR_Q_MASS, SR_Q_VOLUME, SR_Q_TIME};
     sr_rtable_column(t, sr_design_quantity_name(qx), sr_design_quantity_name(qx), Q[qx], 4);
     sr_rtable_column(t, sr_design_quantity_name(qy), sr_design_quantity_name(qy), Q[qy], 4);
-    char key[96], label[96];
-    for (size_t k = 0; k < m->nstages; k++) {
-        key_of(key, sizeof key, m->stages[k].name, "canopy");
-        sr_rtable_text_column(t, key, m->stages[k].name);
-    }
-    for (size_t k = 0; k < m->nstages; k++) {
-        key_of(key, sizeof key, m->stages[k].name, "nominal_diameter");
-        snprintf(label, sizeof label, "D0 %s", m->stages[k].name);
-        sr_rtable_column(t, key, label, SR_Q_SIZE, 4);
-    }
-    for (size_t k = 0; k < m->nstages; k++)
-        if (m->design.stage[k].height) {
-            key_of(key, sizeof key, m->stages[k].name, "deploy_height");
-            snprintf(label, sizeof label, "%s at", m->stages[k].name);
-            sr_rtable_column(t, key, label, SR_Q_LENGTH, SR_FIXED(0));
-        }
+    design_columns(t, m);
     sr_rtable_column(t, "recovery_mass", "mass", SR_Q_MASS, 3);
     for (size_t i = 0; i < res->npareto; i++) {
         const sr_design_point *p = &res->pareto[i];
@@ -771,7 +769,7 @@ static int run_design(sr_cli *c, int argc, char **argv)
         return rc;
     if ((o.risk_designs || o.max_risk) && !o.risk_samples)
         return sr_cli_fail(c, "%s: goes with --risk-samples N", o.risk_designs ? "--risk-designs" : "--max-risk");
-    if (o.max_risk && (rc = parse_share(c, "--max-risk", o.max_risk, &max_risk)))
+    if (o.max_risk && (rc = sr_cli_share(c, "--max-risk", o.max_risk, &max_risk)))
         return rc;
     sr_design_opts dopt;
     sr_design_opts_init(&dopt);

@@ -100,30 +100,6 @@ static int parse_count(sr_cli *c, const char *text, size_t *n)
     return 0;
 }
 
-static int parse_share(sr_cli *c, const char *text, double *p)
-{
-    char buf[64];
-    size_t len = strlen(text);
-    if (len == 0 || len >= sizeof buf)
-        return sr_cli_fail(c, "--max-risk: '%s' is not a probability (0.01 or 1 %%)", text);
-    memcpy(buf, text, len + 1);
-    double scale = 1.0;
-    while (len > 0 && buf[len - 1] == ' ')
-        buf[--len] = '\0';
-    if (len > 0 && buf[len - 1] == '%') {
-        buf[--len] = '\0';
-        scale = 0.01;
-    }
-    char *end;
-    double v = strtod(buf, &end);
-    while (*end == ' ')
-        end++;
-    if (end == buf || *end || !(v * scale >= 0.0 && v * scale <= 1.0))
-        return sr_cli_fail(c, "--max-risk: '%s' is not a probability from 0 to 1 (or 0 %% to 100 %%)", text);
-    *p = v * scale;
-    return 0;
-}
-
 /* ---- describing the uncertainty ---- */
 
 static void describe(char *buf, size_t len, const sr_dist *d, sr_quantity q, int scale, sr_unit_system sys)
@@ -680,7 +656,7 @@ static int run_dispersion(sr_cli *c, int argc, char **argv)
     double risk = DEFAULT_RISK;
     if (o.n && (rc = parse_count(c, o.n, &n)))
         return rc;
-    if (o.risk && (rc = parse_share(c, o.risk, &risk)))
+    if (o.risk && (rc = sr_cli_share(c, "--max-risk", o.risk, &risk)))
         return rc;
     if (o.samples && (rc = sr_cli_output(c, "--samples", o.samples)))
         return rc;

@@ -272,6 +272,29 @@ int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q,
     return 0;
 }
 
+/* A share of samples: "0.01" or "1 %". */
+int sr_cli_share(sr_cli *c, const char *opt, const char *text, double *p)
+{
+    char buf[64];
+    size_t len = strlen(text);
+    if (len == 0 || len >= sizeof buf)
+        return sr_cli_fail(c, "%s: '%s' is not a probability (0.01 or 1 %%)", opt, text);
+    memcpy(buf, text, len + 1);
+    double scale = 1.0;
+    while (len > 0 && buf[len - 1] == ' ')
+        buf[--len] = '\0';
+    if (len > 0 && buf[len - 1] == '%') {
+        buf[--len] = '\0';
+        scale = 0.01;
+    }
+    double v;
+    sr_error e;
+    if (sr_units_parse(buf, SR_Q_NONE, &v, &e) || !(v * scale >= 0.0 && v * scale <= 1.0))
+        return sr_cli_fail(c, "%s: '%s' is not a probability from 0 to 1 (or 0 %% to 100 %%)", opt, text);
+    *p = v * scale;
+    return 0;
+}
+
 int sr_cli_quantity_list(sr_cli *c, const char *opt, const char *text, sr_quantity q, double *out, size_t max,
                          size_t *n)
 {

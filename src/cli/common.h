@@ -60,6 +60,10 @@ int sr_cli_quantity(sr_cli *c, const char *opt, const char *text, sr_quantity q,
 /* A comma-separated list of quantities, at most max. */
 int sr_cli_quantity_list(sr_cli *c, const char *opt, const char *text, sr_quantity q, double *out, size_t max,
                          size_t *n);
+/* A probability for opt: a number from 0 to 1, or a percentage ("1 %");
+ * 0 or an exit code (one line naming opt). */
+int sr_cli_share(sr_cli *c, const char *opt, const char *text, double *p);
+
 int sr_cli_count(sr_cli *c, const char *opt, const char *text, long lo, long hi, long *out);
 /* The mass a command works with: --mass (text, NULL when not given) replaces
  * *mass (a mission's total, or NaN). Missing is an error that says what the

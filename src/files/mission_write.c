@@ -132,6 +132,20 @@ static void emit_path(writer *w, const yaml_node_t *v)
     emit_scalar(w, realpath(rel, abs) ? abs : rel);
 }
 
+/* A mapping copied as it is but for the file name under path_key. */
+static void emit_map_path(writer *w, const yaml_node_t *map, const char *path_key)
+{
+    begin(w, 1, flow_of(map));
+    for (yaml_node_pair_t *q = map->data.mapping.pairs.start; q < map->data.mapping.pairs.top; q++) {
+        copy(w, node(w, q->key));
+        if (is_key(node(w, q->key), path_key))
+            emit_path(w, node(w, q->value));
+        else
+            copy(w, node(w, q->value));
+    }
+    end(w, 1);
+}
+
 static int stage_index(const writer *w, const char *name)
 {
     for (size_t k = 0; name && k < w->m->nstages; k++)
@@ -284,15 +298,7 @@ static void emit_site(writer *w, const yaml_node_t *n)
         if (is_key(key, "sounding")) {
             emit_path(w, val);
         } else if (is_key(key, "wind") && val->type == YAML_MAPPING_NODE) {
-            begin(w, 1, flow_of(val));
-            for (yaml_node_pair_t *q = val->data.mapping.pairs.start; q < val->data.mapping.pairs.top; q++) {
-                copy(w, node(w, q->key));
-                if (is_key(node(w, q->key), "file"))
-                    emit_path(w, node(w, q->value));
-                else
-                    copy(w, node(w, q->value));
-            }
-            end(w, 1);
+            emit_map_path(w, val, "file");
         } else {
             copy(w, val);
         }
@@ -319,15 +325,7 @@ static void emit_sections(writer *w, const yaml_node_t *n)
             const yaml_node_t *key = node(w, p->key), *val = node(w, p->value);
             copy(w, key);
             if (is_key(key, "body") && val->type == YAML_MAPPING_NODE) {
-                begin(w, 1, flow_of(val));
-                for (yaml_node_pair_t *q = val->data.mapping.pairs.start; q < val->data.mapping.pairs.top; q++) {
-                    copy(w, node(w, q->key));
-                    if (is_key(node(w, q->key), "cd-table"))
-                        emit_path(w, node(w, q->value));
-                    else
-                        copy(w, node(w, q->value));
-                }
-                end(w, 1);
+                emit_map_path(w, val, "cd-table");
             } else {
                 copy(w, val);
             }
