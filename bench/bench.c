@@ -651,6 +651,52 @@ static void bench_fit(void)
                best * 1e3);
 }
 
+/* The opening fit of one deployment (sr_fit_opening_history): a 100 Hz,
+ * 7 s force history made by the opening model itself (speed only, not a
+ * check), best of 5; as a multiple of one adaptive opening solve. */
+static void bench_opening_fit(double t_solve)
+{
+    enum { N = 701 };
+    double t[N], f[N], rel[N];
+    sr_opening_input in;
+    sr_opening_input_init(&in);
+    in.cds0 = 1.5;
+    in.d0 = 1.55;
+    in.mass = 5.0;
+    in.v1 = 33.0;
+    in.rho = 1.1;
+    in.a = 340;
+    in.n_fill = 4;
+    in.cx = 1;
+    in.cds_other = 0.08;
+    for (int i = 0; i < N; i++) {
+        t[i] = -2.0 + i / 100.0;
+        rel[i] = t[i] - 0.37;
+    }
+    sr_error e;
+    if (sr_opening_trace_at(&in, 0.8, rel, N, f, NULL, &e) != SR_OK) {
+        printf("opening fit: %s\n", e.msg);
+        return;
+    }
+    for (int i = 0; i < N; i++)
+        f[i] += 0.5 * in.rho * 33.0 * 33.0 * in.cds_other * (rel[i] <= 0);
+    double best = 1e9;
+    for (int rep = 0; rep < 5; rep++) {
+        double t0 = now();
+        sr_fit_opening o;
+        if (sr_fit_opening_history(t, f, N, 0.17, &in, &o, &e) != SR_OK) {
+            printf("opening fit: %s\n", e.msg);
+            return;
+        }
+        sink = o.exponent;
+        double dt = now() - t0;
+        if (dt < best)
+            best = dt;
+    }
+    printf("opening fit, 100 Hz, 7 s history        %7.1f ms       = %.0fx one opening solve (goal <= 100 ms)\n\n",
+           best * 1e3, best / t_solve);
+}
+
 int main(int argc, char **argv)
 {
     const char *bin = argc > 1 ? argv[1] : "build/sinkrate";
@@ -703,6 +749,7 @@ int main(int argc, char **argv)
     bench_band();
     bench_design();
     bench_fit();
+    bench_opening_fit(t_open);
     bench_dispersion();
     /* sweep: 100 000 altitude rows (0 .. 49 999.5 m by 0.5 m) as CSV to /dev/null */
     double t_row = per_sweep_row();

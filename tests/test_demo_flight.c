@@ -81,7 +81,6 @@ static char *make_log(size_t *len_out)
                             "# along the axis; GPS positions from the launch point.\n"
                             "time [s],height [m],acceleration [g],east [m],north [m]\n");
     size_t i = 0, k = 0;
-    double pe = 0, pn = 0, pu = 0, ve0 = 0, vn0 = 0, vu0 = 0;
     double t_drop = PAD_S + ta + 0.45 * t_main;
     for (double t = 0; t < tend; t = (double)(++i) / HZ) {
         double h, east = 0, north = 0, f = 0;
@@ -106,20 +105,10 @@ static char *make_log(size_t *len_out)
                 h = a->h + u * (c->h - a->h);
                 east = a->east + u * (c->east - a->east);
                 north = a->north + u * (c->north - a->north);
-                /* specific force = acceleration - gravity, from the motion at the log's rate */
-                double ve = (east - pe) * HZ, vn = (north - pn) * HZ, vu = (h - pu) * HZ;
-                if (s > 1.0 / HZ) {
-                    double ae = (ve - ve0) * HZ, an = (vn - vn0) * HZ, au = (vu - vu0) * HZ + g;
-                    f = sqrt(ae * ae + an * an + au * au);
-                }
-                ve0 = ve;
-                vn0 = vn;
-                vu0 = vu;
+                /* the specific force the engine computes along the track (drag / mass), between its points */
+                f = a->accel + u * (c->accel - a->accel);
             }
         }
-        pe = east;
-        pn = north;
-        pu = h;
         sr_air air;
         sr_atmos_at(&m->atmos, m->ground + fmax(h, 0.0), &air, NULL);
         double reading = std_geopotential_of(air.p) - Hpad + gsl_ran_gaussian(r, 1.2);

@@ -8,6 +8,7 @@
 #include "testutil.h"
 
 #include <gsl/gsl_errno.h>
+#include <gsl/gsl_odeiv2.h>
 #include <gsl/gsl_randist.h>
 #include <gsl/gsl_rng.h>
 #include <math.h>
@@ -21,9 +22,11 @@
 #include "files/flightlog.h"
 #include "files/mission.h"
 #include "physics/atmos.h"
+#include "physics/opening.h"
 #include "physics/profile.h"
 
 #define G0 9.80665
+#define PI 3.14159265358979323846
 #define SRC_CLOSED                                                                                                \
     "closed form of the steady descent in an isothermal layer, rho = rho0 exp(-z/Hs), constant g: z(t) = -2 Hs "   \
     "ln(exp(-z0/2Hs) + v0 t/2Hs) (Knacke 1991 sec. 4.5 steady rate v = sqrt(2W/(CdS rho)), integrated in closed "  \
@@ -496,6 +499,113 @@ static void test_cli_not_determined(void **state)
     free(err);
 }
 
+/* ---- the opening fitted to a force history ---- */
+
+#define SRC_PFLANZ                                                                                                \
+    "Pflanz/Knacke growth model m dv/dt = m g - q (CdS_o + CdS (t/t_f)^n), force CX q CdS (t/t_f)^n, integrated " \
+    "in the test (GSL rk8pd)"
+
+/* one synthetic opening, vertical: a drogue of drag area so (0: none) open before and after */
+typedef struct opening_case {
+    const char *what;
+    double hz, n, tf, cx;      /* log rate, growth exponent, filling time, force scale */
+    double m, cds, so, v1;     /* kg, m2, m2, m/s (v1 NaN: the drogue's steady rate) */
+    double noise;              /* specific-force noise, m/s2 (one standard deviation) */
+    double tol_n, tol_tf, tol_ls; /* accepted errors of n, t_f (relative) and line stretch (s); 0: '-' expected */
+} opening_case;
+
+typedef struct synth_open {
+    double m, cds, so, rho, tf, n;
+} synth_open;
+
+static int synth_open_rhs(double t, const double y[], double dydt[], void *params)
+{
+    const synth_open *p = params;
+    double tau = t <= 0 ? 0 : t >= p->tf ? 1 : t / p->tf;
+    dydt[0] = G0 - 0.5 * p->rho * y[0] * y[0] * (p->so + p->cds * pow(tau, p->n)) / p->m;
+    return GSL_SUCCESS;
+}
+
+static void run_opening_case(const opening_case *c, unsigned seed)
+{
+    const double rho = 1.1, tls = 0.37, t0 = -2.0, t1 = 5.0;
+    synth_open P = {c->m, c->cds, c->so, rho, c->tf, c->n};
+    double v1 = isnan(c->v1) ? sqrt(2 * c->m * G0 / (rho * c->so)) : c->v1;
+    size_t n = (size_t)((t1 - t0) * c->hz) + 1;
+    double *t = malloc(n * sizeof *t), *f = malloc(n * sizeof *f);
+    gsl_odeiv2_system sys = {synth_open_rhs, NULL, 1, &P};
+    gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd, 1e-4, 1e-10, 1e-10);
+    gsl_rng *r = gsl_rng_alloc(sr_rng_splitmix64);
+    sr_rng_seek(r, sr_rng_key(seed, 0, 0));
+    double y[1] = {v1}, s = 0; /* s: time after line stretch */
+    for (size_t i = 0; i < n; i++) {
+        t[i] = t0 + (double)i / c->hz;
+        double si = t[i] - tls;
+        if (si > 0) {
+            if (s < c->tf && si > c->tf)
+                assert_int_equal(gsl_odeiv2_driver_apply(d, &s, c->tf, y), GSL_SUCCESS);
+            assert_int_equal(gsl_odeiv2_driver_apply(d, &s, si, y), GSL_SUCCESS);
+        }
+        double tau = si <= 0 ? 0 : si >= c->tf ? 1 : si / c->tf;
+        double q = 0.5 * rho * y[0] * y[0];
+        f[i] = q * (c->so + c->cx * c->cds * pow(tau, c->n)) + c->m * gsl_ran_gaussian(r, c->noise);
+    }
+    gsl_odeiv2_driver_free(d);
+    gsl_rng_free(r);
+    sr_opening_input in;
+    sr_opening_input_init(&in);
+    in.cds0 = c->cds;
+    in.d0 = sqrt(4 * c->cds / (PI * 0.8));
+    in.mass = c->m;
+    in.v1 = v1;
+    in.rho = rho;
+    in.a = 340;
+    in.g = G0;
+    in.cds_other = c->so;
+    sr_fit_opening o;
+    sr_error e;
+    /* the deployment as a log would place it: 0.2 s before line stretch */
+    assert_int_equal(sr_fit_opening_history(t, f, n, tls - 0.2, &in, &o, &e), SR_OK);
+    print_message("%s: n %.4g t_f %.4g line %.4g k %.4g rms %.3g N, %s\n", c->what, o.exponent, o.t_fill,
+                  o.t_line, o.olf, o.residual, o.unresolved);
+    assert_int_equal(o.measured, 1);
+    if (c->tol_n > 0) {
+        char q[160];
+        snprintf(q, sizeof q, "opening growth exponent n, %s", c->what);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_PFLANZ, c->n, o.exponent, c->tol_n);
+        snprintf(q, sizeof q, "opening filling time t_f, %s", c->what);
+        CHECK_REL_CLASS(SR_CHECK_METHOD, q, SRC_PFLANZ, c->tf, o.t_fill, c->tol_tf);
+        snprintf(q, sizeof q, "opening line stretch after the deployment, %s", c->what);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_PFLANZ, 0.2, o.t_line, c->tol_ls);
+        snprintf(q, sizeof q, "opening-load factor CX, %s", c->what);
+        CHECK_ABS_CLASS(SR_CHECK_METHOD, q, SRC_PFLANZ, c->cx, o.olf, c->tol_n);
+        assert_string_equal(o.unresolved, "");
+    } else {
+        assert_true(isnan(o.exponent) && isnan(o.t_fill) && isnan(o.olf));
+        assert_non_null(strstr(o.unresolved, "rate too low"));
+    }
+    free(t);
+    free(f);
+}
+
+static void test_opening_fit(void **state)
+{
+    (void)state;
+    /* noise 0.15 m/s2 as the demo log's accelerometer; tolerances: the model is exact, so they stand for
+     * the noise and the rate (about five times what the fit reaches on these seeds) */
+    static const opening_case C[] = {
+        {"100 Hz, solid cloth under a drogue (n 2, t_f 0.8 s)", 100, 2.0, 0.8, 1.0, 5.0, 1.5, 0.08, NAN, 0.15, 0.05,
+         0.02, 0.01},
+        {"100 Hz, slotted, finite mass (n 1, t_f 0.5 s, CX 1.3)", 100, 1.0, 0.5, 1.3, 2.0, 1.2, 0.0, 30.0, 0.15, 0.05,
+         0.02, 0.01},
+        {"20 Hz, solid cloth under a drogue (n 2, t_f 1.2 s)", 20, 2.0, 1.2, 1.0, 8.0, 3.0, 0.12, NAN, 0.15, 0.1,
+         0.03, 0.03},
+        {"10 Hz, a fast opening (t_f 0.4 s): rate too low", 10, 2.0, 0.4, 1.0, 5.0, 1.5, 0.08, NAN, 0.15, 0, 0, 0},
+    };
+    for (size_t i = 0; i < sizeof C / sizeof C[0]; i++)
+        run_opening_case(&C[i], 1400 + (unsigned)i);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -507,6 +617,7 @@ int main(void)
         cmocka_unit_test(test_cli_demo),
         cmocka_unit_test(test_cli_figures),
         cmocka_unit_test(test_cli_not_determined),
+        cmocka_unit_test(test_opening_fit),
     };
     return cmocka_run_group_tests_name("fit", tests, setup, NULL);
 }

@@ -371,6 +371,43 @@ static void test_trace(void **state)
     assert_true(fmax >= r.ode.force / in.cx * 0.99);
 }
 
+/* The trace at given times (what the opening fit calls) is the trace. */
+static void test_trace_at(void **state)
+{
+    (void)state;
+    sr_opening_input in;
+    sr_opening_result r;
+    sr_error e;
+    table_input(&in, 5, 2);
+    assert_int_equal(sr_opening_solve(&in, &r, &e), SR_OK);
+    enum { N = 41 };
+    double t[N], f[N], f2[N], v[N], tb[N + 2], fb[N + 2];
+    assert_int_equal(sr_opening_trace(&in, 0, N, t, f, &e), SR_OK);
+    assert_int_equal(sr_opening_trace_at(&in, r.t_fill, t, N, f2, v, &e), SR_OK);
+    double worst = 0;
+    for (int i = 0; i < N; i++)
+        worst = fmax(worst, fabs(f2[i] - f[i]) / r.drag_steady);
+    CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "trace at given times against the even trace, force / steady drag",
+                    SRC_FILL, 0.0, worst, 1e-12);
+    assert_true(v[0] == in.v1);
+    /* times before line stretch: the deployment state, no force */
+    tb[0] = -0.5, tb[1] = -0.1;
+    memcpy(tb + 2, t, sizeof t);
+    assert_int_equal(sr_opening_trace_at(&in, r.t_fill, tb, N + 2, fb, NULL, &e), SR_OK);
+    assert_true(fb[0] == 0 && fb[1] == 0 && fb[N + 1] == f2[N - 1]);
+    /* a drag area open besides the canopy slows the payload: a lower ODE peak */
+    sr_opening_result r2;
+    in.cds_other = 0.5 * in.cds0;
+    assert_int_equal(sr_opening_solve(&in, &r2, &e), SR_OK);
+    assert_true(r2.ode.force < r.ode.force);
+    in.cds_other = -1;
+    assert_int_equal(sr_opening_solve(&in, &r2, &e), SR_EINVAL);
+    assert_string_equal(sr_error_key(&e), "cds_other");
+    in.cds_other = 0;
+    tb[1] = -1.0;
+    assert_int_equal(sr_opening_trace_at(&in, r.t_fill, tb, N + 2, fb, NULL, &e), SR_EINVAL);
+}
+
 static void test_bad_input(void **state)
 {
     (void)state;
@@ -429,6 +466,7 @@ int main(void)
         cmocka_unit_test(test_steady_and_path_angle), cmocka_unit_test(test_atmosphere_and_mach),
         cmocka_unit_test(test_units),          cmocka_unit_test(test_cluster_and_design),
         cmocka_unit_test(test_class_exponents), cmocka_unit_test(test_trace),
+        cmocka_unit_test(test_trace_at),
         cmocka_unit_test(test_bad_input),
     };
     return cmocka_run_group_tests_name("opening", tests, NULL, NULL);

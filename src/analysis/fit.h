@@ -14,6 +14,7 @@
 #include "files/mission.h"
 #include "physics/atmos.h"
 #include "physics/canopy.h"
+#include "physics/opening.h"
 
 #define SR_FIT_MAX_STAGES SR_MISSION_MAX_STAGES
 #define SR_FIT_MAX_WIND 64
@@ -85,16 +86,50 @@ const char *sr_fit_band_name(sr_fit_band b);
 
 /* The opening of a stage, from the acceleration column. */
 typedef struct sr_fit_opening {
-    int measured;            /* 1: the values below are set */
+    int measured;            /* 1: a rise was found; force and t_peak are set */
     double rate_needed;      /* Hz the log needs for this opening (also set when not measured) */
     double force;            /* peak opening force m * a, N */
     double t_peak;           /* time from the deployment to the peak, s */
-    double t_fill;           /* measured filling time: the rise from 10 % of the jump to the peak, s */
-    double exponent;         /* growth exponent n of a force rising as t^n over the rise */
-    double olf;              /* opening-load factor that reproduces the peak: F / (CdS q) */
+    /* the inflation ODE of physics/opening.h fitted to the force history (NaN when not resolved): */
+    double t_fill;           /* filling time t_f of the growth law, s (0.05 .. 5) */
+    double exponent;         /* growth exponent n (0.5 .. 4) */
+    double olf;              /* opening-load factor: the scale of the model's force that fits the log (CX) */
+    double peak_ratio;       /* peak force / (canopy CdS x q at deployment): CX X1 as measured, the
+                              * `measured-opening: factor:` of a canopy file */
+    double t_line;           /* line stretch, s after the deployment */
+    double residual;         /* rms residual of the fit, N */
+    double nsamples;         /* log rows over the fitted filling time */
+    char unresolved[112];    /* why the fit is '-' ("" when resolved) */
+    sr_opening_input model;  /* the deployment the fit ran the ODE with (exponent: the fitted n) */
+    double offset;           /* the fit's constant offset c, N */
     double speed;            /* airspeed at the deployment (descent rate from the log), m/s */
     double q;                /* dynamic pressure at the deployment, Pa */
 } sr_fit_opening;
+
+/* Bounds of the opening fit (our choice: the class bands spread over 0.5 .. 3,
+ * filling times of small canopies to large ones). */
+#define SR_FIT_OPENING_N_MIN 0.5
+#define SR_FIT_OPENING_N_MAX 4.0
+#define SR_FIT_OPENING_TF_MIN 0.05
+#define SR_FIT_OPENING_TF_MAX 5.0
+
+/* The opening from a measured force history: force[i] = mass x specific
+ * force at t[i] (evenly spaced rows, N, the whole drag on the payload),
+ * around the deployment at t_deploy. model holds the deployment as
+ * sr_opening_trace_at reads it (canopy drag area, count, mass, speed v1, air,
+ * gravity, path angle, cds_other: what else is open); its exponent, filling
+ * constant and CX are ignored. Finds the peak and fits the growth exponent n,
+ * the filling time t_f, the line stretch and the load factor (with a constant
+ * offset) to the rise and the peak: a bounded grid, then the Nelder-Mead
+ * simplex (GSL). rate_needed is the caller's. Not resolved: o->unresolved
+ * says why and the fitted values are NaN. Errors only for bad arguments. */
+int sr_fit_opening_history(const double *t, const double *force, size_t n, double t_deploy,
+                           const sr_opening_input *model, sr_fit_opening *o, sr_error *err);
+
+/* The fitted model of the measured force, k F_ode + q CdS_other + c, at
+ * non-decreasing times s[i] after the deployment (for the figure). Only for a
+ * resolved fit (o->exponent not NaN). */
+int sr_fit_opening_curve(const sr_fit_opening *o, const double *s, size_t n, double *force, sr_error *err);
 
 typedef struct sr_fit_stage {
     int fitted;

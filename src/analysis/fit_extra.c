@@ -1,17 +1,15 @@
 /* fit_extra.c - what the fit adds around the drag area: the stages of a
- * mission, the catalog band of a fitted coefficient, the opening from the
- * acceleration column, the wind from the positions, and several flights pooled. */
+ * mission, the catalog band of a fitted coefficient, the
+ * wind from the positions, and several flights pooled (the opening: fit_opening.c). */
 #include <gsl/gsl_cdf.h>
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_fit.h>
-#include <gsl/gsl_roots.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
 #include "analysis/fit_int.h"
-#include "physics/opening.h"
 
 #define PI 3.14159265358979323846
 
@@ -83,106 +81,6 @@ int sr_fit_stages_from_mission(const sr_mission *m, sr_fit_setup *s, sr_error *e
                                 "and the fit needs every stage on the same sections",
                                 m->path, g->name);
     }
-    return SR_OK;
-}
-
-/* growth exponent n whose power law t^n reaches half its rise at the given
- * fraction of the time from 10 % to 100 %: (1 - 0.5^(1/n)) / (1 - 0.1^(1/n)) */
-static double ratio_of_n(double n, void *p)
-{
-    return (1.0 - pow(0.5, 1.0 / n)) / (1.0 - pow(0.1, 1.0 / n)) - *(double *)p;
-}
-
-static double crossing(const double *t, const double *a, size_t i, double level)
-{
-    /* the time between rows i-1 and i where a crosses level */
-    double d = a[i] - a[i - 1];
-    return d != 0.0 ? t[i - 1] + (level - a[i - 1]) / d * (t[i] - t[i - 1]) : t[i];
-}
-
-int sr_fit_find_opening(const sr_flightlog *log, const sr_fit_result *r, const sr_fit_stage_spec *sp, sr_fit_stage *st,
-                const fit_air *air, const sr_atmos *atm, sr_error *err)
-{
-    (void)air;
-    (void)err;
-    sr_fit_opening *o = &st->opening;
-    memset(o, 0, sizeof *o);
-    size_t n = log->n, i0 = st->row_deploy;
-    const double *t = log->t, *a = log->acc;
-    /* the speed at deployment: the descent rate just before it (the airspeed when the fall is vertical) */
-    size_t ib = i0;
-    while (ib > 0 && t[ib] > t[i0] - 1.0)
-        ib--;
-    o->speed = fmax(r->rate[ib], 0.0);
-    sr_air air_d;
-    if (sr_atmos_at(atm, r->ground + r->smooth[i0], &air_d, NULL))
-        return SR_OK;
-    o->q = 0.5 * air_d.rho * o->speed * o->speed;
-    /* the rate that resolves it: ten samples over the predicted filling time n D0 / v, 20 Hz at least */
-    double tf = 0.5;
-    if (sp->has_canopy && o->speed > 1.0)
-        tf = sp->canopy.fam.fill_n * sp->canopy.d0.typ / o->speed;
-    o->rate_needed = fmax(20.0, 10.0 / tf);
-    if (1.0 / log->step < o->rate_needed || o->speed < 1.0)
-        return SR_OK;
-    /* the steady level before: median of the second before the deployment */
-    double before[4096];
-    size_t nb = 0;
-    for (size_t i = ib; i < i0 && nb < 4096; i++)
-        before[nb++] = a[i];
-    if (nb < 3)
-        return SR_OK;
-    for (size_t x = 1; x < nb; x++)
-        for (size_t y = x; y > 0 && before[y - 1] > before[y]; y--) {
-            double tmp = before[y];
-            before[y] = before[y - 1];
-            before[y - 1] = tmp;
-        }
-    double a0 = before[nb / 2];
-    /* the peak within 4 s of the deployment */
-    size_t ip = i0;
-    for (size_t i = i0; i < n && t[i] <= t[i0] + 4.0; i++)
-        if (a[i] > a[ip])
-            ip = i;
-    double jump = a[ip] - a0;
-    if (!(jump > 0.5 * SR_ATMOS_G0) || ip == i0)
-        return SR_OK;
-    /* back from the peak: the 50 % and 10 % crossings */
-    size_t i50 = ip, i10 = ip;
-    while (i50 > i0 && a[i50 - 1] > a0 + 0.5 * jump)
-        i50--;
-    i10 = i50;
-    while (i10 > i0 && a[i10 - 1] > a0 + 0.1 * jump)
-        i10--;
-    if (i10 == 0 || i50 == 0 || ip - i10 < 3)
-        return SR_OK;
-    double t10 = crossing(t, a, i10, a0 + 0.1 * jump), t50 = crossing(t, a, i50, a0 + 0.5 * jump);
-    double ratio = (t[ip] - t50) / (t[ip] - t10);
-    /* n from the shape of the rise; bracket 0.2 .. 8 */
-    double nexp = NAN;
-    gsl_function F = {.function = ratio_of_n, .params = &ratio};
-    double flo = ratio_of_n(0.2, &ratio), fhi = ratio_of_n(8.0, &ratio);
-    if (flo * fhi < 0) {
-        gsl_root_fsolver *sv = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
-        if (sv && gsl_root_fsolver_set(sv, &F, 0.2, 8.0) == GSL_SUCCESS) {
-            for (int it = 0; it < 100; it++) {
-                if (gsl_root_fsolver_iterate(sv))
-                    break;
-                double x0 = gsl_root_fsolver_x_lower(sv), x1 = gsl_root_fsolver_x_upper(sv);
-                if (gsl_root_test_interval(x0, x1, 1e-6, 1e-6) == GSL_SUCCESS)
-                    break;
-            }
-            nexp = gsl_root_fsolver_root(sv);
-        }
-        gsl_root_fsolver_free(sv);
-    }
-    o->measured = 1;
-    o->force = sp->mass * a[ip];
-    o->t_peak = t[ip] - t[i0];
-    /* the power law's start lies before its 10 % point by 0.1^(1/n) of the filling time */
-    o->exponent = nexp;
-    o->t_fill = isnan(nexp) ? t[ip] - t10 : (t[ip] - t10) / (1.0 - pow(0.1, 1.0 / nexp));
-    o->olf = o->q > 0 && st->own > 0 ? o->force / (st->own * o->q) : NAN;
     return SR_OK;
 }
 

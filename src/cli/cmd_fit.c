@@ -81,7 +81,9 @@ const sr_command sr_cmd_fit = {
              "and a 95 % confidence interval (Jacobian and residual variance, corrected for correlated residuals). "
              "Points more than 5 robust standard deviations off the fit (spikes, dropouts) are dropped. With a "
              "canopy known, the drag coefficient on nominal area and whether it sits inside the family's catalog "
-             "band. Several logs of the same stages are pooled.\n"
+             "band. With an acceleration column, each opening: its peak force, and the growth exponent, filling "
+             "time and load factor of the opening model of `loads` fitted to the force history, beside what "
+             "`loads` predicts. Several logs of the same stages are pooled.\n"
              "\n"
              "A log is a CSV table with a header naming each column and its unit: time, and height (above ground) "
              "or altitude (above sea level) or pressure; optional acceleration (along the vehicle axis), east and "
@@ -412,9 +414,12 @@ static void opening_report(sr_report *r, sr_fit_result **res, size_t nlogs, cons
     sr_rtable_column(t, "filling_time", "filling", SR_Q_TIME, 3);
     sr_rtable_column(t, "growth_exponent", "exponent", SR_Q_NONE, 3);
     sr_rtable_column(t, "opening_load_factor", "load factor", SR_Q_NONE, 3);
+    sr_rtable_column(t, "fit_rms", "fit rms", SR_Q_FORCE, 2);
+    sr_rtable_column(t, "peak_over_cds_q", "peak/CdS q", SR_Q_NONE, 3);
     sr_rtable_column(t, "loads_force_low", "loads low", SR_Q_FORCE, 3);
     sr_rtable_column(t, "loads_force_high", "loads high", SR_Q_FORCE, 3);
     sr_rtable_column(t, "loads_filling_time", "loads filling", SR_Q_TIME, 3);
+    sr_rtable_text_column(t, "unresolved", "why '-'");
     for (size_t l = 0; l < nlogs; l++) {
         const char *b = strrchr(logs[l], '/');
         for (size_t k = 0; k < res[l]->nstages; k++) {
@@ -446,7 +451,7 @@ static void opening_report(sr_report *r, sr_fit_result **res, size_t nlogs, cons
                     }
                 }
             }
-            const char *tx[2] = {b ? b + 1 : logs[l], sp->name};
+            const char *tx[3] = {b ? b + 1 : logs[l], sp->name, o->unresolved[0] ? o->unresolved : "-"};
             double row[] = {o->rate_needed,
                             o->speed,
                             o->measured ? o->force : NAN,
@@ -454,6 +459,8 @@ static void opening_report(sr_report *r, sr_fit_result **res, size_t nlogs, cons
                             o->measured ? o->t_fill : NAN,
                             o->measured ? o->exponent : NAN,
                             o->measured ? o->olf : NAN,
+                            o->measured ? o->residual : NAN,
+                            o->measured ? o->peak_ratio : NAN,
                             lo,
                             hi,
                             tf};
@@ -462,8 +469,12 @@ static void opening_report(sr_report *r, sr_fit_result **res, size_t nlogs, cons
     }
     sr_report_note(r, "Opening: rate needed = ten samples over the predicted filling time n D0 / v, and 20 Hz at "
                       "least (our rule); below it the opening is not measured ('-'). Peak force = mass x peak "
-                      "specific force; filling time and growth exponent n from the rise (10 %%, 50 %%, 100 %% of the "
-                      "jump, force as t^n); load factor = peak force / (canopy CdS x q at deployment).");
+                      "specific force. Filling time, growth exponent n and load factor: the inflation ODE of `loads` "
+                      "(drag area growing as (t/t_f)^n, with the mass, the speed before the deployment, the air and "
+                      "the fitted drag areas) fitted to the force over the rise and the peak, n within 0.5 .. 4, "
+                      "t_f within 0.05 .. 5 s, the load factor the scale of its force (CX); fit rms = its residual; "
+                      "'-' with the reason when the log does not resolve them. peak/CdS q = peak force / (canopy "
+                      "CdS x q at deployment), CX X1 as measured.");
 }
 
 static int run_fit(sr_cli *c, int argc, char **argv)

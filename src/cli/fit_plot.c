@@ -225,15 +225,36 @@ static int opening_figure(sr_cli *c, sr_plot *p, sr_fit_result **res, const sr_f
                                 sr_units_from_si(S[0].stage[k].mass * acc[i], SR_Q_FORCE, c->units)};
                 rc = sr_plot_row(p, blk, row);
             }
+        /* the peak in the key: a label beside a broad peak would cover the data after it */
+        char ttl[160];
+        snprintf(ttl, sizeof ttl, "%s, peak %.0f %s", S[0].stage[k].name,
+                 sr_units_from_si(st->opening.force, SR_Q_FORCE, c->units), uf);
         sr_plot_series s = {.kind = SR_PLOT_LINESPOINTS, .panel = 0, .block = blk, .x = 1, .y = 2,
-                            .title = S[0].stage[k].name, .color = (int)k + 1};
+                            .title = ttl, .color = (int)k + 1};
         if (!rc)
             rc = sr_plot_add(p, &s);
-        char lab[96];
-        snprintf(lab, sizeof lab, "%.0f %s", sr_units_from_si(st->opening.force, SR_Q_FORCE, c->units), uf);
+        const sr_fit_opening *o = &st->opening;
+        if (rc || !(o->exponent > 0))
+            continue;
+        /* the fitted inflation model over the same second before and four after */
+        enum { NM = 201 };
+        double ts[NM], fm[NM];
+        for (int i = 0; i < NM; i++)
+            ts[i] = -1.0 + 5.0 * i / (NM - 1);
+        if (sr_fit_opening_curve(o, ts, NM, fm, NULL) != SR_OK)
+            continue;
+        snprintf(ttl, sizeof ttl, "%s, fitted model: n %.3g, t_f %.3g s, load factor %.3g", S[0].stage[k].name,
+                 o->exponent, o->t_fill, o->olf);
+        if ((rc = sr_plot_block(p, ttl, 2, COLS, &blk)))
+            break;
+        for (int i = 0; i < NM && !rc; i++) {
+            double row[] = {ts[i], sr_units_from_si(fm[i], SR_Q_FORCE, c->units)};
+            rc = sr_plot_row(p, blk, row);
+        }
+        sr_plot_series sm = {.kind = SR_PLOT_LINES, .panel = 0, .block = blk, .x = 1, .y = 2, .title = ttl,
+                             .color = (int)k + 1, .dash = 1};
         if (!rc)
-            rc = sr_plot_label(p, 0, st->opening.t_peak, sr_units_from_si(st->opening.force, SR_Q_FORCE, c->units),
-                               lab);
+            rc = sr_plot_add(p, &sm);
     }
     return rc;
 }

@@ -166,6 +166,7 @@ int sr_opening_olf_x1(double mass_ratio, double cds, double d0, double n_fill, d
 /* Parameters of one ODE solve (force without CX). */
 typedef struct ode_par {
     double S;     /* full drag area of all canopies, m2 */
+    double So;    /* drag area open besides them (a drogue kept, the sections), m2 */
     double m;     /* mass, kg */
     double rho;   /* air density, kg/m3 */
     double g;     /* gravity, m/s2 */
@@ -196,7 +197,7 @@ static int rhs(double t, const double y[], double dydt[], void *params)
 {
     const ode_par *p = params;
     double v = hypot(y[0], y[1]);
-    double c = 0.5 * p->rho * area_at(p, t) * v / p->m;
+    double c = 0.5 * p->rho * (area_at(p, t) + p->So) * v / p->m;
     dydt[0] = -c * y[0];
     dydt[1] = -c * y[1] - p->g;
     return GSL_SUCCESS;
@@ -421,6 +422,9 @@ static int validate(const sr_opening_input *in, sr_error *err)
     if (!isnan(in->v_steady) && !(in->v_steady >= 0 && isfinite(in->v_steady)))
         return sr_error_set_key(err, SR_EINVAL, "v_steady", "steady descent rate must be zero or positive (got %g m/s)",
                                 in->v_steady);
+    if (!(isfinite(in->cds_other) && in->cds_other >= 0))
+        return sr_error_set_key(err, SR_EINVAL, "cds_other", "drag area open besides the canopies must be zero or "
+                                "positive (got %g m2)", in->cds_other);
     if (in->cds0 <= 0)
         return sr_error_set_key(err, SR_EINVAL, "cds0", "drag area must be positive (got %g m2)", in->cds0);
     if (in->d0 <= 0)
@@ -518,7 +522,7 @@ static int three_methods(const sr_opening_input *in, double tf, double q1, int n
     s->pflanz.kind = tau < 1 ? SR_PEAK_INTERIOR : SR_PEAK_FULL;
     s->regime = tau < 1 ? SR_OPENING_FINITE_MASS : SR_OPENING_INFINITE_MASS;
 
-    ode_par p = {.S = s->S, .m = m, .rho = in->rho, .g = in->g, .tf = tf, .n = in->exponent};
+    ode_par p = {.S = s->S, .So = in->cds_other, .m = m, .rho = in->rho, .g = in->g, .tf = tf, .n = in->exponent};
     if ((rc = ode_peak(&p, in->v1, in->path_angle, in->cx, &s->ode, err)) != SR_OK)
         return rc;
     set_peak(&s->ode, s->ode.force, f_inf, m);
@@ -769,8 +773,29 @@ int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double 
         return rc;
     if (!(t_end > 0))
         t_end = 3 * tf;
-    ode_par p = {.S = in->count * in->cds0, .m = in->mass, .rho = in->rho, .g = in->g, .tf = tf,
-                 .n = in->exponent};
+    for (size_t i = 0; i < n; i++)
+        t[i] = t_end * (double)i / (double)(n - 1);
+    return sr_opening_trace_at(in, tf, t, n, force, NULL, err);
+}
+
+int sr_opening_trace_at(const sr_opening_input *in, double t_fill, const double *t, size_t n, double *force,
+                        double *speed, sr_error *err)
+{
+    int rc;
+    if ((rc = validate(in, err)) != SR_OK)
+        return rc;
+    if (n < 1 || !t || !force)
+        return sr_error_set(err, SR_EINVAL, "trace needs at least one point");
+    double tf = t_fill;
+    if (!(t_fill > 0) && (rc = sr_opening_fill_time(in->n_fill, in->d0, in->v1, steady_of(in), &tf, err)) != SR_OK)
+        return rc;
+    if (!isfinite(tf))
+        return sr_error_set_key(err, SR_EINVAL, "t_fill", "filling time must be finite (got %g s)", tf);
+    for (size_t i = 1; i < n; i++)
+        if (!(t[i] >= t[i - 1]))
+            return sr_error_set(err, SR_EINVAL, "trace times must increase (row %zu)", i + 1);
+    ode_par p = {.S = in->count * in->cds0, .So = in->cds_other, .m = in->mass, .rho = in->rho, .g = in->g,
+                 .tf = tf, .n = in->exponent};
     gsl_odeiv2_system sys = {rhs, NULL, 2, &p};
     gsl_odeiv2_driver *drv = gsl_odeiv2_driver_alloc_y_new(&sys, gsl_odeiv2_step_rk8pd, tf * 1e-3,
                                                            ODE_EPS_REL * in->v1, ODE_EPS_REL);
@@ -780,14 +805,16 @@ int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double 
     double y[2] = {in->v1 * cos(in->path_angle), -in->v1 * sin(in->path_angle)};
     double tt = 0;
     for (size_t i = 0; i < n && rc == SR_OK; i++) {
-        double ti = t_end * (double)i / (double)(n - 1);
+        /* before line stretch the model holds the deployment state */
+        double ti = t[i] > 0 ? t[i] : 0;
         /* stop at the kink of the growth law so no step straddles it */
         if (tt < tf && ti > tf && gsl_odeiv2_driver_apply(drv, &tt, tf, y) != GSL_SUCCESS)
             rc = SR_ENUMERIC;
         if (rc == SR_OK && ti > tt && gsl_odeiv2_driver_apply(drv, &tt, ti, y) != GSL_SUCCESS)
             rc = SR_ENUMERIC;
-        t[i] = ti;
         force[i] = force_of(&p, ti, y);
+        if (speed)
+            speed[i] = hypot(y[0], y[1]);
     }
     gsl_odeiv2_driver_free(drv);
     if (rc != SR_OK)

@@ -64,6 +64,10 @@ typedef struct sr_opening_input {
     double mach_envelope;     /* the family's application limit; above it only a warning flag; 0 = none */
     double v_steady;          /* steady descent rate after the opening, m/s, for the filling time (below);
                                * NaN (default): the full canopies' own rate with this mass, rho and g */
+    double cds_other;         /* drag area open besides the canopies (a drogue kept, the sections), m2,
+                               * default 0: it slows the payload in the inflation ODE (the ODE estimate
+                               * and the traces); the closed forms and the fast path leave it out, which
+                               * overstates their peaks */
 } sr_opening_input;
 
 /* One method's peak. Forces are totals on the payload (all canopies). */
@@ -181,5 +185,14 @@ double sr_opening_quick_low(const sr_opening_quick *q, double cx);
  * that follows), at n times evenly spread over [0, t_end] (t_end <= 0: three
  * filling times), for plotting only. t and force hold n values each. */
 int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double *t, double *force, sr_error *err);
+
+/* The same drag force (all canopies, without CX; not cds_other's) at the
+ * given non-decreasing times after line stretch (times before it: the
+ * deployment state, no force), with the filling time t_fill when it is
+ * positive (a fit's trial value) or else the law's. speed (may be NULL) gets
+ * the payload's airspeed there. The one inflation model a measured force
+ * history is fitted with (analysis/fit_opening.c). */
+int sr_opening_trace_at(const sr_opening_input *in, double t_fill, const double *t, size_t n, double *force,
+                        double *speed, sr_error *err);
 
 #endif

@@ -200,6 +200,13 @@ static void add_point(run *R, const body *b)
     p->north = b->y[1];
     p->speed = V;
     p->rate = -b->y[5];
+    /* what an accelerometer on the body reads: the drag over the mass, the filling canopies at their
+     * present drag area */
+    double rho, C = body_cd_at(R, b, b->t);
+    sr_profile_grid_air(&R->c->grid, b->y[2], &rho, NULL, NULL);
+    if (in_free_fall(b))
+        C += sr_profile_free_cda(&R->c->fall, b->free, V, rho, sr_profile_grid_mu(&R->c->grid, b->y[2]), NULL);
+    p->accel = b->mass > 0.0 ? 0.5 * rho * V * V * C / b->mass : NAN;
     p->body = b->idx;
 }
 

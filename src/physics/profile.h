@@ -100,6 +100,7 @@ typedef struct sr_profile_result {
 /* Points along the descent for plots (full mode). The caller owns pt[cap]. */
 typedef struct sr_profile_point {
     double t, h, east, north, speed, rate;
+    double accel;           /* specific force: drag / mass, m/s2 (what an accelerometer reads) */
     int body;
 } sr_profile_point;
 
