@@ -194,7 +194,7 @@ static void test_fast_solver(void **state)
     (void)state;
     static const double M[] = {0.05, 0.3, 1, 5, 20, 100, 1000}, N[] = {0.5, 1, 2, 3}, V[] = {3, 8, 15, 30, 80, 200},
                         A[] = {-0.5, 0, 0.7, M_PI / 2}, F[] = {4, 8, 14};
-    double worst = 0;
+    double worst = 0, bound = INFINITY;
     int count = 0;
     for (size_t a = 0; a < 7; a++)
         for (size_t b = 0; b < 4; b++)
@@ -219,11 +219,47 @@ static void test_fast_solver(void **state)
                         assert_int_equal(sr_opening_solve_fast(&in, &q, NULL), SR_OK);
                         worst = fmax(worst, fabs(sr_opening_quick_high(&q, 1.7) - r.f_high) / r.f_high);
                         worst = fmax(worst, fabs(sr_opening_quick_low(&q, 1.7) - r.f_low) / r.f_low);
+                        bound = fmin(bound, sr_opening_bound(&in) / fmax(r.f_high, sr_opening_quick_high(&q, 1.7)));
                         count++;
                     }
     printf("fast opening solver: %d cases, worst relative error %.2e\n", count, worst);
+    /* the bound that lets a dispersion skip a load that cannot break its limit */
+    printf("opening-load bound: at least %.3f x the highest estimate over the %d cases\n", bound, count);
+    assert_true(bound >= 1.0);
     CHECK_ABS_CLASS(SR_CHECK_CONSISTENCY, "fast opening solver against the adaptive one, worst over 2016 cases",
                     "opening.h: within 0.5 % of sr_opening_solve", 0.0, worst, 5e-3);
+}
+
+/* The bound of sr_loads_bound over slow deployments too (a drogue at apogee,
+ * a canopy opening from rest): never below the highest load sr_loads_evaluate
+ * gives, for estimated and measured openings. */
+static void test_bound(void **state)
+{
+    (void)state;
+    static const double M[] = {0.3, 2, 20, 300}, V[] = {0.3, 1, 3, 10, 40}, A[] = {0, 0.7, M_PI / 2};
+    double least = INFINITY;
+    for (int meas = 0; meas < 2; meas++)
+        for (size_t a = 0; a < 4; a++)
+            for (size_t c = 0; c < 5; c++)
+                for (size_t d = 0; d < 3; d++) {
+                    sr_loads_canopy lc = {.cds_ratio = {0.9, 1.0, 1.1}, .d0_ratio = {1, 1, 1}, .count = 2,
+                                          .n_fill = 8, .cx = {1.05, 1.3, 1.8}, .growth = {1, 2, 3}};
+                    if (meas) {
+                        lc.measured = SR_OPENING_MEASURED_FACTOR;
+                        lc.measured_value = 1.4;
+                    }
+                    sr_loads_state st[SR_LOADS_NSTATES];
+                    memset(st, 0, sizeof st);
+                    st[0] = (sr_loads_state){.valid = 1, .v1 = V[c], .path_angle = A[d], .rho = 1.1, .a = 340,
+                                             .g = 9.80665, .mass = M[a], .v_steady = NAN, .cds0 = 1.2, .d0 = 1.4};
+                    sr_loads_band b;
+                    assert_int_equal(sr_loads_evaluate(&lc, st, 1, &b, NULL), SR_OK);
+                    least = fmin(least, sr_loads_bound(&lc, &st[0]) / b.hi.force);
+                    assert_int_equal(sr_loads_evaluate(&lc, st, 0, &b, NULL), SR_OK);
+                    least = fmin(least, sr_loads_bound(&lc, &st[0]) / b.hi.force);
+                }
+    printf("opening-load bound over slow and fast deployments: at least %.3f x the load\n", least);
+    assert_true(least >= 1.0);
 }
 
 int main(void)
@@ -232,7 +268,7 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_growth_band_raises_load), cmocka_unit_test(test_cx_band),
         cmocka_unit_test(test_measured), cmocka_unit_test(test_fill_time),
-        cmocka_unit_test(test_class_bands), cmocka_unit_test(test_fast_solver),
+        cmocka_unit_test(test_class_bands), cmocka_unit_test(test_fast_solver), cmocka_unit_test(test_bound),
     };
     return cmocka_run_group_tests_name("loads", tests, NULL, NULL);
 }

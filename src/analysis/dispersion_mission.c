@@ -81,7 +81,12 @@ void sr_disp_mission_outcome(const sr_disp_mission *dm, const sr_profile_result 
             sr_loads_canopy lc = dm->lc[k];
             lc.cds_ratio[0] = lc.cds_ratio[2] = 1.0;
             lc.d0_ratio[0] = lc.d0_ratio[2] = 1.0;
-            if (sr_loads_evaluate(&lc, st, 1, &loads[k], NULL) != SR_OK)
+            /* only the flags are kept: a stage without a limit, or whose load cannot reach it
+             * (sr_loads_bound), is not solved and counts as not exceeding, as solving it would */
+            double lim = sr_judge_opening_limit(&dm->limits, k);
+            if (isnan(lim) || sr_loads_bound(&lc, &st[0]) <= lim)
+                loads[k].valid = 0;
+            else if (sr_loads_evaluate(&lc, st, 1, &loads[k], NULL) != SR_OK)
                 loads[k].valid = 0;
         }
         lp = loads;

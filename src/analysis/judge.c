@@ -154,6 +154,11 @@ void sr_judge_band(const sr_judge_limits *l, const sr_band_result *b, sr_judge_b
     sr_judge_bands(l, &b, 1, basis, v);
 }
 
+double sr_judge_opening_limit(const sr_judge_limits *l, size_t k)
+{
+    return limit_of(l, SR_JUDGE_OPENING, (int)k);
+}
+
 unsigned sr_judge_flags(const sr_judge_limits *l, const sr_profile_result *r, const sr_loads_band *loads)
 {
     slot s[SR_JUDGE_MAX_ROWS];

@@ -52,6 +52,10 @@ void sr_judge_bands(const sr_judge_limits *l, const sr_band_result *const *b, si
 
 /* One descent on its own (a dispersion sample): the limits it breaks, as
  * bits 1 << sr_limit_kind. loads may be NULL (opening loads not judged). */
+/* The opening load stage k may reach (rated strength / design factor), N;
+ * NaN when the mission sets none for it. */
+double sr_judge_opening_limit(const sr_judge_limits *l, size_t k);
+
 unsigned sr_judge_flags(const sr_judge_limits *l, const sr_profile_result *r, const sr_loads_band *loads);
 
 #endif

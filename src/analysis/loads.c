@@ -127,9 +127,11 @@ int sr_loads_evaluate(const sr_loads_canopy *c, const sr_loads_state st[SR_LOADS
         out->v_lo = fmin(out->v_lo, x->v1), out->v_hi = fmax(out->v_hi, x->v1);
         out->q_lo = fmin(out->q_lo, q), out->q_hi = fmax(out->q_hi, q);
         out->mach_lo = fmin(out->mach_lo, mach), out->mach_hi = fmax(out->mach_hi, mach);
+        /* drag ends that are the same canopy (a dispersion sample's own draw) are solved once */
+        int same_drag = c->cds_ratio[0] == c->cds_ratio[2] && c->d0_ratio[0] == c->d0_ratio[2];
         for (int d = 0; d < 2; d++)
             for (int j = 0; j < 2; j++) {
-                if (j == 1 && ns[1] == ns[0])
+                if ((j == 1 && ns[1] == ns[0]) || (d == 1 && same_drag))
                     continue;
                 if ((rc = combo(c, x, drags[d], ns[j], c->cx.lo, c->cx.hi, fast, &lo, &hi, &tf, &slow, err)) !=
                     SR_OK)
@@ -142,6 +144,24 @@ int sr_loads_evaluate(const sr_loads_canopy *c, const sr_loads_state st[SR_LOADS
     }
     out->above_envelope = c->mach_max > 0 && out->mach_hi > c->mach_max;
     return SR_OK;
+}
+
+double sr_loads_bound(const sr_loads_canopy *c, const sr_loads_state *s)
+{
+    if (!s->valid || !(s->v1 > 0.0))
+        return 0.0; /* not deployed: sr_loads_evaluate gives no load */
+    if (c->measured == SR_OPENING_MEASURED_LOAD)
+        return c->measured_value;
+    double b = 0.0;
+    for (int d = 0; d < 3; d++) {
+        sr_opening_input in;
+        sr_loads_input(c, s, d, c->growth.hi, c->cx.hi, &in);
+        double f = c->measured == SR_OPENING_MEASURED_FACTOR
+                       ? c->measured_value * in.count * in.cds0 * 0.5 * s->rho * s->v1 * s->v1
+                       : sr_opening_bound(&in);
+        b = fmax(b, f);
+    }
+    return b;
 }
 
 /* ---- a program's opening load (include/sinkrate/analysis.h) ---- */

@@ -64,6 +64,12 @@ void sr_loads_state_of(sr_loads_state *s, const sr_canopy *c, double mass, doubl
 int sr_loads_evaluate(const sr_loads_canopy *c, const sr_loads_state st[SR_LOADS_NSTATES], int fast,
                       sr_loads_band *out, sr_error *err);
 
+/* An upper bound of the highest load sr_loads_evaluate can give from state s
+ * over the canopy's bands (sr_opening_bound at each drag end and the
+ * opening-load factor's high end; a measured opening as combo() applies it):
+ * a load that cannot break a limit need not be solved. */
+double sr_loads_bound(const sr_loads_canopy *c, const sr_loads_state *s);
+
 /* The opening-module input of one combination (for the full three-method
  * result of an end: sr_opening_solve on it gives the end's numbers). */
 void sr_loads_input(const sr_loads_canopy *c, const sr_loads_state *s, int drag, double exponent, double cx,

@@ -761,6 +761,17 @@ double sr_opening_quick_low(const sr_opening_quick *q, double cx)
     return fmin(cx * fmin(q->olf, q->pflanz), ode);
 }
 
+double sr_opening_bound(const sr_opening_input *in)
+{
+    double tf;
+    if (!(in->v1 >= 0 && in->rho > 0 && in->cds0 > 0 && in->mass > 0 && in->count >= 1 && in->cx > 0) ||
+        sr_opening_fill_time(in->n_fill, in->d0, in->v1, steady_of(in), &tf, NULL) != SR_OK)
+        return INFINITY;
+    double g = in->g > 0 ? in->g : 0.0, v = in->v1 + g * tf;
+    double f = fmax(in->cx, 1.0) * 0.5 * in->rho * v * v * in->count * in->cds0;
+    return 1.05 * fmax(f, in->mass * g);
+}
+
 int sr_opening_trace(const sr_opening_input *in, double t_end, size_t n, double *t, double *force, sr_error *err)
 {
     int rc;

@@ -180,6 +180,14 @@ int sr_opening_solve_fast(const sr_opening_input *in, sr_opening_quick *out, sr_
 double sr_opening_quick_high(const sr_opening_quick *q, double cx);
 double sr_opening_quick_low(const sr_opening_quick *q, double cx);
 
+/* An upper bound of f_high (any growth exponent, any of the three methods),
+ * without solving: while it fills the payload gains at most g t_f of speed,
+ * so no force exceeds max(CX, 1) (v1 + g t_f)^2 rho/2 times the full drag
+ * area, or the weight (docs/method.md, opening loads). 5 % above that for
+ * the fixed-step solver's interpolation. For skipping solves whose result
+ * cannot break a limit; +inf when the input is not valid. */
+double sr_opening_bound(const sr_opening_input *in);
+
 /* The inflation ODE's drag force of the growth model, all canopies, WITHOUT
  * CX (the over-inflation factor belongs to the peak, not to the steady drag
  * that follows), at n times evenly spread over [0, t_end] (t_end <= 0: three
