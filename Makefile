@@ -25,18 +25,24 @@ CSTD     = -std=c11 -D_POSIX_C_SOURCE=200809L
 WARN     = -Wall -Wextra -Werror -Wno-unused-parameter -Wno-format-truncation -Wno-unknown-warning-option
 OPT     ?= -O2 -g
 PKGS     = yaml-0.1 gsl jansson proj
+# linked; proj only for its header: src/physics/geodesy.c opens libproj when a
+# map needs it, since its dependencies cost about 20 ms at every start
+LINK_PKGS = yaml-0.1 gsl jansson
 # Deferred and cached on first use: pkg-config runs when the first recipe needs
 # the flags, after the deps step, never when make reads this file (on a fresh
 # machine the packages do not exist yet at that moment).
 PKG_CFLAGS = $(eval PKG_CFLAGS := $$(shell pkg-config --cflags $(PKGS) 2>/dev/null))$(PKG_CFLAGS)
-PKG_LIBS   = $(eval PKG_LIBS := $$(shell pkg-config --libs $(PKGS) 2>/dev/null))$(PKG_LIBS)
+PKG_LIBS   = $(eval PKG_LIBS := $$(shell pkg-config --libs $(LINK_PKGS) 2>/dev/null))$(PKG_LIBS)
+PROJ_SONAME = $(eval PROJ_SONAME := $$(shell objdump -p "$$$$(pkg-config --variable=libdir proj 2>/dev/null)/libproj.so" \
+                2>/dev/null | awk '/SONAME/ {print $$$$2}'))$(PROJ_SONAME)
 TEST_LIBS  = $(eval TEST_LIBS := $$(shell pkg-config --libs cmocka udunits 2>/dev/null))$(TEST_LIBS)
 OMP      = -fopenmp
 # Position-independent for the shared library; every name hidden unless its
 # declaration in include/ carries SR_API (tests/symbols.py checks the export).
 PIC      = -fPIC -fvisibility=hidden
-CFLAGS_ALL = $(CSTD) $(WARN) $(OPT) $(OMP) $(PIC) $(PKG_CFLAGS) -Iinclude -Isrc -DSR_DATADIR='"$(DATADIR)"' $(CFLAGS)
-LDLIBS_ALL = $(PKG_LIBS) -lcsv -lm $(OMP) $(LDFLAGS)
+CFLAGS_ALL = $(CSTD) $(WARN) $(OPT) $(OMP) $(PIC) $(PKG_CFLAGS) -Iinclude -Isrc -DSR_DATADIR='"$(DATADIR)"' \
+             $(if $(PROJ_SONAME),-DSR_PROJ_SONAME='"$(PROJ_SONAME)"') $(CFLAGS)
+LDLIBS_ALL = $(PKG_LIBS) -lcsv -lm -ldl $(OMP) $(LDFLAGS)
 
 B        ?= build
 # the library's layers, bottom up (DEVELOPERS.md): base, physics, files, analysis, output
@@ -87,7 +93,7 @@ $(B)/libsinkrate.so: $(B)/libsinkrate.so.$(VERSION)
 $(B)/sinkrate.pc: sinkrate.pc.in include/sinkrate/base.h
 	@mkdir -p $(B)
 	@sed -e 's|@PREFIX@|$(PREFIX)|' -e 's|@LIBDIR@|$(LIBDIR)|' -e 's|@INCLUDEDIR@|$(INCLUDEDIR)|' \
-	  -e 's|@VERSION@|$(VERSION)|' -e 's|@PKGS@|$(PKGS)|' $< > $@
+	  -e 's|@VERSION@|$(VERSION)|' -e 's|@PKGS@|$(LINK_PKGS)|' $< > $@
 
 $(B)/libsinkrate-cli.a: $(CLI_LIBOBJ)
 	@rm -f $@
