@@ -725,24 +725,21 @@ static void on_progress(size_t done, size_t n, void *ud)
 
 static void header_text(const sr_mission *m, char *buf, size_t len)
 {
-    size_t used = (size_t)snprintf(buf, len,
-                                   "# A design written by `sinkrate design %s`: the mission with the chosen canopies, "
-                                   "sizes and\n# deployment heights (its design: block and its comments are not "
-                                   "kept). Check it with `sinkrate profile`.\n# ",
-                                   m->path);
-    size_t col = 2;
-    for (const char *p = sr_report_caution(); *p && used + 8 < len; p++) {
-        if (*p == '\n' || (*p == ' ' && col > 100)) {
-            used += (size_t)snprintf(buf + used, len - used, "\n# ");
-            col = 2;
-            continue;
-        }
-        buf[used++] = *p;
-        buf[used] = '\0';
-        col++;
-    }
-    if (used + 2 < len)
-        snprintf(buf + used, len - used, "\n");
+    char *text = NULL;
+    size_t n = 0;
+    FILE *f = open_memstream(&text, &n);
+    buf[0] = '\0';
+    if (!f)
+        return;
+    fprintf(f,
+            "# A design written by `sinkrate design %s`: the mission with the chosen canopies, sizes and\n# "
+            "deployment heights (its design: block and its comments are not kept). Check it with `sinkrate "
+            "profile`.\n",
+            m->path);
+    sr_report_comment(f, sr_report_caution(), 100);
+    if (fclose(f) == 0)
+        snprintf(buf, len, "%s", text);
+    free(text);
 }
 
 static int run_design(sr_cli *c, int argc, char **argv)
@@ -834,7 +831,7 @@ static int run_design(sr_cli *c, int argc, char **argv)
             goto out;
         }
     }
-    char header[1024];
+    char header[8192]; /* the path (up to PATH_MAX) and the caution */
     header_text(m, header, sizeof header);
     dopt.header = header;
     dopt.target = o.write;

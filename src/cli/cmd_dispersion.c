@@ -257,10 +257,7 @@ static int write_samples(sr_cli *c, const char *path, const sr_mission *m, const
         }
     }
     fprintf(f, "# sinkrate dispersion: every sample of %s, seed %llu\n", m->name, (unsigned long long)res->seed);
-    fputs("# ", f);
-    for (const char *p = sr_report_caution(); *p; p++)
-        fputc(*p == '\n' ? ' ' : *p, f);
-    fputc('\n', f);
+    sr_report_comment(f, sr_report_caution(), 0);
     char h[200];
     cell(f, "sample", 1);
     cell(f, "body", 0);

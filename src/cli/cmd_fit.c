@@ -224,15 +224,7 @@ static int write_canopy(sr_cli *c, const char *path, const sr_fit_stage_spec *sp
         return sr_cli_fail(c, "out of memory");
     fprintf(f, "# A canopy file written by `sinkrate fit`: the drag coefficient measured from flight logs,\n"
                "# its confidence interval as the band. Use it with --canopy FILE or `canopy: FILE` in a mission.\n");
-    const char *caution = sr_report_caution();
-    fputs("# ", f);
-    for (const char *p = caution; *p; p++) {
-        fputc(*p, f);
-        if (*p == '\n' && p[1])
-            fputs("# ", f);
-    }
-    if (caution[0] && caution[strlen(caution) - 1] != '\n')
-        fputc('\n', f);
+    sr_report_comment(f, sr_report_caution(), 0);
     fprintf(f, "canopy:\n  name: \"%s, measured\"\n  family: %s\n", qname, cp->fam.id);
     if (cp->size_kind == SR_SIZE_NOMINAL_AREA)
         fprintf(f, "  %s: %.6g m2\n", size_key(cp->size_kind), cp->size_value);
@@ -267,15 +259,7 @@ static int write_wind(sr_cli *c, const char *path, sr_fit_result **res, size_t n
         return sr_cli_fail(c, "out of memory");
     fprintf(f, "# Wind from the drift under the canopies (`sinkrate fit`), by height above ground; a mission's\n"
                "# site.wind `file:`. It reaches only as high as the fitted windows: extend it to the start height.\n");
-    const char *caution = sr_report_caution();
-    fputs("# ", f);
-    for (const char *p = caution; *p; p++) {
-        fputc(*p, f);
-        if (*p == '\n' && p[1])
-            fputs("# ", f);
-    }
-    if (caution[0] && caution[strlen(caution) - 1] != '\n')
-        fputc('\n', f);
+    sr_report_comment(f, sr_report_caution(), 0);
     fprintf(f, "height [m],speed [m/s],from [deg]\n");
     size_t rows = 0;
     double last = -INFINITY;

@@ -627,13 +627,26 @@ static void csv_num(FILE *f, double x, int first)
         fprintf(f, "%.10g", x);
 }
 
+void sr_report_comment(FILE *f, const char *text, size_t width)
+{
+    fputs("# ", f);
+    size_t col = 2;
+    for (const char *p = text; *p; p++) {
+        if (width > 0 && (*p == '\n' || (*p == ' ' && col > width))) {
+            fputs("\n# ", f);
+            col = 2;
+            continue;
+        }
+        fputc(*p == '\n' ? ' ' : *p, f);
+        col++;
+    }
+    fputc('\n', f);
+}
+
+/* comment lines are outside RFC 4180; keep them single-line */
 static void csv_comment(FILE *f, const char *text)
 {
-    /* comment lines are outside RFC 4180; keep them single-line */
-    fputs("# ", f);
-    for (const char *p = text; *p; p++)
-        fputc(*p == '\n' ? ' ' : *p, f);
-    fputc('\n', f);
+    sr_report_comment(f, text, 0);
 }
 
 static void write_csv(const sr_report *r, FILE *f, sr_unit_system sys, const part *sel)

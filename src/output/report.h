@@ -23,6 +23,12 @@ typedef struct sr_rtable sr_rtable;
 /* The one caution text (DESIGN.md, Cautions). */
 const char *sr_report_caution(void);
 
+/* text as comment lines ("# ...") of a file we write (CSV, YAML): width 0
+ * keeps it on one line (a line break becomes a space); otherwise a line
+ * ends at its first space past column width and at each line break. The
+ * caution heads every such file through it. */
+void sr_report_comment(FILE *f, const char *text, size_t width);
+
 sr_report *sr_report_new(const char *command, const char *title);
 void sr_report_free(sr_report *r);
 
