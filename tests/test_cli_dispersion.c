@@ -16,25 +16,6 @@
 
 #define DEMO "payloads/desert-club-rocket.yaml"
 
-static char *slurp(const char *path)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return NULL;
-    fseek(f, 0, SEEK_END);
-    long n = ftell(f);
-    fseek(f, 0, SEEK_SET);
-    char *b = malloc((size_t)n + 1);
-    if (fread(b, 1, (size_t)n, f) != (size_t)n) {
-        free(b);
-        fclose(f);
-        return NULL;
-    }
-    b[n] = '\0';
-    fclose(f);
-    return b;
-}
-
 static int run(char **out, char **err, const char *const *args)
 {
     char *argv[64];
@@ -61,7 +42,7 @@ static void test_threads_same_bytes(void **state)
     assert_int_equal(r1, r2);
     assert_true(r1 == 0 || r1 == 1);
     assert_string_equal(o1, o2);
-    char *c1 = slurp(s1), *c2 = slurp(s2);
+    char *c1 = sr_test_slurp(s1, NULL), *c2 = sr_test_slurp(s2, NULL);
     assert_non_null(c1);
     assert_non_null(c2);
     assert_string_equal(c1, c2);
@@ -131,7 +112,7 @@ static void test_plot_files(void **state)
     assert_int_equal(run(&out, &err, a), 0);
     char path[600];
     snprintf(path, sizeof path, "%s.gp", prefix);
-    char *gp = slurp(path);
+    char *gp = sr_test_slurp(path, NULL);
     assert_non_null(gp);
     assert_non_null(strstr(gp, "CAUTION"));
     assert_non_null(strstr(gp, "3-sigma ellipse"));
@@ -166,7 +147,7 @@ static void test_two_bodies(void **state)
     assert_int_equal(rc, 0);
     assert_non_null(strstr(out, "Landing of booster (body 1 of 2)"));
     assert_non_null(strstr(out, "Landing of nose (body 2 of 2)"));
-    char *c = slurp(csv);
+    char *c = sr_test_slurp(csv, NULL);
     assert_non_null(c);
     assert_int_equal(sr_test_lines(c), 3 + 2 * 100);
     assert_non_null(strstr(c, "\r\n99,\"nose\","));

@@ -44,18 +44,6 @@ static void put(const char *path, const void *data, size_t len)
     fclose(f);
 }
 
-static char *slurp(const char *path, size_t *len)
-{
-    char *data;
-    size_t n;
-    sr_error e;
-    if (sr_file_read(path, 64u << 20, &data, &n, &e) != SR_OK)
-        return NULL;
-    if (len)
-        *len = n;
-    return data;
-}
-
 /* Entries under d (recursively), so stray temporaries and directories show. */
 static int entries(const char *d)
 {
@@ -214,7 +202,7 @@ static int run_closed_pipe(int ignore_pipe, char *err, size_t errlen)
     close(p[1]);
     int status;
     assert_int_equal(waitpid(pid, &status, 0), pid);
-    char *e = slurp(errfile, NULL);
+    char *e = sr_test_slurp(errfile, NULL);
     snprintf(err, errlen, "%s", e ? e : "");
     free(e);
     unlink(errfile);
@@ -259,7 +247,7 @@ static size_t snapshot(const char *w, snap *s, size_t max)
         snprintf(s[n].name, sizeof s[n].name, "%s", e->d_name);
         char p[4300];
         snprintf(p, sizeof p, "%s/%s", w, e->d_name);
-        s[n].data = slurp(p, &s[n].len);
+        s[n].data = sr_test_slurp(p, &s[n].len);
         assert_non_null(s[n].data);
         n++;
     }
@@ -274,7 +262,7 @@ static void same_as(const char *w, snap *s, size_t n)
         char p[4300];
         snprintf(p, sizeof p, "%s/%s", w, s[i].name);
         size_t len = 0;
-        char *now = slurp(p, &len);
+        char *now = sr_test_slurp(p, &len);
         if (!now || len != s[i].len || memcmp(now, s[i].data, len) != 0)
             print_error("%s changed\n", s[i].name);
         assert_true(now && len == s[i].len && memcmp(now, s[i].data, len) == 0);
@@ -382,7 +370,7 @@ static void test_second_figure_checked_first(void **state)
     put(o, "old\n", 4);
     char *argv[] = {"sinkrate", "profile", mission, "--plot", fig, "-o", o, NULL};
     one_line_exit2(7, argv, "fig-track.dat: is a directory");
-    char *now = slurp(o, NULL);
+    char *now = sr_test_slurp(o, NULL);
     assert_string_equal(now, "old\n");
     free(now);
     assert_int_equal(entries(w), 3);
@@ -454,7 +442,7 @@ static void test_script_same_at_any_thread_count(void **state)
         free(out);
         free(err);
         size_t len = 0;
-        char *now = slurp(gp, &len);
+        char *now = sr_test_slurp(gp, &len);
         assert_non_null(now);
         assert_null(strstr(now, "--threads"));
         if (k == 0) {
@@ -538,7 +526,7 @@ static void test_signal_during_work(void **state)
             waitpid(pid, &status, 0);
             fail_msg("%s did not stop the run", SIGS[i].name);
         }
-        char *err = slurp(errfile, NULL);
+        char *err = sr_test_slurp(errfile, NULL);
         if (!WIFEXITED(status) || WEXITSTATUS(status) != SIGS[i].code)
             print_error("%s: status %d, stderr '%s'\n", SIGS[i].name, status, err);
         assert_true(WIFEXITED(status));
@@ -548,7 +536,7 @@ static void test_signal_during_work(void **state)
         assert_non_null(strstr(err, "no file was written or changed"));
         free(err);
         assert_int_equal(entries(w), 1);
-        char *now = slurp(o, NULL);
+        char *now = sr_test_slurp(o, NULL);
         assert_string_equal(now, "old report\n");
         free(now);
     }
@@ -576,7 +564,7 @@ static void test_signal_while_drawing(void **state)
     struct timespec ts = {0, 10 * 1000 * 1000};
     for (int i = 0; i < 2000 && access(pidfile, R_OK) != 0; i++)
         nanosleep(&ts, NULL);
-    char *gp = slurp(pidfile, NULL);
+    char *gp = sr_test_slurp(pidfile, NULL);
     assert_non_null(gp);
     pid_t child = (pid_t)atol(gp);
     free(gp);

@@ -141,32 +141,6 @@ static char *run(const char *const *args, size_t fmt, const char *outfile, int *
     return out;
 }
 
-static char *slurp(const char *path)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return NULL;
-    size_t cap = 1 << 16, len = 0;
-    char *b = malloc(cap + 1);
-    size_t got;
-    while (b && (got = fread(b + len, 1, cap - len, f)) > 0) {
-        len += got;
-        if (len == cap) {
-            char *nb = realloc(b, (cap *= 2) + 1);
-            if (!nb) {
-                free(b);
-                fclose(f);
-                return NULL;
-            }
-            b = nb;
-        }
-    }
-    fclose(f);
-    if (b)
-        b[len] = '\0';
-    return b;
-}
-
 static void test_same_bytes_twice(void **state)
 {
     (void)state;
@@ -236,7 +210,7 @@ static void test_file_equals_stdout(void **state)
             assert_int_equal(rc_file, rc);
             assert_true(rc == 0 || rc == 1);
             assert_string_equal(none, "");
-            char *written = slurp(file);
+            char *written = sr_test_slurp(file, NULL);
             assert_non_null(written);
             if (strcmp(out, written) != 0)
                 print_error("row %zu (%s) %s: -o wrote other bytes than stdout\n", i, CASES[i].args[0],
@@ -283,7 +257,7 @@ static void test_map_files_same_bytes(void **state)
         free(out);
         free(err);
         for (int k = 0; k < 4; k++) {
-            char *b = slurp(f[k]);
+            char *b = sr_test_slurp(f[k], NULL);
             assert_non_null(b);
             if (!pass) {
                 first[k] = b;

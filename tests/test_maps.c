@@ -28,25 +28,6 @@
 
 /* ---- reading files back ---- */
 
-static char *slurp(const char *path)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return NULL;
-    fseek(f, 0, SEEK_END);
-    long n = ftell(f);
-    fseek(f, 0, SEEK_SET);
-    char *b = malloc((size_t)n + 1);
-    if (fread(b, 1, (size_t)n, f) != (size_t)n) {
-        free(b);
-        fclose(f);
-        return NULL;
-    }
-    b[n] = '\0';
-    fclose(f);
-    return b;
-}
-
 /* A CSV table read with libcsv: '#' comment lines skipped, the header row
  * kept as row 0. */
 typedef struct table {
@@ -163,7 +144,7 @@ static void test_trajectory_csv_matches_events(void **state)
     assert_non_null(doc);
     json_t *tl = json_object_get(json_object_get(doc, "tables"), "timeline");
     json_t *td = json_object_get(json_object_get(doc, "tables"), "touchdown");
-    char *text = slurp(path);
+    char *text = sr_test_slurp(path, NULL);
     assert_non_null(text);
     assert_non_null(strstr(text, "# CAUTION: preliminary engineering estimates only."));
     table t;
@@ -271,7 +252,7 @@ static void test_trajectory_us(void **state)
     assert_int_equal(sr_test_cli(NULL, NULL, "profile", sr_test_path(REVISED), "--trajectory", p2, "--units", "us",
                                  NULL),
                      0);
-    char *a = slurp(p1), *b = slurp(p2);
+    char *a = sr_test_slurp(p1, NULL), *b = sr_test_slurp(p2, NULL);
     table ta, tb;
     read_csv(a, &ta);
     read_csv(b, &tb);

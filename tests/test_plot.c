@@ -46,28 +46,6 @@ static const char *tpath(const char *name)
     return b;
 }
 
-static char *slurp(const char *path, size_t *len)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return NULL;
-    fseek(f, 0, SEEK_END);
-    long n = ftell(f);
-    fseek(f, 0, SEEK_SET);
-    char *b = malloc((size_t)n + 1);
-    if (b && fread(b, 1, (size_t)n, f) != (size_t)n) {
-        free(b);
-        b = NULL;
-    }
-    fclose(f);
-    if (b) {
-        b[n] = '\0';
-        if (len)
-            *len = (size_t)n;
-    }
-    return b;
-}
-
 /* A figure with every kind of series, markers and two panels. */
 static sr_plot *full_figure(const char *title)
 {
@@ -224,7 +202,7 @@ static void test_stacked_outlined(void **state)
     assert_int_equal(w, 700);
     assert_int_equal(h, 900);
     /* outlined bands need no outline polygon blocks: five curve blocks only */
-    char *dat = slurp(tpath("stacked.dat"), NULL);
+    char *dat = sr_test_slurp(tpath("stacked.dat"), NULL);
     assert_null(strstr(dat, "outline of the band"));
     free(dat);
     sr_plot_free(p);
@@ -277,7 +255,7 @@ static void test_log_axes_open_points_labels(void **state)
                        .width = 800, .height = 500};
     sr_error e;
     assert_int_equal(sr_plot_write(p, &out, &e), 0);
-    char *gp = slurp(tpath("log.gp"), NULL);
+    char *gp = sr_test_slurp(tpath("log.gp"), NULL);
     assert_non_null(gp);
     assert_non_null(strstr(gp, "set logscale x\nset logscale y\n"));
     assert_non_null(strstr(gp, "with points lt 7 pt 6"));
@@ -308,7 +286,7 @@ static void test_svg(void **state)
     int rc = sr_plot_render(NULL, gnuplot, o.prefix, "svg", NULL, 0, &e);
     if (rc)
         fail_msg("%s", e.msg);
-    char *svg = slurp(tpath("svg.svg"), NULL);
+    char *svg = sr_test_slurp(tpath("svg.svg"), NULL);
     assert_non_null(svg);
     assert_non_null(strstr(svg, "<svg"));
     assert_non_null(strstr(svg, "width=\"800\""));
@@ -335,7 +313,7 @@ static void test_caution_and_data_round_trip(void **state)
                      .width = 400, .height = 300};
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
-    char *dat = slurp(tpath("rt.dat"), NULL), *gp = slurp(tpath("rt.gp"), NULL);
+    char *dat = sr_test_slurp(tpath("rt.dat"), NULL), *gp = sr_test_slurp(tpath("rt.gp"), NULL);
     assert_non_null(dat);
     assert_non_null(gp);
     /* the caution's opening words in both files */
@@ -436,7 +414,7 @@ static void test_missing_style_falls_back(void **state)
                      .width = 600, .height = 400};
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
-    char *gp = slurp(tpath("nostyle.gp"), NULL);
+    char *gp = sr_test_slurp(tpath("nostyle.gp"), NULL);
     assert_non_null(strstr(gp, "set label 100 caution"));
     free(gp);
     int rc = sr_plot_render(NULL, gnuplot, o.prefix, "png", NULL, 0, &e);
@@ -468,7 +446,7 @@ static void test_moved_script_renders(void **state)
                      .height = 450};
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
-    char *gp = slurp(tpath("made/fig.gp"), NULL);
+    char *gp = sr_test_slurp(tpath("made/fig.gp"), NULL);
     assert_non_null(gp);
     assert_null(strstr(gp, "set loadpath"));
     assert_null(strstr(gp, sr_test_path("plots")));
@@ -536,7 +514,7 @@ static void test_layout_keeps_data_visible(void **state)
                      .width = 800, .height = 500};
     sr_error e;
     assert_int_equal(sr_plot_write(p, &o, &e), 0);
-    char *gp = slurp(tpath("layout.gp"), NULL);
+    char *gp = sr_test_slurp(tpath("layout.gp"), NULL);
     assert_non_null(gp);
     assert_non_null(strstr(gp, "'main, payload' at first 60, graph 1 left offset -0.4,0.75"));
     assert_non_null(strstr(gp, "'reserve' at first 61, graph 1 left offset -0.4,1.80"));

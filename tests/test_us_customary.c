@@ -14,25 +14,6 @@
 
 #define NIST "NIST SP 811 (2008) App. B"
 
-static char *slurp(const char *path)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return NULL;
-    fseek(f, 0, SEEK_END);
-    long n = ftell(f);
-    fseek(f, 0, SEEK_SET);
-    char *b = malloc((size_t)n + 1);
-    if (fread(b, 1, (size_t)n, f) != (size_t)n) {
-        free(b);
-        fclose(f);
-        return NULL;
-    }
-    b[n] = '\0';
-    fclose(f);
-    return b;
-}
-
 static json_t *json_of(const char *text)
 {
     json_error_t je;
@@ -224,7 +205,7 @@ static void test_one_pressure_unit(void **state)
                                  "858hPa", "--from", "1380m", "--to", "3380m", "--step", "1000m", "--units", "us",
                                  "--plot", prefix, NULL),
                      0);
-    char *script = slurp(gp);
+    char *script = sr_test_slurp(gp, NULL);
     assert_non_null(script);
     assert_non_null(strstr(script, "psf"));
     assert_null(strstr(script, "inHg"));

@@ -11,6 +11,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "base/fileread.h"
 #include "cli/cli.h"
 
 const char *sr_test_class_name(sr_check_class c)
@@ -326,4 +327,16 @@ void sr_test_rmtree(const char *dir)
         closedir(d);
     }
     rmdir(dir);
+}
+
+char *sr_test_slurp(const char *path, size_t *len)
+{
+    char *data;
+    size_t n;
+    sr_error e;
+    if (sr_file_read(path, 64u << 20, &data, &n, &e) != SR_OK)
+        return NULL;
+    if (len)
+        *len = n;
+    return data;
 }

@@ -73,6 +73,10 @@ void sr_test_rmtree(const char *dir);
 /* Count newline-terminated lines of s. */
 int sr_test_lines(const char *s);
 
+/* The whole file as a NUL-terminated string (free it), its length in *len
+ * (may be NULL); NULL when it cannot be read (at most 64 MiB). */
+char *sr_test_slurp(const char *path, size_t *len);
+
 /* The source of figure checks: a PNG starts with its signature and the IHDR
  * chunk, which holds the width and height. */
 #define SR_SRC_PNG "PNG specification (W3C REC / ISO/IEC 15948:2004) sec. 5.2 signature, 11.2.2 IHDR"
