@@ -1215,28 +1215,6 @@ static char *generate(gen g, size_t *len)
     return b;
 }
 
-/* Count entries of a directory (recursively), so stray temporaries show. */
-static int count_entries(const char *dir)
-{
-    DIR *d = opendir(dir);
-    if (!d)
-        return 0;
-    int n = 0;
-    struct dirent *e;
-    while ((e = readdir(d)) != NULL) {
-        if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
-            continue;
-        n++;
-        char sub[1024];
-        snprintf(sub, sizeof sub, "%s/%s", dir, e->d_name);
-        struct stat st;
-        if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
-            n += count_entries(sub);
-    }
-    closedir(d);
-    return n;
-}
-
 static int run_case(size_t i, const bad_case *c, int show)
 {
     char dir[64];
@@ -1281,7 +1259,7 @@ static int run_case(size_t i, const bad_case *c, int show)
         }
         free(b);
     }
-    int before = count_entries(dir);
+    int before = sr_test_entries(dir);
 
     char store[24][1024];
     char *argv[24];
@@ -1312,7 +1290,7 @@ static int run_case(size_t i, const bad_case *c, int show)
 
     char *out, *err;
     int rc = sr_test_cli_argv(&out, &err, argc, argv);
-    int after = count_entries(dir);
+    int after = sr_test_entries(dir);
     /* check lists every problem of a file, one line each; every other command stops at the first */
     int ok = rc == 2 && (is_check ? sr_test_lines(err) >= 1 : sr_test_lines(err) == 1) &&
              err[strlen(err) - 1] == '\n' && strstr(err, where) &&

@@ -44,27 +44,6 @@ static void put(const char *path, const void *data, size_t len)
     fclose(f);
 }
 
-/* Entries under d (recursively), so stray temporaries and directories show. */
-static int entries(const char *d)
-{
-    DIR *h = opendir(d);
-    int n = 0;
-    struct dirent *e;
-    while (h && (e = readdir(h)) != NULL) {
-        if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
-            continue;
-        n++;
-        char sub[4200];
-        snprintf(sub, sizeof sub, "%s/%s", d, e->d_name);
-        struct stat st;
-        if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
-            n += entries(sub);
-    }
-    if (h)
-        closedir(h);
-    return n;
-}
-
 /* The smallest PNG: signature, IHDR of 1x1, one IDAT, IEND (ISO/IEC 15948:2004 sec. 5). */
 static const unsigned char PNG[] = {
     0x89, 'P', 'N', 'G', 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 'I', 'H', 'D', 'R', 0, 0, 0, 1, 0, 0, 0, 1, 8, 2, 0,
@@ -177,7 +156,7 @@ static void test_stdout_full(void **state)
         assert_int_equal(sr_test_lines(eb), 1);
         assert_non_null(strstr(eb, "standard output: No space left on device"));
         free(eb);
-        assert_int_equal(entries(w), 0);
+        assert_int_equal(sr_test_entries(w), 0);
     }
 }
 
@@ -257,7 +236,7 @@ static size_t snapshot(const char *w, snap *s, size_t max)
 
 static void same_as(const char *w, snap *s, size_t n)
 {
-    assert_int_equal(entries(w), (int)n);
+    assert_int_equal(sr_test_entries(w), (int)n);
     for (size_t i = 0; i < n; i++) {
         char p[4300];
         snprintf(p, sizeof p, "%s/%s", w, s[i].name);
@@ -373,7 +352,7 @@ static void test_second_figure_checked_first(void **state)
     char *now = sr_test_slurp(o, NULL);
     assert_string_equal(now, "old\n");
     free(now);
-    assert_int_equal(entries(w), 3);
+    assert_int_equal(sr_test_entries(w), 3);
 }
 
 /* 40 new directories for a figure, then a failure: none stays. */
@@ -388,7 +367,7 @@ static void test_nested_directories_removed(void **state)
     snprintf(fig + n, sizeof fig - n, "/fig");
     char *argv[] = {"sinkrate", "dispersion", mission, "--plot", fig, "-n", "0", NULL};
     one_line_exit2(7, argv, "-n");
-    assert_int_equal(entries(w), 0);
+    assert_int_equal(sr_test_entries(w), 0);
 }
 
 /* -o through a dangling link writes the file it names (the link stays);
@@ -416,7 +395,7 @@ static void test_link_and_long_name(void **state)
     free(out);
     free(err);
     assert_true(sr_test_file_has(longname, "CAUTION"));
-    assert_int_equal(entries(w), 3);
+    assert_int_equal(sr_test_entries(w), 3);
 }
 
 /* The figure's script records the command line without --threads: the
@@ -492,7 +471,7 @@ static pid_t start(char **argv, const char *w, int want, const char *errfile)
         _exit(127);
     }
     struct timespec ts = {0, 10 * 1000 * 1000};
-    for (int i = 0; i < 2000 && entries(w) < want; i++)
+    for (int i = 0; i < 2000 && sr_test_entries(w) < want; i++)
         nanosleep(&ts, NULL);
     return pid;
 }
@@ -518,7 +497,7 @@ static void test_signal_during_work(void **state)
                         "--samples", s, "--plot", fig, NULL};
         /* report.txt, its temporary, samples' temporary, new, new/dir and the figure's three */
         pid_t pid = start(argv, w, 8, errfile);
-        assert_int_equal(entries(w), 8);
+        assert_int_equal(sr_test_entries(w), 8);
         kill(pid, SIGS[i].sig);
         int status = 0;
         if (!wait_for(pid, &status, 30)) {
@@ -535,7 +514,7 @@ static void test_signal_during_work(void **state)
         assert_non_null(strstr(err, SIGS[i].name));
         assert_non_null(strstr(err, "no file was written or changed"));
         free(err);
-        assert_int_equal(entries(w), 1);
+        assert_int_equal(sr_test_entries(w), 1);
         char *now = sr_test_slurp(o, NULL);
         assert_string_equal(now, "old report\n");
         free(now);
@@ -576,7 +555,7 @@ static void test_signal_while_drawing(void **state)
         fail_msg("SIGINT did not stop the run");
     }
     assert_true(WIFEXITED(status) && WEXITSTATUS(status) == 130);
-    assert_int_equal(entries(w), 0);
+    assert_int_equal(sr_test_entries(w), 0);
     /* the fake gnuplot is gone (or a zombie nobody has reaped yet) */
     char stat_path[64], st[512] = "";
     snprintf(stat_path, sizeof stat_path, "/proc/%ld/stat", (long)child);

@@ -44,27 +44,6 @@ static const char *at(const char *name)
     return b;
 }
 
-/* Entries under d, recursively (temporaries and directories show). */
-static int entries(const char *d)
-{
-    DIR *h = opendir(d);
-    int n = 0;
-    struct dirent *e;
-    while (h && (e = readdir(h)) != NULL) {
-        if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
-            continue;
-        n++;
-        char sub[4096];
-        snprintf(sub, sizeof sub, "%s/%s", d, e->d_name);
-        struct stat st;
-        if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
-            n += entries(sub);
-    }
-    if (h)
-        closedir(h);
-    return n;
-}
-
 static void put(const char *path, const char *text)
 {
     FILE *f = fopen(path, "w");
@@ -103,12 +82,12 @@ static void test_commit_puts_in_place(void **state)
     assert_true(access(at("new.txt"), F_OK) != 0);
     assert_true(holds(at("old.txt"), "old\n"));
     assert_true(holds(sr_txn_pending(t, at("new.txt")), "new\n"));
-    assert_int_equal(entries(dir), 3);
+    assert_int_equal(sr_test_entries(dir), 3);
     assert_int_equal(sr_txn_commit(t, &e), SR_OK);
     sr_txn_free(t);
     assert_true(holds(at("new.txt"), "new\n"));
     assert_true(holds(at("old.txt"), "replaced\n"));
-    assert_int_equal(entries(dir), 2);
+    assert_int_equal(sr_test_entries(dir), 2);
 }
 
 /* A failed run: no temporary, no directory it made, old files untouched. */
@@ -116,7 +95,7 @@ static void test_abort_leaves_nothing(void **state)
 {
     (void)state;
     put(at("keep.txt"), "keep\n");
-    int before = entries(dir);
+    int before = sr_test_entries(dir);
     /* 40 levels of new directories (more than any fixed list would hold) */
     char deep[4096];
     size_t n = (size_t)snprintf(deep, sizeof deep, "%s", dir);
@@ -129,19 +108,19 @@ static void test_abort_leaves_nothing(void **state)
     assert_int_equal(sr_txn_reserve(t, "-o", at("keep.txt"), 0, &e), SR_OK);
     assert_int_equal(sr_txn_write(t, deep, "x", 1, &e), SR_OK);
     assert_int_equal(sr_txn_write(t, at("keep.txt"), "other\n", 6, &e), SR_OK);
-    assert_int_equal(entries(dir), before + 40 + 2);
+    assert_int_equal(sr_test_entries(dir), before + 40 + 2);
     assert_int_equal(sr_txn_abort(t), 0);
     /* after an undo nothing more can be made */
     assert_int_not_equal(sr_txn_reserve(t, "-o", at("late.txt"), 0, &e), SR_OK);
     sr_txn_free(t);
-    assert_int_equal(entries(dir), before);
+    assert_int_equal(sr_test_entries(dir), before);
     assert_true(holds(at("keep.txt"), "keep\n"));
 
     /* without a commit, freeing is an undo too */
     t = sr_txn_new();
     assert_int_equal(sr_txn_reserve(t, "-o", at("never.txt"), 0, &e), SR_OK);
     sr_txn_free(t);
-    assert_int_equal(entries(dir), before);
+    assert_int_equal(sr_test_entries(dir), before);
 }
 
 /* All or nothing: when a rename fails, the files already replaced come back. */
@@ -161,7 +140,7 @@ static void test_commit_rolls_back(void **state)
     sr_txn_free(t);
     assert_true(holds(at("a.txt"), "old a\n"));
     assert_true(access(at("b.txt"), F_OK) != 0);
-    assert_int_equal(entries(dir), 2); /* a.txt and the directory c.txt */
+    assert_int_equal(sr_test_entries(dir), 2); /* a.txt and the directory c.txt */
 }
 
 /* The same file twice: by path, through a link, by a hard link; inputs too. */
@@ -183,7 +162,7 @@ static void test_same_file_refused(void **state)
         {NULL, "m.yaml", "hard.yaml", "is also written by -o"},
     };
     for (size_t i = 0; i < sizeof ROWS / sizeof ROWS[0]; i++) {
-        int before = entries(dir);
+        int before = sr_test_entries(dir);
         for (int order = 0; order < 2; order++) {
             sr_txn *t = sr_txn_new();
             sr_error e;
@@ -202,7 +181,7 @@ static void test_same_file_refused(void **state)
             assert_non_null(strstr(e.msg, ROWS[i].msg));
             sr_txn_free(t);
         }
-        assert_int_equal(entries(dir), before);
+        assert_int_equal(sr_test_entries(dir), before);
     }
     assert_true(holds(at("m.yaml"), "mission: m\n"));
     /* the same output under the same option is one reservation */
@@ -237,7 +216,7 @@ static void test_names(void **state)
     assert_int_equal(lstat(at("dangling"), &st), 0);
     assert_true(S_ISLNK(st.st_mode));
     assert_true(holds(at("target.txt"), "via link\n"));
-    assert_int_equal(entries(dir), 2);
+    assert_int_equal(sr_test_entries(dir), 2);
     /* a link in a loop is no file */
     assert_int_equal(symlink("loop", at("loop")), 0);
     assert_int_not_equal(sr_file_write_atomic(at("loop"), "x", 1, &e), SR_OK);
@@ -278,7 +257,7 @@ static void test_devices(void **state)
     assert_int_not_equal(sr_txn_close(t, f, &e), SR_OK);
     assert_non_null(strstr(e.msg, "--samples: /dev/full: cannot write: No space left on device"));
     sr_txn_free(t);
-    assert_int_equal(entries(dir), 1);
+    assert_int_equal(sr_test_entries(dir), 1);
 }
 
 /* A program filling a temporary: stopped and dead before its file goes. */
@@ -301,7 +280,7 @@ static void test_child_stopped(void **state)
     assert_true(WIFSIGNALED(status) && WTERMSIG(status) == SIGKILL);
     assert_int_not_equal(sr_txn_spawn(t, &pid, "/bin/sh", NULL, NULL, argv), 0); /* none after the undo */
     sr_txn_free(t);
-    assert_int_equal(entries(dir), 0);
+    assert_int_equal(sr_test_entries(dir), 0);
 }
 
 int main(void)

@@ -340,3 +340,24 @@ char *sr_test_slurp(const char *path, size_t *len)
         *len = n;
     return data;
 }
+
+int sr_test_entries(const char *dir)
+{
+    DIR *h = opendir(dir);
+    if (!h)
+        return 0;
+    int n = 0;
+    struct dirent *e;
+    while ((e = readdir(h)) != NULL) {
+        if (strcmp(e->d_name, ".") == 0 || strcmp(e->d_name, "..") == 0)
+            continue;
+        n++;
+        char sub[4200];
+        snprintf(sub, sizeof sub, "%s/%s", dir, e->d_name);
+        struct stat st;
+        if (lstat(sub, &st) == 0 && S_ISDIR(st.st_mode))
+            n += sr_test_entries(sub);
+    }
+    closedir(h);
+    return n;
+}

@@ -77,6 +77,10 @@ int sr_test_lines(const char *s);
  * (may be NULL); NULL when it cannot be read (at most 64 MiB). */
 char *sr_test_slurp(const char *path, size_t *len);
 
+/* Entries under dir, recursively (so a stray temporary or directory shows);
+ * 0 when it cannot be opened. */
+int sr_test_entries(const char *dir);
+
 /* The source of figure checks: a PNG starts with its signature and the IHDR
  * chunk, which holds the width and height. */
 #define SR_SRC_PNG "PNG specification (W3C REC / ISO/IEC 15948:2004) sec. 5.2 signature, 11.2.2 IHDR"
